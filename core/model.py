@@ -1,0 +1,278 @@
+"""The network as plain, frozen dataclasses in SI units.
+
+A network is a fluid, two common nodes and the branches between them; each branch is one or more
+series segments and an optional valve. Validation happens here, once, so the solver can trust
+its arrays. Every failure is an :class:`InputError` naming the field path.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Literal
+
+from .errors import InputError
+
+STANDARD_GRAVITY = 9.80665
+"""Standard acceleration of gravity, m/s² (ISO 80000-3; CGPM 1901)."""
+
+FRICTION_MODELS = ("colebrook", "haaland", "swamee-jain", "churchill", "hazen-williams", "laminar")
+FrictionModel = Literal[
+    "colebrook", "haaland", "swamee-jain", "churchill", "hazen-williams", "laminar"
+]
+
+CV_PER_KV = 1.156
+"""Cv (US gpm, psi) per Kv (m³/h, bar); IEC 60534-1 / ISA-75.01 give Cv = 1.156 Kv."""
+
+
+def _finite(path: str, value: float) -> float:
+    try:
+        number = float(value)
+    except (TypeError, ValueError):
+        raise InputError(path, value, "must be a number") from None
+    if not math.isfinite(number):
+        raise InputError(path, value, "must be a finite number")
+    return number
+
+
+def positive(path: str, value: float) -> float:
+    """``value`` as a float, or an InputError unless it is finite and > 0."""
+    number = _finite(path, value)
+    if number <= 0:
+        raise InputError(path, value, "must be positive")
+    return number
+
+
+def non_negative(path: str, value: float) -> float:
+    """``value`` as a float, or an InputError unless it is finite and ≥ 0."""
+    number = _finite(path, value)
+    if number < 0:
+        raise InputError(path, value, "must not be negative")
+    return number
+
+
+def finite(path: str, value: float) -> float:
+    """``value`` as a float, or an InputError unless it is finite."""
+    return _finite(path, value)
+
+
+@dataclass(frozen=True)
+class Fluid:
+    """An incompressible liquid at its operating state.
+
+    density: kg/m³; viscosity: dynamic viscosity, Pa·s. ``kind`` says where the properties
+    came from (``water``, ``seawater``, ``custom``…); ``source`` names the property model.
+    """
+
+    name: str
+    density: float
+    viscosity: float
+    kind: str = "custom"
+    source: str = "entered by the user"
+
+    def __post_init__(self) -> None:
+        positive("fluid.density", self.density)
+        positive("fluid.viscosity", self.viscosity)
+
+    @property
+    def kinematic_viscosity(self) -> float:
+        """m²/s."""
+        return self.viscosity / self.density
+
+    @property
+    def is_watery(self) -> bool:
+        """True for water and water-based liquids, where the 3 m/s velocity rule applies."""
+        return self.kind in ("water", "seawater", "ethylene-glycol", "propylene-glycol")
+
+
+@dataclass(frozen=True)
+class Segment:
+    """One straight run of one size, with the fittings along it.
+
+    diameter: inner diameter, m; length: m; roughness: absolute roughness ε, m;
+    minor_k: sum of minor-loss coefficients referred to this segment's velocity (–);
+    hw_c: Hazen–Williams C (–), used only by that friction model.
+    """
+
+    diameter: float
+    length: float
+    roughness: float = 0.0
+    minor_k: float = 0.0
+    hw_c: float | None = None
+
+    def validate(self, path: str) -> None:
+        d = positive(f"{path}.diameter", self.diameter)
+        non_negative(f"{path}.length", self.length)
+        eps = non_negative(f"{path}.roughness", self.roughness)
+        if eps >= d / 2:
+            raise InputError(
+                f"{path}.roughness", self.roughness, f"must be below half the diameter ({d / 2:g} m)"
+            )
+        non_negative(f"{path}.minor_k", self.minor_k)
+        if self.hw_c is not None:
+            positive(f"{path}.hw_c", self.hw_c)
+
+    @property
+    def area(self) -> float:
+        """Flow area, m²."""
+        return math.pi * self.diameter**2 / 4
+
+
+@dataclass(frozen=True)
+class Branch:
+    """A path between the two common nodes: series segments and an optional valve.
+
+    valve_kv: the valve's flow coefficient Kv in m³/h at 1 bar (None: no valve loss beyond the K
+    values). Use :func:`kv_from_cv` for a Cv.
+    """
+
+    name: str
+    segments: tuple[Segment, ...]
+    valve_kv: float | None = None
+
+    def validate(self, path: str) -> None:
+        if not self.name or not self.name.strip():
+            raise InputError(f"{path}.name", repr(self.name), "must not be empty")
+        if not self.segments:
+            raise InputError(f"{path}.segments", "[]", "a branch needs at least one segment")
+        for j, seg in enumerate(self.segments):
+            seg.validate(f"{path}.segments[{j}]")
+        if self.valve_kv is not None:
+            positive(f"{path}.valve_kv", self.valve_kv)
+
+
+def kv_from_cv(cv: float) -> float:
+    """Kv (m³/h, bar) from Cv (US gpm, psi): Kv = Cv / 1.156 (IEC 60534-1)."""
+    return cv / CV_PER_KV
+
+
+@dataclass(frozen=True)
+class Network:
+    """Branches in parallel between two common nodes.
+
+    elevation_change: z_outlet − z_inlet, m; gravity: m/s²; friction: the model for the
+    turbulent regime (see :mod:`branchwise.core.friction`).
+    """
+
+    fluid: Fluid
+    branches: tuple[Branch, ...]
+    elevation_change: float = 0.0
+    gravity: float = STANDARD_GRAVITY
+    friction: FrictionModel = "colebrook"
+    velocity_limit: float = 3.0
+    """m/s; above it a water line gets a warning (common practice: noise and erosion)."""
+
+    def __post_init__(self) -> None:
+        if not self.branches:
+            raise InputError("branches", "[]", "a network needs at least one branch")
+        seen: dict[str, int] = {}
+        for i, br in enumerate(self.branches):
+            br.validate(f"branches[{i}]")
+            key = br.name.strip().casefold()
+            if key in seen:
+                raise InputError(
+                    f"branches[{i}].name", br.name, f"duplicates branches[{seen[key]}].name"
+                )
+            seen[key] = i
+        finite("conditions.elevation_change", self.elevation_change)
+        positive("conditions.gravity", self.gravity)
+        if self.friction not in FRICTION_MODELS:
+            raise InputError(
+                "conditions.friction", self.friction, f"must be one of {', '.join(FRICTION_MODELS)}"
+            )
+        if self.friction == "hazen-williams":
+            for i, br in enumerate(self.branches):
+                for j, seg in enumerate(br.segments):
+                    if seg.hw_c is None:
+                        raise InputError(
+                            f"branches[{i}].segments[{j}].hw_c",
+                            "nothing",
+                            "Hazen-Williams needs a C value for every segment",
+                        )
+
+    def index_of(self, name: str, path: str = "solve.branch") -> int:
+        """Index of the branch called ``name`` (case-insensitive), or an InputError."""
+        key = name.strip().casefold()
+        for i, br in enumerate(self.branches):
+            if br.name.strip().casefold() == key:
+                return i
+        names = ", ".join(repr(b.name) for b in self.branches)
+        raise InputError(path, repr(name), f"no such branch (have {names})")
+
+    def replace_branch(self, index: int, branch: Branch) -> Network:
+        branches = list(self.branches)
+        branches[index] = branch
+        return Network(
+            self.fluid, tuple(branches), self.elevation_change, self.gravity, self.friction,
+            self.velocity_limit,
+        )
+
+
+# ---- what is given and what is sought -------------------------------------------------------
+
+@dataclass(frozen=True)
+class PressureDrop:
+    """Measured p_inlet − p_outlet between the common nodes, Pa."""
+
+    value: float
+
+
+@dataclass(frozen=True)
+class TotalFlow:
+    """Measured total flow into the inlet node, m³/s (signed)."""
+
+    value: float
+
+
+@dataclass(frozen=True)
+class MeasuredFlow:
+    """A flow measured on one branch (a clamp-on reading), m³/s (signed)."""
+
+    branch: str
+    value: float
+
+
+Given = PressureDrop | TotalFlow | MeasuredFlow
+
+UNKNOWNS = ("diameter", "length", "roughness")
+
+
+@dataclass(frozen=True)
+class FindFlows:
+    """Find the flow in every branch (the default)."""
+
+
+@dataclass(frozen=True)
+class FindUnknown:
+    """Find one property of one segment of a branch so that the branch carries ``target_flow``.
+
+    quantity: ``diameter`` | ``length`` | ``roughness``; target_flow: m³/s; segment: index of the
+    segment within the branch whose property is sought.
+    """
+
+    quantity: str
+    branch: str
+    target_flow: float
+    segment: int = 0
+
+
+Find = FindFlows | FindUnknown
+
+
+def branch(
+    name: str,
+    diameter: float,
+    length: float,
+    roughness: float = 0.0,
+    minor_k: float = 0.0,
+    valve_kv: float | None = None,
+    hw_c: float | None = None,
+) -> Branch:
+    """A one-segment branch: the common case, short to write."""
+    return Branch(name, (Segment(diameter, length, roughness, minor_k, hw_c),), valve_kv)
+
+
+__all__ = [
+    "Branch", "Find", "FindFlows", "FindUnknown", "Fluid", "Given", "MeasuredFlow", "Network",
+    "PressureDrop", "Segment", "TotalFlow", "branch", "kv_from_cv",
+]

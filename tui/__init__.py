@@ -1,0 +1,1 @@
+"""Command line and terminal app for branchwise (the only place that imports Textual)."""
