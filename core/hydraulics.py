@@ -186,7 +186,7 @@ def flows_at_head(lay: Layout, head: Array | float) -> tuple[Array, RootInfo]:
     hi = np.full_like(x, np.inf)
     resid = np.full_like(x, np.inf)
     it = 0
-    for it in range(1, MAX_ITER + 1):
+    for it in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
         h, s = head_and_slope(sub, np.exp(x))
         resid = np.log(h) - ln_t
         done = np.abs(resid) <= HEAD_RTOL
@@ -251,7 +251,7 @@ def head_for_total_flow(lay: Layout, total: Array | float) -> tuple[Array, Array
     resid = np.zeros(groups)
     iters = 0
     inner_ok = True
-    for iters in range(1, MAX_ITER + 1):
+    for iters in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
         hb = np.where(live, np.exp(u), 0.0)[gb]
         q, info = flows_at_head(lay, hb)
         inner_ok = info.converged

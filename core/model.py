@@ -106,7 +106,8 @@ class Segment:
         eps = non_negative(f"{path}.roughness", self.roughness)
         if eps >= d / 2:
             raise InputError(
-                f"{path}.roughness", self.roughness, f"must be below half the diameter ({d / 2:g} m)"
+                f"{path}.roughness", self.roughness,
+                f"must be below half the diameter ({d / 2:g} m)",
             )
         non_negative(f"{path}.minor_k", self.minor_k)
         if self.hw_c is not None:
