@@ -120,7 +120,8 @@ def churchill(re: Array, rr: Array) -> tuple[Array, Array]:
 
 def _churchill(re: Array, rr: Array) -> Array:
     # Work in logs: A and B reach 1e300 and beyond at either end of the range.
-    ln_a = 16.0 * np.log(2.457 * np.log(1.0 / ((7.0 / re) ** 0.9 + 0.27 * rr)))
+    # A is a 16th power: below Re ≈ 7 its base is negative, hence the absolute value.
+    ln_a = 16.0 * np.log(np.abs(2.457 * np.log(1.0 / ((7.0 / re) ** 0.9 + 0.27 * rr))))
     ln_b = 16.0 * np.log(37530.0 / re)
     ln_ab = np.logaddexp(ln_a, ln_b)
     ln_term = np.logaddexp(12.0 * np.log(8.0 / re), -1.5 * ln_ab)
