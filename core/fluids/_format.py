@@ -1,0 +1,22 @@
+"""How fluid states read in names and error messages (°C, %, g/kg for people; SI inside)."""
+
+from __future__ import annotations
+
+ZERO_CELSIUS_K = 273.15
+"""0 °C in kelvin (ITS-90 / SI definition of the Celsius scale)."""
+
+
+def celsius(temperature_k: float, digits: int = 1) -> str:
+    """``temperature_k`` (K) as a Celsius number with ``digits`` decimals, never "-0.0"."""
+    text = f"{temperature_k - ZERO_CELSIUS_K:.{digits}f}"
+    return text[1:] if text.startswith("-") and float(text) == 0 else text
+
+
+def percent(fraction: float) -> str:
+    """A mass fraction (kg/kg) as a percentage without trailing zeros: 0.3 → "30"."""
+    return f"{fraction * 100:.4g}"
+
+
+def state(temperature_k: float) -> str:
+    """A temperature as the value of an error message: "268.15 K (-5.00 °C)"."""
+    return f"{temperature_k:g} K ({celsius(temperature_k, 2)} °C)"
