@@ -12,7 +12,13 @@ from __future__ import annotations
 import hashlib
 import os
 import re
+from collections.abc import Iterator
+from dataclasses import dataclass
 from pathlib import Path
+from typing import NamedTuple
+
+from .errors import InputError
+from .tomlfile import load_toml
 
 APP_NAME = "branchwise"
 DATA_DIR_ENV = "BRANCHWISE_DATA_DIR"
@@ -92,3 +98,53 @@ def where_files_live(base: Path | None = None) -> dict[str, Path]:
         "sites_dir": sites_dir(root),
         "recovery_dir": recovery_dir(root),
     }
+
+
+class SiteEntry(NamedTuple):
+    """One site file: its path, its ``name`` (or the file stem) and modification time (s)."""
+
+    path: Path
+    name: str
+    modified: float
+
+
+@dataclass(frozen=True)
+class SiteListing:
+    """Site files, most recently modified first, and what could not be read (messages)."""
+
+    sites: list[SiteEntry]
+    problems: list[str]
+
+    def __iter__(self) -> Iterator[SiteEntry]:
+        return iter(self.sites)
+
+    def __len__(self) -> int:
+        return len(self.sites)
+
+
+def list_sites(directory: Path | None = None) -> SiteListing:
+    """The ``*.toml`` site files in ``directory`` (default: :func:`sites_dir`).
+
+    Files that do not load are skipped and reported in ``problems``; a missing folder is
+    simply empty. Also lists the recovery folder when given :func:`recovery_dir`.
+    """
+    folder = sites_dir() if directory is None else Path(directory)
+    sites: list[SiteEntry] = []
+    problems: list[str] = []
+    if not folder.is_dir():
+        return SiteListing(sites, problems)
+    for path in sorted(folder.glob("*.toml")):
+        try:
+            doc = load_toml(path)
+            modified = path.stat().st_mtime
+        except InputError as exc:
+            problems.append(str(exc))
+            continue
+        except OSError as exc:
+            problems.append(str(InputError(path.name, str(path), f"cannot read: {exc}")))
+            continue
+        name = doc.get("name")
+        label = name.strip() if isinstance(name, str) and name.strip() else path.stem
+        sites.append(SiteEntry(path, label, modified))
+    sites.sort(key=lambda entry: entry.modified, reverse=True)
+    return SiteListing(sites, problems)

@@ -1,0 +1,301 @@
+"""Safe reading and writing of the TOML files people keep.
+
+Three promises, because these files hold a person's field work:
+
+* A save never leaves a half-written file under the real name. :func:`atomic_write_text`
+  writes a temporary file in the same folder, flushes and fsyncs it, then swaps it in with
+  ``os.replace`` (atomic on POSIX and Windows); the previous version survives as ``<name>.bak``.
+* A file that does not load is reported (which file, which line, why) and never modified:
+  :func:`load_toml` only reads.
+* Every file written carries ``format = N`` and ``kind = "..."``; :func:`migrate` brings older
+  formats up to :data:`FORMAT` one step at a time and refuses newer ones.
+"""
+
+from __future__ import annotations
+
+import copy
+import glob
+import os
+import re
+import secrets
+import stat
+import time
+import tomllib
+from collections.abc import Callable, Mapping, MutableMapping
+from pathlib import Path
+from typing import Any
+
+from .errors import InputError
+
+FORMAT = 1
+"""The file format this version writes and reads. History: 0 = no ``format`` key (written by
+hand); 1 = adds ``format`` and ``kind`` at the top of the file."""
+
+KINDS = ("presets", "settings", "site")
+"""What a file can be; a format-1 file says which in its ``kind`` key."""
+
+BACKUP_SUFFIX = ".bak"
+_TEMP_SUFFIX = ".tmp"
+STALE_TEMP_SECONDS = 3600.0
+"""A temporary file this old (s) was left by a writer that died; a live save takes seconds."""
+
+
+def backup_path(path: Path) -> Path:
+    """``north.toml`` → ``north.toml.bak``: where the previous version of ``path`` is kept."""
+    return path.with_name(path.name + BACKUP_SUFFIX)
+
+
+def _fsync_dir(folder: Path) -> None:
+    """Make a rename in ``folder`` durable. POSIX only: Windows cannot open a folder."""
+    if os.name != "posix":
+        return
+    fd = os.open(folder, os.O_RDONLY)
+    try:
+        os.fsync(fd)
+    finally:
+        os.close(fd)
+
+
+def _replace_with_bytes(path: Path, data: bytes, mode: int | None) -> None:
+    """Write ``data`` to a fresh temporary file beside ``path``, fsync it, rename it over ``path``.
+
+    The temporary name starts with a dot and ends in ``.tmp`` so that folder listings of
+    ``*.toml`` never pick it up, even when a killed process leaves one behind.
+    """
+    temp = path.with_name(f".{path.name}.{secrets.token_hex(4)}{_TEMP_SUFFIX}")
+    # 0o666 lets the umask decide the permissions of a new file, as for any other save.
+    fd = os.open(temp, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_BINARY", 0), 0o666)
+    try:
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
+            handle.flush()
+            os.fsync(handle.fileno())
+        if mode is not None:
+            os.chmod(temp, mode)
+        os.replace(temp, path)
+    except BaseException:
+        # Also on KeyboardInterrupt: the temp file is ours and useless; the error goes on.
+        temp.unlink(missing_ok=True)
+        raise
+
+
+def _sweep_stale_temps(path: Path) -> None:
+    """Delete temporary files of ``path`` (and of its backup) left by a killed writer."""
+    cutoff = time.time() - STALE_TEMP_SECONDS
+    for leftover in path.parent.glob(f".{glob.escape(path.name)}.*{_TEMP_SUFFIX}"):
+        try:
+            if leftover.stat().st_mtime < cutoff:
+                leftover.unlink()
+        except FileNotFoundError:
+            continue  # another writer swept it first
+
+
+def atomic_write_text(path: Path, text: str, *, backup: bool = True) -> None:
+    """Save ``text`` (UTF-8) as ``path`` so that a crash at any instant leaves a complete file.
+
+    With ``backup``, the file being replaced is first copied to ``<name>.bak``, also through
+    a temporary file and ``os.replace``, so that at every instant the real name holds either
+    the complete old text or the complete new one, and the ``.bak`` is complete too. The new
+    file keeps the permissions of the one it replaces. Missing folders are created here, and
+    temporary files older than :data:`STALE_TEMP_SECONDS` left by a killed writer are removed.
+
+    An operating-system failure (permissions, full disk) becomes an InputError naming the
+    file; no temporary file is left behind.
+    """
+    path = Path(path)
+    data = text.encode("utf-8")
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        try:
+            old_mode: int | None = stat.S_IMODE(path.stat().st_mode)
+        except FileNotFoundError:
+            old_mode = None
+        if backup and old_mode is not None:
+            _replace_with_bytes(backup_path(path), path.read_bytes(), old_mode)
+        _replace_with_bytes(path, data, old_mode)
+        _fsync_dir(path.parent)
+        _sweep_stale_temps(path)
+    except OSError as exc:
+        reason = f"could not save: {exc.strerror or exc}"
+        raise InputError(path.name, str(path), reason) from exc
+
+
+# Reading -----------------------------------------------------------------------------------
+
+_POSITION = re.compile(r"\s*\((?:at line (\d+), column (\d+)|at end of document)\)\s*$")
+_PLAIN_WORDS: tuple[tuple[str, str], ...] = (
+    ("Invalid value", "this value is not valid TOML (text needs quotes)"),
+    ("Invalid statement", "this line is neither `key = value` nor a `[table]` header"),
+    ("Expected '=' after a key", "expected `=` after the key"),
+    ("Cannot overwrite a value", "this key is set twice"),
+    ("Cannot declare", "this table is declared twice"),
+    ("Unterminated string", "a quoted string is not closed"),
+    ("Unclosed array", "a list is not closed with `]`"),
+    ("Unclosed inline table", "an inline table is not closed with `}`"),
+    ("Illegal character '\\n'", "a quoted string is not closed on its line"),
+    ("Illegal character", "contains a character that TOML does not allow"),
+    ("Expected ']' at the end of a table", "a `[table]` header is not closed with `]`"),
+    ("Invalid initial character for a key", "a key starts with a character keys cannot have"),
+    ("Invalid date or datetime", "this date or time is not valid"),
+)
+
+
+def _printable(text: str, limit: int = 60) -> str:
+    """``text`` with control characters escaped and cut to ``limit`` characters, for messages."""
+    shown = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text.strip())
+    return shown if len(shown) <= limit else shown[: limit - 1] + "…"
+
+
+def _plain(message: str) -> str:
+    for start, words in _PLAIN_WORDS:
+        if message.startswith(start):
+            return words
+    return message[:1].lower() + message[1:]
+
+
+def _decode_error(field: str, text: str, exc: tomllib.TOMLDecodeError) -> InputError:
+    """Turn the parser's ``"Invalid value (at line 7, column 5)"`` into file, line and reason."""
+    message = str(exc)
+    found = _POSITION.search(message)
+    lines = text.splitlines()
+    if found and found.group(1):
+        line, column = int(found.group(1)), int(found.group(2))
+        where = f"column {column}"
+    else:
+        line, where = max(len(lines), 1), "end of file"
+    core = message[: found.start()] if found else message
+    offending = lines[line - 1] if 0 < line <= len(lines) else ""
+    return InputError(f"{field} line {line}", _printable(offending), f"{_plain(core)} ({where})")
+
+
+def load_toml(path: Path, field: str = "") -> dict[str, Any]:
+    """Read and parse the TOML file ``path``; never modifies it.
+
+    ``field`` names the file in errors (default: its file name). Every failure is an
+    InputError: a missing file, an unreadable one, bytes that are not UTF-8 text, and a parse
+    error, whose field is ``"<file> line <n>"``, whose value is the offending line and whose
+    reason is the parser's complaint in plain words. A UTF-8 byte-order mark is accepted.
+    """
+    path = Path(path)
+    field = field or path.name
+    try:
+        data = path.read_bytes()
+    except FileNotFoundError:
+        raise InputError(field, str(path), "file not found") from None
+    except OSError as exc:
+        raise InputError(field, str(path), f"cannot read: {exc.strerror or exc}") from None
+    try:
+        text = data.decode("utf-8").removeprefix("\ufeff")
+    except UnicodeDecodeError as exc:
+        line = data.count(b"\n", 0, exc.start) + 1
+        bad = data[exc.start : exc.start + 8]
+        reason = "is not UTF-8 text (binary data or another encoding); save it as UTF-8"
+        raise InputError(f"{field} line {line}", repr(bad), reason) from None
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise _decode_error(field, text, exc) from None
+
+
+# Format versions ---------------------------------------------------------------------------
+
+
+def _from_0(doc: dict[str, Any], kind: str) -> dict[str, Any]:
+    """Format 0 → 1: a hand-written file without ``format`` gains ``format`` and ``kind``."""
+    doc["kind"] = kind
+    doc["format"] = 1
+    return doc
+
+
+_STEPS: dict[int, Callable[[dict[str, Any], str], dict[str, Any]]] = {0: _from_0}
+"""One step per older format: ``_STEPS[n]`` turns format n into format n + 1."""
+
+
+def _check_kind(kind: str) -> None:
+    if kind not in KINDS:
+        raise ValueError(f"kind must be one of {', '.join(KINDS)}, not {kind!r}")
+
+
+def migrate(doc: dict[str, Any], kind: str, path: Path | str) -> dict[str, Any]:
+    """``doc`` as read from ``path``, brought to format :data:`FORMAT`; ``doc`` is not changed.
+
+    A missing ``format`` key means format 0. A file from a newer branchwise is refused rather
+    than half-read; a file that says it is another kind (a settings file opened as a site) is
+    refused too. ``kind`` is one of :data:`KINDS`.
+    """
+    _check_kind(kind)
+    name = Path(path).name
+    version = doc.get("format", 0)
+    if isinstance(version, bool) or not isinstance(version, int) or version < 0:
+        raise InputError(f"{name} format", version, "must be a whole number such as 1")
+    if version > FORMAT:
+        reason = f"written by a newer branchwise (format {version}); this one reads format {FORMAT}"
+        raise InputError(f"{name} format", version, reason)
+    said = doc.get("kind", kind)
+    if said != kind:
+        raise InputError(f"{name} kind", said, f"this is not a {kind} file")
+    result = copy.deepcopy(doc)
+    while version < FORMAT:
+        result = _STEPS[version](result, kind)
+        version += 1
+    return result
+
+
+def stamp(doc: MutableMapping[str, Any], kind: str) -> None:
+    """Set ``format`` and ``kind`` in a document about to be written (dict or tomlkit doc)."""
+    _check_kind(kind)
+    # Only when different: re-setting a tomlkit item would drop a comment on its line.
+    if doc.get("format") != FORMAT:
+        doc["format"] = FORMAT
+    if doc.get("kind") != kind:
+        doc["kind"] = kind
+
+
+# Comment-preserving edits ------------------------------------------------------------------
+
+
+def plain(item: object) -> object:
+    """A tomlkit item as a plain Python value (plain values pass through)."""
+    unwrap = getattr(item, "unwrap", None)
+    return unwrap() if callable(unwrap) else item
+
+
+def sync_table(table: MutableMapping[str, Any], values: Mapping[str, object]) -> None:
+    """Make ``table`` hold exactly ``values``, touching only what changed: a value left as it
+    was keeps its line and its comment."""
+    for name in [name for name in table if name not in values]:
+        del table[name]
+    for name, value in values.items():
+        if name not in table or plain(table[name]) != value:
+            table[name] = value
+
+
+def editable(path: Path, kind: str, header: str) -> Any:
+    """The file at ``path`` as a tomlkit document to change and save, or a new one that
+    starts with the comment ``header``.
+
+    Refuses (InputError) a file that does not load or comes from a newer version: saving over
+    it would destroy what the person wrote.
+    """
+    import tomlkit  # lazy: only a save needs the comment-preserving writer
+
+    if not path.exists():
+        doc = tomlkit.document()
+        doc.add(tomlkit.comment(header))
+        doc.add(tomlkit.nl())
+        stamp(doc, kind)
+        return doc
+    try:
+        migrate(load_toml(path), kind, path)
+    except InputError as exc:
+        reason = f"has an error and must be fixed first ({exc})"
+        raise InputError(path.name, str(path), reason) from exc
+    return tomlkit.parse(path.read_text(encoding="utf-8-sig"))
+
+
+def save_document(path: Path, doc: Any, kind: str) -> None:
+    """Stamp ``doc`` (a tomlkit document) with format and kind and write it atomically."""
+    import tomlkit
+
+    stamp(doc, kind)
+    atomic_write_text(path, tomlkit.dumps(doc))
