@@ -172,7 +172,7 @@ class Network:
             key = br.name.strip().casefold()
             if key in seen:
                 raise InputError(
-                    f"branches[{i}].name", br.name, f"duplicates branches[{seen[key]}].name"
+                    f"branches[{i}].name", repr(br.name), f"duplicates branches[{seen[key]}].name"
                 )
             seen[key] = i
         finite("conditions.elevation_change", self.elevation_change)
