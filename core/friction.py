@@ -150,6 +150,8 @@ def darcy(re: Array, rr: Array, model: str = "colebrook") -> tuple[Array, Array]
     if model == "churchill":
         return churchill(np.maximum(re, 1e-300), rr)
     turbulent = TURBULENT[model]
+    if re.size and re.min() >= RE_TURBULENT:  # the usual case on a plant: skip the masks
+        return turbulent(re, rr)
     f = np.empty_like(re)
     slope = np.empty_like(re)
     lam = re < RE_LAMINAR
