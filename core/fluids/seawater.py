@@ -8,8 +8,9 @@ The coefficients are the full-precision ones the authors distribute with their M
 property library (SW_Density, SW_Viscosity); the paper prints them rounded.
 
 Both correlations are for 0.1 MPa (at saturation pressure above 100 °C). The pressure given here
-is used only to refuse boiling states: liquid compressibility changes the density by about
-0.045 % per MPa, which this model leaves out.
+is used only to refuse boiling states. Compression raises the density of seawater by about
+0.045 % per MPa (from memory — verify), which this model leaves out; pressures are therefore
+accepted up to 2.5 MPa, where that error stays near the correlation's own ±0.1 %.
 """
 
 from __future__ import annotations
@@ -21,6 +22,8 @@ from .water import STANDARD_ATMOSPHERE_PA, boiling_error, liquid_range_k
 
 T_MIN_K = 273.15
 T_MAX_K = 453.15
+PRESSURE_MAX_PA = 2.5e6
+"""Pa; above it the neglected compressibility would exceed the density correlation's ±0.1 %."""
 SALINITY_MAX = 0.15
 """kg/kg; the viscosity correlation's upper limit (the density one reaches 0.16)."""
 
@@ -75,7 +78,7 @@ def seawater(
     Refuses salinity outside 0–0.15 kg/kg (``fluid.salinity``) and temperatures outside the
     correlations' 0–180 °C or at/above pure water's boiling point at that pressure
     (``fluid.temperature``; the dissolved salts raise it by well under 1 K, so this is the safe
-    side).
+    side), and pressures outside 611.657 Pa–2.5 MPa (``fluid.pressure``).
     """
     s = finite("fluid.salinity", salinity_kg_kg)
     if not 0.0 <= s <= SALINITY_MAX:
@@ -93,6 +96,13 @@ def seawater(
             "(range of Sharqawy et al. 2010)",
         )
     _, boiling_k = liquid_range_k(pressure_pa)
+    if pressure_pa > PRESSURE_MAX_PA:
+        raise InputError(
+            "fluid.pressure",
+            f"{pressure_pa:g} Pa",
+            f"must be at most {PRESSURE_MAX_PA / 1e6:g} MPa for seawater (the density model "
+            "is for low pressure)",
+        )
     if t >= boiling_k:
         raise boiling_error(t, boiling_k, float(pressure_pa), "seawater")
     return Fluid(
