@@ -1,0 +1,449 @@
+"""From a :class:`~branchwise.core.sitefile.Site` as typed to the core's SI objects, and solved.
+
+:func:`build` converts every value through :mod:`.units`, :mod:`.fluids` and :mod:`.catalogs`
+and checks it, naming the field as it appears in the file (``branches[1].length``, or
+``branches[1].segments[0].length`` for a branch given as segments). :func:`solve_site` solves
+and, for a diameter found on a segment whose size came from a pipe catalog, adds the smallest
+catalog size that is large enough and the flow the branch would then carry.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections.abc import Mapping
+from dataclasses import dataclass, replace
+from typing import Any, Protocol
+
+from .errors import InputError
+from .model import (
+    FRICTION_MODELS,
+    STANDARD_GRAVITY,
+    Branch,
+    Find,
+    FindFlows,
+    FindUnknown,
+    Fluid,
+    Given,
+    MeasuredFlow,
+    Network,
+    PressureDrop,
+    Segment,
+    TotalFlow,
+    kv_from_cv,
+)
+from .results import Result
+from .sitefile import BranchSpec, SegmentSpec, Site, Value
+from .units import KINDS, describe, format_quantity, parse_quantity
+
+CONDITIONS = ("new", "aged")
+FINDS = ("flows", "diameter", "length", "roughness")
+
+
+class PresetSource(Protocol):
+    def get(self, kind: str, key: str) -> dict[str, Any]: ...
+
+
+@dataclass(frozen=True)
+class Built:
+    """A site in SI, ready to solve.
+
+    sizes[i][j] is the catalog size of segment j of branch i (None for a plain diameter);
+    fittings_k[i][j] the K its fittings add (–); paths[i][j] the field path of that segment.
+    """
+
+    network: Network
+    given: Given
+    find: Find
+    sizes: tuple[tuple[Any, ...], ...]
+    fittings_k: tuple[tuple[float, ...], ...]
+    paths: tuple[tuple[str, ...], ...]
+    notes: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class CatalogPick:
+    """The smallest catalog size at least as large as a found diameter, and what it carries.
+
+    flow: m³/s in the branch with that size, the given condition held (``held`` says which).
+    """
+
+    size: Any
+    flow: float
+    held: str
+    result: Result
+
+
+@dataclass(frozen=True)
+class SiteResult:
+    """A solved site: the core result, the built network, and the catalog size if any."""
+
+    site: Site
+    built: Built
+    result: Result
+    catalog: CatalogPick | None
+    notes: tuple[str, ...] = ()
+
+
+# ---- values --------------------------------------------------------------------------------
+
+def _quantity(value: Value, kind: str, path: str, required: bool = True) -> float | None:
+    if value is None:
+        if required:
+            raise InputError(path, "nothing", "is required")
+        return None
+    return parse_quantity(value, kind, path)
+
+
+def _number(value: Value, path: str) -> float | None:
+    """A plain number (K, Kv, Cv, counts): a TOML number or text holding only a number."""
+    if value is None:
+        return None
+    if isinstance(value, bool):
+        raise InputError(path, describe(value), "must be a number")
+    if isinstance(value, str):
+        try:
+            value = float(value.strip())
+        except ValueError:
+            raise InputError(path, describe(value), "must be a plain number") from None
+    number = float(value)
+    if not math.isfinite(number):
+        raise InputError(path, describe(value), "must be a finite number")
+    return number
+
+
+def _at_least(number: float | None, path: str, value: Value, low: float, strict: bool) -> None:
+    if number is not None and (number < low or (strict and number == low)):
+        raise InputError(path, describe(value), "must be positive" if strict and low == 0
+                         else "must not be negative")
+
+
+def _text(value: Value, path: str) -> str | None:
+    if value is None:
+        return None
+    if not isinstance(value, str) or not value.strip():
+        raise InputError(path, describe(value), "must be non-empty text")
+    return value.strip()
+
+
+# ---- the fluid -----------------------------------------------------------------------------
+
+_FLUID_ARGS = {
+    "temperature": ("temperature_k", "temperature"),
+    "pressure": ("pressure_pa", "pressure"),
+    "concentration": ("mass_fraction", "fraction"),
+    "salinity": ("salinity_kg_kg", "salinity"),
+    "density": ("density", "density"),
+    "viscosity": ("viscosity", "viscosity"),
+    "kinematic_viscosity": ("kinematic_viscosity", "kinematic_viscosity"),
+}
+
+
+def build_fluid(site: Site, presets: PresetSource | None = None) -> Fluid:
+    """The site's liquid. ``kind`` is a built-in kind or the key of a user fluid preset, whose
+    values the site's own values override (a preset's bare numbers are SI)."""
+    from .fluids import FLUID_KINDS, fluid_from_spec
+
+    spec = site.fluid
+    kind = _text(spec.kind, "fluid.kind") or "water"
+    values: dict[str, tuple[Value, str | None]] = {}
+    if kind.lower() not in FLUID_KINDS:
+        preset = _fluid_preset(kind, presets, FLUID_KINDS)
+        kind = str(preset.get("kind", "custom"))
+        for key, value in preset.items():  # a preset's bare numbers are SI
+            if key in _FLUID_ARGS:
+                values[key] = (value, KINDS[_FLUID_ARGS[key][1]].si)
+            elif key == "name":
+                values[key] = (value, None)
+    for key in (*_FLUID_ARGS, "name"):
+        if getattr(spec, key) is not None:
+            values[key] = (getattr(spec, key), None)
+    args: dict[str, Any] = {}
+    for key, (value, unit) in values.items():
+        if key == "name":
+            args["name"] = _text(value, "fluid.name")
+            continue
+        arg, qkind = _FLUID_ARGS[key]
+        args[arg] = parse_quantity(value, qkind, f"fluid.{key}", default_unit=unit)
+    return fluid_from_spec(kind, **args)
+
+
+def _fluid_preset(kind: str, presets: PresetSource | None, kinds: tuple[str, ...]) -> dict:
+    if presets is None:
+        from .store import PresetStore
+
+        presets = PresetStore()
+    try:
+        found = presets.get("fluids", kind)
+    except InputError:
+        raise InputError("fluid.kind", kind, f"must be one of {', '.join(kinds)} or the key of "
+                         "a saved fluid preset") from None
+    if not isinstance(found, Mapping):
+        raise InputError("fluid.kind", kind, "the preset is not a table of values")
+    return dict(found)
+
+
+# ---- branches ------------------------------------------------------------------------------
+
+def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
+    from .catalogs import fittings_k, material, parse_size
+
+    if seg.diameter is not None and seg.size is not None:
+        raise InputError(f"{path}.size", describe(seg.size), "give diameter or size, not both")
+    size = None
+    if seg.size is not None:
+        size_text = _text(seg.size, f"{path}.size")
+        size = parse_size(size_text, f"{path}.size")  # type: ignore[arg-type]
+        diameter = (size.inner_diameter_m if size is not None
+                    else parse_quantity(size_text, "diameter", f"{path}.size"))
+        d_path, d_value = f"{path}.size", seg.size
+    else:
+        diameter = _quantity(seg.diameter, "diameter", f"{path}.diameter")  # type: ignore[assignment]
+        d_path, d_value = f"{path}.diameter", seg.diameter
+    _at_least(diameter, d_path, d_value, 0.0, strict=True)
+
+    length = _quantity(seg.length, "length", f"{path}.length")
+    _at_least(length, f"{path}.length", seg.length, 0.0, strict=False)
+
+    if seg.roughness is not None and seg.material is not None:
+        raise InputError(f"{path}.material", describe(seg.material),
+                         "give roughness or material, not both")
+    condition = _text(seg.condition, f"{path}.condition")
+    if condition is not None and condition not in CONDITIONS:
+        raise InputError(f"{path}.condition", condition, "must be new or aged")
+    hw_c = _number(seg.hw_c, f"{path}.hw_c")
+    _at_least(hw_c, f"{path}.hw_c", seg.hw_c, 0.0, strict=True)
+    m_path = f"{path}.material"
+    if seg.roughness is not None:
+        if condition is not None:
+            raise InputError(f"{path}.condition", condition, "applies to a material, not to "
+                             "a roughness given as a value")
+        roughness = _quantity(seg.roughness, "roughness", f"{path}.roughness")
+        _at_least(roughness, f"{path}.roughness", seg.roughness, 0.0, strict=False)
+    else:
+        key = _text(seg.material, f"{path}.material")
+        if key is None:
+            if size is None:
+                raise InputError(f"{path}.roughness", "nothing",
+                                 "give a roughness or a material")
+            key, m_path = size.material_hint, f"{path}.size"
+        mat = material(key, m_path)
+        roughness = mat.roughness_m
+        if condition == "aged":
+            if mat.aged_roughness_m is None:
+                raise InputError(f"{path}.condition", condition,
+                                 f"no aged roughness is listed for {mat.name}")
+            roughness = mat.aged_roughness_m
+        if hw_c is None:
+            hw_c = mat.hazen_williams_c
+    if roughness >= diameter / 2:  # type: ignore[operator]
+        r_path, r_value = ((f"{path}.roughness", seg.roughness) if seg.roughness is not None
+                           else (m_path, seg.material))
+        half = format_quantity(diameter / 2, "roughness")
+        raise InputError(r_path, describe(r_value), f"must be below half the diameter ({half})")
+    minor_k = _number(seg.minor_k, f"{path}.minor_k") or 0.0
+    _at_least(minor_k, f"{path}.minor_k", seg.minor_k, 0.0, strict=False)
+    counts: dict[str, float] = {}
+    for key, count in seg.fittings.items():
+        number = _number(count, f"{path}.fittings.{key}")
+        _at_least(number, f"{path}.fittings.{key}", count, 0.0, strict=False)
+        counts[key] = number  # type: ignore[assignment]
+    k_fittings = fittings_k(counts, diameter, f"{path}.fittings") if counts else 0.0
+    segment = Segment(diameter, length, roughness, minor_k + k_fittings, hw_c)  # type: ignore[arg-type]
+    return segment, size, k_fittings
+
+
+def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], list[str]]:
+    path = f"branches[{i}]"
+    name = _text(br.name, f"{path}.name")
+    if name is None:
+        raise InputError(f"{path}.name", "nothing", "every branch needs a name")
+    if not br.segments:
+        raise InputError(f"{path}.segments", "[]", "a branch needs at least one segment")
+    many = len(br.segments) > 1
+    segs, sizes, ks, paths = [], [], [], []
+    for j, spec in enumerate(br.segments):
+        seg_path = f"{path}.segments[{j}]" if many else path
+        seg, size, k = _segment(spec, seg_path)
+        segs.append(seg)
+        sizes.append(size)
+        ks.append(k)
+        paths.append(seg_path)
+    if br.valve_kv is not None and br.valve_cv is not None:
+        raise InputError(f"{path}.valve_cv", describe(br.valve_cv),
+                         "give valve_kv or valve_cv, not both")
+    kv = _number(br.valve_kv, f"{path}.valve_kv")
+    _at_least(kv, f"{path}.valve_kv", br.valve_kv, 0.0, strict=True)
+    cv = _number(br.valve_cv, f"{path}.valve_cv")
+    _at_least(cv, f"{path}.valve_cv", br.valve_cv, 0.0, strict=True)
+    if cv is not None:
+        kv = kv_from_cv(cv)
+    return Branch(name, tuple(segs), kv), sizes, ks, paths
+
+
+# ---- conditions and what to find -----------------------------------------------------------
+
+def _given(site: Site, names: list[str]) -> Given:
+    c = site.conditions
+    offered: list[tuple[str, Value]] = []
+    if c.pressure_drop is not None:
+        offered.append(("conditions.pressure_drop", c.pressure_drop))
+    if c.total_flow is not None:
+        offered.append(("conditions.total_flow", c.total_flow))
+    for i in site.measured_branches():
+        offered.append((f"branches[{i}].measured_flow", site.branches[i].measured_flow))
+    if not offered:
+        raise InputError("conditions", "nothing", "give exactly one of pressure_drop, "
+                         "total_flow or one branch's measured_flow")
+    if len(offered) > 1:
+        (first, _), (second, value) = offered[0], offered[1]
+        raise InputError(second, describe(value), f"contradicts {first}: give exactly one of "
+                         "pressure_drop, total_flow or one branch's measured_flow")
+    path, value = offered[0]
+    if path == "conditions.pressure_drop":
+        return PressureDrop(parse_quantity(value, "pressure", path))
+    flow = parse_quantity(value, "flow", path)
+    if path == "conditions.total_flow":
+        return TotalFlow(flow)
+    return MeasuredFlow(names[site.measured_branches()[0]], flow)
+
+
+def _find(site: Site, network: Network) -> Find:
+    s = site.solve
+    if s is None:
+        return FindFlows()
+    find = _text(s.find, "solve.find") or "flows"
+    if find not in FINDS:
+        raise InputError("solve.find", find, f"must be one of {', '.join(FINDS)}")
+    if find == "flows":
+        for key in ("branch", "target_flow", "segment"):
+            if getattr(s, key) is not None:
+                raise InputError(f"solve.{key}", describe(getattr(s, key)),
+                                 "is used only when find is diameter, length or roughness")
+        return FindFlows()
+    branch = _text(s.branch, "solve.branch")
+    if branch is None:
+        raise InputError("solve.branch", "nothing", f"name the branch whose {find} to find")
+    index = network.index_of(branch, "solve.branch")
+    target = _quantity(s.target_flow, "flow", "solve.target_flow")
+    if target == 0:
+        raise InputError("solve.target_flow", describe(s.target_flow), "must not be zero")
+    n_seg = len(network.branches[index].segments)
+    seg = 1 if s.segment is None else _number(s.segment, "solve.segment")
+    if seg is None or seg != int(seg) or not 1 <= seg <= n_seg:
+        raise InputError("solve.segment", describe(s.segment),
+                         f"must be a segment number from 1 to {n_seg} (counted from 1)")
+    return FindUnknown(find, network.branches[index].name, target, int(seg) - 1)  # type: ignore[arg-type]
+
+
+def build(site: Site, presets: PresetSource | None = None) -> Built:
+    """The core objects for ``site``; every bad value is an InputError naming its field.
+
+    presets: where a fluid kind that is not built in is looked up (default: the user's
+    :class:`~branchwise.core.store.PresetStore`, read only when needed).
+    """
+    fluid = build_fluid(site, presets)
+    if not site.branches:
+        raise InputError("branches", "nothing", "a site needs at least one [[branches]] table")
+    branches, sizes, ks, paths = [], [], [], []
+    seen: dict[str, int] = {}
+    for i, spec in enumerate(site.branches):
+        br, s, k, p = _branch(spec, i)
+        key = br.name.casefold()
+        if key in seen:
+            raise InputError(f"branches[{i}].name", br.name,
+                             f"duplicates branches[{seen[key]}].name")
+        seen[key] = i
+        branches.append(br)
+        sizes.append(tuple(s))
+        ks.append(tuple(k))
+        paths.append(tuple(p))
+    c = site.conditions
+    friction = _text(c.friction, "conditions.friction") or "colebrook"
+    if friction not in FRICTION_MODELS:
+        raise InputError("conditions.friction", friction,
+                         f"must be one of {', '.join(FRICTION_MODELS)}")
+    elevation = _quantity(c.elevation_change, "length", "conditions.elevation_change", False)
+    gravity = _quantity(c.gravity, "acceleration", "conditions.gravity", False)
+    _at_least(gravity, "conditions.gravity", c.gravity, 0.0, strict=True)
+    limit = _quantity(c.velocity_limit, "velocity", "conditions.velocity_limit", False)
+    _at_least(limit, "conditions.velocity_limit", c.velocity_limit, 0.0, strict=True)
+    try:
+        network = Network(
+            fluid, tuple(branches), elevation or 0.0, gravity or STANDARD_GRAVITY,
+            friction,  # type: ignore[arg-type]
+            3.0 if limit is None else limit,
+        )
+    except InputError as exc:  # the model names segments[0] even of a one-pipe branch
+        raise _site_path(exc, site) from None
+    given = _given(site, [b.name for b in branches])
+    find = _find(site, network)
+    notes = []
+    if isinstance(find, FindUnknown) and find.quantity == "diameter":
+        i = network.index_of(find.branch)
+        if ks[i][find.segment]:
+            notes.append("the fittings' K values were held at those of the entered size while "
+                         "the diameter was found")
+    return Built(network, given, find, tuple(sizes), tuple(ks), tuple(paths), tuple(notes))
+
+
+def _site_path(exc: InputError, site: Site) -> InputError:
+    """``exc`` with a model path (``branches[1].segments[0].hw_c``) as the file names it."""
+    m = re.match(r"branches\[(\d+)\]\.segments\[0\]\.(.*)", exc.field)
+    if m and len(site.branches[int(m[1])].segments) == 1:
+        return InputError(f"branches[{m[1]}].{m[2]}", exc.value, exc.reason)
+    return exc
+
+
+# ---- solving -------------------------------------------------------------------------------
+
+def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
+    """Build and solve ``site``; for a diameter found on a catalog-sized segment, also the
+    smallest catalog size (same standard and schedule) with a bore at least that large, and the
+    flow the branch then carries with the site's given condition held."""
+    from .solve import solve
+
+    built = build(site, presets)
+    result = solve(built.network, built.given, built.find)
+    pick = None
+    notes = list(built.notes)
+    find = built.find
+    if isinstance(find, FindUnknown) and find.quantity == "diameter" and result.solved:
+        i = built.network.index_of(find.branch)
+        like = built.sizes[i][find.segment]
+        if like is not None:
+            pick = _catalog_pick(site, built, i, find, like, result.solved.value, notes)
+    return SiteResult(site, built, result, pick, tuple(notes))
+
+
+def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any,
+                  required: float, notes: list[str]) -> CatalogPick | None:
+    from .catalogs import fittings_k, smallest_at_least
+    from .solve import solve
+
+    size = smallest_at_least(required, like)
+    if size is None:
+        notes.append(f"no {like.standard} schedule {like.schedule} size has a bore of "
+                     f"{format_quantity(required, 'diameter')} or more")
+        return None
+    spec = site.branches[i].segments[find.segment]
+    seg = built.network.branches[i].segments[find.segment]
+    counts = {k: float(_number(v, "fittings") or 0.0) for k, v in spec.fittings.items()}
+    k_fit = fittings_k(counts, size.inner_diameter_m) if counts else 0.0
+    minor = seg.minor_k - built.fittings_k[i][find.segment] + k_fit
+    segments = list(built.network.branches[i].segments)
+    segments[find.segment] = replace(seg, diameter=size.inner_diameter_m, minor_k=minor)
+    branch = replace(built.network.branches[i], segments=tuple(segments))
+    network = built.network.replace_branch(i, branch)
+    result = solve(network, built.given, FindFlows())
+    return CatalogPick(size, float(result.flows[i]), _held(built.given), result)
+
+
+def _held(given: Given) -> str:
+    if isinstance(given, PressureDrop):
+        return f"the pressure drop of {format_quantity(given.value, 'pressure')} held"
+    if isinstance(given, TotalFlow):
+        return (f"the total flow of {format_quantity(given.value, 'flow')} held "
+                "(the other branches' flows change with it)")
+    return (f"the measured flow of {format_quantity(given.value, 'flow')} in "
+            f"'{given.branch}' held (so the driving head is unchanged)")

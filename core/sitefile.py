@@ -1,0 +1,427 @@
+"""Site files: a walkdown kept as human-editable TOML, read into an editable tree of strings.
+
+A :class:`Site` keeps every value exactly as the person typed it (``"64 m"``, ``"4 in sch 40"``,
+``6.2``), so that a report can show the inputs as entered and the app can edit them in place.
+Reading checks only the shape of the file (known keys, tables where tables belong); the values
+are checked when :func:`branchwise.core.sitebuild.build` turns them into SI objects, so the app
+can open a file with one bad value and show the error beside that field.
+
+File layout (format 1; the keys are a contract)::
+
+    format = 1
+    name = "North cooling header"
+    [fluid]        kind, temperature, pressure, concentration, salinity, density, viscosity,
+                   kinematic_viscosity, name
+    [conditions]   exactly one of pressure_drop / total_flow / a branch's measured_flow;
+                   elevation_change, friction, gravity, velocity_limit optional
+    [[branches]]   name; diameter | size; length; roughness | material (+ condition);
+                   minor_k; fittings = { elbow-90 = 4 }; hw_c; valve_kv | valve_cv;
+                   measured_flow; or segments = [ {diameter.., length.., ...}, ... ]
+    [solve]        find = flows | diameter | length | roughness; branch; target_flow; segment
+
+A branch is either one pipe (its diameter, length... at the top of the branch) or a list of
+series ``segments`` (each with its own pipe keys); mixing the two is refused as ambiguous.
+``solve.segment`` counts from 1.
+"""
+
+from __future__ import annotations
+
+import difflib
+from collections.abc import Mapping
+from dataclasses import dataclass, field, fields
+from functools import cache
+from pathlib import Path
+from typing import Any
+
+from .errors import InputError
+from .units import describe
+
+Value = str | int | float | bool | None
+"""A value as it was typed: text with units, a number, or None when absent."""
+
+FORMAT = 1
+
+PIPE_KEYS = ("diameter", "size", "length", "roughness", "material", "condition", "minor_k",
+             "hw_c", "fittings")
+BRANCH_KEYS = ("name", *PIPE_KEYS, "valve_kv", "valve_cv", "measured_flow", "segments", "note")
+FLUID_KEYS = ("kind", "name", "temperature", "pressure", "concentration", "salinity", "density",
+              "viscosity", "kinematic_viscosity")
+CONDITION_KEYS = ("pressure_drop", "total_flow", "elevation_change", "friction", "gravity",
+                  "velocity_limit")
+SOLVE_KEYS = ("find", "branch", "target_flow", "segment")
+TOP_KEYS = ("format", "kind", "name", "notes", "fluid", "conditions", "branches", "solve")
+
+
+@dataclass
+class SegmentSpec:
+    """One series pipe as typed. ``fittings`` maps a catalog fitting key to a count."""
+
+    diameter: Value = None
+    size: Value = None
+    length: Value = None
+    roughness: Value = None
+    material: Value = None
+    condition: Value = None
+    minor_k: Value = None
+    hw_c: Value = None
+    fittings: dict[str, Value] = field(default_factory=dict)
+
+
+@dataclass
+class BranchSpec:
+    """One branch as typed: its series segments (one for a plain pipe), valve and reading."""
+
+    name: Value = ""
+    segments: list[SegmentSpec] = field(default_factory=lambda: [SegmentSpec()])
+    valve_kv: Value = None
+    valve_cv: Value = None
+    measured_flow: Value = None
+    note: Value = None
+
+
+@dataclass
+class FluidSpec:
+    """The liquid as typed: a kind (or a preset key) and what that kind needs."""
+
+    kind: Value = "water"
+    name: Value = None
+    temperature: Value = None
+    pressure: Value = None
+    concentration: Value = None
+    salinity: Value = None
+    density: Value = None
+    viscosity: Value = None
+    kinematic_viscosity: Value = None
+
+
+@dataclass
+class ConditionsSpec:
+    """The reading that fixes the head, and the network's settings, as typed."""
+
+    pressure_drop: Value = None
+    total_flow: Value = None
+    elevation_change: Value = None
+    friction: Value = None
+    gravity: Value = None
+    velocity_limit: Value = None
+
+
+@dataclass
+class SolveSpec:
+    """What to find, as typed. ``segment`` counts from 1."""
+
+    find: Value = "flows"
+    branch: Value = None
+    target_flow: Value = None
+    segment: Value = None
+
+
+@dataclass
+class Site:
+    """A whole site as typed. ``source`` is the file it came from; ``origin`` that file's text
+    (kept so a save can preserve the comments and notice edits made behind our back)."""
+
+    name: Value = ""
+    fluid: FluidSpec = field(default_factory=FluidSpec)
+    conditions: ConditionsSpec = field(default_factory=ConditionsSpec)
+    branches: list[BranchSpec] = field(default_factory=list)
+    solve: SolveSpec | None = None
+    notes: Value = None
+    source: Path | None = field(default=None, compare=False)
+    origin: str | None = field(default=None, compare=False, repr=False)
+
+    @property
+    def title(self) -> str:
+        """The site's name, or the file's stem, or "Untitled site"."""
+        if isinstance(self.name, str) and self.name.strip():
+            return self.name.strip()
+        return self.source.stem if self.source else "Untitled site"
+
+    def measured_branches(self) -> list[int]:
+        """Indices of the branches that carry a measured flow."""
+        return [i for i, b in enumerate(self.branches) if b.measured_flow is not None]
+
+
+# ---- reading ---------------------------------------------------------------------------------
+
+def _known(table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> None:
+    for key in table:
+        if key not in keys:
+            close = difflib.get_close_matches(key, keys, n=1)
+            hint = f" (did you mean '{close[0]}'?)" if close else ""
+            where = f"{path}.{key}" if path else key
+            known = ", ".join(keys)
+            raise InputError(where, describe(table[key]), f"unknown key{hint}; known: {known}")
+
+
+def _table(value: object, path: str) -> Mapping[str, Any]:
+    if value is None:
+        return {}
+    if not isinstance(value, Mapping):
+        raise InputError(path, describe(value), "must be a table ([section] or { ... })")
+    return value
+
+
+def _scalar(value: object, path: str) -> Value:
+    if value is None or isinstance(value, str | int | float | bool):
+        return value
+    raise InputError(path, describe(value), "must be text or a number")
+
+
+def _fill(spec: Any, table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> Any:
+    """Copy the scalar values of ``table`` into the dataclass ``spec``."""
+    _known(table, keys, path)
+    for name in keys:
+        if name in table and name in {f.name for f in fields(spec)}:
+            setattr(spec, name, _scalar(table[name], f"{path}.{name}" if path else name))
+    return spec
+
+
+def _segment(table: Mapping[str, Any], path: str) -> SegmentSpec:
+    pipe = {k: v for k, v in table.items() if k != "fittings"}
+    seg = _fill(SegmentSpec(), pipe, tuple(k for k in PIPE_KEYS if k != "fittings"), path)
+    fittings = _table(table.get("fittings"), f"{path}.fittings")
+    seg.fittings = {str(k): _scalar(v, f"{path}.fittings.{k}") for k, v in fittings.items()}
+    return seg
+
+
+def _branch(table: object, path: str) -> BranchSpec:
+    table = _table(table, path)
+    _known(table, BRANCH_KEYS, path)
+    br = BranchSpec()
+    for key in ("name", "valve_kv", "valve_cv", "measured_flow", "note"):
+        if key in table:
+            setattr(br, key, _scalar(table[key], f"{path}.{key}"))
+    own = {k: v for k, v in table.items() if k in PIPE_KEYS}
+    if "segments" in table:
+        segments = table["segments"]
+        if not isinstance(segments, list) or not segments:
+            raise InputError(f"{path}.segments", describe(segments),
+                             "must be a list of one or more tables: [ {diameter = ...}, ... ]")
+        if own:
+            key = next(iter(own))
+            raise InputError(f"{path}.{key}", describe(own[key]),
+                             "a branch with segments gives its pipe values in each segment")
+        br.segments = [_segment(_table(s, f"{path}.segments[{j}]"), f"{path}.segments[{j}]")
+                       for j, s in enumerate(segments)]
+    else:
+        br.segments = [_segment(own, path)]
+    return br
+
+
+def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
+    """A :class:`Site` from a parsed, migrated TOML document. Checks shape, not values."""
+    _known(doc, TOP_KEYS, "")
+    site = Site(source=source)
+    site.name = _scalar(doc.get("name", ""), "name")
+    site.notes = _scalar(doc.get("notes"), "notes")
+    site.fluid = _fill(FluidSpec(), _table(doc.get("fluid"), "fluid"), FLUID_KEYS, "fluid")
+    conditions = _table(doc.get("conditions"), "conditions")
+    site.conditions = _fill(ConditionsSpec(), conditions, CONDITION_KEYS, "conditions")
+    branches = doc.get("branches", [])
+    if not isinstance(branches, list):
+        raise InputError("branches", describe(branches), "must be [[branches]] tables")
+    site.branches = [_branch(b, f"branches[{i}]") for i, b in enumerate(branches)]
+    if "solve" in doc:
+        site.solve = _fill(SolveSpec(), _table(doc["solve"], "solve"), SOLVE_KEYS, "solve")
+    return site
+
+
+def parse_site(text: str, source: str | Path = "<string>") -> Site:
+    """A :class:`Site` from TOML text; errors name ``source`` and the line for bad TOML."""
+    import tomllib
+
+    from .tomlfile import _decode_error, migrate
+
+    name = Path(source).name
+    try:
+        doc = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise _decode_error(name, text, exc) from None
+    site = site_from_dict(migrate(doc, "site", name), Path(source) if source != "<string>"
+                          else None)
+    site.origin = text
+    return site
+
+
+def load_site(path: str | Path) -> Site:
+    """Read the site file ``path`` (never modifies it). InputError names the file and line."""
+    from .tomlfile import load_toml, migrate
+
+    path = Path(path)
+    doc = migrate(load_toml(path), "site", path)
+    site = site_from_dict(doc, path)
+    site.origin = path.read_bytes().decode("utf-8").removeprefix("\ufeff")
+    return site
+
+
+# ---- writing ---------------------------------------------------------------------------------
+
+def _present(spec: Any, keys: tuple[str, ...]) -> dict[str, Any]:
+    return {k: getattr(spec, k) for k in keys if getattr(spec, k, None) is not None}
+
+
+def _segment_dict(seg: SegmentSpec) -> dict[str, Any]:
+    out = _present(seg, PIPE_KEYS[:-1])
+    if seg.fittings:
+        out["fittings"] = dict(seg.fittings)
+    return out
+
+
+def site_to_dict(site: Site) -> dict[str, Any]:
+    """The plain TOML structure of ``site`` in file order (None values left out)."""
+    doc: dict[str, Any] = {"format": FORMAT, "kind": "site", "name": site.name}
+    if site.notes is not None:
+        doc["notes"] = site.notes
+    doc["fluid"] = _present(site.fluid, FLUID_KEYS)
+    doc["conditions"] = _present(site.conditions, CONDITION_KEYS)
+    branches = []
+    for br in site.branches:
+        out: dict[str, Any] = {"name": br.name}
+        if len(br.segments) == 1:
+            out.update(_segment_dict(br.segments[0]))
+        else:
+            out["segments"] = [_segment_dict(s) for s in br.segments]
+        out.update(_present(br, ("valve_kv", "valve_cv", "measured_flow", "note")))
+        branches.append(out)
+    doc["branches"] = branches
+    if site.solve is not None:
+        doc["solve"] = _present(site.solve, SOLVE_KEYS)
+    return doc
+
+
+HEADER = "branchwise site file: values are text with units (\"64 m\", \"3.068 in\", \"12 psi\")."
+
+
+def dump_site(site: Site) -> str:
+    """TOML text for ``site``. A site read from a file keeps that file's comments and layout
+    wherever its values did not change (the comment-preserving writer ``tomlkit``)."""
+    import tomlkit
+
+    from .tomlfile import plain
+
+    if site.origin is not None:
+        doc = tomlkit.parse(site.origin)
+    else:
+        doc = tomlkit.document()
+        doc.add(tomlkit.comment(HEADER))
+        doc.add(tomlkit.nl())
+    _sync(doc, site_to_dict(site), tomlkit, plain)
+    return tomlkit.dumps(doc)
+
+
+def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None:
+    """Make the tomlkit container ``doc`` hold ``values``, touching only what changed."""
+    for name in [name for name in doc if name not in values]:
+        del doc[name]
+    for name, value in values.items():
+        old = doc.get(name)
+        if isinstance(value, dict) and name in ("fluid", "conditions", "solve"):
+            if not isinstance(old, Mapping) or old is None:
+                doc[name] = old = tomlkit.table()
+            _sync(old, value, tomlkit, plain)
+        elif name == "branches":
+            _sync_branches(doc, old, value, tomlkit, plain)
+        elif old is None or plain(old) != value:
+            doc[name] = _item(value, tomlkit)
+
+
+def _sync_branches(doc: Any, old: Any, branches: list[dict[str, Any]], tomlkit: Any,
+                   plain: Any) -> None:
+    if not isinstance(old, tomlkit.items.AoT) or not branches:
+        aot = tomlkit.aot()
+        for br in branches:
+            table = tomlkit.table()
+            _sync(table, br, tomlkit, plain)
+            aot.append(table)
+        if branches:
+            doc["branches"] = aot
+        elif "branches" in doc:
+            del doc["branches"]
+        return
+    while len(old) > len(branches):
+        old.body.pop()  # drop branches removed at the end
+    for i, br in enumerate(branches):
+        if i < len(old):
+            _sync(old[i], br, tomlkit, plain)
+        else:
+            table = tomlkit.table()
+            _sync(table, br, tomlkit, plain)
+            old.append(table)
+
+
+def _item(value: Any, tomlkit: Any) -> Any:
+    if isinstance(value, dict):
+        inline = tomlkit.inline_table()
+        inline.update({k: _item(v, tomlkit) for k, v in value.items()})
+        return inline
+    if isinstance(value, list):
+        array = tomlkit.array()
+        for item in value:
+            array.append(_item(item, tomlkit))
+        array.multiline(len(value) > 1 or any(isinstance(v, dict) for v in value))
+        return array
+    return value
+
+
+def save_site(site: Site, path: str | Path, overwrite: bool = False) -> Path:
+    """Write ``site`` to ``path`` atomically (the previous file kept as ``.bak``).
+
+    An existing file is replaced only if it is the file this site was read from and has not
+    changed on disk since, or if ``overwrite`` is True; otherwise InputError. Afterwards
+    ``site.source`` is ``path`` and ``site.origin`` the text written.
+    """
+    from .tomlfile import atomic_write_text
+
+    path = Path(path)
+    text = dump_site(site)
+    if path.exists() and not overwrite:
+        own = site.source is not None and _same(site.source, path)
+        try:
+            on_disk = path.read_bytes().decode("utf-8").removeprefix("\ufeff")
+        except (OSError, UnicodeDecodeError):
+            on_disk = None
+        if on_disk != text and not (own and on_disk == site.origin):
+            reason = ("already exists and was changed since it was read" if own
+                      else "already exists; choose another name or overwrite it")
+            raise InputError(path.name, str(path), reason)
+    atomic_write_text(path, text)
+    site.source, site.origin = path, text
+    return path
+
+
+def _same(a: Path, b: Path) -> bool:
+    try:
+        return a.resolve() == b.resolve()
+    except OSError:
+        return False
+
+
+# ---- the demo --------------------------------------------------------------------------------
+
+DEMO_NAME = "demo-site.toml"
+
+
+@cache
+def demo_text() -> str:
+    """The bundled demo site file, comments and all."""
+    from importlib.resources import files
+
+    return files("branchwise.presets").joinpath(DEMO_NAME).read_text(encoding="utf-8")
+
+
+def demo_site() -> Site:
+    """A fresh :class:`Site` of the bundled demo (no ``source``: saving asks for a path)."""
+    site = parse_site(demo_text(), DEMO_NAME)
+    site.source = None
+    return site
+
+
+def _demo_path() -> Path:
+    from importlib.resources import files
+
+    return Path(str(files("branchwise.presets").joinpath(DEMO_NAME)))
+
+
+DEMO_PATH = _demo_path()
+"""The bundled demo site file (read it with :func:`demo_text`; never write to it)."""

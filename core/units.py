@@ -1,0 +1,349 @@
+"""Units at the boundary: text with units in, SI floats out; SI floats in, display text out.
+
+This module owns the one pint ``UnitRegistry`` of the program. It is created on first use (pint
+takes about a second to import), and the solver never calls into it: fields are converted to SI
+floats here before a network is built, and results are converted back here for display.
+
+Trade units that pint lacks, or defines differently, are defined once in :func:`registry`:
+
+* ``gpm``/``USgpm`` (US gallon per minute), ``igpm`` (imperial), ``lpm``, ``lps``;
+* ``psid`` (pounds per square inch, differential: the same size as ``psi``);
+* ``ftH2O``, ``inH2O``, ``mH2O`` (and ``cmH2O``, ``mmH2O``): pressure equal to that height of
+  water at 39.2 °F (4 °C), 999.972 kg/m³, under standard gravity 9.80665 m/s². These are the
+  "conventional" water columns of NIST SP 811 (2008), appendix B.8: foot of water (39.2 °F) =
+  2988.98 Pa, inch of water (39.2 °F) = 249.082 Pa, centimeter of water (4 °C) = 98.0638 Pa.
+  A water-column unit typed in a pressure field is therefore converted with that conventional
+  density, not with the density of the liquid in the pipe;
+* ``mil`` read as pint's ``thou`` = 0.001 in (for roughness; pint's own ``mil`` is an angle);
+* ``"`` for inches and ``'`` for feet, as written on drawings.
+
+Offset temperatures are handled by splitting the number from the unit and building
+``Quantity(60, "degC")``: pint refuses ``Quantity("60 degC")`` arithmetic on offset units.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from functools import cache
+from typing import TYPE_CHECKING, Any
+
+from .errors import InputError
+
+if TYPE_CHECKING:
+    import pint
+
+WATER_COLUMN_DENSITY = 999.972
+"""kg/m³: water at 39.2 °F (4 °C), the density behind NIST SP 811's "foot of water (39.2 °F)"."""
+
+_TRADE_UNITS = (
+    f"water_column_density = {WATER_COLUMN_DENSITY} kg/m^3",
+    "meter_H2O = meter * water_column_density * g_0 = mH2O = m_H2O",
+    "centimeter_H2O = centimeter * water_column_density * g_0 = cmH2O = cm_H2O",
+    "millimeter_H2O = millimeter * water_column_density * g_0 = mmH2O = mm_H2O",
+    "inch_H2O = inch * water_column_density * g_0 = inH2O = in_H2O = inchesH2O = inches_H2O",
+    "foot_H2O = foot * water_column_density * g_0 = ftH2O = ft_H2O = feetH2O = feet_H2O",
+    "US_gallon_per_minute = gallon / minute = gpm = USgpm = GPM",
+    "imperial_gallon_per_minute = imperial_gallon / minute = igpm",
+    "liter_per_minute = liter / minute = lpm = LPM",
+    "liter_per_second = liter / second = lps",
+    "psi_differential = pound_force_per_square_inch = psid",
+)
+
+
+@dataclass(frozen=True)
+class Kind:
+    """A kind of quantity: its pint dimension, SI unit and display units per unit system."""
+
+    dimension: str
+    si: str
+    display_si: str
+    display_us: str
+    choices: tuple[str, ...]
+
+
+KINDS: dict[str, Kind] = {
+    "pressure": Kind("[pressure]", "Pa", "kPa", "psi",
+                     ("kPa", "bar", "psi", "Pa", "MPa", "mbar", "ftH2O", "mH2O", "inH2O")),
+    "flow": Kind("[volume]/[time]", "m^3/s", "L/s", "gpm",
+                 ("L/s", "m^3/h", "gpm", "L/min", "m^3/s")),
+    "length": Kind("[length]", "m", "m", "ft", ("m", "ft", "mm", "in")),
+    "diameter": Kind("[length]", "m", "mm", "in", ("mm", "in", "m")),
+    "roughness": Kind("[length]", "m", "mm", "in", ("mm", "in", "um", "mil")),
+    "head": Kind("[length]", "m", "m", "ft", ("m", "ft")),
+    "velocity": Kind("[velocity]", "m/s", "m/s", "ft/s", ("m/s", "ft/s")),
+    "temperature": Kind("[temperature]", "K", "degC", "degF", ("degC", "degF", "K")),
+    "density": Kind("[density]", "kg/m^3", "kg/m^3", "lb/ft^3", ("kg/m^3", "lb/ft^3")),
+    "viscosity": Kind("[viscosity]", "Pa*s", "cP", "cP", ("cP", "mPa*s", "Pa*s")),
+    "kinematic_viscosity": Kind("[length]**2/[time]", "m^2/s", "cSt", "cSt", ("cSt", "m^2/s")),
+    "acceleration": Kind("[acceleration]", "m/s^2", "m/s^2", "ft/s^2", ("m/s^2", "ft/s^2")),
+    "fraction": Kind("[]", "", "%", "%", ("%",)),
+    "salinity": Kind("[]", "", "g/kg", "g/kg", ("g/kg", "%")),
+}
+"""Every kind of quantity a field can hold. ``fraction`` and ``salinity`` are kg/kg."""
+
+SYSTEMS = ("si", "us")
+
+
+@cache
+def registry() -> pint.UnitRegistry:
+    """The one unit registry, built on first call with the trade units above."""
+    import pint
+
+    ureg = pint.UnitRegistry(on_redefinition="ignore", autoconvert_offset_to_baseunit=False)
+    for line in _TRADE_UNITS:
+        ureg.define(line)
+    return ureg
+
+
+# ---- reading ---------------------------------------------------------------------------------
+
+_NUMBER = re.compile(r"\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)(.*)\Z", re.S)
+_TOKEN = re.compile(r"\s*(?:(\*\*|\^)|([*/·()])|([^\W\d][\w°µ]*|°[CF]|%|\"|')|([+-]?\d+)|(\S))")
+_SUPERSCRIPT = str.maketrans({"²": "^2", "³": "^3", "⁻": "^-", "¹": "1"})
+_NAME_SWAP = {
+    '"': "inch", "'": "foot", "mil": "thou", "°C": "degC", "°F": "degF", "μm": "um", "µm": "um",
+}
+_POWER_SUFFIX = re.compile(r"([A-Za-z]+)([23])\Z")
+
+
+def _unit_expression(text: str, field: str, value: object) -> str:
+    """Check ``text`` against a small unit grammar and return it in pint's syntax.
+
+    Grammar: names joined by ``*``, ``/``, ``·`` or spaces, each optionally raised to a whole
+    power with ``^`` or ``**``, with parentheses. ``m3`` means ``m^3``. Checking first keeps
+    pint's parser (which accepts arbitrary Python-like expressions) away from junk.
+    """
+    ureg = registry()
+    out: list[str] = []
+    depth = 0
+    expect_operand = True
+    text = text.translate(_SUPERSCRIPT)
+    pos = 0
+    while pos < len(text):
+        m = _TOKEN.match(text, pos)
+        if m is None:  # only trailing blanks remain
+            break
+        pos = m.end()
+        power, op, name, integer, junk = m.groups()
+        if junk is not None:
+            raise InputError(field, value, f"{describe(junk)!r} cannot appear in a unit")
+        if name is not None:
+            name = _NAME_SWAP.get(name, name)
+            if name not in ureg:
+                stem = _POWER_SUFFIX.match(name)
+                if stem and stem.group(1) in ureg:
+                    name = f"{stem.group(1)}**{stem.group(2)}"
+                else:
+                    raise InputError(field, value, f"unknown unit '{name}'{_hint(name)}")
+            if not expect_operand:
+                out.append("*")
+            out.append(name)
+            expect_operand = False
+        elif op == "(":
+            if not expect_operand:
+                out.append("*")
+            out.append("(")
+            depth += 1
+            expect_operand = True
+        elif op == ")":
+            depth -= 1
+            if depth < 0 or expect_operand:
+                raise InputError(field, value, "unbalanced parentheses in the unit")
+            out.append(")")
+        elif op is not None or power is not None:
+            if expect_operand:
+                raise InputError(field, value, "a unit operator has nothing on its left")
+            if power is not None:
+                exp = _TOKEN.match(text, pos)
+                if exp is None or exp.group(4) is None or abs(int(exp.group(4))) > 9:
+                    raise InputError(field, value, "a unit power must be a whole number, -9 to 9")
+                pos = exp.end()
+                out.append(f"**{int(exp.group(4))}")
+            else:
+                out.append("*" if op == "·" else op)
+                expect_operand = True
+        else:
+            raise InputError(field, value, "a number can only follow the unit as a power (m^3)")
+    if depth != 0 or (expect_operand and out):
+        raise InputError(field, value, "the unit is incomplete")
+    return "".join(out)
+
+
+def _hint(name: str) -> str:
+    known = {c for k in KINDS.values() for c in k.choices} | {"psid", "gpm", "degC", "degF"}
+    close = [c for c in sorted(known) if c.casefold() == name.casefold()]
+    return f" (did you mean '{close[0]}'?)" if close else ""
+
+
+def parse_quantity(
+    text: object, kind: str, field: str, default_unit: str | None = None
+) -> float:
+    """The SI value of ``text`` (``"68 kPa"``, ``"3.068 in"``, ``"18 degC"``) as a ``kind``.
+
+    text: a string with a number and a unit, or a bare number (``int``/``float``/``"12.5"``),
+    which takes ``default_unit`` (None: a bare number is an error, except for the dimensionless
+    kinds ``fraction`` and ``salinity``, where it is the kg/kg value itself).
+    kind: a key of :data:`KINDS`; the unit must have its dimension.
+    field: the field path for errors (``branches[1].length``).
+
+    Returns SI: Pa, m³/s, m, m/s, K, kg/m³, Pa·s, m²/s, m/s², kg/kg. Every failure (empty
+    text, no number, NaN, infinity, overflow, unknown unit, wrong dimension) is an InputError
+    naming ``field`` and the text.
+    """
+    spec = _kind(kind)
+    shown = describe(text)
+    if isinstance(text, bool) or not isinstance(text, (str, int, float)):
+        raise InputError(field, shown, "must be a number with a unit, in quotes")
+    if isinstance(text, (int, float)):
+        number, unit = _bare(float(text), field, shown), ""
+    else:
+        if not text.strip():
+            raise InputError(field, "''", "is empty")
+        m = _NUMBER.match(text)
+        if m is None:
+            raise InputError(field, shown, "must start with a number, such as '64 m'")
+        number, unit = _bare(float(m.group(1)), field, shown), m.group(2).strip()
+        if unit.startswith(",") and unit[1:2].isdigit():
+            raise InputError(field, shown, "use a decimal point, not a comma")
+    if not unit:
+        if default_unit is None and spec.dimension != "[]":
+            raise InputError(field, shown, f"needs a unit, such as '{number:g} {spec.display_si}'")
+        unit = default_unit or ""
+    return _to_si(number, unit, spec, kind, field, shown)
+
+
+def _bare(number: float, field: str, shown: str) -> float:
+    if not math.isfinite(number):
+        raise InputError(field, shown, "must be a finite number")
+    return number
+
+
+def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: str) -> float:
+    import pint
+
+    ureg = registry()
+    expression = _unit_expression(unit, field, shown)
+    try:
+        units = ureg.parse_units(expression) if expression else ureg.dimensionless
+        dims = ureg.get_dimensionality(spec.dimension)
+        if units.dimensionality != dims:
+            raise InputError(field, shown, _wrong_dimension(kind, spec))
+        value = ureg.Quantity(number, units).to(spec.si or ureg.dimensionless).magnitude
+    except (pint.errors.PintError, OverflowError, ZeroDivisionError) as exc:
+        raise InputError(field, shown, f"cannot read the unit: {exc}") from None
+    value = float(value)
+    if not math.isfinite(value):
+        raise InputError(field, shown, "is too large to represent")
+    return value
+
+
+def _wrong_dimension(kind: str, spec: Kind) -> str:
+    examples = ", ".join(spec.choices[:4])
+    hint = {
+        "pressure": " (for a water column use ftH2O, inH2O or mH2O)",
+        "head": " (a head is a height of the liquid itself)",
+    }.get(kind, "")
+    return f"is not a {kind.replace('_', ' ')}: use a unit such as {examples}{hint}"
+
+
+def _kind(kind: str) -> Kind:
+    try:
+        return KINDS[kind]
+    except KeyError:
+        raise ValueError(f"unknown kind {kind!r}; one of {', '.join(KINDS)}") from None
+
+
+def check_unit(unit: str, kind: str, field: str = "unit") -> str:
+    """``unit`` if it can express a ``kind`` (for settings and column headers), else InputError."""
+    parse_quantity(f"1 {unit}", kind, field)
+    return unit
+
+
+# ---- writing ---------------------------------------------------------------------------------
+
+@cache
+def _affine(unit: str, kind: str) -> tuple[float, float]:
+    """(scale, offset) such that value_in_unit = scale · value_si + offset."""
+    spec = _kind(kind)
+    ureg = registry()
+    expression = _unit_expression(unit, "unit", unit)
+    units = ureg.parse_units(expression) if expression else ureg.dimensionless
+    if units.dimensionality != ureg.get_dimensionality(spec.dimension):
+        raise InputError("unit", unit, _wrong_dimension(kind, spec))
+    si = spec.si or ureg.dimensionless
+    zero = float(ureg.Quantity(0.0, si).to(units).magnitude)
+    one = float(ureg.Quantity(1.0, si).to(units).magnitude)
+    return one - zero, zero
+
+
+def display_unit(kind: str, system: str = "si") -> str:
+    """The unit a ``kind`` is shown in for ``system`` (``si`` or ``us``), as parseable text."""
+    spec = _kind(kind)
+    if system not in SYSTEMS:
+        raise InputError("units", system, "must be si or us")
+    return spec.display_us if system == "us" else spec.display_si
+
+
+def unit_choices(kind: str) -> tuple[str, ...]:
+    """Units offered for a ``kind``, most common first (for a picker)."""
+    return _kind(kind).choices
+
+
+def to_unit(value_si: float, kind: str, unit: str) -> float:
+    """``value_si`` (SI, see :func:`parse_quantity`) expressed in ``unit``."""
+    scale, offset = _affine(unit, kind)
+    return value_si * scale + offset
+
+
+def from_unit(value: float, kind: str, unit: str) -> float:
+    """The SI value of ``value`` given in ``unit`` (inverse of :func:`to_unit`)."""
+    scale, offset = _affine(unit, kind)
+    return (value - offset) / scale
+
+
+_LABELS = (("degC", "°C"), ("degF", "°F"), ("^2", "²"), ("^3", "³"), ("*", "·"), ("um", "µm"))
+
+
+def unit_label(unit: str) -> str:
+    """``unit`` as printed in tables: ``m^3/h`` → ``m³/h``, ``degC`` → ``°C``."""
+    for plain, pretty in _LABELS:
+        unit = unit.replace(plain, pretty)
+    return unit
+
+
+def format_number(value: float, digits: int = 4) -> str:
+    """``value`` with ``digits`` significant figures, without an exponent for everyday sizes."""
+    if not math.isfinite(value):
+        return "—"
+    if value == 0:
+        return "0"
+    magnitude = math.floor(math.log10(abs(value)))
+    if magnitude >= 7 or magnitude < -4:
+        return f"{value:.{digits - 1}e}"
+    decimals = max(0, digits - 1 - magnitude)
+    text = f"{value:.{decimals}f}"
+    return "0" if float(text) == 0 else text
+
+
+def format_quantity(
+    value_si: float, kind: str, system: str = "si", unit: str | None = None, digits: int = 4
+) -> str:
+    """Display text for an SI value: ``format_quantity(68000, "pressure")`` → ``"68.00 kPa"``.
+
+    unit: show in this unit instead of the system's display unit.
+    """
+    unit = unit or display_unit(kind, system)
+    return f"{format_number(to_unit(value_si, kind, unit), digits)} {unit_label(unit)}".strip()
+
+
+def describe(value: Any, limit: int = 60) -> str:
+    """A value as it appears in a one-line message: strings as typed, other values by repr.
+
+    Control characters are escaped and long text is cut to ``limit`` characters, so that a
+    message stays one printable line whatever the file held.
+    """
+    text = value if isinstance(value, str) else repr(value)
+    text = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
+    return text if len(text) <= limit else text[: limit - 1] + "…"
