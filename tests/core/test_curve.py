@@ -1,0 +1,148 @@
+"""The system curve and the tiled layouts under it.
+
+References: the Darcy friction factor from the `fluids` library (``fluids.friction.Colebrook``,
+PyPI) for the head loss of each branch at the curve's flows; Darcy–Weisbach for a K-only branch
+(h = K V²/2g, so Δp = ρ K Q²/(2 A²) exactly); hydrostatics for the zero-flow point (Δp = ρ g Δz).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+
+import numpy as np
+import pytest
+from branchwise.core.curve import system_curve, tiled_layout, to_csv
+from branchwise.core.errors import InputError
+from branchwise.core.hydraulics import Layout, flows_at_head
+from branchwise.core.model import Branch, Fluid, Network, PressureDrop, Segment, branch
+from branchwise.core.solve import solve
+
+G = 9.80665
+RHO, MU = 999.1, 1.138e-3  # a liquid like water near 15 °C (values need only be consistent)
+BRANCHES = [
+    ("Coil 1", [(0.0779, 42.0, 4.6e-5, 4.2)]),
+    ("Coil 2", [(0.0627, 35.0, 4.6e-5, 6.0)]),
+    ("Reducer run", [(0.1023, 20.0, 1.5e-4, 1.5), (0.0525, 12.0, 1.5e-4, 2.5)]),
+]
+
+
+def network(elevation: float = 1.5) -> Network:
+    return Network(
+        Fluid("test liquid", RHO, MU, "water"),
+        tuple(Branch(n, tuple(Segment(*s) for s in segs)) for n, segs in BRANCHES),
+        elevation_change=elevation,
+    )
+
+
+def ref_head(segs, q):
+    """Head loss of one branch at q: Darcy–Weisbach + K with f from fluids.friction.Colebrook."""
+    ref = pytest.importorskip("fluids.friction")
+    h = 0.0
+    for d, length, eps, k in segs:
+        v = q / (math.pi * d * d / 4)
+        re = RHO * v * d / MU
+        f = ref.Colebrook(re, eps / d) if re > 4000 else 64 / re
+        h += (f * length / d + k) * v * v / (2 * G)
+    return h
+
+
+def test_curve_passes_through_the_operating_point_and_rises():
+    op = solve(network(), PressureDrop(60e3))
+    curve = system_curve(network(), points=50, operating=op)
+    i = curve.operating_index
+    assert curve.total_flow[i] == op.total_flow
+    assert curve.pressure_drop[i] == pytest.approx(op.pressure_drop, rel=1e-10)
+    np.testing.assert_allclose(curve.branch_flows[i], op.flows, rtol=1e-9)
+    assert curve.total_flow[0] == 0 and curve.total_flow[-1] == pytest.approx(1.5 * op.total_flow)
+    assert len(curve.total_flow) == 51  # 50 even points plus the operating point
+    assert np.all(np.diff(curve.pressure_drop) > 0)
+    assert np.all(np.diff(curve.branch_flows, axis=0) > 0)
+    assert curve.operating_point == (op.total_flow, curve.pressure_drop[i])
+
+
+def test_an_even_point_on_the_operating_flow_is_not_doubled():
+    op = solve(network(), PressureDrop(60e3))
+    curve = system_curve(network(), points=40, operating=op)  # 26/39 · 1.5 = 1: the same flow
+    assert len(curve.total_flow) == 40 and np.all(np.diff(curve.total_flow) > 0)
+    assert curve.total_flow[curve.operating_index] == op.total_flow
+
+
+def test_curve_points_obey_equal_head_loss_with_fluids_colebrook():
+    # Every branch loses the curve's driving head at its flow (parallel branches), and the
+    # branch flows add up to the total (continuity); losses by Darcy–Weisbach with `fluids`.
+    curve = system_curve(network(), total_flows=np.array([0.004, 0.02, 0.05]))
+    for row in range(3):
+        flows = curve.branch_flows[row]
+        assert flows.sum() == pytest.approx(curve.total_flow[row], rel=1e-11)
+        for (_, segs), q in zip(BRANCHES, flows, strict=True):
+            assert ref_head(segs, q) == pytest.approx(curve.driving_head[row], rel=1e-8)
+        # Δp = ρ g (h + Δz): the loss plus the lift.
+        assert curve.pressure_drop[row] == pytest.approx(
+            RHO * G * (curve.driving_head[row] + 1.5), rel=1e-12)
+    assert curve.operating_index is None and curve.operating_point is None
+
+
+def test_a_k_only_branch_gives_the_darcy_weisbach_parabola_over_the_static_lift():
+    d, k, lift = 0.05, 12.0, 3.0
+    net = Network(Fluid("test liquid", RHO, MU), (branch("Orifice run", d, 0.0, 0.0, k),),
+                  elevation_change=lift)
+    flows = np.linspace(0.0, 0.01, 11)
+    curve = system_curve(net, total_flows=flows)
+    area = math.pi * d * d / 4
+    expected = RHO * k * flows**2 / (2 * area**2) + RHO * G * lift  # h = K V²/2g
+    np.testing.assert_allclose(curve.pressure_drop, expected, rtol=1e-12)
+    assert curve.pressure_drop[0] == pytest.approx(RHO * G * lift, rel=1e-15)  # hydrostatics
+
+
+def test_reverse_operating_point_gives_a_curve_down_to_it():
+    op = solve(network(elevation=0.0), PressureDrop(-20e3))
+    curve = system_curve(network(elevation=0.0), points=10, operating=op)
+    assert curve.total_flow[0] == pytest.approx(1.5 * op.total_flow) and curve.total_flow[-1] == 0
+    assert np.all(np.diff(curve.pressure_drop) > 0)
+    assert curve.pressure_drop[curve.operating_index] == pytest.approx(-20e3, rel=1e-10)
+
+
+def test_csv_round_trips_the_arrays():
+    op = solve(network(), PressureDrop(60e3))
+    curve = system_curve(network(), points=5, operating=op)
+    rows = list(csv.reader(io.StringIO(to_csv(curve))))
+    assert rows[0][:3] == ["total_flow_m3_s", "pressure_drop_pa", "driving_head_m"]
+    assert rows[0][3] == "flow_m3_s[Coil 1]" and rows[0][-1] == "operating"
+    body = np.array([[float(v) for v in r] for r in rows[1:]])
+    np.testing.assert_array_equal(body[:, 0], curve.total_flow)
+    np.testing.assert_array_equal(body[:, 1], curve.pressure_drop)
+    np.testing.assert_array_equal(body[:, 3:-1], curve.branch_flows)
+    assert body[:, -1].tolist().count(1.0) == 1 and body[curve.operating_index, -1] == 1
+
+
+@pytest.mark.parametrize(("kwargs", "field"), [
+    ({}, "curve.total_flows"),
+    ({"total_flows": [0.01, float("nan")]}, "curve.total_flows"),
+    ({"total_flows": []}, "curve.total_flows"),
+])
+def test_bad_curve_requests_name_the_field(kwargs, field):
+    with pytest.raises(InputError) as err:
+        system_curve(network(), **kwargs)
+    assert err.value.field == field
+
+
+def test_tiled_copies_are_independent_networks():
+    # Each copy with its own diameters and viscosity solves as the same network built alone.
+    base = Layout.from_network(network())
+    scale = np.array([[1.0], [0.9], [1.1]])
+    nu = np.array([1.0e-6, 1.3e-6, 0.8e-6])
+    lay = tiled_layout(base, 3, diameter=scale * base.diameter[None, :], nu=nu)
+    q, info = flows_at_head(lay, 4.0)
+    assert info.converged
+    for c in range(3):
+        segs = tuple(
+            Branch(n, tuple(Segment(s[0] * scale[c, 0], *s[1:]) for s in ss)) for n, ss in BRANCHES)
+        alone = Network(Fluid("t", 1000.0, nu[c] * 1000.0), segs)
+        expected, _ = flows_at_head(Layout.from_network(alone), 4.0)
+        np.testing.assert_allclose(q[3 * c:3 * c + 3], expected, rtol=1e-12)
+    keep = np.array([False, True, True])
+    sub = tiled_layout(base, 2, keep)
+    assert sub.n_branches == 4 and sub.branch_group.tolist() == [0, 0, 1, 1]
+    assert len(sub.diameter) == 2 * 3  # Coil 2 and the two segments of the reducer run
