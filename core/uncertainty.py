@@ -173,17 +173,15 @@ class SamplingPlan:
 
     @property
     def found_name(self) -> str | None:
-        want = self.find
-        if not isinstance(want, FindUnknown):
+        """The output name of the sought unknown (None when the flows are sought)."""
+        if not isinstance(want := self.find, FindUnknown):
             return None
         br = self.network.branches[self.network.index_of(want.branch)]
         seg = f" segment {want.segment + 1}" if len(br.segments) > 1 else ""
         return f"branch '{br.name}'{seg} {want.quantity} (found)"
 
     def unit_of(self, output: str) -> str:
-        if output == "pressure drop":
-            return "Pa"
-        return "m" if output == self.found_name else "m³/s"
+        return {"pressure drop": "Pa", self.found_name: "m"}.get(output, "m³/s")
 
     def variants(self, z: Array) -> Variants:
         """The networks that the rows of ``z`` stand for, as arrays."""
@@ -191,12 +189,9 @@ class SamplingPlan:
         n, net, base = len(z), self.network, Layout.from_network(self.network)
         seg = {k: np.tile(getattr(base, k), (n, 1)) for k in
                ("diameter", "length", "roughness", "minor_k")}
-        nu = np.full(n, net.fluid.kinematic_viscosity)
-        rho = np.full(n, net.fluid.density)
+        nu, rho = np.full(n, net.fluid.kinematic_viscosity), np.full(n, net.fluid.density)
         reading = np.full(n, float(self.given.value))
-        want = self.find
-        target = np.full(n, want.target_flow if isinstance(want, FindUnknown) else np.nan)
-        arrays = {"diameter": "diameter", "length": "length", "fitting K": "minor_k"}
+        target = np.full(n, getattr(self.find, "target_flow", np.nan), dtype=float)
         for col, inp in enumerate(self.inputs):
             zc = z[:, col]
             s = list(inp.segments)
@@ -213,7 +208,8 @@ class SamplingPlan:
                 scale = np.exp(inp.centre + inp.half_width * zc)[:, None]
                 seg["roughness"][:, s] = scale if inp.explicit else base.roughness[s] * scale
             else:
-                seg[arrays[inp.kind]][:, s] *= (1 + inp.half_width * zc)[:, None]
+                key = "minor_k" if inp.kind == "fitting K" else inp.kind
+                seg[key][:, s] *= (1 + inp.half_width * zc)[:, None]
         return Variants(nu=nu, density=rho, reading=reading, target=target, **seg)
 
     def evaluate(self, z: Array) -> tuple[dict[str, Array], bool]:
@@ -420,7 +416,5 @@ def _ranked(
     return sorted((r for r in rows if r[1] > 0), key=lambda r: -r[1])
 
 
-__all__ = [
-    "InputTolerance", "OutputBand", "SamplingPlan", "Thermal", "Tolerances", "UncertaintyResult",
-    "build_plan", "monte_carlo",
-]
+__all__ = ["InputTolerance", "OutputBand", "SamplingPlan", "Thermal", "Tolerances",
+           "UncertaintyResult", "build_plan", "monte_carlo"]
