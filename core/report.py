@@ -18,8 +18,8 @@ from typing import Any
 
 from .model import MeasuredFlow, PressureDrop, TotalFlow
 from .results import BranchResult, SegmentResult
-from .sitebuild import SiteResult
 from .sitefile import Site, site_to_dict
+from .sitesolve import SiteResult
 from .units import display_unit as _unit
 from .units import format_number, format_quantity, to_unit, unit_label
 
@@ -83,7 +83,7 @@ def _solved_json(sr: SiteResult) -> dict[str, Any] | None:
         "catalog_size": pick.size.label if pick else None,
         "catalog_inner_diameter_m": pick.size.inner_diameter_m if pick else None,
         "flow_at_catalog_size_m3_s": pick.flow if pick else None,
-        "held": pick.held if pick else None,
+        "held": _given_json(sr)["quantity"] if pick else None,
     }
 
 
@@ -179,6 +179,17 @@ def _given_text(sr: SiteResult, system: str) -> str:
     return f"measured flow {format_quantity(g.value, 'flow', system)} in '{g.branch}'"
 
 
+def _held_text(sr: SiteResult, system: str) -> str:
+    g = sr.built.given
+    if isinstance(g, TotalFlow):
+        return (f"the total flow of {format_quantity(g.value, 'flow', system)} held: the other "
+                "branches then carry less")
+    if isinstance(g, MeasuredFlow):
+        return (f"the measured {format_quantity(g.value, 'flow', system)} in '{g.branch}' held, "
+                "so the driving head is unchanged")
+    return f"the pressure drop of {format_quantity(g.value, 'pressure', system)} held"
+
+
 def summary_lines(sr: SiteResult, system: str = "si") -> list[str]:
     """The few lines above a results table: fluid, given condition, head, total flow."""
     r, net = sr.result, sr.result.network
@@ -209,8 +220,8 @@ def solved_lines(sr: SiteResult, system: str = "si") -> list[str]:
         lines.append(
             f"Smallest catalog size at least that large: {c.size.label} "
             f"(inner diameter {format_quantity(c.size.inner_diameter_m, 'diameter', system)}); "
-            f"with it the branch carries {format_quantity(c.flow, 'flow', system)}, "
-            f"{c.held}.")
+            f"with it the branch carries {format_quantity(c.flow, 'flow', system)} "
+            f"({_held_text(sr, system)}).")
     return lines
 
 

@@ -1,10 +1,9 @@
-"""From a :class:`~branchwise.core.sitefile.Site` as typed to the core's SI objects, and solved.
+"""From a :class:`~branchwise.core.sitefile.Site` as typed to the core's SI objects.
 
 :func:`build` converts every value through :mod:`.units`, :mod:`.fluids` and :mod:`.catalogs`
 and checks it, naming the field as it appears in the file (``branches[1].length``, or
-``branches[1].segments[0].length`` for a branch given as segments). :func:`solve_site` solves
-and, for a diameter found on a segment whose size came from a pipe catalog, adds the smallest
-catalog size that is large enough and the flow the branch would then carry.
+``branches[1].segments[0].length`` for a branch given as segments). Solving is in
+:mod:`.sitesolve`.
 """
 
 from __future__ import annotations
@@ -12,7 +11,7 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Mapping
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from typing import Any, Protocol
 
 from .errors import InputError
@@ -32,7 +31,6 @@ from .model import (
     TotalFlow,
     kv_from_cv,
 )
-from .results import Result
 from .sitefile import BranchSpec, SegmentSpec, Site, Value
 from .units import KINDS, describe, format_quantity, parse_quantity
 
@@ -61,30 +59,6 @@ class Built:
     notes: tuple[str, ...] = ()
 
 
-@dataclass(frozen=True)
-class CatalogPick:
-    """The smallest catalog size at least as large as a found diameter, and what it carries.
-
-    flow: m³/s in the branch with that size, the given condition held (``held`` says which).
-    """
-
-    size: Any
-    flow: float
-    held: str
-    result: Result
-
-
-@dataclass(frozen=True)
-class SiteResult:
-    """A solved site: the core result, the built network, and the catalog size if any."""
-
-    site: Site
-    built: Built
-    result: Result
-    catalog: CatalogPick | None
-    notes: tuple[str, ...] = ()
-
-
 # ---- values --------------------------------------------------------------------------------
 
 def _quantity(value: Value, kind: str, path: str, required: bool = True) -> float | None:
@@ -95,7 +69,7 @@ def _quantity(value: Value, kind: str, path: str, required: bool = True) -> floa
     return parse_quantity(value, kind, path)
 
 
-def _number(value: Value, path: str) -> float | None:
+def plain_number(value: Value, path: str) -> float | None:
     """A plain number (K, Kv, Cv, counts): a TOML number or text holding only a number."""
     if value is None:
         return None
@@ -211,7 +185,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     condition = _text(seg.condition, f"{path}.condition")
     if condition is not None and condition not in CONDITIONS:
         raise InputError(f"{path}.condition", condition, "must be new or aged")
-    hw_c = _number(seg.hw_c, f"{path}.hw_c")
+    hw_c = plain_number(seg.hw_c, f"{path}.hw_c")
     _at_least(hw_c, f"{path}.hw_c", seg.hw_c, 0.0, strict=True)
     m_path = f"{path}.material"
     if seg.roughness is not None:
@@ -241,11 +215,11 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
                            else (m_path, seg.material))
         half = format_quantity(diameter / 2, "roughness")
         raise InputError(r_path, describe(r_value), f"must be below half the diameter ({half})")
-    minor_k = _number(seg.minor_k, f"{path}.minor_k") or 0.0
+    minor_k = plain_number(seg.minor_k, f"{path}.minor_k") or 0.0
     _at_least(minor_k, f"{path}.minor_k", seg.minor_k, 0.0, strict=False)
     counts: dict[str, float] = {}
     for key, count in seg.fittings.items():
-        number = _number(count, f"{path}.fittings.{key}")
+        number = plain_number(count, f"{path}.fittings.{key}")
         _at_least(number, f"{path}.fittings.{key}", count, 0.0, strict=False)
         counts[key] = number  # type: ignore[assignment]
     k_fittings = fittings_k(counts, diameter, f"{path}.fittings") if counts else 0.0
@@ -272,9 +246,9 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
     if br.valve_kv is not None and br.valve_cv is not None:
         raise InputError(f"{path}.valve_cv", describe(br.valve_cv),
                          "give valve_kv or valve_cv, not both")
-    kv = _number(br.valve_kv, f"{path}.valve_kv")
+    kv = plain_number(br.valve_kv, f"{path}.valve_kv")
     _at_least(kv, f"{path}.valve_kv", br.valve_kv, 0.0, strict=True)
-    cv = _number(br.valve_cv, f"{path}.valve_cv")
+    cv = plain_number(br.valve_cv, f"{path}.valve_cv")
     _at_least(cv, f"{path}.valve_cv", br.valve_cv, 0.0, strict=True)
     if cv is not None:
         kv = kv_from_cv(cv)
@@ -329,7 +303,7 @@ def _find(site: Site, network: Network) -> Find:
     if target == 0:
         raise InputError("solve.target_flow", describe(s.target_flow), "must not be zero")
     n_seg = len(network.branches[index].segments)
-    seg = 1 if s.segment is None else _number(s.segment, "solve.segment")
+    seg = 1 if s.segment is None else plain_number(s.segment, "solve.segment")
     if seg is None or seg != int(seg) or not 1 <= seg <= n_seg:
         raise InputError("solve.segment", describe(s.segment),
                          f"must be a segment number from 1 to {n_seg} (counted from 1)")
@@ -393,57 +367,3 @@ def _site_path(exc: InputError, site: Site) -> InputError:
     if m and len(site.branches[int(m[1])].segments) == 1:
         return InputError(f"branches[{m[1]}].{m[2]}", exc.value, exc.reason)
     return exc
-
-
-# ---- solving -------------------------------------------------------------------------------
-
-def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
-    """Build and solve ``site``; for a diameter found on a catalog-sized segment, also the
-    smallest catalog size (same standard and schedule) with a bore at least that large, and the
-    flow the branch then carries with the site's given condition held."""
-    from .solve import solve
-
-    built = build(site, presets)
-    result = solve(built.network, built.given, built.find)
-    pick = None
-    notes = list(built.notes)
-    find = built.find
-    if isinstance(find, FindUnknown) and find.quantity == "diameter" and result.solved:
-        i = built.network.index_of(find.branch)
-        like = built.sizes[i][find.segment]
-        if like is not None:
-            pick = _catalog_pick(site, built, i, find, like, result.solved.value, notes)
-    return SiteResult(site, built, result, pick, tuple(notes))
-
-
-def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any,
-                  required: float, notes: list[str]) -> CatalogPick | None:
-    from .catalogs import fittings_k, smallest_at_least
-    from .solve import solve
-
-    size = smallest_at_least(required, like)
-    if size is None:
-        notes.append(f"no {like.standard} schedule {like.schedule} size has a bore of "
-                     f"{format_quantity(required, 'diameter')} or more")
-        return None
-    spec = site.branches[i].segments[find.segment]
-    seg = built.network.branches[i].segments[find.segment]
-    counts = {k: float(_number(v, "fittings") or 0.0) for k, v in spec.fittings.items()}
-    k_fit = fittings_k(counts, size.inner_diameter_m) if counts else 0.0
-    minor = seg.minor_k - built.fittings_k[i][find.segment] + k_fit
-    segments = list(built.network.branches[i].segments)
-    segments[find.segment] = replace(seg, diameter=size.inner_diameter_m, minor_k=minor)
-    branch = replace(built.network.branches[i], segments=tuple(segments))
-    network = built.network.replace_branch(i, branch)
-    result = solve(network, built.given, FindFlows())
-    return CatalogPick(size, float(result.flows[i]), _held(built.given), result)
-
-
-def _held(given: Given) -> str:
-    if isinstance(given, PressureDrop):
-        return f"the pressure drop of {format_quantity(given.value, 'pressure')} held"
-    if isinstance(given, TotalFlow):
-        return (f"the total flow of {format_quantity(given.value, 'flow')} held "
-                "(the other branches' flows change with it)")
-    return (f"the measured flow of {format_quantity(given.value, 'flow')} in "
-            f"'{given.branch}' held (so the driving head is unchanged)")

@@ -425,3 +425,17 @@ def _demo_path() -> Path:
 
 DEMO_PATH = _demo_path()
 """The bundled demo site file (read it with :func:`demo_text`; never write to it)."""
+
+
+_SOLVING = {"build": "sitebuild", "Built": "sitebuild", "solve_site": "sitesolve",
+            "SiteResult": "sitesolve", "CatalogPick": "sitesolve"}
+
+
+def __getattr__(name: str) -> Any:
+    """``sitefile.build`` and ``sitefile.solve_site`` as well, loaded on first use (those
+    modules import this one)."""
+    if name in _SOLVING:
+        from importlib import import_module
+
+        return getattr(import_module(f".{_SOLVING[name]}", __package__), name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -1,0 +1,206 @@
+"""The ``branchwise`` command: open the app, or solve a site file from a shell or a script.
+
+    branchwise                      open the app (without a terminal: print the demo solve)
+    branchwise solve [SITE]         solve a site file (default: the bundled demo) and print it
+    branchwise demo PATH            write the demo site as a starting file
+    branchwise open SITE            open the app on a site file
+    branchwise where                show where user files live
+
+Nothing here imports Textual at module level: ``branchwise solve`` must start fast and work
+where no terminal UI can run. Bad input prints one line, ``branchwise: <file>: <field>: <reason>,
+got <value>``, and exits with status 2; the input file is only ever read.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+from typing import TextIO
+
+EXIT_OK = 0
+EXIT_INPUT = 2
+"""Exit status for bad input or a site with no answer (argparse uses 2 for bad usage too)."""
+
+
+def _version() -> str:
+    from branchwise.core.report import version
+
+    return version()
+
+
+def _parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="branchwise",
+        description="Flow split in parallel pipe branches for site work: flows, or one "
+                    "branch's diameter, length or roughness, from a field reading.",
+        epilog="Run 'branchwise COMMAND --help' for a command's options.",
+    )
+    p.add_argument("--version", action="version", version=f"branchwise {_version()}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND")
+
+    solve = sub.add_parser(
+        "solve", help="solve a site file and print the result",
+        description="Solve a site file (default: the bundled demo site) and print the result. "
+                    "The site file is only read, never changed.")
+    solve.add_argument("site", nargs="?", type=Path, help="site file (TOML); default: the demo")
+    _output_options(solve)
+
+    demo = sub.add_parser(
+        "demo", help="write the demo site to a file to start from",
+        description="Write the bundled demo site (a made-up chilled-water header) to PATH.")
+    demo.add_argument("path", type=Path, help="file to write (or a folder to write it into)")
+    demo.add_argument("--force", action="store_true", help="replace an existing file")
+
+    open_ = sub.add_parser(
+        "open", help="open the app on a site file",
+        description="Open the app on a site file (until the app is installed: solve it).")
+    open_.add_argument("site", type=Path, help="site file (TOML)")
+    _output_options(open_)
+
+    sub.add_parser("where", help="show where user files live",
+                   description="Print the folders and files branchwise keeps for the user.")
+    return p
+
+
+def _output_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--units", choices=("si", "us"), default="si",
+                   help="unit system of the table, CSV and Markdown (JSON is always SI)")
+    p.add_argument("--format", choices=("table", "json", "csv", "markdown"), default="table",
+                   help="output format (default: table)")
+    p.add_argument("-o", "--output", type=Path, metavar="FILE",
+                   help="write the output to FILE instead of the screen")
+
+
+# ---- commands ------------------------------------------------------------------------------
+
+def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None,
+           out: TextIO) -> int:
+    from branchwise.core.report import render
+    from branchwise.core.sitefile import demo_site, load_site
+    from branchwise.core.sitesolve import solve_site
+
+    site = demo_site() if site_path is None else load_site(site_path)
+    text = render(solve_site(site), fmt, units)
+    if output is None:
+        out.write(text)
+        return EXIT_OK
+    from branchwise.core.errors import InputError
+    from branchwise.core.tomlfile import atomic_write_text
+
+    if site_path is not None and output.exists() and output.resolve() == site_path.resolve():
+        raise InputError("--output", str(output), "is the site file itself; the site file is "
+                         "never overwritten")
+    atomic_write_text(output, text, backup=False)
+    return EXIT_OK
+
+
+def _demo(path: Path, force: bool, out: TextIO) -> int:
+    from branchwise.core.errors import InputError
+    from branchwise.core.sitefile import DEMO_NAME, demo_text
+    from branchwise.core.tomlfile import atomic_write_text
+
+    if path.is_dir():
+        path = path / DEMO_NAME
+    if path.exists() and not force:
+        raise InputError(path.name, str(path), "already exists; choose another name or add --force")
+    atomic_write_text(path, demo_text(), backup=True)
+    out.write(f"wrote the demo site to {path}\n"
+              f"solve it with: branchwise solve {path}\n")
+    return EXIT_OK
+
+
+def _where(out: TextIO) -> int:
+    from branchwise.core.paths import DATA_DIR_ENV, where_files_live
+
+    labels = {"data_dir": "data folder", "presets_file": "presets", "settings_file": "settings",
+              "sites_dir": "sites", "recovery_dir": "recovery copies"}
+    places = where_files_live()
+    width = max(len(labels.get(k, k)) for k in places)
+    for key, path in places.items():
+        out.write(f"{labels.get(key, key).ljust(width)}  {path}\n")
+    out.write(f"(set {DATA_DIR_ENV} to use another data folder)\n")
+    return EXIT_OK
+
+
+# ---- the app (another module; loaded only when a terminal can show it) ---------------------
+
+def _launch_app(site_path: Path | None) -> int | None:
+    """APP HOOK: run ``branchwise.tui.app.BranchwiseApp(site_path=...)`` if it is installed.
+
+    Returns the app's exit status, or None when there is no app module yet or no terminal to
+    draw on (standard input or output redirected), so the caller prints a solve instead.
+    """
+    import importlib.util
+
+    if not (sys.stdin.isatty() and sys.stdout.isatty()):
+        return None
+    if importlib.util.find_spec("branchwise.tui.app") is None:
+        return None
+    from branchwise.tui.app import BranchwiseApp  # Textual loads only here
+
+    app = BranchwiseApp(site_path=site_path)
+    code = app.run()
+    return code if isinstance(code, int) else (app.return_code or 0)
+
+
+# ---- entry point ---------------------------------------------------------------------------
+
+def _site_label(args: argparse.Namespace) -> str:
+    site = getattr(args, "site", None)
+    if args.command == "demo":
+        return str(args.path)
+    return str(site) if site is not None else "demo site"
+
+
+def _one_line(text: str) -> str:
+    return " ".join(text.split())
+
+
+def _message(exc: Exception, label: str) -> str:
+    """``<file>: <field>: <reason>, got <value>`` on one line, the file named once."""
+    from branchwise.core.errors import InputError, NoSolutionError
+
+    if isinstance(exc, InputError):
+        field, name = exc.field, Path(label).name
+        if field == name or field.startswith(name + " "):  # "demo.toml line 7" → "line 7"
+            field = field[len(name):].strip()
+        text = f"{field + ': ' if field else ''}{exc.reason}, got {exc.value}"
+    elif isinstance(exc, NoSolutionError) and exc.field:
+        text = f"{exc.field}: {exc}"
+    else:
+        text = str(exc)
+    return _one_line(f"{label}: {text}")
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the command line; returns the exit status (0 fine, 2 bad input or no answer)."""
+    from branchwise.core.errors import BranchwiseError
+
+    args = _parser().parse_args(argv)
+    out = sys.stdout
+    try:
+        if args.command is None:
+            code = _launch_app(None)
+            return code if code is not None else _solve(None, "si", "table", None, out)
+        if args.command == "open":
+            code = _launch_app(args.site)
+            if code is not None:
+                return code
+            return _solve(args.site, args.units, args.format, args.output, out)
+        if args.command == "solve":
+            return _solve(args.site, args.units, args.format, args.output, out)
+        if args.command == "demo":
+            return _demo(args.path, args.force, out)
+        return _where(out)
+    except BranchwiseError as exc:
+        print(f"branchwise: {_message(exc, _site_label(args))}", file=sys.stderr)
+        return EXIT_INPUT
+    except OSError as exc:
+        target = exc.filename if exc.filename is not None else _site_label(args)
+        print(f"branchwise: {target}: {_one_line(exc.strerror or str(exc))}", file=sys.stderr)
+        return EXIT_INPUT
+
+
+if __name__ == "__main__":
+    sys.exit(main())
