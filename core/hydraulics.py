@@ -188,7 +188,8 @@ def flows_at_head(lay: Layout, head: Array | float) -> tuple[Array, RootInfo]:
     it = 0
     for it in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
         h, s = head_and_slope(sub, np.exp(x))
-        resid = np.log(h) - ln_t
+        with np.errstate(divide="ignore"):  # h underflows to 0 only far below the root
+            resid = np.log(h) - ln_t
         done = np.abs(resid) <= HEAD_RTOL
         lo = np.where(resid < 0, x, lo)
         hi = np.where(resid > 0, x, hi)
@@ -198,7 +199,8 @@ def flows_at_head(lay: Layout, head: Array | float) -> tuple[Array, RootInfo]:
         trial = x - step
         inside = (trial > lo) & (trial < hi)
         both = np.isfinite(lo) & np.isfinite(hi)
-        fallback = np.where(both, 0.5 * (lo + hi), np.where(np.isfinite(hi), hi - 8, lo + 8))
+        with np.errstate(invalid="ignore"):  # lo + hi is nan where a side is still open
+            fallback = np.where(both, 0.5 * (lo + hi), np.where(np.isfinite(hi), hi - 8, lo + 8))
         x = np.where(done, x, np.where(inside, trial, fallback))
         collapsed = both & (hi - lo <= 4 * np.finfo(float).eps * np.maximum(1, np.abs(x)))
         if (done | collapsed).all():
@@ -270,7 +272,9 @@ def head_for_total_flow(lay: Layout, total: Array | float) -> tuple[Array, Array
         trial = u - np.clip(resid / np.maximum(slope, 0.25), -16.0, 16.0)
         inside = (trial > lo) & (trial < hi)
         both = np.isfinite(lo) & np.isfinite(hi)
-        fallback = np.where(both, 0.5 * (lo + hi), np.where(np.isfinite(hi), hi - 16, lo + 16))
+        with np.errstate(invalid="ignore"):
+            fallback = np.where(both, 0.5 * (lo + hi),
+                                np.where(np.isfinite(hi), hi - 16, lo + 16))
         u = np.where(done, u, np.where(inside, trial, fallback))
         collapsed = both & (hi - lo <= 4 * np.finfo(float).eps * np.maximum(1, np.abs(u)))
         if (done | collapsed).all():

@@ -13,6 +13,7 @@ import math
 
 import numpy as np
 import pytest
+
 from branchwise.core.curve import system_curve, tiled_layout, to_csv
 from branchwise.core.errors import InputError
 from branchwise.core.hydraulics import Layout, flows_at_head

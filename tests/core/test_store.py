@@ -16,6 +16,7 @@ from pathlib import Path
 import platformdirs
 import pytest
 import tomlkit
+
 from branchwise.core.errors import InputError
 from branchwise.core.store import (
     FORMAT,

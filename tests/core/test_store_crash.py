@@ -22,6 +22,7 @@ import time
 from pathlib import Path
 
 import pytest
+
 from branchwise.core.errors import InputError
 from branchwise.core.store import atomic_write_text, list_sites, load_toml
 

@@ -11,6 +11,7 @@ import tomllib
 from pathlib import Path
 
 import pytest
+
 from branchwise.core.errors import InputError
 from branchwise.core.store import (
     MAX_RECENT,

@@ -17,6 +17,7 @@ import math
 
 import numpy as np
 import pytest
+
 from branchwise.core.errors import InputError
 from branchwise.core.model import (
     Branch,

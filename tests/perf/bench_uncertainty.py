@@ -16,6 +16,7 @@ import platform
 import time
 
 import numpy as np
+
 from branchwise.core.model import (
     Branch,
     FindFlows,

@@ -12,10 +12,11 @@ from importlib import resources
 
 import numpy as np
 import pytest
-from branchwise.core.errors import InputError
-from branchwise.core.fluids import _spline, freezing_point_k, glycol
 from CoolProp.CoolProp import PropsSI
 from scipy.interpolate import CubicSpline
+
+from branchwise.core.errors import InputError
+from branchwise.core.fluids import _spline, freezing_point_k, glycol
 
 ATM = 101325.0
 CODES = {"ethylene-glycol": "MEG", "propylene-glycol": "MPG"}

@@ -10,6 +10,10 @@ from __future__ import annotations
 import iapws
 import numpy as np
 import pytest
+from CoolProp.CoolProp import PropsSI
+from iapws._iapws import _Viscosity as iapws_viscosity
+from iapws.iapws97 import _TSat_P as tsat_if97
+
 from branchwise.core.errors import InputError
 from branchwise.core.fluids import FLUID_KINDS, custom, fluid_from_spec, seawater, water
 from branchwise.core.fluids.water import (
@@ -17,9 +21,6 @@ from branchwise.core.fluids.water import (
     saturation_temperature_if97,
     viscosity_iapws2008,
 )
-from CoolProp.CoolProp import PropsSI
-from iapws._iapws import _Viscosity as iapws_viscosity
-from iapws.iapws97 import _TSat_P as tsat_if97
 
 ATM = 101325.0
 
