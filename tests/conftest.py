@@ -9,3 +9,18 @@ settings.register_profile(
     "large", max_examples=25_000, deadline=None, suppress_health_check=list(HealthCheck)
 )
 settings.load_profile("ci")
+
+
+def pytest_terminal_summary(terminalreporter):
+    """After a run that fuzzed the solver, say how many cases and the worst residual."""
+    import sys
+
+    module = sys.modules.get("test_solve_properties") or sys.modules.get(
+        "tests.core.test_solve_properties"
+    )
+    stats = getattr(module, "STATS", None)
+    if stats and stats["cases"]:
+        terminalreporter.write_line(
+            f"solver fuzz: {stats['cases']} cases, {stats['no_solution']} ended in the clear "
+            f"no-solution error, worst relative residual {stats['worst_residual']:.2e}"
+        )

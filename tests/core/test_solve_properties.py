@@ -12,6 +12,7 @@ runs many more.
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 
 import numpy as np
 from hypothesis import given, note
@@ -32,6 +33,16 @@ from branchwise.core.model import (
 from branchwise.core.solve import solve
 
 RTOL = 1e-9
+
+# Every case adds to these; tests/conftest.py prints them at the end of the run.
+STATS = {"cases": 0, "no_solution": 0, "worst_residual": 0.0}
+
+
+def record(residual: float | None = None, no_solution: bool = False) -> None:
+    STATS["cases"] += 1
+    STATS["no_solution"] += int(no_solution)
+    if residual is not None:
+        STATS["worst_residual"] = max(STATS["worst_residual"], residual)
 
 
 def log_uniform(lo: float, hi: float):
@@ -75,6 +86,7 @@ def test_every_branch_loses_the_driving_head(net, dp):
     res = solve(net, PressureDrop(dp))
     assert res.convergence.converged
     h = heads_of(net, res.flows)
+    record(float(np.max(np.abs(h / res.driving_head - 1))))
     np.testing.assert_allclose(h, res.driving_head, rtol=RTOL)
     assert np.all(res.flows > 0)
 
@@ -83,6 +95,7 @@ def test_every_branch_loses_the_driving_head(net, dp):
 def test_total_flow_round_trip(net, dp):
     first = solve(net, PressureDrop(dp))
     back = solve(net, TotalFlow(first.total_flow))
+    record(abs(back.pressure_drop / dp - 1))
     assert math.isclose(back.pressure_drop, dp, rel_tol=RTOL)
     np.testing.assert_allclose(back.flows, first.flows, rtol=RTOL)
     assert math.isclose(back.flows.sum(), first.total_flow, rel_tol=RTOL)
@@ -93,29 +106,43 @@ def test_measured_branch_round_trip(net, dp, data):
     first = solve(net, PressureDrop(dp))
     i = data.draw(st.integers(0, len(net.branches) - 1))
     back = solve(net, MeasuredFlow(net.branches[i].name, first.flows[i]))
+    record(abs(back.pressure_drop / dp - 1))
     assert math.isclose(back.pressure_drop, dp, rel_tol=RTOL)
     np.testing.assert_allclose(back.flows, first.flows, rtol=RTOL)
 
 
 @given(networks(), pressure_drops, st.data())
 def test_found_unknown_reproduces_the_target(net, dp, data):
+    """Every direction: Δp, total flow or a measured branch fixes the head; then D, L or ε."""
     quantity = data.draw(st.sampled_from(["diameter", "length", "roughness"]))
     i = data.draw(st.integers(0, len(net.branches) - 1))
     j = data.draw(st.integers(0, len(net.branches[i].segments) - 1))
     factor = data.draw(st.floats(0.5, 2.0))
     first = solve(net, PressureDrop(dp))
     target = first.flows[i] * factor
-    note(f"{quantity} of branch {i} segment {j}, target {target}")
+    others = [k for k in range(len(net.branches)) if k != i]
+    kinds = ["pressure drop"] + (["total flow", "measured"] if others else [])
+    kind = data.draw(st.sampled_from(kinds))
+    if kind == "pressure drop":
+        condition = PressureDrop(dp)
+    elif kind == "total flow":
+        condition = TotalFlow(first.total_flow - first.flows[i] + target)
+    else:
+        m = data.draw(st.sampled_from(others))
+        condition = MeasuredFlow(net.branches[m].name, first.flows[m])
+    note(f"{quantity} of branch {i} segment {j}, target {target}, given {condition}")
     try:
-        res = solve(net, PressureDrop(dp), FindUnknown(quantity, net.branches[i].name, target, j))
+        res = solve(net, condition, FindUnknown(quantity, net.branches[i].name, target, j))
     except NoSolutionError:
+        record(no_solution=True)
         return  # the clear error is an allowed outcome
+    # The head is the one the as-built network had (the other branches are unchanged).
+    assert math.isclose(res.driving_head, first.driving_head, rel_tol=RTOL)
     assert math.isclose(res.flows[i], target, rel_tol=RTOL)
     # Feed the value back into a fresh network and solve forward.
     segs = list(net.branches[i].segments)
-    from dataclasses import replace
-
     segs[j] = replace(segs[j], **{quantity: res.solved.value})
     fed = net.replace_branch(i, replace(net.branches[i], segments=tuple(segs)))
     again = solve(fed, PressureDrop(dp))
+    record(abs(again.flows[i] / target - 1))
     assert math.isclose(again.flows[i], target, rel_tol=RTOL)
