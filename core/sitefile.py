@@ -270,7 +270,7 @@ def _segment_dict(seg: SegmentSpec) -> dict[str, Any]:
 
 def site_to_dict(site: Site) -> dict[str, Any]:
     """The plain TOML structure of ``site`` in file order (None values left out)."""
-    doc: dict[str, Any] = {"format": FORMAT, "kind": "site", "name": site.name}
+    doc: dict[str, Any] = {"format": FORMAT, "name": site.name}
     if site.notes is not None:
         doc["notes"] = site.notes
     doc["fluid"] = _present(site.fluid, FLUID_KEYS)
@@ -306,7 +306,10 @@ def dump_site(site: Site) -> str:
         doc = tomlkit.document()
         doc.add(tomlkit.comment(HEADER))
         doc.add(tomlkit.nl())
-    _sync(doc, site_to_dict(site), tomlkit, plain)
+    values = site_to_dict(site)
+    if "kind" in doc:  # a file that says what it is keeps saying so
+        values = {"format": values.pop("format"), "kind": plain(doc["kind"]), **values}
+    _sync(doc, values, tomlkit, plain)
     return tomlkit.dumps(doc)
 
 

@@ -319,6 +319,7 @@ def format_number(value: float, digits: int = 4) -> str:
         return "—"
     if value == 0:
         return "0"
+    value = float(f"{value:.{digits - 1}e}")  # round first: 0.99999 → 1.000, not 0.9999x
     magnitude = math.floor(math.log10(abs(value)))
     if magnitude >= 7 or magnitude < -4:
         return f"{value:.{digits - 1}e}"

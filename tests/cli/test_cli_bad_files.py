@@ -1,0 +1,148 @@
+"""Bad site files through ``branchwise solve``: each gives exit status 2 and one line on stderr
+that names the file, the field and the value; never a traceback; the file is left untouched."""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+
+import pytest
+
+from branchwise.tui.cli import main
+
+GOOD = """format = 1
+name = "Pump room"
+
+[fluid]
+kind = "water"
+temperature = "18 degC"
+
+[conditions]
+pressure_drop = "68 kPa"
+
+[[branches]]
+name = "Condenser A"
+diameter = "102.26 mm"
+length = "64 m"
+roughness = "0.045 mm"
+minor_k = 6.2
+
+[[branches]]
+name = "Jacket loop"
+size = "3 in sch 40"
+length = "180 ft"
+material = "commercial-steel"
+"""
+
+
+def edit(old: str, new: str) -> str:
+    assert old in GOOD, old  # the table below must really change the file
+    return GOOD.replace(old, new, 1)
+
+
+SOLVE = '\n[solve]\nfind = "diameter"\nbranch = "{branch}"\ntarget_flow = "{flow}"\n'
+
+# (case, file content, text the one-line message must contain)
+BAD_FILES = [
+    ("bad TOML, with its line", edit('kind = "water"', "kind = water"), "line 5"),
+    ("unclosed string", edit('name = "Pump room"', 'name = "Pump room'), "line 2"),
+    ("wrong unit dimension", edit('length = "64 m"', 'length = "64 kPa"'),
+     "branches[0].length: is not a length"),
+    ("unknown unit", edit('length = "64 m"', 'length = "64 furlongz"'),
+     "branches[0].length: unknown unit"),
+    ("bare number for a length", edit('length = "64 m"', "length = 64"),
+     "branches[0].length: needs a unit"),
+    ("NaN number", edit('length = "64 m"', "length = nan"), "branches[0].length"),
+    ("NaN text", edit('length = "64 m"', 'length = "nan m"'), "branches[0].length"),
+    ("infinite", edit('pressure_drop = "68 kPa"', 'pressure_drop = "1e999 kPa"'),
+     "conditions.pressure_drop"),
+    ("negative length", edit('length = "64 m"', 'length = "-64 m"'),
+     "branches[0].length: must not be negative"),
+    ("roughness at least D/2", edit('roughness = "0.045 mm"', 'roughness = "60 mm"'),
+     "branches[0].roughness: must be below half the diameter"),
+    ("missing condition", edit('pressure_drop = "68 kPa"', ""), "conditions: give exactly one"),
+    ("contradictory conditions", edit('pressure_drop = "68 kPa"',
+                                      'pressure_drop = "68 kPa"\ntotal_flow = "30 L/s"'),
+     "conditions.total_flow: contradicts conditions.pressure_drop"),
+    ("pressure drop and a measured flow", edit('minor_k = 6.2', 'minor_k = 6.2\n'
+                                               'measured_flow = "20 L/s"'),
+     "branches[0].measured_flow: contradicts"),
+    ("unknown branch in [solve]", GOOD + SOLVE.format(branch="Tower", flow="9 L/s"),
+     "solve.branch: no such branch"),
+    ("duplicate names", edit('name = "Jacket loop"', 'name = "condenser a"'),
+     "branches[1].name: duplicates branches[0].name"),
+    ("unknown fluid kind", edit('kind = "water"', 'kind = "mercury"'), "fluid.kind"),
+    ("water above boiling", edit('"18 degC"', '"120 degC"'), "fluid.temperature"),
+    ("unknown material", edit('material = "commercial-steel"', 'material = "unobtainium"'),
+     "branches[1].material"),
+    ("size not in the catalog", edit('"3 in sch 40"', '"3 in sch 41"'), "branches[1].size"),
+    ("diameter and size both", edit('size = "3 in sch 40"',
+                                    'size = "3 in sch 40"\ndiameter = "3 in"'),
+     "branches[1].size: give diameter or size, not both"),
+    ("unknown key (typo)", edit('length = "64 m"', 'lenght = "64 m"'),
+     "branches[0].lenght: unknown key (did you mean 'length'?)"),
+    ("unknown fitting", edit("minor_k = 6.2", "minor_k = 6.2\nfittings = { elbow-91 = 2 }"),
+     "branches[0].fittings"),
+    ("newer format", edit("format = 1", "format = 99"), "format: written by a newer branchwise"),
+    ("no branches", GOOD.split("[[branches]]")[0], "branches: a site needs at least one"),
+    ("unknown find", GOOD + '\n[solve]\nfind = "colour"\n', "solve.find: must be one of"),
+    ("no answer for the target", GOOD + SOLVE.format(branch="Jacket loop", flow="-9 L/s"),
+     "solve.target_flow"),
+    ("fluid not a table", edit('[fluid]\nkind = "water"\ntemperature = "18 degC"\n',
+                               'fluid = "water"\n'), "fluid: must be a table"),
+    ("empty file", "", "fluid.temperature: needed for water"),
+]
+
+
+@pytest.mark.parametrize(("case", "content", "expected"), BAD_FILES, ids=[c[0] for c in BAD_FILES])
+def test_bad_site_file(tmp_path, capsys, case, content, expected):
+    path = tmp_path / "site.toml"
+    path.write_text(content, encoding="utf-8")
+    before = path.read_bytes()
+    assert main(["solve", str(path)]) == 2
+    out, err = capsys.readouterr()
+    assert out == ""
+    assert err.count("\n") == 1 and err.startswith(f"branchwise: {path}: "), err
+    assert expected in err, err
+    assert "Traceback" not in err
+    assert path.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["site.toml"]  # nothing written beside
+
+
+def test_there_are_at_least_fifteen_kinds_of_bad_file():
+    assert len({case for case, _, _ in BAD_FILES}) >= 15
+
+
+def test_binary_junk_missing_file_and_folder(tmp_path, capsys):
+    junk = tmp_path / "junk.toml"
+    junk.write_bytes(b"format = 1\n\xff\xfe\x00\x81binary")
+    assert main(["solve", str(junk)]) == 2
+    err = capsys.readouterr().err
+    assert "line 2" in err and "UTF-8" in err and err.count("\n") == 1
+    assert junk.read_bytes() == b"format = 1\n\xff\xfe\x00\x81binary"
+
+    assert main(["solve", str(tmp_path / "missing.toml")]) == 2
+    assert "file not found" in capsys.readouterr().err
+
+    assert main(["solve", str(tmp_path)]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith("branchwise: ") and err.count("\n") == 1
+
+
+def test_bad_file_in_a_real_process_has_no_traceback(tmp_path):
+    path = tmp_path / "site.toml"
+    path.write_bytes(b"\x00\x01\x02 junk")
+    run = subprocess.run([sys.executable, "-m", "branchwise.tui.cli", "solve", str(path)],
+                         capture_output=True, text=True, timeout=60)
+    assert run.returncode == 2
+    assert run.stdout == ""
+    assert run.stderr.count("\n") == 1 and "Traceback" not in run.stderr
+    assert path.read_bytes() == b"\x00\x01\x02 junk"
+
+
+def test_output_file_cannot_be_the_site_file(tmp_path, capsys):
+    path = tmp_path / "site.toml"
+    path.write_text(GOOD)
+    assert main(["solve", str(path), "-o", str(path)]) == 2
+    assert "never overwritten" in capsys.readouterr().err
+    assert path.read_text() == GOOD
