@@ -18,8 +18,9 @@ from typing import Any
 
 from .model import MeasuredFlow, PressureDrop, TotalFlow
 from .results import BranchResult, SegmentResult
-from .sitefile import Site, site_to_dict
+from .sitefile import Site
 from .sitesolve import SiteResult
+from .sitewrite import site_to_dict
 from .units import display_unit as _unit
 from .units import format_number, format_quantity, to_unit, unit_label
 
@@ -131,9 +132,21 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
     }
 
 
+def _finite(obj: Any) -> Any:
+    """``obj`` with every NaN or infinite float replaced by None (JSON null)."""
+    if isinstance(obj, float):
+        return _num(obj)
+    if isinstance(obj, dict):
+        return {k: _finite(v) for k, v in obj.items()}
+    if isinstance(obj, list):
+        return [_finite(v) for v in obj]
+    return obj
+
+
 def to_json(sr: SiteResult, indent: int | None = 2) -> str:
-    """:func:`to_dict` as JSON text (strict: no NaN)."""
-    return json.dumps(to_dict(sr), indent=indent, ensure_ascii=False, allow_nan=False) + "\n"
+    """:func:`to_dict` as strict JSON text: a value that is not finite is written as null."""
+    doc = _finite(to_dict(sr))
+    return json.dumps(doc, indent=indent, ensure_ascii=False, allow_nan=False) + "\n"
 
 
 # ---- rows in the reader's units ------------------------------------------------------------
@@ -262,7 +275,8 @@ def to_table(sr: SiteResult, system: str = "si") -> str:
 # ---- CSV -----------------------------------------------------------------------------------
 
 def to_csv(sr: SiteResult, system: str = "si") -> str:
-    """One row per segment, units in the header (``Flow (L/s)``), for a spreadsheet."""
+    """One row per segment, units in the header (``Flow (L/s)``), for a spreadsheet; the
+    cautions follow as one-cell rows starting with ``#``."""
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
     units = _units_row(system)
@@ -271,6 +285,8 @@ def to_csv(sr: SiteResult, system: str = "si") -> str:
         cells[0] = b.name  # every row names its branch, so rows can be sorted and filtered
         cells[1] = str(j + 1)
         writer.writerow(cells)
+    for caution in CAUTIONS:  # after the data, as "#" lines a reader can skip (comment="#")
+        writer.writerow([f"# {caution}"])
     return buf.getvalue()
 
 

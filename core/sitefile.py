@@ -255,151 +255,6 @@ def load_site(path: str | Path) -> Site:
     return site
 
 
-# ---- writing ---------------------------------------------------------------------------------
-
-def _present(spec: Any, keys: tuple[str, ...]) -> dict[str, Any]:
-    return {k: getattr(spec, k) for k in keys if getattr(spec, k, None) is not None}
-
-
-def _segment_dict(seg: SegmentSpec) -> dict[str, Any]:
-    out = _present(seg, PIPE_KEYS[:-1])
-    if seg.fittings:
-        out["fittings"] = dict(seg.fittings)
-    return out
-
-
-def site_to_dict(site: Site) -> dict[str, Any]:
-    """The plain TOML structure of ``site`` in file order (None values left out)."""
-    doc: dict[str, Any] = {"format": FORMAT, "name": site.name}
-    if site.notes is not None:
-        doc["notes"] = site.notes
-    doc["fluid"] = _present(site.fluid, FLUID_KEYS)
-    doc["conditions"] = _present(site.conditions, CONDITION_KEYS)
-    branches = []
-    for br in site.branches:
-        out: dict[str, Any] = {"name": br.name}
-        if len(br.segments) == 1:
-            out.update(_segment_dict(br.segments[0]))
-        else:
-            out["segments"] = [_segment_dict(s) for s in br.segments]
-        out.update(_present(br, ("valve_kv", "valve_cv", "measured_flow", "note")))
-        branches.append(out)
-    doc["branches"] = branches
-    if site.solve is not None:
-        doc["solve"] = _present(site.solve, SOLVE_KEYS)
-    return doc
-
-
-HEADER = "branchwise site file: values are text with units (\"64 m\", \"3.068 in\", \"12 psi\")."
-
-
-def dump_site(site: Site) -> str:
-    """TOML text for ``site``. A site read from a file keeps that file's comments and layout
-    wherever its values did not change (the comment-preserving writer ``tomlkit``)."""
-    import tomlkit
-
-    from .tomlfile import plain
-
-    if site.origin is not None:
-        doc = tomlkit.parse(site.origin)
-    else:
-        doc = tomlkit.document()
-        doc.add(tomlkit.comment(HEADER))
-        doc.add(tomlkit.nl())
-    values = site_to_dict(site)
-    if "kind" in doc:  # a file that says what it is keeps saying so
-        values = {"format": values.pop("format"), "kind": plain(doc["kind"]), **values}
-    _sync(doc, values, tomlkit, plain)
-    return tomlkit.dumps(doc)
-
-
-def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None:
-    """Make the tomlkit container ``doc`` hold ``values``, touching only what changed."""
-    for name in [name for name in doc if name not in values]:
-        del doc[name]
-    for name, value in values.items():
-        old = doc.get(name)
-        if isinstance(value, dict) and name in ("fluid", "conditions", "solve"):
-            if not isinstance(old, Mapping) or old is None:
-                doc[name] = old = tomlkit.table()
-            _sync(old, value, tomlkit, plain)
-        elif name == "branches":
-            _sync_branches(doc, old, value, tomlkit, plain)
-        elif old is None or plain(old) != value:
-            doc[name] = _item(value, tomlkit)
-
-
-def _sync_branches(doc: Any, old: Any, branches: list[dict[str, Any]], tomlkit: Any,
-                   plain: Any) -> None:
-    if not isinstance(old, tomlkit.items.AoT) or not branches:
-        aot = tomlkit.aot()
-        for br in branches:
-            table = tomlkit.table()
-            _sync(table, br, tomlkit, plain)
-            aot.append(table)
-        if branches:
-            doc["branches"] = aot
-        elif "branches" in doc:
-            del doc["branches"]
-        return
-    while len(old) > len(branches):
-        old.body.pop()  # drop branches removed at the end
-    for i, br in enumerate(branches):
-        if i < len(old):
-            _sync(old[i], br, tomlkit, plain)
-        else:
-            table = tomlkit.table()
-            _sync(table, br, tomlkit, plain)
-            old.append(table)
-
-
-def _item(value: Any, tomlkit: Any) -> Any:
-    if isinstance(value, dict):
-        inline = tomlkit.inline_table()
-        inline.update({k: _item(v, tomlkit) for k, v in value.items()})
-        return inline
-    if isinstance(value, list):
-        array = tomlkit.array()
-        for item in value:
-            array.append(_item(item, tomlkit))
-        array.multiline(len(value) > 1 or any(isinstance(v, dict) for v in value))
-        return array
-    return value
-
-
-def save_site(site: Site, path: str | Path, overwrite: bool = False) -> Path:
-    """Write ``site`` to ``path`` atomically (the previous file kept as ``.bak``).
-
-    An existing file is replaced only if it is the file this site was read from and has not
-    changed on disk since, or if ``overwrite`` is True; otherwise InputError. Afterwards
-    ``site.source`` is ``path`` and ``site.origin`` the text written.
-    """
-    from .tomlfile import atomic_write_text
-
-    path = Path(path)
-    text = dump_site(site)
-    if path.exists() and not overwrite:
-        own = site.source is not None and _same(site.source, path)
-        try:
-            on_disk = path.read_bytes().decode("utf-8").removeprefix("\ufeff")
-        except (OSError, UnicodeDecodeError):
-            on_disk = None
-        if on_disk != text and not (own and on_disk == site.origin):
-            reason = ("already exists and was changed since it was read" if own
-                      else "already exists; choose another name or overwrite it")
-            raise InputError(path.name, str(path), reason)
-    atomic_write_text(path, text)
-    site.source, site.origin = path, text
-    return path
-
-
-def _same(a: Path, b: Path) -> bool:
-    try:
-        return a.resolve() == b.resolve()
-    except OSError:
-        return False
-
-
 # ---- the demo --------------------------------------------------------------------------------
 
 DEMO_NAME = "demo-site.toml"
@@ -430,15 +285,17 @@ DEMO_PATH = _demo_path()
 """The bundled demo site file (read it with :func:`demo_text`; never write to it)."""
 
 
-_SOLVING = {"build": "sitebuild", "Built": "sitebuild", "solve_site": "sitesolve",
-            "SiteResult": "sitesolve", "CatalogPick": "sitesolve"}
+_ELSEWHERE = {"build": "sitebuild", "Built": "sitebuild", "solve_site": "sitesolve",
+              "SiteResult": "sitesolve", "CatalogPick": "sitesolve", "dump_site": "sitewrite",
+              "save_site": "sitewrite", "site_to_dict": "sitewrite"}
 
 
 def __getattr__(name: str) -> Any:
-    """``sitefile.build`` and ``sitefile.solve_site`` as well, loaded on first use (those
-    modules import this one)."""
-    if name in _SOLVING:
+    """Writing, building and solving live in :mod:`.sitewrite`, :mod:`.sitebuild` and
+    :mod:`.sitesolve` (which import this module); their main names are reachable here too,
+    loaded on first use: ``sitefile.save_site``, ``sitefile.solve_site``..."""
+    if name in _ELSEWHERE:
         from importlib import import_module
 
-        return getattr(import_module(f".{_SOLVING[name]}", __package__), name)
+        return getattr(import_module(f".{_ELSEWHERE[name]}", __package__), name)
     raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -131,9 +131,9 @@ def _unit_expression(text: str, field: str, value: object) -> str:
             raise InputError(field, value, f"{describe(junk)!r} cannot appear in a unit")
         if name is not None:
             name = _NAME_SWAP.get(name, name)
-            if name not in ureg:
+            if not _is_unit(ureg, name):
                 stem = _POWER_SUFFIX.match(name)
-                if stem and stem.group(1) in ureg:
+                if stem and _is_unit(ureg, stem.group(1)):
                     name = f"{stem.group(1)}**{stem.group(2)}"
                 else:
                     raise InputError(field, value, f"unknown unit '{name}'{_hint(name)}")
@@ -157,8 +157,9 @@ def _unit_expression(text: str, field: str, value: object) -> str:
                 raise InputError(field, value, "a unit operator has nothing on its left")
             if power is not None:
                 exp = _TOKEN.match(text, pos)
-                if exp is None or exp.group(4) is None or abs(int(exp.group(4))) > 9:
-                    raise InputError(field, value, "a unit power must be a whole number, -9 to 9")
+                if exp is None or exp.group(4) is None or not 0 < abs(int(exp.group(4))) <= 9:
+                    raise InputError(field, value, "a unit power must be a whole number, "
+                                     "-9 to 9, not 0")
                 pos = exp.end()
                 out.append(f"**{int(exp.group(4))}")
             else:
@@ -169,6 +170,16 @@ def _unit_expression(text: str, field: str, value: object) -> str:
     if depth != 0 or (expect_operand and out):
         raise InputError(field, value, "the unit is incomplete")
     return "".join(out)
+
+
+def _is_unit(ureg: pint.UnitRegistry, name: str) -> bool:
+    """Whether pint knows ``name``; names pint keeps private ("_x", "x__") are not units."""
+    if name.startswith("_") or name.endswith("__"):
+        return False
+    try:
+        return name in ureg
+    except (ValueError, AttributeError):  # pint reads some names ("nan", "inf") as numbers
+        return False
 
 
 def _hint(name: str) -> str:
@@ -226,13 +237,16 @@ def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: s
     ureg = registry()
     expression = _unit_expression(unit, field, shown)
     try:
+        # The grammar above leaves pint only names and operators; what pint still refuses
+        # (a name it reads as a number, such as "nan") comes back as PintError or ValueError.
         units = ureg.parse_units(expression) if expression else ureg.dimensionless
-        dims = ureg.get_dimensionality(spec.dimension)
-        if units.dimensionality != dims:
-            raise InputError(field, shown, _wrong_dimension(kind, spec))
-        value = ureg.Quantity(number, units).to(spec.si or ureg.dimensionless).magnitude
-    except (pint.errors.PintError, OverflowError, ZeroDivisionError) as exc:
+        matches = units.dimensionality == ureg.get_dimensionality(spec.dimension)
+        value = (ureg.Quantity(number, units).to(spec.si or ureg.dimensionless).magnitude
+                 if matches else None)
+    except (pint.errors.PintError, ValueError, OverflowError, ZeroDivisionError) as exc:
         raise InputError(field, shown, f"cannot read the unit: {exc}") from None
+    if value is None:
+        raise InputError(field, shown, _wrong_dimension(kind, spec))
     value = float(value)
     if not math.isfinite(value):
         raise InputError(field, shown, "is too large to represent")

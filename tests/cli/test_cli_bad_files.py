@@ -3,10 +3,16 @@ that names the file, the field and the value; never a traceback; the file is lef
 
 from __future__ import annotations
 
+import contextlib
+import io
 import subprocess
 import sys
+import tempfile
+from pathlib import Path
 
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from branchwise.tui.cli import main
 
@@ -146,3 +152,38 @@ def test_output_file_cannot_be_the_site_file(tmp_path, capsys):
     assert main(["solve", str(path), "-o", str(path)]) == 2
     assert "never overwritten" in capsys.readouterr().err
     assert path.read_text() == GOOD
+
+
+# ---- any value in any field: exit 0 or 2, never an exception ------------------------------
+
+_LINES = [line for line in GOOD.splitlines() if " = " in line]
+_ODD = ['"-1 m"', '"0 m"', '"0 mm"', '"1e-300 m"', '"1E200 m"', '"0 L/s"', "[]", "{}", "[1, 2]",
+        "{ a = 1 }", '"-68 kPa"', '"-300 degC"', '"1 K"', '"3 in sch 40"', '"0 cP"', "nan",
+        "-inf", "true", "0", "1e308"]
+
+
+def _toml(value: object) -> str:
+    if isinstance(value, str):
+        return value if value in _ODD else '"' + value.encode("unicode_escape").decode(
+            "ascii").replace('"', '\\"') + '"'
+    return str(value)
+
+
+@given(st.lists(st.tuples(st.sampled_from(_LINES),
+                          st.one_of(st.sampled_from(_ODD), st.text(max_size=10),
+                                    st.integers(-10**20, 10**20))),
+                min_size=1, max_size=3))
+def test_any_value_in_any_field_exits_0_or_2(changes):
+    # Robustness, no outside reference: bad input is reported, never raised.
+    text = GOOD
+    for line, value in changes:
+        text = text.replace(line, f"{line.split(' = ')[0]} = {_toml(value)}", 1)
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "site.toml"
+        path.write_bytes(text.encode())
+        err = io.StringIO()
+        with contextlib.redirect_stderr(err), contextlib.redirect_stdout(io.StringIO()):
+            code = main(["solve", str(path), "--format", "json"])
+        assert code in (0, 2)
+        assert code == 0 or err.getvalue().count("\n") == 1
+        assert path.read_bytes() == text.encode()

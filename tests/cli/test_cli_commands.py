@@ -89,6 +89,9 @@ def test_table_in_us_units_csv_and_markdown(capsys):
     assert "gpm" in table and "psi" in table and "ft/s" in table
     assert main(["solve", "--format", "csv"]) == 0
     rows = list(csv.reader(io.StringIO(capsys.readouterr().out)))
+    cautions = [r for r in rows if r[0].startswith("#")]
+    rows = [r for r in rows if not r[0].startswith("#")]
+    assert len(cautions) == 4 and all(len(r) == 1 for r in cautions)
     assert rows[0][:3] == ["Branch", "Seg", "Flow (L/s)"]
     assert [r[0] for r in rows[1:]] == ["AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass",
                                        "Bypass"]

@@ -294,3 +294,38 @@ def test_catalog_keyword_free_size_is_a_plain_inner_diameter():
     assert built.network.branches[0].segments[0].diameter == pytest.approx(0.10226)
     assert built.sizes[0][0] is None
     assert catalogs.parse_size("102.26 mm") is None
+
+
+class Presets:
+    """A stand-in for the user's preset store: one saved fluid, bare numbers in SI."""
+
+    def get(self, kind: str, key: str) -> dict:
+        if (kind, key) == ("fluids", "brine-22"):
+            return {"kind": "custom", "name": "Brine 22", "density": 1180.0,
+                    "viscosity": "2.1 cP"}
+        raise InputError(f"{kind}.{key}", key, "no such preset")
+
+
+def test_fluid_preset_key_with_site_values_on_top():
+    from branchwise.core.sitebuild import build
+
+    text = site_text("pressure_drop").replace('kind = "custom"', 'kind = "brine-22"')
+    site = parse_site(text.replace('density = "998.2 kg/m^3"\n', ""))
+    fluid = build(site, Presets()).network.fluid
+    assert (fluid.name, fluid.density, fluid.viscosity) == ("Brine 22", 1180.0,
+                                                            pytest.approx(1.0016e-3))
+    with pytest.raises(InputError, match="fluid.kind"):
+        build(parse_site(text.replace("brine-22", "brine-99")), Presets())
+
+
+def test_aged_material_and_hazen_williams_c_come_from_the_material():
+    from branchwise.core.sitebuild import build
+
+    text = site_text("pressure_drop").replace(
+        'roughness = "0.0018 in"', 'material = "commercial-steel"\ncondition = "aged"')
+    seg = build(parse_site(text)).network.branches[1].segments[0]
+    steel = catalogs.material("commercial-steel")
+    assert seg.roughness == steel.aged_roughness_m > steel.roughness_m
+    assert seg.hw_c == steel.hazen_williams_c
+    with pytest.raises(InputError, match=r"branches\[1\].condition"):
+        build(parse_site(text.replace('"aged"', '"rusty"')))

@@ -155,3 +155,19 @@ def test_displayed_text_reads_back_within_its_four_digits(value, kind, system):
 
 def test_one_registry_created_lazily():
     assert units.registry() is units.registry()
+
+
+_UNIT_TEXT = st.text(st.sampled_from(list("0123456789.eE+-*/^()°%\"' _,#\x00²³·kmgPaLsinftHOCFd")),
+                     max_size=12)
+
+
+@given(_UNIT_TEXT, st.sampled_from(sorted(units.KINDS)))
+def test_any_text_gives_a_finite_si_value_or_an_input_error(text, kind):
+    # Robustness, no outside reference: pint's parser raises many exception types on junk;
+    # the boundary must turn every one into an InputError naming the field.
+    try:
+        value = units.parse_quantity("1" + text, kind, "f")
+    except InputError as exc:
+        assert exc.field == "f" and "\n" not in str(exc)
+    else:
+        assert math.isfinite(value)
