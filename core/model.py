@@ -56,6 +56,24 @@ def finite(path: str, value: float) -> float:
     return _finite(path, value)
 
 
+def at_most(path: str, value: float, limit: float, unit: str, what: str) -> float:
+    """``value`` unless its size exceeds ``limit`` — a bound far beyond any real plant, which
+    catches a slipped unit (mm typed as m) before it turns into inf or nonsense."""
+    if abs(value) > limit:
+        raise InputError(path, value, f"is beyond any {what} (limit {limit:g} {unit})")
+    return value
+
+
+# Sanity bounds: far outside anything on a plant, well inside floating-point range.
+MAX_DIAMETER = 100.0  # m
+MAX_LENGTH = 1e7  # m (10 000 km)
+MAX_K = 1e7  # –
+MAX_DENSITY = 3e4  # kg/m³ (denser than any liquid)
+MAX_VISCOSITY = 1e6  # Pa·s (stiffer than pitch)
+MAX_ELEVATION = 1e4  # m
+MAX_KV = 1e7  # m³/h
+
+
 @dataclass(frozen=True)
 class Fluid:
     """An incompressible liquid at its operating state.
@@ -71,8 +89,10 @@ class Fluid:
     source: str = "entered by the user"
 
     def __post_init__(self) -> None:
-        positive("fluid.density", self.density)
-        positive("fluid.viscosity", self.viscosity)
+        at_most("fluid.density", positive("fluid.density", self.density), MAX_DENSITY, "kg/m³",
+                "liquid")
+        at_most("fluid.viscosity", positive("fluid.viscosity", self.viscosity), MAX_VISCOSITY,
+                "Pa·s", "liquid")
 
     @property
     def kinematic_viscosity(self) -> float:
@@ -101,15 +121,18 @@ class Segment:
     hw_c: float | None = None
 
     def validate(self, path: str) -> None:
-        d = positive(f"{path}.diameter", self.diameter)
-        non_negative(f"{path}.length", self.length)
+        d = at_most(f"{path}.diameter", positive(f"{path}.diameter", self.diameter),
+                    MAX_DIAMETER, "m", "pipe")
+        at_most(f"{path}.length", non_negative(f"{path}.length", self.length), MAX_LENGTH, "m",
+                "pipe run")
         eps = non_negative(f"{path}.roughness", self.roughness)
         if eps >= d / 2:
             raise InputError(
                 f"{path}.roughness", self.roughness,
                 f"must be below half the diameter ({d / 2:g} m)",
             )
-        non_negative(f"{path}.minor_k", self.minor_k)
+        at_most(f"{path}.minor_k", non_negative(f"{path}.minor_k", self.minor_k), MAX_K, "",
+                "fitting loss")
         if self.hw_c is not None:
             positive(f"{path}.hw_c", self.hw_c)
 
@@ -139,7 +162,8 @@ class Branch:
         for j, seg in enumerate(self.segments):
             seg.validate(f"{path}.segments[{j}]")
         if self.valve_kv is not None:
-            positive(f"{path}.valve_kv", self.valve_kv)
+            at_most(f"{path}.valve_kv", positive(f"{path}.valve_kv", self.valve_kv), MAX_KV,
+                    "m³/h", "valve")
 
 
 def kv_from_cv(cv: float) -> float:
@@ -175,7 +199,9 @@ class Network:
                     f"branches[{i}].name", repr(br.name), f"duplicates branches[{seen[key]}].name"
                 )
             seen[key] = i
-        finite("conditions.elevation_change", self.elevation_change)
+        at_most("conditions.elevation_change",
+                finite("conditions.elevation_change", self.elevation_change), MAX_ELEVATION, "m",
+                "elevation change")
         positive("conditions.gravity", self.gravity)
         if self.friction not in FRICTION_MODELS:
             raise InputError(

@@ -128,3 +128,18 @@ def test_warnings_for_high_velocity_and_laminar_flow():
     oil = Fluid("oil", 870, 0.5)
     res = solve(Network(oil, net.branches), PressureDrop(2e4))
     assert ("laminar", "Slow") in {(w.code, w.branch) for w in res.warnings}
+
+
+@pytest.mark.parametrize(("build", "field"), [
+    (lambda: Network(WATER, (branch("A", 1e200, 5),)), "branches[0].segments[0].diameter"),
+    (lambda: Network(WATER, (branch("A", 0.1, 1e12),)), "branches[0].segments[0].length"),
+    (lambda: Network(WATER, (branch("A", 0.1, 5, 0, 1e30),)), "branches[0].segments[0].minor_k"),
+    (lambda: Fluid("x", 1e9, 1e-3), "fluid.density"),
+    (lambda: Network(WATER, (branch("A", 0.1, 5),), elevation_change=-1e6),
+     "conditions.elevation_change"),
+])
+def test_absurd_sizes_are_refused_before_they_become_inf(build, field):
+    with pytest.raises(InputError) as err:
+        build()
+    assert err.value.field == field
+    assert "is beyond any" in str(err.value)
