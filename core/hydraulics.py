@@ -17,6 +17,7 @@ on ln h against ln Q (a slope between 1 and 2), safeguarded by a bracket, so the
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 from numpy.typing import NDArray
@@ -65,9 +66,17 @@ class Layout:
     def n_groups(self) -> int:
         return int(self.branch_group.max()) + 1 if len(self.branch_group) else 0
 
-    @property
+    @cached_property
     def area(self) -> Array:
         return np.pi * self.diameter**2 / 4
+
+    @cached_property
+    def relative_roughness(self) -> Array:
+        return self.roughness / self.diameter
+
+    @cached_property
+    def seg_nu(self) -> Array:
+        return self.nu[self.seg_branch]
 
     @classmethod
     def from_network(cls, net: Network) -> Layout:
@@ -107,13 +116,13 @@ def segment_state(lay: Layout, q: Array) -> SegmentState:
     qs = np.asarray(q, dtype=float)[lay.seg_branch]
     v = qs / lay.area
     speed = np.abs(v)
-    re = speed * lay.diameter / lay.nu[lay.seg_branch]
+    re = speed * lay.diameter / lay.seg_nu
     if lay.model == "hazen-williams":
         f = friction.hazen_williams_f(speed, lay.diameter, lay.hw_c, lay.gravity)
         slope = np.full_like(f, friction.HW_SLOPE)
     else:
         with np.errstate(divide="ignore", invalid="ignore"):
-            f, slope = friction.darcy(re, lay.roughness / lay.diameter, lay.model)
+            f, slope = friction.darcy(re, lay.relative_roughness, lay.model)
     vel_head = v * speed / (2 * lay.gravity)
     with np.errstate(invalid="ignore"):
         major = np.where(speed > 0, f * lay.length / lay.diameter * vel_head, 0.0)
