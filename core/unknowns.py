@@ -22,7 +22,7 @@ from . import friction
 from .errors import InputError, NoSolutionError
 from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, segment_state
 from .messages import diameter_text, flow_text, head_text
-from .model import Branch, FindUnknown, Given, Network, PressureDrop
+from .model import MAX_LENGTH, Branch, FindUnknown, Given, Network, PressureDrop
 from .results import Solved
 
 DIAMETER_MIN = 1e-5
@@ -79,6 +79,11 @@ def _length(net: Network, br: Branch, want: FindUnknown, head: float, given: Giv
             f"branch '{br.name}' cannot pass {flow_text(want.target_flow)} {_where(given, head)} "
             f"with any length: at zero length its fittings alone allow {flow_text(q0)}",
             "solve.target_flow")
+    if length > MAX_LENGTH:
+        raise NoSolutionError(
+            f"branch '{br.name}' would need {length / 1000:.4g} km of pipe to hold "
+            f"{flow_text(want.target_flow)} {_where(given, head)}: more than any pipe run "
+            f"({MAX_LENGTH / 1000:.4g} km); check the target flow", "solve.target_flow")
     return length
 
 

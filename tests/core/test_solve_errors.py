@@ -143,3 +143,10 @@ def test_absurd_sizes_are_refused_before_they_become_inf(build, field):
         build()
     assert err.value.field == field
     assert "is beyond any" in str(err.value)
+
+
+def test_length_beyond_any_pipe_run_is_a_clear_no_solution():
+    net = two()
+    q = solve(net, PressureDrop(5e4)).flows[0]
+    with pytest.raises(NoSolutionError, match="more than any pipe run"):
+        solve(net, PressureDrop(5e4), FindUnknown("length", "A", q * 1e-4))
