@@ -16,6 +16,7 @@ from collections.abc import Iterator
 from datetime import datetime
 from typing import Any
 
+from . import bandtext
 from .model import MeasuredFlow, PressureDrop, TotalFlow
 from .results import BranchResult, SegmentResult
 from .sitefile import Site
@@ -129,6 +130,7 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
                         "iterations": r.convergence.iterations,
                         "residual": _num(r.convergence.residual)},
         "cautions": list(CAUTIONS),
+        "uncertainty": bandtext.uncertainty_json(sr),
     }
 
 
@@ -152,7 +154,7 @@ def to_json(sr: SiteResult, indent: int | None = 2) -> str:
 # ---- rows in the reader's units ------------------------------------------------------------
 
 COLUMNS: tuple[tuple[str, str | None], ...] = (
-    ("Branch", None), ("Seg", None), ("Flow", "flow"), ("Share", "%"),
+    ("Branch", None), ("Seg", None), ("Flow", "flow"), ("P5–P95", "flow"), ("Share", "%"),
     ("Velocity", "velocity"), ("Reynolds", None), ("f", None), ("Regime", None),
     ("Diameter", "diameter"), ("Length", "length"), ("Major loss", "head"),
     ("Minor loss", "head"), ("Valve loss", "head"),
@@ -174,7 +176,8 @@ def _rows(sr: SiteResult, system: str) -> Iterator[tuple[BranchResult, int, list
             share = format_number(b.share * 100, 3) if first and math.isfinite(b.share) else ""
             yield b, j, [
                 b.name if first else "", str(j + 1) if len(b.segments) > 1 else "",
-                q(b.flow, "flow") if first else "", share,
+                q(b.flow, "flow") if first else "",
+                bandtext.flow_band_cell(sr, b.name, system) if first else "", share,
                 q(s.velocity, "velocity"), f"{s.reynolds:.0f}",
                 format_number(s.friction_factor, 4), s.regime,
                 q(s.diameter, "diameter"), q(s.length, "length"),
@@ -254,6 +257,10 @@ def _grid(header: list[str], units: list[str], rows: list[list[str]]) -> list[st
     return [line(table[0]), line(table[1]), *(line(r) for r in table[2:])]
 
 
+def _notes(sr: SiteResult) -> list[str]:
+    return [*sr.notes, *sr.result.notes, *(sr.uncertainty.notes if sr.uncertainty else ())]
+
+
 def to_table(sr: SiteResult, system: str = "si") -> str:
     """A readable plain-text report in the ``system`` units (``si`` or ``us``)."""
     rows = [cells for _, _, cells in _rows(sr, system)]
@@ -261,11 +268,13 @@ def to_table(sr: SiteResult, system: str = "si") -> str:
     out += _grid([c for c, _ in COLUMNS], _units_row(system), rows)
     if sr.result.solved:
         out += ["", *solved_lines(sr, system)]
+    if sr.uncertainty is not None:
+        out += ["", *bandtext.summary_lines(sr, system), "", *bandtext.ranking_lines(sr, system)]
     if sr.result.warnings:
         out += ["", "Warnings:"]
         out += [f"  - {w.branch + ': ' if w.branch else ''}{w.message} [{w.code}]"
                 for w in sr.result.warnings]
-    notes = [*sr.notes, *sr.result.notes]
+    notes = _notes(sr)
     if notes:
         out += ["", "Notes:", *(f"  - {n}" for n in notes)]
     out += ["", "Cautions:", *(f"  - {c}" for c in CAUTIONS)]
@@ -275,16 +284,25 @@ def to_table(sr: SiteResult, system: str = "si") -> str:
 # ---- CSV -----------------------------------------------------------------------------------
 
 def to_csv(sr: SiteResult, system: str = "si") -> str:
-    """One row per segment, units in the header (``Flow (L/s)``), for a spreadsheet; the
-    cautions follow as one-cell rows starting with ``#``."""
+    """One row per segment, units in the header (``Flow (L/s)``), for a spreadsheet; with
+    uncertainty bands, ``Flow P5`` and ``Flow P95`` columns after the flow and the total bands
+    as ``#`` rows; the cautions follow as one-cell rows starting with ``#``."""
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
     units = _units_row(system)
-    writer.writerow([f"{c} ({u})" if u else c for (c, _), u in zip(COLUMNS, units, strict=True)])
+    header = [f"{c} ({u})" if u else c for (c, _), u in zip(COLUMNS, units, strict=True)]
+    band = sr.uncertainty is not None
+    flow_unit = units[2]
+    header[3:4] = [f"Flow P5 ({flow_unit})", f"Flow P95 ({flow_unit})"] if band else []
+    writer.writerow(header)
     for b, j, cells in _rows(sr, system):
         cells[0] = b.name  # every row names its branch, so rows can be sorted and filtered
         cells[1] = str(j + 1)
+        pair = bandtext.band_range(sr, f"branch '{b.name}' flow", system) if j == 0 else None
+        cells[3:4] = ([format_number(v) for v in pair] if pair else ["", ""]) if band else []
         writer.writerow(cells)
+    for line in bandtext.summary_lines(sr, system):
+        writer.writerow([f"# {line}"])
     for caution in CAUTIONS:  # after the data, as "#" lines a reader can skip (comment="#")
         writer.writerow([f"# {caution}"])
     return buf.getvalue()
@@ -343,10 +361,11 @@ def to_markdown(
     out += ["| " + " | ".join(_md(r[i]) for i in keep) + " |" for r in rows]
     if sr.result.solved:
         out += ["", "## Solved unknown", "", *(f"- {_md(s)}" for s in solved_lines(sr, system))]
+    out += bandtext.markdown_lines(sr, system)
     out += ["", "## Warnings", ""]
     out += ([f"- {_md((w.branch + ': ') if w.branch else '')}{_md(w.message)} (`{w.code}`)"
              for w in sr.result.warnings] or ["- None."])
-    notes = [*sr.notes, *sr.result.notes]
+    notes = _notes(sr)
     if notes:
         out += ["", "## Notes", "", *(f"- {_md(n)}" for n in notes)]
     out += ["", "## Cautions", "", *(f"- {c}" for c in CAUTIONS)]

@@ -12,7 +12,7 @@ import math
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Any, Protocol
+from typing import TYPE_CHECKING, Any, Protocol
 
 from .errors import InputError
 from .model import (
@@ -34,6 +34,9 @@ from .model import (
 from .sitefile import BranchSpec, SegmentSpec, Site, Value
 from .units import KINDS, describe, format_quantity, parse_quantity
 
+if TYPE_CHECKING:
+    from .uncertainty import Tolerances
+
 CONDITIONS = ("new", "aged")
 FINDS = ("flows", "diameter", "length", "roughness")
 
@@ -47,7 +50,9 @@ class Built:
     """A site in SI, ready to solve.
 
     sizes[i][j] is the catalog size of segment j of branch i (None for a plain diameter);
-    fittings_k[i][j] the K its fittings add (–); paths[i][j] the field path of that segment.
+    fittings_k[i][j] the K its fittings add (–); paths[i][j] the field path of that segment;
+    tolerances: the site's ``[tolerances]`` as :class:`~.uncertainty.Tolerances`, or None when
+    the file has no such table (the defaults apply).
     """
 
     network: Network
@@ -57,6 +62,7 @@ class Built:
     fittings_k: tuple[tuple[float, ...], ...]
     paths: tuple[tuple[str, ...], ...]
     notes: tuple[str, ...] = ()
+    tolerances: Tolerances | None = None
 
 
 # ---- values --------------------------------------------------------------------------------
@@ -116,7 +122,17 @@ _FLUID_ARGS = {
 def build_fluid(site: Site, presets: PresetSource | None = None) -> Fluid:
     """The site's liquid. ``kind`` is a built-in kind or the key of a user fluid preset, whose
     values the site's own values override (a preset's bare numbers are SI)."""
-    from .fluids import FLUID_KINDS, fluid_from_spec
+    from .fluids import fluid_from_spec
+
+    kind, args = fluid_inputs(site, presets)
+    return fluid_from_spec(kind, **args)
+
+
+def fluid_inputs(site: Site, presets: PresetSource | None = None) -> tuple[str, dict[str, Any]]:
+    """The built-in fluid kind of the site's liquid and the SI keyword arguments of
+    :func:`~branchwise.core.fluids.fluid_from_spec` (so the same liquid can be rebuilt at
+    another temperature, ``temperature_k`` in K)."""
+    from .fluids import FLUID_KINDS
 
     spec = site.fluid
     kind = _text(spec.kind, "fluid.kind") or "water"
@@ -139,7 +155,7 @@ def build_fluid(site: Site, presets: PresetSource | None = None) -> Fluid:
             continue
         arg, qkind = _FLUID_ARGS[key]
         args[arg] = parse_quantity(value, qkind, f"fluid.{key}", default_unit=unit)
-    return fluid_from_spec(kind, **args)
+    return kind, args
 
 
 def _fluid_preset(kind: str, presets: PresetSource | None, kinds: tuple[str, ...]) -> dict:
@@ -358,7 +374,13 @@ def build(site: Site, presets: PresetSource | None = None) -> Built:
         if ks[i][find.segment]:
             notes.append("the fittings' K values were held at those of the entered size while "
                          "the diameter was found")
-    return Built(network, given, find, tuple(sizes), tuple(ks), tuple(paths), tuple(notes))
+    tolerances = None
+    if site.tolerances is not None:
+        from .sitetolerances import build_tolerances
+
+        tolerances = build_tolerances(site.tolerances, network, given)
+    return Built(network, given, find, tuple(sizes), tuple(ks), tuple(paths), tuple(notes),
+                 tolerances)
 
 
 def _site_path(exc: InputError, site: Site) -> InputError:

@@ -18,6 +18,10 @@ File layout (format 1; the keys are a contract)::
                    minor_k; fittings = { elbow-90 = 4 }; hw_c; valve_kv | valve_cv;
                    measured_flow; or segments = [ {diameter.., length.., ...}, ... ]
     [solve]        find = flows | diameter | length | roughness; branch; target_flow; segment
+    [tolerances]   optional: gauge_accuracy, gauge_full_scale, flow_meter_accuracy,
+                   target_flow_measured, roughness_factor = [low, high],
+                   roughness_range = { "<branch>" = [low, high] }, diameter, length,
+                   temperature, fitting_k (missing keys take the common-practice defaults)
 
 A branch is either one pipe (its diameter, length... at the top of the branch) or a list of
 series ``segments`` (each with its own pipe keys); mixing the two is refused as ambiguous.
@@ -49,7 +53,11 @@ FLUID_KEYS = ("kind", "name", "temperature", "pressure", "concentration", "salin
 CONDITION_KEYS = ("pressure_drop", "total_flow", "elevation_change", "friction", "gravity",
                   "velocity_limit")
 SOLVE_KEYS = ("find", "branch", "target_flow", "segment")
-TOP_KEYS = ("format", "kind", "name", "notes", "fluid", "conditions", "branches", "solve")
+TOLERANCE_KEYS = ("gauge_accuracy", "gauge_full_scale", "flow_meter_accuracy",
+                  "target_flow_measured", "roughness_factor", "roughness_range", "diameter",
+                  "length", "temperature", "fitting_k")
+TOP_KEYS = ("format", "kind", "name", "notes", "fluid", "conditions", "branches", "solve",
+            "tolerances")
 
 
 @dataclass
@@ -117,6 +125,29 @@ class SolveSpec:
 
 
 @dataclass
+class TolerancesSpec:
+    """The ± limits on the readings and the line, as typed (see
+    :mod:`branchwise.core.sitetolerances`); None takes the common-practice default.
+
+    Percentages are text with ``%`` (``"3 %"``); gauge_full_scale a pressure; temperature a
+    temperature difference (``"2 K"``, ``"2 delta_degC"``); roughness_factor two numbers
+    (low, high) multiplying the entered roughness; roughness_range maps a branch name to two
+    roughness values (``["0.05 mm", "0.5 mm"]``) that replace the factor on that branch.
+    """
+
+    gauge_accuracy: Value = None
+    gauge_full_scale: Value = None
+    flow_meter_accuracy: Value = None
+    target_flow_measured: Value = None
+    roughness_factor: list[Value] | None = None
+    roughness_range: dict[str, list[Value]] = field(default_factory=dict)
+    diameter: Value = None
+    length: Value = None
+    temperature: Value = None
+    fitting_k: Value = None
+
+
+@dataclass
 class Site:
     """A whole site as typed. ``source`` is the file it came from; ``origin`` that file's text
     (kept so a save can preserve the comments and notice edits made behind our back)."""
@@ -127,6 +158,7 @@ class Site:
     branches: list[BranchSpec] = field(default_factory=list)
     solve: SolveSpec | None = None
     notes: Value = None
+    tolerances: TolerancesSpec | None = None
     source: Path | None = field(default=None, compare=False)
     origin: str | None = field(default=None, compare=False, repr=False)
 
@@ -209,6 +241,24 @@ def _branch(table: object, path: str) -> BranchSpec:
     return br
 
 
+def _pair(value: object, path: str) -> list[Value]:
+    if not isinstance(value, list):
+        raise InputError(path, describe(value), "must be a pair [low, high]")
+    return [_scalar(v, f"{path}[{i}]") for i, v in enumerate(value)]
+
+
+def _tolerances(table: Mapping[str, Any]) -> TolerancesSpec:
+    path = "tolerances"
+    plain = {k: v for k, v in table.items() if k not in ("roughness_factor", "roughness_range")}
+    spec = _fill(TolerancesSpec(), plain, TOLERANCE_KEYS, path)
+    if "roughness_factor" in table:
+        spec.roughness_factor = _pair(table["roughness_factor"], f"{path}.roughness_factor")
+    ranges = _table(table.get("roughness_range"), f"{path}.roughness_range")
+    spec.roughness_range = {str(k): _pair(v, f'{path}.roughness_range."{k}"')
+                            for k, v in ranges.items()}
+    return spec
+
+
 def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
     """A :class:`Site` from a parsed, migrated TOML document. Checks shape, not values."""
     _known(doc, TOP_KEYS, "")
@@ -224,6 +274,8 @@ def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
     site.branches = [_branch(b, f"branches[{i}]") for i, b in enumerate(branches)]
     if "solve" in doc:
         site.solve = _fill(SolveSpec(), _table(doc["solve"], "solve"), SOLVE_KEYS, "solve")
+    if "tolerances" in doc:
+        site.tolerances = _tolerances(_table(doc["tolerances"], "tolerances"))
     return site
 
 
@@ -287,7 +339,8 @@ DEMO_PATH = _demo_path()
 
 _ELSEWHERE = {"build": "sitebuild", "Built": "sitebuild", "solve_site": "sitesolve",
               "SiteResult": "sitesolve", "CatalogPick": "sitesolve", "dump_site": "sitewrite",
-              "save_site": "sitewrite", "site_to_dict": "sitewrite"}
+              "save_site": "sitewrite", "site_to_dict": "sitewrite",
+              "uncertainty_for_site": "sitesolve"}
 
 
 def __getattr__(name: str) -> Any:

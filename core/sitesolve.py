@@ -11,13 +11,17 @@ driving head is unchanged). The resized segment's fittings K are recomputed at i
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
+from .errors import InputError
 from .model import FindFlows, FindUnknown
 from .results import Result
 from .sitebuild import Built, PresetSource, build, plain_number
 from .sitefile import Site
 from .units import format_quantity
+
+if TYPE_CHECKING:
+    from .uncertainty import Tolerances, UncertaintyResult
 
 
 @dataclass(frozen=True)
@@ -35,13 +39,15 @@ class CatalogPick:
 
 @dataclass(frozen=True)
 class SiteResult:
-    """A solved site: the core result, the built network, and the catalog size if any."""
+    """A solved site: the core result, the built network, the catalog size if any, and the
+    uncertainty bands when they were asked for (:func:`with_uncertainty`)."""
 
     site: Site
     built: Built
     result: Result
     catalog: CatalogPick | None
     notes: tuple[str, ...] = ()
+    uncertainty: UncertaintyResult | None = None
 
 
 def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
@@ -84,3 +90,38 @@ def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any
     network = built.network.replace_branch(i, branch)
     result = solve(network, built.given, FindFlows())
     return CatalogPick(size, float(result.flows[i]), result)
+
+
+def uncertainty_for_site(
+    site: Site, samples: int = 10_000, seed: int = 0, presets: PresetSource | None = None,
+    tolerances: Tolerances | None = None, built: Built | None = None,
+) -> UncertaintyResult:
+    """Monte Carlo bands, the GUM linear estimate and the ranking for ``site``
+    (:func:`branchwise.core.uncertainty.monte_carlo`), with the site's own tolerances.
+
+    samples: Monte Carlo draws (at least 10); seed: the same seed gives the same bands.
+    tolerances: use these instead of the site's ``[tolerances]`` (None: the site's table, or
+    the common-practice defaults without one). built: the site already built (saves a build).
+    The temperature tolerance moves ν and ρ through the site's fluid model
+    (:func:`~branchwise.core.sitetolerances.site_thermal`). Errors name the site's fields
+    (``tolerances.<key>``); nothing is printed.
+    """
+    from .sitetolerances import site_error, site_thermal
+    from .uncertainty import Tolerances, monte_carlo
+
+    built = build(site, presets) if built is None else built
+    tol = tolerances or built.tolerances or Tolerances()
+    tol, thermal, notes = site_thermal(site, tol, presets)
+    try:
+        res = monte_carlo(built.network, built.given, built.find, tol, samples, seed, thermal)
+    except InputError as exc:
+        raise site_error(exc) from None
+    return replace(res, notes=(*notes, *res.notes))
+
+
+def with_uncertainty(sr: SiteResult, samples: int = 10_000, seed: int = 0,
+                     presets: PresetSource | None = None) -> SiteResult:
+    """``sr`` with its :attr:`SiteResult.uncertainty` filled (see :func:`uncertainty_for_site`);
+    the reports then show the bands and the ranking."""
+    res = uncertainty_for_site(sr.site, samples, seed, presets, built=sr.built)
+    return replace(sr, uncertainty=res)

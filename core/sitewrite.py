@@ -18,6 +18,7 @@ from .sitefile import (
     FORMAT,
     PIPE_KEYS,
     SOLVE_KEYS,
+    TOLERANCE_KEYS,
     SegmentSpec,
     Site,
 )
@@ -53,6 +54,15 @@ def site_to_dict(site: Site) -> dict[str, Any]:
     doc["branches"] = branches
     if site.solve is not None:
         doc["solve"] = _present(site.solve, SOLVE_KEYS)
+    if site.tolerances is not None:
+        tol = _present(site.tolerances, TOLERANCE_KEYS)
+        if tol.get("roughness_factor") is not None:
+            tol["roughness_factor"] = list(tol["roughness_factor"])
+        if tol.get("roughness_range"):
+            tol["roughness_range"] = {k: list(v) for k, v in tol["roughness_range"].items()}
+        else:
+            tol.pop("roughness_range", None)
+        doc["tolerances"] = tol
     return doc
 
 
@@ -85,10 +95,12 @@ def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None
         del doc[name]
     for name, value in values.items():
         old = doc.get(name)
-        if isinstance(value, dict) and name in ("fluid", "conditions", "solve"):
+        if isinstance(value, dict) and name in ("fluid", "conditions", "solve", "tolerances"):
             if not isinstance(old, Mapping) or old is None:
                 doc[name] = old = tomlkit.table()
             _sync(old, value, tomlkit, plain)
+        elif name == "roughness_range" and isinstance(value, dict) and isinstance(old, Mapping):
+            _sync(old, value, tomlkit, plain)  # [tolerances.roughness_range] keeps its layout
         elif name == "branches":
             _sync_branches(doc, old, value, tomlkit, plain)
         elif old is None or plain(old) != value:

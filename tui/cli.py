@@ -16,11 +16,18 @@ from __future__ import annotations
 import argparse
 import sys
 from pathlib import Path
-from typing import TextIO
+from typing import TYPE_CHECKING, TextIO
+
+if TYPE_CHECKING:
+    from branchwise.core.sitesolve import SiteResult
 
 EXIT_OK = 0
 EXIT_INPUT = 2
 """Exit status for bad input or a site with no answer (argparse uses 2 for bad usage too)."""
+SAMPLES_DEFAULT = 10_000
+SAMPLES_MIN, SAMPLES_MAX = 10, 1_000_000
+"""Monte Carlo draws: fewer than 10 give no percentiles worth the name; a million already takes
+about 12 s and 2 GB of memory on the demo site (measured), so more is refused."""
 
 
 def _version() -> str:
@@ -45,6 +52,26 @@ def _parser() -> argparse.ArgumentParser:
                     "The site file is only read, never changed.")
     solve.add_argument("site", nargs="?", type=Path, help="site file (TOML); default: the demo")
     _output_options(solve)
+    band = solve.add_argument_group(
+        "uncertainty and system curve",
+        "Bands come from the site's [tolerances] table (common-practice defaults without one).")
+    band.add_argument(
+        "--uncertainty", action="store_true",
+        help="add P5–P95 bands from a Monte Carlo run over the input tolerances, the GUM "
+             "linear estimate, and a ranked list of what dominates the spread")
+    band.add_argument(
+        "--samples", metavar="N",
+        help=f"Monte Carlo draws, {SAMPLES_MIN} to {SAMPLES_MAX:,} (default "
+             f"{SAMPLES_DEFAULT:,}); implies --uncertainty")
+    band.add_argument(
+        "--seed", metavar="S",
+        help="random seed, a whole number from 0 (default 0): the same seed gives the same "
+             "bands; implies --uncertainty")
+    band.add_argument(
+        "--curve", type=Path, metavar="FILE",
+        help="also write the system curve (pressure drop and each branch's flow against the "
+             "total flow, from zero to 1.5 times the operating point; SI units) as CSV to FILE")
+    band.add_argument("--force", action="store_true", help="replace an existing --curve FILE")
 
     demo = sub.add_parser(
         "demo", help="write the demo site to a file to start from",
@@ -74,25 +101,83 @@ def _output_options(p: argparse.ArgumentParser) -> None:
 
 # ---- commands ------------------------------------------------------------------------------
 
-def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None,
-           out: TextIO) -> int:
+def _whole(text: str | None, option: str, low: int, high: int | None, default: int) -> int:
+    """The whole number typed for ``option`` (``10000``, ``10_000``, ``1e4``), in range."""
+    from branchwise.core.errors import InputError
+
+    if text is None:
+        return default
+    try:
+        number = int(text)
+    except ValueError:
+        try:
+            value = float(text)
+        except ValueError:
+            value = float("nan")
+        number = int(value) if value.is_integer() else None  # type: ignore[assignment]
+    if number is None or number < low or (high is not None and number > high):
+        span = f"from {low:,} to {high:,}" if high is not None else f"of at least {low}"
+        raise InputError(option, text, f"must be a whole number {span}")
+    return number
+
+
+def _same_file(a: Path, b: Path | None) -> bool:
+    return b is not None and a.resolve() == b.resolve()
+
+
+def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, out: TextIO,
+           args: argparse.Namespace | None = None) -> int:
+    from branchwise.core.errors import InputError
     from branchwise.core.report import render
     from branchwise.core.sitefile import demo_site, load_site
-    from branchwise.core.sitesolve import solve_site
-
-    site = demo_site() if site_path is None else load_site(site_path)
-    text = render(solve_site(site), fmt, units)
-    if output is None:
-        out.write(text)
-        return EXIT_OK
-    from branchwise.core.errors import InputError
+    from branchwise.core.sitesolve import solve_site, with_uncertainty
     from branchwise.core.tomlfile import atomic_write_text
 
-    if site_path is not None and output.exists() and output.resolve() == site_path.resolve():
+    samples_text, seed_text = getattr(args, "samples", None), getattr(args, "seed", None)
+    samples = _whole(samples_text, "--samples", SAMPLES_MIN, SAMPLES_MAX, SAMPLES_DEFAULT)
+    seed = _whole(seed_text, "--seed", 0, None, 0)
+    curve_path: Path | None = getattr(args, "curve", None)
+    if curve_path is not None:
+        if _same_file(curve_path, site_path) or _same_file(curve_path, output):
+            raise InputError("--curve", str(curve_path), "is the site file or the --output "
+                             "file; give the curve a file of its own")
+        if curve_path.exists() and not getattr(args, "force", False):
+            raise InputError("--curve", str(curve_path), "already exists; choose another name "
+                             "or add --force")
+    if output is not None and _same_file(output, site_path):
         raise InputError("--output", str(output), "is the site file itself; the site file is "
                          "never overwritten")
-    atomic_write_text(output, text, backup=False)
+    site = demo_site() if site_path is None else load_site(site_path)
+    solved = solve_site(site)
+    if getattr(args, "uncertainty", False) or samples_text is not None or seed_text is not None:
+        solved = with_uncertainty(solved, samples, seed)
+    curve_text = None if curve_path is None else _curve_csv(solved)
+    text = render(solved, fmt, units)
+    if curve_path is not None and curve_text is not None:
+        atomic_write_text(curve_path, curve_text, backup=False)
+        points = curve_text.count("\n") - 1
+        print(f"branchwise: system curve ({points} points) written to {curve_path}",
+              file=sys.stderr)
+    if output is None:
+        out.write(text)
+    else:
+        atomic_write_text(output, text, backup=False)
     return EXIT_OK
+
+
+def _curve_csv(solved: SiteResult) -> str:
+    """The system curve of a solved site through its operating point, as CSV (SI)."""
+    from branchwise.core.curve import system_curve, to_csv
+    from branchwise.core.errors import InputError
+
+    result = solved.result
+    try:
+        return to_csv(system_curve(result.network, operating=result))
+    except InputError as exc:
+        if not exc.field.startswith("curve."):
+            raise
+        raise InputError("--curve", "no flow", "the operating point carries no flow, so the "
+                         "curve has no range to span") from None
 
 
 def _demo(path: Path, force: bool, out: TextIO) -> int:
@@ -161,6 +246,8 @@ def _message(exc: Exception, label: str) -> str:
     """``<file>: <field>: <reason>, got <value>`` on one line, the file named once."""
     from branchwise.core.errors import InputError, NoSolutionError
 
+    if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
+        return _one_line(f"{exc.field}: {exc.reason}, got {exc.value}")
     if isinstance(exc, InputError):
         field, name = exc.field, Path(label).name
         if field == name or field.startswith(name + " "):  # "demo.toml line 7" → "line 7"
@@ -189,7 +276,7 @@ def main(argv: list[str] | None = None) -> int:
                 return code
             return _solve(args.site, args.units, args.format, args.output, out)
         if args.command == "solve":
-            return _solve(args.site, args.units, args.format, args.output, out)
+            return _solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "demo":
             return _demo(args.path, args.force, out)
         return _where(out)
