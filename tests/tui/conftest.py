@@ -1,0 +1,64 @@
+"""Helpers for the app tests: a private data folder, settling after a change, screen text.
+
+Pilot tests run under ``asyncio.run`` (no async plugin is needed). "Settled" means every
+worker has finished and the answer on screen belongs to the present revision of the site, so
+tests wait on state, never on sleeps.
+"""
+
+from __future__ import annotations
+
+import asyncio
+import io
+from collections.abc import Awaitable, Callable
+from types import SimpleNamespace
+
+import pytest
+
+
+@pytest.fixture(autouse=True)
+def data_dir(tmp_path, monkeypatch):
+    """Every app test keeps its settings, sites and recovery copies in its own folder."""
+    folder = tmp_path / "data"
+    monkeypatch.setenv("BRANCHWISE_DATA_DIR", str(folder))
+    return folder
+
+
+async def settle(pilot) -> None:
+    """Wait until the answer on screen is the answer for the site as it now is."""
+    app = pilot.app
+    for _ in range(400):
+        await pilot.pause()
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        outcome = app.outcome
+        if (outcome is not None and outcome.revision == app.session.revision
+                and not app.solving):
+            await pilot.pause()
+            return
+    raise AssertionError("the app never settled on an answer for the present site")
+
+
+async def type_text(pilot, text: str) -> None:
+    """Type ``text`` key by key, as a person would."""
+    await pilot.press(*text)
+
+
+def screen_text(app) -> str:
+    """The screen as plain text, the way a person sees it (what the SVG shows, without colour)."""
+    from rich.console import Console
+
+    width, height = app.size
+    console = Console(width=width, height=height, file=io.StringIO(), record=True,
+                      force_terminal=True, color_system="truecolor", legacy_windows=False)
+    console.print(app.screen._compositor.render_update(
+        full=True, screen_stack=app._background_screens))
+    return console.export_text()
+
+
+def run(scenario: Callable[[], Awaitable[None]]) -> None:
+    asyncio.run(scenario())
+
+
+@pytest.fixture
+def ui():
+    return SimpleNamespace(settle=settle, type=type_text, text=screen_text, run=run)

@@ -1,0 +1,334 @@
+"""The branchwise app: three screens over one site, solved in a worker as the person types.
+
+The one truth is :attr:`BranchwiseApp.session` (the site as typed, with its undo history).
+Screens read it and hand edits to :meth:`BranchwiseApp.edit`; every edit bumps ``revision``,
+starts a solve in a thread worker (a newer edit makes an older solve's answer stale, and it is
+dropped) and schedules a recovery copy. Screens watch ``revision`` and ``outcome`` to redraw.
+
+Heavy modules (numpy, scipy, pint) load in a worker after the first screen is drawn.
+"""
+
+from __future__ import annotations
+
+import time
+from collections.abc import Callable, Iterable
+from pathlib import Path
+
+_STARTED = time.perf_counter()
+
+from textual import work  # noqa: E402  (the clock above starts before Textual loads)
+from textual.app import App, SystemCommand  # noqa: E402
+from textual.binding import Binding  # noqa: E402
+from textual.command import CommandPalette  # noqa: E402
+from textual.message import Message  # noqa: E402
+from textual.reactive import reactive  # noqa: E402
+from textual.screen import ModalScreen, Screen  # noqa: E402
+from textual.worker import get_current_worker  # noqa: E402
+
+from branchwise.core.settings import Settings  # noqa: E402
+from branchwise.core.sitefile import Site  # noqa: E402
+from branchwise.core.units import display_unit, unit_label  # noqa: E402
+
+from .files import SiteFiles  # noqa: E402
+from .outcome import Outcome  # noqa: E402
+from .screens.branches import BranchesScreen  # noqa: E402
+from .screens.liquid import LiquidScreen  # noqa: E402
+from .screens.split import SplitScreen  # noqa: E402
+from .session import Session  # noqa: E402
+
+KEYS_DELAY = 0.25
+"""Seconds of quiet before the footer shows which keys are available now."""
+SCREEN_TITLES = {"liquid": "Liquid", "branches": "Branches", "split": "Split"}
+
+
+class Solved(Message):
+    """A solve finished (posted from the worker thread)."""
+
+    def __init__(self, outcome: Outcome) -> None:
+        super().__init__()
+        self.outcome = outcome
+
+
+class BranchwiseApp(SiteFiles, App[None]):
+    """Parallel-branch pipe hydraulics for a walkdown, on the keyboard.
+
+    site_path: the site file to open; None opens the last site, or the bundled demo the first
+    time (or when the last site is gone).
+    """
+
+    TITLE = "branchwise"
+    CSS_PATH = "branchwise.tcss"
+    MODES = {"liquid": LiquidScreen, "branches": BranchesScreen, "split": SplitScreen}
+    DEFAULT_MODE = "split"
+    SCREENS_GROUP = Binding.Group("Screens")
+    BINDINGS = [
+        Binding("f1,question_mark", "help", "Help", id="help", key_display="F1",
+                tooltip="Every key of this screen, and where things are"),
+        Binding("f2", "show('liquid')", "Liquid", id="show-liquid", key_display="F2",
+                group=SCREENS_GROUP, tooltip="The liquid: kind, temperature, properties"),
+        Binding("f3", "show('branches')", "Branches", id="show-branches", key_display="F3",
+                group=SCREENS_GROUP, tooltip="The branches between the two headers"),
+        Binding("f4", "show('split')", "Split", id="show-split", key_display="F4",
+                group=SCREENS_GROUP, tooltip="Given condition, what to find, the flow split"),
+        Binding("ctrl+s", "save", "Save", id="save", priority=True,
+                tooltip="Save the site to its file (asks for a name the first time)"),
+        Binding("ctrl+r", "save_as", "Save as", id="save-as", priority=True, show=False,
+                tooltip="Save the site under another name"),
+        Binding("ctrl+o", "open_sites", "Sites", id="open", priority=True,
+                tooltip="Open a saved or recent site, the demo, or a new one"),
+        Binding("ctrl+t", "toggle_units", "SI/US", id="units", priority=True,
+                tooltip="Show results in SI or US customary units"),
+        Binding("f6", "unit_choices", "Units", id="unit-choices", show=False, key_display="F6",
+                tooltip="Choose the display unit of each quantity"),
+        Binding("ctrl+z", "undo", "Undo", id="undo", show=False,
+                tooltip="Undo the last change"),
+        Binding("ctrl+y", "redo", "Redo", id="redo", show=False, tooltip="Redo"),
+        Binding("exclamation_mark,f7", "cautions", "Cautions", id="cautions", show=False,
+                tooltip="What these numbers are and are not good for"),
+        Binding("ctrl+q", "quit", "Quit", id="quit", priority=True, show=False,
+                tooltip="Quit (asks first if there are unsaved changes)"),
+    ]
+
+    revision: reactive[int] = reactive(0, init=False)
+    outcome: reactive[Outcome | None] = reactive(None, init=False, always_update=True)
+    unit_system: reactive[str] = reactive("si", init=False)
+    dirty: reactive[bool] = reactive(False, init=False)
+    solving: reactive[bool] = reactive(False, init=False)
+
+    def __init__(self, site_path: Path | str | None = None) -> None:
+        super().__init__()
+        self.settings = Settings.load()
+        self.set_reactive(BranchwiseApp.unit_system, self.settings.unit_system)
+        self.good: Outcome | None = None
+        """The last outcome without an error: shown greyed while the present one is wrong."""
+        self.startup_seconds: float | None = None
+        site, note = self.first_site(Path(site_path) if site_path else None)
+        self.session = Session(site)
+        self._note = note
+
+    # ---- state the screens read --------------------------------------------------------------
+
+    @property
+    def site(self) -> Site:
+        return self.session.site
+
+    def unit(self, kind: str) -> str:
+        """The unit a ``kind`` of quantity is shown in, and a bare number is read in."""
+        return self.settings.display_units.get(kind) or display_unit(kind, self.unit_system)
+
+    def unit_text(self, kind: str) -> str:
+        return unit_label(self.unit(kind))
+
+    def fmt(self, value_si: float, kind: str, digits: int = 4, unit: bool = True) -> str:
+        """``value_si`` in the display unit of ``kind`` (needs the units module warmed up)."""
+        from branchwise.core.units import format_number, format_quantity, to_unit
+
+        if not unit:
+            return format_number(to_unit(value_si, kind, self.unit(kind)), digits)
+        return format_quantity(value_si, kind, unit=self.unit(kind), digits=digits)
+
+    # ---- start ----------------------------------------------------------------------------------
+
+    def on_mount(self) -> None:
+        self.sub_title = self._subtitle()
+        self.call_after_refresh(self._first_paint)
+
+    def _first_paint(self) -> None:
+        self.startup_seconds = time.perf_counter() - _STARTED
+        self.log(f"branchwise: first screen drawn {self.startup_seconds * 1000:.0f} ms after "
+                 "the app module started loading")
+        if self._note:
+            self.notify(self._note, severity="warning", timeout=8)
+        self.request_solve()
+        self.offer_recovery()
+
+    # ---- edits ------------------------------------------------------------------------------
+
+    def edit(self, label: str, change: Callable[[Site], None], key: str = "") -> None:
+        """Apply ``change`` to a copy of the site, make it the site, and solve again."""
+        self.session.edit(label, change, key)
+        self.site_changed()
+
+    def site_changed(self) -> None:
+        """After any change of the site: tell the screens, solve, keep a recovery copy."""
+        self.revision = self.session.revision
+        self.dirty = self.session.dirty
+        self.sub_title = self._subtitle()
+        self.request_solve()
+        self.schedule_recovery()
+        self.refresh_keys()
+
+    def _subtitle(self) -> str:
+        return f"{self.site.title}{' ●' if self.session.dirty else ''}"
+
+    # ---- solving --------------------------------------------------------------------------------
+
+    def request_solve(self) -> None:
+        self.solving = True
+        self._solve(self.session.site, self.session.revision)
+
+    @work(thread=True, exclusive=True, exit_on_error=False, group="solve")
+    def _solve(self, site: Site, revision: int) -> None:
+        from .outcome import compute
+
+        outcome = compute(site, revision)
+        if not get_current_worker().is_cancelled:
+            self.post_message(Solved(outcome))
+
+    def on_solved(self, message: Solved) -> None:
+        outcome = message.outcome
+        if outcome.revision != self.session.revision:
+            return  # an answer for a site that has changed since
+        if outcome.ok:
+            self.good = outcome
+        self.solving = False
+        self.outcome = outcome
+        self.refresh_keys()
+
+    # ---- screens and keys -----------------------------------------------------------------------
+
+    def refresh_keys(self) -> None:
+        """Redraw the footer's keys once typing pauses, and only when what is available has
+        changed (the footer rebuilds itself on a refresh: too slow for every keystroke)."""
+        timer = getattr(self, "_keys_timer", None)
+        if timer is not None:
+            timer.stop()
+        self._keys_timer = self.set_timer(KEYS_DELAY, self._refresh_keys_now)
+
+    def _refresh_keys_now(self) -> None:
+        outcome = self.outcome
+        state = (bool(self.session.undo_stack), bool(self.session.redo_stack),
+                 self.session.dirty, self.session.path, outcome is not None and outcome.ok,
+                 self.current_mode, len(self.screen_stack))
+        if state != getattr(self, "_key_state", None):
+            self._key_state = state
+            self.refresh_bindings()
+
+    def action_show(self, mode: str) -> None:
+        if mode in self.MODES and self.current_mode != mode:
+            self.switch_mode(mode)
+            self.refresh_bindings()
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        """Grey out (None) what cannot be done now; hide nothing. Under a dialog the app's
+        keys stand aside (False), so that the dialog's own keys work."""
+        if isinstance(self.screen, ModalScreen) and not isinstance(self.screen, CommandPalette):
+            return False
+        if action == "show" and parameters and parameters[0] == self.current_mode:
+            return None
+        if action == "undo" and not self.session.undo_stack:
+            return None
+        if action == "redo" and not self.session.redo_stack:
+            return None
+        if action == "save" and not self.session.dirty and self.session.path is not None:
+            return None
+        return True
+
+    def action_undo(self) -> None:
+        label = self.session.undo()
+        if label is not None:
+            self.site_changed()
+            self.notify(f"Undone: {label}", timeout=3)
+
+    def action_redo(self) -> None:
+        label = self.session.redo()
+        if label is not None:
+            self.site_changed()
+            self.notify(f"Redone: {label}", timeout=3)
+
+    def action_toggle_units(self) -> None:
+        self.unit_system = "us" if self.unit_system == "si" else "si"
+        self.settings.unit_system = self.unit_system
+        self.settings.display_units.clear()  # the per-quantity choices belong to one system
+        self.save_settings()
+        self.notify(f"Showing {'US customary' if self.unit_system == 'us' else 'SI'} units",
+                    timeout=3)
+
+    def action_unit_choices(self) -> None:
+        from .screens.units import UnitsScreen
+
+        def chosen(units: dict[str, str] | None) -> None:
+            if units is None:
+                return
+            self.settings.display_units = units
+            self.save_settings()
+            self.mutate_reactive(BranchwiseApp.unit_system)
+
+        self.push_screen(UnitsScreen(self.unit_system, dict(self.settings.display_units)), chosen)
+
+    def action_help(self) -> None:
+        from .screens.help import HelpScreen
+
+        if not isinstance(self.screen, HelpScreen):
+            self.push_screen(HelpScreen(self.key_sections()))
+
+    def action_cautions(self) -> None:
+        from .screens.cautions import CautionsScreen
+
+        if not isinstance(self.screen, CautionsScreen):
+            self.push_screen(CautionsScreen())
+
+    def key_sections(self) -> list[tuple[str, list[Binding]]]:
+        """The bindings of the present screen and of the whole app, for help and the palette."""
+        sections: list[tuple[str, list[Binding]]] = []
+        screen = self._base_screen()
+        if screen is not None:
+            own = [b for b in _bindings(type(screen).BINDINGS)]
+            for widget_type in getattr(screen, "HELP_WIDGETS", ()):
+                own += _bindings(widget_type.BINDINGS)
+            sections.append((f"{SCREEN_TITLES.get(self.current_mode, '')} screen", own))
+        sections.append(("Everywhere", _bindings(self.BINDINGS)))
+        return sections
+
+    def _base_screen(self) -> Screen | None:
+        stack = self.screen_stack
+        return stack[0] if stack else None
+
+    def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
+        """Every action of the present screen and of the app, plus Textual's own."""
+        base = self._base_screen()
+        for title, bindings in self.key_sections():
+            target = base if not title.startswith("Everywhere") else self
+            for binding in bindings:
+                if not binding.description:
+                    continue
+                name = binding.action.split("(")[0]
+                if target is not None and target.check_action(name, ()) is False:
+                    continue
+                key = self.get_key_display(binding)
+                yield SystemCommand(f"{binding.description} ({key})",
+                                    binding.tooltip or binding.description,
+                                    _runner(self, binding.action, target))
+        for command in super().get_system_commands(screen):
+            if command.title not in ("Quit", "Keys"):
+                yield command
+
+    def save_settings(self) -> None:
+        from branchwise.core.errors import InputError
+
+        try:
+            self.settings.save()
+        except (InputError, OSError) as exc:
+            self.notify(f"Settings not saved: {exc}", severity="warning")
+
+
+def _bindings(items: Iterable[object]) -> list[Binding]:
+    return [b for b in items if isinstance(b, Binding) and not b.system]
+
+
+def _runner(app: App, action: str, target: object) -> Callable[[], object]:
+    async def run() -> None:
+        await app.run_action(action, target)  # type: ignore[arg-type]
+
+    return run
+
+
+def main(site_path: Path | str | None = None) -> None:
+    """Run the app on ``site_path`` (None: the last site, or the demo)."""
+    BranchwiseApp(site_path).run()
+
+
+if __name__ == "__main__":
+    import sys
+
+    main(sys.argv[1] if len(sys.argv) > 1 else None)

@@ -1,0 +1,285 @@
+"""The app's file actions: open, save, save as, the recovery copy, export, quit.
+
+Unsaved work is never lost: every change schedules a recovery copy (written atomically in a
+worker, a second after the typing stops); quitting or opening another site with unsaved changes
+asks first; a recovery copy found at start-up is offered back. Saving goes through
+:func:`branchwise.core.sitefile.save_site` (atomic, keeps a ``.bak``, keeps the file's comments).
+"""
+
+from __future__ import annotations
+
+import re
+from datetime import datetime
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from textual import work
+
+from branchwise.core.errors import InputError
+from branchwise.core.paths import recovery_path, sites_dir
+from branchwise.core.sitefile import (
+    BranchSpec,
+    ConditionsSpec,
+    FluidSpec,
+    SegmentSpec,
+    Site,
+    demo_site,
+    load_site,
+    parse_site,
+)
+
+if TYPE_CHECKING:
+    from .app import BranchwiseApp
+
+RECOVERY_DELAY = 1.0
+"""Seconds of quiet after a change before the recovery copy is written."""
+
+
+def new_site() -> Site:
+    """An empty site to fill in: water at 20 °C and one branch without values."""
+    return Site(
+        name="New site",
+        fluid=FluidSpec(kind="water", temperature="20 degC"),
+        conditions=ConditionsSpec(),
+        branches=[BranchSpec(name="Branch 1", segments=[SegmentSpec()])],
+    )
+
+
+def file_name_for(title: str) -> str:
+    """A file name from a site's title: ``North header`` → ``north-header.toml``."""
+    stem = re.sub(r"[^a-z0-9]+", "-", title.casefold()).strip("-")[:60] or "site"
+    return f"{stem}.toml"
+
+
+class SiteFiles:
+    """Mixed into :class:`~branchwise.tui.app.BranchwiseApp`: everything that touches files."""
+
+    def first_site(self: BranchwiseApp, path: Path | None) -> tuple[Site, str]:
+        """The site to start on, and a note to show (a file that could not be opened)."""
+        if path is None and self.settings.last_site is not None:
+            path = self.settings.last_site
+            if not path.exists():
+                return demo_site(), f"The last site is gone ({path}): opened the demo."
+        if path is None:
+            return demo_site(), ""
+        try:
+            site = load_site(path)
+        except InputError as exc:
+            return demo_site(), f"Could not open {path}: {exc}. Opened the demo instead."
+        self.settings.remember_site(path)
+        return site, ""
+
+    # ---- recovery ---------------------------------------------------------------------------
+
+    def recovery_file(self: BranchwiseApp) -> Path:
+        return recovery_path(self.session.path)
+
+    def schedule_recovery(self: BranchwiseApp) -> None:
+        timer = getattr(self, "_recovery_timer", None)
+        if timer is not None:
+            timer.stop()
+        self._recovery_timer = self.set_timer(RECOVERY_DELAY, self.write_recovery)
+
+    def write_recovery(self: BranchwiseApp) -> None:
+        if self.session.dirty:
+            self._write_recovery(self.session.site, self.recovery_file())
+
+    @work(thread=True, exclusive=True, exit_on_error=False, group="recovery")
+    def _write_recovery(self: BranchwiseApp, site: Site, path: Path) -> None:
+        from branchwise.core.sitefile import dump_site
+        from branchwise.core.tomlfile import atomic_write_text
+
+        try:
+            atomic_write_text(path, dump_site(site), backup=False)
+        except InputError as exc:
+            self.call_from_thread(self.notify, f"Recovery copy not written: {exc}",
+                                  severity="warning")
+
+    def drop_recovery(self: BranchwiseApp, path: Path | None = None) -> None:
+        timer = getattr(self, "_recovery_timer", None)
+        if timer is not None:
+            timer.stop()
+        target = path or self.recovery_file()
+        try:
+            target.unlink(missing_ok=True)
+        except OSError as exc:
+            self.notify(f"Could not remove the recovery copy {target}: {exc}",
+                        severity="warning")
+
+    def offer_recovery(self: BranchwiseApp) -> None:
+        """If a recovery copy of this site is lying about, offer to bring it back."""
+        from .screens.dialogs import ChoiceScreen
+
+        path = self.recovery_file()
+        try:
+            text = path.read_text(encoding="utf-8")
+            when = datetime.fromtimestamp(path.stat().st_mtime).strftime("%Y-%m-%d %H:%M")
+        except (OSError, UnicodeDecodeError):
+            return
+        try:
+            recovered = parse_site(text, path)
+        except InputError as exc:
+            self.notify(f"A recovery copy could not be read ({exc}); it is left at {path}.",
+                        severity="warning")
+            return
+
+        def answer(choice: str | None) -> None:
+            if choice == "restore":
+                source = self.session.path
+                recovered.source, recovered.origin = source, self.session.site.origin
+                self.session.replace(recovered)
+                self.session.saved_revision = -1  # restored work is unsaved work
+                self.site_changed()
+                self.notify("Restored the unsaved changes.")
+            elif choice == "discard":
+                self.drop_recovery(path)
+
+        question = (f"Unsaved changes to “{recovered.title}” from {when} were kept in a "
+                    "recovery copy. Bring them back?")
+        self.push_screen(ChoiceScreen("Recovered work", question,
+                                      [("r", "restore", "Restore them"),
+                                       ("d", "discard", "Discard them"),
+                                       ("escape", "later", "Decide later")]), answer)
+
+    # ---- save ---------------------------------------------------------------------------------
+
+    def action_save(self: BranchwiseApp) -> None:
+        if self.session.path is None:
+            self.action_save_as()
+        else:
+            self.save_to(self.session.path)
+
+    def action_save_as(self: BranchwiseApp, then: object = None) -> None:
+        from .screens.dialogs import SaveAsScreen
+
+        folder = self.session.path.parent if self.session.path else sites_dir()
+        name = self.session.path.name if self.session.path else file_name_for(self.site.title)
+
+        def chosen(path: Path | None) -> None:
+            if path is not None:
+                self.save_to(path, then=then)
+
+        self.push_screen(SaveAsScreen(folder, name), chosen)
+
+    def save_to(self: BranchwiseApp, path: Path, overwrite: bool = False,
+                then: object = None) -> bool:
+        """Save the site to ``path``; asks before replacing a file that is not ours."""
+        from branchwise.core.sitefile import save_site
+
+        from .screens.dialogs import ChoiceScreen
+
+        old_recovery = self.recovery_file()
+        site = self.session.site
+        try:
+            save_site(site, path, overwrite=overwrite)
+        except InputError as exc:
+            if path.exists() and not overwrite:
+                def answer(choice: str | None) -> None:
+                    if choice == "replace":
+                        self.save_to(path, overwrite=True, then=then)
+
+                self.push_screen(ChoiceScreen("Replace file?", f"{exc}.",
+                                              [("y", "replace", "Replace it"),
+                                               ("escape", "cancel", "Cancel")]), answer)
+            else:
+                self.notify(str(exc), title="Not saved", severity="error", timeout=10)
+            return False
+        self.session.mark_saved()
+        self.drop_recovery(old_recovery)
+        self.settings.remember_site(path)
+        self.save_settings()
+        self.site_changed()
+        self.notify(f"Saved {path}", timeout=4)
+        if callable(then):
+            then()
+        return True
+
+    # ---- open ---------------------------------------------------------------------------------
+
+    def action_open_sites(self: BranchwiseApp) -> None:
+        from .screens.sites import SitesScreen
+
+        def chosen(choice: Path | str | None) -> None:
+            if choice is not None:
+                self.leave_site(lambda: self.open_choice(choice), "opening another site")
+
+        self.push_screen(SitesScreen(self.settings.recent_sites, self.session.path), chosen)
+
+    def open_choice(self: BranchwiseApp, choice: Path | str) -> None:
+        if choice == "demo":
+            site = demo_site()
+        elif choice == "new":
+            site = new_site()
+        else:
+            try:
+                site = load_site(Path(choice))
+            except InputError as exc:
+                self.notify(str(exc), title="Not opened", severity="error", timeout=10)
+                return
+            self.settings.remember_site(Path(choice))
+            self.save_settings()
+        self.session.replace(site)
+        self.good = None
+        self.site_changed()
+        self.offer_recovery()
+
+    def leave_site(self: BranchwiseApp, go: object, doing: str) -> None:
+        """Run ``go`` once the present site's changes are saved or knowingly dropped."""
+        from .screens.dialogs import ChoiceScreen
+
+        if not self.session.dirty:
+            go()  # type: ignore[operator]
+            return
+
+        def answer(choice: str | None) -> None:
+            if choice == "save":
+                if self.session.path is None:
+                    self.action_save_as(then=go)
+                else:
+                    self.save_to(self.session.path, then=go)
+            elif choice == "drop":
+                self.drop_recovery()
+                go()  # type: ignore[operator]
+
+        self.push_screen(ChoiceScreen(
+            "Unsaved changes", f"“{self.site.title}” has unsaved changes. Save them before "
+            f"{doing}?", [("s", "save", "Save"), ("n", "drop", "Don't save"),
+                          ("escape", "cancel", "Cancel")]), answer)
+
+    async def action_quit(self: BranchwiseApp) -> None:
+        self.leave_site(self.exit, "quitting")
+
+    # ---- export -------------------------------------------------------------------------------
+
+    def export(self: BranchwiseApp, fmt: str) -> None:
+        """Write the Markdown walkdown record (``markdown``) or the CSV (``csv``) of the
+        present results next to the site file (or in the sites folder)."""
+        from .screens.dialogs import SaveAsScreen
+
+        outcome = self.outcome
+        if outcome is None or not outcome.ok:
+            self.notify("Nothing to export: the site does not solve yet.", severity="warning")
+            return
+        folder = self.session.path.parent if self.session.path else sites_dir()
+        stem = Path(file_name_for(self.site.title)).stem
+        suffix = ".md" if fmt == "markdown" else ".csv"
+        name = f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}"
+        solved, system = outcome.solved, self.unit_system
+
+        def chosen(path: Path | None) -> None:
+            if path is None:
+                return
+            from branchwise.core.report import to_csv, to_markdown
+            from branchwise.core.tomlfile import atomic_write_text
+
+            text = to_markdown(solved, system) if fmt == "markdown" else to_csv(solved, system)
+            try:
+                atomic_write_text(path, text)
+            except InputError as exc:
+                self.notify(str(exc), title="Not written", severity="error", timeout=10)
+                return
+            self.notify(f"Wrote {path}", timeout=5)
+
+        title = "Walkdown record (Markdown)" if fmt == "markdown" else "Results (CSV)"
+        self.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix,
+                                      replace_ok=True), chosen)

@@ -1,0 +1,68 @@
+"""What the three work screens share: the title bar, the status strip, the footer, and redrawing
+when the site, the answer or the units change."""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING, ClassVar
+
+from textual.app import ComposeResult
+from textual.screen import Screen
+from textual.widget import Widget
+from textual.widgets import Footer, Header
+
+from ..widgets.status import StatusStrip
+
+if TYPE_CHECKING:
+    from ..app import BranchwiseApp
+
+
+class WorkScreen(Screen):
+    """A screen over the app's one site. Subclasses give :meth:`body` and :meth:`redraw`."""
+
+    HELP_WIDGETS: ClassVar[tuple[type[Widget], ...]] = ()
+    """Widget classes whose bindings the help screen lists for this screen."""
+
+    @property
+    def bw(self) -> BranchwiseApp:
+        return self.app  # type: ignore[return-value]
+
+    def compose(self) -> ComposeResult:
+        yield Header(icon="≡")
+        yield StatusStrip()
+        yield from self.body()
+        yield Footer(compact=True)
+
+    def body(self) -> ComposeResult:
+        raise NotImplementedError
+
+    ready = False
+    """False until the widgets have settled: a Select reports its first value as a change."""
+
+    def on_mount(self) -> None:
+        for name in ("revision", "outcome", "unit_system"):
+            self.watch(self.bw, name, self._changed, init=False)
+        self.redraw()
+        self.call_after_refresh(self._settled)
+
+    def _settled(self) -> None:
+        self.ready = True
+
+    def _changed(self, *_: object) -> None:
+        if self.is_current:
+            self.redraw()
+        else:
+            self._stale_view = True  # drawn when it comes back into view
+
+    def on_screen_resume(self) -> None:
+        if getattr(self, "_stale_view", False):
+            self._stale_view = False
+            self.redraw()
+
+    def on_input_blurred(self) -> None:
+        # A field shows what was typed while it has focus; afterwards, the site's text
+        # (a bare number with its unit added).
+        self.call_after_refresh(self.redraw)
+
+    def redraw(self) -> None:
+        """Show the app's present site and answer."""
+        raise NotImplementedError

@@ -1,0 +1,385 @@
+"""The Branches screen: every branch between the two headers, one row per series segment.
+
+Cells are edited in place (Enter opens a one-line editor under the table) or in the branch form
+(``e``). Branches are added, copied, removed (undo brings them back) and reordered. A reading
+typed in a branch's Reading cell becomes the given condition; the condition it replaces is kept
+aside for when the reading is cleared. The Flow column is the present answer.
+"""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical
+from textual.widgets import DataTable, Input, Label, Static
+
+from branchwise.core.sitefile import SegmentSpec, Site
+
+from ..session import (
+    branch_name,
+    error_text,
+    given_of,
+    given_text,
+    locate,
+    new_branch,
+    rename_branch,
+    set_given,
+    text_of,
+    with_unit,
+)
+from ..widgets.branchcells import (
+    BRANCH_COLUMNS,
+    COLUMNS,
+    FIELD_COLUMNS,
+    UNIT_KINDS,
+    cell_text,
+    edit_text,
+    setter,
+)
+from ..widgets.quiet import fill_table, put
+from .base import WorkScreen
+
+COLUMN_KEYS = [key for key, _ in COLUMNS]
+
+
+class BranchesScreen(WorkScreen):
+    """The branch table and its cell editor."""
+
+    BINDINGS = [
+        Binding("enter", "edit_cell", "Edit", id="branches-edit",
+                tooltip="Edit the highlighted cell in place"),
+        Binding("e", "form", "Form", id="branches-form",
+                tooltip="Edit the whole branch and its segments in a form"),
+        Binding("a", "add", "Add", id="branches-add", tooltip="Add a branch"),
+        Binding("c", "copy", "Copy", id="branches-copy",
+                tooltip="Add a copy of the highlighted branch"),
+        Binding("delete,x", "remove", "Remove", id="branches-remove",
+                tooltip="Remove the highlighted branch (or segment); Ctrl+Z brings it back"),
+        Binding("s", "add_segment", "Segment", id="branches-segment",
+                tooltip="Add a series segment after the highlighted one"),
+        Binding("shift+up,left_square_bracket", "move(-1)", "Up", id="branches-up",
+                show=False, tooltip="Move the branch up"),
+        Binding("shift+down,right_square_bracket", "move(1)", "Down", id="branches-down",
+                show=False, tooltip="Move the branch down"),
+        Binding("m", "edit_reading", "Reading", id="branches-reading", show=False,
+                tooltip="Type a measured flow for the branch: it becomes the given"),
+        Binding("escape", "cancel_edit", "Cancel", id="branches-cancel", show=False,
+                tooltip="Close the cell editor without changing the cell"),
+    ]
+
+    def body(self) -> ComposeResult:
+        with Vertical(id="branches"):
+            yield DataTable(id="branch-table", cursor_type="cell", zebra_stripes=True)
+            yield Static("", id="branch-message", classes="message", markup=False)
+            with Horizontal(id="cell-editor"):
+                yield Label("", id="cell-label", markup=False)
+                yield Input(id="cell-input", compact=True)
+
+    def on_mount(self) -> None:
+        self._rows: list[tuple[int, int]] = []
+        self._editing: tuple[int, int, str] | None = None
+        self.query_one("#cell-editor").display = False
+        super().on_mount()
+        self.query_one("#branch-table", DataTable).focus()
+
+    # ---- drawing ---------------------------------------------------------------------------------
+
+    def redraw(self) -> None:
+        app, site = self.bw, self.bw.site
+        table = self.query_one("#branch-table", DataTable)
+        columns = []
+        for key, label in COLUMNS:
+            unit = f" {app.unit_text(UNIT_KINDS[key])}" if key in UNIT_KINDS else ""
+            columns.append((key, f"{label}{unit}"))
+        outcome = app.outcome
+        bad = locate(outcome.field) if outcome is not None and outcome.error else None
+        bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
+            else None
+        flows = self._flows()
+        self._rows = []
+        rows: list[tuple[str, list[object]]] = []
+        for i, br in enumerate(site.branches):
+            for j, seg in enumerate(br.segments):
+                cells: list[object] = []
+                for key in COLUMN_KEYS:
+                    if j > 0 and key in BRANCH_COLUMNS:
+                        text = f"  └ {j + 1}" if key == "name" else ""
+                    elif key == "flow":
+                        text = flows.get(i, "") if j == 0 else ""
+                    else:
+                        text = cell_text(br, seg, key)
+                    wrong = (bad is not None and bad.branch == i and key == bad_column
+                             and (bad.segment or 0) == j)
+                    cells.append(Text(text or "?", style="bold white on red") if wrong
+                                 else Text(text, justify="right" if key == "flow" else "left"))
+                rows.append((f"{i}.{j}", cells))
+                self._rows.append((i, j))
+        fill_table(table, columns, rows)
+        message = self.query_one("#branch-message", Static)
+        if bad is not None:
+            put(message, f"✗ {error_text(outcome.error, site)}")  # type: ignore[union-attr,arg-type]
+        else:
+            kind, index = given_of(site)
+            put(message, "Enter: edit cell · e: whole branch · a/c/x: add/copy/remove · "
+                           "a bare number takes the unit in the header" if index is None else
+                           f"The reading on {branch_name(site, index)} ({given_text(site)}) "
+                           "is the given condition.")
+
+    def _flows(self) -> dict[int, str]:
+        app = self.bw
+        shown = app.outcome if app.outcome is not None and app.outcome.ok else app.good
+        if shown is None or shown.solved is None:
+            return {}
+        names = {br.name.casefold(): br.flow for br in shown.solved.result.branches}
+        out = {}
+        for i, br in enumerate(app.site.branches):
+            flow = names.get(text_of(br.name).strip().casefold())
+            if flow is not None:
+                out[i] = app.fmt(flow, "flow", unit=False)
+        return out
+
+    def here(self) -> tuple[int, int, str] | None:
+        """(branch, segment, column key) under the cursor, or None for an empty table."""
+        table = self.query_one("#branch-table", DataTable)
+        if not self._rows:
+            return None
+        row = min(table.cursor_row, len(self._rows) - 1)
+        i, j = self._rows[row]
+        return i, j, COLUMN_KEYS[table.cursor_column]
+
+    def _go(self, branch: int, segment: int = 0) -> None:
+        """Put the cursor on a branch's row after the next redraw."""
+        def move() -> None:
+            if (branch, segment) in self._rows:
+                table = self.query_one("#branch-table", DataTable)
+                table.move_cursor(row=self._rows.index((branch, segment)), animate=False)
+        self.call_after_refresh(move)
+
+    # ---- in-place editing ------------------------------------------------------------------------
+
+    def on_data_table_cell_selected(self, event: DataTable.CellSelected) -> None:
+        event.stop()
+        self.action_edit_cell()
+
+    def action_edit_cell(self, column: str | None = None) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i, j, key = spot
+        key = column or key
+        if key == "flow":
+            self.notify("The flow is worked out. To fix this branch's flow, type a Reading "
+                        "(m); to size it for a flow, use Find on the Split screen (F4).",
+                        timeout=6)
+            return
+        if j > 0 and key in BRANCH_COLUMNS:
+            j = 0
+        br = self.bw.site.branches[i]
+        seg = br.segments[j]
+        label = dict(COLUMNS)[key]
+        unit = f" [{self.bw.unit_text(UNIT_KINDS[key])}]" if key in UNIT_KINDS else ""
+        where = branch_name(self.bw.site, i) + (f" segment {j + 1}" if len(br.segments) > 1
+                                                and key not in BRANCH_COLUMNS else "")
+        self._editing = (i, j, key)
+        self.query_one("#cell-label", Label).update(f"{where} · {label}{unit}: ")
+        editor = self.query_one("#cell-editor")
+        editor.display = True
+        box = self.query_one("#cell-input", Input)
+        box.value = edit_text(br, seg, key) if key != "name" else text_of(br.name)
+        box.cursor_position = len(box.value)
+        box.focus()
+
+    def action_edit_reading(self) -> None:
+        self.action_edit_cell("reading")
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        if event.input.id != "cell-input" or self._editing is None:
+            return
+        event.stop()
+        i, j, key = self._editing
+        self._close_editor()
+        self.commit(i, j, key, event.value)
+
+    def action_cancel_edit(self) -> None:
+        self._close_editor()
+
+    def _close_editor(self) -> None:
+        self._editing = None
+        self.query_one("#cell-editor").display = False
+        self.query_one("#branch-table", DataTable).focus()
+
+    def commit(self, i: int, j: int, key: str, text: str) -> None:
+        """Write a typed cell into the site."""
+        app = self.bw
+        site = app.site
+        name = branch_name(site, i)
+        if key == "name":
+            new = text.strip()
+            if new and new != text_of(site.branches[i].name):
+                app.edit(f"Rename {name}", lambda s: rename_branch(s, i, new))
+            return
+        if key == "reading":
+            self._set_reading(i, text)
+            return
+        write = setter(key, app.unit)
+        if write is None:
+            return
+
+        def change(s: Site) -> None:
+            br = s.branches[i]
+            write(br, br.segments[j], text)
+
+        app.edit(f"{name} {dict(COLUMNS)[key].lower()}", change)
+
+    def _set_reading(self, i: int, text: str) -> None:
+        app = self.bw
+        site = app.site
+        name = branch_name(site, i)
+        parked = app.session.parked
+        kind, index = given_of(site)
+        value = with_unit(text, app.unit("flow"))
+        if value:
+            if kind != "measured_flow" or index != i:
+                old = given_text(site)
+                if old:
+                    parked[kind if index is None else f"measured_flow:{branch_name(site, index)}"] \
+                        = old
+            app.edit(f"Reading on {name}", lambda s: set_given(s, "measured_flow", value, i))
+            app.notify(f"The reading on {name} is now the given condition.", timeout=4)
+            return
+        if kind == "measured_flow" and index == i:
+            back = "pressure_drop" if parked.get("pressure_drop") or not parked.get(
+                "total_flow") else "total_flow"
+            restored = parked.get(back, "")
+            parked[f"measured_flow:{name}"] = given_text(site)
+            app.edit(f"Clear the reading on {name}",
+                     lambda s: set_given(s, back, restored))
+
+    # ---- branch actions --------------------------------------------------------------------------
+
+    def action_add(self) -> None:
+        from .branchform import BranchForm
+
+        spot = self.here()
+        site = self.bw.site
+        like = site.branches[spot[0]] if spot else None
+        draft = new_branch(site)
+        if like is not None:  # start from the highlighted branch's pipe, not its length
+            first = like.segments[0]
+            draft.segments = [SegmentSpec(size=first.size, diameter=first.diameter,
+                                          material=first.material, condition=first.condition,
+                                          roughness=first.roughness)]
+        at = (spot[0] + 1) if spot else len(site.branches)
+
+        def added(branch: object) -> None:
+            if branch is None:
+                return
+            self.bw.edit(f"Add {text_of(branch.name)}",  # type: ignore[attr-defined]
+                         lambda s: s.branches.insert(at, branch))  # type: ignore[arg-type]
+            self._go(at)
+
+        self.app.push_screen(BranchForm(draft, self.bw.unit, title="New branch"), added)
+
+    def action_form(self) -> None:
+        from .branchform import BranchForm
+
+        spot = self.here()
+        if spot is None:
+            return
+        i = spot[0]
+        site = self.bw.site
+        old_name = text_of(site.branches[i].name)
+
+        def done(branch: object) -> None:
+            if branch is None:
+                return
+
+            def change(s: Site) -> None:
+                new_name = text_of(branch.name)  # type: ignore[attr-defined]
+                s.branches[i] = branch  # type: ignore[assignment]
+                if new_name != old_name:
+                    branch.name = old_name  # type: ignore[attr-defined]
+                    rename_branch(s, i, new_name)
+
+            self.bw.edit(f"Edit {old_name}", change)
+
+        self.app.push_screen(BranchForm(site.branches[i], self.bw.unit), done)
+
+    def action_copy(self) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i = spot[0]
+        copy = new_branch(self.bw.site, self.bw.site.branches[i])
+        self.bw.edit(f"Copy {branch_name(self.bw.site, i)}",
+                     lambda s: s.branches.insert(i + 1, copy))
+        self._go(i + 1)
+
+    def action_remove(self) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i, j, _ = spot
+        site = self.bw.site
+        name = branch_name(site, i)
+        if j > 0:
+            self.bw.edit(f"Remove segment {j + 1} of {name}",
+                         lambda s: s.branches[i].segments.pop(j))
+            self.notify(f"Removed segment {j + 1} of {name}. Ctrl+Z brings it back.")
+            return
+        if len(site.branches[i].segments) > 1:
+            self.notify(f"{name} has {len(site.branches[i].segments)} segments: removing "
+                        "the whole branch.", timeout=4)
+        kind, index = given_of(site)
+        was_given = kind == "measured_flow" and index == i
+        parked = self.bw.session.parked
+
+        def change(s: Site) -> None:
+            s.branches.pop(i)
+            if s.solve is not None and text_of(s.solve.branch).casefold() == name.casefold():
+                s.solve = None
+            if was_given:
+                back = "total_flow" if parked.get("total_flow") and not parked.get(
+                    "pressure_drop") else "pressure_drop"
+                set_given(s, back, parked.get(back, ""))
+
+        self.bw.edit(f"Remove {name}", change)
+        self.notify(f"Removed {name}. Ctrl+Z brings it back.", timeout=5)
+
+    def action_add_segment(self) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i, j, _ = spot
+        site = self.bw.site
+        seg = site.branches[i].segments[j]
+        fresh = SegmentSpec(size=seg.size, diameter=seg.diameter, material=seg.material,
+                            condition=seg.condition, roughness=seg.roughness)
+        self.bw.edit(f"Add a segment to {branch_name(site, i)}",
+                     lambda s: s.branches[i].segments.insert(j + 1, fresh))
+        self._go(i, j + 1)
+        self.call_after_refresh(lambda: self.action_edit_cell("length"))
+
+    def action_move(self, step: int) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i = spot[0]
+        k = i + step
+        if not 0 <= k < len(self.bw.site.branches):
+            return
+
+        def change(s: Site) -> None:
+            s.branches[i], s.branches[k] = s.branches[k], s.branches[i]
+
+        self.bw.edit(f"Move {branch_name(self.bw.site, i)}", change)
+        self._go(k)
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "cancel_edit":
+            return True if self._editing is not None else None
+        if action in ("edit_cell", "form", "copy", "remove", "add_segment", "move",
+                      "edit_reading"):
+            return True if self.bw.site.branches else None
+        return True

@@ -1,0 +1,241 @@
+"""The branch form: one branch with all its series segments, fittings and valve.
+
+Works on a copy of the branch; Enter in any field applies it, Escape leaves it unchanged. Each
+value is checked as it is typed (units, numbers, fitting names), and its message shows right
+under the field; the whole site is checked once the form is applied.
+"""
+
+from __future__ import annotations
+
+import copy
+import re
+from collections.abc import Callable
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical, VerticalScroll
+from textual.screen import ModalScreen
+from textual.widgets import Label, Static
+
+from branchwise.core.errors import InputError
+from branchwise.core.sitefile import BranchSpec, SegmentSpec
+
+from ..session import text_of, with_unit
+from ..widgets.branchcells import (
+    set_k,
+    set_size,
+    set_valve,
+    set_wall,
+    size_text,
+    valve_text,
+    wall_text,
+)
+from ..widgets.field import Field
+
+SEGMENT_FIELDS = (
+    ("size", "Size or inner diameter", "diameter"),
+    ("length", "Length", "length"),
+    ("wall", "Roughness or material", "roughness"),
+    ("k", "Extra K", None),
+    ("fittings", "Fittings (key count, …)", None),
+)
+_ITEM = re.compile(r"\s*(?:(\d+(?:\.\d*)?)\s*[x×*]?\s*([a-z][a-z0-9-]*)|([a-z][a-z0-9-]*)"
+                   r"\s*[=: ]?\s*(\d+(?:\.\d*)?)?)\s*\Z", re.I)
+
+
+def parse_fittings(text: str, field: str = "fittings") -> dict[str, float]:
+    """``elbow-90 4, gate-valve 2`` (or ``4 elbow-90``, ``elbow-90=4``) → {key: count}."""
+    out: dict[str, float] = {}
+    for item in filter(None, (part.strip() for part in text.split(","))):
+        m = _ITEM.match(item)
+        if m is None:
+            raise InputError(field, item, "write each fitting as 'key count', such as "
+                             "'elbow-90 4'")
+        key = (m.group(2) or m.group(3)).lower()
+        count = float(m.group(1) or m.group(4) or 1)
+        out[key] = out.get(key, 0.0) + count
+    return out
+
+
+def fittings_text(fittings: dict[str, object]) -> str:
+    return ", ".join(f"{key} {text_of(count)}" for key, count in fittings.items())
+
+
+class BranchForm(ModalScreen[BranchSpec | None]):
+    """Edit one branch. ``unit`` gives the display unit of a kind of quantity."""
+
+    BINDINGS = [
+        Binding("escape", "cancel", "Cancel", id="form-cancel",
+                tooltip="Close the form without changing the branch"),
+        Binding("ctrl+n", "add_segment", "Add segment", id="form-add-segment",
+                tooltip="Add a series segment after the one being edited"),
+        Binding("ctrl+r", "remove_segment", "Remove segment", id="form-remove-segment",
+                tooltip="Remove the segment being edited"),
+    ]
+    DEFAULT_CSS = """
+    BranchForm { align: center middle; }
+    BranchForm > Vertical {
+        width: 90; max-width: 100%; height: 90%; border: thick $primary; background: $surface;
+        padding: 0 1;
+    }
+    BranchForm .form-title { text-style: bold; }
+    BranchForm .segment-title { margin-top: 1; color: $accent; text-style: bold; }
+    BranchForm .form-keys { color: $text-muted; }
+    BranchForm .form-message { color: $error; }
+    """
+
+    def __init__(self, branch: BranchSpec, unit: Callable[[str], str],
+                 title: str = "Branch") -> None:
+        super().__init__()
+        self.branch = copy.deepcopy(branch)
+        self.unit = unit
+        self.title_text = title
+        self._focus_segment = 0
+
+    def compose(self) -> ComposeResult:
+        br = self.branch
+        with Vertical():
+            yield Label(f"{self.title_text}: {text_of(br.name)}", classes="form-title",
+                        markup=False)
+            yield Static("Enter: apply   Esc: cancel   Ctrl+N: add segment   Ctrl+R: remove "
+                         "segment", classes="form-keys", markup=False)
+            with VerticalScroll(id="form-fields"):
+                yield Field("Name", "name", value=text_of(br.name), id="f-name")
+                yield Field("Valve (Kv or Cv)", "valve", value=valve_text(br),
+                            placeholder="Kv 160 or Cv 110", id="f-valve")
+                yield Field("Note", "note", value=text_of(br.note), id="f-note")
+                for j, seg in enumerate(br.segments):
+                    yield Label(f"Segment {j + 1}", classes="segment-title")
+                    for key, label, kind in SEGMENT_FIELDS:
+                        yield Field(label, f"{j}.{key}", kind, value=self._seg_text(seg, key),
+                                    id=f"f-{j}-{key}")
+            yield Static("", classes="form-message", markup=False)
+
+    def on_mount(self) -> None:
+        for field in self.query(Field):
+            if field.kind:
+                field.set_unit(self.unit(field.kind))
+        fields = list(self.query(Field))
+        target = next((f for f in fields if f.path.startswith(f"{self._focus_segment}.")),
+                      fields[0])
+        target.input.focus()
+        self._fitting_keys: set[str] | None = None
+
+    @staticmethod
+    def _seg_text(seg: SegmentSpec, key: str) -> str:
+        return {"size": size_text(seg), "length": text_of(seg.length), "wall": wall_text(seg),
+                "k": text_of(seg.minor_k), "fittings": fittings_text(seg.fittings)}[key]
+
+    # ---- reading the fields back ----------------------------------------------------------------
+
+    def collect(self) -> BranchSpec:
+        """The branch as the fields now say (values checked by :meth:`check`)."""
+        br = copy.deepcopy(self.branch)
+        values = {f.path: f.text for f in self.query(Field)}
+        br.name = values["name"].strip()
+        set_valve(br, values["valve"])
+        br.note = values["note"].strip() or None
+        for j, seg in enumerate(br.segments):
+            set_size(seg, values[f"{j}.size"], self.unit("diameter"))
+            seg.length = with_unit(values[f"{j}.length"], self.unit("length")) or None
+            set_wall(seg, values[f"{j}.wall"], self.unit("roughness"))
+            set_k(seg, values[f"{j}.k"])
+            try:
+                seg.fittings = dict(parse_fittings(values[f"{j}.fittings"]))
+            except InputError:
+                pass  # reported by check(); the fields keep what was typed
+        return br
+
+    def check(self, field: Field) -> str | None:
+        """The message for ``field``'s text, or None when it reads well on its own."""
+        from branchwise.core.units import parse_quantity
+
+        text = field.text.strip()
+        key = field.path.split(".")[-1]
+        try:
+            if key == "name" and not text:
+                return "every branch needs a name"
+            if key == "fittings" and text:
+                known = self._known_fittings()
+                for name in parse_fittings(text, "fittings"):
+                    if known and name not in known:
+                        return (f"no fitting '{name}'; known: {', '.join(sorted(known))}")
+            if key in ("length",) and text:
+                parse_quantity(text, "length", key, self.unit("length"))
+            if key == "size" and text:
+                probe = SegmentSpec()
+                set_size(probe, text, self.unit("diameter"))
+                if probe.diameter is not None:
+                    parse_quantity(probe.diameter, "diameter", key)
+                else:
+                    from branchwise.core.catalogs import parse_size
+
+                    parse_size(text, key)
+            if key == "wall" and text and (text[0].isdigit() or text[0] == "."):
+                parse_quantity(text, "roughness", key, self.unit("roughness"))
+            if key == "k" and text:
+                float(text)
+        except InputError as exc:
+            return exc.reason + (f", got {exc.value}" if exc.value else "")
+        except ValueError:
+            return "must be a plain number"
+        return None
+
+    def _known_fittings(self) -> set[str]:
+        if self._fitting_keys is None:
+            from branchwise.core.catalogs import fittings
+
+            self._fitting_keys = {f.key for f in fittings()}
+        return self._fitting_keys
+
+    def on_field_edited(self, event: Field.Edited) -> None:
+        event.field.set_error(self.check(event.field))
+
+    def on_field_done(self, event: Field.Done) -> None:
+        self.apply()
+
+    def apply(self) -> None:
+        bad = [(f, m) for f in self.query(Field) if (m := self.check(f))]
+        for field, message in bad:
+            field.set_error(message)
+        if bad:
+            self.query_one(".form-message", Static).update(
+                "Fix the marked fields, or Esc to leave the branch as it was.")
+            bad[0][0].input.focus()
+            return
+        self.dismiss(self.collect())
+
+    # ---- segments -------------------------------------------------------------------------------
+
+    def _segment_in_focus(self) -> int:
+        focused = self.focused
+        for field in self.query(Field):
+            if focused is not None and focused in field.query("Input"):
+                head = field.path.split(".")[0]
+                return int(head) if head.isdigit() else 0
+        return 0
+
+    async def action_add_segment(self) -> None:
+        j = self._segment_in_focus()
+        self.branch = self.collect()
+        seg = self.branch.segments[j]
+        self.branch.segments.insert(j + 1, SegmentSpec(
+            size=seg.size, diameter=seg.diameter, material=seg.material,
+            condition=seg.condition, roughness=seg.roughness))
+        self._focus_segment = j + 1
+        await self.recompose()
+        self.on_mount()
+
+    async def action_remove_segment(self) -> None:
+        if len(self.branch.segments) < 2:
+            self.notify("A branch keeps at least one segment.", severity="warning")
+            return
+        j = self._segment_in_focus()
+        self.branch = self.collect()
+        self.branch.segments.pop(j)
+        self._focus_segment = max(0, j - 1)
+        await self.recompose()
+        self.on_mount()
+
+    def action_cancel(self) -> None:
+        self.dismiss(None)

@@ -1,0 +1,61 @@
+"""The help screen, built from the bindings themselves so that it cannot drift from the keys."""
+
+from __future__ import annotations
+
+from rich.table import Table
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import VerticalScroll
+from textual.screen import ModalScreen
+from textual.widgets import Static
+
+ABOUT = (
+    "Values: every field takes a number with any unit (250 ft, 76 m, 12 psi, 400 gpm, 65 degF);"
+    " a bare number takes the unit shown in brackets or in the column header. A size takes a "
+    "catalog size (3 in sch 40, DN80 sch 40, 1-1/2 type L, 110 mm SDR 11) or an inner diameter."
+    "\nThe answer is worked out again after every change; while something is wrong the last "
+    "good answer stays, greyed, and the message shows beside the field at fault."
+    "\nCtrl+P lists every action by name."
+)
+
+
+class HelpScreen(ModalScreen[None]):
+    """Keys by screen, then the app-wide keys, from the live binding lists."""
+
+    BINDINGS = [Binding("escape,f1,q", "close", "Close", id="help-close")]
+    DEFAULT_CSS = """
+    HelpScreen { align: center middle; }
+    HelpScreen > VerticalScroll {
+        width: 96; max-width: 100%; height: 95%; border: thick $primary;
+        background: $surface; padding: 0 1;
+    }
+    """
+
+    def __init__(self, sections: list[tuple[str, list[Binding]]]) -> None:
+        super().__init__()
+        self.sections = sections
+
+    def compose(self) -> ComposeResult:
+        with VerticalScroll():
+            yield Static(self.render_keys())
+            yield Static(Text(ABOUT, style="dim"))
+
+    def render_keys(self) -> Table:
+        table = Table.grid(padding=(0, 2))
+        table.add_column(justify="right", style="bold", no_wrap=True)
+        table.add_column()
+        for title, bindings in self.sections:
+            table.add_row(Text(title, style="bold underline"), "")
+            for binding in bindings:
+                if not binding.description:
+                    continue
+                keys = " / ".join(self.app.get_key_display(Binding(k, binding.action))
+                                  for k in binding.key.split(","))
+                table.add_row(keys, Text(f"{binding.description}: "
+                                         f"{binding.tooltip or binding.description}"))
+            table.add_row("", "")
+        return table
+
+    def action_close(self) -> None:
+        self.dismiss(None)

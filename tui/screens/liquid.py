@@ -1,0 +1,207 @@
+"""The Liquid screen: what flows in the pipes, at what state, and the properties that follow.
+
+Only the fields the chosen kind uses are shown; a value another kind needs is kept aside (not
+lost) when the kind changes, and comes back when it changes back. The properties panel shows
+density, dynamic and kinematic viscosity and the model they come from; a state the model
+refuses (frozen, boiling, out of its range) shows its message beside the field at fault.
+"""
+
+from __future__ import annotations
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.widgets import Label, Select, Static
+
+from ..session import error_text, locate, text_of, with_unit
+from ..widgets.field import Field
+from ..widgets.quiet import put, set_options
+from .base import WorkScreen
+
+BUILT_IN = ("water", "seawater", "ethylene-glycol", "propylene-glycol", "custom")
+KIND_LABELS = {"water": "Water", "seawater": "Seawater",
+               "ethylene-glycol": "Ethylene glycol in water",
+               "propylene-glycol": "Propylene glycol in water",
+               "custom": "Custom (density and viscosity)"}
+FIELDS = (
+    ("temperature", "Temperature", "temperature"),
+    ("pressure", "Pressure (absolute)", "pressure"),
+    ("concentration", "Glycol mass fraction", "fraction"),
+    ("salinity", "Salinity", "salinity"),
+    ("name", "Name", None),
+    ("density", "Density", "density"),
+    ("viscosity", "Dynamic viscosity", "viscosity"),
+    ("kinematic_viscosity", "Kinematic viscosity", "kinematic_viscosity"),
+)
+USES = {
+    "water": ("temperature", "pressure"),
+    "seawater": ("temperature", "salinity", "pressure"),
+    "ethylene-glycol": ("temperature", "concentration"),
+    "propylene-glycol": ("temperature", "concentration"),
+    "custom": ("name", "density", "viscosity", "kinematic_viscosity"),
+}
+"""The fields each built-in kind takes (a saved preset may take any, as overrides)."""
+
+
+class LiquidScreen(WorkScreen):
+    """Kind, state, and the resulting properties of the liquid."""
+
+    BINDINGS = [
+        Binding("k", "focus_kind", "Kind", id="liquid-kind",
+                tooltip="Choose water, seawater, a glycol, a custom liquid or a saved one"),
+        Binding("escape", "leave_field", "Leave field", id="liquid-leave", show=False,
+                tooltip="Stop typing in a field (so that single-letter keys work)"),
+    ]
+
+    def body(self) -> ComposeResult:
+        with Horizontal(id="liquid"):
+            with VerticalScroll(id="liquid-form"):
+                with Horizontal(classes="row"):
+                    yield Label("Kind", classes="row-label")
+                    self._options = self._kind_options()
+                    yield Select(self._options, id="liquid-kind-select",
+                                 allow_blank=False, compact=True)
+                for name, label, kind in FIELDS:
+                    yield Field(label, f"fluid.{name}", kind, id=f"fluid-{name}")
+                yield Static("", id="liquid-hint", markup=False)
+            with Vertical(id="liquid-props"):
+                yield Label("Properties", classes="panel-title")
+                yield Static("", id="liquid-values", markup=False)
+
+    def _kind_options(self) -> list[tuple[str, str]]:
+        options = [(KIND_LABELS[k], k) for k in BUILT_IN]
+        try:
+            from branchwise.core.store import PresetStore
+
+            saved = PresetStore().list("fluids")
+        except (OSError, ValueError) as exc:
+            self.notify(f"Saved liquids not read: {exc}", severity="warning")
+            saved = {}
+        options += [(f"Saved: {key}", key) for key in sorted(saved) if key not in BUILT_IN]
+        self._saved = {key: values for key, values in saved.items() if key not in BUILT_IN}
+        return options
+
+    def on_mount(self) -> None:
+        super().on_mount()
+        self.query_one("#liquid-kind-select").focus()
+
+    def kind(self) -> str:
+        return text_of(self.bw.site.fluid.kind).strip().lower() or "water"
+
+    def uses(self, kind: str) -> tuple[str, ...]:
+        if kind in USES:
+            return USES[kind]
+        base = str(self._saved.get(kind, {}).get("kind", "custom"))
+        return USES.get(base, USES["custom"])
+
+    # ---- drawing ---------------------------------------------------------------------------------
+
+    def redraw(self) -> None:
+        app, spec = self.bw, self.bw.site.fluid
+        kind = self.kind()
+        with self.prevent(Select.Changed):
+            options = self._options
+            if kind not in [v for _, v in options]:
+                options = [*options, (f"Saved: {kind}", kind)]
+            set_options(self.query_one("#liquid-kind-select", Select), options, kind)
+        uses = self.uses(kind)
+        outcome = app.outcome
+        error = outcome.error if outcome is not None else None
+        ref = locate(outcome.field) if error is not None else None
+        for name, _, qkind in FIELDS:
+            field = self.query_one(f"#fluid-{name}", Field)
+            field.display = name in uses
+            field.show(text_of(getattr(spec, name)))
+            field.set_unit(app.unit_text(qkind) if qkind else "")
+            wrong = ref is not None and ref.area == "fluid" and ref.name == name
+            field.set_error(_reason(error) if wrong else None)
+        hint = self.query_one("#liquid-hint", Static)
+        if ref is not None and ref.area == "fluid" and ref.name not in uses:
+            put(hint, f"✗ {error_text(error, self.bw.site)}")
+        else:
+            put(hint, "A bare number takes the unit in brackets; any unit can be typed "
+                        "(65 degF, 12 cP, 1.2 cSt).")
+        self._draw_properties()
+
+    def _draw_properties(self) -> None:
+        app = self.bw
+        outcome = app.outcome
+        fluid = outcome.fluid if outcome is not None else None
+        stale = False
+        if fluid is None and app.good is not None:
+            fluid, stale = app.good.fluid, True
+        panel = self.query_one("#liquid-values", Static)
+        self.query_one("#liquid-props").set_class(stale, "-stale")
+        if fluid is None:
+            put(panel, "… working it out" if outcome is None else "—")
+            return
+        nu = fluid.viscosity / fluid.density
+        put(panel, "\n".join([
+            fluid.name,
+            "",
+            f"Density              {app.fmt(fluid.density, 'density', 5)}",
+            f"Dynamic viscosity    {app.fmt(fluid.viscosity, 'viscosity', 4)}",
+            f"Kinematic viscosity  {app.fmt(nu, 'kinematic_viscosity', 4)}",
+            "",
+            f"Model: {fluid.source}",
+        ]))
+
+    # ---- edits -----------------------------------------------------------------------------------
+
+    def on_select_changed(self, event: Select.Changed) -> None:
+        if not self.ready or event.select.id != "liquid-kind-select" or \
+                event.value is Select.NULL:
+            return
+        new = str(event.value)
+        old = self.kind()
+        if new == old:
+            return
+        parked = self.bw.session.parked
+        spec = self.bw.site.fluid
+        keep = self.uses(new)
+        for name, _, _ in FIELDS:
+            value = text_of(getattr(spec, name))
+            if value and name not in keep:
+                parked[f"fluid.{name}"] = value
+        restore = {name: parked.get(f"fluid.{name}") for name in keep}
+
+        def change(site: object) -> None:
+            fluid = site.fluid  # type: ignore[attr-defined]
+            fluid.kind = new
+            for name, _, _ in FIELDS:
+                if name not in keep:
+                    setattr(fluid, name, None)
+                elif getattr(fluid, name) is None and restore.get(name):
+                    setattr(fluid, name, restore[name])
+
+        self.bw.edit(f"Liquid: {KIND_LABELS.get(new, new)}", change)
+
+    def on_field_edited(self, event: Field.Edited) -> None:
+        if not self.ready:
+            return
+        field = event.field
+        name = field.path.split(".", 1)[1]
+        text = with_unit(event.text, self.bw.unit(field.kind)) if field.kind else event.text
+        value = text.strip() or None
+
+        def change(site: object) -> None:
+            setattr(site.fluid, name, value)  # type: ignore[attr-defined]
+
+        self.bw.edit(f"Liquid {name.replace('_', ' ')}", change, key=field.path)
+
+    def on_field_done(self, event: Field.Done) -> None:
+        self.focus_next()
+
+    def action_focus_kind(self) -> None:
+        self.query_one("#liquid-kind-select").focus()
+
+    def action_leave_field(self) -> None:
+        self.query_one("#liquid-kind-select").focus()
+
+
+def _reason(error: BaseException | None) -> str:
+    """The error without its field (it shows beside the field): reason and value."""
+    reason = getattr(error, "reason", None)
+    if reason is None:
+        return str(error)
+    return f"{reason}, got {getattr(error, 'value', '')}"

@@ -1,0 +1,355 @@
+"""The Split screen: what is given, what to find, and how the flow splits between the branches.
+
+Top: the given condition (pressure drop across the header, total flow, or the reading on one
+branch) and the find choice (the flows, or one branch's diameter, length or roughness for a
+target flow). Below: one row per branch (and per further segment), the totals, the solved
+value with the catalog size, the warnings, and the cautions one key away. While the site has an
+error the last good answer stays on screen, greyed, and the error shows beside its field.
+"""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.widgets import Input, Label, Select, Static
+
+from ..session import (
+    FIND_CHOICES,
+    branch_name,
+    error_text,
+    find_of,
+    given_of,
+    given_text,
+    locate,
+    set_find,
+    set_given,
+    text_of,
+    with_unit,
+)
+from ..widgets.quiet import put, set_options, show_text
+from ..widgets.sharebar import share_bar
+from ..widgets.texttable import TextTable
+from .base import WorkScreen
+
+GIVEN_PREFIX = "measured:"
+FIND_LABELS = {"flows": "the flows", "diameter": "the diameter", "length": "the length",
+               "roughness": "the roughness"}
+REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb."}
+BASE_GIVENS = [("Δp across the header", "pressure_drop"), ("Total flow", "total_flow")]
+CAUTION_LINE = "Estimates only, not design: confirm on site.  ! cautions"
+
+
+class SplitScreen(WorkScreen):
+    """Given, find, and the answer."""
+
+    BINDINGS = [
+        Binding("g", "focus('given-kind')", "Given", id="split-given",
+                tooltip="Choose what was measured: Δp, total flow or one branch's reading"),
+        Binding("v", "focus('given-value')", "Value", id="split-value", show=False,
+                tooltip="Type the value of the given condition"),
+        Binding("f", "focus('find-kind')", "Find", id="split-find",
+                tooltip="Choose what to find: the flows, or a diameter, length or roughness"),
+        Binding("t", "focus('find-target')", "Target", id="split-target", show=False,
+                tooltip="Type the target flow of the branch being sized"),
+        Binding("r", "export('markdown')", "Record", id="split-record",
+                tooltip="Write the walkdown record (Markdown)"),
+        Binding("c", "export('csv')", "CSV", id="split-csv",
+                tooltip="Write the results table as CSV"),
+        Binding("escape", "focus('results')", "Table", id="split-table", show=False,
+                tooltip="Leave the field and go to the results table"),
+    ]
+
+    def body(self) -> ComposeResult:
+        with Vertical(id="split-inputs"):
+            with Horizontal(classes="row"):
+                yield Label("Given", classes="row-label")
+                yield Select(BASE_GIVENS, id="given-kind", allow_blank=False, compact=True)
+                yield Input(id="given-value", compact=True)
+                yield Label("", id="given-unit", classes="unit", markup=False)
+            yield Static("", id="given-message", classes="message", markup=False)
+            with Horizontal(classes="row"):
+                yield Label("Find", classes="row-label")
+                yield Select([(FIND_LABELS[f], f) for f in FIND_CHOICES], id="find-kind",
+                             allow_blank=False, value="flows", compact=True)
+                yield Label(" of ", classes="find-part")
+                yield Select([], id="find-branch", allow_blank=True, compact=True,
+                             prompt="branch", classes="find-part")
+                yield Label(" for ", classes="find-part")
+                yield Input(id="find-target", compact=True,
+                            placeholder="flow", classes="find-part")
+                yield Select([], id="find-segment", allow_blank=True, compact=True,
+                             prompt="segment", classes="find-part find-seg")
+            yield Static("", id="find-message", classes="message", markup=False)
+        with Vertical(id="split-results"):
+            yield TextTable(id="results")
+            yield Static("", id="totals", markup=False)
+            yield Static("", id="solved", markup=False)
+            with VerticalScroll(id="warnings"):
+                yield Static("", id="warning-text", markup=False)
+        yield Static(CAUTION_LINE, id="caution-line", markup=False)
+
+    def on_mount(self) -> None:
+        super().on_mount()
+        self.query_one("#results", TextTable).focus()
+
+    # ---- drawing ---------------------------------------------------------------------------------
+
+    def redraw(self) -> None:
+        with self.prevent(Select.Changed, Input.Changed):
+            self._draw_inputs()
+            self._draw_results()
+
+    def _draw_inputs(self) -> None:
+        app, site = self.bw, self.bw.site
+        kind, index = given_of(site)
+        options = list(BASE_GIVENS)
+        options += [(f"Reading on {branch_name(site, i)}", f"{GIVEN_PREFIX}{i}")
+                    for i in range(len(site.branches))]
+        value = kind if kind != "measured_flow" else f"{GIVEN_PREFIX}{index}"
+        set_options(self.query_one("#given-kind", Select), options, value)
+        unit_kind = "pressure" if kind == "pressure_drop" else "flow"
+        show_text(self.query_one("#given-value", Input), given_text(site))
+        put(self.query_one("#given-unit", Label), f"[{app.unit_text(unit_kind)}]")
+
+        find = find_of(site)
+        find_box = self.query_one("#find-kind", Select)
+        if find_box.value != find:
+            find_box.value = find
+        names = [(branch_name(site, i), branch_name(site, i)) for i in range(len(site.branches))]
+        solve = site.solve
+        chosen = text_of(solve.branch if solve else None)
+        set_options(self.query_one("#find-branch", Select), names,
+                     chosen if chosen in [n for n, _ in names] else Select.NULL)
+        show_text(self.query_one("#find-target", Input),
+              text_of(solve.target_flow if solve else None))
+        for part in self.query(".find-part"):
+            part.display = find != "flows"
+        segments = self._segments_of(chosen)
+        seg_box = self.query_one("#find-segment", Select)
+        set_options(seg_box, [(f"segment {j}", str(j)) for j in range(1, segments + 1)],
+                     text_of(solve.segment if solve else None) or "1")
+        seg_box.display = find != "flows" and segments > 1
+        self._draw_messages()
+
+    def _segments_of(self, name: str) -> int:
+        for br in self.bw.site.branches:
+            if text_of(br.name).strip().casefold() == name.strip().casefold():
+                return len(br.segments)
+        return 1
+
+    def _draw_messages(self) -> None:
+        outcome = self.bw.outcome
+        given_msg = find_msg = ""
+        if outcome is not None and outcome.error is not None:
+            ref = locate(outcome.field)
+            text = error_text(outcome.error, self.bw.site)
+            if ref.area == "conditions" or ref.name == "measured_flow":
+                given_msg = text
+            elif ref.area == "solve":
+                find_msg = text
+        for ident, message in (("#given-message", given_msg), ("#find-message", find_msg)):
+            box = self.query_one(ident, Static)
+            put(box, f"✗ {message}" if message else "")
+            box.display = bool(message)
+
+    def _draw_results(self) -> None:
+        app = self.bw
+        outcome = app.outcome
+        drawn = (outcome, app.good, app.unit_system, tuple(app.settings.display_units.items()))
+        if getattr(self, "_drawn", None) == drawn:
+            return  # the site changed but its answer has not arrived yet: nothing new to show
+        self._drawn = drawn
+        shown = outcome if outcome is not None and outcome.ok else app.good
+        # Greyed only when the site has an error: a solve takes milliseconds, and greying the
+        # table while it runs would only make it flicker as someone types.
+        stale = outcome is not None and not outcome.ok and shown is not None
+        self.query_one("#split-results").set_class(stale, "-stale")
+        table = self.query_one("#results", TextTable)
+        u = app.unit_text
+        columns = [("Branch", False), (f"Flow {u('flow')}", True), ("Share", False),
+                   (f"V {u('velocity')}", True), ("Re", True), ("f", True), ("Regime", False),
+                   (f"Major {u('head')}", True), (f"Minor {u('head')}", True)]
+        totals = self.query_one("#totals", Static)
+        solved = self.query_one("#solved", Static)
+        warnings = self.query_one("#warning-text", Static)
+        if shown is None or shown.solved is None:
+            table.show(columns, [])
+            put(totals, "… solving" if outcome is None else "No answer yet: see the message "
+                "above.", layout=False)
+            put(solved, "", layout=False)
+            solved.display = False
+            put(warnings, "")
+            return
+        result = shown.solved.result
+        rows: list[list[str | Text]] = []
+        for br in result.branches:
+            for j, seg in enumerate(br.segments):
+                first = j == 0
+                rows.append([
+                    br.name if first else f"  └ segment {j + 1}",
+                    app.fmt(br.flow, "flow", unit=False) if first else "",
+                    share_bar(br.share) if first else "",
+                    app.fmt(seg.velocity, "velocity", 3, unit=False),
+                    f"{seg.reynolds:,.0f}",
+                    f"{seg.friction_factor:.4f}",
+                    REGIMES.get(seg.regime, seg.regime),
+                    app.fmt(seg.major_loss, "head", 3, unit=False),
+                    app.fmt(seg.minor_loss + (br.valve_loss if first else 0.0), "head", 3,
+                            unit=False),
+                ])
+        table.show(columns, rows)
+        fluid = result.network.fluid
+        put(totals,
+            f"Total {app.fmt(result.total_flow, 'flow')}   "
+            f"Δp {app.fmt(result.pressure_drop, 'pressure')}   "
+            f"head loss {app.fmt(result.head_loss, 'head', 3)}\n{fluid.name}: "
+            f"{app.fmt(fluid.density, 'density')}, {app.fmt(fluid.viscosity, 'viscosity', 3)}",
+            layout=False)  # always two lines: no new layout needed
+        text = self._solved_text(shown)
+        put(solved, text, layout=False)
+        solved.display = bool(text)
+        lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{w.message}"
+                 for w in result.warnings]
+        lines += [f"• {note}" for note in (*shown.solved.notes, *result.notes)]
+        put(warnings, "\n".join(lines))
+        self.query_one("#warnings").display = bool(lines)
+
+    def _solved_text(self, shown: object) -> str:
+        app = self.bw
+        sr = shown.solved  # type: ignore[attr-defined]
+        s = sr.result.solved
+        if s is None:
+            return ""
+        kind = s.quantity
+        text = (f"{kind.capitalize()} of {s.branch} for {app.fmt(s.target_flow, 'flow')}: "
+                f"{app.fmt(s.value, kind)}")
+        if sr.catalog is not None:
+            c = sr.catalog
+            text += (f"  → catalog size {c.size.label} (bore "
+                     f"{app.fmt(c.size.inner_diameter_m, 'diameter')}) carries "
+                     f"{app.fmt(c.flow, 'flow')}")
+        return text
+
+    # ---- edits -----------------------------------------------------------------------------------
+
+    def on_select_changed(self, event: Select.Changed) -> None:
+        if not self.ready or event.value is Select.NULL:
+            return
+        ident = event.select.id
+        if ident == "given-kind":
+            self._switch_given(str(event.value))
+        elif ident == "find-kind":
+            self._switch_find(str(event.value))
+        elif ident == "find-branch":
+            name = str(event.value)
+            if name != text_of(self.bw.site.solve.branch if self.bw.site.solve else None):
+                self.bw.edit(f"Find on {name}", lambda s: set_find(s, find_of(s), branch=name,
+                                                                   segment=1))
+        elif ident == "find-segment":
+            seg = int(str(event.value))
+            self.bw.edit(f"Segment {seg}", lambda s: set_find(s, find_of(s), segment=seg))
+
+    def on_input_changed(self, event: Input.Changed) -> None:
+        if not self.ready:
+            return
+        app = self.bw
+        if event.input.id == "given-value":
+            kind, index = given_of(app.site)
+            unit = app.unit("pressure" if kind == "pressure_drop" else "flow")
+            text = with_unit(event.value, unit)
+            app.edit("Given value", lambda s: set_given(s, kind, text, index), key="given")
+        elif event.input.id == "find-target":
+            text = with_unit(event.value, app.unit("flow"))
+            app.edit("Target flow", lambda s: set_find(s, find_of(s), target=text),
+                     key="target")
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        self.query_one("#results", TextTable).focus()
+
+    def _switch_given(self, value: str) -> None:
+        app = self.bw
+        site = app.site
+        new_kind, new_index = ("measured_flow", int(value[len(GIVEN_PREFIX):])) \
+            if value.startswith(GIVEN_PREFIX) else (value, None)
+        old_kind, old_index = given_of(site)
+        if (new_kind, new_index) == (old_kind, old_index):
+            return
+        parked = app.session.parked
+        old_value = given_text(site)
+        if old_value:
+            parked[_park_key(site, old_kind, old_index)] = old_value
+        text = parked.get(_park_key(site, new_kind, new_index)) or self._current(
+            new_kind, new_index)
+        label = ("the reading on " + branch_name(site, new_index) if new_index is not None
+                 else new_kind.replace("_", " "))
+        app.edit(f"Given: {label}", lambda s: set_given(s, new_kind, text, new_index))
+        self.query_one("#given-value", Input).focus()
+
+    def _current(self, kind: str, index: int | None) -> str:
+        """The present answer's value of a quantity about to become the given (or '')."""
+        good = self.bw.good
+        if good is None or good.solved is None:
+            return ""
+        result = good.solved.result
+        if kind == "pressure_drop":
+            return self.bw.fmt(result.pressure_drop, "pressure")
+        if kind == "total_flow":
+            return self.bw.fmt(result.total_flow, "flow")
+        if index is not None and index < len(result.branches):
+            return self.bw.fmt(result.branches[index].flow, "flow")
+        return ""
+
+    def _switch_find(self, find: str) -> None:
+        app = self.bw
+        site = app.site
+        if find == find_of(site):
+            return
+        parked = app.session.parked
+        if find == "flows":
+            if site.solve is not None:
+                parked["solve.branch"] = text_of(site.solve.branch)
+                parked["solve.target_flow"] = text_of(site.solve.target_flow)
+
+            def change(s: object) -> None:
+                s.solve = None  # type: ignore[attr-defined]
+
+            app.edit("Find the flows", change)
+            return
+        solve = site.solve
+        branch = text_of(solve.branch if solve else None) or parked.get("solve.branch", "")
+        names = [branch_name(site, i) for i in range(len(site.branches))]
+        if branch not in names:
+            kind, index = given_of(site)
+            candidates = [n for i, n in enumerate(names) if i != index] or names
+            branch = candidates[0] if candidates else ""
+        target = text_of(solve.target_flow if solve else None) or parked.get(
+            "solve.target_flow", "") or self._current("measured_flow", names.index(branch)
+                                                      if branch in names else None)
+        app.edit(f"Find the {find}", lambda s: set_find(s, find, branch, target))
+        self.query_one("#find-target", Input).focus()
+
+    # ---- keys ------------------------------------------------------------------------------------
+
+    def action_focus(self, ident: str) -> None:
+        widget = self.query_one(f"#{ident}")
+        if widget.display:
+            widget.focus()
+
+    def action_export(self, fmt: str) -> None:
+        self.bw.export(fmt)
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "export":
+            outcome = self.bw.outcome
+            return True if outcome is not None and outcome.ok else None
+        if action == "focus" and parameters == ("find-target",):
+            return True if find_of(self.bw.site) != "flows" else None
+        return True
+
+
+def _park_key(site: object, kind: str, index: int | None) -> str:
+    if kind == "measured_flow" and index is not None:
+        return f"measured_flow:{branch_name(site, index)}"  # type: ignore[arg-type]
+    return kind

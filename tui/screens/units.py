@@ -1,0 +1,63 @@
+"""Choose the display unit of each kind of quantity (remembered in the settings)."""
+
+from __future__ import annotations
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.screen import ModalScreen
+from textual.widgets import Label, Select, Static
+
+from branchwise.core.units import display_unit, unit_choices, unit_label
+
+QUANTITIES = ("pressure", "flow", "length", "diameter", "roughness", "head", "velocity",
+              "temperature", "density", "viscosity", "kinematic_viscosity")
+
+
+class UnitsScreen(ModalScreen[dict[str, str] | None]):
+    """One picker per quantity; returns the chosen units that differ from the system's."""
+
+    BINDINGS = [
+        Binding("escape", "cancel", "Cancel", id="units-cancel"),
+        Binding("ctrl+s", "keep", "Keep", id="units-keep"),
+    ]
+    DEFAULT_CSS = """
+    UnitsScreen { align: center middle; }
+    UnitsScreen > Vertical {
+        width: 60; max-width: 100%; height: 90%; border: thick $primary;
+        background: $surface; padding: 0 1;
+    }
+    UnitsScreen Horizontal { height: 1; }
+    UnitsScreen .unit-label { width: 22; }
+    UnitsScreen Select { width: 1fr; }
+    """
+
+    def __init__(self, system: str, chosen: dict[str, str]) -> None:
+        super().__init__()
+        self.system = system
+        self.chosen = chosen
+
+    def compose(self) -> ComposeResult:
+        with Vertical():
+            yield Label(f"Display units ({self.system.upper()}; Ctrl+T switches the system)")
+            with VerticalScroll():
+                for kind in QUANTITIES:
+                    default = display_unit(kind, self.system)
+                    choices = list(dict.fromkeys((default, *unit_choices(kind))))
+                    with Horizontal():
+                        yield Label(kind.replace("_", " ").capitalize(), classes="unit-label")
+                        yield Select([(unit_label(c), c) for c in choices], id=f"unit-{kind}",
+                                     value=self.chosen.get(kind, default), allow_blank=False,
+                                     compact=True)
+            yield Static("Ctrl+S: keep   Esc: cancel", markup=False)
+
+    def action_keep(self) -> None:
+        out = {}
+        for kind in QUANTITIES:
+            value = str(self.query_one(f"#unit-{kind}", Select).value)
+            if value != display_unit(kind, self.system):
+                out[kind] = value
+        self.dismiss(out)
+
+    def action_cancel(self) -> None:
+        self.dismiss(None)

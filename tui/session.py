@@ -1,0 +1,346 @@
+"""The site being edited, its undo history, and the edits the screens make to it.
+
+The app holds one :class:`Session`. Screens never keep their own copy of the site: they read
+``session.site`` and hand the session a change (a function applied to a fresh copy), which
+becomes the new site and pushes the old one on the undo stack. Nothing here imports Textual,
+numpy or pint, so the first screen can be drawn before any of them load.
+
+Field paths are the ones :class:`~branchwise.core.errors.InputError` uses
+(``branches[2].segments[0].length``, ``fluid.temperature``, ``conditions.pressure_drop``), so
+an error raised anywhere in the core points straight at the widget that shows that field.
+"""
+
+from __future__ import annotations
+
+import copy
+import re
+import time
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from branchwise.core.sitefile import BranchSpec, SegmentSpec, Site, SolveSpec
+
+FIELD_KINDS: dict[str, str] = {
+    "temperature": "temperature",
+    "pressure": "pressure",
+    "concentration": "fraction",
+    "salinity": "salinity",
+    "density": "density",
+    "viscosity": "viscosity",
+    "kinematic_viscosity": "kinematic_viscosity",
+    "pressure_drop": "pressure",
+    "total_flow": "flow",
+    "elevation_change": "head",
+    "diameter": "diameter",
+    "length": "length",
+    "roughness": "roughness",
+    "measured_flow": "flow",
+    "target_flow": "flow",
+}
+"""The kind of quantity (a key of ``units.KINDS``) each field holds, by its last path part."""
+
+GIVEN_KINDS = ("pressure_drop", "total_flow", "measured_flow")
+FIND_CHOICES = ("flows", "diameter", "length", "roughness")
+
+_BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
+_PLAIN_ID = re.compile(
+    r"\s*(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*(?:mm|cm|m|in|inch|inches|\"|ft|um|µm)?\s*\Z"
+)
+_PATH_PART = re.compile(r"([a-z_]+)(?:\[(\d+)\])?")
+
+
+def is_bare_number(text: str) -> bool:
+    """True for ``"64"`` or ``"-1.5e3"``: a number without a unit."""
+    return bool(_BARE.match(text))
+
+
+def with_unit(text: str, unit: str) -> str:
+    """``text`` as it should be kept: a bare number gets ``unit`` (the field's display unit)."""
+    text = text.strip()
+    return f"{text} {unit}" if unit and is_bare_number(text) else text
+
+
+def is_plain_diameter(text: str) -> bool:
+    """True when a size field holds an inner diameter (``77.9 mm``, ``3.068"``), not a catalog
+    size (``3 in sch 40``, ``DN80``, ``1-1/2 type L``)."""
+    return bool(_PLAIN_ID.match(text))
+
+
+def parse_path(path: str) -> list[tuple[str, int | None]]:
+    """``branches[2].length`` → ``[("branches", 2), ("length", None)]``.
+
+    Parts that do not look like a field (a file name in front of a path) are skipped.
+    """
+    out: list[tuple[str, int | None]] = []
+    for part in path.split("."):
+        m = _PATH_PART.fullmatch(part.strip())
+        if m:
+            out.append((m.group(1), int(m.group(2)) if m.group(2) is not None else None))
+    return out
+
+
+@dataclass(frozen=True)
+class FieldRef:
+    """Where a field path points: the screen that shows it and the exact spot on it.
+
+    area: ``fluid`` | ``branches`` | ``conditions`` | ``solve`` | ``site``; branch and segment
+    indices where the path has them; name: the field's own name (``length``).
+    """
+
+    area: str
+    name: str
+    branch: int | None = None
+    segment: int | None = None
+
+
+def locate(path: str) -> FieldRef:
+    """The :class:`FieldRef` of an error's field path (unknown paths point at the site)."""
+    parts = parse_path(path)
+    if not parts:
+        return FieldRef("site", "")
+    head, index = parts[0]
+    name = parts[-1][0] if len(parts) > 1 else head
+    if head == "branches" and index is not None:
+        segment = next((i for n, i in parts[1:] if n == "segments"), None)
+        if name in ("segments", "branches"):
+            name = ""
+        return FieldRef("branches", name, index, segment)
+    if head in ("fluid", "conditions", "solve"):
+        return FieldRef(head, "" if name == head else name)
+    return FieldRef("site", name)
+
+
+AREA_LABELS = {"fluid": "liquid", "conditions": "given", "solve": "find", "site": ""}
+
+
+def field_label(site: Site, path: str) -> str:
+    """A field path in words: ``branches[2].length`` → ``AHU-3 coil, length``."""
+    ref = locate(path)
+    name = ref.name.replace("_", " ")
+    if ref.area == "branches" and ref.branch is not None and ref.branch < len(site.branches):
+        where = branch_name(site, ref.branch)
+        if ref.segment is not None and len(site.branches[ref.branch].segments) > 1:
+            where += f" segment {ref.segment + 1}"
+        return f"{where}, {name}" if name else where
+    if ref.area == "site":
+        return path
+    area = AREA_LABELS.get(ref.area, "")
+    return f"{area} {name}".strip() if name != ref.area else area or path
+
+
+def error_text(error: BaseException, site: Site) -> str:
+    """An error for a person: the field in words, the reason, the value as typed."""
+    field = getattr(error, "field", "")
+    reason = getattr(error, "reason", None)
+    if not field or reason is None:
+        return str(error)
+    value = getattr(error, "value", "")
+    return f"{field_label(site, field)}: {reason}" + (f", got {value}" if value != "" else "")
+
+
+# ---- reading the site ------------------------------------------------------------------------
+
+def text_of(value: object) -> str:
+    """A site value as shown in a field: '' for nothing, numbers without a trailing '.0'."""
+    if value is None:
+        return ""
+    if isinstance(value, float) and value.is_integer():
+        return str(int(value))
+    return str(value)
+
+
+def given_of(site: Site) -> tuple[str, int | None]:
+    """The given condition: (``pressure_drop`` | ``total_flow`` | ``measured_flow``, branch).
+
+    With none set (a new site), the pressure drop is the one to fill in.
+    """
+    measured = site.measured_branches()
+    if measured:
+        return "measured_flow", measured[0]
+    if site.conditions.total_flow is not None and site.conditions.pressure_drop is None:
+        return "total_flow", None
+    return "pressure_drop", None
+
+
+def given_text(site: Site) -> str:
+    kind, index = given_of(site)
+    if kind == "measured_flow" and index is not None:
+        return text_of(site.branches[index].measured_flow)
+    return text_of(getattr(site.conditions, kind))
+
+
+def find_of(site: Site) -> str:
+    solve = site.solve
+    if solve is None or not isinstance(solve.find, str) or solve.find not in FIND_CHOICES:
+        return "flows"
+    return solve.find
+
+
+def branch_name(site: Site, index: int) -> str:
+    name = text_of(site.branches[index].name).strip()
+    return name or f"Branch {index + 1}"
+
+
+def unique_name(site: Site, stem: str) -> str:
+    """``stem``, or ``stem 2``, ``stem 3``… whichever no branch uses yet."""
+    taken = {text_of(b.name).strip().casefold() for b in site.branches}
+    stem = stem.strip() or "Branch"
+    if stem.casefold() not in taken:
+        return stem
+    base = re.sub(r"\s+\d+\Z", "", stem) or stem
+    n = 2
+    while f"{base} {n}".casefold() in taken:
+        n += 1
+    return f"{base} {n}"
+
+
+# ---- edits (each takes a copy of the site and changes it in place) ------------------------
+
+def set_given(site: Site, kind: str, value: str, branch: int | None = None) -> None:
+    """Make ``kind`` (on ``branch`` for a measured flow) the one given condition."""
+    site.conditions.pressure_drop = None
+    site.conditions.total_flow = None
+    for br in site.branches:
+        br.measured_flow = None
+    text = value or None
+    if kind == "measured_flow":
+        if branch is None or not 0 <= branch < len(site.branches):
+            raise ValueError(f"no branch {branch}")
+        site.branches[branch].measured_flow = text
+    elif kind in ("pressure_drop", "total_flow"):
+        setattr(site.conditions, kind, text)
+    else:
+        raise ValueError(f"unknown given {kind!r}")
+
+
+def set_find(site: Site, find: str, branch: str | None = None, target: str | None = None,
+             segment: int | None = None) -> None:
+    """Set what to solve for; ``flows`` keeps the rest of the [solve] table for later."""
+    if find not in FIND_CHOICES:
+        raise ValueError(f"unknown find {find!r}")
+    if site.solve is None:
+        site.solve = SolveSpec()
+    site.solve.find = find
+    if branch is not None:
+        site.solve.branch = branch or None
+    if target is not None:
+        site.solve.target_flow = target or None
+    if segment is not None:
+        site.solve.segment = segment if segment > 1 else None
+
+
+def rename_branch(site: Site, index: int, new: str) -> None:
+    """Rename a branch and the [solve] table's reference to it, so the two stay together."""
+    old = text_of(site.branches[index].name).strip().casefold()
+    site.branches[index].name = new
+    if site.solve is not None and text_of(site.solve.branch).strip().casefold() == old:
+        site.solve.branch = new
+
+
+def new_branch(site: Site, like: BranchSpec | None = None) -> BranchSpec:
+    """A branch to add: a copy of ``like`` without its reading, or an empty pipe."""
+    if like is None:
+        return BranchSpec(name=unique_name(site, "Branch"), segments=[SegmentSpec()])
+    br = copy.deepcopy(like)
+    br.measured_flow = None
+    br.name = unique_name(site, text_of(like.name) or "Branch")
+    return br
+
+
+# ---- the session -----------------------------------------------------------------------------
+
+@dataclass
+class Step:
+    """One entry of the undo history: the site before an edit, and what the edit was."""
+
+    label: str
+    key: str
+    site: Site
+    at: float
+
+
+UNDO_LIMIT = 200
+COALESCE_SECONDS = 2.0
+"""Keystrokes in the same field within this many seconds are one undo step."""
+
+
+@dataclass
+class Session:
+    """The one site being edited, with undo/redo and a change counter.
+
+    ``revision`` goes up on every change (screens and the solver compare it); ``saved_revision``
+    is the revision last written to ``site.source``.
+    """
+
+    site: Site
+    revision: int = 0
+    saved_revision: int = 0
+    undo_stack: list[Step] = field(default_factory=list)
+    redo_stack: list[Step] = field(default_factory=list)
+    parked: dict[str, str] = field(default_factory=dict)
+    """Values taken out of the site by a switch (the old pressure drop when a reading becomes
+    the given, a fluid field another kind does not use), to put back on the way back."""
+
+    @property
+    def dirty(self) -> bool:
+        return self.revision != self.saved_revision
+
+    @property
+    def path(self) -> Path | None:
+        return self.site.source
+
+    def edit(self, label: str, change: Callable[[Site], None], key: str = "") -> Site:
+        """Apply ``change`` to a copy of the site and make the copy the site.
+
+        key: the field being typed into; consecutive edits with the same non-empty key within
+        :data:`COALESCE_SECONDS` are undone together.
+        """
+        new = copy.deepcopy(self.site)
+        change(new)
+        now = time.monotonic()
+        top = self.undo_stack[-1] if self.undo_stack else None
+        if not (key and top is not None and top.key == key and now - top.at < COALESCE_SECONDS):
+            self.undo_stack.append(Step(label, key, self.site, now))
+            del self.undo_stack[:-UNDO_LIMIT]
+        else:
+            top.at = now
+        self.redo_stack.clear()
+        self.site = new
+        self.revision += 1
+        return new
+
+    def undo(self) -> str | None:
+        """Go back one step; returns its label (None: nothing to undo)."""
+        if not self.undo_stack:
+            return None
+        step = self.undo_stack.pop()
+        self.redo_stack.append(Step(step.label, step.key, self.site, time.monotonic()))
+        self._restore(step.site)
+        return step.label
+
+    def redo(self) -> str | None:
+        if not self.redo_stack:
+            return None
+        step = self.redo_stack.pop()
+        self.undo_stack.append(Step(step.label, "", self.site, time.monotonic()))
+        self._restore(step.site)
+        return step.label
+
+    def _restore(self, site: Site) -> None:
+        # The file this session writes to stays the same whatever the history holds.
+        site.source, site.origin = self.site.source, self.site.origin
+        self.site = site
+        self.revision += 1
+
+    def replace(self, site: Site) -> None:
+        """Start over on another site (opened, or the demo): history and parked values go."""
+        self.site = site
+        self.undo_stack.clear()
+        self.redo_stack.clear()
+        self.parked.clear()
+        self.revision += 1
+        self.saved_revision = self.revision
+
+    def mark_saved(self) -> None:
+        self.saved_revision = self.revision
