@@ -122,6 +122,9 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
     for key, core in PERCENT_KEYS.items():
         if (value := getattr(spec, key)) is not None:
             kw[core] = percent(value, f"{path}.{key}")
+    if kw.get("gauge_percent", 0.0) >= 100:  # the core has no upper limit; a gauge has
+        raise InputError(f"{path}.gauge_accuracy", describe(spec.gauge_accuracy),
+                         "must be below 100 %")
     if (value := spec.gauge_full_scale) is not None:
         full = parse_quantity(value, "pressure", f"{path}.gauge_full_scale")
         if not full > 0:

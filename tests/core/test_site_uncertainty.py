@@ -1,0 +1,262 @@
+"""A site's [tolerances] table: reading, writing, bad values, and the bands it gives.
+
+References named beside each check:
+- NIST SP 811 (2008), appendix B: psi = 6.894 757 E+03 Pa, inch = 0.0254 m (exact); a
+  temperature interval of 1 °F = 1/1.8 K and of 1 °C = 1 K (B.9 and 4.2.1.1).
+- GUM, JCGM 100:2008: 4.3.7 (a ± a rectangular distribution has u = a/√3) and 5.1.2 (law of
+  propagation: u(y) = |∂y/∂x| u(x) for one input).
+- Fully rough Colebrook (von Kármán–Prandtl rough-pipe law, Nikuradse 1933): f does not depend
+  on the flow, so Q = C √Δp exactly.
+- Hagen–Poiseuille: laminar Q = π D⁴ Δp / (128 μ L), so Q ∝ 1/μ at a fixed Δp; water viscosity
+  from the `iapws` package (IAPWS 2008).
+- Sampling error of a quantile: sd = √(p(1−p)/N) / pdf(x_p).
+"""
+
+from __future__ import annotations
+
+import math
+import tomllib
+
+import pytest
+
+from branchwise.core.errors import InputError
+from branchwise.core.sitebuild import build
+from branchwise.core.sitefile import DEMO_PATH, demo_text, load_site, parse_site
+from branchwise.core.sitesolve import solve_site, uncertainty_for_site
+from branchwise.core.sitewrite import dump_site
+from branchwise.core.uncertainty import Tolerances
+
+PSI = 6894.757  # Pa, NIST SP 811
+INCH = 0.0254  # m, NIST SP 811 (exact)
+
+ONE_PIPE = """format = 1
+name = "Test line"
+
+[fluid]
+{fluid}
+
+[conditions]
+pressure_drop = "{dp}"
+friction = "{friction}"
+
+[[branches]]
+name = "Line"
+diameter = "{d}"
+length = "{length}"
+roughness = "{eps}"
+{extra}"""
+
+NO_OTHER_SPREAD = """
+[tolerances]
+flow_meter_accuracy = "0 %"
+roughness_factor = [1, 1]
+diameter = "0 %"
+length = "0 %"
+fitting_k = "0 %"
+"""
+
+
+def one_pipe(tolerances: str, fluid: str = 'kind = "water"\ntemperature = "20 degC"',
+             dp: str = "50 kPa", friction: str = "colebrook", d: str = "100 mm",
+             length: str = "40 m", eps: str = "0.045 mm", extra: str = "") -> str:
+    return ONE_PIPE.format(fluid=fluid, dp=dp, friction=friction, d=d, length=length,
+                           eps=eps, extra=extra) + tolerances
+
+
+# ---- reading: units as typed --------------------------------------------------------------
+
+def test_typed_tolerances_become_si_with_nist_factors():
+    text = one_pipe("""
+[tolerances]
+gauge_accuracy = "0.5 %"
+gauge_full_scale = "15 psid"
+flow_meter_accuracy = "2.5 %"
+target_flow_measured = false
+roughness_factor = [0.8, 4]
+roughness_range = { "line" = ["0.0018 in", "0.02 in"] }
+diameter = "2 %"
+length = "10 %"
+temperature = "3.6 degF"
+fitting_k = "30 %"
+""")
+    tol = build(parse_site(text)).tolerances
+    assert tol.gauge_full_scale == pytest.approx(15 * PSI, rel=1e-6)  # NIST SP 811 psi
+    assert tol.temperature_k == pytest.approx(2.0, rel=1e-12)  # 3.6 °F interval = 2 K (SP 811)
+    assert tol.roughness_m == {"Line": pytest.approx((0.0018 * INCH, 0.02 * INCH), rel=1e-12)}
+    assert (tol.gauge_percent, tol.flow_meter_percent, tol.diameter_percent,
+            tol.length_percent, tol.fitting_k_percent) == (0.5, 2.5, 2.0, 10.0, 30.0)
+    assert tol.roughness_factor == (0.8, 4.0) and tol.target_flow_measured is False
+
+
+@pytest.mark.parametrize("typed", ['"2 K"', '"2 delta_degC"', '"2 degC"', '"2 °C"'])
+def test_a_temperature_tolerance_is_an_interval_not_a_temperature(typed):
+    # NIST SP 811, 4.2.1.1: an interval of 1 °C equals an interval of 1 K ("2 degC" is a step,
+    # not the temperature 2 °C = 275.15 K).
+    site = parse_site(one_pipe(f"\n[tolerances]\ntemperature = {typed}\n"))
+    assert build(site).tolerances.temperature_k == pytest.approx(2.0, rel=1e-12)
+
+
+def test_missing_keys_keep_the_defaults_and_no_table_means_defaults():
+    site = parse_site(one_pipe('\n[tolerances]\nlength = "8 %"\n'))
+    tol = build(site).tolerances
+    assert tol == Tolerances(length_percent=8.0)  # the rest: the common-practice defaults
+    assert build(parse_site(one_pipe(""))).tolerances is None
+
+
+# ---- writing: the table survives a round trip, comments and all ---------------------------
+
+def test_demo_tolerances_round_trip_with_comments():
+    site = load_site(DEMO_PATH)
+    assert site.tolerances is not None and site.tolerances.gauge_full_scale == "30 psid"
+    assert dump_site(site) == demo_text()  # unchanged: byte for byte
+    site.tolerances.length = "10 %"
+    site.tolerances.roughness_range = {"AHU-3 coil": ["0.0018 in", "0.02 in"]}
+    text = dump_site(site)
+    assert "# of full scale: a class 1 differential gauge" in text
+    assert "# chilled-water supply" in text
+    doc = tomllib.loads(text)
+    assert doc["tolerances"]["length"] == "10 %"
+    assert doc["tolerances"]["roughness_range"] == {"AHU-3 coil": ["0.0018 in", "0.02 in"]}
+    assert parse_site(text) == site
+    site.tolerances = None
+    assert "tolerances" not in tomllib.loads(dump_site(site))
+
+
+def test_new_site_with_tolerances_round_trips_without_origin():
+    site = parse_site(one_pipe("""
+[tolerances]
+roughness_factor = [1, 10]
+[tolerances.roughness_range]
+"Line" = ["0.05 mm", "0.5 mm"]
+"""))
+    assert dump_site(site).count("[tolerances") >= 1
+    again = parse_site(dump_site(site))
+    assert again == site
+    site.origin = None
+    assert parse_site(dump_site(site)) == site
+
+
+# ---- bad values name tolerances.<key> -----------------------------------------------------
+
+BAD = [
+    ('gauge_accuracy = 1', "tolerances.gauge_accuracy", "percent sign"),
+    ('gauge_accuracy = "1"', "tolerances.gauge_accuracy", "percent sign"),
+    ('gauge_accuracy = "1 kPa"', "tolerances.gauge_accuracy", "is not a fraction"),
+    ('gauge_accuracy = "-1 %"', "tolerances.gauge_accuracy", "not below zero"),
+    ('gauge_accuracy = "100 %"', "tolerances.gauge_accuracy", "below 100"),
+    ('flow_meter_accuracy = "100 %"', "tolerances.flow_meter_accuracy", "below 100"),
+    ('fitting_k = "150 %"', "tolerances.fitting_k", "at most 100"),
+    ('gauge_full_scale = "30 kPa"', "tolerances.gauge_full_scale", "below the pressure drop"),
+    ('gauge_full_scale = "0 kPa"', "tolerances.gauge_full_scale", "positive"),
+    ('gauge_full_scale = "250 m"', "tolerances.gauge_full_scale", "is not a pressure"),
+    ("target_flow_measured = 1", "tolerances.target_flow_measured", "true or false"),
+    ("roughness_factor = [2, 1]", "tolerances.roughness_factor", "0 < low ≤ high"),
+    ("roughness_factor = [3]", "tolerances.roughness_factor", "pair"),
+    ('roughness_factor = "3"', "tolerances.roughness_factor", "pair"),
+    ('roughness_factor = ["x", 2]', "tolerances.roughness_factor[0]", "plain number"),
+    ('roughness_range = { "Tower" = ["0.1 mm", "1 mm"] }',
+     'tolerances.roughness_range."Tower"', "no such branch"),
+    ('roughness_range = { "Line" = ["0.1 kPa", "1 mm"] }',
+     'tolerances.roughness_range."Line"[0]', "is not a roughness"),
+    ('roughness_range = { "Line" = ["1 mm", "0.1 mm"] }',
+     'tolerances.roughness_range."Line"', "0 < low ≤ high"),
+    ('temperature = 2', "tolerances.temperature", "needs a unit"),
+    ('temperature = "2"', "tolerances.temperature", "needs a unit"),
+    ('temperature = "-2 K"', "tolerances.temperature", "not below zero"),
+    ('temperature = "2 kPa"', "tolerances.temperature", "is not a temperature"),
+    ('gauge_acuracy = "1 %"', "tolerances.gauge_acuracy", "did you mean 'gauge_accuracy'"),
+]
+
+
+@pytest.mark.parametrize(("line", "field", "reason"), BAD, ids=[b[0] for b in BAD])
+def test_bad_tolerance_names_its_field(line, field, reason):
+    with pytest.raises(InputError) as err:
+        build(parse_site(one_pipe(f"\n[tolerances]\n{line}\n")))
+    assert err.value.field == field
+    assert reason in err.value.reason
+
+
+def test_a_roughness_factor_reaching_half_the_bore_is_named_as_typed():
+    # Colebrook is meaningless at ε ≥ D/2; the check runs when the bands are asked for.
+    site = parse_site(one_pipe("\n[tolerances]\nroughness_factor = [1, 2000]\n"))
+    with pytest.raises(InputError) as err:
+        uncertainty_for_site(site, samples=100)
+    assert err.value.field == "tolerances.roughness_factor"
+
+
+# ---- the bands a site gives ---------------------------------------------------------------
+
+def test_gauge_band_of_a_fully_rough_line_follows_root_dp_and_the_gum():
+    # Fully rough (ε/D = 0.05; a custom liquid of tiny viscosity puts Re near 1e9): Q = C √Δp.
+    # The reading is uniform on Δp ± a, a = 10 % of a 100 kPa full scale.
+    fluid = 'kind = "custom"\ndensity = "1000 kg/m^3"\nviscosity = "1e-7 cP"'
+    text = one_pipe(NO_OTHER_SPREAD + 'gauge_accuracy = "10 %"\ngauge_full_scale = "100 kPa"\n'
+                    'temperature = "3 K"\n', fluid=fluid, eps="5 mm")
+    res = uncertainty_for_site(parse_site(text), samples=4000, seed=3)
+    dp, a = 50e3, 0.10 * 100e3
+    q = res.outputs["total flow"]
+    # every draw on the rough-pipe law: Q/Q0 = √(Δp/Δp0) (the drawn Δp is the drawn reading)
+    ratio = res.draws["total flow"] / q.nominal
+    root = (res.draws["pressure drop"] / dp) ** 0.5
+    assert ratio == pytest.approx(root, rel=1e-6)
+    assert res.draws["pressure drop"].min() >= dp - a and res.draws["pressure drop"].max() <= dp + a
+    # P95 of Q at the reading's P95, Δp + 0.9 a; quantile sampling sd ≈ √(0.05·0.95/4000)·2a
+    # in Δp, about 1.9e-3 of Q: 3.5 sd allowed
+    assert q.p95 / q.nominal == pytest.approx(math.sqrt((dp + 0.9 * a) / dp), rel=6.5e-3)
+    assert q.p5 / q.nominal == pytest.approx(math.sqrt((dp - 0.9 * a) / dp), rel=6.5e-3)
+    # GUM: u(Q) = |dQ/dΔp| u(Δp) = Q/(2Δp) · a/√3 (JCGM 100:2008, 4.3.7 and 5.1.2)
+    assert q.linear_sigma == pytest.approx(q.nominal / (2 * dp) * a / math.sqrt(3), rel=1e-4)
+    assert res.ranking["total flow"] == [("pressure gauge", pytest.approx(1.0))]
+    # a custom liquid has no temperature: the tolerance is left out, and the result says so
+    assert not any(i.kind == "temperature" for i in res.inputs)
+    assert any("temperature tolerance not applied" in n for n in res.notes)
+
+
+def test_temperature_band_comes_from_the_site_water_model_and_matches_iapws():
+    # Laminar, Δp fixed, no elevation: Q ∝ 1/μ (Hagen–Poiseuille); μ falls as T rises, so the
+    # P95 of Q is at T0 + 0.9 δ. μ from `iapws` (IAPWS 2008); the band uses an ln-linear chord
+    # of the site's model over T0 ± δ, whose curvature error at 2 K is below 1e-3; the
+    # quantile's sampling error is about 2e-4.
+    iapws = pytest.importorskip("iapws")
+    text = one_pipe(NO_OTHER_SPREAD + 'gauge_accuracy = "0 %"\ntemperature = "3.6 degF"\n',
+                    dp="1 kPa", friction="laminar", d="4 mm", length="2 m", eps="0 mm")
+    res = uncertainty_for_site(parse_site(text), samples=4000, seed=5)
+    q = res.outputs["total flow"]
+
+    def mu(t_k: float) -> float:
+        return iapws.IAPWS95(T=t_k, P=0.101325).mu
+
+    t0, dt = 293.15, 2.0  # 20 °C; 3.6 °F interval = 2 K (NIST SP 811)
+    assert q.p95 / q.nominal == pytest.approx(mu(t0) / mu(t0 + 0.9 * dt), rel=2e-3)
+    assert q.p5 / q.nominal == pytest.approx(mu(t0) / mu(t0 - 0.9 * dt), rel=2e-3)
+    assert res.ranking["total flow"][0][0] == "temperature"
+
+
+def test_a_temperature_tolerance_that_boils_the_water():
+    hot = 'kind = "water"\ntemperature = "99 degC"'  # boils at 99.97 °C at 1 atm (IAPWS-IF97)
+    typed = parse_site(one_pipe('\n[tolerances]\ntemperature = "2 K"\n', fluid=hot))
+    with pytest.raises(InputError) as err:
+        uncertainty_for_site(typed, samples=100)
+    assert err.value.field == "tolerances.temperature"
+    # the same 2 K as an unwritten default: left out with a note instead of an error
+    res = uncertainty_for_site(parse_site(one_pipe("", fluid=hot)), samples=100)
+    assert any("temperature tolerance not applied" in n for n in res.notes)
+    assert not any(i.kind == "temperature" for i in res.inputs)
+
+
+def test_site_bands_are_ordered_seeded_and_hold_the_solve(capsys):
+    site = load_site(DEMO_PATH)
+    sr = solve_site(site)
+    one = uncertainty_for_site(site, samples=1000, seed=11)
+    assert one.to_dict() == uncertainty_for_site(site, samples=1000, seed=11).to_dict()
+    assert capsys.readouterr() == ("", "")  # pure: nothing printed
+    assert one.outputs["total flow"].nominal == pytest.approx(sr.result.total_flow, rel=1e-12)
+    for name, b in one.outputs.items():
+        assert b.p5 <= b.p50 <= b.p95 and b.p5 <= b.nominal <= b.p95, name
+    gauge = next(i for i in one.inputs if i.kind == "gauge")
+    assert gauge.half_width == pytest.approx(0.01 * 30 * PSI, rel=1e-6)  # 1 % of 30 psid
+    # explicit tolerances replace the site's table
+    narrow = uncertainty_for_site(site, samples=1000, seed=11,
+                                  tolerances=Tolerances(gauge_percent=0.1))
+    assert next(i for i in narrow.inputs if i.kind == "gauge").half_width == pytest.approx(
+        0.001 * 10 * PSI, rel=1e-6)  # percent of the 10 psid reading without a full scale
