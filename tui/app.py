@@ -31,14 +31,24 @@ from branchwise.core.units import display_unit, unit_label  # noqa: E402
 
 from .files import SiteFiles  # noqa: E402
 from .outcome import Outcome  # noqa: E402
-from .screens.branches import BranchesScreen  # noqa: E402
-from .screens.liquid import LiquidScreen  # noqa: E402
 from .screens.split import SplitScreen  # noqa: E402
 from .session import Session  # noqa: E402
 
 KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
 SCREEN_TITLES = {"liquid": "Liquid", "branches": "Branches", "split": "Split"}
+
+
+def _liquid_screen() -> Screen:
+    from .screens.liquid import LiquidScreen  # built when first shown: a quicker start
+
+    return LiquidScreen()
+
+
+def _branches_screen() -> Screen:
+    from .screens.branches import BranchesScreen
+
+    return BranchesScreen()
 
 
 class Solved(Message):
@@ -57,8 +67,8 @@ class BranchwiseApp(SiteFiles, App[None]):
     """
 
     TITLE = "branchwise"
-    CSS_PATH = "branchwise.tcss"
-    MODES = {"liquid": LiquidScreen, "branches": BranchesScreen, "split": SplitScreen}
+    CSS_PATH = Path(__file__).parent / "branchwise.tcss"
+    MODES = {"liquid": _liquid_screen, "branches": _branches_screen, "split": SplitScreen}
     DEFAULT_MODE = "split"
     SCREENS_GROUP = Binding.Group("Screens")
     BINDINGS = [
@@ -196,6 +206,8 @@ class BranchwiseApp(SiteFiles, App[None]):
         self._keys_timer = self.set_timer(KEYS_DELAY, self._refresh_keys_now)
 
     def _refresh_keys_now(self) -> None:
+        if not self.is_running or not self.screen_stack:
+            return  # the app is closing
         outcome = self.outcome
         state = (bool(self.session.undo_stack), bool(self.session.redo_stack),
                  self.session.dirty, self.session.path, outcome is not None and outcome.ok,

@@ -36,7 +36,7 @@ class WorkScreen(Screen):
         raise NotImplementedError
 
     ready = False
-    """False until the widgets have settled: a Select reports its first value as a change."""
+    """False until the widgets have settled (an input may report its first value as a change)."""
 
     def on_mount(self) -> None:
         for name in ("revision", "outcome", "unit_system"):

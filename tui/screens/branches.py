@@ -121,10 +121,10 @@ class BranchesScreen(WorkScreen):
             put(message, f"✗ {error_text(outcome.error, site)}")  # type: ignore[union-attr,arg-type]
         else:
             kind, index = given_of(site)
-            put(message, "Enter: edit cell · e: whole branch · a/c/x: add/copy/remove · "
-                           "a bare number takes the unit in the header" if index is None else
-                           f"The reading on {branch_name(site, index)} ({given_text(site)}) "
-                           "is the given condition.")
+            put(message, "Enter edit · e form · a add · c copy · x remove · a bare number "
+                "takes the unit in the header" if index is None else
+                f"The reading on {branch_name(site, index)} ({given_text(site)}) is the given "
+                "condition.")
 
     def _flows(self) -> dict[int, str]:
         app = self.bw

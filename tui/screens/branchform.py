@@ -37,8 +37,11 @@ SEGMENT_FIELDS = (
     ("length", "Length", "length"),
     ("wall", "Roughness or material", "roughness"),
     ("k", "Extra K", None),
-    ("fittings", "Fittings (key count, …)", None),
+    ("fittings", "Fittings", None),
 )
+PLACEHOLDERS = {"size": "4 in sch 40, DN80, 1-1/2 type L or 77.9 mm",
+                "wall": "0.045 mm, or a material: commercial-steel aged",
+                "fittings": "elbow-90 4, gate-valve 2", "k": "a plain number"}
 _ITEM = re.compile(r"\s*(?:(\d+(?:\.\d*)?)\s*[x×*]?\s*([a-z][a-z0-9-]*)|([a-z][a-z0-9-]*)"
                    r"\s*[=: ]?\s*(\d+(?:\.\d*)?)?)\s*\Z", re.I)
 
@@ -82,6 +85,8 @@ class BranchForm(ModalScreen[BranchSpec | None]):
     BranchForm .segment-title { margin-top: 1; color: $accent; text-style: bold; }
     BranchForm .form-keys { color: $text-muted; }
     BranchForm .form-message { color: $error; }
+    BranchForm .field-label { width: 24; }
+    BranchForm .field-message { padding-left: 24; }
     """
 
     def __init__(self, branch: BranchSpec, unit: Callable[[str], str],
@@ -108,7 +113,7 @@ class BranchForm(ModalScreen[BranchSpec | None]):
                     yield Label(f"Segment {j + 1}", classes="segment-title")
                     for key, label, kind in SEGMENT_FIELDS:
                         yield Field(label, f"{j}.{key}", kind, value=self._seg_text(seg, key),
-                                    id=f"f-{j}-{key}")
+                                    id=f"f-{j}-{key}", placeholder=PLACEHOLDERS.get(key, ""))
             yield Static("", classes="form-message", markup=False)
 
     def on_mount(self) -> None:

@@ -50,7 +50,7 @@ class HelpScreen(ModalScreen[None]):
             for binding in bindings:
                 if not binding.description:
                     continue
-                keys = " / ".join(self.app.get_key_display(Binding(k, binding.action))
+                keys = " / ".join(_key_text(self.app, k, binding)
                                   for k in binding.key.split(","))
                 table.add_row(keys, Text(f"{binding.description}: "
                                          f"{binding.tooltip or binding.description}"))
@@ -59,3 +59,11 @@ class HelpScreen(ModalScreen[None]):
 
     def action_close(self) -> None:
         self.dismiss(None)
+
+
+def _key_text(app: object, key: str, binding: Binding) -> str:
+    """How a key is written in help: F1, Ctrl+S, ?, Esc."""
+    if key.startswith("f") and key[1:].isdigit():
+        return key.upper()
+    shown = app.get_key_display(Binding(key, binding.action))  # type: ignore[attr-defined]
+    return shown.replace("^", "Ctrl+") if shown.startswith("^") else shown

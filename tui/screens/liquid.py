@@ -11,11 +11,12 @@ from __future__ import annotations
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.widgets import Label, Select, Static
+from textual.widgets import Label, Static
 
 from ..session import error_text, locate, text_of, with_unit
+from ..widgets.choice import Choice
 from ..widgets.field import Field
-from ..widgets.quiet import put, set_options
+from ..widgets.quiet import put
 from .base import WorkScreen
 
 BUILT_IN = ("water", "seawater", "ethylene-glycol", "propylene-glycol", "custom")
@@ -59,8 +60,7 @@ class LiquidScreen(WorkScreen):
                 with Horizontal(classes="row"):
                     yield Label("Kind", classes="row-label")
                     self._options = self._kind_options()
-                    yield Select(self._options, id="liquid-kind-select",
-                                 allow_blank=False, compact=True)
+                    yield Choice(self._options, self.kind(), id="liquid-kind-select")
                 for name, label, kind in FIELDS:
                     yield Field(label, f"fluid.{name}", kind, id=f"fluid-{name}")
                 yield Static("", id="liquid-hint", markup=False)
@@ -99,11 +99,10 @@ class LiquidScreen(WorkScreen):
     def redraw(self) -> None:
         app, spec = self.bw, self.bw.site.fluid
         kind = self.kind()
-        with self.prevent(Select.Changed):
-            options = self._options
-            if kind not in [v for _, v in options]:
-                options = [*options, (f"Saved: {kind}", kind)]
-            set_options(self.query_one("#liquid-kind-select", Select), options, kind)
+        options = self._options
+        if kind not in [v for _, v in options]:
+            options = [*options, (f"Saved: {kind}", kind)]
+        self.query_one("#liquid-kind-select", Choice).set_options(options, kind)
         uses = self.uses(kind)
         outcome = app.outcome
         error = outcome.error if outcome is not None else None
@@ -119,8 +118,8 @@ class LiquidScreen(WorkScreen):
         if ref is not None and ref.area == "fluid" and ref.name not in uses:
             put(hint, f"✗ {error_text(error, self.bw.site)}")
         else:
-            put(hint, "A bare number takes the unit in brackets; any unit can be typed "
-                        "(65 degF, 12 cP, 1.2 cSt).")
+            put(hint, "A bare number takes the unit in brackets; or type any unit: 65 degF, "
+                "12 cP, 1.2 cSt.")
         self._draw_properties()
 
     def _draw_properties(self) -> None:
@@ -139,20 +138,17 @@ class LiquidScreen(WorkScreen):
         put(panel, "\n".join([
             fluid.name,
             "",
-            f"Density              {app.fmt(fluid.density, 'density', 5)}",
-            f"Dynamic viscosity    {app.fmt(fluid.viscosity, 'viscosity', 4)}",
-            f"Kinematic viscosity  {app.fmt(nu, 'kinematic_viscosity', 4)}",
+            f"Density ρ    {app.fmt(fluid.density, 'density', 5)}",
+            f"Viscosity μ  {app.fmt(fluid.viscosity, 'viscosity', 4)}",
+            f"Kinematic ν  {app.fmt(nu, 'kinematic_viscosity', 4)}",
             "",
             f"Model: {fluid.source}",
         ]))
 
     # ---- edits -----------------------------------------------------------------------------------
 
-    def on_select_changed(self, event: Select.Changed) -> None:
-        if not self.ready or event.select.id != "liquid-kind-select" or \
-                event.value is Select.NULL:
-            return
-        new = str(event.value)
+    def on_choice_changed(self, event: Choice.Changed) -> None:
+        new = event.value
         old = self.kind()
         if new == old:
             return

@@ -13,7 +13,7 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.widgets import Input, Label, Select, Static
+from textual.widgets import Input, Label, Static
 
 from ..session import (
     FIND_CHOICES,
@@ -28,7 +28,8 @@ from ..session import (
     text_of,
     with_unit,
 )
-from ..widgets.quiet import put, set_options, show_text
+from ..widgets.choice import Choice
+from ..widgets.quiet import put, show_text
 from ..widgets.sharebar import share_bar
 from ..widgets.texttable import TextTable
 from .base import WorkScreen
@@ -62,26 +63,29 @@ class SplitScreen(WorkScreen):
     ]
 
     def body(self) -> ComposeResult:
+        seeking = find_of(self.bw.site) != "flows"
         with Vertical(id="split-inputs"):
             with Horizontal(classes="row"):
                 yield Label("Given", classes="row-label")
-                yield Select(BASE_GIVENS, id="given-kind", allow_blank=False, compact=True)
+                yield Choice(BASE_GIVENS, id="given-kind")
                 yield Input(id="given-value", compact=True)
                 yield Label("", id="given-unit", classes="unit", markup=False)
-            yield Static("", id="given-message", classes="message", markup=False)
+            yield _hidden(Static("", id="given-message", classes="message", markup=False))
             with Horizontal(classes="row"):
                 yield Label("Find", classes="row-label")
-                yield Select([(FIND_LABELS[f], f) for f in FIND_CHOICES], id="find-kind",
-                             allow_blank=False, value="flows", compact=True)
-                yield Label(" of ", classes="find-part")
-                yield Select([], id="find-branch", allow_blank=True, compact=True,
-                             prompt="branch", classes="find-part")
-                yield Label(" for ", classes="find-part")
-                yield Input(id="find-target", compact=True,
-                            placeholder="flow", classes="find-part")
-                yield Select([], id="find-segment", allow_blank=True, compact=True,
-                             prompt="segment", classes="find-part find-seg")
-            yield Static("", id="find-message", classes="message", markup=False)
+                yield Choice([(FIND_LABELS[f], f) for f in FIND_CHOICES], "flows",
+                             id="find-kind")
+                parts = (Label(" of ", classes="find-part"),
+                         Choice([], id="find-branch", prompt="branch", classes="find-part"),
+                         Label(" for ", classes="find-part"),
+                         Input(id="find-target", compact=True, placeholder="flow",
+                               classes="find-part"),
+                         Choice([], id="find-segment", prompt="segment",
+                                classes="find-part"))
+                for part in parts:
+                    part.display = seeking  # as the site is, so that nothing moves at start
+                    yield part
+            yield _hidden(Static("", id="find-message", classes="message", markup=False))
         with Vertical(id="split-results"):
             yield TextTable(id="results")
             yield Static("", id="totals", markup=False)
@@ -97,7 +101,7 @@ class SplitScreen(WorkScreen):
     # ---- drawing ---------------------------------------------------------------------------------
 
     def redraw(self) -> None:
-        with self.prevent(Select.Changed, Input.Changed):
+        with self.prevent(Input.Changed):
             self._draw_inputs()
             self._draw_results()
 
@@ -108,29 +112,27 @@ class SplitScreen(WorkScreen):
         options += [(f"Reading on {branch_name(site, i)}", f"{GIVEN_PREFIX}{i}")
                     for i in range(len(site.branches))]
         value = kind if kind != "measured_flow" else f"{GIVEN_PREFIX}{index}"
-        set_options(self.query_one("#given-kind", Select), options, value)
+        self.query_one("#given-kind", Choice).set_options(options, value)
         unit_kind = "pressure" if kind == "pressure_drop" else "flow"
         show_text(self.query_one("#given-value", Input), given_text(site))
         put(self.query_one("#given-unit", Label), f"[{app.unit_text(unit_kind)}]")
 
         find = find_of(site)
-        find_box = self.query_one("#find-kind", Select)
-        if find_box.value != find:
-            find_box.value = find
+        self.query_one("#find-kind", Choice).value = find
         names = [(branch_name(site, i), branch_name(site, i)) for i in range(len(site.branches))]
         solve = site.solve
         chosen = text_of(solve.branch if solve else None)
-        set_options(self.query_one("#find-branch", Select), names,
-                     chosen if chosen in [n for n, _ in names] else Select.NULL)
+        self.query_one("#find-branch", Choice).set_options(names, chosen)
         show_text(self.query_one("#find-target", Input),
-              text_of(solve.target_flow if solve else None))
-        for part in self.query(".find-part"):
-            part.display = find != "flows"
+                  text_of(solve.target_flow if solve else None))
         segments = self._segments_of(chosen)
-        seg_box = self.query_one("#find-segment", Select)
-        set_options(seg_box, [(f"segment {j}", str(j)) for j in range(1, segments + 1)],
-                     text_of(solve.segment if solve else None) or "1")
-        seg_box.display = find != "flows" and segments > 1
+        for part in self.query(".find-part"):
+            show = find != "flows" and (part.id != "find-segment" or segments > 1)
+            if part.display != show:
+                part.display = show
+        self.query_one("#find-segment", Choice).set_options(
+            [(f"segment {j}", str(j)) for j in range(1, segments + 1)],
+            text_of(solve.segment if solve else None) or "1")
         self._draw_messages()
 
     def _segments_of(self, name: str) -> int:
@@ -152,7 +154,8 @@ class SplitScreen(WorkScreen):
         for ident, message in (("#given-message", given_msg), ("#find-message", find_msg)):
             box = self.query_one(ident, Static)
             put(box, f"✗ {message}" if message else "")
-            box.display = bool(message)
+            if box.display != bool(message):
+                box.display = bool(message)
 
     def _draw_results(self) -> None:
         app = self.bw
@@ -179,7 +182,8 @@ class SplitScreen(WorkScreen):
             put(totals, "… solving" if outcome is None else "No answer yet: see the message "
                 "above.", layout=False)
             put(solved, "", layout=False)
-            solved.display = False
+            if solved.display:
+                solved.display = False
             put(warnings, "")
             return
         result = shown.solved.result
@@ -209,12 +213,15 @@ class SplitScreen(WorkScreen):
             layout=False)  # always two lines: no new layout needed
         text = self._solved_text(shown)
         put(solved, text, layout=False)
-        solved.display = bool(text)
+        if solved.display != bool(text):
+            solved.display = bool(text)
         lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{w.message}"
                  for w in result.warnings]
         lines += [f"• {note}" for note in (*shown.solved.notes, *result.notes)]
         put(warnings, "\n".join(lines))
-        self.query_one("#warnings").display = bool(lines)
+        box = self.query_one("#warnings")
+        if box.display != bool(lines):
+            box.display = bool(lines)
 
     def _solved_text(self, shown: object) -> str:
         app = self.bw
@@ -234,10 +241,8 @@ class SplitScreen(WorkScreen):
 
     # ---- edits -----------------------------------------------------------------------------------
 
-    def on_select_changed(self, event: Select.Changed) -> None:
-        if not self.ready or event.value is Select.NULL:
-            return
-        ident = event.select.id
+    def on_choice_changed(self, event: Choice.Changed) -> None:
+        ident = event.choice.id
         if ident == "given-kind":
             self._switch_given(str(event.value))
         elif ident == "find-kind":
@@ -353,3 +358,8 @@ def _park_key(site: object, kind: str, index: int | None) -> str:
     if kind == "measured_flow" and index is not None:
         return f"measured_flow:{branch_name(site, index)}"  # type: ignore[arg-type]
     return kind
+
+
+def _hidden(widget: Static) -> Static:
+    widget.display = False
+    return widget

@@ -18,13 +18,13 @@ from ..session import is_bare_number, is_plain_diameter, text_of, with_unit
 
 COLUMNS = (
     ("name", "Branch"),
-    ("size", "Size / ID"),
+    ("flow", "Flow"),
+    ("size", "Size/ID"),
     ("length", "Length"),
-    ("wall", "Roughness / material"),
-    ("k", "K · fittings"),
+    ("wall", "ε or material"),
+    ("k", "K+fittings"),
     ("valve", "Valve"),
     ("reading", "Reading"),
-    ("flow", "Flow"),
 )
 BRANCH_COLUMNS = ("name", "valve", "reading")
 """Columns that belong to the whole branch (blank on a further segment's row)."""

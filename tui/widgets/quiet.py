@@ -4,22 +4,7 @@ from __future__ import annotations
 
 from rich.cells import cell_len
 from textual.coordinate import Coordinate
-from textual.widgets import DataTable, Input, Select, Static
-
-
-def set_options(select: Select, options: list[tuple[str, str]], value: object) -> None:
-    """Give ``select`` these options (only when they changed) and this value (NULL when the
-    value is not one of them). Call inside ``prevent(Select.Changed)``."""
-    if getattr(select, "_bw_options", None) != options:
-        select.set_options(options)
-        select._bw_options = options  # type: ignore[attr-defined]
-    if value is not Select.NULL and value not in [v for _, v in options]:
-        value = Select.NULL
-    if select.value != value:
-        if value is Select.NULL:
-            select.clear()
-        else:
-            select.value = value
+from textual.widgets import DataTable, Input, Static
 
 
 def show_text(box: Input, text: str) -> None:

@@ -55,7 +55,10 @@ class TextTable(ScrollableContainer, can_focus=True):
                 out.append(" " + (pad if columns[c][1] else ""))
                 out.append_text(piece)
                 out.append(("" if columns[c][1] else pad) + " ")
-        self.query_one(Static).update(out)
+        shape = (len(rows), sum(widths) + 2 * len(widths))
+        # A new layout only when the table's size changes, not for new numbers in it.
+        self.query_one(Static).update(out, layout=shape != getattr(self, "_shape", None))
+        self._shape = shape
 
     def text_rows(self) -> list[list[str]]:
         """The cells as plain text (what a person reads)."""

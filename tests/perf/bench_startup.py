@@ -1,0 +1,122 @@
+"""Cold start to the first screen: branchwise against a minimal Textual app (a script, not a test).
+
+Each run is a fresh Python process in a pseudo-terminal (80×24), so the figure includes the
+interpreter, the imports, composing the first screen and drawing it to the terminal. The child
+notes the moment its first screen has been drawn (``call_after_refresh`` after mount) and stops
+at once. Runs alternate between the two apps; medians are compared. The goal: branchwise within
+1.5× of the minimal app (heavy modules — numpy, scipy, pint — load only after that first screen).
+
+    python tests/perf/bench_startup.py [--runs 7]
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import pty
+import select
+import statistics
+import struct
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+CHILD = r"""
+import os, sys, time
+out = sys.argv[2]
+
+def painted(app):
+    def done():
+        modules = sorted(m for m in ("numpy", "scipy", "pint") if m in sys.modules)
+        with open(out, "w") as f:
+            f.write(f"{time.perf_counter()} {','.join(modules)}\n")
+        os._exit(0)
+    app.call_after_refresh(done)
+
+if sys.argv[1] == "minimal":
+    from textual.app import App
+    from textual.widgets import Footer, Header, Static
+
+    class Minimal(App):
+        def compose(self):
+            yield Header()
+            yield Static("A minimal Textual app: a title, a line of text, a footer.")
+            yield Footer()
+
+        def on_mount(self):
+            painted(self)
+
+    Minimal().run()
+else:
+    from branchwise.tui.app import BranchwiseApp
+
+    class Probe(BranchwiseApp):
+        def on_mount(self):
+            painted(self)
+
+    Probe().run()
+"""
+
+
+def one_run(kind: str, data_dir: str) -> tuple[float, str]:
+    """Seconds from starting the process to its first screen drawn; heavy modules loaded."""
+    import fcntl
+    import termios
+
+    master, slave = pty.openpty()
+    fcntl.ioctl(slave, termios.TIOCSWINSZ, struct.pack("HHHH", 24, 80, 0, 0))
+    with tempfile.TemporaryDirectory() as tmp:
+        out = Path(tmp) / "painted"
+        env = {**os.environ, "BRANCHWISE_DATA_DIR": data_dir, "TERM": "xterm-256color",
+               "COLUMNS": "80", "LINES": "24"}
+        start = time.perf_counter()
+        proc = subprocess.Popen([sys.executable, "-c", CHILD, kind, str(out)], stdin=slave,
+                                stdout=slave, stderr=slave, env=env, close_fds=True)
+        os.close(slave)
+        screen = b""
+        while proc.poll() is None:  # keep the terminal drained so the child never blocks
+            ready, _, _ = select.select([master], [], [], 0.05)
+            if ready:
+                try:
+                    screen = (screen + os.read(master, 65536))[-4000:]
+                except OSError:
+                    break
+        proc.wait()
+        os.close(master)
+        if not out.exists():
+            raise SystemExit(f"{kind} did not start:\n{screen.decode(errors='replace')}")
+        stamp, _, modules = out.read_text().strip().partition(" ")
+    # The child's perf_counter and ours share the system's monotonic clock on Linux.
+    return float(stamp) - start, modules
+
+
+def main(argv: list[str] | None = None) -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--runs", type=int, default=7)
+    args = parser.parse_args(argv)
+    data_dir = tempfile.mkdtemp(prefix="branchwise-bench-")
+    times: dict[str, list[float]] = {"minimal": [], "branchwise": []}
+    heavy: set[str] = set()
+    one_run("minimal", data_dir)  # warm the file cache for both
+    one_run("branchwise", data_dir)
+    for _ in range(args.runs):
+        for kind in times:
+            seconds, modules = one_run(kind, data_dir)
+            times[kind].append(seconds)
+            if kind == "branchwise" and modules:
+                heavy.update(modules.split(","))
+    med = {kind: statistics.median(v) * 1000 for kind, v in times.items()}
+    print(f"cold start to first screen, median of {args.runs} runs, 80×24 pseudo-terminal, "
+          f"Python {sys.version.split()[0]}:")
+    for kind, ms in med.items():
+        spread = f"{min(times[kind]) * 1000:.0f}–{max(times[kind]) * 1000:.0f}"
+        print(f"  {kind:<11} {ms:6.0f} ms  (range {spread} ms)")
+    print(f"  ratio       {med['branchwise'] / med['minimal']:6.2f}×  (goal ≤ 1.5×)")
+    print("  heavy modules loaded before the first screen: "
+          f"{', '.join(sorted(heavy)) or 'none'}")
+
+
+if __name__ == "__main__":
+    main()

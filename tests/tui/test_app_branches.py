@@ -1,0 +1,114 @@
+"""The branch table by keys: edit in place, the branch form, add, copy, remove with undo,
+reorder, series segments. Each step is checked on the site (the one truth) and on screen."""
+
+from __future__ import annotations
+
+import pytest
+from textual.widgets import DataTable
+
+from branchwise.tui.app import BranchwiseApp
+
+FOOT = 0.3048  # m per foot (NIST SP 811, exact)
+
+
+def names(app) -> list[str]:
+    return [str(b.name) for b in app.site.branches]
+
+
+def test_branch_table_by_keys(ui):
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(120, 36)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("f3")
+            await ui.settle(pilot)
+            table = app.screen.query_one("#branch-table", DataTable)
+            assert app.focused is table
+
+            # Edit in place: AHU-2's length, a bare number in the column's unit (m in SI).
+            flow_180ft = app.outcome.solved.result.branches[1].flow
+            await pilot.press("down", "right", "right", "right", "enter")
+            assert app.focused.id == "cell-input"
+            assert app.focused.value == "180 ft"
+            await ui.type(pilot, "50")
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            assert app.site.branches[1].segments[0].length == "50 m"
+            assert "50 m" in ui.text(app)
+            # Shorter pipe, same Δp: more flow (Darcy–Weisbach, h_f ∝ L).
+            assert app.outcome.solved.result.branches[1].flow > flow_180ft
+
+            # Copy it, then remove the copy; Ctrl+Z brings it back, Ctrl+Y removes it again.
+            await pilot.press("c")
+            await ui.settle(pilot)
+            assert names(app) == ["AHU-1 coil", "AHU-2 coil", "AHU-2 coil 2", "AHU-3 coil",
+                                  "Bypass"]
+            assert table.cursor_row == 2  # the cursor follows the copy
+            await pilot.press("x")
+            await ui.settle(pilot)
+            assert "AHU-2 coil 2" not in names(app)
+            await pilot.press("ctrl+z")
+            await ui.settle(pilot)
+            assert "AHU-2 coil 2" in names(app)
+            await pilot.press("ctrl+y")
+            await ui.settle(pilot)
+            assert "AHU-2 coil 2" not in names(app)
+
+            # Reorder: AHU-2 up to the top.
+            table.move_cursor(row=1, column=0)
+            await pilot.press("shift+up")
+            await ui.settle(pilot)
+            assert names(app)[:2] == ["AHU-2 coil", "AHU-1 coil"]
+
+            # A series segment on AHU-3, then its length in feet.
+            table.move_cursor(row=2, column=0)
+            await pilot.press("s")
+            await ui.settle(pilot)
+            assert app.focused.id == "cell-input"  # the new segment's length, ready to type
+            await pilot.press("ctrl+u")
+            await ui.type(pilot, "30 ft")
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            segs = app.site.branches[2].segments
+            assert len(segs) == 2 and segs[1].length == "30 ft"
+            assert segs[1].diameter == segs[0].diameter  # same pipe, carried over
+            assert "└ 2" in ui.text(app)
+            lengths = [s.length for s in app.outcome.solved.result.branches[2].segments]
+            assert lengths[1] == pytest.approx(30 * FOOT, rel=1e-12)
+
+            # Add a branch through the form; Enter applies it.
+            table.move_cursor(row=0, column=0)
+            await pilot.press("a")
+            assert app.screen.__class__.__name__ == "BranchForm"
+            form = app.screen
+            fields = {f.path: f for f in form.query("Field")}
+            fields["name"].input.value = "Drain line"
+            fields["0.length"].input.value = "12"
+            fields["0.fittings"].input.value = "elbow-90 2, gate-valve 1"
+            fields["0.length"].input.focus()
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            new = app.site.branches[1]
+            assert new.name == "Drain line" and new.segments[0].length == "12 m"
+            assert new.segments[0].fittings == {"elbow-90": 2.0, "gate-valve": 1.0}
+            assert new.segments[0].size == app.site.branches[0].segments[0].size
+            assert app.outcome.ok
+
+            # A fitting the catalog does not have: refused beside the field, form stays open.
+            await pilot.press("e")
+            form = app.screen
+            fields = {f.path: f for f in form.query("Field")}
+            fields["0.fittings"].input.value = "elbow-91 2"
+            await pilot.pause()
+            assert fields["0.fittings"].has_class("-error")
+            assert "no fitting 'elbow-91'" in str(
+                fields["0.fittings"].query_one(".field-message").render())
+            fields["0.fittings"].input.focus()
+            await pilot.press("enter")
+            assert app.screen is form
+            await pilot.press("escape")
+            await ui.settle(pilot)
+            assert app.site.branches[1].segments[0].fittings == {"elbow-90": 2.0,
+                                                                "gate-valve": 1.0}
+
+    ui.run(scenario)

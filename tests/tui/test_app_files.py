@@ -1,0 +1,105 @@
+"""Nothing is lost: the recovery copy after a crash, the question on quitting, the site list,
+and the walkdown record and CSV written from the results."""
+
+from __future__ import annotations
+
+import csv
+import io
+
+from branchwise.core.paths import recovery_path
+from branchwise.core.sitefile import demo_site, save_site
+from branchwise.tui.app import BranchwiseApp
+from branchwise.tui.screens.dialogs import ChoiceScreen
+
+
+def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
+    async def crash() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(100, 30)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("v")
+            await ui.type(pilot, "7.5 psi")
+            await ui.settle(pilot)
+            app.write_recovery()  # what the timer does a second after typing stops
+            await app.workers.wait_for_complete()
+            assert recovery_path(None).is_file()
+            app.exit()  # no question asked: as if the terminal were closed
+
+    async def come_back() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(100, 30)) as pilot:
+            await ui.settle(pilot)
+            await pilot.pause()
+            assert isinstance(app.screen, ChoiceScreen)
+            assert "Unsaved changes" in ui.text(app)
+            await pilot.press("r")
+            await ui.settle(pilot)
+            assert app.site.conditions.pressure_drop == "7.5 psi"
+            assert app.session.dirty and "●" in app.sub_title
+
+            # Quitting asks; Escape stays; "Don't save" quits and drops the recovery copy.
+            await pilot.press("ctrl+q")
+            await pilot.pause()
+            assert isinstance(app.screen, ChoiceScreen)
+            await pilot.press("escape")
+            await pilot.pause()
+            assert app.is_running and not isinstance(app.screen, ChoiceScreen)
+            await pilot.press("ctrl+q")
+            await pilot.pause()
+            await pilot.press("n")
+            await pilot.pause()
+        assert not recovery_path(None).exists()
+
+    ui.run(crash)
+    ui.run(come_back)
+
+
+def test_open_from_the_site_list_and_export(ui, data_dir):
+    site = demo_site()
+    site.name = "Pump room 2"
+    site.conditions.pressure_drop = "55 kPa"
+    path = save_site(site, data_dir / "sites" / "pump-room-2.toml")
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(100, 30)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("ctrl+o")
+            listing = ui.text(app)
+            assert "Pump room 2" in listing and "pump-room-2.toml" in listing
+            assert "Demo: chilled-water header" in listing and "New empty site" in listing
+            await pilot.press("enter")  # the first row: the saved site
+            await ui.settle(pilot)
+            assert app.site.source == path and app.site.title == "Pump room 2"
+            assert app.settings.last_site == path
+
+            # The walkdown record (Markdown), next to the site file.
+            await pilot.press("r")
+            assert app.screen.__class__.__name__ == "SaveAsScreen"
+            await pilot.press("enter")
+            await pilot.pause()
+            records = list(path.parent.glob("pump-room-2-*.md"))
+            assert len(records) == 1
+            text = records[0].read_text(encoding="utf-8")
+            assert text.startswith("# Walkdown record: Pump room 2")
+            assert "55 kPa" in text and "## Cautions" in text
+
+            # The CSV: one row per segment, a header with units.
+            await pilot.press("c", "enter")
+            await pilot.pause()
+            rows = list(csv.reader(io.StringIO(
+                next(path.parent.glob("pump-room-2-*.csv")).read_text(encoding="utf-8"))))
+            assert rows[0][0].startswith("Branch") and any("(L/s)" in c for c in rows[0])
+            data = [r for r in rows[1:] if r and not r[0].startswith("#")]
+            assert len(data) == 5  # four branches, the bypass in two segments
+
+            # A new empty site: the first thing missing is named beside its field.
+            await pilot.press("ctrl+o")
+            table = app.screen.query_one("DataTable")
+            table.move_cursor(row=table.row_count - 1)
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            assert app.site.title == "New site" and not app.outcome.ok
+            assert "Branch 1" in ui.text(app)
+
+    ui.run(scenario)
