@@ -19,6 +19,7 @@ import os
 import re
 import secrets
 import stat
+import sys
 import time
 import tomllib
 from collections.abc import Callable, Mapping, MutableMapping
@@ -191,10 +192,100 @@ def load_toml(path: Path, field: str = "") -> dict[str, Any]:
         bad = data[exc.start : exc.start + 8]
         reason = "is not UTF-8 text (binary data or another encoding); save it as UTF-8"
         raise InputError(f"{field} line {line}", repr(bad), reason) from None
+    return parse_toml(text, field)
+
+
+MAX_DEPTH = 20
+"""Lists and tables inside each other beyond this many levels are refused. The deepest file
+branchwise writes has six (a site's branches, a branch's segments, a segment's fittings); the
+limit keeps the recursive parser and the copies made of a document far from Python's
+recursion limit, so a damaged file is an error message, not a crash."""
+
+_TOO_DEEP = (f"lists or tables are nested more than {MAX_DEPTH} levels deep "
+             "(a site file needs a handful)")
+
+
+def parse_toml(text: str, field: str) -> dict[str, Any]:
+    """Parse TOML ``text``, the contents of the file named ``field``, into plain values.
+
+    Besides the parser's own complaints (reported as by :func:`load_toml`), damaged text can
+    make Python's parser fail in two other ways; both become InputErrors naming the line:
+    lists or inline tables nested past the recursion limit, and a whole number longer than
+    Python converts from text (``sys.get_int_max_str_digits()``, 4300 digits by default).
+    A document nested more than :data:`MAX_DEPTH` levels is refused as well.
+    """
     try:
-        return tomllib.loads(text)
+        doc = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise _decode_error(field, text, exc) from None
+    except RecursionError:
+        error = _located(field, text, _deepest_line(text) or 1, _TOO_DEEP)
+    except ValueError as exc:  # int() refuses a number with too many digits
+        line = _long_number_line(text)
+        if line is None or "digits" not in str(exc):
+            raise
+        error = _located(field, text, line, f"a number longer than "
+                         f"{sys.get_int_max_str_digits()} digits cannot be read")
+    else:
+        where = _too_deep(doc)
+        if where is None:
+            return doc
+        line = _deepest_line(text)  # brackets show the line; dotted keys only the path
+        error = (_located(field, text, line, _TOO_DEEP) if line
+                 else InputError(field, _printable(where), _TOO_DEEP))
+    raise error
+
+
+def _located(field: str, text: str, line: int, reason: str) -> InputError:
+    lines = text.splitlines()
+    shown = _printable(lines[line - 1]) if 0 < line <= len(lines) else ""
+    return InputError(f"{field} line {line}", shown, reason)
+
+
+def _long_number_line(text: str) -> int | None:
+    """The line of the first run of digits longer than Python reads (None without a limit)."""
+    limit = sys.get_int_max_str_digits()
+    found = re.search(f"[0-9_]{{{limit + 1},}}", text) if limit else None
+    return None if found is None else text.count("\n", 0, found.start()) + 1
+
+
+def _deepest_line(text: str) -> int | None:
+    """The first line where brackets and braces open more than :data:`MAX_DEPTH` deep.
+
+    A rough count (brackets inside quoted text count too), used only to point at the place
+    of a document already known to be nested too deeply; None if no line stands out.
+    """
+    depth = 0
+    for number, line in enumerate(text.splitlines(), start=1):
+        for char in line:
+            depth += (char in "[{") - (char in "]}")
+            if depth > MAX_DEPTH:
+                return number
+    return None
+
+
+def _too_deep(doc: Mapping[str, Any]) -> str | None:
+    """The path to the first point of ``doc`` nested deeper than :data:`MAX_DEPTH`, or None.
+    Iterative, so it is safe at any depth."""
+    stack: list[tuple[object, str, int]] = [(doc, "", 0)]
+    while stack:
+        value, where, depth = stack.pop()
+        if depth > MAX_DEPTH:
+            return where
+        if isinstance(value, Mapping):
+            stack.extend((v, f"{where}.{k}" if where else str(k), depth + 1)
+                         for k, v in value.items())
+        elif isinstance(value, list):
+            stack.extend((v, f"{where}[{i}]", depth + 1) for i, v in enumerate(value))
+    return None
+
+
+def check_depth(doc: Mapping[str, Any], field: str) -> None:
+    """Refuse a document nested more than :data:`MAX_DEPTH` levels: an InputError naming
+    ``field`` (the file), with the path to the first point too deep as its value."""
+    where = _too_deep(doc)
+    if where is not None:
+        raise InputError(field, _printable(where), _TOO_DEEP)
 
 
 # Format versions ---------------------------------------------------------------------------
@@ -225,6 +316,7 @@ def migrate(doc: dict[str, Any], kind: str, path: Path | str) -> dict[str, Any]:
     """
     _check_kind(kind)
     name = Path(path).name
+    check_depth(doc, name)  # before the deep copy below, which recurses
     version = doc.get("format", 0)
     if isinstance(version, bool) or not isinstance(version, int) or version < 0:
         raise InputError(f"{name} format", version, "must be a whole number such as 1")

@@ -1,0 +1,89 @@
+"""Site files the fuzz tests found that ended in a traceback, kept as plain regression tests:
+each must now be an InputError naming the file and line (or the field).
+
+Robustness, no outside reference. Limits of Python itself are the cause: the recursion limit
+(about 1000 frames) and the 4300-digit limit on turning text into an int (CPython 3.11+,
+``sys.get_int_max_str_digits``). Unit-text regressions are in test_fuzz_units.py.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from branchwise.core.errors import InputError
+from branchwise.core.sitefile import load_site, parse_site
+from branchwise.core.tomlfile import MAX_DEPTH, migrate
+
+HEAD = 'format = 1\nname = "x"\n[fluid]\nkind = "water"\ntemperature = "20 degC"\n'
+
+DEEP_FILES = {
+    "arrays past the recursion limit": HEAD + "notes = " + "[" * 5000 + "]" * 5000 + "\n",
+    "inline tables past the recursion limit":
+        HEAD + "notes = " + "{ a = " * 3000 + "1" + " }" * 3000 + "\n",
+    "arrays a little too deep": HEAD + "notes = " + "[" * 40 + "1" + "]" * 40 + "\n",
+}
+
+
+@pytest.mark.parametrize("text", DEEP_FILES.values(), ids=DEEP_FILES)
+def test_deeply_nested_file_names_the_line(tmp_path: Path, text: str) -> None:
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(InputError, match=f"nested more than {MAX_DEPTH} levels") as caught:
+        load_site(path)
+    assert caught.value.field == "site.toml line 6", caught.value.field
+    assert path.read_text(encoding="utf-8") == text
+
+
+def test_dotted_keys_thousands_deep_are_refused_before_copying(tmp_path: Path) -> None:
+    # Found as a RecursionError in the deep copy that brings a document to the current format.
+    text = HEAD + "a." * 3000 + "b = 1\n"
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(InputError, match="nested more than") as caught:
+        load_site(path)
+    assert caught.value.field == "site.toml"
+    assert caught.value.value.startswith("fluid.a.a.a")  # the key path, in its table
+    # The same document parsed elsewhere is refused by migrate, before its deep copy.
+    doc: dict = {"b": 1}
+    for _ in range(3000):
+        doc = {"a": doc}
+    with pytest.raises(InputError, match="nested more than"):
+        migrate(doc, "site", "site.toml")
+
+
+def test_number_longer_than_python_reads_names_the_line(tmp_path: Path) -> None:
+    path = tmp_path / "site.toml"
+    path.write_text(HEAD + "[conditions]\npressure_drop = " + "9" * 5000 + "\n", encoding="utf-8")
+    with pytest.raises(InputError, match="a number longer than 4300 digits") as caught:
+        load_site(path)
+    assert caught.value.field == "site.toml line 7"
+
+
+def test_a_site_nested_as_deep_as_the_format_allows_still_loads(tmp_path: Path) -> None:
+    # The depth limit must not refuse a real file: segments with fittings are the deepest.
+    text = HEAD + ('[conditions]\npressure_drop = "10 kPa"\n[[branches]]\nname = "A"\n'
+                   'segments = [{ diameter = "50 mm", length = "10 m", roughness = "0.05 mm",'
+                   ' fittings = { elbow-90 = 2 } }]\n')
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+    assert load_site(path).branches[0].segments[0].fittings == {"elbow-90": 2}
+
+
+# ---- left for the owner of core/sitefile.py ----------------------------------------------
+# parse_site (the app's path for text it already holds) calls tomllib.loads itself and catches
+# only TOMLDecodeError. Suggested fix: parse with branchwise.core.tomlfile.parse_toml(text,
+# name), which turns these into InputErrors naming the line, as load_site already does.
+
+
+@pytest.mark.xfail(strict=True, reason="parse_site lets tomllib's RecursionError through")
+def test_parse_site_deeply_nested_text_names_the_line() -> None:
+    with pytest.raises(InputError, match="nested more than"):
+        parse_site(DEEP_FILES["arrays past the recursion limit"], "site.toml")
+
+
+@pytest.mark.xfail(strict=True, reason="parse_site lets tomllib's int-digit ValueError through")
+def test_parse_site_overlong_number_names_the_line() -> None:
+    with pytest.raises(InputError, match="a number longer than"):
+        parse_site(HEAD + "[conditions]\npressure_drop = " + "9" * 5000 + "\n", "site.toml")
