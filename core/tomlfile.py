@@ -147,6 +147,12 @@ def _printable(text: str, limit: int = 60) -> str:
     return shown if len(shown) <= limit else shown[: limit - 1] + "…"
 
 
+def _shown(value: object) -> str:
+    """A value read from a file as one short printable line, text in quotes (``'1'``: the
+    quotes say why a number in quotes is refused where a number belongs)."""
+    return _printable(repr(value))
+
+
 def _plain(message: str) -> str:
     for start, words in _PLAIN_WORDS:
         if message.startswith(start):
@@ -319,13 +325,13 @@ def migrate(doc: dict[str, Any], kind: str, path: Path | str) -> dict[str, Any]:
     check_depth(doc, name)  # before the deep copy below, which recurses
     version = doc.get("format", 0)
     if isinstance(version, bool) or not isinstance(version, int) or version < 0:
-        raise InputError(f"{name} format", version, "must be a whole number such as 1")
+        raise InputError(f"{name} format", _shown(version), "must be a whole number such as 1")
     if version > FORMAT:
         reason = f"written by a newer branchwise (format {version}); this one reads format {FORMAT}"
         raise InputError(f"{name} format", version, reason)
     said = doc.get("kind", kind)
     if said != kind:
-        raise InputError(f"{name} kind", said, f"this is not a {kind} file")
+        raise InputError(f"{name} kind", _shown(said), f"this is not a {kind} file")
     result = copy.deepcopy(doc)
     while version < FORMAT:
         result = _STEPS[version](result, kind)

@@ -71,6 +71,18 @@ def test_a_site_nested_as_deep_as_the_format_allows_still_loads(tmp_path: Path) 
     assert load_site(path).branches[0].segments[0].fittings == {"elbow-90": 2}
 
 
+@pytest.mark.parametrize(("line", "field"), [('format = "\\n"', "format"),
+                                            ('kind = "\\r\\nsettings"', "kind")])
+def test_format_and_kind_errors_stay_on_one_line(tmp_path: Path, line: str, field: str) -> None:
+    # Found with format = "\n": the message carried the newline itself.
+    path = tmp_path / "site.toml"
+    path.write_text(line + "\n" + HEAD.replace("format = 1\n", ""), encoding="utf-8")
+    with pytest.raises(InputError) as caught:
+        load_site(path)
+    assert caught.value.field == f"site.toml {field}"
+    assert "\n" not in str(caught.value) and "\r" not in str(caught.value), str(caught.value)
+
+
 # ---- left for the owner of core/sitefile.py ----------------------------------------------
 # parse_site (the app's path for text it already holds) calls tomllib.loads itself and catches
 # only TOMLDecodeError. Suggested fix: parse with branchwise.core.tomlfile.parse_toml(text,
