@@ -90,13 +90,12 @@ class BranchwiseApp(SiteFiles, App[None]):
                 tooltip="Show results in SI or US customary units"),
         Binding("f6", "unit_choices", "Units", id="unit-choices", show=False, key_display="F6",
                 tooltip="Choose the display unit of each quantity"),
-        Binding("ctrl+z", "undo", "Undo", id="undo", show=False,
-                tooltip="Undo the last change"),
+        Binding("ctrl+z", "undo", "Undo", id="undo", tooltip="Undo the last change"),
         Binding("ctrl+y", "redo", "Redo", id="redo", show=False, tooltip="Redo"),
-        Binding("exclamation_mark,f7", "cautions", "Cautions", id="cautions", show=False,
-                tooltip="What these numbers are and are not good for"),
-        Binding("ctrl+q", "quit", "Quit", id="quit", priority=True, show=False,
+        Binding("ctrl+q", "quit", "Quit", id="quit", priority=True,
                 tooltip="Quit (asks first if there are unsaved changes)"),
+        Binding("exclamation_mark,f7", "cautions", "Cautions", id="cautions",
+                tooltip="What these numbers are and are not good for"),
     ]
 
     revision: reactive[int] = reactive(0, init=False)
@@ -114,7 +113,8 @@ class BranchwiseApp(SiteFiles, App[None]):
         self.startup_seconds: float | None = None
         site, note = self.first_site(Path(site_path) if site_path else None)
         self.session = Session(site)
-        self._note = note
+        problems = [f"Settings: {p}" for p in self.settings.problems]
+        self._note = "\n".join(filter(None, [note, *problems]))
 
     # ---- state the screens read --------------------------------------------------------------
 
@@ -224,7 +224,8 @@ class BranchwiseApp(SiteFiles, App[None]):
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         """Grey out (None) what cannot be done now; hide nothing. Under a dialog the app's
         keys stand aside (False), so that the dialog's own keys work."""
-        if isinstance(self.screen, ModalScreen) and not isinstance(self.screen, CommandPalette):
+        if action in self._own_actions() and isinstance(self.screen, ModalScreen) and \
+                not isinstance(self.screen, CommandPalette):
             return False
         if action == "show" and parameters and parameters[0] == self.current_mode:
             return None
@@ -235,6 +236,10 @@ class BranchwiseApp(SiteFiles, App[None]):
         if action == "save" and not self.session.dirty and self.session.path is not None:
             return None
         return True
+
+    @classmethod
+    def _own_actions(cls) -> set[str]:
+        return {b.action.split("(")[0] for b in cls.BINDINGS if isinstance(b, Binding)}
 
     def action_undo(self) -> None:
         label = self.session.undo()

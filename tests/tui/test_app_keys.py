@@ -78,6 +78,14 @@ def test_help_palette_greying_units_and_cautions(ui):
             assert first_flow() == pytest.approx(litres / 1000 / US_GPM, rel=1e-3)
             assert app.screen.query_one("#given-unit").render().plain == "[psi]"
 
+            # One quantity in a unit of one's own (US system, flows in L/s), kept in settings.
+            await pilot.press("f6")
+            await pilot.press("tab", "tab", "enter", "down", "enter", "ctrl+s")
+            await ui.settle(pilot)
+            assert app.settings.display_units == {"flow": "L/s"}
+            assert "Flow L/s" in ui.text(app) and "V ft/s" in ui.text(app)
+            assert first_flow() == pytest.approx(litres, rel=1e-3)
+
             # The cautions, one key away, and always a line on the Split screen.
             assert "! cautions" in ui.text(app)
             await pilot.press("exclamation_mark")
@@ -94,6 +102,6 @@ def test_help_palette_greying_units_and_cautions(ui):
 
         # The unit system is remembered for next time.
         again = BranchwiseApp()
-        assert again.unit_system == "us"
+        assert again.unit_system == "us" and again.unit("flow") == "L/s"
 
     ui.run(scenario)

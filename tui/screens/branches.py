@@ -8,6 +8,8 @@ aside for when the reading is cleared. The Flow column is the present answer.
 
 from __future__ import annotations
 
+from pathlib import Path
+
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -46,6 +48,9 @@ COLUMN_KEYS = [key for key, _ in COLUMNS]
 class BranchesScreen(WorkScreen):
     """The branch table and its cell editor."""
 
+    AUTO_FOCUS = "#branch-table"
+    CSS_PATH = Path(__file__).parent.parent / "branches.tcss"
+
     BINDINGS = [
         Binding("enter", "edit_cell", "Edit", id="branches-edit",
                 tooltip="Edit the highlighted cell in place"),
@@ -81,7 +86,6 @@ class BranchesScreen(WorkScreen):
         self._editing: tuple[int, int, str] | None = None
         self.query_one("#cell-editor").display = False
         super().on_mount()
-        self.query_one("#branch-table", DataTable).focus()
 
     # ---- drawing ---------------------------------------------------------------------------------
 
@@ -121,8 +125,8 @@ class BranchesScreen(WorkScreen):
             put(message, f"✗ {error_text(outcome.error, site)}")  # type: ignore[union-attr,arg-type]
         else:
             kind, index = given_of(site)
-            put(message, "Enter edit · e form · a add · c copy · x remove · a bare number "
-                "takes the unit in the header" if index is None else
+            put(message, "Enter edit · e form · a add · c copy · x remove · bare numbers "
+                "take the header's unit" if index is None else
                 f"The reading on {branch_name(site, index)} ({given_text(site)}) is the given "
                 "condition.")
 

@@ -33,9 +33,9 @@ from ..widgets.branchcells import (
 from ..widgets.field import Field
 
 SEGMENT_FIELDS = (
-    ("size", "Size or inner diameter", "diameter"),
+    ("size", "Size or bore", "diameter"),
     ("length", "Length", "length"),
-    ("wall", "Roughness or material", "roughness"),
+    ("wall", "ε or material", "roughness"),
     ("k", "Extra K", None),
     ("fittings", "Fittings", None),
 )
@@ -85,8 +85,7 @@ class BranchForm(ModalScreen[BranchSpec | None]):
     BranchForm .segment-title { margin-top: 1; color: $accent; text-style: bold; }
     BranchForm .form-keys { color: $text-muted; }
     BranchForm .form-message { color: $error; }
-    BranchForm .field-label { width: 24; }
-    BranchForm .field-message { padding-left: 24; }
+
     """
 
     def __init__(self, branch: BranchSpec, unit: Callable[[str], str],

@@ -8,6 +8,8 @@ refuses (frozen, boiling, out of its range) shows its message beside the field a
 
 from __future__ import annotations
 
+from pathlib import Path
+
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
@@ -47,6 +49,9 @@ USES = {
 class LiquidScreen(WorkScreen):
     """Kind, state, and the resulting properties of the liquid."""
 
+    AUTO_FOCUS = "#liquid-kind-select"
+    CSS_PATH = Path(__file__).parent.parent / "liquid.tcss"
+
     BINDINGS = [
         Binding("k", "focus_kind", "Kind", id="liquid-kind",
                 tooltip="Choose water, seawater, a glycol, a custom liquid or a saved one"),
@@ -83,7 +88,6 @@ class LiquidScreen(WorkScreen):
 
     def on_mount(self) -> None:
         super().on_mount()
-        self.query_one("#liquid-kind-select").focus()
 
     def kind(self) -> str:
         return text_of(self.bw.site.fluid.kind).strip().lower() or "water"

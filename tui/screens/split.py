@@ -45,6 +45,8 @@ CAUTION_LINE = "Estimates only, not design: confirm on site.  ! cautions"
 class SplitScreen(WorkScreen):
     """Given, find, and the answer."""
 
+    AUTO_FOCUS = "#results"
+
     BINDINGS = [
         Binding("g", "focus('given-kind')", "Given", id="split-given",
                 tooltip="Choose what was measured: Δp, total flow or one branch's reading"),
@@ -96,7 +98,6 @@ class SplitScreen(WorkScreen):
 
     def on_mount(self) -> None:
         super().on_mount()
-        self.query_one("#results", TextTable).focus()
 
     # ---- drawing ---------------------------------------------------------------------------------
 

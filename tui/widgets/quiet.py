@@ -2,9 +2,14 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from rich.cells import cell_len
 from textual.coordinate import Coordinate
-from textual.widgets import DataTable, Input, Static
+from textual.widgets import Input, Static
+
+if TYPE_CHECKING:
+    from textual.widgets import DataTable
 
 
 def show_text(box: Input, text: str) -> None:
