@@ -179,9 +179,17 @@ class BranchwiseApp(SiteFiles, App[None]):
 
     @work(thread=True, exclusive=True, exit_on_error=False, group="solve")
     def _solve(self, site: Site, revision: int) -> None:
+        from branchwise.core.errors import BranchwiseError
+
         from .outcome import compute
 
-        outcome = compute(site, revision)
+        try:
+            outcome = compute(site, revision)
+        except Exception as exc:  # a bug, not bad input: say so on screen, keep the app alive
+            self.log.error(f"solve failed: {exc!r}")
+            outcome = Outcome(revision, None, None, BranchwiseError(
+                f"internal error while solving ({type(exc).__name__}: {exc}); the inputs are "
+                "kept — please report it"), 0.0)
         if not get_current_worker().is_cancelled:
             self.post_message(Solved(outcome))
 

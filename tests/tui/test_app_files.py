@@ -6,6 +6,7 @@ from __future__ import annotations
 import csv
 import io
 
+import branchwise.tui.outcome as outcome_module
 from branchwise.core.paths import recovery_path
 from branchwise.core.sitefile import demo_site, save_site
 from branchwise.tui.app import BranchwiseApp
@@ -93,11 +94,32 @@ def test_open_from_the_site_list_and_export(ui, data_dir):
             data = [r for r in rows[1:] if r and not r[0].startswith("#")]
             assert len(data) == 5  # four branches, the bypass in two segments
 
+            # A fault in the solver itself (simulated): said on screen, the app carries on.
+            real = outcome_module.compute
+
+            def broken(site, revision, presets=None):
+                raise RuntimeError("simulated fault")
+
+            outcome_module.compute = broken
+            try:
+                await pilot.press("v")
+                await ui.type(pilot, "1")
+                await ui.settle(pilot)
+            finally:
+                outcome_module.compute = real
+            assert "internal error while solving" in ui.text(app)
+            await pilot.press("ctrl+z")
+            await ui.settle(pilot)
+            assert app.outcome.ok and app.site.conditions.pressure_drop == "55 kPa"
+
             # A new empty site: the first thing missing is named beside its field.
-            await pilot.press("ctrl+o")
+            await pilot.press("escape", "ctrl+o")
             table = app.screen.query_one("DataTable")
             table.move_cursor(row=table.row_count - 1)
             await pilot.press("enter")
+            await pilot.pause()
+            assert isinstance(app.screen, ChoiceScreen)  # the edits above are not saved
+            await pilot.press("n")
             await ui.settle(pilot)
             assert app.site.title == "New site" and not app.outcome.ok
             assert "Branch 1" in ui.text(app)

@@ -39,9 +39,10 @@ SEGMENT_FIELDS = (
     ("k", "Extra K", None),
     ("fittings", "Fittings", None),
 )
-PLACEHOLDERS = {"size": "4 in sch 40, DN80, 1-1/2 type L or 77.9 mm",
-                "wall": "0.045 mm, or a material: commercial-steel aged",
-                "fittings": "elbow-90 4, gate-valve 2", "k": "a plain number"}
+PLACEHOLDERS = {"size": "e.g. 4 in sch 40, DN80, 1-1/2 type L, 77.9 mm",
+                "length": "e.g. 62 m, 180 ft",
+                "wall": "e.g. 0.045 mm, or commercial-steel aged",
+                "fittings": "e.g. elbow-90 4, gate-valve 2", "k": "e.g. 2.5 (a plain number)"}
 _ITEM = re.compile(r"\s*(?:(\d+(?:\.\d*)?)\s*[x×*]?\s*([a-z][a-z0-9-]*)|([a-z][a-z0-9-]*)"
                    r"\s*[=: ]?\s*(\d+(?:\.\d*)?)?)\s*\Z", re.I)
 
@@ -106,7 +107,7 @@ class BranchForm(ModalScreen[BranchSpec | None]):
             with VerticalScroll(id="form-fields"):
                 yield Field("Name", "name", value=text_of(br.name), id="f-name")
                 yield Field("Valve (Kv or Cv)", "valve", value=valve_text(br),
-                            placeholder="Kv 160 or Cv 110", id="f-valve")
+                            placeholder="e.g. Kv 160 or Cv 110", id="f-valve")
                 yield Field("Note", "note", value=text_of(br.note), id="f-note")
                 for j, seg in enumerate(br.segments):
                     yield Label(f"Segment {j + 1}", classes="segment-title")
