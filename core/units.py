@@ -108,16 +108,23 @@ _NAME_SWAP = {
 _POWER_SUFFIX = re.compile(r"([A-Za-z]+)([23])\Z")
 
 
+MAX_UNIT_NAMES, MAX_UNIT_PARENTHESES, MAX_UNIT_NAME_LENGTH = 12, 4, 48
+"""Caps on one unit: names (``kg/m^3`` has two), parentheses inside each other, and letters
+in a name (pint's longest has 41); beyond them the text is refused unread."""
+
+
 def _unit_expression(text: str, field: str, value: object) -> str:
     """Check ``text`` against a small unit grammar and return it in pint's syntax.
 
     Grammar: names joined by ``*``, ``/``, ``·`` or spaces, each optionally raised to a whole
     power with ``^`` or ``**``, with parentheses. ``m3`` means ``m^3``. Checking first keeps
-    pint's parser (which accepts arbitrary Python-like expressions) away from junk.
+    pint's parser (which accepts arbitrary Python-like expressions) away from junk; the caps
+    on names and parentheses keep it below its recursion limit, which a damaged file can
+    otherwise reach (``m*m*m*...`` a few hundred times).
     """
     ureg = registry()
     out: list[str] = []
-    depth = 0
+    depth = names = 0
     expect_operand = True
     text = text.translate(_SUPERSCRIPT)
     pos = 0
@@ -136,17 +143,25 @@ def _unit_expression(text: str, field: str, value: object) -> str:
                 if stem and _is_unit(ureg, stem.group(1)):
                     name = f"{stem.group(1)}**{stem.group(2)}"
                 else:
-                    raise InputError(field, value, f"unknown unit '{name}'{_hint(name)}")
+                    raise InputError(field, value,
+                                     f"unknown unit '{describe(name, 40)}'{_hint(name)}")
             if not expect_operand:
                 out.append("*")
             out.append(name)
             expect_operand = False
+            names += 1
+            if names > MAX_UNIT_NAMES:
+                raise InputError(field, value, f"the unit is too long (more than "
+                                 f"{MAX_UNIT_NAMES} unit names)")
         elif op == "(":
             if not expect_operand:
                 out.append("*")
             out.append("(")
             depth += 1
             expect_operand = True
+            if depth > MAX_UNIT_PARENTHESES:
+                raise InputError(field, value, f"parentheses in the unit are nested more than "
+                                 f"{MAX_UNIT_PARENTHESES} deep")
         elif op == ")":
             depth -= 1
             if depth < 0 or expect_operand:
@@ -156,12 +171,15 @@ def _unit_expression(text: str, field: str, value: object) -> str:
             if expect_operand:
                 raise InputError(field, value, "a unit operator has nothing on its left")
             if power is not None:
+                if out[-1].startswith("**"):  # m^9^9^9 would have pint compute 9^387420489
+                    raise InputError(field, value, "a unit power cannot be raised to a power")
                 exp = _TOKEN.match(text, pos)
-                if exp is None or exp.group(4) is None or not 0 < abs(int(exp.group(4))) <= 9:
+                digits = exp.group(4) if exp is not None else None
+                if digits is None or len(digits) > 3 or not 0 < abs(int(digits)) <= 9:
                     raise InputError(field, value, "a unit power must be a whole number, "
                                      "-9 to 9, not 0")
-                pos = exp.end()
-                out.append(f"**{int(exp.group(4))}")
+                pos = exp.end()  # type: ignore[union-attr]
+                out.append(f"**{int(digits)}")
             else:
                 out.append("*" if op == "·" else op)
                 expect_operand = True
@@ -173,12 +191,18 @@ def _unit_expression(text: str, field: str, value: object) -> str:
 
 
 def _is_unit(ureg: pint.UnitRegistry, name: str) -> bool:
-    """Whether pint knows ``name``; names pint keeps private ("_x", "x__") are not units."""
-    if name.startswith("_") or name.endswith("__"):
+    """Whether pint knows ``name``; names pint keeps private ("_x", "x__") are not units, nor
+    is text its parser cannot read as one name (``¼`` is a word character to a regular
+    expression but not a Python identifier, and trips an assertion inside pint)."""
+    if name.startswith("_") or name.endswith("__") or not (name.isidentifier() or name == "%"):
         return False
+    if len(name) > MAX_UNIT_NAME_LENGTH:  # pint's preprocessing takes time growing as length²
+        return False
+    import pint
+
     try:
         return name in ureg
-    except (ValueError, AttributeError):  # pint reads some names ("nan", "inf") as numbers
+    except (ValueError, AttributeError, pint.errors.PintError):  # "nan", "inf"; "mdegC"
         return False
 
 
@@ -208,7 +232,11 @@ def parse_quantity(
     if isinstance(text, bool) or not isinstance(text, (str, int, float)):
         raise InputError(field, shown, "must be a number with a unit, in quotes")
     if isinstance(text, (int, float)):
-        number, unit = _bare(float(text), field, shown), ""
+        try:
+            number = float(text)
+        except OverflowError:  # an int beyond the float range (TOML integers have no limit)
+            raise InputError(field, shown, "is too large to represent") from None
+        number, unit = _bare(number, field, shown), ""
     else:
         if not text.strip():
             raise InputError(field, "''", "is empty")
@@ -359,6 +387,13 @@ def describe(value: Any, limit: int = 60) -> str:
     Control characters are escaped and long text is cut to ``limit`` characters, so that a
     message stays one printable line whatever the file held.
     """
-    text = value if isinstance(value, str) else repr(value)
+    try:
+        text = value if isinstance(value, str) else repr(value)
+    except ValueError:  # an int longer than Python turns into text (4300 digits by default)
+        if not isinstance(value, int):
+            raise
+        text = f"a whole number of about {value.bit_length() * 0.30103:.0f} digits"
+    except RecursionError:  # lists inside lists, thousands deep
+        text = f"a {type(value).__name__} nested too deeply to show"
     text = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
     return text if len(text) <= limit else text[: limit - 1] + "…"
