@@ -123,10 +123,17 @@ def test_found_unknown_reproduces_the_target(net, dp, data):
     others = [k for k in range(len(net.branches)) if k != i]
     kinds = ["pressure drop"] + (["total flow", "measured"] if others else [])
     kind = data.draw(st.sampled_from(kinds))
+    tol = RTOL
     if kind == "pressure drop":
         condition = PressureDrop(dp)
     elif kind == "total flow":
-        condition = TotalFlow(first.total_flow - first.flows[i] + target)
+        total = first.total_flow - first.flows[i] + target
+        condition = TotalFlow(total)
+        # The others carry total − target: when they carry a tiny part of it, that subtraction
+        # loses digits (condition number |total|/|rest|, times d ln H/d ln Q ≤ 2) whatever the
+        # solver does. The tolerance widens by exactly that much.
+        rest = abs(total - target)
+        tol += 2 * 2 * np.finfo(float).eps * abs(total) / rest
     else:
         m = data.draw(st.sampled_from(others))
         condition = MeasuredFlow(net.branches[m].name, first.flows[m])
@@ -137,7 +144,7 @@ def test_found_unknown_reproduces_the_target(net, dp, data):
         record(no_solution=True)
         return  # the clear error is an allowed outcome
     # The head is the one the as-built network had (the other branches are unchanged).
-    assert math.isclose(res.driving_head, first.driving_head, rel_tol=RTOL)
+    assert math.isclose(res.driving_head, first.driving_head, rel_tol=tol)
     assert math.isclose(res.flows[i], target, rel_tol=RTOL)
     # Feed the value back into a fresh network and solve forward.
     segs = list(net.branches[i].segments)
@@ -145,4 +152,4 @@ def test_found_unknown_reproduces_the_target(net, dp, data):
     fed = net.replace_branch(i, replace(net.branches[i], segments=tuple(segs)))
     again = solve(fed, PressureDrop(dp))
     record(abs(again.flows[i] / target - 1))
-    assert math.isclose(again.flows[i], target, rel_tol=RTOL)
+    assert math.isclose(again.flows[i], target, rel_tol=tol)
