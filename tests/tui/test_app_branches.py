@@ -18,7 +18,7 @@ def names(app) -> list[str]:
 def test_branch_table_by_keys(ui):
     async def scenario() -> None:
         app = BranchwiseApp()
-        async with app.run_test(size=(120, 36)) as pilot:
+        async with app.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             await pilot.press("f3")
             await ui.settle(pilot)

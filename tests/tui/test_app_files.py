@@ -16,7 +16,7 @@ from branchwise.tui.screens.dialogs import ChoiceScreen
 def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
     async def crash() -> None:
         app = BranchwiseApp()
-        async with app.run_test(size=(100, 30)) as pilot:
+        async with app.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             await pilot.press("v")
             await ui.type(pilot, "7.5 psi")
@@ -28,7 +28,7 @@ def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
 
     async def come_back() -> None:
         app = BranchwiseApp()
-        async with app.run_test(size=(100, 30)) as pilot:
+        async with app.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             await pilot.pause()
             assert isinstance(app.screen, ChoiceScreen)
@@ -63,7 +63,7 @@ def test_open_from_the_site_list_and_export(ui, data_dir):
 
     async def scenario() -> None:
         app = BranchwiseApp()
-        async with app.run_test(size=(100, 30)) as pilot:
+        async with app.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             await pilot.press("ctrl+o")
             listing = ui.text(app)

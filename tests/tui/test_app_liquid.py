@@ -19,7 +19,7 @@ def message(app, name: str) -> str:
 def test_liquid_by_keys(ui):
     async def scenario() -> None:
         app = BranchwiseApp()
-        async with app.run_test(size=(100, 30)) as pilot:
+        async with app.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             await pilot.press("f2")
             await ui.settle(pilot)

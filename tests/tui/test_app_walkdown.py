@@ -62,7 +62,7 @@ def flows_on_screen(app) -> dict[str, float]:
 def test_walkdown_by_keys(ui, data_dir):
     async def scenario() -> None:
         app = BranchwiseApp()
-        async with app.run_test(size=(100, 30)) as pilot:
+        async with app.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             assert app.site.title.startswith("Demo")
             before = flows_on_screen(app)
@@ -153,7 +153,7 @@ def test_walkdown_by_keys(ui, data_dir):
         assert app.return_code == 0
 
         again = BranchwiseApp()
-        async with again.run_test(size=(100, 30)) as pilot:
+        async with again.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             site = again.site
             assert site.source == saved

@@ -12,7 +12,7 @@ from __future__ import annotations
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.containers import Horizontal, Vertical
 from textual.widgets import Input, Label, Static
 
 from ..session import (
@@ -37,6 +37,7 @@ from .base import WorkScreen
 GIVEN_PREFIX = "measured:"
 FIND_LABELS = {"flows": "the flows", "diameter": "the diameter", "length": "the length",
                "roughness": "the roughness"}
+MAX_WARNING_LINES = 4
 REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb."}
 BASE_GIVENS = [("Δp across the header", "pressure_drop"), ("Total flow", "total_flow")]
 CAUTION_LINE = "Estimates only, not design: confirm on site.  ! cautions"
@@ -92,8 +93,7 @@ class SplitScreen(WorkScreen):
             yield TextTable(id="results")
             yield Static("", id="totals", markup=False)
             yield Static("", id="solved", markup=False)
-            with VerticalScroll(id="warnings"):
-                yield Static("", id="warning-text", markup=False)
+            yield _hidden(Static("", id="warnings", markup=False))
         yield Static(CAUTION_LINE, id="caution-line", markup=False)
 
     def on_mount(self) -> None:
@@ -177,7 +177,7 @@ class SplitScreen(WorkScreen):
                    (f"Major {u('head')}", True), (f"Minor {u('head')}", True)]
         totals = self.query_one("#totals", Static)
         solved = self.query_one("#solved", Static)
-        warnings = self.query_one("#warning-text", Static)
+        warnings = self.query_one("#warnings", Static)
         if shown is None or shown.solved is None:
             table.show(columns, [])
             put(totals, "… solving" if outcome is None else "No answer yet: see the message "
@@ -219,10 +219,13 @@ class SplitScreen(WorkScreen):
         lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{w.message}"
                  for w in result.warnings]
         lines += [f"• {note}" for note in (*shown.solved.notes, *result.notes)]
+        if len(lines) > MAX_WARNING_LINES:
+            more = len(lines) - MAX_WARNING_LINES + 1
+            lines = [*lines[:MAX_WARNING_LINES - 1],
+                     f"… and {more} more: all of them are in the record (r)"]
         put(warnings, "\n".join(lines))
-        box = self.query_one("#warnings")
-        if box.display != bool(lines):
-            box.display = bool(lines)
+        if warnings.display != bool(lines):
+            warnings.display = bool(lines)
 
     def _solved_text(self, shown: object) -> str:
         app = self.bw
