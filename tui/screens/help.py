@@ -66,4 +66,6 @@ def _key_text(app: object, key: str, binding: Binding) -> str:
     if key.startswith("f") and key[1:].isdigit():
         return key.upper()
     shown = app.get_key_display(Binding(key, binding.action))  # type: ignore[attr-defined]
-    return shown.replace("^", "Ctrl+") if shown.startswith("^") else shown
+    if shown.startswith("^"):
+        return "Ctrl+" + shown[1:].upper()
+    return shown[:1].upper() + shown[1:] if len(shown) > 1 else shown
