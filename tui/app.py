@@ -149,6 +149,8 @@ class BranchwiseApp(SiteFiles, App[None]):
                  "the app module started loading")
         if self._note:
             self.notify(self._note, severity="warning", timeout=8)
+        if getattr(self, "_remember_on_start", False):
+            self.save_settings()  # so that a plain `branchwise` comes back to this site
         self.request_solve()
         self.offer_recovery()
 

@@ -67,6 +67,7 @@ class SiteFiles:
         except InputError as exc:
             return demo_site(), f"Could not open {path}: {exc}. Opened the demo instead."
         self.settings.remember_site(path)
+        self._remember_on_start = True  # written once the first screen is drawn
         return site, ""
 
     # ---- recovery ---------------------------------------------------------------------------

@@ -125,3 +125,20 @@ def test_open_from_the_site_list_and_export(ui, data_dir):
             assert "Branch 1" in ui.text(app)
 
     ui.run(scenario)
+
+
+def test_branchwise_open_site_then_plain_branchwise_comes_back_to_it(ui, data_dir):
+    site = demo_site()
+    site.name = "Cooling tower loop"
+    path = save_site(site, data_dir / "elsewhere" / "tower.toml")
+
+    async def scenario() -> None:
+        app = BranchwiseApp(path)  # as `branchwise open tower.toml` starts it
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            assert app.site.source == path
+            assert "Cooling tower loop" in ui.text(app)
+
+    ui.run(scenario)
+    again = BranchwiseApp()  # as a plain `branchwise` starts it
+    assert again.site.source == path and again.site.title == "Cooling tower loop"
