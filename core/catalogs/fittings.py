@@ -26,6 +26,7 @@ from functools import cache
 
 from ..errors import InputError
 from ..model import non_negative, positive
+from ..units import describe
 from . import _data
 from .pipes import PipeSize, nominal_value, sizes
 
@@ -110,7 +111,8 @@ def fitting(key: str, field: str = "fittings") -> Fitting:
     if found is None:
         keys = list(_fittings())
         close = _data.close_matches(wanted, keys) or keys
-        raise InputError(field, key, f"unknown fitting; did you mean {_data.spoken_list(close)}")
+        raise InputError(field, describe(key),
+                         f"unknown fitting; did you mean {_data.spoken_list(close)}")
     return found
 
 

@@ -12,6 +12,7 @@ from functools import cache
 from typing import Any
 
 from ..errors import InputError
+from ..units import describe
 from . import _data
 
 
@@ -85,5 +86,6 @@ def material(key: str, field: str = "material") -> Material:
         close = _data.close_matches(wanted, list(_by_name()))
         keys = [_by_name()[c].key for c in close] or list(_materials())
         unique = list(dict.fromkeys(keys))
-        raise InputError(field, key, f"unknown material; did you mean {_data.spoken_list(unique)}")
+        raise InputError(field, describe(key),
+                         f"unknown material; did you mean {_data.spoken_list(unique)}")
     return found

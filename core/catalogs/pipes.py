@@ -18,6 +18,7 @@ from typing import Any
 
 from ..errors import InputError
 from ..model import positive
+from ..units import describe
 from . import _data
 
 INCH = 0.0254
@@ -157,7 +158,8 @@ def table(standard: str, field: str = "standard") -> _Table:
         if wanted in (full, short):
             return t
     known = standards()
-    raise InputError(field, standard, f"unknown pipe standard; known: {_data.spoken_list(known)}")
+    raise InputError(field, describe(standard),
+                     f"unknown pipe standard; known: {_data.spoken_list(known)}")
 
 
 def schedule_name(t: _Table, schedule: str) -> str | None:
@@ -211,7 +213,7 @@ def sizes(standard: str, schedule: str) -> list[PipeSize]:
     if name is None:
         valid = _data.spoken_list(list(t.schedules))
         reason = f"{t.standard} has no such schedule; it lists {valid}"
-        raise InputError("schedule", schedule, reason)
+        raise InputError("schedule", describe(schedule), reason)
     walls = t.schedules[name].walls_m
     return [make(t, s.nominal, name) for s in t.sizes if s.nominal in walls]
 

@@ -22,6 +22,7 @@ from collections.abc import Callable
 from fractions import Fraction
 
 from ..errors import InputError
+from ..units import describe
 from . import _data
 from .pipes import PipeSize, _Table, make, nominal_value, schedule_name, table
 
@@ -65,13 +66,27 @@ def _take(s: str, pattern: re.Pattern[str]) -> tuple[re.Match[str] | None, str]:
     return m, s[: m.start()] + " " + s[m.end() :]
 
 
-def _number(text: str) -> Fraction:
-    """``1-1/2``, ``1 1/2``, ``3/4``, ``2.5`` → an exact Fraction."""
+MAX_SIZE_DIGITS = 8
+"""Digits in a nominal size or DN; more is not a pipe (and would overflow the conversions)."""
+
+
+def _number(text: str, fail: Fail) -> Fraction:
+    """``1-1/2``, ``1 1/2``, ``3/4``, ``2.5`` → an exact Fraction; ``1/0`` or a number with
+    more than :data:`MAX_SIZE_DIGITS` digits → ``fail``."""
     text = re.sub(r"\s+", " ", text.strip())
-    mixed = re.fullmatch(r"(\d+)\s*[- ]\s*(\d+)\s*/\s*(\d+)", text)
-    if mixed:
-        return int(mixed[1]) + Fraction(int(mixed[2]), int(mixed[3]))
-    return Fraction(text.replace(" ", ""))
+    if sum(c.isdigit() for c in text) > MAX_SIZE_DIGITS:
+        raise fail(f"{_shown(text)} is not a pipe size (too many digits)")
+    try:
+        mixed = re.fullmatch(r"(\d+)\s*[- ]\s*(\d+)\s*/\s*(\d+)", text)
+        if mixed:
+            return int(mixed[1]) + Fraction(int(mixed[2]), int(mixed[3]))
+        return Fraction(text.replace(" ", ""))
+    except (ZeroDivisionError, ValueError):
+        raise fail(f"cannot read the size {_shown(text)}; write e.g. '3 in sch 40'") from None
+
+
+def _shown(text: str) -> str:
+    return repr(describe(text, 30))
 
 
 def parse_size(text: str, field: str = "size") -> PipeSize | None:
@@ -105,14 +120,14 @@ def parse_size(text: str, field: str = "size") -> PipeSize | None:
 
 def _unreadable(field: str, text: str, word: str) -> InputError:
     examples = "'3 in sch 40', '1 in type L', '110 mm SDR 11'"
-    return InputError(field, text, f"cannot read {word!r} here; write e.g. {examples}")
+    return InputError(field, describe(text), f"cannot read {word!r} here; write e.g. {examples}")
 
 
 def _resolve(
     text: str, field: str, found: dict[str, re.Match[str]], materials: set[str], rest: str
 ) -> PipeSize:
     def fail(reason: str) -> InputError:
-        return InputError(field, text, reason)
+        return InputError(field, describe(text), reason)
 
     if len(materials) > 1:
         raise fail(f"names more than one material ({', '.join(sorted(materials))})")
@@ -123,16 +138,16 @@ def _resolve(
     unit = "in"
     dn: int | None = None
     if "nps" in found:
-        value = _number(found["nps"]["v"])
+        value = _number(found["nps"]["v"], fail)
     if "dn" in found:
-        dn = int(found["dn"]["v"])
+        dn = int(_number(found["dn"]["v"], fail))
     if rest:
         m = _SIZE.match(rest)
         if m is None:
-            raise fail(f"cannot read the size {rest.strip()!r}; write e.g. '3 in sch 40'")
+            raise fail(f"cannot read the size {_shown(rest.strip())}; write e.g. '3 in sch 40'")
         if value is not None or dn is not None:
             raise fail("gives the size twice")
-        value = _number(m["v"])
+        value = _number(m["v"], fail)
         unit = "mm" if m["unit"] == "mm" else "in"
     if value is None and dn is None:
         raise fail("has no size; write e.g. '3 in sch 40' or 'DN 80 sch 40'")

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 from ..errors import InputError
 from ..model import Fluid
+from ..units import describe
 from .custom import custom
 from .glycol import GLYCOL_KINDS, GlycolKind, freezing_point_k, glycol
 from .seawater import seawater
@@ -68,7 +69,7 @@ def fluid_from_spec(
     """
     key = kind.strip().lower() if isinstance(kind, str) else kind
     if key not in FLUID_KINDS:
-        raise InputError("fluid.kind", kind, f"must be one of {', '.join(FLUID_KINDS)}")
+        raise InputError("fluid.kind", describe(kind), f"must be one of {', '.join(FLUID_KINDS)}")
     given = {
         "temperature_k": temperature_k,
         "pressure_pa": pressure_pa,
@@ -83,7 +84,8 @@ def fluid_from_spec(
     for arg, value in given.items():
         if value is not None and arg not in allowed:
             takes = ", ".join(_FIELDS[a].removeprefix("fluid.") for a in allowed)
-            raise InputError(_FIELDS[arg], value, f"not used for {key} (it takes {takes})")
+            raise InputError(_FIELDS[arg], describe(value),
+                             f"not used for {key} (it takes {takes})")
     for arg in _REQUIRED[key]:
         if given[arg] is None:
             raise InputError(_FIELDS[arg], "nothing", f"needed for {key}")

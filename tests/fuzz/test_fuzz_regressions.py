@@ -8,11 +8,15 @@ Robustness, no outside reference. Limits of Python itself are the cause: the rec
 
 from __future__ import annotations
 
+import tempfile
 from pathlib import Path
 
 import pytest
 
+from branchwise.core.catalogs import fittings_k, material, parse_size
 from branchwise.core.errors import InputError
+from branchwise.core.fluids import fluid_from_spec
+from branchwise.core.sitebuild import build
 from branchwise.core.sitefile import load_site, parse_site
 from branchwise.core.tomlfile import MAX_DEPTH, migrate
 
@@ -81,6 +85,70 @@ def test_format_and_kind_errors_stay_on_one_line(tmp_path: Path, line: str, fiel
         load_site(path)
     assert caught.value.field == f"site.toml {field}"
     assert "\n" not in str(caught.value) and "\r" not in str(caught.value), str(caught.value)
+
+
+ODD_SIZES = ["2-1/0 in sch 40", "1/0 in sch 40", "nps " + "9" * 5000 + " sch 40",
+             "DN" + "9" * 5000 + " sch 40", "9" * 5000 + " mm SDR 11", "3 in\nsch 41",
+             "3 in sch 40 \n pvc copper"]
+
+
+@pytest.mark.parametrize("text", ODD_SIZES, ids=range(len(ODD_SIZES)))
+def test_odd_pipe_size_text_is_one_line_naming_the_field(text: str) -> None:
+    # Found: "2-1/0 in sch 40" raised ZeroDivisionError, 5000 digits a ValueError.
+    with pytest.raises(InputError) as caught:
+        parse_size(text, "branches[1].size")
+    assert caught.value.field == "branches[1].size"
+    assert "\n" not in str(caught.value) and len(str(caught.value)) < 400
+
+
+def test_catalog_and_fluid_errors_show_text_on_one_line() -> None:
+    # Found: a key or name holding a newline was shown as typed, splitting the message.
+    for call in (lambda: fittings_k({"elbow\n91": 1}, 0.05, "fittings"),
+                 lambda: material("steel\nold", "material"),
+                 lambda: fluid_from_spec("water", temperature_k=293.15, name="a\nb"),
+                 lambda: fluid_from_spec("sea\nwater", temperature_k=293.15)):
+        with pytest.raises(InputError) as caught:
+            call()
+        assert "\n" not in str(caught.value), str(caught.value)
+
+
+# ---- left for the owner of core/sitebuild.py -----------------------------------------------
+# These errors show the value as typed; text with a line break splits the message (the CLI
+# joins the lines, the app would show two). Suggested fix: pass describe(value) as at the
+# other raises there, or have InputError itself show its value on one line (core/errors.py).
+
+BASE = ('[fluid]\nkind = "water"\ntemperature = "20 degC"\n[conditions]\npressure_drop = "1 kPa"\n'
+        '[[branches]]\nname = "A"\ndiameter = "50 mm"\nlength = "10 m"\nroughness = "0.05 mm"\n')
+
+
+def _raw_value_site(case: str) -> str:
+    if case == "unknown fluid kind":
+        return BASE.replace('kind = "water"', 'kind = "0\\n0"')
+    if case == "pipe condition":
+        return BASE.replace('roughness = "0.05 mm"', 'material = "pvc"\ncondition = "new\\nx"')
+    if case == "solve.find":
+        return BASE + '[solve]\nfind = "x\\ny"\n'
+    if case == "friction":
+        return BASE.replace('pressure_drop = "1 kPa"\n',
+                            'pressure_drop = "1 kPa"\nfriction = "x\\ny"\n')
+    return BASE + '[[branches]]\nname = "A\\nB"\ndiameter = "50 mm"\nlength = "1 m"\n' \
+        'roughness = "0.05 mm"\n' + '[[branches]]\nname = "a\\nb"\ndiameter = "50 mm"\n' \
+        'length = "1 m"\nroughness = "0.05 mm"\n'
+
+
+@pytest.mark.xfail(strict=True, reason="sitebuild shows these values raw: a newline splits the "
+                   "message")
+@pytest.mark.parametrize(("case", "field"), [
+    ("unknown fluid kind", "fluid.kind"), ("pipe condition", "branches[0].condition"),
+    ("solve.find", "solve.find"), ("friction", "conditions.friction"),
+    ("duplicate branch name", "branches[2].name")])
+def test_sitebuild_errors_stay_on_one_line(case: str, field: str) -> None:
+    with tempfile.TemporaryDirectory() as folder, pytest.MonkeyPatch.context() as mp:
+        mp.setenv("BRANCHWISE_DATA_DIR", folder)  # no user fluid presets
+        with pytest.raises(InputError) as caught:
+            build(parse_site(_raw_value_site(case)))
+    assert caught.value.field == field, str(caught.value)
+    assert "\n" not in str(caught.value), str(caught.value)
 
 
 # ---- left for the owner of core/sitefile.py ----------------------------------------------
