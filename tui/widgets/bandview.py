@@ -1,0 +1,147 @@
+"""The uncertainty band as the Split screen shows it: P5–P95 of every branch flow, the total
+flow, the pressure drop and a found unknown, then the inputs ranked by their part in the spread.
+
+The numbers come from :func:`branchwise.core.sitesolve.with_uncertainty` (run in a worker by the
+screen); this module only lays them out in the app's display units. A band belongs to one
+revision of the site: once the site changes it is drawn greyed under a line saying so, never as
+if it were current.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+from rich.cells import cell_len
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.containers import ScrollableContainer
+from textual.widgets import Static
+
+from .quiet import put
+
+if TYPE_CHECKING:
+    from branchwise.core.sitesolve import SiteResult
+
+    from ..app import BranchwiseApp
+
+RANK_BAR = 14
+"""Cells of a full bar in the ranking (a share of 100 %)."""
+
+
+@dataclass(frozen=True, eq=False)
+class Band:
+    """The band worked out for one revision of the site: ``solved`` carries it in
+    :attr:`SiteResult.uncertainty`; or ``error`` says why there is none (``field``: the path
+    of the input at fault, such as ``tolerances.gauge_full_scale``)."""
+
+    revision: int
+    solved: SiteResult | None
+    error: str = ""
+    field: str = ""
+
+
+class BandView(ScrollableContainer, can_focus=True):
+    """A state line (current, stale, computing, or why there is no band), then the band and
+    the ranking, greyed while stale. Scrolls both ways on a small terminal."""
+
+    DEFAULT_CSS = """
+    BandView { height: 1fr; overflow-x: auto; overflow-y: auto; padding: 0 1; }
+    BandView > Static { width: auto; }
+    BandView:focus > #band-body { background: $boost; }
+    BandView.-stale > #band-body { opacity: 50%; }
+    """
+
+    def compose(self) -> ComposeResult:
+        yield Static("", id="band-head", markup=False)
+        yield Static("", id="band-body", markup=False)
+
+    def show(self, head: Text, body: Text, stale: bool) -> None:
+        put(self.query_one("#band-head", Static), head)
+        put(self.query_one("#band-body", Static), body)
+        self.set_class(stale, "-stale")
+
+
+def short_name(name: str) -> str:
+    """``branch 'AHU-1 coil' roughness`` → ``AHU-1 coil roughness``."""
+    return re.sub(r"branch '(.*?)'", r"\1", name)
+
+
+def _signed_percent(value: float) -> str:
+    return f"{value:+.1f} %".replace("-", "−")
+
+
+def band_body(app: BranchwiseApp, sr: SiteResult) -> Text:
+    """The band table and the ranking with bars, in the app's display units."""
+    from branchwise.core import bandtext
+    from branchwise.core.units import format_number
+
+    u = sr.uncertainty
+    if u is None:
+        return Text()
+    rows: list[list[str]] = []
+    for name, b in u.outputs.items():
+        kind = bandtext.kind_of(sr, name)
+        if name.endswith("(found)") and sr.result.solved is not None:
+            label = f"{sr.result.solved.quantity.capitalize()} of {sr.result.solved.branch}"
+        elif name.startswith("branch '"):
+            label = short_name(name).removesuffix(" flow")
+        else:
+            label = {"total flow": "Total flow", "pressure drop": "Δp"}.get(name, name)
+        cells = [app.fmt(v, kind, unit=False) for v in (b.nominal, b.p5, b.p50, b.p95)]
+        spread = ""
+        if b.nominal != 0 and all(v == v for v in (b.p5, b.p95)):  # NaN: no draw answered
+            spread = (f"{_signed_percent((b.p5 / b.nominal - 1) * 100)} … "
+                      f"{_signed_percent((b.p95 / b.nominal - 1) * 100)}")
+        rows.append([label, *cells, app.unit_text(kind), spread])
+    out = _table(["", "Value", "P5", "P50", "P95", "", "P5 … P95"],
+                 [False, True, True, True, True, False, False], rows)
+    focus = bandtext.focus(sr)
+    if focus is not None:
+        top, more, rest = bandtext.ranked(u, focus)
+        what = {"total flow": "total flow", "pressure drop": "pressure drop"}.get(
+            focus, "found " + (sr.result.solved.quantity if sr.result.solved else "value"))
+        out.append(f"\n\nWhat dominates the spread of the {what} — measure these first:\n",
+                   style="bold")
+        if not top:
+            out.append(f"  no input tolerance moves the {what}", style="dim")
+        limits = {i.name: bandtext.tolerance_text(i, app.unit_system) for i in u.inputs}
+        name_w = max((cell_len(short_name(n)) for n, _ in top), default=0)
+        limit_w = max((cell_len(limits.get(n, "")) for n, _ in top), default=0)
+        for i, (name, share) in enumerate(top):
+            out.append(("\n" if i else "") + f"  {short_name(name).ljust(name_w)}  "
+                       f"{limits.get(name, '').ljust(limit_w)}  ")
+            out.append(bandtext.bar(share, RANK_BAR), style="cyan")
+            out.append(f" {format_number(share * 100, 3).rjust(5)} %")
+        if more:
+            out.append(f"\n  … {more} more input{'s' if more > 1 else ''}, "
+                       f"{format_number(rest * 100, 2)} % together", style="dim")
+    return out
+
+
+def _table(header: list[str], right: list[bool], rows: list[list[str]]) -> Text:
+    widths = [max(cell_len(r[c]) for r in [header, *rows]) for c in range(len(header))]
+    out = Text(no_wrap=True, overflow="crop")
+    for c, label in enumerate(header):
+        out.append(" " + (label.rjust(widths[c]) if right[c] else label.ljust(widths[c])) + " ",
+                   style="bold reverse")
+    for row in rows:
+        out.append("\n")
+        for c, cell in enumerate(row):
+            out.append(" " + (cell.rjust(widths[c]) if right[c] else cell.ljust(widths[c])) + " ")
+    return out
+
+
+def band_notes(app: BranchwiseApp, sr: SiteResult) -> Text:
+    """Where the tolerances come from, and the notes of the computation."""
+    u = sr.uncertainty
+    source = ("the site's [tolerances], common practice where it is silent"
+              if sr.site.tolerances is not None else "common-practice defaults")
+    out = Text(f"\n\nTolerances: {source}  (l: see and change them)", style="dim")
+    for note in u.notes if u is not None else ():
+        out.append(f"\n• {note}", style="yellow")
+    return out
+
+
+__all__ = ["Band", "BandView", "band_body", "band_notes", "short_name"]
