@@ -202,24 +202,24 @@ def load_toml(path: Path, field: str = "") -> dict[str, Any]:
 
 
 MAX_DEPTH = 20
-"""Lists and tables inside each other beyond this many levels are refused. The deepest file
-branchwise writes has six (a site's branches, a branch's segments, a segment's fittings); the
-limit keeps the recursive parser and the copies made of a document far from Python's
-recursion limit, so a damaged file is an error message, not a crash."""
+"""Lists and tables inside each other beyond this many levels are refused (a site file has six
+at most): far below Python's recursion limit, so a damaged file is a message, not a crash."""
 
+_DEEP_KEY = re.compile(  # more than MAX_DEPTH parts: Python's parser takes time as parts²
+    r"^[ \t]*\[{0,2}[ \t]*(?:(?:[\w-]++|\"[^\"\n]*+\"|'[^'\n]*+')[ \t]*\.[ \t]*)"
+    + f"{{{MAX_DEPTH}}}", re.MULTILINE | re.ASCII)
+"""A dotted key (``a.b.c = 1``, ``[a.b.c]``) too deep, at the start of a line."""
 _TOO_DEEP = (f"lists or tables are nested more than {MAX_DEPTH} levels deep "
              "(a site file needs a handful)")
 
 
 def parse_toml(text: str, field: str) -> dict[str, Any]:
-    """Parse TOML ``text``, the contents of the file named ``field``, into plain values.
-
-    Besides the parser's own complaints (reported as by :func:`load_toml`), damaged text can
-    make Python's parser fail in two other ways; both become InputErrors naming the line:
-    lists or inline tables nested past the recursion limit, and a whole number longer than
-    Python converts from text (``sys.get_int_max_str_digits()``, 4300 digits by default).
-    A document nested more than :data:`MAX_DEPTH` levels is refused as well.
-    """
+    """Parse TOML ``text`` of the file named ``field``. Besides the parser's complaints (as in
+    :func:`load_toml`), InputErrors naming the line for what breaks Python's parser itself:
+    nesting past :data:`MAX_DEPTH` (the recursion limit, or time growing as depth²) and a
+    whole number longer than ``sys.get_int_max_str_digits()`` (4300 digits by default)."""
+    if deep := _DEEP_KEY.search(text):  # before parsing: its time grows as depth²
+        raise _located(field, text, text.count("\n", 0, deep.start()) + 1, _TOO_DEEP)
     try:
         doc = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
