@@ -194,10 +194,15 @@ class BranchForm(ModalScreen[BranchSpec | None]):
         return self._fitting_keys
 
     def on_field_edited(self, event: Field.Edited) -> None:
-        event.field.set_error(self.check(event.field))
+        if not self._rebuilding:
+            event.field.set_error(self.check(event.field))
 
     def on_field_done(self, event: Field.Done) -> None:
-        self.apply()
+        # An Enter typed just before Ctrl+N/Ctrl+R can arrive while the fields are being
+        # rebuilt (the branch already has its new segments, the fields not yet): the form
+        # stays open on the new layout, and Enter there applies it.
+        if not self._rebuilding:
+            self.apply()
 
     def apply(self) -> None:
         bad = [(f, m) for f in self.query(Field) if (m := self.check(f))]
@@ -220,27 +225,41 @@ class BranchForm(ModalScreen[BranchSpec | None]):
                 return int(head) if head.isdigit() else 0
         return 0
 
+    _rebuilding = False
+    """True while the fields are rebuilt for a segment added or removed."""
+
     async def action_add_segment(self) -> None:
+        if self._rebuilding:
+            return
         j = self._segment_in_focus()
-        self.branch = self.collect()
-        seg = self.branch.segments[j]
-        self.branch.segments.insert(j + 1, SegmentSpec(
+        branch = self.collect()
+        seg = branch.segments[j]
+        branch.segments.insert(j + 1, SegmentSpec(
             size=seg.size, diameter=seg.diameter, material=seg.material,
             condition=seg.condition, roughness=seg.roughness))
-        self._focus_segment = j + 1
-        await self.recompose()
-        self.on_mount()
+        await self._rebuild(branch, j + 1)
 
     async def action_remove_segment(self) -> None:
+        if self._rebuilding:
+            return
         if len(self.branch.segments) < 2:
             self.notify("A branch keeps at least one segment.", severity="warning")
             return
         j = self._segment_in_focus()
-        self.branch = self.collect()
-        self.branch.segments.pop(j)
-        self._focus_segment = max(0, j - 1)
-        await self.recompose()
-        self.on_mount()
+        branch = self.collect()
+        branch.segments.pop(j)
+        await self._rebuild(branch, max(0, j - 1))
+
+    async def _rebuild(self, branch: BranchSpec, focus_segment: int) -> None:
+        """Show ``branch`` (one more or one fewer segment) with the focus on a segment."""
+        self._rebuilding = True
+        try:
+            self.branch = branch
+            self._focus_segment = focus_segment
+            await self.recompose()
+            self.on_mount()
+        finally:
+            self._rebuilding = False
 
     def action_cancel(self) -> None:
         self.dismiss(None)
