@@ -51,3 +51,12 @@ def test_enter_then_ctrl_n_in_the_branch_form(ui, sandbox, data_dir, monkeypatch
 
     ui.run(scenario)
 
+
+@pytest.mark.parametrize("keys", [["f3", "ctrl+q"], ["f2", "ctrl+q"]])
+def test_quit_while_a_screen_is_being_built(keys, sandbox, data_dir):
+    """Found by the driver's own quit test: F3 (or F2) then Ctrl+Q before the screen was
+    built. The app quit, then the new screen's mount ran without its widgets and raised
+    NoMatches ('#cell-editor', '#liquid-kind-select') on the way out."""
+    report = keyfuzz.drive(keys, sandbox=sandbox, data_dir=data_dir, timeout=60)
+    assert not report.problems, report.describe()
+    assert report.quits == 1 and report.pressed == 2

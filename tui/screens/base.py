@@ -39,6 +39,8 @@ class WorkScreen(Screen):
     """False until the widgets have settled (an input may report its first value as a change)."""
 
     def on_mount(self) -> None:
+        if not self.is_attached:
+            return  # the app quit while this screen was being built: nothing to draw
         for name in ("revision", "outcome", "unit_system"):
             self.watch(self.bw, name, self._changed, init=False)
         self.redraw()

@@ -77,14 +77,15 @@ class BranchesScreen(WorkScreen):
         with Vertical(id="branches"):
             yield DataTable(id="branch-table", cursor_type="cell", zebra_stripes=True)
             yield Static("", id="branch-message", classes="message", markup=False)
-            with Horizontal(id="cell-editor"):
+            editor = Horizontal(id="cell-editor")
+            editor.display = False  # shown while a cell is edited
+            with editor:
                 yield Label("", id="cell-label", markup=False)
                 yield Input(id="cell-input", compact=True)
 
     def on_mount(self) -> None:
         self._rows: list[tuple[int, int]] = []
         self._editing: tuple[int, int, str] | None = None
-        self.query_one("#cell-editor").display = False
         super().on_mount()
 
     # ---- drawing ---------------------------------------------------------------------------------
