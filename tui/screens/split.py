@@ -32,7 +32,7 @@ from ..widgets.choice import Choice
 from ..widgets.quiet import put, show_text
 from ..widgets.sharebar import share_bar
 from ..widgets.texttable import TextTable
-from .base import WorkScreen
+from .splitpanels import PANEL_BINDINGS, PanelScreen
 
 GIVEN_PREFIX = "measured:"
 FIND_LABELS = {"flows": "the flows", "diameter": "the diameter", "length": "the length",
@@ -43,8 +43,8 @@ BASE_GIVENS = [("Δp across the header", "pressure_drop"), ("Total flow", "total
 CAUTION_LINE = "Estimates only, not design: confirm on site.  ! cautions"
 
 
-class SplitScreen(WorkScreen):
-    """Given, find, and the answer."""
+class SplitScreen(PanelScreen):
+    """Given, find, and the answer (or, in its place, the uncertainty band or the curve)."""
 
     AUTO_FOCUS = "#results"
 
@@ -62,7 +62,8 @@ class SplitScreen(WorkScreen):
         Binding("c", "export('csv')", "CSV", id="split-csv",
                 tooltip="Write the results table as CSV"),
         Binding("escape", "focus('results')", "Table", id="split-table", show=False,
-                tooltip="Leave the field and go to the results table"),
+                tooltip="Leave the field and go to the results (table or band)"),
+        *PANEL_BINDINGS,
     ]
 
     def body(self) -> ComposeResult:
@@ -91,13 +92,11 @@ class SplitScreen(WorkScreen):
             yield _hidden(Static("", id="find-message", classes="message", markup=False))
         with Vertical(id="split-results"):
             yield TextTable(id="results")
+            yield from self.panel_widgets()
             yield Static("", id="totals", markup=False)
             yield Static("", id="solved", markup=False)
             yield _hidden(Static("", id="warnings", markup=False))
         yield Static(CAUTION_LINE, id="caution-line", markup=False)
-
-    def on_mount(self) -> None:
-        super().on_mount()
 
     # ---- drawing ---------------------------------------------------------------------------------
 
@@ -105,6 +104,7 @@ class SplitScreen(WorkScreen):
         with self.prevent(Input.Changed):
             self._draw_inputs()
             self._draw_results()
+        self.draw_panel()
 
     def _draw_inputs(self) -> None:
         app, site = self.bw, self.bw.site
@@ -150,6 +150,9 @@ class SplitScreen(WorkScreen):
             text = error_text(outcome.error, self.bw.site)
             if ref.area == "conditions" or ref.name == "measured_flow":
                 given_msg = text
+            elif outcome.field.startswith("tolerances."):
+                name = outcome.field.removeprefix("tolerances.").replace("_", " ")
+                given_msg = f"{name} (tolerances){text.removeprefix(outcome.field)}  (l)"
             elif ref.area == "solve":
                 find_msg = text
         for ident, message in (("#given-message", given_msg), ("#find-message", find_msg)):
@@ -275,7 +278,7 @@ class SplitScreen(WorkScreen):
                      key="target")
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
-        self.query_one("#results", TextTable).focus()
+        self.action_focus("results")
 
     def _switch_given(self, value: str) -> None:
         app = self.bw
@@ -342,8 +345,10 @@ class SplitScreen(WorkScreen):
     # ---- keys ------------------------------------------------------------------------------------
 
     def action_focus(self, ident: str) -> None:
-        widget = self.query_one(f"#{ident}")
-        if widget.display:
+        widget = self.main_view() if ident == "results" else self.query_one(f"#{ident}")
+        if widget is None:
+            self.set_focus(None)  # the curve: nothing to type into, keys work from the screen
+        elif widget.display:
             widget.focus()
 
     def action_export(self, fmt: str) -> None:
