@@ -171,6 +171,20 @@ def test_sitebuild_errors_stay_on_one_line(case: str, field: str) -> None:
     assert "\n" not in str(caught.value), str(caught.value)
 
 
+@pytest.mark.xfail(strict=True, reason="sitebuild.plain_number: float() of a huge int raises "
+                   "OverflowError")
+@pytest.mark.parametrize(("line", "field"), [
+    ("minor_k = " + "9" * 400, "branches[0].minor_k"),
+    ("valve_kv = " + "9" * 400, "branches[0].valve_kv"),
+    ("fittings = { elbow-90 = " + "9" * 400 + " }", "branches[0].fittings.elbow-90")])
+def test_plain_number_beyond_the_float_range_names_the_field(line: str, field: str) -> None:
+    # Found by the large profile: TOML integers have no size limit; float() overflows past
+    # about 1.8e308. Suggested fix: catch OverflowError in plain_number, as parse_quantity does.
+    with pytest.raises(InputError) as caught:
+        build(parse_site(BASE + line + "\n"))
+    assert caught.value.field == field
+
+
 # ---- left for the owner of core/sitefile.py ----------------------------------------------
 # parse_site (the app's path for text it already holds) calls tomllib.loads itself and catches
 # only TOMLDecodeError. Suggested fix: parse with branchwise.core.tomlfile.parse_toml(text,

@@ -93,7 +93,17 @@ def outcome(run: Callable[[], object]) -> tuple[str, BranchwiseError | None]:
     except NoSolutionError as exc:
         check_names_a_field(exc)
         return "no-solution", exc
+    except OverflowError as exc:
+        if not _known_overflow(exc):
+            raise
+        return "known-overflow", None
     return "ok", None
+
+
+def _known_overflow(exc: OverflowError) -> bool:
+    """sitebuild.plain_number's float() of a TOML integer past 1.8e308, left to the owner of
+    sitebuild.py (test_fuzz_regressions.py, strict xfail); counted, not hidden."""
+    return _raised_in(exc, "sitebuild.py")
 
 
 def _parse_site_known_bug(exc: BranchwiseError | None) -> bool:
@@ -153,7 +163,13 @@ def cli_solve(folder: Path, data: bytes, fmt: str, units: str) -> int:
     path = _fresh(folder, data)
     out, err = io.StringIO(), io.StringIO()
     with time_limit("cli"), contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
-        code = main(["solve", str(path), "--format", fmt, "--units", units])
+        try:
+            code = main(["solve", str(path), "--format", fmt, "--units", units])
+        except OverflowError as exc:
+            if not _known_overflow(exc):
+                raise
+            STATS["cli known-overflow"] += 1
+            return -1
     assert code in (0, 2), code
     if code == 0:
         assert out.getvalue().strip() and err.getvalue() == "", err.getvalue()
