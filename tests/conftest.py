@@ -22,5 +22,7 @@ def pytest_terminal_summary(terminalreporter):
     if stats and stats["cases"]:
         terminalreporter.write_line(
             f"solver fuzz: {stats['cases']} cases, {stats['no_solution']} ended in the clear "
-            f"no-solution error, worst relative residual {stats['worst_residual']:.2e}"
+            f"no-solution error, worst relative residual {stats['worst_residual']:.2e}; "
+            f"{stats['ill_conditioned']} ill-conditioned total-flow cases within their "
+            f"widened tolerance (worst {stats['worst_ill_conditioned']:.2e})"
         )
