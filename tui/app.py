@@ -19,7 +19,6 @@ _STARTED = time.perf_counter()
 from textual import work  # noqa: E402  (the clock above starts before Textual loads)
 from textual.app import App, SystemCommand  # noqa: E402
 from textual.binding import Binding  # noqa: E402
-from textual.command import CommandPalette  # noqa: E402
 from textual.message import Message  # noqa: E402
 from textual.reactive import reactive  # noqa: E402
 from textual.screen import ModalScreen, Screen  # noqa: E402
@@ -33,6 +32,7 @@ from .files import SiteFiles  # noqa: E402
 from .outcome import Outcome  # noqa: E402
 from .screens.split import SplitScreen  # noqa: E402
 from .session import Session  # noqa: E402
+from .widgets.bandview import Band  # noqa: E402
 
 KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
@@ -110,6 +110,8 @@ class BranchwiseApp(SiteFiles, App[None]):
         self.set_reactive(BranchwiseApp.unit_system, self.settings.unit_system)
         self.good: Outcome | None = None
         """The last outcome without an error: shown greyed while the present one is wrong."""
+        self.latest_band: Band | None = None
+        """The last uncertainty band the Split screen worked out (exports use it if current)."""
         self.startup_seconds: float | None = None
         site, note = self.first_site(Path(site_path) if site_path else None)
         self.session = Session(site)
@@ -232,11 +234,16 @@ class BranchwiseApp(SiteFiles, App[None]):
             self.refresh_bindings()
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
-        """Grey out (None) what cannot be done now; hide nothing. Under a dialog the app's
-        keys stand aside (False), so that the dialog's own keys work."""
-        if action in self._own_actions() and isinstance(self.screen, ModalScreen) and \
-                not isinstance(self.screen, CommandPalette):
+        """Grey out (None) what cannot be done now; hide nothing. Under a dialog, the command
+        palette included, the app's keys stand aside (False): the dialog's own keys work, and
+        no dialog opens over one that is closing (a dialog closes by taking the top screen
+        off, so it would close the newcomer instead of itself)."""
+        if action in self._own_actions() and isinstance(self.screen, ModalScreen):
             return False
+        return self.available(action, parameters)
+
+    def available(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        """Whether an app action can run on the screen below any dialog (None: greyed)."""
         if action == "show" and parameters and parameters[0] == self.current_mode:
             return None
         if action == "undo" and not self.session.undo_stack:
@@ -320,7 +327,9 @@ class BranchwiseApp(SiteFiles, App[None]):
                 if not binding.description:
                     continue
                 name = binding.action.split("(")[0]
-                if target is not None and target.check_action(name, ()) is False:
+                state = self.available(name, ()) if target is self else \
+                    target.check_action(name, ()) if target is not None else True
+                if state is False:
                     continue
                 key = self.get_key_display(binding)
                 yield SystemCommand(f"{binding.description} ({key})",

@@ -266,6 +266,11 @@ class SiteFiles:
         suffix = ".md" if fmt == "markdown" else ".csv"
         name = f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}"
         solved, system = outcome.solved, self.unit_system
+        band = getattr(self, "latest_band", None)
+        with_band = (band is not None and band.solved is not None
+                     and band.revision == self.session.revision)
+        if with_band:
+            solved = band.solved  # the same answer, with its P5–P95 band
 
         def chosen(path: Path | None) -> None:
             if path is None:
@@ -279,7 +284,8 @@ class SiteFiles:
             except InputError as exc:
                 self.notify(str(exc), title="Not written", severity="error", timeout=10)
                 return
-            self.notify(f"Wrote {path}", timeout=5)
+            extra = " (with the P5–P95 band)" if with_band else ""
+            self.notify(f"Wrote {path}{extra}", timeout=5)
 
         title = "Walkdown record (Markdown)" if fmt == "markdown" else "Results (CSV)"
         self.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix,

@@ -106,12 +106,13 @@ def locate(path: str) -> FieldRef:
         if name in ("segments", "branches"):
             name = ""
         return FieldRef("branches", name, index, segment)
-    if head in ("fluid", "conditions", "solve"):
+    if head in ("fluid", "conditions", "solve", "tolerances"):
         return FieldRef(head, "" if name == head else name)
     return FieldRef("site", name)
 
 
-AREA_LABELS = {"fluid": "liquid", "conditions": "given", "solve": "find", "site": ""}
+AREA_LABELS = {"fluid": "liquid", "conditions": "given", "solve": "find",
+               "tolerances": "tolerance:", "site": ""}
 
 
 def field_label(site: Site, path: str) -> str:

@@ -16,6 +16,7 @@ from test_app_snapshots import FixedClock, shot
 
 import branchwise.core.sitesolve as sitesolve
 import branchwise.tui.outcome as outcome_module
+from branchwise.core.paths import sites_dir
 from branchwise.core.sitefile import demo_text, load_site
 from branchwise.core.units import format_number
 from branchwise.tui.app import BranchwiseApp
@@ -125,6 +126,21 @@ def test_band_by_keys(ui, monkeypatch):
             await until(pilot, lambda: screen.band_state() == "current")
             assert screen.band.revision == app.session.revision
             check_band(app, ui)
+
+            # The walkdown record written now carries the band; after an edit it does not.
+            await pilot.press("escape", "r", "enter")
+            await until(pilot, lambda: any(sites_dir().glob("*.md")))
+            record = next(sites_dir().glob("*.md"))
+            assert "## Uncertainty" in record.read_text(encoding="utf-8")
+            record.unlink()
+            screen.band_pause = 60.0
+            await pilot.press("v")
+            await ui.type(pilot, "13 psi")
+            await ui.settle(pilot)
+            await pilot.press("escape", "r", "enter")
+            await until(pilot, lambda: any(sites_dir().glob("*.md")))
+            text = next(sites_dir().glob("*.md")).read_text(encoding="utf-8")
+            assert "13 psi" in text and "## Uncertainty" not in text
 
     ui.run(scenario)
 

@@ -150,9 +150,8 @@ class SplitScreen(PanelScreen):
             text = error_text(outcome.error, self.bw.site)
             if ref.area == "conditions" or ref.name == "measured_flow":
                 given_msg = text
-            elif outcome.field.startswith("tolerances."):
-                name = outcome.field.removeprefix("tolerances.").replace("_", " ")
-                given_msg = f"{name} (tolerances){text.removeprefix(outcome.field)}  (l)"
+            elif ref.area == "tolerances":
+                given_msg = f"{text}  (l to change)"
             elif ref.area == "solve":
                 find_msg = text
         for ident, message in (("#given-message", given_msg), ("#find-message", find_msg)):

@@ -172,6 +172,7 @@ class PanelScreen(WorkScreen):
             self._band_running = None
         if self.band is None or band.revision >= self.band.revision:
             self.band = band
+            self.bw.latest_band = band  # the exports include it while it is current
         self._panel_changed()
 
     def _panel_changed(self) -> None:

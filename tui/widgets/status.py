@@ -18,7 +18,7 @@ if TYPE_CHECKING:
 
 GIVEN_LABELS = {"pressure_drop": "Δp across the header", "total_flow": "total flow"}
 AREA_KEYS = {"fluid": "F2 Liquid", "branches": "F3 Branches", "conditions": "F4 Split",
-             "solve": "F4 Split", "site": "F3 Branches"}
+             "solve": "F4 Split", "tolerances": "F4 Split, l tolerances", "site": "F3 Branches"}
 
 
 class StatusStrip(Static):
