@@ -50,6 +50,9 @@ class BranchesScreen(WorkScreen):
 
     AUTO_FOCUS = "#branch-table"
     CSS_PATH = Path(__file__).parent.parent / "branches.tcss"
+    # Until the first draw (keys typed ahead can ask check_action before on_mount runs):
+    _rows: list[tuple[int, int]] = []
+    _editing: tuple[int, int, str] | None = None
 
     BINDINGS = [
         Binding("enter", "edit_cell", "Edit", id="branches-edit",
@@ -84,8 +87,8 @@ class BranchesScreen(WorkScreen):
                 yield Input(id="cell-input", compact=True)
 
     def on_mount(self) -> None:
-        self._rows: list[tuple[int, int]] = []
-        self._editing: tuple[int, int, str] | None = None
+        self._rows = []
+        self._editing = None
         super().on_mount()
 
     # ---- drawing ---------------------------------------------------------------------------------
