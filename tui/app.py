@@ -339,6 +339,20 @@ class BranchwiseApp(SiteFiles, App[None]):
             if command.title not in ("Quit", "Keys"):
                 yield command
 
+    def action_command_palette(self) -> None:
+        """Textual's palette, closing once; not a second one while the last one is still
+        being taken down (a burst of Ctrl+P, Esc, Ctrl+P)."""
+        from textual.command import CommandPalette
+
+        from .screens.palette import Palette
+
+        last = getattr(self, "_palette", None)
+        if not self.use_command_palette or CommandPalette.is_open(self) or (
+                last is not None and last.is_attached):
+            return
+        self._palette = Palette(id="--command-palette")
+        self.push_screen(self._palette)
+
     def save_settings(self) -> None:
         from branchwise.core.errors import InputError
 

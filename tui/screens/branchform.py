@@ -14,7 +14,6 @@ from collections.abc import Callable
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
-from textual.screen import ModalScreen
 from textual.widgets import Label, Static
 
 from branchwise.core.errors import InputError
@@ -31,6 +30,7 @@ from ..widgets.branchcells import (
     wall_text,
 )
 from ..widgets.field import Field
+from .dialogs import Dialog
 
 SEGMENT_FIELDS = (
     ("size", "Size or bore", "diameter"),
@@ -65,7 +65,7 @@ def fittings_text(fittings: dict[str, object]) -> str:
     return ", ".join(f"{key} {text_of(count)}" for key, count in fittings.items())
 
 
-class BranchForm(ModalScreen[BranchSpec | None]):
+class BranchForm(Dialog[BranchSpec | None]):
     """Edit one branch. ``unit`` gives the display unit of a kind of quantity."""
 
     BINDINGS = [

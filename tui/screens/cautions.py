@@ -5,8 +5,9 @@ from __future__ import annotations
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Label, Static
+
+from .dialogs import Dialog
 
 CAUTIONS = (
     "Pressurised, hot or hazardous lines can injure. Keep clear of them unless the owner's "
@@ -19,7 +20,7 @@ CAUTIONS = (
 )
 
 
-class CautionsScreen(ModalScreen[None]):
+class CautionsScreen(Dialog[None]):
     BINDINGS = [Binding("escape,q,exclamation_mark,f7", "close", "Close", id="cautions-close")]
     DEFAULT_CSS = """
     CautionsScreen { align: center middle; }

@@ -3,16 +3,39 @@
 from __future__ import annotations
 
 from pathlib import Path
+from typing import TypeVar
 
 from textual.app import ComposeResult
+from textual.await_complete import AwaitComplete
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, Label, Static
 from textual.widgets.input import Selection
 
+ResultT = TypeVar("ResultT")
 
-class ChoiceScreen(ModalScreen[str | None]):
+
+async def _nothing() -> None:
+    return None
+
+
+class Dialog(ModalScreen[ResultT]):
+    """A dialog that closes once.
+
+    Keys typed in a burst (a double Enter, Enter then Esc) can reach a dialog after the first
+    of them has closed it; Textual's ``dismiss`` takes the top screen off, so a second close
+    would take away the screen below (the app's last screen: ScreenStackError). Here a close
+    of a dialog that is no longer on top does nothing.
+    """
+
+    def dismiss(self, result: ResultT | None = None) -> AwaitComplete:
+        if self.app.screen is not self:
+            return AwaitComplete(_nothing())
+        return super().dismiss(result)
+
+
+class ChoiceScreen(Dialog[str | None]):
     """A question with a few answers; each answer has a key. Escape picks the escape answer
     (or None when there is none)."""
 
@@ -52,7 +75,7 @@ class ChoiceScreen(ModalScreen[str | None]):
             self.dismiss(None)
 
 
-class SaveAsScreen(ModalScreen[Path | None]):
+class SaveAsScreen(Dialog[Path | None]):
     """Ask for a file name (in ``folder`` unless the person types a path)."""
 
     BINDINGS = [Binding("escape", "cancel", "Cancel", id="dialog-cancel")]

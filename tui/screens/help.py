@@ -7,8 +7,9 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import VerticalScroll
-from textual.screen import ModalScreen
 from textual.widgets import Static
+
+from .dialogs import Dialog
 
 ABOUT = (
     "Values: every field takes a number with any unit (250 ft, 76 m, 12 psi, 400 gpm, 65 degF);"
@@ -20,7 +21,7 @@ ABOUT = (
 )
 
 
-class HelpScreen(ModalScreen[None]):
+class HelpScreen(Dialog[None]):
     """Keys by screen, then the app-wide keys, from the live binding lists."""
 
     BINDINGS = [Binding("escape,f1,q", "close", "Close", id="help-close")]

@@ -8,17 +8,18 @@ from pathlib import Path
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import DataTable, Input, Label, Static
 
 from branchwise.core.paths import list_sites, sites_dir
+
+from .dialogs import Dialog
 
 
 def _when(seconds: float) -> str:
     return datetime.fromtimestamp(seconds).strftime("%Y-%m-%d %H:%M")
 
 
-class SitesScreen(ModalScreen[Path | str | None]):
+class SitesScreen(Dialog[Path | str | None]):
     """Pick a site; returns a path, ``"demo"``, ``"new"``, or None."""
 
     BINDINGS = [

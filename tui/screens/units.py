@@ -5,16 +5,17 @@ from __future__ import annotations
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.screen import ModalScreen
 from textual.widgets import Label, Select, Static
 
 from branchwise.core.units import display_unit, unit_choices, unit_label
+
+from .dialogs import Dialog
 
 QUANTITIES = ("pressure", "flow", "length", "diameter", "roughness", "head", "velocity",
               "temperature", "density", "viscosity", "kinematic_viscosity")
 
 
-class UnitsScreen(ModalScreen[dict[str, str] | None]):
+class UnitsScreen(Dialog[dict[str, str] | None]):
     """One picker per quantity; returns the chosen units that differ from the system's."""
 
     BINDINGS = [

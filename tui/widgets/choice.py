@@ -11,8 +11,9 @@ from dataclasses import dataclass
 from rich.text import Text
 from textual.binding import Binding
 from textual.message import Message
-from textual.screen import ModalScreen
 from textual.widget import Widget
+
+from ..screens.dialogs import Dialog
 
 
 class Choice(Widget, can_focus=True):
@@ -90,7 +91,7 @@ class Choice(Widget, can_focus=True):
         self.app.push_screen(ChoiceMenu(self.options, self._value, self.region), chosen)
 
 
-class ChoiceMenu(ModalScreen[str | None]):
+class ChoiceMenu(Dialog[str | None]):
     """The list of a :class:`Choice`, just below it."""
 
     BINDINGS = [Binding("escape", "cancel", "Cancel", id="menu-cancel")]

@@ -1,0 +1,36 @@
+"""Textual's command palette, made to close once, and never two at a time.
+
+Keys typed in a burst can reach the palette after it has closed. A second Enter would close
+it again (Textual then takes the screen below off the stack, the app's last one: a crash) and
+run the chosen command a second time; a letter would start a search in a palette whose list
+is gone (NoMatches in the search worker: a crash). The app opens this palette instead of
+Textual's own.
+"""
+
+from __future__ import annotations
+
+from textual.await_complete import AwaitComplete
+from textual.command import CommandPalette
+from textual.widgets import Input
+
+
+async def _nothing() -> None:
+    return None
+
+
+class Palette(CommandPalette):
+    """The command palette, deaf once closed (see also
+    :class:`~branchwise.tui.screens.dialogs.Dialog`)."""
+
+    def dismiss(self, result: object = None) -> AwaitComplete:
+        if self.app.screen is not self:
+            return AwaitComplete(_nothing())
+        return super().dismiss(result)
+
+    def on_input_changed(self, event: Input.Changed) -> None:
+        if self.app.screen is not self:
+            event.prevent_default()  # closed: no search (the palette's own handler)
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        if self.app.screen is not self:
+            event.prevent_default()  # closed: the command is not chosen a second time
