@@ -24,12 +24,21 @@ class InputError(BranchwiseError, ValueError):
         self.field = field
         self.value = value
         self.reason = reason
-        super().__init__(f"{field}: {reason}, got {value}")
+        # One printable line whatever the file held: a message is printed on one line by the
+        # command line and shown beside a field by the app.
+        super().__init__(one_line(f"{field}: {reason}, got {value}"))
 
     def within(self, prefix: str) -> InputError:
         """The same error with ``prefix`` put in front of its field path."""
         field = f"{prefix}.{self.field}" if self.field else prefix
         return InputError(field, self.value, self.reason)
+
+
+def one_line(text: str) -> str:
+    """``text`` with line breaks and other control characters shown escaped (``\\n``)."""
+    if text.isprintable():
+        return text
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
 class NoSolutionError(BranchwiseError):
@@ -40,4 +49,4 @@ class NoSolutionError(BranchwiseError):
 
     def __init__(self, message: str, field: str = "") -> None:
         self.field = field
-        super().__init__(message)
+        super().__init__(one_line(message))

@@ -86,7 +86,10 @@ def plain_number(value: Value, path: str) -> float | None:
             value = float(value.strip())
         except ValueError:
             raise InputError(path, describe(value), "must be a plain number") from None
-    number = float(value)
+    try:
+        number = float(value)
+    except OverflowError:  # a TOML integer has no size limit; a float stops near 1.8e308
+        raise InputError(path, describe(value), "must be a finite number") from None
     if not math.isfinite(number):
         raise InputError(path, describe(value), "must be a finite number")
     return number

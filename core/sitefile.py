@@ -281,15 +281,10 @@ def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
 
 def parse_site(text: str, source: str | Path = "<string>") -> Site:
     """A :class:`Site` from TOML text; errors name ``source`` and the line for bad TOML."""
-    import tomllib
-
-    from .tomlfile import _decode_error, migrate
+    from .tomlfile import migrate, parse_toml
 
     name = Path(source).name
-    try:
-        doc = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise _decode_error(name, text, exc) from None
+    doc = parse_toml(text, name)
     site = site_from_dict(migrate(doc, "site", name), Path(source) if source != "<string>"
                           else None)
     site.origin = text

@@ -156,8 +156,6 @@ def _raw_value_site(case: str) -> str:
         'length = "1 m"\nroughness = "0.05 mm"\n'
 
 
-@pytest.mark.xfail(strict=True, reason="sitebuild shows these values raw: a newline splits the "
-                   "message")
 @pytest.mark.parametrize(("case", "field"), [
     ("unknown fluid kind", "fluid.kind"), ("pipe condition", "branches[0].condition"),
     ("solve.find", "solve.find"), ("friction", "conditions.friction"),
@@ -171,8 +169,6 @@ def test_sitebuild_errors_stay_on_one_line(case: str, field: str) -> None:
     assert "\n" not in str(caught.value), str(caught.value)
 
 
-@pytest.mark.xfail(strict=True, reason="sitebuild.plain_number: float() of a huge int raises "
-                   "OverflowError")
 @pytest.mark.parametrize(("line", "field"), [
     ("minor_k = " + "9" * 400, "branches[0].minor_k"),
     ("valve_kv = " + "9" * 400, "branches[0].valve_kv"),
@@ -185,19 +181,14 @@ def test_plain_number_beyond_the_float_range_names_the_field(line: str, field: s
     assert caught.value.field == field
 
 
-# ---- left for the owner of core/sitefile.py ----------------------------------------------
-# parse_site (the app's path for text it already holds) calls tomllib.loads itself and catches
-# only TOMLDecodeError. Suggested fix: parse with branchwise.core.tomlfile.parse_toml(text,
-# name), which turns these into InputErrors naming the line, as load_site already does.
+# ---- parse_site (the app's path for text it already holds) reads through parse_toml -------
 
 
-@pytest.mark.xfail(strict=True, reason="parse_site lets tomllib's RecursionError through")
 def test_parse_site_deeply_nested_text_names_the_line() -> None:
     with pytest.raises(InputError, match="nested more than"):
         parse_site(DEEP_FILES["arrays past the recursion limit"], "site.toml")
 
 
-@pytest.mark.xfail(strict=True, reason="parse_site lets tomllib's int-digit ValueError through")
 def test_parse_site_overlong_number_names_the_line() -> None:
     with pytest.raises(InputError, match="a number longer than"):
         parse_site(HEAD + "[conditions]\npressure_drop = " + "9" * 5000 + "\n", "site.toml")
