@@ -31,6 +31,8 @@ series ``segments`` (each with its own pipe keys); mixing the two is refused as 
 from __future__ import annotations
 
 import difflib
+import json
+import re
 from collections.abc import Mapping
 from dataclasses import dataclass, field, fields
 from functools import cache
@@ -176,12 +178,17 @@ class Site:
 
 # ---- reading ---------------------------------------------------------------------------------
 
+_BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")
+"""A TOML bare key; any other key (empty, spaces, dots) is shown quoted."""
+
+
 def _known(table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> None:
     for key in table:
         if key not in keys:
             close = difflib.get_close_matches(key, keys, n=1)
             hint = f" (did you mean '{close[0]}'?)" if close else ""
-            where = f"{path}.{key}" if path else key
+            shown = key if _BARE_KEY.fullmatch(key) else json.dumps(key)  # as TOML quotes it
+            where = f"{path}.{shown}" if path else shown
             known = ", ".join(keys)
             raise InputError(where, describe(table[key]), f"unknown key{hint}; known: {known}")
 
