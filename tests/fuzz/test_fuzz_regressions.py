@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import tempfile
 import time
+import warnings
 from pathlib import Path
 
 import pytest
@@ -19,6 +20,7 @@ from branchwise.core.errors import InputError
 from branchwise.core.fluids import fluid_from_spec
 from branchwise.core.sitebuild import build
 from branchwise.core.sitefile import load_site, parse_site
+from branchwise.core.sitesolve import solve_site
 from branchwise.core.tomlfile import MAX_DEPTH, migrate
 
 HEAD = 'format = 1\nname = "x"\n[fluid]\nkind = "water"\ntemperature = "20 degC"\n'
@@ -179,6 +181,41 @@ def test_plain_number_beyond_the_float_range_names_the_field(line: str, field: s
     with pytest.raises(InputError) as caught:
         build(parse_site(BASE + line + "\n"))
     assert caught.value.field == field
+
+
+def test_empty_key_is_named() -> None:
+    # Found by the large profile: '""=""' gave ': unknown key; ..., got ' with no field at all.
+    with pytest.raises(InputError) as caught:
+        parse_site('"" = ""\n')
+    assert caught.value.field.strip(), str(caught.value)
+
+
+# ---- left for the lead (core/hydraulics.py, core/friction.py) ---------------------------
+# Numbers at the edge of the float range solve, but numpy warns: through `branchwise solve`
+# Python prints each warning (file, line, source) to the terminal under a good answer.
+# Suggested fix: refuse a Kv/Cv whose square underflows (model.py already bounds sizes), and
+# compute the loss terms under np.errstate where inf is an expected, handled value.
+
+EDGE_OF_FLOAT = {
+    "Kv of 1e-200 (kv squared underflows to 0)": 'valve_kv = 1e-200\n',
+    "measured flow of 1e-320 L/s (64/Re overflows)": 'measured_flow = "1e-320 L/s"\n',
+}
+
+
+@pytest.mark.xfail(strict=True, reason="hydraulics/friction: numpy RuntimeWarnings reach the "
+                   "user at the edge of the float range")
+@pytest.mark.parametrize("line", EDGE_OF_FLOAT.values(), ids=EDGE_OF_FLOAT)
+def test_solve_at_the_edge_of_the_float_range_warns_nothing(line: str) -> None:
+    text = BASE + line + ('[[branches]]\nname = "B"\ndiameter = "80 mm"\nlength = "20 m"\n'
+                          'roughness = "0.05 mm"\n')
+    if "measured_flow" in line:
+        text = text.replace('pressure_drop = "1 kPa"\n', "")
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", RuntimeWarning)
+        try:
+            solve_site(parse_site(text))
+        except InputError:
+            pass  # refusing the value is a fine answer too
 
 
 # ---- parse_site (the app's path for text it already holds) reads through parse_toml -------

@@ -13,7 +13,7 @@ import contextlib
 import io
 import re
 import tempfile
-import traceback
+import warnings
 from collections.abc import Callable, Iterator
 from pathlib import Path
 
@@ -65,21 +65,15 @@ def _fresh(folder: Path, data: bytes) -> Path:
 
 
 def check_names_a_field(exc: BranchwiseError) -> None:
-    """The error points at a field of the file (or at the file and line) in one line."""
+    """The error points at a field of the file (or at the file and line) in one printable
+    line."""
     field = getattr(exc, "field", "")
     assert field, f"{type(exc).__name__} without a field: {exc}"
     known = field == NAME or field.startswith(f"{NAME} ") or _FIELD_ROOT.split(field)[0] in TOP_KEYS
     assert known or getattr(exc, "reason", "").startswith("unknown key"), str(exc)
-    if not _raised_in(exc, "sitebuild.py"):  # known there: test_fuzz_regressions.py, xfail
-        assert "\n" not in str(exc) and "\r" not in str(exc), repr(str(exc))
+    assert str(exc).isprintable(), repr(str(exc))
     if isinstance(exc, InputError):
         assert str(exc).startswith(f"{field}: "), str(exc)
-
-
-def _raised_in(exc: BaseException, file_name: str) -> bool:
-    """Whether the innermost frame of ``exc``'s traceback is in ``file_name``."""
-    frames = traceback.extract_tb(exc.__traceback__)
-    return bool(frames) and Path(frames[-1].filename).name == file_name
 
 
 def outcome(run: Callable[[], object]) -> tuple[str, BranchwiseError | None]:
@@ -93,24 +87,7 @@ def outcome(run: Callable[[], object]) -> tuple[str, BranchwiseError | None]:
     except NoSolutionError as exc:
         check_names_a_field(exc)
         return "no-solution", exc
-    except OverflowError as exc:
-        if not _known_overflow(exc):
-            raise
-        return "known-overflow", None
     return "ok", None
-
-
-def _known_overflow(exc: OverflowError) -> bool:
-    """sitebuild.plain_number's float() of a TOML integer past 1.8e308, left to the owner of
-    sitebuild.py (test_fuzz_regressions.py, strict xfail); counted, not hidden."""
-    return _raised_in(exc, "sitebuild.py")
-
-
-def _parse_site_known_bug(exc: BranchwiseError | None) -> bool:
-    """The file is one that :func:`parse_site` cannot yet read without a traceback (see
-    test_fuzz_regressions.py: nesting past the recursion limit, a 4300-digit number)."""
-    reason = getattr(exc, "reason", "")
-    return reason.startswith(("lists or tables are nested", "a number longer than"))
 
 
 def load_build_solve(folder: Path, data: bytes, label: str = "site-seeds") -> str:
@@ -118,13 +95,13 @@ def load_build_solve(folder: Path, data: bytes, label: str = "site-seeds") -> st
     counts the outcome in the summary."""
     path = _fresh(folder, data)
     with time_limit(label):
-        result, exc = outcome(lambda: solve_site(load_site(path)))
+        result, _ = outcome(lambda: solve_site(load_site(path)))
         try:
             text = data.decode("utf-8")
         except UnicodeDecodeError:
             text = None
         # The app reads text it already holds through parse_site: the same outcome.
-        if text is not None and not text.startswith("\ufeff") and not _parse_site_known_bug(exc):
+        if text is not None and not text.startswith("\ufeff"):  # load_site skips a BOM
             from_text, _ = outcome(lambda: solve_site(parse_site(text, path)))
             assert from_text == result, (result, from_text)
     assert path.read_bytes() == data, "the site file was changed"
@@ -162,17 +139,19 @@ def cli_solve(folder: Path, data: bytes, fmt: str, units: str) -> int:
     """``branchwise solve`` in-process: exit 0 with output, or 2 with one line on stderr."""
     path = _fresh(folder, data)
     out, err = io.StringIO(), io.StringIO()
-    with time_limit("cli"), contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
-        try:
-            code = main(["solve", str(path), "--format", fmt, "--units", units])
-        except OverflowError as exc:
-            if not _known_overflow(exc):
-                raise
-            code = -1  # the known sitebuild overflow
-    assert code in (0, 2, -1), code
+    with (time_limit("cli"), contextlib.redirect_stdout(out), contextlib.redirect_stderr(err),
+          warnings.catch_warnings(record=True) as warned):
+        warnings.simplefilter("always")
+        code = main(["solve", str(path), "--format", fmt, "--units", units])
+    assert code in (0, 2), code
+    # A warning is printed to the terminal by Python. Those of the solver at the edge of the
+    # float range are known (test_fuzz_regressions.py, strict xfail); any other is a failure.
+    places = {"/".join(Path(w.filename).parts[-2:]) for w in warned}
+    assert places <= KNOWN_WARNINGS, [f"{w.filename}:{w.lineno}: {w.message}" for w in warned]
+    STATS[f"cli-warnings {'known' if places else 'none'}"] += 1
     if code == 0:
         assert out.getvalue().strip() and err.getvalue() == "", err.getvalue()
-    elif code == 2:
+    else:
         message = err.getvalue()
         assert out.getvalue() == ""
         assert message.startswith(f"branchwise: {path}: "), message
@@ -180,9 +159,11 @@ def cli_solve(folder: Path, data: bytes, fmt: str, units: str) -> int:
         assert "Traceback" not in message
     assert path.read_bytes() == data, "the site file was changed"
     assert [p.name for p in folder.iterdir()] == [NAME], "a file was written beside the site"
-    STATS["cli known-overflow" if code == -1 else f"cli exit-{code}"] += 1
+    STATS[f"cli exit-{code}"] += 1
     return code
 
+
+KNOWN_WARNINGS = {"core/hydraulics.py", "core/friction.py"}
 
 FORMATS = st.sampled_from(["table", "json", "csv", "markdown"])
 UNITS = st.sampled_from(["si", "us"])
