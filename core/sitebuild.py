@@ -179,7 +179,8 @@ def _fluid_preset(kind: str, presets: PresetSource | None, kinds: tuple[str, ...
 # ---- branches ------------------------------------------------------------------------------
 
 def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
-    from .catalogs import fittings_k, material, parse_size
+    from .catalogs import fittings_k, parse_size
+    from .userpresets import material_for
 
     if seg.diameter is not None and seg.size is not None:
         raise InputError(f"{path}.size", describe(seg.size), "give diameter or size, not both")
@@ -220,7 +221,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
                 raise InputError(f"{path}.roughness", "nothing",
                                  "give a roughness or a material")
             key, m_path = size.material_hint, f"{path}.size"
-        mat = material(key, m_path)
+        mat = material_for(key, m_path)
         roughness = mat.roughness_m
         if condition == "aged":
             if mat.aged_roughness_m is None:

@@ -87,6 +87,22 @@ def _parser() -> argparse.ArgumentParser:
 
     sub.add_parser("where", help="show where user files live",
                    description="Print the folders and files branchwise keeps for the user.")
+
+    presets = sub.add_parser(
+        "presets", help="list, add or delete your own liquids and materials",
+        description="Your own liquids and pipe materials, kept in your data folder (see "
+                    "'branchwise where'). A site uses one by its key: fluid.kind = \"KEY\" or "
+                    "material = \"KEY\". Yours override shipped ones with the same key.",
+        epilog="Examples:  branchwise presets add fluids light-oil density='870 kg/m^3' "
+               "viscosity='32 cSt'    branchwise presets add materials old-steel "
+               "roughness='0.5 mm'    branchwise presets delete fluids light-oil")
+    presets.add_argument("action", choices=("list", "add", "delete"), nargs="?", default="list",
+                         help="list (default), add (or replace), or delete")
+    presets.add_argument("kind", nargs="?", choices=("fluids", "materials"),
+                         help="fluids or materials")
+    presets.add_argument("key", nargs="?", help="the preset's key: lowercase, digits, hyphens")
+    presets.add_argument("values", nargs="*", metavar="NAME=VALUE",
+                         help="values with units as on a tag, e.g. density='870 kg/m^3'")
     return p
 
 
@@ -235,6 +251,8 @@ def _site_label(args: argparse.Namespace) -> str:
     site = getattr(args, "site", None)
     if args.command == "demo":
         return str(args.path)
+    if args.command in ("presets", "where"):
+        return "presets"
     return str(site) if site is not None else "demo site"
 
 
@@ -279,6 +297,10 @@ def main(argv: list[str] | None = None) -> int:
             return _solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "demo":
             return _demo(args.path, args.force, out)
+        if args.command == "presets":
+            from .presetcmd import run_presets
+
+            return run_presets(args.action, args.kind, args.key, args.values, out)
         return _where(out)
     except BranchwiseError as exc:
         print(f"branchwise: {_message(exc, _site_label(args))}", file=sys.stderr)
