@@ -228,9 +228,11 @@ class BranchwiseApp(SiteFiles, App[None]):
             self._key_state = state
             self.refresh_bindings()
 
-    def action_show(self, mode: str) -> None:
+    async def action_show(self, mode: str) -> None:
         if mode in self.MODES and self.current_mode != mode:
-            self.switch_mode(mode)
+            # Awaited, so that the next key (Ctrl+Q typed at once) finds the switch done:
+            # Textual's shutdown cannot take a screen that is still being added.
+            await self.switch_mode(mode)
             self.refresh_bindings()
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
