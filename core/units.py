@@ -49,7 +49,22 @@ _TRADE_UNITS = (
     "liter_per_minute = liter / minute = lpm = LPM",
     "liter_per_second = liter / second = lps",
     "psi_differential = pound_force_per_square_inch = psid",
+    "cubic_foot_per_second = foot ** 3 / second = cfs",
+    "US_gallon_per_hour = gallon / hour = gph = GPH",
+    "million_US_gallon_per_day = 1e6 * gallon / day = MGD = mgd",
 )
+
+_WATER_COLUMN = re.compile(
+    r"""^(?P<len>in|inch|inches|"|ft|feet|foot|mm|cm|m)\.?\s*(?:w\.?\s*[cg]\.?|h2o|water)$""",
+    re.IGNORECASE)
+"""Water-column spellings of the trade: ``in wc``, ``inWC``, ``"WC``, ``in. w.g.``, ``ft wc``,
+``mm wc`` — heads of water at the conventional density, as ``inH2O`` and friends."""
+_WATER_COLUMN_UNIT = {"in": "inH2O", "inch": "inH2O", "inches": "inH2O", '"': "inH2O",
+                      "ft": "ftH2O", "feet": "ftH2O", "foot": "ftH2O", "mm": "mmH2O",
+                      "cm": "cmH2O", "m": "mH2O"}
+_BARE_TEMPERATURE = re.compile(r"^(?:deg(?:rees?)?\s*)?(?P<scale>[CF])$", re.IGNORECASE)
+"""``5 C``, ``41 F``, ``5 deg C``: in a temperature field C and F can only mean the scales."""
+_GAUGE = {"psig": "psi", "barg": "bar", "kpag": "kPa"}
 
 
 @dataclass(frozen=True)
@@ -207,6 +222,9 @@ def _is_unit(ureg: pint.UnitRegistry, name: str) -> bool:
 
 
 def _hint(name: str) -> str:
+    if name.casefold() in _GAUGE:
+        return (f" (a pressure difference has no gauge offset: write "
+                f"{_GAUGE[name.casefold()]}; an absolute pressure needs the atmosphere added)")
     known = {c for k in KINDS.values() for c in k.choices} | {"psid", "gpm", "degC", "degF"}
     close = [c for c in sorted(known) if c.casefold() == name.casefold()]
     return f" (did you mean '{close[0]}'?)" if close else ""
@@ -250,7 +268,17 @@ def parse_quantity(
         if default_unit is None and spec.dimension != "[]":
             raise InputError(field, shown, f"needs a unit, such as '{number:g} {spec.display_si}'")
         unit = default_unit or ""
+    unit = _trade_spelling(unit, kind)
     return _to_si(number, unit, spec, kind, field, shown)
+
+
+def _trade_spelling(unit: str, kind: str) -> str:
+    """Spellings of the trade pint cannot parse, turned into units it can (or left as typed)."""
+    if m := _WATER_COLUMN.match(unit):
+        return _WATER_COLUMN_UNIT[m.group("len").lower()]
+    if kind == "temperature" and (m := _BARE_TEMPERATURE.match(unit)):
+        return f"deg{m.group('scale').upper()}"
+    return unit
 
 
 def _bare(number: float, field: str, shown: str) -> float:

@@ -171,3 +171,31 @@ def test_any_text_gives_a_finite_si_value_or_an_input_error(text, kind):
         assert exc.field == "f" and "\n" not in str(exc)
     else:
         assert math.isfinite(value)
+
+
+@pytest.mark.parametrize(("text", "kind", "expected"), [
+    # NIST SP 811 (2008) App. B: inch of water (39.2 °F) = 249.082 Pa; foot of water (39.2 °F)
+    # = 2988.98 Pa; cubic foot = 2.831685e-2 m³; US gallon = 3.785412e-3 m³.
+    ("20 in wc", "pressure", 20 * 249.082),
+    ("80 inwc", "pressure", 80 * 249.082),
+    ('80 "WC', "pressure", 80 * 249.082),
+    ("3 in. w.g.", "pressure", 3 * 249.082),
+    ("20 ft wc", "pressure", 20 * 2988.98),
+    ("1.5 cfs", "flow", 1.5 * 2.831685e-2),
+    ("0.5 MGD", "flow", 0.5e6 * 3.785412e-3 / 86400),
+    ("30 gph", "flow", 30 * 3.785412e-3 / 3600),
+    # °C and °F scales: T/K = t/°C + 273.15; t/°C = (t/°F − 32)/1.8 (NIST SP 811 §4.2.1.1)
+    ("5 C", "temperature", 278.15),
+    ("41 F", "temperature", 278.15),
+    ("5 deg C", "temperature", 278.15),
+])
+def test_trade_spellings(text, kind, expected):
+    assert units.parse_quantity(text, kind, "f") == pytest.approx(expected, rel=2e-6)
+
+
+@pytest.mark.parametrize(("text", "kind"), [("9 psig", "pressure"), ("1 barg", "pressure"),
+                                            ("5 C", "pressure"), ("41 F", "length")])
+def test_gauge_units_and_bare_scales_elsewhere_are_refused_with_a_reason(text, kind):
+    with pytest.raises(InputError) as err:
+        units.parse_quantity(text, kind, "conditions.pressure_drop")
+    assert err.value.field == "conditions.pressure_drop"
