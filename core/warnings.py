@@ -44,9 +44,11 @@ def collect_warnings(
     for code, mask in masks.items():
         for s in np.flatnonzero(mask):
             add(code, int(s), int(a.seg_branch[s]), _detail(code, net, a, rr, int(s)))
+    why = ("the outlet pressure is above the inlet pressure — check the sign of the pressure "
+           "drop" if net.elevation_change <= 0 else
+           "the pressure difference is less than the static lift")
     for b in np.flatnonzero(a.flow < 0):
-        add("reverse-flow", None, int(b),
-            f"reverse flow ({flow_text(a.flow[b])}): the driving head is below the static lift")
+        add("reverse-flow", None, int(b), f"reverse flow ({flow_text(a.flow[b])}): {why}")
     if not conv.converged:
         out.append(Warning("not-converged", None,
                            f"the solver stopped at a relative residual of {conv.residual:.2g}"))

@@ -150,3 +150,13 @@ def test_length_beyond_any_pipe_run_is_a_clear_no_solution():
     q = solve(net, PressureDrop(5e4)).flows[0]
     with pytest.raises(NoSolutionError, match="more than any pipe run"):
         solve(net, PressureDrop(5e4), FindUnknown("length", "A", q * 1e-4))
+
+
+def test_reverse_flow_says_why():
+    # With no lift, reverse flow can only come from a negative pressure drop: say so.
+    res = solve(two(), PressureDrop(-5e3))
+    assert all(q < 0 for q in res.flows)
+    assert all("check the sign of the pressure drop" in w.message for w in res.warnings)
+    lifted = Network(WATER, two().branches, elevation_change=10.0)
+    res = solve(lifted, PressureDrop(5e4))
+    assert all("less than the static lift" in w.message for w in res.warnings)
