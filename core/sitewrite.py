@@ -66,6 +66,7 @@ def site_to_dict(site: Site) -> dict[str, Any]:
     return doc
 
 
+NL = "\n"
 HEADER = "branchwise site file: values are text with units (\"64 m\", \"3.068 in\", \"12 psi\")."
 
 
@@ -98,17 +99,68 @@ def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None
         if isinstance(value, dict) and name in ("fluid", "conditions", "solve", "tolerances"):
             if not isinstance(old, Mapping) or old is None:
                 doc[name] = old = tomlkit.table()
-            _sync(old, value, tomlkit, plain)
+            _sync_table(old, value, tomlkit, plain)
         elif name == "roughness_range" and isinstance(value, dict) and isinstance(old, Mapping):
-            _sync(old, value, tomlkit, plain)  # [tolerances.roughness_range] keeps its layout
+            _sync_table(old, value, tomlkit, plain)  # [tolerances.roughness_range] keeps its layout
         elif name == "branches":
             _sync_branches(doc, old, value, tomlkit, plain)
         elif old is None or plain(old) != value:
             doc[name] = _item(value, tomlkit)
 
 
+def _body(table: Any) -> list[tuple[Any, Any]]:
+    """The (key, item) list of a tomlkit table, or [] for an inline table."""
+    container = getattr(table, "value", None)
+    return getattr(container, "body", [])
+
+
+def _detach_after(table: Any) -> list[tuple[Any, Any]]:
+    """Cut off and return what ends ``table`` but belongs to the header after it.
+
+    Comment lines right below a table's last key (no blank line between) are that table's
+    own and stay; from the first blank line on, the comment block and blank lines stand
+    before the next header (``# [solve] ...`` above ``[tolerances]``) and are returned.
+    """
+    body = _body(table)
+    last_key = max((i for i, (key, _) in enumerate(body) if key is not None), default=-1)
+    cut = len(body)
+    for i in range(last_key + 1, len(body)):
+        if type(body[i][1]).__name__ == "Whitespace":
+            cut = i
+            break
+    after = body[cut:]
+    del body[cut:]
+    return after
+
+
+def _sync_table(table: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None:
+    """:func:`_sync` for a ``[table]``: keys added go below its last key and own comments,
+    above the blank line and comments that stand before the next header."""
+    after = _detach_after(table)
+    _sync(table, values, tomlkit, plain)
+    _body(table).extend(after)
+
+
+def _table_before(doc: Any, aot: Any) -> Any:
+    """The ``[table]`` written just above the array ``aot`` in ``doc``, or None."""
+    previous = None
+    for _, item in getattr(doc, "body", []):
+        if item is aot:
+            return previous if type(previous).__name__ == "Table" else None
+        if type(item).__name__ not in ("Whitespace", "Comment"):
+            previous = item
+    return None
+
+
+def _branch_key(name: Any) -> str:
+    return str(name).strip().casefold()
+
+
 def _sync_branches(doc: Any, old: Any, branches: list[dict[str, Any]], tomlkit: Any,
                    plain: Any) -> None:
+    """Match each branch to its old ``[[branches]]`` table by name (by place if renamed), so a
+    branch's comments move with it when branches are reordered and go when it is deleted; the
+    comment block before the next header keeps its place before that header."""
     if not isinstance(old, tomlkit.items.AoT) or not branches:
         aot = tomlkit.aot()
         for br in branches:
@@ -120,15 +172,44 @@ def _sync_branches(doc: Any, old: Any, branches: list[dict[str, Any]], tomlkit: 
         elif "branches" in doc:
             del doc["branches"]
         return
-    while len(old) > len(branches):
-        old.body.pop()  # drop branches removed at the end
+    tables = list(old)
+    # What stands before each header (blank line, comment block), and what ends the array.
+    before = _table_before(doc, old)  # the [table] above the first header, if any
+    leads = [_detach_after(t) for t in ([before] if before is not None else []) + tables]
+    if before is None:
+        leads.insert(0, [])
+    tail = leads.pop()
+    wanted = {_branch_key(br.get("name")) for br in branches}
+    by_name: dict[str, int] = {}
+    for i, t in enumerate(tables):
+        by_name.setdefault(_branch_key(plain(t.get("name"))), i)
+    used: set[int] = set()
+    order: list[int | None] = []
     for i, br in enumerate(branches):
-        if i < len(old):
-            _sync(old[i], br, tomlkit, plain)
-        else:
-            table = tomlkit.table()
-            _sync(table, br, tomlkit, plain)
-            old.append(table)
+        j = by_name.get(_branch_key(br.get("name")))
+        if j is None or j in used:  # renamed: the table in its place, if no one claims it
+            j = i if (i < len(tables) and i not in used
+                      and _branch_key(plain(tables[i].get("name"))) not in wanted) else None
+        if j is not None:
+            used.add(j)
+        order.append(j)
+    new_tables = []
+    for k, (j, br) in enumerate(zip(order, branches, strict=True)):
+        table = tomlkit.table() if j is None else tables[j]
+        _sync(table, br, tomlkit, plain)
+        # What stood before a header goes before it again; what stood before the first
+        # header speaks of the whole array and stays before the first one.
+        lead = leads[0] if k == 0 else leads[j] if j else []
+        lead = lead or [(None, tomlkit.ws(NL))]
+        if k > 0:
+            _body(new_tables[-1]).extend(lead)
+        elif before is not None:
+            _body(before).extend(lead)
+        new_tables.append(table)
+    _body(new_tables[-1]).extend(tail)
+    del old[:]
+    for table in new_tables:
+        old.append(table)
 
 
 def _item(value: Any, tomlkit: Any) -> Any:
