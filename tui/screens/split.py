@@ -57,6 +57,8 @@ class SplitScreen(PanelScreen):
                 tooltip="Choose what to find: the flows, or a diameter, length or roughness"),
         Binding("t", "focus('find-target')", "Target", id="split-target", show=False,
                 tooltip="Type the target flow of the branch being sized"),
+        Binding("z", "focus('lift-value')", "Lift", id="split-lift", show=False,
+                tooltip="Type the elevation change between the headers, outlet minus inlet"),
         Binding("r", "export('markdown')", "Record", id="split-record",
                 tooltip="Write the walkdown record (Markdown)"),
         Binding("c", "export('csv')", "CSV", id="split-csv",
@@ -74,6 +76,10 @@ class SplitScreen(PanelScreen):
                 yield Choice(BASE_GIVENS, id="given-kind")
                 yield Input(id="given-value", compact=True)
                 yield Label("", id="given-unit", classes="unit", markup=False)
+                yield Label("lift", id="lift-label")
+                yield Input(id="lift-value", compact=True, placeholder="0",
+                            tooltip="Elevation change, outlet minus inlet (z_out − z_in)")
+                yield Label("", id="lift-unit", classes="unit", markup=False)
             yield _hidden(Static("", id="given-message", classes="message", markup=False))
             with Horizontal(classes="row"):
                 yield Label("Find", classes="row-label")
@@ -117,6 +123,9 @@ class SplitScreen(PanelScreen):
         unit_kind = "pressure" if kind == "pressure_drop" else "flow"
         show_text(self.query_one("#given-value", Input), given_text(site))
         put(self.query_one("#given-unit", Label), f"[{app.unit_text(unit_kind)}]")
+        show_text(self.query_one("#lift-value", Input),
+                  text_of(site.conditions.elevation_change))
+        put(self.query_one("#lift-unit", Label), f"[{app.unit_text('head')}]")
 
         find = find_of(site)
         self.query_one("#find-kind", Choice).value = find
@@ -271,6 +280,13 @@ class SplitScreen(PanelScreen):
             unit = app.unit("pressure" if kind == "pressure_drop" else "flow")
             text = with_unit(event.value, unit)
             app.edit("Given value", lambda s: set_given(s, kind, text, index), key="given")
+        elif event.input.id == "lift-value":
+            text = with_unit(event.value, app.unit("head")) or None
+
+            def lift(s: object) -> None:
+                s.conditions.elevation_change = text  # type: ignore[attr-defined]
+
+            app.edit("Lift", lift, key="lift")
         elif event.input.id == "find-target":
             text = with_unit(event.value, app.unit("flow"))
             app.edit("Target flow", lambda s: set_find(s, find_of(s), target=text),
