@@ -19,6 +19,7 @@ import asyncio
 import random
 import time
 import unicodedata
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -193,8 +194,9 @@ def _key_event(key: str) -> events.Key:
     return events.Key(key, char)
 
 
-async def _press(pilot, token: str) -> None:
-    """Send the key(s) of ``token`` and wait until the screen has handled them.
+async def _press(pilot, token: str, before: Callable[[str], None] | None = None) -> None:
+    """Send the key(s) of ``token`` and wait until the screen has handled them; ``before`` is
+    told each key just before it is sent.
 
     Quicker than ``Pilot.press``, which also waits for the process to go idle after every key
     (at least 40 ms, and up to a second while a solve runs in its thread): here the solves
@@ -202,6 +204,8 @@ async def _press(pilot, token: str) -> None:
     """
     app = pilot.app
     for key in [token] if _is_key(token) else list(token):
+        if before is not None:
+            before(key)
         event = _key_event(key)
         event.set_sender(app)
         app._driver.send_message(event)
@@ -239,20 +243,24 @@ async def _one_app(keys: list[str], at: int, report: Report, size: tuple[int, in
     report.runs += 1
     exited_by = ""
     allowed = False  # a quit is allowed: asked for with nothing unsaved, or answered
+
+    def before(key: str) -> None:
+        nonlocal allowed
+        screen = app.screen
+        if key == "ctrl+q" and not app.session.dirty:
+            allowed = True
+        elif key in ("n", "s") and isinstance(screen, ChoiceScreen) and \
+                screen.title_text == "Unsaved changes":
+            allowed = True  # "Don't save" or "Save" (the answer may be handled late)
+
     try:
         async with app.run_test(size=size, message_hook=hook) as pilot:
             await pilot.pause()
             while at < len(keys):
                 token = keys[at]
-                screen = app.screen
-                if token == "ctrl+q" and not app.session.dirty:
-                    allowed = True
-                elif token in ("n", "s") and isinstance(screen, ChoiceScreen) and \
-                        screen.title_text == "Unsaved changes":
-                    allowed = True  # "Don't save" or "Save" (a key may be handled late)
                 at += 1
                 report.pressed += 1
-                await _press(pilot, token)
+                await _press(pilot, token, before)
                 if _is_exited(app):
                     exited_by = token
                     if app._exception is None and not (allowed or not app.session.dirty):
