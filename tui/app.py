@@ -84,6 +84,8 @@ class BranchwiseApp(SiteFiles, App[None]):
                 tooltip="Save the site to its file (asks for a name the first time)"),
         Binding("ctrl+r", "save_as", "Save as", id="save-as", priority=True, show=False,
                 tooltip="Save the site under another name"),
+        Binding("f8", "rename", "Name", id="rename", show=False, key_display="F8",
+                tooltip="Give the site its name (title, site list, walkdown record)"),
         Binding("ctrl+o", "open_sites", "Sites", id="open", priority=True,
                 tooltip="Open a saved or recent site, the demo, or a new one"),
         Binding("ctrl+t", "toggle_units", "SI/US", id="units", priority=True,
@@ -297,6 +299,18 @@ class BranchwiseApp(SiteFiles, App[None]):
 
         if not isinstance(self.screen, HelpScreen):
             self.push_screen(HelpScreen(self.key_sections()))
+
+    def action_rename(self) -> None:
+        from .screens.dialogs import RenameScreen
+
+        def named(name: str | None) -> None:
+            if name and name != self.site.name:
+                def change(site: Site) -> None:
+                    site.name = name
+
+                self.edit("Site name", change)
+
+        self.push_screen(RenameScreen(self.site.name or self.site.title), named)
 
     def action_cautions(self) -> None:
         from .screens.cautions import CautionsScreen

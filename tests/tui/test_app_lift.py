@@ -1,4 +1,4 @@
-"""The lift between the headers (z_out − z_in), typed on the Split screen.
+"""Conditions typed in the app: the lift between the headers (z_out − z_in) and the site name.
 
 The flows it gives are checked against the core solve of the same site with the lift written
 into the file, and the driving head against H = Δp/(ρ g) − Δz (Bernoulli with losses; the
@@ -35,5 +35,25 @@ def test_lift_typed_on_the_split_screen(ui):
             await pilot.press("ctrl+z")
             await ui.settle(pilot)
             assert app.site.conditions.elevation_change in ("0 m", None)
+
+    ui.run(scenario)
+
+
+def test_site_name_by_key_and_kept_in_the_saved_file(ui, data_dir):
+    from branchwise.core.sitefile import load_site
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("f8")
+            await pilot.press(*"Plant B header", "enter")  # the old name is selected: replaced
+            await ui.settle(pilot)
+            assert app.site.name == "Plant B header"
+            assert "Plant B header" in ui.text(app)
+            await pilot.press("ctrl+r", "enter")
+            await ui.settle(pilot)
+        saved = next((data_dir / "sites").glob("*.toml"))
+        assert load_site(saved).name == "Plant B header"
 
     ui.run(scenario)
