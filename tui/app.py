@@ -96,7 +96,7 @@ class BranchwiseApp(SiteFiles, App[None]):
         Binding("ctrl+y", "redo", "Redo", id="redo", show=False, tooltip="Redo"),
         Binding("ctrl+q", "quit", "Quit", id="quit", priority=True,
                 tooltip="Quit (asks first if there are unsaved changes)"),
-        Binding("exclamation_mark,f7", "cautions", "Cautions", id="cautions",
+        Binding("exclamation_mark,f7", "cautions", "Cautions", id="cautions", key_display="!",
                 tooltip="What these numbers are and are not good for"),
     ]
 

@@ -66,7 +66,7 @@ BAD_FILES = [
      "branches[0].length: must not be negative"),
     ("roughness at least D/2", edit('roughness = "0.045 mm"', 'roughness = "60 mm"'),
      "branches[0].roughness: must be below half the diameter"),
-    ("missing condition", edit('pressure_drop = "68 kPa"', ""), "conditions: give exactly one"),
+    ("missing condition", edit('pressure_drop = "68 kPa"', ""), "conditions: give one reading"),
     ("contradictory conditions", edit('pressure_drop = "68 kPa"',
                                       'pressure_drop = "68 kPa"\ntotal_flow = "30 L/s"'),
      "conditions.total_flow: contradicts conditions.pressure_drop"),
