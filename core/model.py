@@ -72,6 +72,8 @@ MAX_DENSITY = 3e4  # kg/m³ (denser than any liquid)
 MAX_VISCOSITY = 1e6  # Pa·s (stiffer than pitch)
 MAX_ELEVATION = 1e4  # m
 MAX_KV = 1e7  # m³/h
+MIN_KV = 1e-6  # m³/h (a needle valve passes thousands of times more)
+MIN_FLOW = 1e-30  # m³/s: a non-zero flow below this is no reading (and underflows in the solve)
 
 
 @dataclass(frozen=True)
@@ -162,8 +164,11 @@ class Branch:
         for j, seg in enumerate(self.segments):
             seg.validate(f"{path}.segments[{j}]")
         if self.valve_kv is not None:
-            at_most(f"{path}.valve_kv", positive(f"{path}.valve_kv", self.valve_kv), MAX_KV,
-                    "m³/h", "valve")
+            kv = at_most(f"{path}.valve_kv", positive(f"{path}.valve_kv", self.valve_kv),
+                         MAX_KV, "m³/h", "valve")
+            if kv < MIN_KV:
+                raise InputError(f"{path}.valve_kv", self.valve_kv,
+                                 f"is below any valve (at least {MIN_KV:g} m³/h)")
 
 
 def kv_from_cv(cv: float) -> float:

@@ -25,6 +25,7 @@ from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, head_for_t
 from .hydraulics import segment_state as _segment_state
 from .messages import flow_text, head_text
 from .model import (
+    MIN_FLOW,
     UNKNOWNS,
     Find,
     FindFlows,
@@ -81,7 +82,11 @@ def _check_given(network: Network, given: Given) -> None:
         finite("conditions.total_flow", given.value)
     elif isinstance(given, MeasuredFlow):
         i = network.index_of(given.branch, "conditions.measured_flow")
-        finite(f"branches[{i}].measured_flow", given.value)
+        value = finite(f"branches[{i}].measured_flow", given.value)
+        if 0 < abs(value) < MIN_FLOW:
+            raise InputError(f"branches[{i}].measured_flow", given.value,
+                             f"is below any measurable flow (give 0 or at least {MIN_FLOW:g} "
+                             "m³/s)")
     else:
         raise InputError("conditions", repr(given), "needs a pressure drop, a total flow or a "
                          "measured branch flow")

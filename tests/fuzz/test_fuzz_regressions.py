@@ -190,11 +190,8 @@ def test_empty_key_is_named() -> None:
     assert caught.value.field.strip(), str(caught.value)
 
 
-# ---- left for the lead (core/hydraulics.py, core/friction.py) ---------------------------
-# Numbers at the edge of the float range solve, but numpy warns: through `branchwise solve`
-# Python prints each warning (file, line, source) to the terminal under a good answer.
-# Suggested fix: refuse a Kv/Cv whose square underflows (model.py already bounds sizes), and
-# compute the loss terms under np.errstate where inf is an expected, handled value.
+# ---- numbers at the edge of the float range: refused (model bounds) or solved without numpy
+# RuntimeWarnings, which `branchwise solve` would otherwise print under a good answer.
 
 EDGE_OF_FLOAT = {
     "Kv of 1e-200 (kv squared underflows to 0)": 'valve_kv = 1e-200\n',
@@ -202,8 +199,6 @@ EDGE_OF_FLOAT = {
 }
 
 
-@pytest.mark.xfail(strict=True, reason="hydraulics/friction: numpy RuntimeWarnings reach the "
-                   "user at the edge of the float range")
 @pytest.mark.parametrize("line", EDGE_OF_FLOAT.values(), ids=EDGE_OF_FLOAT)
 def test_solve_at_the_edge_of_the_float_range_warns_nothing(line: str) -> None:
     text = BASE + line + ('[[branches]]\nname = "B"\ndiameter = "80 mm"\nlength = "20 m"\n'
