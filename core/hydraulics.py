@@ -173,8 +173,13 @@ def _initial_flows(lay: Layout, head: Array) -> Array:
     return np.where(np.isfinite(q) & (q > 0), q, 1e-6)
 
 
-def flows_at_head(lay: Layout, head: Array | float) -> tuple[Array, RootInfo]:
+def flows_at_head(
+    lay: Layout, head: Array | float, guess: Array | None = None
+) -> tuple[Array, RootInfo]:
     """The flow in every branch at driving head ``head`` (m; scalar or one per branch).
+
+    ``guess``: optional starting |Q| per branch (m³/s), e.g. the flows at a nearby head; it only
+    saves iterations — the answer is the same to round-off.
 
     Safeguarded Newton on ln h(ln Q): the Newton step is taken when it stays inside the bracket
     known so far, otherwise the bracket is bisected (in ln Q) or widened by e^8.
@@ -190,7 +195,10 @@ def flows_at_head(lay: Layout, head: Array | float) -> tuple[Array, RootInfo]:
     sub = _subset(lay, live) if not live.all() else lay
     t = target[live]
     ln_t = np.log(t)
-    x = np.log(_initial_flows(sub, t))
+    start = None if guess is None else np.abs(np.asarray(guess, dtype=float))[live]
+    if start is None or not np.all(np.isfinite(start) & (start > 0)):
+        start = _initial_flows(sub, t)
+    x = np.log(start)
     lo = np.full_like(x, -np.inf)
     hi = np.full_like(x, np.inf)
     resid = np.full_like(x, np.inf)
@@ -262,13 +270,22 @@ def head_for_total_flow(lay: Layout, total: Array | float) -> tuple[Array, Array
     resid = np.zeros(groups)
     iters = 0
     inner_ok = True
+    slope_last: Array | None = None
+    hb_last = np.ones(lay.n_branches)
     for iters in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
         hb = np.where(live, np.exp(u), 0.0)[gb]
-        q, info = flows_at_head(lay, hb)
+        # From the second pass on, start each branch from its last flow, moved along its own
+        # ln Q–ln H slope to the new head: the inner solve then needs a step or two.
+        guess = None
+        if slope_last is not None and np.all(q > 0):
+            guess = q * np.exp((np.log(np.maximum(hb, 1e-300)) - np.log(hb_last)) / slope_last)
+        hb_last = np.maximum(hb, 1e-300)
+        q, info = flows_at_head(lay, hb, guess)
         inner_ok = info.converged
         qsum = np.bincount(gb, q, minlength=groups)
         # d ln ΣQ / d ln H = Σ Q_i / s_i / ΣQ, with s_i = d ln h_i / d ln Q_i.
         _, s = head_and_slope(lay, np.where(q > 0, q, 1.0))
+        slope_last = s
         dq = np.bincount(gb, np.where(q > 0, q / s, 0.0), minlength=groups)
         with np.errstate(divide="ignore"):
             resid = np.where(live, np.log(qsum) - np.log(np.where(live, target, 1.0)), 0.0)
