@@ -73,7 +73,9 @@ def flow_band_cell(sr: SiteResult, branch: str, system: str = "si") -> str:
     pair = band_range(sr, f"branch '{branch}' flow", system)
     if pair is None:
         return ""
-    return f"{format_number(pair[0])}–{format_number(pair[1])}"
+    lo, hi = format_number(pair[0]), format_number(pair[1])
+    # "20.11–21.60"; with a negative end the dash would read as a minus: "-6.27 to -4.14"
+    return f"{lo} to {hi}" if pair[0] < 0 or pair[1] < 0 else f"{lo}–{hi}"
 
 
 def _label(sr: SiteResult, output: str) -> str:

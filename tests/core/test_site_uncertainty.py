@@ -260,3 +260,13 @@ def test_site_bands_are_ordered_seeded_and_hold_the_solve(capsys):
                                   tolerances=Tolerances(gauge_percent=0.1))
     assert next(i for i in narrow.inputs if i.kind == "gauge").half_width == pytest.approx(
         0.001 * 10 * PSI, rel=1e-6)  # percent of the 10 psid reading without a full scale
+
+
+def test_a_band_with_negative_ends_reads_without_a_double_dash(monkeypatch):
+    # A reverse flow has negative band ends: "-6.27 to -4.14", never "-6.27–-4.14".
+    from branchwise.core import bandtext
+
+    monkeypatch.setattr(bandtext, "band_range", lambda sr, name, system: (-6.273, -4.139))
+    assert bandtext.flow_band_cell(None, "A") == "-6.273 to -4.139"
+    monkeypatch.setattr(bandtext, "band_range", lambda sr, name, system: (4.139, 6.273))
+    assert bandtext.flow_band_cell(None, "A") == "4.139–6.273"
