@@ -183,3 +183,33 @@ def test_a_closed_palette_starts_no_search(sandbox, data_dir, ui):
             assert closed_event._no_default_action  # closed: Textual's search is skipped
 
     ui.run(scenario)
+
+
+def test_page_keys_in_the_palette_while_its_list_is_hidden(ui):
+    """Seeds 1045, 1050, 1057, 1066 and 1071 of the third sweep (under load): PageDown in the
+    command palette while its list held options but was hidden (between two searches)
+    raised KeyError in Textual's option list, which pages by laid-out lines. Forced here by
+    hiding the list; the visible list still pages."""
+    from textual.command import CommandList
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("ctrl+p")
+            await pilot.pause(0.3)
+            palette = app.screen
+            options = palette.query_one(CommandList)
+            assert options.option_count > 8 and options.highlighted == 0
+            await pilot.press("pagedown")
+            assert options.highlighted > 1  # a page down the shown list
+            palette._list_visible = False  # as between two searches: hidden, new options
+            await pilot.pause()
+            options.clear_options()
+            options.add_options(["Liquid", "Branches", "Split"])
+            options.highlighted = 1
+            await pilot.press("pagedown", "pageup")
+            assert options.highlighted == 1 and palette.is_current
+            await pilot.press("escape")
+
+    ui.run(scenario)

@@ -4,13 +4,15 @@ Keys typed in a burst can reach the palette after it has closed. A second Enter 
 it again (Textual then takes the screen below off the stack, the app's last one: a crash) and
 run the chosen command a second time; a letter would start a search in a palette whose list
 is gone (NoMatches in the search worker: a crash). The app opens this palette instead of
-Textual's own.
+Textual's own. PageDown and PageUp page the list only while it is shown: Textual's option list
+pages by its laid-out lines, which a hidden list has not got (KeyError).
 """
 
 from __future__ import annotations
 
 from textual.await_complete import AwaitComplete
-from textual.command import CommandPalette
+from textual.binding import Binding
+from textual.command import CommandList, CommandPalette
 from textual.widgets import Input
 
 
@@ -21,6 +23,19 @@ async def _nothing() -> None:
 class Palette(CommandPalette):
     """The command palette, deaf once closed (see also
     :class:`~branchwise.tui.screens.dialogs.Dialog`)."""
+
+    BINDINGS = [
+        Binding("pagedown", "page(1)", show=False),
+        Binding("pageup", "page(-1)", show=False),
+    ]
+
+    def action_page(self, direction: int) -> None:
+        options = self.query_one(CommandList)
+        if options.option_count and options.scrollable_content_region.area:
+            if direction > 0:
+                options.action_page_down()
+            else:
+                options.action_page_up()
 
     def dismiss(self, result: object = None) -> AwaitComplete:
         if self.app.screen is not self:
