@@ -183,8 +183,12 @@ class SplitScreen(PanelScreen):
         self.query_one("#split-results").set_class(stale, "-stale")
         table = self.query_one("#results", TextTable)
         u = app.unit_text
+        # Below 100 columns the share bar is shorter and Re compact (180k), so that the losses
+        # stay on screen at 80×24; the table still scrolls sideways if names are long.
+        wide = self.app.size.width >= 100
         columns = [("Branch", False), (f"Flow {u('flow')}", True), ("Share", False),
-                   (f"V {u('velocity')}", True), ("Re", True), ("f", True), ("Regime", False),
+                   (f"V {u('velocity')}", True), ("Re", True), ("f", True),
+                   ("Regime" if wide else "Reg.", False),
                    (f"Major {u('head')}", True), (f"Minor {u('head')}", True)]
         totals = self.query_one("#totals", Static)
         solved = self.query_one("#solved", Static)
@@ -204,11 +208,11 @@ class SplitScreen(PanelScreen):
             for j, seg in enumerate(br.segments):
                 first = j == 0
                 rows.append([
-                    br.name if first else f"  └ segment {j + 1}",
+                    br.name if first else f"  └ {'segment' if wide else 'seg.'} {j + 1}",
                     app.fmt(br.flow, "flow", unit=False) if first else "",
-                    share_bar(br.share) if first else "",
+                    share_bar(br.share, 6 if wide else 3) if first else "",
                     app.fmt(seg.velocity, "velocity", 3, unit=False),
-                    f"{seg.reynolds:,.0f}",
+                    f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
                     f"{seg.friction_factor:.4f}",
                     REGIMES.get(seg.regime, seg.regime),
                     app.fmt(seg.major_loss, "head", 3, unit=False),
@@ -376,6 +380,16 @@ class SplitScreen(PanelScreen):
         if action == "focus" and parameters == ("find-target",):
             return True if find_of(self.bw.site) != "flows" else None
         return True
+
+
+def _compact(number: float) -> str:
+    """``180266`` → ``180k``, ``1234567`` → ``1.23M``: a Reynolds number in four cells or so."""
+    if not number == number:  # NaN
+        return "—"
+    for scale, suffix in ((1e6, "M"), (1e3, "k")):
+        if abs(number) >= scale:
+            return f"{number / scale:.3g}{suffix}"
+    return f"{number:.0f}"
 
 
 def _park_key(site: object, kind: str, index: int | None) -> str:
