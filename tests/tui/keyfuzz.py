@@ -44,6 +44,7 @@ STARTS: dict[str, tuple[str, ...]] = {
     "palette": ("ctrl+p",),
     "record": ("f4", "r"),
     "find-diameter": ("f4", "f", "enter", "down", "enter"),
+    "tolerances": ("f4", "l"),
 }
 CI_STARTS = tuple(list(STARTS)[:10])
 

@@ -213,3 +213,26 @@ def test_page_keys_in_the_palette_while_its_list_is_hidden(ui):
             await pilot.press("escape")
 
     ui.run(scenario)
+
+
+@pytest.mark.xfail(strict=True, raises=AssertionError,
+                   reason="tui/screens/tolerances.py (owned by the Split screen work): "
+                   "TolerancesScreen should derive from dialogs.Dialog, as the other dialogs do")
+def test_a_double_enter_closes_the_tolerances_dialog_once(ui):
+    """The burst above, on the tolerances dialog (L on the Split screen): its Enter closes it
+    from a Field.Done message, so a second Enter in the same burst closed the Split screen's
+    stack too (ScreenStackError)."""
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("l")
+            await pilot.pause()
+            assert len(app.screen_stack) == 2
+            await _burst(pilot, ["enter", "enter"])
+
+    try:
+        ui.run(scenario)
+    except Exception as exc:  # the app's own error, re-raised by run_test
+        raise AssertionError(f"{type(exc).__name__}: {exc}") from exc
