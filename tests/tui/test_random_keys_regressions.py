@@ -215,9 +215,6 @@ def test_page_keys_in_the_palette_while_its_list_is_hidden(ui):
     ui.run(scenario)
 
 
-@pytest.mark.xfail(strict=True, raises=AssertionError,
-                   reason="tui/screens/tolerances.py (owned by the Split screen work): "
-                   "TolerancesScreen should derive from dialogs.Dialog, as the other dialogs do")
 def test_a_double_enter_closes_the_tolerances_dialog_once(ui):
     """The burst above, on the tolerances dialog (L on the Split screen): its Enter closes it
     from a Field.Done message, so a second Enter in the same burst closed the Split screen's

@@ -15,7 +15,6 @@ from typing import TYPE_CHECKING
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Label, Static
 
 from branchwise.core.errors import InputError
@@ -23,6 +22,7 @@ from branchwise.core.sitefile import TolerancesSpec
 
 from ..session import text_of, with_unit
 from ..widgets.field import Field
+from .dialogs import Dialog
 
 if TYPE_CHECKING:
     from branchwise.core.sitefile import Site
@@ -62,7 +62,7 @@ def defaults() -> dict[str, str]:
     }
 
 
-class TolerancesScreen(ModalScreen[TolerancesSpec | None]):
+class TolerancesScreen(Dialog[TolerancesSpec | None]):
     """The form; dismisses with the new table (None: cancelled, or nothing changed).
 
     site: the site as it is now (its table, and the readings a tolerance is checked against,
