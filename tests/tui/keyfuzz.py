@@ -243,17 +243,21 @@ async def _one_app(keys: list[str], at: int, report: Report, size: tuple[int, in
     app = BranchwiseApp()
     report.runs += 1
     exited_by = ""
-    allowed = False  # a quit is allowed: asked for with nothing unsaved, or answered
+    clean_quit = False  # Ctrl+Q typed with nothing unsaved
+    answers: list[tuple[str, str]] = []  # (question, answer) of every choice made
 
     def before(key: str) -> None:
-        nonlocal allowed
-        screen = app.screen
+        nonlocal clean_quit
         if key == "ctrl+q" and not app.session.dirty:
-            allowed = True
-        elif key in ("n", "s") and isinstance(screen, ChoiceScreen) and \
-                screen.title_text == "Unsaved changes":
-            allowed = True  # "Don't save" or "Save" (the answer may be handled late)
+            clean_quit = True
 
+    choose = ChoiceScreen.action_choose
+
+    def recorded(screen: ChoiceScreen, value: str) -> None:
+        answers.append((screen.title_text, value))
+        choose(screen, value)
+
+    ChoiceScreen.action_choose = recorded  # type: ignore[method-assign]
     try:
         async with app.run_test(size=size, message_hook=hook) as pilot:
             await pilot.pause()
@@ -264,7 +268,10 @@ async def _one_app(keys: list[str], at: int, report: Report, size: tuple[int, in
                 await _press(pilot, token, before)
                 if _is_exited(app):
                     exited_by = token
-                    if app._exception is None and not (allowed or not app.session.dirty):
+                    answered = any(q == "Unsaved changes" and a in ("drop", "save")
+                                   for q, a in answers)
+                    if app._exception is None and app.session.dirty and not (
+                            clean_quit or answered):
                         report.problems.append(
                             f"the app quit on {token!r} (key {at}) with unsaved changes and "
                             "without asking")
@@ -275,6 +282,8 @@ async def _one_app(keys: list[str], at: int, report: Report, size: tuple[int, in
         report.problems.append(f"unhandled {type(exc).__name__}: {exc} (near key {at}, "
                                f"{keys[at - 1]!r})")
         return len(keys)
+    finally:
+        ChoiceScreen.action_choose = choose  # type: ignore[method-assign]
     if app._exit_renderables:
         report.problems.append("Textual's error display was filled on exit")
     if app.return_code not in (None, 0):
