@@ -46,7 +46,9 @@ STARTS: dict[str, tuple[str, ...]] = {
     "find-diameter": ("f4", "f", "enter", "down", "enter"),
     "tolerances": ("f4", "l"),
 }
-CI_STARTS = tuple(list(STARTS)[:10])
+CI_TOURS = (("liquid", "help"), ("branches", "sites"), ("split", "units"),
+            ("save-as", "branch-form"), ("cautions", "new-branch"))
+"""The CI run: every start above 'palette', two to an app start."""
 
 APP_KEYS = ("f1", "question_mark", "f2", "f3", "f4", "f6", "f7", "exclamation_mark",
             "ctrl+s", "ctrl+r", "ctrl+o", "ctrl+t", "ctrl+z", "ctrl+y", "ctrl+q", "ctrl+p",
@@ -96,6 +98,15 @@ def draw_keys(seed: int, start: str, count: int) -> list[str]:
         keys.append(key)
         if key == "ctrl+q":
             keys.append(rng.choice(ANSWERS))
+    return keys
+
+
+def draw_tour(seed: int, starts: tuple[str, ...], count: int) -> list[str]:
+    """One sequence through several starts: for each, its opening keys and ``count`` random
+    tokens (one app start for all of them: app starts are the costly part of a short run)."""
+    keys: list[str] = []
+    for k, start in enumerate(starts):
+        keys += draw_keys(seed * 100 + k, start, count)
     return keys
 
 

@@ -8,8 +8,7 @@ junk. A quit is answered at random; after it the app is started again and the ke
 person would start it again. A failure prints the seed and the keys; ``keyfuzz.drive(keys)``
 replays them.
 
-CI runs one sequence of 26 random keys per start (about 20 s of CPU in all: the dialogs
-are costly to build, the units one most). A larger sweep:
+CI runs 26 random keys after each start, two starts to an app run (about 20 s). A larger sweep:
 ``BRANCHWISE_FUZZ_KEYS=20000 pytest tests/tui/test_random_keys.py -k large -s``
 (``BRANCHWISE_FUZZ_SEED`` first seed, ``BRANCHWISE_FUZZ_SECONDS`` wall-time cap, default 600).
 """
@@ -23,7 +22,7 @@ import keyfuzz
 import pytest
 
 CI_KEYS = 26
-"""Random keys per CI sequence (after the keys that open the start)."""
+"""Random keys after each start of a CI tour (after the keys that open it)."""
 LARGE_KEYS = 120
 SIZES = ((80, 24), (120, 40), (60, 18))
 
@@ -42,14 +41,15 @@ def _seed_site(data_dir) -> None:
     save_site(site, data_dir / "sites" / "boiler-room.toml")
 
 
-@pytest.mark.parametrize("index,start", list(enumerate(keyfuzz.CI_STARTS)))
-def test_random_keys(index, start, sandbox, data_dir):
+@pytest.mark.parametrize("index,starts", list(enumerate(keyfuzz.CI_TOURS)),
+                         ids=["+".join(t) for t in keyfuzz.CI_TOURS])
+def test_random_keys(index, starts, sandbox, data_dir):
     _seed_site(data_dir)
     seed = 7100 + index
-    keys = keyfuzz.draw_keys(seed, start, CI_KEYS)
+    keys = keyfuzz.draw_tour(seed, starts, CI_KEYS)
     report = keyfuzz.drive(keys, size=SIZES[index % 2], sandbox=sandbox, data_dir=data_dir,
                            timeout=60)
-    assert not report.problems, report.describe(seed, start)
+    assert not report.problems, report.describe(seed, " then ".join(starts))
     assert report.pressed == len(keys)  # every key was played, none dropped by a quit
     assert report.runs >= 1
 
