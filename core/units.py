@@ -260,7 +260,8 @@ def parse_quantity(
             raise InputError(field, "''", "is empty")
         m = _NUMBER.match(text)
         if m is None:
-            raise InputError(field, shown, "must start with a number, such as '64 m'")
+            raise InputError(field, shown,
+                             f"must start with a number, such as '12 {spec.display_si}'")
         number, unit = _bare(float(m.group(1)), field, shown), m.group(2).strip()
         if unit.startswith(",") and unit[1:2].isdigit():
             raise InputError(field, shown, "use a decimal point, not a comma")
