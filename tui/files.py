@@ -264,7 +264,7 @@ class SiteFiles:
         folder = self.session.path.parent if self.session.path else sites_dir()
         stem = Path(file_name_for(self.site.title)).stem
         suffix = ".md" if fmt == "markdown" else ".csv"
-        name = f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}"
+        name = _free(folder / f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}").name
         solved, system = outcome.solved, self.unit_system
         band = getattr(self, "latest_band", None)
         with_band = (band is not None and band.solved is not None
@@ -279,14 +279,26 @@ class SiteFiles:
             from branchwise.core.tomlfile import atomic_write_text
 
             text = to_markdown(solved, system) if fmt == "markdown" else to_csv(solved, system)
+            wanted, path = path, _free(path)  # an export never replaces a file
             try:
                 atomic_write_text(path, text)
             except InputError as exc:
                 self.notify(str(exc), title="Not written", severity="error", timeout=10)
                 return
             extra = " (with the P5–P95 band)" if with_band else ""
+            if path != wanted:
+                extra += f"; {wanted.name} exists and was kept"
             self.notify(f"Wrote {path}{extra}", timeout=5)
 
         title = "Walkdown record (Markdown)" if fmt == "markdown" else "Results (CSV)"
-        self.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix,
-                                      replace_ok=True), chosen)
+        self.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix), chosen)
+
+
+def _free(path: Path) -> Path:
+    """``path`` if no file is there, else the first free ``name-2``, ``name-3``… beside it."""
+    n = 2
+    candidate = path
+    while candidate.exists():
+        candidate = path.with_name(f"{path.stem}-{n}{path.suffix}")
+        n += 1
+    return candidate

@@ -57,3 +57,19 @@ def test_site_name_by_key_and_kept_in_the_saved_file(ui, data_dir):
         assert load_site(saved).name == "Plant B header"
 
     ui.run(scenario)
+
+
+def test_an_export_never_replaces_a_file(ui, data_dir):
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            for _ in range(2):  # the same minute: the same proposed name
+                await pilot.press("r", "enter")
+                await ui.settle(pilot)
+            records = sorted((data_dir / "sites").glob("*.md"))
+            assert len(records) == 2  # the second went to "…-2.md" (or a new minute's name)
+            assert all(r.read_text(encoding="utf-8").startswith("# Walkdown record")
+                       for r in records)
+
+    ui.run(scenario)
