@@ -8,7 +8,7 @@ its arrays. Every failure is an :class:`InputError` naming the field path.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Literal
 
 from .errors import InputError
@@ -234,10 +234,7 @@ class Network:
     def replace_branch(self, index: int, branch: Branch) -> Network:
         branches = list(self.branches)
         branches[index] = branch
-        return Network(
-            self.fluid, tuple(branches), self.elevation_change, self.gravity, self.friction,
-            self.velocity_limit,
-        )
+        return replace(self, branches=tuple(branches))
 
 
 # ---- what is given and what is sought -------------------------------------------------------

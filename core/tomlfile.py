@@ -26,7 +26,7 @@ from collections.abc import Callable, Mapping, MutableMapping
 from pathlib import Path
 from typing import Any
 
-from .errors import InputError
+from .errors import InputError, one_line
 
 FORMAT = 1
 """The file format this version writes and reads. History: 0 = no ``format`` key (written by
@@ -143,7 +143,7 @@ _PLAIN_WORDS: tuple[tuple[str, str], ...] = (
 
 def _printable(text: str, limit: int = 60) -> str:
     """``text`` with control characters escaped and cut to ``limit`` characters, for messages."""
-    shown = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text.strip())
+    shown = one_line(text.strip())
     return shown if len(shown) <= limit else shown[: limit - 1] + "…"
 
 

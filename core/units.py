@@ -29,7 +29,7 @@ from dataclasses import dataclass
 from functools import cache
 from typing import TYPE_CHECKING, Any
 
-from .errors import InputError
+from .errors import InputError, one_line
 
 if TYPE_CHECKING:
     import pint
@@ -424,5 +424,5 @@ def describe(value: Any, limit: int = 60) -> str:
         text = f"a whole number of about {value.bit_length() * 0.30103:.0f} digits"
     except RecursionError:  # lists inside lists, thousands deep
         text = f"a {type(value).__name__} nested too deeply to show"
-    text = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
+    text = one_line(text)
     return text if len(text) <= limit else text[: limit - 1] + "…"
