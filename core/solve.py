@@ -52,10 +52,13 @@ def solve(network: Network, given: Given, find: Find | None = None) -> Result:
         head = _head_for_unknown(network, given, find, target_index, infos)
         network, solved, info = unknowns.find(network, find, target_index, head, given)
         infos.append(info)
+        guess = None
     else:
-        head = _head_for_flows(network, given, infos)
+        head, guess = _head_for_flows(network, given, infos)
     lay = Layout.from_network(network)
-    flows, info = flows_at_head(lay, head)
+    # With a total flow given, the flows found with the head start this last solve, which
+    # then only confirms them.
+    flows, info = flows_at_head(lay, head, guess)
     infos.append(info)
     if isinstance(given, MeasuredFlow):
         flows[network.index_of(given.branch, "conditions.measured_flow")] = given.value
@@ -92,16 +95,18 @@ def _check_given(network: Network, given: Given) -> None:
                          "measured branch flow")
 
 
-def _head_for_flows(network: Network, given: Given, infos: list[RootInfo]) -> float:
+def _head_for_flows(
+    network: Network, given: Given, infos: list[RootInfo]
+) -> tuple[float, np.ndarray | None]:
+    """The driving head the given condition fixes, and the flows found on the way (if any)."""
     if isinstance(given, PressureDrop):
-        return driving_head(network, given.value)
-    lay = Layout.from_network(network)
+        return driving_head(network, given.value), None
     if isinstance(given, MeasuredFlow):
         i = network.index_of(given.branch, "conditions.measured_flow")
-        return _head_of_branch(network, i, given.value)
-    head, _, info = head_for_total_flow(lay, given.value)
+        return _head_of_branch(network, i, given.value), None
+    head, flows, info = head_for_total_flow(Layout.from_network(network), given.value)
     infos.append(info)
-    return float(head[0])
+    return float(head[0]), flows
 
 
 def _head_of_branch(network: Network, index: int, flow: float) -> float:
@@ -151,7 +156,7 @@ def _head_for_unknown(
         infos.append(info)
         h = float(head[0])
     else:
-        h = _head_for_flows(network, given, infos)
+        h = _head_for_flows(network, given, infos)[0]
     if h == 0 or math.copysign(1, h) != math.copysign(1, find.target_flow):
         raise NoSolutionError(
             f"branch '{network.branches[index].name}' cannot carry {flow_text(find.target_flow)}: "
