@@ -8,7 +8,9 @@
 
 Nothing here imports Textual at module level: ``branchwise solve`` must start fast and work
 where no terminal UI can run. Bad input prints one line, ``branchwise: <file>: <field>: <reason>,
-got <value>``, and exits with status 2; the input file is only ever read.
+got <value>`` (a branch's field by the branch's name, the field path after it:
+``branch "AHU-2 coil" length: ... (branches[1].length)``), and exits with status 2; the input
+file is only ever read.
 """
 
 from __future__ import annotations
@@ -260,19 +262,46 @@ def _one_line(text: str) -> str:
     return " ".join(text.split())
 
 
-def _message(exc: Exception, label: str) -> str:
-    """``<file>: <field>: <reason>, got <value>`` on one line, the file named once."""
+def _branch_names(args: argparse.Namespace) -> list[object]:
+    """The branch names of the site file being solved (the demo's without a file), read again
+    only to word an error message; [] when the file cannot be read as TOML."""
+    from branchwise.core.sitefile import branch_names, demo_text
+
+    if args.command not in ("solve", "open", None):
+        return []
+    site = getattr(args, "site", None)
+    if site is None:
+        return list(branch_names(demo_text()))
+    try:
+        text = Path(site).read_bytes().decode("utf-8").removeprefix("\ufeff")
+    except (OSError, UnicodeDecodeError):
+        return []
+    return list(branch_names(text))
+
+
+def _message(exc: Exception, label: str, names: list[object] | None = None) -> str:
+    """``<file>: <field>: <reason>, got <value>`` on one line, the file named once.
+
+    A branch's field is put by the branch's name, the path as in the file after it:
+    ``site.toml: branch "AHU-2 coil" length: must not be negative, got -5 m (branches[1].length)``.
+    """
     from branchwise.core.errors import InputError, NoSolutionError
+    from branchwise.core.sitefile import in_words
 
     if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
         return _one_line(f"{exc.field}: {exc.reason}, got {exc.value}")
+    names = names or []
     if isinstance(exc, InputError):
         field, name = exc.field, Path(label).name
         if field == name or field.startswith(name + " "):  # "demo.toml line 7" → "line 7"
             field = field[len(name):].strip()
-        text = f"{field + ': ' if field else ''}{exc.reason}, got {exc.value}"
+        words = in_words(field, names)
+        text = (f"{words + ': ' if words else ''}{in_words(exc.reason, names)}, got {exc.value}"
+                + (f" ({field})" if words != field else ""))
     elif isinstance(exc, NoSolutionError) and exc.field:
-        text = f"{exc.field}: {exc}"
+        words = in_words(exc.field, names)
+        text = f"{words}: {in_words(str(exc), names)}" + (
+            f" ({exc.field})" if words != exc.field else "")
     else:
         text = str(exc)
     return _one_line(f"{label}: {text}")
@@ -303,7 +332,8 @@ def main(argv: list[str] | None = None) -> int:
             return run_presets(args.action, args.kind, args.key, args.values, out)
         return _where(out)
     except BranchwiseError as exc:
-        print(f"branchwise: {_message(exc, _site_label(args))}", file=sys.stderr)
+        names = _branch_names(args) if "branches[" in str(exc) else []
+        print(f"branchwise: {_message(exc, _site_label(args), names)}", file=sys.stderr)
         return EXIT_INPUT
     except OSError as exc:
         target = exc.filename if exc.filename is not None else _site_label(args)

@@ -53,42 +53,43 @@ BAD_FILES = [
     ("bad TOML, with its line", edit('kind = "water"', "kind = water"), "line 5"),
     ("unclosed string", edit('name = "Pump room"', 'name = "Pump room'), "line 2"),
     ("wrong unit dimension", edit('length = "64 m"', 'length = "64 kPa"'),
-     "branches[0].length: is not a length"),
+     'branch "Condenser A" length: is not a length'),
     ("unknown unit", edit('length = "64 m"', 'length = "64 furlongz"'),
-     "branches[0].length: unknown unit"),
+     'branch "Condenser A" length: unknown unit'),
     ("bare number for a length", edit('length = "64 m"', "length = 64"),
-     "branches[0].length: needs a unit"),
-    ("NaN number", edit('length = "64 m"', "length = nan"), "branches[0].length"),
-    ("NaN text", edit('length = "64 m"', 'length = "nan m"'), "branches[0].length"),
+     'branch "Condenser A" length: needs a unit'),
+    ("NaN number", edit('length = "64 m"', "length = nan"), "(branches[0].length)"),
+    ("NaN text", edit('length = "64 m"', 'length = "nan m"'), 'branch "Condenser A" length'),
     ("infinite", edit('pressure_drop = "68 kPa"', 'pressure_drop = "1e999 kPa"'),
      "conditions.pressure_drop"),
     ("negative length", edit('length = "64 m"', 'length = "-64 m"'),
-     "branches[0].length: must not be negative"),
+     'branch "Condenser A" length: must not be negative'),
     ("roughness at least D/2", edit('roughness = "0.045 mm"', 'roughness = "60 mm"'),
-     "branches[0].roughness: must be below half the diameter"),
+     'branch "Condenser A" roughness: must be below half the diameter'),
     ("missing condition", edit('pressure_drop = "68 kPa"', ""), "conditions: give one reading"),
     ("contradictory conditions", edit('pressure_drop = "68 kPa"',
                                       'pressure_drop = "68 kPa"\ntotal_flow = "30 L/s"'),
      "conditions.total_flow: contradicts conditions.pressure_drop"),
     ("pressure drop and a measured flow", edit('minor_k = 6.2', 'minor_k = 6.2\n'
                                                'measured_flow = "20 L/s"'),
-     "branches[0].measured_flow: contradicts"),
+     'branch "Condenser A" measured_flow: contradicts'),
     ("unknown branch in [solve]", GOOD + SOLVE.format(branch="Tower", flow="9 L/s"),
      "solve.branch: no such branch"),
     ("duplicate names", edit('name = "Jacket loop"', 'name = "condenser a"'),
-     "branches[1].name: duplicates branches[0].name"),
+     'branch "condenser a" name: duplicates branch "Condenser A" name'),
     ("unknown fluid kind", edit('kind = "water"', 'kind = "mercury"'), "fluid.kind"),
     ("water above boiling", edit('"18 degC"', '"120 degC"'), "fluid.temperature"),
     ("unknown material", edit('material = "commercial-steel"', 'material = "unobtainium"'),
-     "branches[1].material"),
-    ("size not in the catalog", edit('"3 in sch 40"', '"3 in sch 41"'), "branches[1].size"),
+     'branch "Jacket loop" material'),
+    ("size not in the catalog", edit('"3 in sch 40"', '"3 in sch 41"'),
+     'branch "Jacket loop" size'),
     ("diameter and size both", edit('size = "3 in sch 40"',
                                     'size = "3 in sch 40"\ndiameter = "3 in"'),
-     "branches[1].size: give diameter or size, not both"),
+     'branch "Jacket loop" size: give diameter or size, not both'),
     ("unknown key (typo)", edit('length = "64 m"', 'lenght = "64 m"'),
-     "branches[0].lenght: unknown key (did you mean 'length'?)"),
+     'branch "Condenser A" lenght: unknown key (did you mean \'length\'?)'),
     ("unknown fitting", edit("minor_k = 6.2", "minor_k = 6.2\nfittings = { elbow-91 = 2 }"),
-     "branches[0].fittings"),
+     'branch "Condenser A" fittings'),
     ("newer format", edit("format = 1", "format = 99"), "format: written by a newer branchwise"),
     ("no branches", GOOD.split("[[branches]]")[0], "branches: a site needs at least one"),
     ("unknown find", GOOD + '\n[solve]\nfind = "colour"\n', "solve.find: must be one of"),
@@ -113,6 +114,56 @@ def test_bad_site_file(tmp_path, capsys, case, content, expected):
     assert "Traceback" not in err
     assert path.read_bytes() == before
     assert sorted(p.name for p in tmp_path.iterdir()) == ["site.toml"]  # nothing written beside
+
+
+BRANCH_WORDS = [
+    # (change, the branch by name and the field, the field path as in the file)
+    (('length = "180 ft"', 'length = "-180 ft"'), 'branch "Jacket loop" length: must not be '
+     'negative, got -180 ft', "(branches[1].length)"),
+    (('name = "Jacket loop"', 'name = "  "'), "branch 2 (no name) name: must be non-empty text",
+     "(branches[1].name)"),
+    (('size = "3 in sch 40"\nlength = "180 ft"\nmaterial = "commercial-steel"\n',
+      'segments = [ { size = "3 in sch 40", length = "180 ft" },\n'
+      '  { size = "2 in sch 40", length = "9 kPa" } ]\n'), 'branch "Jacket loop" segment 2 '
+     "length: is not a length", "(branches[1].segments[1].length)"),
+]
+
+
+@pytest.mark.parametrize(("change", "words", "path"), BRANCH_WORDS)
+def test_branch_fields_are_named_by_the_branch(tmp_path, capsys, change, words, path):
+    # A technician reads the file by branch names, not zero-based places (newcomer trial).
+    site = tmp_path / "site.toml"
+    site.write_text(edit(*change), encoding="utf-8")
+    assert main(["solve", str(site)]) == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and err.startswith(f"branchwise: {site}: {words}"), err
+    assert err.rstrip().endswith(path), err
+
+
+def test_branch_error_keeps_its_field_path_for_the_app(tmp_path):
+    # The app places the message beside the widget of InputError.field: it stays a path.
+    from branchwise.core.errors import InputError
+    from branchwise.core.sitefile import load_site
+    from branchwise.core.sitesolve import solve_site
+
+    site = tmp_path / "site.toml"
+    site.write_text(edit('length = "180 ft"', 'length = "-180 ft"'), encoding="utf-8")
+    with pytest.raises(InputError) as caught:
+        solve_site(load_site(site))
+    assert caught.value.field == "branches[1].length"
+
+
+def test_in_words_puts_every_branch_reference_by_name():
+    from branchwise.core.sitefile import branch_names, in_words
+
+    names = branch_names(GOOD)
+    assert names == ["Condenser A", "Jacket loop"]
+    assert (in_words("branches[1].fittings.elbow-90", names)
+            == 'branch "Jacket loop" fittings.elbow-90')
+    assert in_words("duplicates branches[0].name", names) == 'duplicates branch "Condenser A" name'
+    assert in_words("branches[5]", names) == "branch 6 (no name)"  # beyond the list: by place
+    assert in_words("conditions.pressure_drop", names) == "conditions.pressure_drop"
+    assert branch_names("not = [toml") == [] and branch_names('branches = "x"') == []
 
 
 def test_there_are_at_least_fifteen_kinds_of_bad_file():
