@@ -8,6 +8,8 @@ no answer, and states the limit that was hit.
 
 from __future__ import annotations
 
+from typing import Any
+
 
 class BranchwiseError(Exception):
     """Base of every error meant for the user (the CLI prints it, exit 2)."""
@@ -45,8 +47,31 @@ class NoSolutionError(BranchwiseError):
     """Valid inputs for which no answer exists; the message states the limit.
 
     ``field`` points at the input the user would change (for example ``solve.target_flow``).
+    ``marked`` is the message with its quantities still marked (see ``core.messages``), for a
+    boundary that states them in the user's units; the plain message states them in SI.
     """
 
     def __init__(self, message: str, field: str = "") -> None:
+        from .messages import render
+
         self.field = field
-        super().__init__(one_line(message))
+        self.marked = message
+        super().__init__(one_line(render(message)))
+
+
+def describe(value: Any, limit: int = 60) -> str:
+    """A value as it appears in a one-line message: strings as typed, other values by repr.
+
+    Control characters are escaped and long text is cut to ``limit`` characters, so that a
+    message stays one printable line whatever the file held.
+    """
+    try:
+        text = value if isinstance(value, str) else repr(value)
+    except ValueError:  # an int longer than Python turns into text (4300 digits by default)
+        if not isinstance(value, int):
+            raise
+        text = f"a whole number of about {value.bit_length() * 0.30103:.0f} digits"
+    except RecursionError:  # lists inside lists, thousands deep
+        text = f"a {type(value).__name__} nested too deeply to show"
+    text = one_line(text)
+    return text if len(text) <= limit else text[: limit - 1] + "…"

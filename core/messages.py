@@ -1,27 +1,75 @@
-"""Short SI texts for messages raised from the core (the boundary may re-state them in other units).
+"""Quantities inside messages raised from the core, kept so a boundary can state them in its units.
 
-Flows in L/s, heads in m, pressures in kPa, diameters in mm: the units a site engineer reads most
-easily when an answer does not exist.
+The core works in SI and knows nothing of the user's units. A message that quotes a quantity
+therefore carries it *marked*: ``flow_text(0.012)`` returns the flow as a marker holding the
+kind and the exact SI value. :func:`render` turns marked text into words — by default the SI
+units a site engineer reads most easily (flows in L/s, heads in m, pressures in kPa, diameters
+in mm) — and ``branchwise.core.units.restate`` turns the same text into US or any other units.
+Errors and warnings keep the marked text (``NoSolutionError.marked``, ``Warning.marked``) and
+show the SI rendering as their plain message, so nothing prints a marker.
 """
 
 from __future__ import annotations
 
+import re
+from collections.abc import Callable
+
+_OPEN, _CLOSE = "\ue000", "\ue001"  # private-use characters: never typed, never printed
+_MARK = re.compile(f"{_OPEN}([a-z_]+) ([^{_CLOSE}]+){_CLOSE}")
+
+
+def marked(kind: str, value_si: float) -> str:
+    """A quantity of ``kind`` (a key of ``units.KINDS``) as a marker inside message text."""
+    return f"{_OPEN}{kind} {float(value_si)!r}{_CLOSE}"
+
+
+def render(text: str, show: Callable[[float, str], str] | None = None) -> str:
+    """``text`` with every marked quantity written out by ``show(value_si, kind)``.
+
+    show: None writes the SI text of :func:`si_text`.
+    """
+    if _OPEN not in text:
+        return text
+    show = show or si_text
+    return _MARK.sub(lambda m: show(float(m.group(2)), m.group(1)), text)
+
+
+def si_text(value_si: float, kind: str) -> str:
+    """The SI words for a quantity: L/s, m, kPa, mm (m from 1 m on), m/s; km beyond 10 km."""
+    if kind == "flow":
+        return f"{value_si * 1000:.4g} L/s"
+    if kind == "pressure":
+        return f"{value_si / 1000:.4g} kPa"
+    if kind == "diameter":
+        return f"{value_si * 1000:.4g} mm" if value_si < 1 else f"{value_si:.4g} m"
+    if kind == "length" and abs(value_si) >= 10_000:
+        return f"{value_si / 1000:.4g} km"
+    if kind == "velocity":
+        return f"{value_si:.3g} m/s"
+    if kind in ("length", "head"):
+        return f"{value_si:.4g} m"
+    return f"{value_si:.4g}"
+
 
 def flow_text(q_m3_s: float) -> str:
-    return f"{q_m3_s * 1000:.4g} L/s"
+    return marked("flow", q_m3_s)
 
 
 def head_text(h_m: float) -> str:
-    return f"{h_m:.4g} m"
+    return marked("head", h_m)
 
 
 def pressure_text(p_pa: float) -> str:
-    return f"{p_pa / 1000:.4g} kPa"
+    return marked("pressure", p_pa)
 
 
 def diameter_text(d_m: float) -> str:
-    return f"{d_m * 1000:.4g} mm" if d_m < 1 else f"{d_m:.4g} m"
+    return marked("diameter", d_m)
 
 
 def length_text(length_m: float) -> str:
-    return f"{length_m:.4g} m"
+    return marked("length", length_m)
+
+
+def velocity_text(v_m_s: float) -> str:
+    return marked("velocity", v_m_s)

@@ -63,11 +63,23 @@ class Solved:
 
 @dataclass(frozen=True)
 class Warning:
-    """Something the engineer should know. ``code`` is stable for scripts."""
+    """Something the engineer should know. ``code`` is stable for scripts.
+
+    ``message`` states its quantities in SI; ``marked`` is the same text with the quantities
+    marked (see ``core.messages``), for a boundary that states them in the user's units.
+    """
 
     code: str
     branch: str | None
     message: str
+    marked: str = field(default="", compare=False, repr=False)
+
+    @classmethod
+    def of(cls, code: str, branch: str | None, marked_text: str) -> Warning:
+        """A warning from marked text: the plain message is its SI rendering."""
+        from .messages import render
+
+        return cls(code, branch, render(marked_text), marked_text)
 
 
 @dataclass(frozen=True)

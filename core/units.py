@@ -27,11 +27,14 @@ import math
 import re
 from dataclasses import dataclass
 from functools import cache
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
-from .errors import InputError, one_line
+from .errors import InputError, describe, one_line
+from .unitgrammar import unit_expression
 
 if TYPE_CHECKING:
+    from collections.abc import Mapping
+
     import pint
 
 WATER_COLUMN_DENSITY = 999.972
@@ -64,7 +67,7 @@ _WATER_COLUMN_UNIT = {"in": "inH2O", "inch": "inH2O", "inches": "inH2O", '"': "i
                       "cm": "cmH2O", "m": "mH2O"}
 _BARE_TEMPERATURE = re.compile(r"^(?:deg(?:rees?)?\s*)?(?P<scale>[CF])$", re.IGNORECASE)
 """``5 C``, ``41 F``, ``5 deg C``: in a temperature field C and F can only mean the scales."""
-_GAUGE = {"psig": "psi", "barg": "bar", "kpag": "kPa"}
+
 
 
 @dataclass(frozen=True)
@@ -115,121 +118,6 @@ def registry() -> pint.UnitRegistry:
 # ---- reading ---------------------------------------------------------------------------------
 
 _NUMBER = re.compile(r"\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)(.*)\Z", re.S)
-_TOKEN = re.compile(r"\s*(?:(\*\*|\^)|([*/·()])|([^\W\d][\w°µ]*|°[CF]|%|\"|')|([+-]?\d+)|(\S))")
-_SUPERSCRIPT = str.maketrans({"²": "^2", "³": "^3", "⁻": "^-", "¹": "1"})
-_NAME_SWAP = {
-    '"': "inch", "'": "foot", "mil": "thou", "°C": "degC", "°F": "degF", "μm": "um", "µm": "um",
-}
-_POWER_SUFFIX = re.compile(r"([A-Za-z]+)([23])\Z")
-
-
-MAX_UNIT_NAMES, MAX_UNIT_PARENTHESES, MAX_UNIT_NAME_LENGTH = 12, 4, 48
-"""Caps on one unit: names (``kg/m^3`` has two), parentheses inside each other, and letters
-in a name (pint's longest has 41); beyond them the text is refused unread."""
-
-
-def _unit_expression(text: str, field: str, value: object) -> str:
-    """Check ``text`` against a small unit grammar and return it in pint's syntax.
-
-    Grammar: names joined by ``*``, ``/``, ``·`` or spaces, each optionally raised to a whole
-    power with ``^`` or ``**``, with parentheses. ``m3`` means ``m^3``. Checking first keeps
-    pint's parser (which accepts arbitrary Python-like expressions) away from junk; the caps
-    on names and parentheses keep it below its recursion limit, which a damaged file can
-    otherwise reach (``m*m*m*...`` a few hundred times).
-    """
-    ureg = registry()
-    out: list[str] = []
-    depth = names = 0
-    expect_operand = True
-    text = text.translate(_SUPERSCRIPT)
-    pos = 0
-    while pos < len(text):
-        m = _TOKEN.match(text, pos)
-        if m is None:  # only trailing blanks remain
-            break
-        pos = m.end()
-        power, op, name, integer, junk = m.groups()
-        if junk is not None:
-            raise InputError(field, value, f"{describe(junk)!r} cannot appear in a unit")
-        if name is not None:
-            name = _NAME_SWAP.get(name, name)
-            if not _is_unit(ureg, name):
-                stem = _POWER_SUFFIX.match(name)
-                if stem and _is_unit(ureg, stem.group(1)):
-                    name = f"{stem.group(1)}**{stem.group(2)}"
-                else:
-                    raise InputError(field, value,
-                                     f"unknown unit '{describe(name, 40)}'{_hint(name)}")
-            if not expect_operand:
-                out.append("*")
-            out.append(name)
-            expect_operand = False
-            names += 1
-            if names > MAX_UNIT_NAMES:
-                raise InputError(field, value, f"the unit is too long (more than "
-                                 f"{MAX_UNIT_NAMES} unit names)")
-        elif op == "(":
-            if not expect_operand:
-                out.append("*")
-            out.append("(")
-            depth += 1
-            expect_operand = True
-            if depth > MAX_UNIT_PARENTHESES:
-                raise InputError(field, value, f"parentheses in the unit are nested more than "
-                                 f"{MAX_UNIT_PARENTHESES} deep")
-        elif op == ")":
-            depth -= 1
-            if depth < 0 or expect_operand:
-                raise InputError(field, value, "unbalanced parentheses in the unit")
-            out.append(")")
-        elif op is not None or power is not None:
-            if expect_operand:
-                raise InputError(field, value, "a unit operator has nothing on its left")
-            if power is not None:
-                if out[-1].startswith("**"):  # m^9^9^9 would have pint compute 9^387420489
-                    raise InputError(field, value, "a unit power cannot be raised to a power")
-                exp = _TOKEN.match(text, pos)
-                digits = exp.group(4) if exp is not None else None
-                if digits is None or len(digits) > 3 or not 0 < abs(int(digits)) <= 9:
-                    raise InputError(field, value, "a unit power must be a whole number, "
-                                     "-9 to 9, not 0")
-                pos = exp.end()  # type: ignore[union-attr]
-                out.append(f"**{int(digits)}")
-            else:
-                out.append("*" if op == "·" else op)
-                expect_operand = True
-        else:
-            raise InputError(field, value, "a number can only follow the unit as a power (m^3)")
-    if depth != 0 or (expect_operand and out):
-        raise InputError(field, value, "the unit is incomplete")
-    return "".join(out)
-
-
-def _is_unit(ureg: pint.UnitRegistry, name: str) -> bool:
-    """Whether pint knows ``name``; names pint keeps private ("_x", "x__") are not units, nor
-    is text its parser cannot read as one name (``¼`` is a word character to a regular
-    expression but not a Python identifier, and trips an assertion inside pint)."""
-    if name.startswith("_") or name.endswith("__") or not (name.isidentifier() or name == "%"):
-        return False
-    if len(name) > MAX_UNIT_NAME_LENGTH:  # pint's preprocessing takes time growing as length²
-        return False
-    import pint
-
-    try:
-        return name in ureg
-    except (ValueError, AttributeError, pint.errors.PintError):  # "nan", "inf"; "mdegC"
-        return False
-
-
-def _hint(name: str) -> str:
-    if name.casefold() in _GAUGE:
-        return (f" (a pressure difference has no gauge offset: write "
-                f"{_GAUGE[name.casefold()]}; an absolute pressure needs the atmosphere added)")
-    known = {c for k in KINDS.values() for c in k.choices} | {"psid", "gpm", "degC", "degF"}
-    close = [c for c in sorted(known) if c.casefold() == name.casefold()]
-    return f" (did you mean '{close[0]}'?)" if close else ""
-
-
 def parse_quantity(
     text: object, kind: str, field: str, default_unit: str | None = None
 ) -> float:
@@ -292,7 +180,7 @@ def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: s
     import pint
 
     ureg = registry()
-    expression = _unit_expression(unit, field, shown)
+    expression = unit_expression(registry(), unit, field, shown)
     try:
         # The grammar above leaves pint only names and operators; what pint still refuses
         # (a name it reads as a number, such as "nan") comes back as PintError or ValueError.
@@ -339,7 +227,7 @@ def _affine(unit: str, kind: str) -> tuple[float, float]:
     """(scale, offset) such that value_in_unit = scale · value_si + offset."""
     spec = _kind(kind)
     ureg = registry()
-    expression = _unit_expression(unit, "unit", unit)
+    expression = unit_expression(ureg, unit, "unit", unit)
     units = ureg.parse_units(expression) if expression else ureg.dimensionless
     if units.dimensionality != ureg.get_dimensionality(spec.dimension):
         raise InputError("unit", unit, _wrong_dimension(kind, spec))
@@ -410,19 +298,26 @@ def format_quantity(
     return f"{format_number(to_unit(value_si, kind, unit), digits)} {unit_label(unit)}".strip()
 
 
-def describe(value: Any, limit: int = 60) -> str:
-    """A value as it appears in a one-line message: strings as typed, other values by repr.
+def restate(text: str, system: str = "si", units: Mapping[str, str] | None = None) -> str:
+    """Marked message text (see ``core.messages``) with its quantities in the user's units.
 
-    Control characters are escaped and long text is cut to ``limit`` characters, so that a
-    message stays one printable line whatever the file held.
+    system: ``si`` keeps the core's own SI wording unless ``units`` names a unit for the kind;
+    ``us`` uses the US display units. units: a unit per kind (the user's display choices).
     """
-    try:
-        text = value if isinstance(value, str) else repr(value)
-    except ValueError:  # an int longer than Python turns into text (4300 digits by default)
-        if not isinstance(value, int):
-            raise
-        text = f"a whole number of about {value.bit_length() * 0.30103:.0f} digits"
-    except RecursionError:  # lists inside lists, thousands deep
-        text = f"a {type(value).__name__} nested too deeply to show"
-    text = one_line(text)
-    return text if len(text) <= limit else text[: limit - 1] + "…"
+    from .messages import render, si_text
+
+    chosen = units or {}
+
+    def show(value_si: float, kind: str) -> str:
+        unit = chosen.get(kind)
+        if kind not in KINDS or (system == "si" and unit is None):
+            return si_text(value_si, kind)
+        return format_quantity(value_si, kind, system, unit)
+
+    return render(text, show)
+
+
+def say(item: object, system: str = "si", units: Mapping[str, str] | None = None) -> str:
+    """What to show for a warning or an error: its marked text restated, else its own text."""
+    text = getattr(item, "marked", "") or (item.message if hasattr(item, "message") else "")
+    return one_line(restate(text, system, units)) if text else str(item)

@@ -21,7 +21,7 @@ import numpy as np
 from . import friction
 from .errors import InputError, NoSolutionError
 from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, segment_state
-from .messages import diameter_text, flow_text, head_text
+from .messages import diameter_text, flow_text, head_text, length_text, pressure_text
 from .model import MAX_LENGTH, Branch, FindUnknown, Given, Network, PressureDrop
 from .results import Solved
 
@@ -59,7 +59,7 @@ def _branch_layout(net: Network, br: Branch) -> Layout:
 
 def _where(given: Given, head: float) -> str:
     if isinstance(given, PressureDrop):
-        return f"at {given.value / 1000:.4g} kPa"
+        return f"at {pressure_text(given.value)}"
     return f"at the driving head of {head_text(head)} the network sets"
 
 
@@ -81,9 +81,9 @@ def _length(net: Network, br: Branch, want: FindUnknown, head: float, given: Giv
             "solve.target_flow")
     if length > MAX_LENGTH:
         raise NoSolutionError(
-            f"branch '{br.name}' would need {length / 1000:.4g} km of pipe to hold "
+            f"branch '{br.name}' would need {length_text(length)} of pipe to hold "
             f"{flow_text(want.target_flow)} {_where(given, head)}: more than any pipe run "
-            f"({MAX_LENGTH / 1000:.4g} km); check the target flow", "solve.target_flow")
+            f"({length_text(MAX_LENGTH)}); check the target flow", "solve.target_flow")
     return length
 
 

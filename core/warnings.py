@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from .friction import RE_LAMINAR, RE_TURBULENT
-from .messages import flow_text
+from .messages import flow_text, velocity_text
 from .model import Network
 from .results import Arrays, Convergence, Warning
 
@@ -28,7 +28,7 @@ def collect_warnings(
         where = ""
         if seg is not None and len(net.branches[branch].segments) > 1:  # type: ignore[index]
             where = f"segment {seg_index[seg] + 1}: "
-        out.append(Warning(code, name, f"{where}{detail}"))
+        out.append(Warning.of(code, name, f"{where}{detail}"))
 
     flowing = a.flow[a.seg_branch] != 0
     speed = np.abs(a.velocity)
@@ -50,7 +50,7 @@ def collect_warnings(
     for b in np.flatnonzero(a.flow < 0):
         add("reverse-flow", None, int(b), f"reverse flow ({flow_text(a.flow[b])}): {why}")
     if not conv.converged:
-        out.append(Warning("not-converged", None,
+        out.append(Warning.of("not-converged", None,
                            f"the solver stopped at a relative residual of {conv.residual:.2g}"))
     return out
 
@@ -65,7 +65,8 @@ def _detail(code: str, net: Network, a: Arrays, rr: np.ndarray, s: int) -> str:
     if code == "roughness-range":
         return f"ε/D = {rr[s]:.3g} is above {ROUGHNESS_RANGE}, beyond the correlation's range"
     if code == "velocity-high":
-        return (f"velocity {abs(a.velocity[s]):.2f} m/s is above {net.velocity_limit:g} m/s "
+        return (f"velocity {velocity_text(abs(a.velocity[s]))} is above "
+                f"{velocity_text(net.velocity_limit)} "
                 "(common practice for water lines: expect noise and erosion)")
     return "Hazen–Williams is meant for water in turbulent flow; use a Darcy model here"
 
