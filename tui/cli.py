@@ -265,7 +265,8 @@ def _one_line(text: str) -> str:
 def _branch_names(args: argparse.Namespace) -> list[object]:
     """The branch names of the site file being solved (the demo's without a file), read again
     only to word an error message; [] when the file cannot be read as TOML."""
-    from branchwise.core.sitefile import branch_names, demo_text
+    from branchwise.core.sitefile import demo_text
+    from branchwise.core.sitewords import branch_names
 
     if args.command not in ("solve", "open", None):
         return []
@@ -286,7 +287,7 @@ def _message(exc: Exception, label: str, names: list[object] | None = None) -> s
     ``site.toml: branch "AHU-2 coil" length: must not be negative, got -5 m (branches[1].length)``.
     """
     from branchwise.core.errors import InputError, NoSolutionError
-    from branchwise.core.sitefile import in_words
+    from branchwise.core.sitewords import in_words
 
     if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
         return _one_line(f"{exc.field}: {exc.reason}, got {exc.value}")

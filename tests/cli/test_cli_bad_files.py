@@ -154,7 +154,7 @@ def test_branch_error_keeps_its_field_path_for_the_app(tmp_path):
 
 
 def test_in_words_puts_every_branch_reference_by_name():
-    from branchwise.core.sitefile import branch_names, in_words
+    from branchwise.core.sitewords import branch_names, in_words
 
     names = branch_names(GOOD)
     assert names == ["Condenser A", "Jacket loop"]
