@@ -10,13 +10,16 @@ File layout (format 1; the keys are a contract)::
 
     format = 1
     name = "North cooling header"
+    [record]       optional, for the walkdown record only: technician, date (text or a TOML
+                   date), pressure_instrument, flow_instrument
     [fluid]        kind, temperature, pressure, concentration, salinity, density, viscosity,
                    kinematic_viscosity, name
     [conditions]   exactly one of pressure_drop / total_flow / a branch's measured_flow;
                    elevation_change, friction, gravity, velocity_limit optional
-    [[branches]]   name; diameter | size; length; roughness | material (+ condition);
-                   minor_k; fittings = { elbow-90 = 4 }; hw_c; valve_kv | valve_cv;
-                   measured_flow; or segments = [ {diameter.., length.., ...}, ... ]
+    [[branches]]   name; tag (the plant's line or valve tag, optional); diameter | size;
+                   length; roughness | material (+ condition); minor_k;
+                   fittings = { elbow-90 = 4 }; hw_c; valve_kv | valve_cv; measured_flow;
+                   or segments = [ {diameter.., length.., ...}, ... ]
     [solve]        find = flows | diameter | length | roughness; branch; target_flow; segment
     [tolerances]   optional: gauge_accuracy, gauge_full_scale, flow_meter_accuracy,
                    target_flow_measured, roughness_factor = [low, high],
@@ -35,6 +38,7 @@ import json
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass, field, fields
+from datetime import date, time
 from functools import cache
 from pathlib import Path
 from typing import Any
@@ -49,7 +53,8 @@ FORMAT = 1
 
 PIPE_KEYS = ("diameter", "size", "length", "roughness", "material", "condition", "minor_k",
              "hw_c", "fittings")
-BRANCH_KEYS = ("name", *PIPE_KEYS, "valve_kv", "valve_cv", "measured_flow", "segments", "note")
+BRANCH_KEYS = ("name", "tag", *PIPE_KEYS, "valve_kv", "valve_cv", "measured_flow", "segments",
+               "note")
 FLUID_KEYS = ("kind", "name", "temperature", "pressure", "concentration", "salinity", "density",
               "viscosity", "kinematic_viscosity")
 CONDITION_KEYS = ("pressure_drop", "total_flow", "elevation_change", "friction", "gravity",
@@ -58,8 +63,9 @@ SOLVE_KEYS = ("find", "branch", "target_flow", "segment")
 TOLERANCE_KEYS = ("gauge_accuracy", "gauge_full_scale", "flow_meter_accuracy",
                   "target_flow_measured", "roughness_factor", "roughness_range", "diameter",
                   "length", "temperature", "fitting_k")
-TOP_KEYS = ("format", "kind", "name", "notes", "fluid", "conditions", "branches", "solve",
-            "tolerances")
+RECORD_KEYS = ("technician", "date", "pressure_instrument", "flow_instrument")
+TOP_KEYS = ("format", "kind", "name", "notes", "record", "fluid", "conditions", "branches",
+            "solve", "tolerances")
 
 
 @dataclass
@@ -82,11 +88,28 @@ class BranchSpec:
     """One branch as typed: its series segments (one for a plain pipe), valve and reading."""
 
     name: Value = ""
+    tag: Value = None
     segments: list[SegmentSpec] = field(default_factory=lambda: [SegmentSpec()])
     valve_kv: Value = None
     valve_cv: Value = None
     measured_flow: Value = None
     note: Value = None
+
+
+@dataclass
+class RecordSpec:
+    """Who took the readings, when, and with what, as typed: free text for the walkdown record
+    (the reports' header, the JSON ``record``); the solve never reads it.
+
+    date: text (``"2025-03-12"``, ``"12 March, morning"``); a TOML date in the file is kept as
+    its ISO text. pressure_instrument / flow_instrument: the differential gauge and the flow
+    meter (id, range, calibration), e.g. ``"DPG-14, 0-30 psid, cal. 2025-01"``.
+    """
+
+    technician: Value = None
+    date: Value = None
+    pressure_instrument: Value = None
+    flow_instrument: Value = None
 
 
 @dataclass
@@ -161,6 +184,7 @@ class Site:
     solve: SolveSpec | None = None
     notes: Value = None
     tolerances: TolerancesSpec | None = None
+    record: RecordSpec | None = None
     source: Path | None = field(default=None, compare=False)
     origin: str | None = field(default=None, compare=False, repr=False)
 
@@ -231,6 +255,8 @@ def _branch(table: object, path: str) -> BranchSpec:
     for key in ("name", "valve_kv", "valve_cv", "measured_flow", "note"):
         if key in table:
             setattr(br, key, _scalar(table[key], f"{path}.{key}"))
+    if "tag" in table:
+        br.tag = _words(table["tag"], f"{path}.tag", '"CHW-S-102"')
     own = {k: v for k, v in table.items() if k in PIPE_KEYS}
     if "segments" in table:
         segments = table["segments"]
@@ -246,6 +272,30 @@ def _branch(table: object, path: str) -> BranchSpec:
     else:
         br.segments = [_segment(own, path)]
     return br
+
+
+def _words(value: object, path: str, example: str, dates: bool = False) -> str:
+    """Free text for the record; with ``dates``, a TOML date or date-time becomes its ISO text."""
+    if isinstance(value, str):
+        return value
+    if dates and isinstance(value, date | time):  # datetime is a date
+        return value.isoformat()
+    raise InputError(path, describe(value), f"must be text in quotes, e.g. {example}")
+
+
+_RECORD_EXAMPLES = {"technician": '"J. Doe"', "date": '"2025-03-12"',
+                    "pressure_instrument": '"DPG-14, 0-30 psid"',
+                    "flow_instrument": '"clamp-on meter UFM-2"'}
+
+
+def _record(table: Mapping[str, Any]) -> RecordSpec:
+    _known(table, RECORD_KEYS, "record")
+    spec = RecordSpec()
+    for key in RECORD_KEYS:
+        if key in table:
+            text = _words(table[key], f"record.{key}", _RECORD_EXAMPLES[key], key == "date")
+            setattr(spec, key, text)
+    return spec
 
 
 def _pair(value: object, path: str) -> list[Value]:
@@ -272,6 +322,8 @@ def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
     site = Site(source=source)
     site.name = _scalar(doc.get("name", ""), "name")
     site.notes = _scalar(doc.get("notes"), "notes")
+    if "record" in doc:
+        site.record = _record(_table(doc["record"], "record"))
     site.fluid = _fill(FluidSpec(), _table(doc.get("fluid"), "fluid"), FLUID_KEYS, "fluid")
     conditions = _table(doc.get("conditions"), "conditions")
     site.conditions = _fill(ConditionsSpec(), conditions, CONDITION_KEYS, "conditions")

@@ -8,6 +8,7 @@ rename; the previous file kept as ``.bak``) and never replaces a file it should 
 from __future__ import annotations
 
 from collections.abc import Mapping
+from datetime import date, time
 from pathlib import Path
 from typing import Any
 
@@ -17,6 +18,7 @@ from .sitefile import (
     FLUID_KEYS,
     FORMAT,
     PIPE_KEYS,
+    RECORD_KEYS,
     SOLVE_KEYS,
     TOLERANCE_KEYS,
     SegmentSpec,
@@ -40,11 +42,15 @@ def site_to_dict(site: Site) -> dict[str, Any]:
     doc: dict[str, Any] = {"format": FORMAT, "name": site.name}
     if site.notes is not None:
         doc["notes"] = site.notes
+    if site.record is not None:
+        doc["record"] = _present(site.record, RECORD_KEYS)
     doc["fluid"] = _present(site.fluid, FLUID_KEYS)
     doc["conditions"] = _present(site.conditions, CONDITION_KEYS)
     branches = []
     for br in site.branches:
         out: dict[str, Any] = {"name": br.name}
+        if br.tag is not None:
+            out["tag"] = br.tag
         if len(br.segments) == 1:
             out.update(_segment_dict(br.segments[0]))
         else:
@@ -96,7 +102,7 @@ def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None
         del doc[name]
     for name, value in values.items():
         old = doc.get(name)
-        if isinstance(value, dict) and name in ("fluid", "conditions", "solve", "tolerances"):
+        if isinstance(value, dict) and name in TABLES:
             if not isinstance(old, Mapping) or old is None:
                 doc[name] = old = tomlkit.table()
             _sync_table(old, value, tomlkit, plain)
@@ -104,8 +110,20 @@ def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None
             _sync_table(old, value, tomlkit, plain)  # [tolerances.roughness_range] keeps its layout
         elif name == "branches":
             _sync_branches(doc, old, value, tomlkit, plain)
-        elif old is None or plain(old) != value:
+        elif old is None or not _unchanged(plain(old), value):
             doc[name] = _item(value, tomlkit)
+
+
+TABLES = ("record", "fluid", "conditions", "solve", "tolerances")
+"""The top-level ``[tables]`` of a site file."""
+
+
+def _unchanged(old: Any, value: Any) -> bool:
+    """Whether the file's ``old`` value already says ``value``: a TOML date read as its ISO
+    text (``record.date``) stays a TOML date in the file."""
+    if isinstance(old, date | time) and isinstance(value, str):
+        return old.isoformat() == value
+    return bool(old == value)
 
 
 def _body(table: Any) -> list[tuple[Any, Any]]:
