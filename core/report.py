@@ -3,27 +3,24 @@
 The JSON keys are a contract with scripts that read them: ``pressure_drop_pa``, ``head_loss_m``,
 ``total_flow_m3_s``, ``fluid``, ``branches`` (first segment's values at the top of each branch,
 the others under ``segments``), ``solved``, ``warnings``, ``cautions``. Keys may be added, never
-renamed. The table, CSV and Markdown are in the reader's unit system (``si`` or ``us``).
+renamed (added since: ``record`` {``technician``, ``date``, ``pressure_instrument``,
+``flow_instrument``} and each branch's ``tag``). The table, CSV and Markdown
+(:mod:`.reporttext`) are in the reader's unit system (``si`` or ``us``); the lines they share
+(summary, solved unknown, record) are here.
 """
 
 from __future__ import annotations
 
-import csv
-import io
 import json
 import math
-from collections.abc import Iterator
-from datetime import datetime
 from typing import Any
 
 from . import bandtext
 from .model import MeasuredFlow, PressureDrop, TotalFlow
-from .results import BranchResult, SegmentResult
-from .sitefile import Site
+from .results import SegmentResult
+from .sitefile import RECORD_KEYS, RecordSpec, Site
 from .sitesolve import SiteResult
-from .sitewrite import site_to_dict
-from .units import display_unit as _unit
-from .units import format_number, format_quantity, to_unit, unit_label
+from .units import format_quantity
 
 CAUTIONS = (
     "Pressurised, hot or hazardous lines can injure: keep clear of them unless the owner's "
@@ -96,8 +93,10 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
     for i, b in enumerate(r.branches):
         first, *rest = b.segments
         size = sr.built.sizes[i][0]
+        tag = sr.site.branches[i].tag if i < len(sr.site.branches) else None
         branches.append({
-            "name": b.name, "flow_m3_s": b.flow, "share": _num(b.share), **_segment_json(first),
+            "name": b.name, "tag": tag if isinstance(tag, str) else None,
+            "flow_m3_s": b.flow, "share": _num(b.share), **_segment_json(first),
             "size": size.label if size is not None else None,
             "valve_kv": net.branches[i].valve_kv, "valve_loss_m": b.valve_loss,
             "head_loss_m": _num(b.head_loss),
@@ -105,6 +104,7 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
         })
     return {
         "site": sr.site.title,
+        "record": record_json(sr.site),
         "branchwise_version": version(),
         "units": "SI",
         "given": _given_json(sr),
@@ -151,40 +151,7 @@ def to_json(sr: SiteResult, indent: int | None = 2) -> str:
     return json.dumps(doc, indent=indent, ensure_ascii=False, allow_nan=False) + "\n"
 
 
-# ---- rows in the reader's units ------------------------------------------------------------
-
-COLUMNS: tuple[tuple[str, str | None], ...] = (
-    ("Branch", None), ("Seg", None), ("Flow", "flow"), ("P5–P95", "flow"), ("Share", "%"),
-    ("Velocity", "velocity"), ("Reynolds", None), ("f", None), ("Regime", None),
-    ("Diameter", "diameter"), ("Length", "length"), ("Major loss", "head"),
-    ("Minor loss", "head"), ("Valve loss", "head"),
-)
-
-
-def _units_row(system: str) -> list[str]:
-    return ["", "", *(("%" if k == "%" else unit_label(_unit(k, system))) if k else ""
-                      for _, k in COLUMNS[2:])]
-
-
-def _rows(sr: SiteResult, system: str) -> Iterator[tuple[BranchResult, int, list[str]]]:
-    def q(value: float, kind: str) -> str:
-        return format_number(to_unit(value, kind, _unit(kind, system)))
-
-    for b in sr.result.branches:
-        for j, s in enumerate(b.segments):
-            first = j == 0
-            share = format_number(b.share * 100, 3) if first and math.isfinite(b.share) else ""
-            yield b, j, [
-                b.name if first else "", str(j + 1) if len(b.segments) > 1 else "",
-                q(b.flow, "flow") if first else "",
-                bandtext.flow_band_cell(sr, b.name, system) if first else "", share,
-                q(s.velocity, "velocity"), f"{s.reynolds:.0f}",
-                format_number(s.friction_factor, 4), s.regime,
-                q(s.diameter, "diameter"), q(s.length, "length"),
-                q(s.major_loss, "head"), q(s.minor_loss, "head"),
-                q(b.valve_loss, "head") if first and b.valve_loss else "",
-            ]
-
+# ---- lines shared by the reports -----------------------------------------------------------
 
 def _given_text(sr: SiteResult, system: str) -> str:
     g = sr.built.given
@@ -241,143 +208,57 @@ def solved_lines(sr: SiteResult, system: str = "si") -> list[str]:
     return lines
 
 
-# ---- text table ----------------------------------------------------------------------------
-
-def _grid(header: list[str], units: list[str], rows: list[list[str]]) -> list[str]:
-    keep = [i for i in range(len(header)) if any(r[i] for r in rows) or i == 0]
-    table = [[row[i] for i in keep] for row in (header, units, *rows)]
-    widths = [max(len(r[i]) for r in table) for i in range(len(keep))]
-
-    def line(row: list[str]) -> str:
-        cells = [row[0].ljust(widths[0])]
-        cells += [c.rjust(w) if c[:1].isdigit() or c[:1] == "-" else c.ljust(w)
-                  for c, w in zip(row[1:], widths[1:], strict=True)]
-        return "  ".join(cells).rstrip()
-
-    return [line(table[0]), line(table[1]), *(line(r) for r in table[2:])]
+def _text(value: object) -> str:
+    """A record value as one line of text ('' when absent or blank)."""
+    return " ".join(value.split()) if isinstance(value, str) else ""
 
 
-def _notes(sr: SiteResult) -> list[str]:
-    return [*sr.notes, *sr.result.notes, *(sr.uncertainty.notes if sr.uncertainty else ())]
+def record_json(site: Site) -> dict[str, str | None]:
+    """The ``record`` object of the JSON: who took the readings, when and with what (free
+    text as typed; None where not given)."""
+    r = site.record or RecordSpec()
+    return {key: (getattr(r, key) if isinstance(getattr(r, key), str) else None)
+            for key in RECORD_KEYS}
 
 
-def to_table(sr: SiteResult, system: str = "si") -> str:
-    """A readable plain-text report in the ``system`` units (``si`` or ``us``)."""
-    rows = [cells for _, _, cells in _rows(sr, system)]
-    out = [sr.site.title, "", *summary_lines(sr, system), ""]
-    out += _grid([c for c, _ in COLUMNS], _units_row(system), rows)
-    if sr.result.solved:
-        out += ["", *solved_lines(sr, system)]
-    if sr.uncertainty is not None:
-        out += ["", *bandtext.summary_lines(sr, system), "", *bandtext.ranking_lines(sr, system)]
-    if sr.result.warnings:
-        out += ["", "Warnings:"]
-        out += [f"  - {w.branch + ': ' if w.branch else ''}{w.message} [{w.code}]"
-                for w in sr.result.warnings]
-    notes = _notes(sr)
-    if notes:
-        out += ["", "Notes:", *(f"  - {n}" for n in notes)]
-    out += ["", "Cautions:", *(f"  - {c}" for c in CAUTIONS)]
-    return "\n".join(out) + "\n"
-
-
-# ---- CSV -----------------------------------------------------------------------------------
-
-def to_csv(sr: SiteResult, system: str = "si") -> str:
-    """One row per segment, units in the header (``Flow (L/s)``), for a spreadsheet; with
-    uncertainty bands, ``Flow P5`` and ``Flow P95`` columns after the flow and the total bands
-    as ``#`` rows; the cautions follow as one-cell rows starting with ``#``."""
-    buf = io.StringIO()
-    writer = csv.writer(buf, lineterminator="\n")
-    units = _units_row(system)
-    header = [f"{c} ({u})" if u else c for (c, _), u in zip(COLUMNS, units, strict=True)]
-    band = sr.uncertainty is not None
-    flow_unit = units[2]
-    header[3:4] = [f"Flow P5 ({flow_unit})", f"Flow P95 ({flow_unit})"] if band else []
-    writer.writerow(header)
-    for b, j, cells in _rows(sr, system):
-        cells[0] = b.name  # every row names its branch, so rows can be sorted and filtered
-        cells[1] = str(j + 1)
-        pair = bandtext.band_range(sr, f"branch '{b.name}' flow", system) if j == 0 else None
-        cells[3:4] = ([format_number(v) for v in pair] if pair else ["", ""]) if band else []
-        writer.writerow(cells)
-    for line in bandtext.summary_lines(sr, system):
-        writer.writerow([f"# {line}"])
-    for caution in CAUTIONS:  # after the data, as "#" lines a reader can skip (comment="#")
-        writer.writerow([f"# {caution}"])
-    return buf.getvalue()
-
-
-# ---- Markdown walkdown record --------------------------------------------------------------
-
-def inputs_as_entered(site: Site) -> list[tuple[str, str]]:
-    """Every value of ``site`` with its field path, as typed (for the record)."""
-    out: list[tuple[str, str]] = []
-
-    def walk(prefix: str, value: Any) -> None:
-        if isinstance(value, dict):
-            for k, v in value.items():
-                walk(f"{prefix}.{k}" if prefix else k, v)
-        elif isinstance(value, list):
-            for i, v in enumerate(value):
-                walk(f"{prefix}[{i}]", v)
-        else:
-            out.append((prefix, value if isinstance(value, str) else json.dumps(value)))
-
-    doc = site_to_dict(site)
-    for key in ("format", "kind"):
-        doc.pop(key, None)
-    walk("", doc)
+def record_lines(site: Site) -> list[str]:
+    """The record's lines for a report header: ``Readings taken 2025-03-12 by R. Example``,
+    ``Pressure instrument: ...``, ``Flow instrument: ...`` ([] without a ``[record]``)."""
+    r = site.record
+    if r is None:
+        return []
+    when, who = _text(r.date), _text(r.technician)
+    out = []
+    if when or who:
+        out.append("Readings taken" + (f" {when}" if when else "") + (f" by {who}" if who else ""))
+    for label, value in (("Pressure instrument", r.pressure_instrument),
+                         ("Flow instrument", r.flow_instrument)):
+        if _text(value):
+            out.append(f"{label}: {_text(value)}")
     return out
-
-
-def _md(text: str) -> str:
-    return text.replace("|", "\\|").replace("\n", " ")
-
-
-def to_markdown(
-    sr: SiteResult, system: str = "si", date: datetime | None = None, source: str | None = None
-) -> str:
-    """A walkdown record a technician can paste into a work order."""
-    date = date or datetime.now().astimezone()
-    src = source or (str(sr.site.source) if sr.site.source else "(not saved)")
-    out = [
-        f"# Walkdown record: {_md(sr.site.title)}", "",
-        f"- Date: {date.strftime('%Y-%m-%d %H:%M %Z').strip()}",
-        f"- Site file: `{src}`",
-        f"- Calculated with branchwise {version()}; units: {system.upper()}", "",
-    ]
-    if isinstance(sr.site.notes, str) and sr.site.notes.strip():
-        out += [_md(sr.site.notes.strip()), ""]
-    out += ["## Inputs as entered", "", "| Field | Value |", "|---|---|"]
-    out += [f"| `{path}` | {_md(value)} |" for path, value in inputs_as_entered(sr.site)]
-    out += ["", "## Results", "", *(f"- {_md(s)}" for s in summary_lines(sr, system)), ""]
-    rows = [cells for _, _, cells in _rows(sr, system)]
-    units = _units_row(system)
-    header = [f"{c} ({u})" if u else c for (c, _), u in zip(COLUMNS, units, strict=True)]
-    keep = [i for i in range(len(header)) if any(r[i] for r in rows) or i == 0]
-    out.append("| " + " | ".join(header[i] for i in keep) + " |")
-    out.append("|" + "|".join("---" for _ in keep) + "|")
-    out += ["| " + " | ".join(_md(r[i]) for i in keep) + " |" for r in rows]
-    if sr.result.solved:
-        out += ["", "## Solved unknown", "", *(f"- {_md(s)}" for s in solved_lines(sr, system))]
-    out += bandtext.markdown_lines(sr, system)
-    out += ["", "## Warnings", ""]
-    out += ([f"- {_md((w.branch + ': ') if w.branch else '')}{_md(w.message)} (`{w.code}`)"
-             for w in sr.result.warnings] or ["- None."])
-    notes = _notes(sr)
-    if notes:
-        out += ["", "## Notes", "", *(f"- {_md(n)}" for n in notes)]
-    out += ["", "## Cautions", "", *(f"- {c}" for c in CAUTIONS)]
-    return "\n".join(out) + "\n"
 
 
 def render(sr: SiteResult, fmt: str = "table", system: str = "si") -> str:
     """``sr`` in one of :data:`FORMATS`."""
     if fmt == "json":
         return to_json(sr)
+    from . import reporttext
+
     if fmt == "csv":
-        return to_csv(sr, system)
+        return reporttext.to_csv(sr, system)
     if fmt == "markdown":
-        return to_markdown(sr, system)
-    return to_table(sr, system)
+        return reporttext.to_markdown(sr, system)
+    return reporttext.to_table(sr, system)
+
+
+_ELSEWHERE = ("to_table", "to_csv", "to_markdown", "inputs_as_entered", "COLUMNS")
+
+
+def __getattr__(name: str) -> Any:
+    """The text table, CSV and Markdown live in :mod:`.reporttext` (which imports this
+    module); their names are reachable here too (``report.to_csv``), loaded on first use."""
+    if name in _ELSEWHERE:
+        from . import reporttext
+
+        return getattr(reporttext, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -10,6 +10,8 @@ import sys
 
 import pytest
 
+from branchwise.core.report import CAUTIONS
+from branchwise.core.reporttext import CSV_LABELS
 from branchwise.core.sitefile import demo_text
 from branchwise.tui.cli import main
 
@@ -89,9 +91,11 @@ def test_table_in_us_units_csv_and_markdown(capsys):
     assert "gpm" in table and "psi" in table and "ft/s" in table
     assert main(["solve", "--format", "csv"]) == 0
     rows = list(csv.reader(io.StringIO(capsys.readouterr().out)))
-    cautions = [r for r in rows if r[0].startswith("#")]
-    rows = [r for r in rows if not r[0].startswith("#")]
-    assert len(cautions) == 4 and all(len(r) == 1 for r in cautions)
+    # RFC 4180 2.4: each record holds the same number of fields (no '#' comment lines)
+    assert {len(r) for r in rows} == {len(rows[0])}
+    cautions = [r for r in rows if r[0] == "Caution"]
+    rows = [r for r in rows if r[0] not in CSV_LABELS]
+    assert len(cautions) == 4 and [r[1] for r in cautions] == list(CAUTIONS)
     assert rows[0][:3] == ["Branch", "Seg", "Flow (L/s)"]
     assert [r[0] for r in rows[1:]] == ["AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass",
                                        "Bypass"]

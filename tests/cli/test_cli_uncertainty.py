@@ -23,6 +23,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from branchwise.core.reporttext import CSV_LABELS
 from branchwise.core.sitefile import demo_text
 from branchwise.tui.cli import main
 
@@ -104,9 +105,10 @@ def test_band_column_and_ranked_bars_in_the_table(capsys):
     text = capsys.readouterr().out
     header = next(line for line in text.splitlines() if line.startswith("Branch"))
     assert "P5–P95" in header
-    row = next(line for line in text.splitlines() if line.startswith("AHU-1 coil"))
-    low, high = (float(v) for v in row.split()[3].split("–"))
-    flow = float(row.split()[2])
+    row = next(line for line in text.splitlines() if line.startswith("AHU-1 coil")).split()
+    at = next(i for i, cell in enumerate(row) if "–" in cell)  # the P5–P95 cell
+    low, high = (float(v) for v in row[at].split("–"))
+    flow = float(row[at - 1])
     assert low <= flow <= high
     assert "What dominates the spread of the total flow" in text
     ranked = text.split("What dominates")[1].splitlines()[1:4]
@@ -119,8 +121,10 @@ def test_band_in_the_markdown_record_and_the_csv(capsys):
     assert "## Uncertainty" in md and "| Flow (gpm) | P5–P95 (gpm) |" in md
     assert "| Input | Limit | Share of the total flow variance |" in md
     assert main(["solve", "--format", "csv", "--uncertainty", *FAST]) == 0
-    rows = [r for r in csv.reader(io.StringIO(capsys.readouterr().out))
-            if not r[0].startswith("#")]
+    rows = list(csv.reader(io.StringIO(capsys.readouterr().out)))
+    assert {len(r) for r in rows} == {len(rows[0])}  # RFC 4180 2.4: one width for every row
+    assert [r[0] for r in rows if r[0] == "Band"]  # the total bands ride along, labelled
+    rows = [r for r in rows if r[0] not in CSV_LABELS]
     assert rows[0][2:5] == ["Flow (L/s)", "Flow P5 (L/s)", "Flow P95 (L/s)"]
     for r in rows[1:]:
         if r[2]:
@@ -184,24 +188,34 @@ def test_bad_tolerance_in_the_file(tmp_path, capsys, old, new, field, flag):
 
 # ---- the system curve ---------------------------------------------------------------------
 
-def test_curve_csv_is_written_and_passes_through_the_operating_point(tmp_path, capsys):
+GPM = 231 * 0.0254**3 / 60  # m³/s: US gallon = 231 in³, inch = 0.0254 m (NIST SP 811)
+
+
+@pytest.mark.parametrize(("units", "flow_unit", "flow_si", "dp_unit", "dp_si"), [
+    ("si", "L/s", 1e-3, "kPa", 1e3),   # NIST SP 811: litre = 1e-3 m³, exact
+    ("us", "gpm", GPM, "psi", PSI),
+])
+def test_curve_csv_is_written_and_passes_through_the_operating_point(
+        tmp_path, capsys, units, flow_unit, flow_si, dp_unit, dp_si):
     path = tmp_path / "curve.csv"
-    doc = solve_json(capsys, "--curve", str(path))
+    doc = solve_json(capsys, "--curve", str(path), "--units", units)
     rows = list(csv.DictReader(path.open()))
-    op = [r for r in rows if r["operating"] == "1"]
+    total_col, dp_col = f"Total flow ({flow_unit})", f"Pressure drop ({dp_unit})"
+    op = [r for r in rows if r["Operating point"] == "1"]
     assert len(op) == 1
-    assert float(op[0]["total_flow_m3_s"]) == pytest.approx(doc["total_flow_m3_s"], rel=1e-12)
-    assert float(op[0]["pressure_drop_pa"]) == pytest.approx(doc["pressure_drop_pa"], rel=1e-9)
-    flows = [float(r["total_flow_m3_s"]) for r in rows]
-    dps = [float(r["pressure_drop_pa"]) for r in rows]
+    # written to 10 significant figures
+    assert float(op[0][total_col]) * flow_si == pytest.approx(doc["total_flow_m3_s"], rel=1e-9)
+    assert float(op[0][dp_col]) * dp_si == pytest.approx(doc["pressure_drop_pa"], rel=2e-6)
+    flows = [float(r[total_col]) for r in rows]
+    dps = [float(r[dp_col]) for r in rows]
     assert flows[0] == 0 and dps[0] == 0  # no flow, no loss (no elevation change in the demo)
-    assert max(flows) == pytest.approx(1.5 * doc["total_flow_m3_s"], rel=1e-12)
+    assert max(flows) * flow_si == pytest.approx(1.5 * doc["total_flow_m3_s"], rel=1e-9)
     assert all(b > a for a, b in zip(dps, dps[1:], strict=False))  # Δp rises with the flow
-    branch_columns = [k for k in rows[0] if k.startswith("flow_m3_s[")]
-    assert len(branch_columns) == len(doc["branches"])
+    branch_columns = [f"Flow {b['name']} ({flow_unit})" for b in doc["branches"]]
+    assert all(k in rows[0] for k in branch_columns)
     for r in rows:  # continuity at the headers
         total = sum(float(r[k]) for k in branch_columns)
-        assert total == pytest.approx(float(r["total_flow_m3_s"]), rel=1e-9, abs=1e-15)
+        assert total == pytest.approx(float(r[total_col]), rel=1e-8, abs=1e-12)
 
 
 def test_curve_refuses_an_existing_file_unless_forced(tmp_path, capsys):
@@ -212,7 +226,7 @@ def test_curve_refuses_an_existing_file_unless_forced(tmp_path, capsys):
     assert out == "" and err.count("\n") == 1 and "--curve: already exists" in err
     assert path.read_text() == "keep me\n"
     assert main(["solve", "--curve", str(path), "--force"]) == 0
-    assert path.read_text().startswith("total_flow_m3_s,pressure_drop_pa")
+    assert path.read_text().startswith("Total flow (L/s),Pressure drop (kPa)")
 
 
 def test_curve_never_overwrites_the_site_file(tmp_path, capsys):
