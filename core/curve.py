@@ -338,15 +338,29 @@ def system_curve(
     )
 
 
-def to_csv(curve: SystemCurve) -> str:
-    """The curve as CSV text in SI units, one row per point; ``operating`` is 1 on its row."""
+def to_csv(curve: SystemCurve, system: str = "si") -> str:
+    """The curve as CSV text in the display units of ``system`` (``si``: L/s, kPa, m; ``us``:
+    gpm, psi, ft), the unit in each header (``Total flow (L/s)``), one row per point, values
+    to 10 significant figures (``10``, not ``9.999999999999991``); the last column,
+    ``Operating point``, is 1 on the operating point's row."""
+    from .units import display_unit, to_unit, unit_label  # pint loads here, never in a solve
+
+    def unit(kind: str) -> str:
+        return display_unit(kind, system)
+
+    flow, pressure, head = unit("flow"), unit("pressure"), unit("head")
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\n")
-    writer.writerow(["total_flow_m3_s", "pressure_drop_pa", "driving_head_m"]
-                    + [f"flow_m3_s[{name}]" for name in curve.branch_names] + ["operating"])
+    writer.writerow([f"Total flow ({unit_label(flow)})", f"Pressure drop ({unit_label(pressure)})",
+                     f"Driving head ({unit_label(head)})"]
+                    + [f"Flow {name} ({unit_label(flow)})" for name in curve.branch_names]
+                    + ["Operating point"])
     for i, total in enumerate(curve.total_flow):
-        numbers = [total, curve.pressure_drop[i], curve.driving_head[i], *curve.branch_flows[i]]
-        writer.writerow([repr(float(a)) for a in numbers] + [int(i == curve.operating_index)])
+        numbers = [to_unit(float(total), "flow", flow),
+                   to_unit(float(curve.pressure_drop[i]), "pressure", pressure),
+                   to_unit(float(curve.driving_head[i]), "head", head),
+                   *(to_unit(float(q), "flow", flow) for q in curve.branch_flows[i])]
+        writer.writerow([f"{a:.10g}" for a in numbers] + [int(i == curve.operating_index)])
     return out.getvalue()
 
 

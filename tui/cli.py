@@ -72,7 +72,8 @@ def _parser() -> argparse.ArgumentParser:
     band.add_argument(
         "--curve", type=Path, metavar="FILE",
         help="also write the system curve (pressure drop and each branch's flow against the "
-             "total flow, from zero to 1.5 times the operating point; SI units) as CSV to FILE")
+             "total flow, from zero to 1.5 times the operating point) as CSV to FILE, in the "
+             "--units system with the unit in each column title")
     band.add_argument("--force", action="store_true", help="replace an existing --curve FILE")
 
     demo = sub.add_parser(
@@ -110,7 +111,8 @@ def _parser() -> argparse.ArgumentParser:
 
 def _output_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--units", choices=("si", "us"), default="si",
-                   help="unit system of the table, CSV and Markdown (JSON is always SI)")
+                   help="unit system of the table, CSV, Markdown and --curve file (JSON is "
+                        "always SI)")
     p.add_argument("--format", choices=("table", "json", "csv", "markdown"), default="table",
                    help="output format (default: table)")
     p.add_argument("-o", "--output", type=Path, metavar="FILE",
@@ -169,7 +171,7 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     solved = solve_site(site)
     if getattr(args, "uncertainty", False) or samples_text is not None or seed_text is not None:
         solved = with_uncertainty(solved, samples, seed)
-    curve_text = None if curve_path is None else _curve_csv(solved)
+    curve_text = None if curve_path is None else _curve_csv(solved, units)
     text = render(solved, fmt, units)
     if curve_path is not None and curve_text is not None:
         atomic_write_text(curve_path, curve_text, backup=False)
@@ -183,14 +185,15 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     return EXIT_OK
 
 
-def _curve_csv(solved: SiteResult) -> str:
-    """The system curve of a solved site through its operating point, as CSV (SI)."""
+def _curve_csv(solved: SiteResult, units: str) -> str:
+    """The system curve of a solved site through its operating point, as CSV in the display
+    units of ``units`` (``si`` or ``us``)."""
     from branchwise.core.curve import system_curve, to_csv
     from branchwise.core.errors import InputError
 
     result = solved.result
     try:
-        return to_csv(system_curve(result.network, operating=result))
+        return to_csv(system_curve(result.network, operating=result), units)
     except InputError as exc:
         if not exc.field.startswith("curve."):
             raise

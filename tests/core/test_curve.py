@@ -105,16 +105,28 @@ def test_reverse_operating_point_gives_a_curve_down_to_it():
     assert curve.pressure_drop[curve.operating_index] == pytest.approx(-20e3, rel=1e-10)
 
 
-def test_csv_round_trips_the_arrays():
+GPM = 231 * 0.0254**3 / 60  # m³/s per US gpm: gallon = 231 in³, inch = 0.0254 m (NIST SP 811)
+PSI = 0.45359237 * 9.80665 / 0.0254**2  # Pa per lbf/in² (NIST SP 811, ≈ 6.894 757 E+03)
+
+
+@pytest.mark.parametrize(("system", "titles", "flow", "pressure", "head"), [
+    ("si", ("Total flow (L/s)", "Pressure drop (kPa)", "Driving head (m)"), 1e-3, 1e3, 1.0),
+    ("us", ("Total flow (gpm)", "Pressure drop (psi)", "Driving head (ft)"), GPM, PSI, 0.3048),
+])
+def test_csv_gives_the_arrays_in_display_units(system, titles, flow, pressure, head):
+    # Factors from NIST SP 811 (litre, kPa, US gallon, psi, foot = 0.3048 m exactly).
     op = solve(network(), PressureDrop(60e3))
     curve = system_curve(network(), points=5, operating=op)
-    rows = list(csv.reader(io.StringIO(to_csv(curve))))
-    assert rows[0][:3] == ["total_flow_m3_s", "pressure_drop_pa", "driving_head_m"]
-    assert rows[0][3] == "flow_m3_s[Coil 1]" and rows[0][-1] == "operating"
+    rows = list(csv.reader(io.StringIO(to_csv(curve, system))))
+    assert tuple(rows[0][:3]) == titles
+    unit = titles[0].split("(")[1]
+    assert rows[0][3] == f"Flow Coil 1 ({unit}" and rows[0][-1] == "Operating point"
     body = np.array([[float(v) for v in r] for r in rows[1:]])
-    np.testing.assert_array_equal(body[:, 0], curve.total_flow)
-    np.testing.assert_array_equal(body[:, 1], curve.pressure_drop)
-    np.testing.assert_array_equal(body[:, 3:-1], curve.branch_flows)
+    rel = 1e-9  # written to 10 significant figures
+    np.testing.assert_allclose(body[:, 0] * flow, curve.total_flow, rtol=rel)
+    np.testing.assert_allclose(body[:, 1] * pressure, curve.pressure_drop, rtol=rel)
+    np.testing.assert_allclose(body[:, 2] * head, curve.driving_head, rtol=rel)
+    np.testing.assert_allclose(body[:, 3:-1] * flow, curve.branch_flows, rtol=rel)
     assert body[:, -1].tolist().count(1.0) == 1 and body[curve.operating_index, -1] == 1
 
 
