@@ -256,7 +256,7 @@ def _branch(table: object, path: str) -> BranchSpec:
         if key in table:
             setattr(br, key, _scalar(table[key], f"{path}.{key}"))
     if "tag" in table:
-        br.tag = _words(table["tag"], f"{path}.tag", '"CHW-S-102"')
+        br.tag = _words(table["tag"], f"{path}.tag")
     own = {k: v for k, v in table.items() if k in PIPE_KEYS}
     if "segments" in table:
         segments = table["segments"]
@@ -274,27 +274,22 @@ def _branch(table: object, path: str) -> BranchSpec:
     return br
 
 
-def _words(value: object, path: str, example: str, dates: bool = False) -> str:
+def _words(value: object, path: str, dates: bool = False) -> str:
     """Free text for the record; with ``dates``, a TOML date or date-time becomes its ISO text."""
     if isinstance(value, str):
         return value
     if dates and isinstance(value, date | time):  # datetime is a date
         return value.isoformat()
-    raise InputError(path, describe(value), f"must be text in quotes, e.g. {example}")
-
-
-_RECORD_EXAMPLES = {"technician": '"J. Doe"', "date": '"2025-03-12"',
-                    "pressure_instrument": '"DPG-14, 0-30 psid"',
-                    "flow_instrument": '"clamp-on meter UFM-2"'}
+    key = path.rsplit(".", 1)[-1]
+    hint = f' ({key} = "{value}")' if isinstance(value, int | float | date | time) else ""
+    raise InputError(path, describe(value), f"must be text in quotes{hint}")
 
 
 def _record(table: Mapping[str, Any]) -> RecordSpec:
     _known(table, RECORD_KEYS, "record")
     spec = RecordSpec()
-    for key in RECORD_KEYS:
-        if key in table:
-            text = _words(table[key], f"record.{key}", _RECORD_EXAMPLES[key], key == "date")
-            setattr(spec, key, text)
+    for key in (k for k in RECORD_KEYS if k in table):
+        setattr(spec, key, _words(table[key], f"record.{key}", key == "date"))
     return spec
 
 
