@@ -81,7 +81,9 @@ class Fluid:
     """An incompressible liquid at its operating state.
 
     density: kg/m³; viscosity: dynamic viscosity, Pa·s. ``kind`` says where the properties
-    came from (``water``, ``seawater``, ``custom``…); ``source`` names the property model.
+    came from (``water``, ``seawater``, ``custom``…); ``source`` names the property model;
+    ``temperature``: K, the state the properties belong to (None when not known), so that a
+    boundary can restate the name's "at … °C" in other units (``units.fluid_name``).
     """
 
     name: str
@@ -89,6 +91,7 @@ class Fluid:
     viscosity: float
     kind: str = "custom"
     source: str = "entered by the user"
+    temperature: float | None = None
 
     def __post_init__(self) -> None:
         at_most("fluid.density", positive("fluid.density", self.density), MAX_DENSITY, "kg/m³",

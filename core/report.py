@@ -20,7 +20,7 @@ from .model import MeasuredFlow, PressureDrop, TotalFlow
 from .results import SegmentResult
 from .sitefile import RECORD_KEYS, RecordSpec, Site
 from .sitesolve import SiteResult
-from .units import format_quantity
+from .units import fluid_name, format_quantity
 
 CAUTIONS = (
     "Pressurised, hot or hazardous lines can injure: keep clear of them unless the owner's "
@@ -178,7 +178,8 @@ def summary_lines(sr: SiteResult, system: str = "si") -> list[str]:
     r, net = sr.result, sr.result.network
     fl = net.fluid
     return [
-        f"Fluid: {fl.name}: density {format_quantity(fl.density, 'density', system)}, "
+        f"Fluid: {fluid_name(fl, system)}: density "
+        f"{format_quantity(fl.density, 'density', system)}, "
         f"viscosity {format_quantity(fl.viscosity, 'viscosity', system)} ({fl.source})",
         f"Given: {_given_text(sr, system)}; elevation change "
         f"{format_quantity(net.elevation_change, 'length', system)}; friction {net.friction}",

@@ -26,7 +26,7 @@ from .results import BranchResult
 from .sitefile import Site
 from .sitesolve import SiteResult
 from .sitewrite import site_to_dict
-from .units import display_unit, format_number, to_unit, unit_label
+from .units import display_unit, format_number, say, to_unit, unit_label
 
 WIDTH = 80
 """Text lines are wrapped to this many columns (a terminal's usual width)."""
@@ -143,8 +143,8 @@ def _notes(sr: SiteResult) -> list[str]:
     return [*sr.notes, *sr.result.notes, *(sr.uncertainty.notes if sr.uncertainty else ())]
 
 
-def _warnings(sr: SiteResult) -> list[str]:
-    return [f"{w.branch + ': ' if w.branch else ''}{w.message} [{w.code}]"
+def _warnings(sr: SiteResult, system: str) -> list[str]:
+    return [f"{w.branch + ': ' if w.branch else ''}{say(w, system)} [{w.code}]"
             for w in sr.result.warnings]
 
 
@@ -163,7 +163,8 @@ def to_table(sr: SiteResult, system: str = "si") -> str:
         out += ["", *(line for s in bandtext.summary_lines(sr, system) for line in wrap(s))]
         out += ["", *bandtext.ranking_lines(sr, system)]
     if sr.result.warnings:
-        out += ["", "Warnings:", *(line for w in _warnings(sr) for line in wrap(w, "  - ", "    "))]
+        out += ["", "Warnings:",
+                *(line for w in _warnings(sr, system) for line in wrap(w, "  - ", "    "))]
     notes = _notes(sr)
     if notes:
         out += ["", "Notes:", *(line for n in notes for line in wrap(n, "  - ", "    "))]
@@ -201,7 +202,7 @@ def to_csv(sr: SiteResult, system: str = "si") -> str:
             pair = bandtext.band_range(sr, f"branch '{b.name}' flow", system) if j == 0 else None
             row[at:at] = [format_number(v) for v in pair] if pair else ["", ""]
         rows.append(row)
-    texts = (record_lines(sr.site), bandtext.summary_lines(sr, system), _warnings(sr),
+    texts = (record_lines(sr.site), bandtext.summary_lines(sr, system), _warnings(sr, system),
              _notes(sr), CAUTIONS)
     for label, lines in zip(CSV_LABELS, texts, strict=True):
         rows += [[label, " ".join(line.split())] + [""] * (len(header) - 2) for line in lines]
@@ -264,7 +265,7 @@ def to_markdown(
         out += ["", "## Solved unknown", "", *(f"- {_md(s)}" for s in solved_lines(sr, system))]
     out += bandtext.markdown_lines(sr, system)
     out += ["", "## Warnings", ""]
-    out += ([f"- {_md((w.branch + ': ') if w.branch else '')}{_md(w.message)} (`{w.code}`)"
+    out += ([f"- {_md((w.branch + ': ') if w.branch else '')}{_md(say(w, system))} (`{w.code}`)"
              for w in sr.result.warnings] or ["- None."])
     notes = _notes(sr)
     if notes:

@@ -27,7 +27,7 @@ import math
 import re
 from dataclasses import dataclass
 from functools import cache
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from .errors import InputError, describe, one_line
 from .unitgrammar import unit_expression
@@ -321,3 +321,15 @@ def say(item: object, system: str = "si", units: Mapping[str, str] | None = None
     """What to show for a warning or an error: its marked text restated, else its own text."""
     text = getattr(item, "marked", "") or (item.message if hasattr(item, "message") else "")
     return one_line(restate(text, system, units)) if text else str(item)
+
+
+def fluid_name(fluid: Any, system: str = "si", unit: str | None = None) -> str:
+    """A fluid's name with its temperature in ``system``'s unit (or ``unit``): the names the
+    fluid models build say "at 6.7 °C"; in US units that reads "at 44.0 °F"."""
+    from .fluids._format import celsius
+
+    t = getattr(fluid, "temperature", None)
+    if t is None or (system == "si" and unit in (None, "degC")):
+        return fluid.name
+    shown = format_quantity(t, "temperature", system, unit, digits=3)
+    return fluid.name.replace(f" at {celsius(t)} °C", f" at {shown}", 1)

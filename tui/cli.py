@@ -283,7 +283,8 @@ def _branch_names(args: argparse.Namespace) -> list[object]:
     return list(branch_names(text))
 
 
-def _message(exc: Exception, label: str, names: list[object] | None = None) -> str:
+def _message(exc: Exception, label: str, names: list[object] | None = None,
+             system: str = "si") -> str:
     """``<file>: <field>: <reason>, got <value>`` on one line, the file named once.
 
     A branch's field is put by the branch's name, the path as in the file after it:
@@ -291,6 +292,7 @@ def _message(exc: Exception, label: str, names: list[object] | None = None) -> s
     """
     from branchwise.core.errors import InputError, NoSolutionError
     from branchwise.core.sitewords import in_words
+    from branchwise.core.units import say
 
     if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
         return _one_line(f"{exc.field}: {exc.reason}, got {exc.value}")
@@ -304,10 +306,10 @@ def _message(exc: Exception, label: str, names: list[object] | None = None) -> s
                 + (f" ({field})" if words != field else ""))
     elif isinstance(exc, NoSolutionError) and exc.field:
         words = in_words(exc.field, names)
-        text = f"{words}: {in_words(str(exc), names)}" + (
+        text = f"{words}: {in_words(say(exc, system), names)}" + (
             f" ({exc.field})" if words != exc.field else "")
     else:
-        text = str(exc)
+        text = say(exc, system)
     return _one_line(f"{label}: {text}")
 
 
@@ -337,7 +339,8 @@ def main(argv: list[str] | None = None) -> int:
         return _where(out)
     except BranchwiseError as exc:
         names = _branch_names(args) if "branches[" in str(exc) else []
-        print(f"branchwise: {_message(exc, _site_label(args), names)}", file=sys.stderr)
+        system = getattr(args, "units", "si")
+        print(f"branchwise: {_message(exc, _site_label(args), names, system)}", file=sys.stderr)
         return EXIT_INPUT
     except OSError as exc:
         target = exc.filename if exc.filename is not None else _site_label(args)

@@ -146,5 +146,6 @@ def glycol(kind: GlycolKind, temperature_k: float, mass_fraction: float) -> Flui
         density=rho,
         viscosity=mu,
         kind=kind,
+        temperature=t,
         source=f"{table.source} table, cubic-spline interpolation",
     )

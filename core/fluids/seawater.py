@@ -110,5 +110,6 @@ def seawater(
         density=density_sharqawy(t, s),
         viscosity=viscosity_sharqawy(t, s),
         kind="seawater",
+        temperature=t,
         source="Sharqawy, Lienhard & Zubair (2010)",
     )

@@ -184,5 +184,6 @@ def water(temperature_k: float, pressure_pa: float = STANDARD_ATMOSPHERE_PA) -> 
         density=rho,
         viscosity=viscosity_iapws2008(t, rho),
         kind="water",
+        temperature=t,
         source="IAPWS-IF97 region 1 + IAPWS 2008 viscosity",
     )

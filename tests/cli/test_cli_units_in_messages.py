@@ -1,0 +1,50 @@
+"""The command line states the quantities in its messages in the --units system.
+
+Factors: NIST SP 811 (2008), appendix B — 1 US gallon = 231 in³ exactly, so 1 gpm =
+6.30901964e-5 m³/s; 1 psi = 6894.757 Pa; 1 ft = 0.3048 m exactly.
+"""
+
+from __future__ import annotations
+
+import re
+
+import pytest
+
+from branchwise.core.sitefile import demo_text
+from branchwise.tui.cli import main
+
+GPM = 0.0254**3 * 231 / 60
+
+
+def _impossible_length_site(tmp_path):
+    text = demo_text().replace('# [solve]', '[solve]').replace(
+        '# find = "diameter"', 'find = "length"').replace(
+        '# branch = "AHU-2 coil"', 'branch = "AHU-2 coil"').replace(
+        '# target_flow = "220 gpm"', 'target_flow = "2200 gpm"')
+    assert 'target_flow = "2200 gpm"' in text, "the demo's [solve] example changed"
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+def test_no_solution_in_us_units_reads_gpm_and_psi(tmp_path, capsys):
+    path = _impossible_length_site(tmp_path)
+    assert main(["solve", str(path), "--units", "us"]) == 2
+    err = capsys.readouterr().err.strip()
+    assert err.count("\n") == 0
+    assert "2200 gpm" in err and "10.00 psi" in err and "L/s" not in err and "kPa" not in err
+
+
+def test_no_solution_in_si_reads_litres_per_second(tmp_path, capsys):
+    path = _impossible_length_site(tmp_path)
+    assert main(["solve", str(path)]) == 2
+    err = capsys.readouterr().err.strip()
+    litres = float(re.search(r"cannot pass ([\d.]+) L/s", err).group(1))
+    assert litres == pytest.approx(2200 * GPM * 1000, rel=1e-3)
+
+
+def test_fluid_line_in_us_units_gives_fahrenheit(capsys):
+    assert main(["solve", "--units", "us"]) == 0
+    out = capsys.readouterr().out
+    # The demo's water is at 44 °F; the line must not fall back to Celsius in US units.
+    assert "Fluid: Water at 44.0 °F" in out and "°C" not in out
