@@ -157,8 +157,22 @@ def fluid_inputs(site: Site, presets: PresetSource | None = None) -> tuple[str, 
             args["name"] = _text(value, "fluid.name")
             continue
         arg, qkind = _FLUID_ARGS[key]
+        if key == "concentration":
+            args[arg] = _mass_fraction(kind, value, unit)
+            continue
         args[arg] = parse_quantity(value, qkind, f"fluid.{key}", default_unit=unit)
     return kind, args
+
+
+def _mass_fraction(kind: str, value: Value, unit: str | None) -> float:
+    """A glycol concentration, by mass unless the text says by volume (``"30 % vol"``)."""
+    from .fluids.concentration import PURE_DENSITY_20C, mass_fraction_from_volume, split_basis
+
+    text, basis = split_basis(value) if isinstance(value, str) else (value, "mass")
+    fraction = parse_quantity(text, "fraction", "fluid.concentration", default_unit=unit)
+    if basis == "volume" and kind in PURE_DENSITY_20C:  # other kinds refuse it on their own
+        return mass_fraction_from_volume(kind, fraction)
+    return fraction
 
 
 def _fluid_preset(kind: str, presets: PresetSource | None, kinds: tuple[str, ...]) -> dict:

@@ -84,8 +84,8 @@ def fluid_from_spec(
     for arg, value in given.items():
         if value is not None and arg not in allowed:
             takes = ", ".join(_FIELDS[a].removeprefix("fluid.") for a in allowed)
-            raise InputError(_FIELDS[arg], describe(value),
-                             f"not used for {key} (it takes {takes})")
+            shown = f"{value:.6g}" if isinstance(value, float) else describe(value)
+            raise InputError(_FIELDS[arg], shown, f"not used for {key} (it takes {takes})")
     for arg in _REQUIRED[key]:
         if given[arg] is None:
             raise InputError(_FIELDS[arg], "nothing", f"needed for {key}")

@@ -142,7 +142,7 @@ def glycol(kind: GlycolKind, temperature_k: float, mass_fraction: float) -> Flui
     rho = float(_spline.interpolate(table.fractions, rho_rows, x))
     mu = float(np.exp(_spline.interpolate(table.fractions, ln_mu_rows, x)))
     return Fluid(
-        name=f"{_TITLES[kind]} {percent(x)} % at {celsius(t)} °C",
+        name=f"{_TITLES[kind]} {percent(x)} % by mass at {celsius(t)} °C",
         density=rho,
         viscosity=mu,
         kind=kind,

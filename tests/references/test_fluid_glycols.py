@@ -83,10 +83,10 @@ def test_glycol_refuses_outside_the_table(t: float, x: float, field: str) -> Non
 
 def test_glycol_names_read_well() -> None:
     fluid = glycol("propylene-glycol", 278.15, 0.3)
-    assert fluid.name == "Propylene glycol 30 % at 5.0 °C"
+    assert fluid.name == "Propylene glycol 30 % by mass at 5.0 °C"
     assert fluid.kind == "propylene-glycol"
     assert "INCOMP::MPG" in fluid.source
-    assert glycol("ethylene-glycol", 263.15, 0.325).name == "Ethylene glycol 32.5 % at -10.0 °C"
+    assert glycol("ethylene-glycol", 263.15, 0.325).name == "Ethylene glycol 32.5 % by mass at -10.0 °C"
 
 
 @pytest.mark.parametrize("kind", CODES)

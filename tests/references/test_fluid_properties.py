@@ -208,7 +208,7 @@ def test_spec_builds_every_kind() -> None:
         291.15, 0.035
     )
     pg = fluid_from_spec("propylene-glycol", temperature_k=278.15, mass_fraction=0.3)
-    assert pg.name == "Propylene glycol 30 % at 5.0 °C"
+    assert pg.name == "Propylene glycol 30 % by mass at 5.0 °C"
     oil = fluid_from_spec("custom", density=850.0, kinematic_viscosity=4e-6)
     assert (oil.name, oil.viscosity) == ("Custom fluid", pytest.approx(3.4e-3))
 

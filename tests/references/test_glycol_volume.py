@@ -53,3 +53,21 @@ def test_conversion_is_more_glycol_by_mass_than_by_volume() -> None:
 ])
 def test_basis_words(text: str, expected: tuple[str, str]) -> None:
     assert split_basis(text) == expected
+
+
+@pytest.mark.parametrize("typed", ["30 % vol", "30 vol%", "30 % by volume"])
+def test_site_file_concentration_by_volume(typed: str) -> None:
+    from branchwise.core.sitebuild import build_fluid
+    from branchwise.core.sitefile import parse_site
+
+    def site(concentration: str):
+        return parse_site(f'format = 1\n[fluid]\nkind = "ethylene-glycol"\ntemperature = "20 degC"\n'
+                          f'concentration = "{concentration}"\n[conditions]\n'
+                          'pressure_drop = "10 kPa"\n[[branches]]\nname = "A"\n'
+                          'diameter = "50 mm"\nlength = "10 m"\n')
+
+    by_volume = build_fluid(site(typed))
+    by_mass = build_fluid(site("30 %"))
+    expected = glycol("ethylene-glycol", T20, mass_fraction_from_volume("ethylene-glycol", 0.3))
+    assert by_volume.density == pytest.approx(expected.density, rel=1e-12)
+    assert by_volume.density > by_mass.density  # more glycol by mass than 30 %
