@@ -86,9 +86,9 @@ class BranchwiseApp(SiteFiles, App[None]):
                 tooltip="Save the site under another name"),
         Binding("f8", "rename", "Name", id="rename", show=False, key_display="F8",
                 tooltip="Give the site its name (title, site list, walkdown record)"),
-        Binding("ctrl+o", "open_sites", "Sites", id="open", priority=True,
+        Binding("ctrl+o", "open_sites", "Sites", id="open", priority=True, show=False,
                 tooltip="Open a saved or recent site, the demo, or a new one"),
-        Binding("ctrl+t", "toggle_units", "SI/US", id="units", priority=True,
+        Binding("ctrl+t", "toggle_units", "SI/US", id="units", priority=True, show=False,
                 tooltip="Show results in SI or US customary units"),
         Binding("f6", "unit_choices", "Units", id="unit-choices", show=False, key_display="F6",
                 tooltip="Choose the display unit of each quantity"),
@@ -97,6 +97,7 @@ class BranchwiseApp(SiteFiles, App[None]):
         Binding("ctrl+q", "quit", "Quit", id="quit", priority=True,
                 tooltip="Quit (asks first if there are unsaved changes)"),
         Binding("exclamation_mark,f7", "cautions", "Cautions", id="cautions", key_display="!",
+                show=False,
                 tooltip="What these numbers are and are not good for"),
     ]
 
@@ -257,6 +258,18 @@ class BranchwiseApp(SiteFiles, App[None]):
         if action == "save" and not self.session.dirty and self.session.path is not None:
             return None
         return True
+
+    def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
+        """Why a greyed-out app action cannot run now (shown when its key is pressed)."""
+        if action == "undo":
+            return "Nothing to undo."
+        if action == "redo":
+            return "Nothing to redo."
+        if action == "save":
+            return f"Nothing to save: no changes since it was saved to {self.session.path.name}."
+        if action == "show":
+            return f"This is the {SCREEN_TITLES.get(str(parameters[0]), '')} screen."
+        return ""
 
     @classmethod
     def _own_actions(cls) -> set[str]:

@@ -80,7 +80,8 @@ def test_help_palette_greying_units_and_cautions(ui):
 
             # One quantity in a unit of one's own (US system, flows in L/s), kept in settings.
             await pilot.press("f6")
-            await pilot.press("tab", "tab", "enter", "down", "enter", "ctrl+s")
+            # Enter keeps, as in every dialog; Space opens a unit's list.
+            await pilot.press("tab", "tab", "space", "down", "enter", "enter")
             await ui.settle(pilot)
             assert app.settings.display_units == {"flow": "L/s"}
             assert "Flow L/s" in ui.text(app) and "V ft/s" in ui.text(app)

@@ -5,6 +5,8 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING, ClassVar
 
+from textual import events
+from textual.actions import parse
 from textual.app import ComposeResult
 from textual.screen import Screen
 from textual.widget import Widget
@@ -30,7 +32,8 @@ class WorkScreen(Screen):
         yield Header(icon="≡")
         yield StatusStrip()
         yield from self.body()
-        yield Footer(compact=True)
+        # The keys that matter on this screen; F1 lists them all, Ctrl+P finds any by name.
+        yield Footer(compact=True, show_command_palette=False)
 
     def body(self) -> ComposeResult:
         raise NotImplementedError
@@ -68,3 +71,23 @@ class WorkScreen(Screen):
     def redraw(self) -> None:
         """Show the app's present site and answer."""
         raise NotImplementedError
+
+    # ---- keys that cannot act now ----------------------------------------------------------------
+
+    def on_key(self, event: events.Key) -> None:
+        """A key whose action is greyed out now (Ctrl+Z with nothing to undo, r with no
+        answer) would do nothing: say why instead. (Keys reach the screen before its
+        bindings run; an enabled binding is left to act.)"""
+        active = self.active_bindings.get(event.key)
+        if active is None or active.enabled:
+            return
+        explain = getattr(active.node, "unavailable_reason", None)
+        _, action, params = parse(active.binding.action)
+        reason = explain(action, params) if explain is not None else ""
+        if reason:
+            event.stop()
+            self.notify(reason, timeout=3)
+
+    def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
+        """Why a greyed-out action of this screen cannot run now ('' to say nothing)."""
+        return ""

@@ -76,6 +76,7 @@ class BranchForm(Dialog[BranchSpec | None]):
         Binding("ctrl+r", "remove_segment", "Remove segment", id="form-remove-segment",
                 tooltip="Remove the segment being edited"),
     ]
+    CLOSE_HINT = "Enter applies, Esc cancels"
     DEFAULT_CSS = """
     BranchForm { align: center middle; }
     BranchForm > Vertical {

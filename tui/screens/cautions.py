@@ -22,6 +22,7 @@ CAUTIONS = (
 
 class CautionsScreen(Dialog[None]):
     BINDINGS = [Binding("escape,q,exclamation_mark,f7", "close", "Close", id="cautions-close")]
+    PASS_KEYS = True
     DEFAULT_CSS = """
     CautionsScreen { align: center middle; }
     CautionsScreen > Vertical {

@@ -24,7 +24,8 @@ ABOUT = (
 class HelpScreen(Dialog[None]):
     """Keys by screen, then the app-wide keys, from the live binding lists."""
 
-    BINDINGS = [Binding("escape,f1,q", "close", "Close", id="help-close")]
+    BINDINGS = [Binding("escape,f1,q,question_mark", "close", "Close", id="help-close")]
+    PASS_KEYS = True
     DEFAULT_CSS = """
     HelpScreen { align: center middle; }
     HelpScreen > VerticalScroll {

@@ -10,10 +10,13 @@ pages by its laid-out lines, which a hidden list has not got (KeyError).
 
 from __future__ import annotations
 
+from textual import events
 from textual.await_complete import AwaitComplete
 from textual.binding import Binding
 from textual.command import CommandList, CommandPalette
 from textual.widgets import Input
+
+from .dialogs import app_key
 
 
 async def _nothing() -> None:
@@ -41,6 +44,10 @@ class Palette(CommandPalette):
         if self.app.screen is not self:
             return AwaitComplete(_nothing())
         return super().dismiss(result)
+
+    def on_key(self, event: events.Key) -> None:
+        # An app key (F3, Ctrl+S…) closes the palette and does its work: nothing is lost.
+        app_key(self, event, pass_keys=True, hint="Esc")
 
     def on_input_changed(self, event: Input.Changed) -> None:
         if self.app.screen is not self:

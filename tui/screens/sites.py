@@ -27,6 +27,7 @@ class SitesScreen(Dialog[Path | str | None]):
         Binding("slash", "type_path", "Type a path", id="sites-path",
                 tooltip="Open a file that is not in the list"),
     ]
+    PASS_KEYS = True
     DEFAULT_CSS = """
     SitesScreen { align: center middle; }
     SitesScreen > Vertical {

@@ -2,7 +2,7 @@
 
 Each field shows the site's own value where its ``[tolerances]`` table has one; an empty field
 takes the common-practice default, shown greyed and marked so (no standard fixes these). Keep
-(Ctrl+S, or Enter in a field) checks the values with the core's own reader of the table and
+(Enter in a field, as in every dialog) checks the values with the core's own reader of the table and
 returns a new :class:`~branchwise.core.sitefile.TolerancesSpec`; the screen that asked puts it
 into the site as one undoable edit, and it is saved with the site.
 """
@@ -72,7 +72,6 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
 
     BINDINGS = [
         Binding("escape", "cancel", "Cancel", id="tolerances-cancel"),
-        Binding("ctrl+s", "keep", "Keep", id="tolerances-keep"),
     ]
     DEFAULT_CSS = """
     TolerancesScreen { align: center middle; }
@@ -119,7 +118,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
                 yield Static(f"Roughness ranges kept from the site file: {kept}",
                              classes="tol-kept", markup=False)
             yield Static("", classes="tol-message", markup=False)
-            yield Static("Ctrl+S or Enter: keep   Esc: cancel   (Ctrl+Z undoes it later)",
+            yield Static("Enter: keep   Esc: cancel   (Ctrl+Z undoes it later)",
                          markup=False)
 
     def on_mount(self) -> None:

@@ -5,10 +5,11 @@ from __future__ import annotations
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.widgets import Label, Select, Static
+from textual.widgets import Label, Static
 
 from branchwise.core.units import display_unit, unit_choices, unit_label
 
+from ..widgets.choice import Choice
 from .dialogs import Dialog
 
 QUANTITIES = ("pressure", "flow", "length", "diameter", "roughness", "head", "velocity",
@@ -16,11 +17,13 @@ QUANTITIES = ("pressure", "flow", "length", "diameter", "roughness", "head", "ve
 
 
 class UnitsScreen(Dialog[dict[str, str] | None]):
-    """One picker per quantity; returns the chosen units that differ from the system's."""
+    """One picker per quantity; returns the chosen units that differ from the system's.
+
+    Keys as in every dialog: Enter keeps, Esc cancels. ←/→ step a unit, Space lists them."""
 
     BINDINGS = [
         Binding("escape", "cancel", "Cancel", id="units-cancel"),
-        Binding("ctrl+s", "keep", "Keep", id="units-keep"),
+        Binding("enter", "keep", "Keep", id="units-keep", priority=True),
     ]
     DEFAULT_CSS = """
     UnitsScreen { align: center middle; }
@@ -30,7 +33,7 @@ class UnitsScreen(Dialog[dict[str, str] | None]):
     }
     UnitsScreen Horizontal { height: 1; }
     UnitsScreen .unit-label { width: 22; }
-    UnitsScreen Select { width: 1fr; }
+    UnitsScreen Choice { width: 1fr; }
     """
 
     def __init__(self, system: str, chosen: dict[str, str]) -> None:
@@ -47,15 +50,14 @@ class UnitsScreen(Dialog[dict[str, str] | None]):
                     choices = list(dict.fromkeys((default, *unit_choices(kind))))
                     with Horizontal():
                         yield Label(kind.replace("_", " ").capitalize(), classes="unit-label")
-                        yield Select([(unit_label(c), c) for c in choices], id=f"unit-{kind}",
-                                     value=self.chosen.get(kind, default), allow_blank=False,
-                                     compact=True)
-            yield Static("Ctrl+S: keep   Esc: cancel", markup=False)
+                        yield Choice([(unit_label(c), c) for c in choices],
+                                     self.chosen.get(kind, default), id=f"unit-{kind}")
+            yield Static("←/→: change   Space: list   Enter: keep   Esc: cancel", markup=False)
 
     def action_keep(self) -> None:
         out = {}
         for kind in QUANTITIES:
-            value = str(self.query_one(f"#unit-{kind}", Select).value)
+            value = self.query_one(f"#unit-{kind}", Choice).value
             if value != display_unit(kind, self.system):
                 out[kind] = value
         self.dismiss(out)

@@ -95,6 +95,7 @@ class ChoiceMenu(Dialog[str | None]):
     """The list of a :class:`Choice`, just below it."""
 
     BINDINGS = [Binding("escape", "cancel", "Cancel", id="menu-cancel")]
+    PASS_KEYS = True
     DEFAULT_CSS = """
     ChoiceMenu { background: $background 30%; }
     ChoiceMenu OptionList { width: auto; min-width: 24; max-width: 60; height: auto;
