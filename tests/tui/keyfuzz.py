@@ -43,7 +43,7 @@ STARTS: dict[str, tuple[str, ...]] = {
     # Reached in the large run only (the CI run keeps to the ones above).
     "palette": ("ctrl+p",),
     "record": ("f4", "r"),
-    "find-diameter": ("f4", "f", "enter", "down", "enter"),
+    "find-diameter": ("f4", "f", "down", "enter"),
     "tolerances": ("f4", "l"),
 }
 CI_TOURS = (("liquid", "help"), ("branches", "sites"), ("split", "units"),

@@ -64,7 +64,7 @@ class BranchesScreen(WorkScreen):
                 tooltip="Add a copy of the highlighted branch"),
         Binding("delete,x", "remove", "Remove", id="branches-remove",
                 tooltip="Remove the highlighted branch (or segment); Ctrl+Z brings it back"),
-        Binding("s", "add_segment", "Segment", id="branches-segment",
+        Binding("s", "add_segment", "Segment", id="branches-segment", show=False,
                 tooltip="Add a series segment after the highlighted one"),
         Binding("shift+up,left_square_bracket", "move(-1)", "Up", id="branches-up",
                 show=False, tooltip="Move the branch up"),
@@ -129,8 +129,8 @@ class BranchesScreen(WorkScreen):
             put(message, f"✗ {error_text(outcome.error, site)}")  # type: ignore[union-attr,arg-type]
         else:
             kind, index = given_of(site)
-            put(message, "Enter edit · e form · a add · c copy · x remove · bare numbers "
-                "take the header's unit" if index is None else
+            put(message, "Enter edit · e form · a add · c copy · s segment · Del remove · bare "
+                "numbers take the header's unit" if index is None else
                 f"The reading on {branch_name(site, index)} ({given_text(site)}) is the given "
                 "condition.")
 

@@ -13,7 +13,7 @@ from pathlib import Path
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.widgets import Label, Static
+from textual.widgets import Input, Label, Static
 
 from ..session import error_text, locate, text_of, with_unit
 from ..widgets.choice import Choice
@@ -53,10 +53,12 @@ class LiquidScreen(WorkScreen):
     CSS_PATH = Path(__file__).parent.parent / "liquid.tcss"
 
     BINDINGS = [
+        Binding("escape", "leave_field", "Done typing", id="liquid-leave",
+                key_display="Enter next · Esc",
+                tooltip="Enter moves to the next field; Esc stops typing, so that single "
+                        "letters are keys again"),
         Binding("k", "focus_kind", "Kind", id="liquid-kind",
                 tooltip="Choose water, seawater, a glycol, a custom liquid or a saved one"),
-        Binding("escape", "leave_field", "Leave field", id="liquid-leave", show=False,
-                tooltip="Stop typing in a field (so that single-letter keys work)"),
     ]
 
     def body(self) -> ComposeResult:
@@ -190,7 +192,16 @@ class LiquidScreen(WorkScreen):
         self.bw.edit(f"Liquid {name.replace('_', ' ')}", change, key=field.path)
 
     def on_field_done(self, event: Field.Done) -> None:
-        self.focus_next()
+        """Enter: the next field shown, round to the first (the focus stays in a field, so
+        that letters typed next are not keys)."""
+        shown = [f for f in self.query(Field) if f.display]
+        if event.field in shown:
+            shown[(shown.index(event.field) + 1) % len(shown)].input.focus()
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "leave_field":  # shown (with Enter's meaning) while typing only
+            return isinstance(self.focused, Input)
+        return True
 
     def action_focus_kind(self) -> None:
         self.query_one("#liquid-kind-select").focus()

@@ -33,11 +33,15 @@ from ..widgets.quiet import put, show_text
 from ..widgets.sharebar import share_bar
 from ..widgets.texttable import TextTable
 from .splitpanels import PANEL_BINDINGS, PanelScreen
+from .warnings import fit_lines
 
 GIVEN_PREFIX = "measured:"
 FIND_LABELS = {"flows": "the flows", "diameter": "the diameter", "length": "the length",
                "roughness": "the roughness"}
-MAX_WARNING_LINES = 4
+MAX_WARNING_LINES = 6
+"""At most this many warning lines under the table; fewer when the branch rows need the room."""
+FIELDS = ("given-value", "lift-value", "find-target")
+"""The typing fields in Enter order (Enter in the last goes back to the first)."""
 REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb."}
 BASE_GIVENS = [("Δp across the header", "pressure_drop"), ("Total flow", "total_flow")]
 CAUTION_LINE = "Estimates only, not design: confirm on site.  ! cautions"
@@ -47,13 +51,19 @@ class SplitScreen(PanelScreen):
     """Given, find, and the answer (or, in its place, the uncertainty band or the curve)."""
 
     AUTO_FOCUS = "#results"
+    LISTS_WARNINGS = True
+    """``w`` lists the warnings here (the status strip says so)."""
 
     BINDINGS = [
-        Binding("g", "focus('given-kind')", "Given", id="split-given",
+        Binding("escape", "focus('results')", "Done typing", id="split-table",
+                key_display="Enter next · Esc",
+                tooltip="Enter moves to the next field; Esc leaves the fields for the results, "
+                        "and single letters are keys again"),
+        Binding("g", "pick('given-kind')", "Given", id="split-given",
                 tooltip="Choose what was measured: Δp, total flow or one branch's reading"),
         Binding("v", "focus('given-value')", "Value", id="split-value", show=False,
                 tooltip="Type the value of the given condition"),
-        Binding("f", "focus('find-kind')", "Find", id="split-find",
+        Binding("f", "pick('find-kind')", "Find", id="split-find",
                 tooltip="Choose what to find: the flows, or a diameter, length or roughness"),
         Binding("t", "focus('find-target')", "Target", id="split-target", show=False,
                 tooltip="Type the target flow of the branch being sized"),
@@ -61,10 +71,10 @@ class SplitScreen(PanelScreen):
                 tooltip="Type the elevation change between the headers, outlet minus inlet"),
         Binding("r", "export('markdown')", "Record", id="split-record",
                 tooltip="Write the walkdown record (Markdown)"),
-        Binding("c", "export('csv')", "CSV", id="split-csv",
+        Binding("c", "export('csv')", "CSV", id="split-csv", show=False,
                 tooltip="Write the results table as CSV"),
-        Binding("escape", "focus('results')", "Table", id="split-table", show=False,
-                tooltip="Leave the field and go to the results (table or band)"),
+        Binding("w", "warnings", "Warnings", id="split-warnings", show=False,
+                tooltip="List every warning and note of the answer"),
         *PANEL_BINDINGS,
     ]
 
@@ -200,6 +210,7 @@ class SplitScreen(PanelScreen):
             put(solved, "", layout=False)
             if solved.display:
                 solved.display = False
+            self.warning_lines = []
             put(warnings, "")
             return
         result = shown.solved.result
@@ -234,13 +245,36 @@ class SplitScreen(PanelScreen):
         lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{w.message}"
                  for w in result.warnings]
         lines += [f"• {note}" for note in (*shown.solved.notes, *result.notes)]
-        if len(lines) > MAX_WARNING_LINES:
-            more = len(lines) - MAX_WARNING_LINES + 1
-            lines = [*lines[:MAX_WARNING_LINES - 1],
-                     f"… and {more} more: all of them are in the record (r)"]
+        self.warning_lines = lines
+        self._show_warnings(self._warning_room)
+        self.call_after_refresh(self._fit_warnings)
+
+    warning_lines: list[str] = []
+    """Every warning and note of the answer shown (the screen shows as many as fit)."""
+    _warning_room = MAX_WARNING_LINES
+
+    def _show_warnings(self, room: int) -> None:
+        lines = fit_lines(self.warning_lines, min(room, MAX_WARNING_LINES))
+        warnings = self.query_one("#warnings", Static)
         put(warnings, "\n".join(lines))
         if warnings.display != bool(lines):
             warnings.display = bool(lines)
+
+    def _fit_warnings(self) -> None:
+        """After layout: give the warnings only the rows the table does not need, so that
+        every branch row stays in sight (each warning is one line, cut at the edge)."""
+        if not self.is_attached or not self.warning_lines:
+            return
+        shown = min(len(self.warning_lines), self._warning_room, MAX_WARNING_LINES)
+        if self.view == "table":
+            table = self.query_one("#results", TextTable)
+            spare = table.scrollable_content_region.height - (len(table.rows) + 1)
+        else:
+            spare = 2 - shown  # the band and the curve take what is left: two lines
+        room = max(1, min(MAX_WARNING_LINES, shown + spare))
+        if room != self._warning_room:
+            self._warning_room = room
+            self._show_warnings(room)
 
     def _solved_text(self, shown: object) -> str:
         app = self.bw
@@ -297,7 +331,12 @@ class SplitScreen(PanelScreen):
                      key="target")
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
-        self.action_focus("results")
+        """Enter keeps the value (it is in the site already) and goes to the next field, as
+        in a form: the focus stays in a field, so that letters typed next are not keys."""
+        fields = [self.query_one(f"#{ident}", Input) for ident in FIELDS]
+        shown = [box for box in fields if box.display]
+        if event.input in shown:
+            shown[(shown.index(event.input) + 1) % len(shown)].focus()
 
     def _switch_given(self, value: str) -> None:
         app = self.bw
@@ -370,8 +409,19 @@ class SplitScreen(PanelScreen):
         elif widget.display:
             widget.focus()
 
+    def action_pick(self, ident: str) -> None:
+        """Open a picker's list at once (g, f): one key, as a person expects."""
+        choice = self.query_one(f"#{ident}", Choice)
+        choice.focus()
+        choice.action_open()
+
     def action_export(self, fmt: str) -> None:
         self.bw.export(fmt)
+
+    def action_warnings(self) -> None:
+        from .warnings import WarningsScreen
+
+        self.app.push_screen(WarningsScreen(list(self.warning_lines)))
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         if action == "export":
@@ -379,7 +429,17 @@ class SplitScreen(PanelScreen):
             return True if outcome is not None and outcome.ok else None
         if action == "focus" and parameters == ("find-target",):
             return True if find_of(self.bw.site) != "flows" else None
+        if action == "focus" and parameters == ("results",):
+            # Esc: shown (with Enter's meaning) while typing in a field, hidden otherwise.
+            return self.focused is not None and self.focused is not self.main_view()
         return True
+
+    def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
+        if action == "export":
+            return "Nothing to write yet: the site does not solve (see the message above)."
+        if action == "focus" and parameters == ("find-target",):
+            return "No target flow while finding the flows: f chooses what to find."
+        return ""
 
 
 def _compact(number: float) -> str:

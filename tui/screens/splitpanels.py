@@ -49,7 +49,7 @@ PANEL_BINDINGS = [
     Binding("b", "view('band')", "Band", id="split-band",
             tooltip="P5–P95 band of every flow from the tolerances, and what dominates it "
                     "(b again: back to the table)"),
-    Binding("p", "view('curve')", "Curve", id="split-curve",
+    Binding("p", "view('curve')", "Curve", id="split-curve", show=False,
             tooltip="System curve: Δp against the total and branch flows, operating point "
                     "marked (p again: back to the table)"),
     Binding("l", "tolerances", "Tolerances", id="split-tolerances", show=False,

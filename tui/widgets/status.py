@@ -25,7 +25,8 @@ class StatusStrip(Static):
     """Two lines: the given condition and the find choice; then the solver's state."""
 
     DEFAULT_CSS = """
-    StatusStrip { height: 2; padding: 0 1; background: $boost; }
+    StatusStrip { height: 2; padding: 0 1; background: $boost; text-wrap: nowrap;
+                  text-overflow: ellipsis; }
     """
 
     def on_mount(self) -> None:
@@ -36,13 +37,14 @@ class StatusStrip(Static):
 
     def _redraw(self, *_: object) -> None:
         app: BranchwiseApp = self.app  # type: ignore[assignment]
-        text = describe(app)
+        text = describe(app, getattr(self.screen, "LISTS_WARNINGS", False))
         if self.content != text:
             self.update(text, layout=False)  # two lines, always: no new layout needed
 
 
-def describe(app: BranchwiseApp) -> Text:
-    """The strip's text for the app's present state."""
+def describe(app: BranchwiseApp, on_split: bool = False) -> Text:
+    """The strip's text for the app's present state (``on_split``: the strip of the Split
+    screen, where ``w`` lists the warnings)."""
     site = app.session.site
     kind, index = given_of(site)
     value = given_text(site) or "—"
@@ -77,7 +79,8 @@ def describe(app: BranchwiseApp) -> Text:
         line.append(f"✓ solved {n} branches in {outcome.seconds * 1000:.1f} ms", style="green")
         warnings = len(outcome.solved.result.warnings) if outcome.solved else 0
         if warnings:
-            line.append(f"  ⚠ {warnings} warning{'s' if warnings > 1 else ''} (F4)",
+            where = "w lists them" if on_split else "F4"
+            line.append(f"  ⚠ {warnings} warning{'s' if warnings > 1 else ''} ({where})",
                         style="yellow")
     line.no_wrap = True
     line.overflow = "ellipsis"
