@@ -10,9 +10,8 @@ from __future__ import annotations
 
 import math
 import re
-from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any, Protocol
+from typing import TYPE_CHECKING, Any
 
 from .errors import InputError
 from .model import (
@@ -22,7 +21,6 @@ from .model import (
     Find,
     FindFlows,
     FindUnknown,
-    Fluid,
     Given,
     MeasuredFlow,
     Network,
@@ -32,17 +30,14 @@ from .model import (
     kv_from_cv,
 )
 from .sitefile import BranchSpec, SegmentSpec, Site, Value
-from .units import KINDS, describe, format_quantity, parse_quantity
+from .sitefluid import PresetSource, build_fluid, text_value
+from .units import describe, format_quantity, parse_quantity
 
 if TYPE_CHECKING:
     from .uncertainty import Tolerances
 
 CONDITIONS = ("new", "aged")
 FINDS = ("flows", "diameter", "length", "roughness")
-
-
-class PresetSource(Protocol):
-    def get(self, kind: str, key: str) -> dict[str, Any]: ...
 
 
 @dataclass(frozen=True)
@@ -101,95 +96,6 @@ def _at_least(number: float | None, path: str, value: Value, low: float, strict:
                          else "must not be negative")
 
 
-def _text(value: Value, path: str) -> str | None:
-    if value is None:
-        return None
-    if not isinstance(value, str) or not value.strip():
-        raise InputError(path, describe(value), "must be non-empty text")
-    return value.strip()
-
-
-# ---- the fluid -----------------------------------------------------------------------------
-
-_FLUID_ARGS = {
-    "temperature": ("temperature_k", "temperature"),
-    "pressure": ("pressure_pa", "pressure"),
-    "concentration": ("mass_fraction", "fraction"),
-    "salinity": ("salinity_kg_kg", "salinity"),
-    "density": ("density", "density"),
-    "viscosity": ("viscosity", "viscosity"),
-    "kinematic_viscosity": ("kinematic_viscosity", "kinematic_viscosity"),
-}
-
-
-def build_fluid(site: Site, presets: PresetSource | None = None) -> Fluid:
-    """The site's liquid. ``kind`` is a built-in kind or the key of a user fluid preset, whose
-    values the site's own values override (a preset's bare numbers are SI)."""
-    from .fluids import fluid_from_spec
-
-    kind, args = fluid_inputs(site, presets)
-    return fluid_from_spec(kind, **args)
-
-
-def fluid_inputs(site: Site, presets: PresetSource | None = None) -> tuple[str, dict[str, Any]]:
-    """The built-in fluid kind of the site's liquid and the SI keyword arguments of
-    :func:`~branchwise.core.fluids.fluid_from_spec` (so the same liquid can be rebuilt at
-    another temperature, ``temperature_k`` in K)."""
-    from .fluids import FLUID_KINDS
-
-    spec = site.fluid
-    kind = _text(spec.kind, "fluid.kind") or "water"
-    values: dict[str, tuple[Value, str | None]] = {}
-    if kind.lower() not in FLUID_KINDS:
-        preset = _fluid_preset(kind, presets, FLUID_KINDS)
-        kind = str(preset.get("kind", "custom"))
-        for key, value in preset.items():  # a preset's bare numbers are SI
-            if key in _FLUID_ARGS:
-                values[key] = (value, KINDS[_FLUID_ARGS[key][1]].si)
-            elif key == "name":
-                values[key] = (value, None)
-    for key in (*_FLUID_ARGS, "name"):
-        if getattr(spec, key) is not None:
-            values[key] = (getattr(spec, key), None)
-    args: dict[str, Any] = {}
-    for key, (value, unit) in values.items():
-        if key == "name":
-            args["name"] = _text(value, "fluid.name")
-            continue
-        arg, qkind = _FLUID_ARGS[key]
-        if key == "concentration":
-            args[arg] = _mass_fraction(kind, value, unit)
-            continue
-        args[arg] = parse_quantity(value, qkind, f"fluid.{key}", default_unit=unit)
-    return kind, args
-
-
-def _mass_fraction(kind: str, value: Value, unit: str | None) -> float:
-    """A glycol concentration, by mass unless the text says by volume (``"30 % vol"``)."""
-    from .fluids.concentration import PURE_DENSITY_20C, mass_fraction_from_volume, split_basis
-
-    text, basis = split_basis(value) if isinstance(value, str) else (value, "mass")
-    fraction = parse_quantity(text, "fraction", "fluid.concentration", default_unit=unit)
-    if basis == "volume" and kind in PURE_DENSITY_20C:  # other kinds refuse it on their own
-        return mass_fraction_from_volume(kind, fraction)
-    return fraction
-
-
-def _fluid_preset(kind: str, presets: PresetSource | None, kinds: tuple[str, ...]) -> dict:
-    if presets is None:
-        from .store import PresetStore
-
-        presets = PresetStore()
-    try:
-        found = presets.get("fluids", kind)
-    except InputError:
-        raise InputError("fluid.kind", kind, f"must be one of {', '.join(kinds)} or the key of "
-                         "a saved fluid preset") from None
-    if not isinstance(found, Mapping):
-        raise InputError("fluid.kind", kind, "the preset is not a table of values")
-    return dict(found)
-
-
 # ---- branches ------------------------------------------------------------------------------
 
 def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
@@ -200,7 +106,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
         raise InputError(f"{path}.size", describe(seg.size), "give diameter or size, not both")
     size = None
     if seg.size is not None:
-        size_text = _text(seg.size, f"{path}.size")
+        size_text = text_value(seg.size, f"{path}.size")
         size = parse_size(size_text, f"{path}.size")  # type: ignore[arg-type]
         diameter = (size.inner_diameter_m if size is not None
                     else parse_quantity(size_text, "diameter", f"{path}.size"))
@@ -216,7 +122,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     if seg.roughness is not None and seg.material is not None:
         raise InputError(f"{path}.material", describe(seg.material),
                          "give roughness or material, not both")
-    condition = _text(seg.condition, f"{path}.condition")
+    condition = text_value(seg.condition, f"{path}.condition")
     if condition is not None and condition not in CONDITIONS:
         raise InputError(f"{path}.condition", condition, "must be new or aged")
     hw_c = plain_number(seg.hw_c, f"{path}.hw_c")
@@ -229,7 +135,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
         roughness = _quantity(seg.roughness, "roughness", f"{path}.roughness")
         _at_least(roughness, f"{path}.roughness", seg.roughness, 0.0, strict=False)
     else:
-        key = _text(seg.material, f"{path}.material")
+        key = text_value(seg.material, f"{path}.material")
         if key is None:
             if size is None:
                 raise InputError(f"{path}.roughness", "nothing",
@@ -263,7 +169,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
 
 def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], list[str]]:
     path = f"branches[{i}]"
-    name = _text(br.name, f"{path}.name")
+    name = text_value(br.name, f"{path}.name")
     if name is None:
         raise InputError(f"{path}.name", "nothing", "every branch needs a name")
     if not br.segments:
@@ -280,13 +186,38 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
     if br.valve_kv is not None and br.valve_cv is not None:
         raise InputError(f"{path}.valve_cv", describe(br.valve_cv),
                          "give valve_kv or valve_cv, not both")
-    kv = plain_number(br.valve_kv, f"{path}.valve_kv")
-    _at_least(kv, f"{path}.valve_kv", br.valve_kv, 0.0, strict=True)
-    cv = plain_number(br.valve_cv, f"{path}.valve_cv")
-    _at_least(cv, f"{path}.valve_cv", br.valve_cv, 0.0, strict=True)
+    kv = _series_kv(br.valve_kv, f"{path}.valve_kv")
+    cv = _series_kv(br.valve_cv, f"{path}.valve_cv")
     if cv is not None:
         kv = kv_from_cv(cv)
     return Branch(name, tuple(segs), kv), sizes, ks, paths
+
+
+_SERIES = re.compile(r"(?<=[\d.\s])\+")
+"""A plus sign between two numbers (not the one of an exponent, 1e+3)."""
+
+
+def _series_kv(value: Value, path: str) -> float | None:
+    """One flow coefficient for the valves, strainers and coils a branch has in series, given
+    as ``"160 + 40"`` (or a single number): each passes the same flow and their pressure drops
+    add, Δp ∝ (Q/Kv)², so 1/Kv² = Σ 1/Kv_i² (the same holds for Cv)."""
+    parts = _SERIES.split(value.strip()) if isinstance(value, str) else []
+    if len(parts) > 1:
+        if any(not p.strip() for p in parts):
+            raise InputError(path, describe(value), "several valves in series read like 160 + 40")
+        numbers = [plain_number(p, path) for p in parts]
+    else:
+        if isinstance(value, str) and "," in value:
+            raise InputError(path, describe(value), "use a decimal point; several valves in "
+                             "series read like 160 + 40")
+        numbers = [plain_number(value, path)]
+    if numbers == [None]:
+        return None
+    for number in numbers:
+        _at_least(number, path, value, 0.0, strict=True)
+    if len(numbers) == 1:
+        return numbers[0]
+    return 1 / math.hypot(*(1 / n for n in numbers))  # type: ignore[operator]
 
 
 # ---- conditions and what to find -----------------------------------------------------------
@@ -321,7 +252,7 @@ def _find(site: Site, network: Network) -> Find:
     s = site.solve
     if s is None:
         return FindFlows()
-    find = _text(s.find, "solve.find") or "flows"
+    find = text_value(s.find, "solve.find") or "flows"
     if find not in FINDS:
         raise InputError("solve.find", find, f"must be one of {', '.join(FINDS)}")
     if find == "flows":
@@ -330,7 +261,7 @@ def _find(site: Site, network: Network) -> Find:
                 raise InputError(f"solve.{key}", describe(getattr(s, key)),
                                  "is used only when find is diameter, length or roughness")
         return FindFlows()
-    branch = _text(s.branch, "solve.branch")
+    branch = text_value(s.branch, "solve.branch")
     if branch is None:
         raise InputError("solve.branch", "nothing", f"name the branch whose {find} to find")
     index = network.index_of(branch, "solve.branch")
@@ -368,7 +299,7 @@ def build(site: Site, presets: PresetSource | None = None) -> Built:
         ks.append(tuple(k))
         paths.append(tuple(p))
     c = site.conditions
-    friction = _text(c.friction, "conditions.friction") or "colebrook"
+    friction = text_value(c.friction, "conditions.friction") or "colebrook"
     if friction not in FRICTION_MODELS:
         raise InputError("conditions.friction", friction,
                          f"must be one of {', '.join(FRICTION_MODELS)}")

@@ -184,7 +184,7 @@ def site_thermal(
     that takes the liquid outside its model (boiling, freezing) is an InputError.
     """
     from .fluids import fluid_from_spec
-    from .sitebuild import fluid_inputs
+    from .sitefluid import fluid_inputs
     from .uncertainty import Thermal
 
     if tol.temperature_k == 0:
