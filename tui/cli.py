@@ -78,8 +78,10 @@ def _parser() -> argparse.ArgumentParser:
 
     demo = sub.add_parser(
         "demo", help="write the demo site to a file to start from",
-        description="Write the bundled demo site (a made-up chilled-water header) to PATH.")
-    demo.add_argument("path", type=Path, help="file to write (or a folder to write it into)")
+        description="Write the bundled demo site (a made-up chilled-water header) to PATH "
+                    "(default: demo-site.toml in the current folder).")
+    demo.add_argument("path", type=Path, nargs="?", default=Path("."),
+                      help="file to write, or a folder to write it into (default: this folder)")
     demo.add_argument("--force", action="store_true", help="replace an existing file")
 
     open_ = sub.add_parser(
@@ -212,7 +214,8 @@ def _demo(path: Path, force: bool, out: TextIO) -> int:
         raise InputError(path.name, str(path), "already exists; choose another name or add --force")
     atomic_write_text(path, demo_text(), backup=True)
     out.write(f"wrote the demo site to {path}\n"
-              f"solve it with: branchwise solve {path}\n")
+              f"open it in the app: branchwise open {path}\n"
+              f"or solve it here:   branchwise solve {path}\n")
     return EXIT_OK
 
 
@@ -255,7 +258,9 @@ def _launch_app(site_path: Path | None) -> int | None:
 def _site_label(args: argparse.Namespace) -> str:
     site = getattr(args, "site", None)
     if args.command == "demo":
-        return str(args.path)
+        from branchwise.core.sitefile import DEMO_NAME
+
+        return str(args.path / DEMO_NAME if args.path.is_dir() else args.path)
     if args.command in ("presets", "where"):
         return "presets"
     return str(site) if site is not None else "demo site"

@@ -160,3 +160,13 @@ def test_version(capsys):
         main(["--version"])
     assert done.value.code == 0
     assert capsys.readouterr().out.startswith("branchwise ")
+
+
+def test_demo_without_a_path_writes_into_the_current_folder(tmp_path, monkeypatch, capsys):
+    monkeypatch.chdir(tmp_path)
+    assert main(["demo"]) == 0
+    assert (tmp_path / "demo-site.toml").read_text() == demo_text()
+    assert "branchwise open demo-site.toml" in capsys.readouterr().out
+    assert main(["demo"]) == 2  # never over an existing file
+    err = capsys.readouterr().err.strip()
+    assert err.startswith("branchwise: demo-site.toml: already exists") and err.count("\n") == 0
