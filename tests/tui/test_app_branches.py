@@ -44,7 +44,7 @@ def test_branch_table_by_keys(ui):
             assert names(app) == ["AHU-1 coil", "AHU-2 coil", "AHU-2 coil 2", "AHU-3 coil",
                                   "Bypass"]
             assert table.cursor_row == 2  # the cursor follows the copy
-            await pilot.press("x")
+            await pilot.press("delete")
             await ui.settle(pilot)
             assert "AHU-2 coil 2" not in names(app)
             await pilot.press("ctrl+z")

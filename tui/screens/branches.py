@@ -62,7 +62,7 @@ class BranchesScreen(WorkScreen):
         Binding("a", "add", "Add", id="branches-add", tooltip="Add a branch"),
         Binding("c", "copy", "Copy", id="branches-copy",
                 tooltip="Add a copy of the highlighted branch"),
-        Binding("delete,x", "remove", "Remove", id="branches-remove",
+        Binding("delete", "remove", "Remove", id="branches-remove",
                 tooltip="Remove the highlighted branch (or segment); Ctrl+Z brings it back"),
         Binding("s", "add_segment", "Segment", id="branches-segment", show=False,
                 tooltip="Add a series segment after the highlighted one"),

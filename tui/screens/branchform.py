@@ -73,7 +73,7 @@ class BranchForm(Dialog[BranchSpec | None]):
                 tooltip="Close the form without changing the branch"),
         Binding("ctrl+n", "add_segment", "Add segment", id="form-add-segment",
                 tooltip="Add a series segment after the one being edited"),
-        Binding("ctrl+r", "remove_segment", "Remove segment", id="form-remove-segment",
+        Binding("ctrl+g", "remove_segment", "Remove segment", id="form-remove-segment",
                 tooltip="Remove the segment being edited"),
     ]
     CLOSE_HINT = "Enter applies, Esc cancels"
@@ -103,7 +103,7 @@ class BranchForm(Dialog[BranchSpec | None]):
         with Vertical():
             yield Label(f"{self.title_text}: {text_of(br.name)}", classes="form-title",
                         markup=False)
-            yield Static("Enter: apply   Esc: cancel   Ctrl+N: add segment   Ctrl+R: remove "
+            yield Static("Enter: apply   Esc: cancel   Ctrl+N: add segment   Ctrl+G: remove "
                          "segment", classes="form-keys", markup=False)
             with VerticalScroll(id="form-fields"):
                 yield Field("Name", "name", value=text_of(br.name), id="f-name")
@@ -199,7 +199,7 @@ class BranchForm(Dialog[BranchSpec | None]):
             event.field.set_error(self.check(event.field))
 
     def on_field_done(self, event: Field.Done) -> None:
-        # An Enter typed just before Ctrl+N/Ctrl+R can arrive while the fields are being
+        # An Enter typed just before Ctrl+N/Ctrl+G can arrive while the fields are being
         # rebuilt (the branch already has its new segments, the fields not yet): the form
         # stays open on the new layout, and Enter there applies it.
         if not self._rebuilding:
