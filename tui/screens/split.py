@@ -23,32 +23,28 @@ from ..session import (
     given_of,
     given_text,
     locate,
-    set_find,
-    set_given,
     text_of,
-    with_unit,
 )
 from ..widgets.choice import Choice
 from ..widgets.quiet import put, show_text
 from ..widgets.sharebar import share_bar
 from ..widgets.texttable import TextTable
+from .splitedits import GIVEN_PREFIX, GivenFindEdits
 from .splitpanels import PANEL_BINDINGS, PanelScreen
 from .warnings import fit_lines
 
-GIVEN_PREFIX = "measured:"
 FIND_LABELS = {"flows": "the flows", "diameter": "the diameter", "length": "the length",
                "roughness": "the roughness"}
 MAX_WARNING_LINES = 6
 """At most this many warning lines under the table; fewer when the branch rows need the room."""
-FIELDS = ("given-value", "lift-value", "find-target")
-"""The typing fields in Enter order (Enter in the last goes back to the first)."""
 REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb."}
 BASE_GIVENS = [("Δp across the header", "pressure_drop"), ("Total flow", "total_flow")]
 CAUTION_LINE = "Estimates only, not design: confirm on site.  ! cautions"
 
 
-class SplitScreen(PanelScreen):
-    """Given, find, and the answer (or, in its place, the uncertainty band or the curve)."""
+class SplitScreen(GivenFindEdits, PanelScreen):
+    """Given, find, and the answer (or, in its place, the uncertainty band or the curve); the
+    edits of the given and find rows are in :class:`~.splitedits.GivenFindEdits`."""
 
     AUTO_FOCUS = "#results"
     LISTS_WARNINGS = True
@@ -292,114 +288,6 @@ class SplitScreen(PanelScreen):
                      f"{app.fmt(c.flow, 'flow')}")
         return text
 
-    # ---- edits -----------------------------------------------------------------------------------
-
-    def on_choice_changed(self, event: Choice.Changed) -> None:
-        ident = event.choice.id
-        if ident == "given-kind":
-            self._switch_given(str(event.value))
-        elif ident == "find-kind":
-            self._switch_find(str(event.value))
-        elif ident == "find-branch":
-            name = str(event.value)
-            if name != text_of(self.bw.site.solve.branch if self.bw.site.solve else None):
-                self.bw.edit(f"Find on {name}", lambda s: set_find(s, find_of(s), branch=name,
-                                                                   segment=1))
-        elif ident == "find-segment":
-            seg = int(str(event.value))
-            self.bw.edit(f"Segment {seg}", lambda s: set_find(s, find_of(s), segment=seg))
-
-    def on_input_changed(self, event: Input.Changed) -> None:
-        if not self.ready:
-            return
-        app = self.bw
-        if event.input.id == "given-value":
-            kind, index = given_of(app.site)
-            unit = app.unit("pressure" if kind == "pressure_drop" else "flow")
-            text = with_unit(event.value, unit)
-            app.edit("Given value", lambda s: set_given(s, kind, text, index), key="given")
-        elif event.input.id == "lift-value":
-            text = with_unit(event.value, app.unit("head")) or None
-
-            def lift(s: object) -> None:
-                s.conditions.elevation_change = text  # type: ignore[attr-defined]
-
-            app.edit("Lift", lift, key="lift")
-        elif event.input.id == "find-target":
-            text = with_unit(event.value, app.unit("flow"))
-            app.edit("Target flow", lambda s: set_find(s, find_of(s), target=text),
-                     key="target")
-
-    def on_input_submitted(self, event: Input.Submitted) -> None:
-        """Enter keeps the value (it is in the site already) and goes to the next field, as
-        in a form: the focus stays in a field, so that letters typed next are not keys."""
-        fields = [self.query_one(f"#{ident}", Input) for ident in FIELDS]
-        shown = [box for box in fields if box.display]
-        if event.input in shown:
-            shown[(shown.index(event.input) + 1) % len(shown)].focus()
-
-    def _switch_given(self, value: str) -> None:
-        app = self.bw
-        site = app.site
-        new_kind, new_index = ("measured_flow", int(value[len(GIVEN_PREFIX):])) \
-            if value.startswith(GIVEN_PREFIX) else (value, None)
-        old_kind, old_index = given_of(site)
-        if (new_kind, new_index) == (old_kind, old_index):
-            return
-        parked = app.session.parked
-        old_value = given_text(site)
-        if old_value:
-            parked[_park_key(site, old_kind, old_index)] = old_value
-        text = parked.get(_park_key(site, new_kind, new_index)) or self._current(
-            new_kind, new_index)
-        label = ("the reading on " + branch_name(site, new_index) if new_index is not None
-                 else new_kind.replace("_", " "))
-        app.edit(f"Given: {label}", lambda s: set_given(s, new_kind, text, new_index))
-        self.query_one("#given-value", Input).focus()
-
-    def _current(self, kind: str, index: int | None) -> str:
-        """The present answer's value of a quantity about to become the given (or '')."""
-        good = self.bw.good
-        if good is None or good.solved is None:
-            return ""
-        result = good.solved.result
-        if kind == "pressure_drop":
-            return self.bw.fmt(result.pressure_drop, "pressure")
-        if kind == "total_flow":
-            return self.bw.fmt(result.total_flow, "flow")
-        if index is not None and index < len(result.branches):
-            return self.bw.fmt(result.branches[index].flow, "flow")
-        return ""
-
-    def _switch_find(self, find: str) -> None:
-        app = self.bw
-        site = app.site
-        if find == find_of(site):
-            return
-        parked = app.session.parked
-        if find == "flows":
-            if site.solve is not None:
-                parked["solve.branch"] = text_of(site.solve.branch)
-                parked["solve.target_flow"] = text_of(site.solve.target_flow)
-
-            def change(s: object) -> None:
-                s.solve = None  # type: ignore[attr-defined]
-
-            app.edit("Find the flows", change)
-            return
-        solve = site.solve
-        branch = text_of(solve.branch if solve else None) or parked.get("solve.branch", "")
-        names = [branch_name(site, i) for i in range(len(site.branches))]
-        if branch not in names:
-            kind, index = given_of(site)
-            candidates = [n for i, n in enumerate(names) if i != index] or names
-            branch = candidates[0] if candidates else ""
-        target = text_of(solve.target_flow if solve else None) or parked.get(
-            "solve.target_flow", "") or self._current("measured_flow", names.index(branch)
-                                                      if branch in names else None)
-        app.edit(f"Find the {find}", lambda s: set_find(s, find, branch, target))
-        self.query_one("#find-target", Input).focus()
-
     # ---- keys ------------------------------------------------------------------------------------
 
     def action_focus(self, ident: str) -> None:
@@ -450,12 +338,6 @@ def _compact(number: float) -> str:
         if abs(number) >= scale:
             return f"{number / scale:.3g}{suffix}"
     return f"{number:.0f}"
-
-
-def _park_key(site: object, kind: str, index: int | None) -> str:
-    if kind == "measured_flow" and index is not None:
-        return f"measured_flow:{branch_name(site, index)}"  # type: ignore[arg-type]
-    return kind
 
 
 def _hidden(widget: Static) -> Static:
