@@ -31,7 +31,7 @@ from branchwise.core.units import display_unit, unit_label  # noqa: E402
 from .files import SiteFiles  # noqa: E402
 from .outcome import Outcome  # noqa: E402
 from .screens.split import SplitScreen  # noqa: E402
-from .session import Session  # noqa: E402
+from .session import Session, error_text, said  # noqa: E402
 from .widgets.bandview import Band  # noqa: E402
 
 KEYS_DELAY = 0.25
@@ -133,6 +133,20 @@ class BranchwiseApp(SiteFiles, App[None]):
 
     def unit_text(self, kind: str) -> str:
         return unit_label(self.unit(kind))
+
+    def say(self, item: object) -> str:
+        """A warning's or an error's text, its quantities in the units the person reads."""
+        return said(item, self.unit_system, self.settings.display_units)
+
+    def error_words(self, error: BaseException) -> str:
+        """An error with its field in words (see :func:`~.session.error_text`), in these units."""
+        return error_text(error, self.site, self.unit_system, self.settings.display_units)
+
+    def fluid_name(self, fluid: object) -> str:
+        """The liquid's name, its temperature in the temperature display unit."""
+        from branchwise.core.units import fluid_name
+
+        return fluid_name(fluid, self.unit_system, self.unit("temperature"))
 
     def fmt(self, value_si: float, kind: str, digits: int = 4, unit: bool = True) -> str:
         """``value_si`` in the display unit of ``kind`` (needs the units module warmed up)."""

@@ -15,7 +15,7 @@ from __future__ import annotations
 import copy
 import re
 import time
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -130,14 +130,29 @@ def field_label(site: Site, path: str) -> str:
     return f"{area} {name}".strip() if name != ref.area else area or path
 
 
-def error_text(error: BaseException, site: Site) -> str:
-    """An error for a person: the field in words, the reason, the value as typed."""
+def error_text(error: BaseException, site: Site, system: str = "si",
+               units: Mapping[str, str] | None = None) -> str:
+    """An error for a person: the field in words, the reason, the value as typed.
+
+    system, units: the unit system (``si`` | ``us``) and the per-quantity display units
+    (kind → unit) in which the quantities the core marked in a message are stated.
+    """
     field = getattr(error, "field", "")
     reason = getattr(error, "reason", None)
     if not field or reason is None:
-        return str(error)
+        return said(error, system, units)
     value = getattr(error, "value", "")
     return f"{field_label(site, field)}: {reason}" + (f", got {value}" if value != "" else "")
+
+
+def said(item: object, system: str = "si", units: Mapping[str, str] | None = None) -> str:
+    """A warning's or an error's text with its marked quantities in the user's units (its
+    own text when nothing in it is marked: the units module is loaded only when needed)."""
+    if not getattr(item, "marked", ""):
+        return str(getattr(item, "message", "") or item)
+    from branchwise.core.units import say
+
+    return say(item, system, units)
 
 
 # ---- reading the site ------------------------------------------------------------------------

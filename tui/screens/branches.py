@@ -20,7 +20,6 @@ from branchwise.core.sitefile import SegmentSpec, Site
 
 from ..session import (
     branch_name,
-    error_text,
     given_of,
     given_text,
     locate,
@@ -126,7 +125,7 @@ class BranchesScreen(WorkScreen):
         fill_table(table, columns, rows)
         message = self.query_one("#branch-message", Static)
         if bad is not None:
-            put(message, f"✗ {error_text(outcome.error, site)}")  # type: ignore[union-attr,arg-type]
+            put(message, f"✗ {app.error_words(outcome.error)}")  # type: ignore[union-attr,arg-type]
         else:
             kind, index = given_of(site)
             put(message, "Enter edit · e form · a add · c copy · s segment · Del remove · bare "

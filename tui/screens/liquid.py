@@ -8,6 +8,7 @@ refuses (frozen, boiling, out of its range) shows its message beside the field a
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from pathlib import Path
 
 from textual.app import ComposeResult
@@ -15,7 +16,7 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.widgets import Input, Label, Static
 
-from ..session import error_text, locate, text_of, with_unit
+from ..session import locate, text_of, with_unit
 from ..widgets.choice import Choice
 from ..widgets.field import Field
 from ..widgets.quiet import put
@@ -119,10 +120,10 @@ class LiquidScreen(WorkScreen):
             field.show(text_of(getattr(spec, name)))
             field.set_unit(app.unit_text(qkind) if qkind else "")
             wrong = ref is not None and ref.area == "fluid" and ref.name == name
-            field.set_error(_reason(error) if wrong else None)
+            field.set_error(_reason(error, app.say) if wrong else None)
         hint = self.query_one("#liquid-hint", Static)
         if ref is not None and ref.area == "fluid" and ref.name not in uses:
-            put(hint, f"✗ {error_text(error, self.bw.site)}")
+            put(hint, f"✗ {app.error_words(error)}")  # type: ignore[arg-type]
         else:
             put(hint, "A bare number takes the unit in brackets; or type any unit: 65 degF, "
                 "12 cP, 1.2 cSt.")
@@ -142,7 +143,7 @@ class LiquidScreen(WorkScreen):
             return
         nu = fluid.viscosity / fluid.density
         put(panel, "\n".join([
-            fluid.name,
+            app.fluid_name(fluid),
             "",
             f"Density ρ    {app.fmt(fluid.density, 'density', 5)}",
             f"Viscosity μ  {app.fmt(fluid.viscosity, 'viscosity', 4)}",
@@ -210,9 +211,10 @@ class LiquidScreen(WorkScreen):
         self.query_one("#liquid-kind-select").focus()
 
 
-def _reason(error: BaseException | None) -> str:
-    """The error without its field (it shows beside the field): reason and value."""
+def _reason(error: BaseException | None, say: Callable[[object], str]) -> str:
+    """The error without its field (it shows beside the field): reason and value; ``say``
+    states an error without a reason (no solution) in the person's units."""
     reason = getattr(error, "reason", None)
     if reason is None:
-        return str(error)
+        return say(error)
     return f"{reason}, got {getattr(error, 'value', '')}"

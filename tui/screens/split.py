@@ -18,7 +18,6 @@ from textual.widgets import Input, Label, Static
 from ..session import (
     FIND_CHOICES,
     branch_name,
-    error_text,
     find_of,
     given_of,
     given_text,
@@ -162,7 +161,7 @@ class SplitScreen(GivenFindEdits, PanelScreen):
         given_msg = find_msg = ""
         if outcome is not None and outcome.error is not None:
             ref = locate(outcome.field)
-            text = error_text(outcome.error, self.bw.site)
+            text = self.bw.error_words(outcome.error)
             if ref.area == "conditions" or ref.name == "measured_flow":
                 given_msg = text
             elif ref.area == "tolerances":
@@ -231,16 +230,16 @@ class SplitScreen(GivenFindEdits, PanelScreen):
         put(totals,
             f"Total {app.fmt(result.total_flow, 'flow')}   "
             f"Δp {app.fmt(result.pressure_drop, 'pressure')}   "
-            f"head loss {app.fmt(result.head_loss, 'head', 3)}\n{fluid.name}: "
+            f"head loss {app.fmt(result.head_loss, 'head', 3)}\n{app.fluid_name(fluid)}: "
             f"{app.fmt(fluid.density, 'density')}, {app.fmt(fluid.viscosity, 'viscosity', 3)}",
             layout=False)  # always two lines: no new layout needed
         text = self._solved_text(shown)
         put(solved, text, layout=False)
         if solved.display != bool(text):
             solved.display = bool(text)
-        lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{w.message}"
+        lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{app.say(w)}"
                  for w in result.warnings]
-        lines += [f"• {note}" for note in (*shown.solved.notes, *result.notes)]
+        lines += [f"• {app.say(note)}" for note in (*shown.solved.notes, *result.notes)]
         self.warning_lines = lines
         self._show_warnings(self._warning_room)
         self.call_after_refresh(self._fit_warnings)

@@ -145,11 +145,13 @@ class PanelScreen(WorkScreen):
         self._band_now = False
         app = self.bw
         self._band_running = app.session.revision
-        self._compute_band(app.session.site, app.session.revision, app.outcome.solved)
+        self._compute_band(app.session.site, app.session.revision, app.outcome.solved,
+                           app.unit_system, dict(app.settings.display_units))
         self._draw_band()
 
     @work(thread=True, exclusive=True, exit_on_error=False, group="band")
-    def _compute_band(self, site: Site, revision: int, solved: SiteResult) -> None:
+    def _compute_band(self, site: Site, revision: int, solved: SiteResult, system: str,
+                      units: dict[str, str]) -> None:
         from branchwise.core.errors import BranchwiseError
         from branchwise.core.sitesolve import with_uncertainty
 
@@ -158,7 +160,8 @@ class PanelScreen(WorkScreen):
         try:
             band = Band(revision, with_uncertainty(solved, BAND_SAMPLES, BAND_SEED))
         except BranchwiseError as exc:
-            band = Band(revision, None, error_text(exc, site), getattr(exc, "field", "") or "")
+            band = Band(revision, None, error_text(exc, site, system, units),
+                        getattr(exc, "field", "") or "")
         except Exception as exc:  # a bug, not bad input: shown, and the app carries on
             self.log.error(f"band failed: {exc!r}")
             band = Band(revision, None, f"internal error ({type(exc).__name__}: {exc}); "

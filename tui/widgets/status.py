@@ -11,7 +11,7 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.widgets import Static
 
-from ..session import branch_name, error_text, find_of, given_of, given_text, locate, text_of
+from ..session import branch_name, find_of, given_of, given_text, locate, text_of
 
 if TYPE_CHECKING:
     from ..app import BranchwiseApp
@@ -72,7 +72,7 @@ def describe(app: BranchwiseApp, on_split: bool = False) -> Text:
         line.append("… solving", style="italic dim")
     elif outcome.error is not None:
         where = AREA_KEYS[locate(outcome.field).area]
-        line.append(f"✗ {error_text(outcome.error, site)}", style="bold red")
+        line.append(f"✗ {app.error_words(outcome.error)}", style="bold red")
         line.append(f"  ({where})", style="dim")
     else:
         n = len(outcome.solved.result.branches) if outcome.solved else 0
