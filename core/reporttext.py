@@ -174,7 +174,7 @@ def to_table(sr: SiteResult, system: str = "si") -> str:
 
 # ---- CSV -----------------------------------------------------------------------------------
 
-CSV_LABELS = ("Record", "Band", "Warning", "Note", "Caution")
+CSV_LABELS = ("Result", "Record", "Band", "Warning", "Note", "Caution")
 """First cells of the rows after the data, saying what each row carries."""
 
 
@@ -183,9 +183,10 @@ def to_csv(sr: SiteResult, system: str = "si") -> str:
 
     A header row with units (``Flow (L/s)``), one row per segment (each naming its branch and
     segment, so rows can be sorted and filtered; with bands, ``Flow P5`` and ``Flow P95``
-    after the flow; the line tag last), then one row per line of the record, the total bands,
-    the warnings, the notes and the cautions: its label (:data:`CSV_LABELS`) in the first
-    cell, the text in the second, the other cells empty.
+    after the flow; the line tag last), then one row per line of the result (the liquid, the
+    given reading, Δp and total flow, a found unknown and its catalog size), of the record, the
+    total bands, the warnings, the notes and the cautions: its label (:data:`CSV_LABELS`) in the
+    first cell, the text in the second, the other cells empty.
     """
     band = sr.uncertainty is not None
     keys = [k for k in RESULT_TABLE if k not in ("tag", "band")] + ["tag"]
@@ -202,8 +203,8 @@ def to_csv(sr: SiteResult, system: str = "si") -> str:
             pair = bandtext.band_range(sr, f"branch '{b.name}' flow", system) if j == 0 else None
             row[at:at] = [format_number(v) for v in pair] if pair else ["", ""]
         rows.append(row)
-    texts = (record_lines(sr.site), bandtext.summary_lines(sr, system), _warnings(sr, system),
-             _notes(sr), CAUTIONS)
+    texts = ([*summary_lines(sr, system), *solved_lines(sr, system)], record_lines(sr.site),
+             bandtext.summary_lines(sr, system), _warnings(sr, system), _notes(sr), CAUTIONS)
     for label, lines in zip(CSV_LABELS, texts, strict=True):
         rows += [[label, " ".join(line.split())] + [""] * (len(header) - 2) for line in lines]
     buf = io.StringIO()

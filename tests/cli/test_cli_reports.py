@@ -156,3 +156,28 @@ def test_without_a_record_the_keys_are_null_and_no_lines_appear(tmp_path, capsys
     table = solve(capsys, str(site))
     assert "Readings taken" not in table and "Tag" not in table
     assert "| Tag |" not in solve(capsys, str(site), "--format", "markdown")
+
+
+@pytest.mark.parametrize("system", ["si", "us"])
+def test_csv_carries_the_answer_a_solve_was_for(tmp_path, capsys, system):
+    """The found diameter, its catalog size, the given reading and the total flow are in the
+    CSV's Result rows, in the CSV's units, matching the JSON's SI values."""
+    text = demo_text().replace("# [solve]", "[solve]").replace(
+        '# find = "diameter"', 'find = "diameter"').replace(
+        '# branch = "AHU-2 coil"', 'branch = "AHU-2 coil"').replace(
+        '# target_flow = "220 gpm"', 'target_flow = "220 gpm"')
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+    data = json.loads(solve(capsys, str(path), "--format", "json"))
+    rows = list(csv.reader(io.StringIO(solve(capsys, str(path), "--format", "csv",
+                                             "--units", system))))
+    assert len({len(r) for r in rows}) == 1
+    result = [r[1] for r in rows if r[0] == "Result"]
+    bore = UNITS[system][2]
+    found = data["solved"]["value_si"] / bore
+    unit = "mm" if system == "si" else "in"
+    assert any(f"{format_number(found)} {unit}" in line for line in result), result
+    assert any(data["solved"]["catalog_size"] in line for line in result)
+    total = data["total_flow_m3_s"] / UNITS[system][0]
+    assert any(f"total flow {format_number(total)}" in line for line in result)
+    assert rows.index(next(r for r in rows if r[0] == "Result")) > 4  # after the data rows
