@@ -39,13 +39,15 @@ ROOT_TOL = 1e-12
 def tiled_layout(
     base: Layout, copies: int, keep: BoolArray | None = None, *, diameter: Array | None = None,
     length: Array | None = None, roughness: Array | None = None, minor_k: Array | None = None,
-    nu: Array | None = None,
+    nu: Array | None = None, valve_scale: Array | None = None,
 ) -> Layout:
     """``copies`` copies of the branches of ``base`` selected by ``keep``, one group per copy.
 
     Segment arrays are per copy, shape (copies, segments of ``base``): m for diameter, length
     and roughness, – for minor_k; None repeats the base values. ``nu``: kinematic viscosity per
-    copy, m²/s. Copy c holds branches c·n_kept … c·n_kept + n_kept − 1 in the order of ``base``.
+    copy, m²/s. ``valve_scale``: per copy and branch of ``base``, a factor on each valve's Kv
+    (its resistance goes as 1/Kv²). Copy c holds branches c·n_kept … c·n_kept + n_kept − 1 in the
+    order of ``base``.
     """
     n_seg = len(base.diameter)
     keep = np.ones(base.n_branches, dtype=bool) if keep is None else keep
@@ -59,11 +61,14 @@ def tiled_layout(
         return np.broadcast_to(full, (copies, n_seg))[:, seg_keep].ravel()
 
     branch_nu = base.nu[keep][None, :] if nu is None else np.asarray(nu)[:, None]
+    valve_r = np.tile(base.valve_r[keep], copies) if valve_scale is None else (
+        base.valve_r[keep][None, :] / np.broadcast_to(valve_scale, (copies, base.n_branches))[
+            :, keep] ** 2).ravel()
     return Layout(
         seg_branch=(offsets + local[None, :]).ravel(),
         diameter=per_copy(diameter, base.diameter), length=per_copy(length, base.length),
         roughness=per_copy(roughness, base.roughness), minor_k=per_copy(minor_k, base.minor_k),
-        hw_c=per_copy(None, base.hw_c), valve_r=np.tile(base.valve_r[keep], copies),
+        hw_c=per_copy(None, base.hw_c), valve_r=valve_r,
         branch_group=np.repeat(np.arange(copies, dtype=np.intp), n_kept),
         nu=np.broadcast_to(branch_nu, (copies, n_kept)).ravel().copy(),
         gravity=base.gravity, model=base.model,
@@ -75,7 +80,8 @@ class Variants:
     """Per-copy inputs of one network (SI). Segment arrays have shape (copies, segments) in the
     order of ``Layout.from_network``: diameter, length, roughness m; minor_k –. Per copy:
     nu m²/s, density kg/m³, reading (the given's value: Pa or m³/s), target (the sought
-    unknown's target flow, m³/s; unused when the flows are sought)."""
+    unknown's target flow, m³/s; unused when the flows are sought). valve_scale: shape (copies,
+    branches), a factor on each branch's valve Kv (None: the entered Kv)."""
 
     diameter: Array
     length: Array
@@ -85,6 +91,7 @@ class Variants:
     density: Array
     reading: Array
     target: Array
+    valve_scale: Array | None = None
 
     @property
     def copies(self) -> int:
@@ -102,7 +109,10 @@ class Variants:
                     sg, diameter=float(self.diameter[copy, k]), length=float(self.length[copy, k]),
                     roughness=float(self.roughness[copy, k]), minor_k=float(self.minor_k[copy, k])))
                 k += 1
-            branches.append(replace(br, segments=tuple(segs)))
+            kv = br.valve_kv
+            if kv is not None and self.valve_scale is not None:
+                kv = kv * float(self.valve_scale[copy, len(branches)])
+            branches.append(replace(br, segments=tuple(segs), valve_kv=kv))
         rho = float(self.density[copy])
         fluid = replace(network.fluid, density=rho, viscosity=float(self.nu[copy]) * rho)
         if isinstance(find, FindUnknown):
@@ -113,7 +123,8 @@ class Variants:
     def layout(self, base: Layout, keep: BoolArray | None = None, **change: Array) -> Layout:
         arrays = {"diameter": self.diameter, "length": self.length,
                   "roughness": self.roughness, "minor_k": self.minor_k} | change
-        return tiled_layout(base, self.copies, keep, nu=self.nu, **arrays)
+        return tiled_layout(base, self.copies, keep, nu=self.nu, valve_scale=self.valve_scale,
+                            **arrays)
 
 
 @dataclass(frozen=True)

@@ -24,7 +24,7 @@ File layout (format 1; the keys are a contract)::
     [tolerances]   optional: gauge_accuracy, gauge_full_scale, flow_meter_accuracy,
                    target_flow_measured, roughness_factor = [low, high],
                    roughness_range = { "<branch>" = [low, high] }, diameter, length,
-                   temperature, fitting_k (missing keys take the common-practice defaults)
+                   temperature, fitting_k, valve_kv (missing keys: common-practice defaults)
 
 A branch is either one pipe (its diameter, length... at the top of the branch) or a list of
 series ``segments`` (each with its own pipe keys); mixing the two is refused as ambiguous.
@@ -62,7 +62,7 @@ CONDITION_KEYS = ("pressure_drop", "total_flow", "elevation_change", "friction",
 SOLVE_KEYS = ("find", "branch", "target_flow", "segment")
 TOLERANCE_KEYS = ("gauge_accuracy", "gauge_full_scale", "flow_meter_accuracy",
                   "target_flow_measured", "roughness_factor", "roughness_range", "diameter",
-                  "length", "temperature", "fitting_k")
+                  "length", "temperature", "fitting_k", "valve_kv")
 RECORD_KEYS = ("technician", "date", "pressure_instrument", "flow_instrument")
 TOP_KEYS = ("format", "kind", "name", "notes", "record", "fluid", "conditions", "branches",
             "solve", "tolerances")
@@ -170,6 +170,7 @@ class TolerancesSpec:
     length: Value = None
     temperature: Value = None
     fitting_k: Value = None
+    valve_kv: Value = None
 
 
 @dataclass

@@ -15,6 +15,7 @@ dimension, so the file says what it means::
     length = "5 %"
     temperature = "2 K"             # a temperature difference: K, delta_degC, degC or degF steps
     fitting_k = "25 %"
+    valve_kv = "10 %"               # of every valve's Kv or Cv (several in series: each)
 
 A bad value is an InputError on ``tolerances.<key>``. The temperature tolerance acts through the
 site's own fluid model, rebuilt at T ± δ (:func:`site_thermal`).
@@ -42,6 +43,7 @@ PERCENT_KEYS = {
     "diameter": "diameter_percent",
     "length": "length_percent",
     "fitting_k": "fitting_k_percent",
+    "valve_kv": "valve_kv_percent",
 }
 """Site key → :class:`Tolerances` field, for the keys given as percentages."""
 

@@ -34,6 +34,9 @@ class Tolerances:
     temperature_k: ± K of the fluid temperature (common practice: 2), acting on ν and ρ through
     a :class:`Thermal` model (ignored without one; the result notes it).
     fitting_k_percent: ± % of every fitting K (common practice: 25, the scatter of tabulated K).
+    valve_kv_percent: ± % of every valve's Kv or Cv (common practice: 10 — makers' published
+    flow coefficients carry about that much, from memory; a balancing valve read off its
+    setting chart can be worse).
     """
 
     gauge_percent: float = 1.0
@@ -46,6 +49,7 @@ class Tolerances:
     length_percent: float = 5.0
     temperature_k: float = 2.0
     fitting_k_percent: float = 25.0
+    valve_kv_percent: float = 10.0
 
     def validate(self) -> None:
         """InputError (field ``uncertainty.<name>``) for a value that cannot be a tolerance."""
@@ -54,6 +58,7 @@ class Tolerances:
         for name in ("flow_meter_percent", "diameter_percent", "length_percent"):
             _limit(name, getattr(self, name), 100.0, closed=False)
         _limit("fitting_k_percent", self.fitting_k_percent, 100.0)
+        _limit("valve_kv_percent", self.valve_kv_percent, 100.0, closed=False)
         if self.gauge_full_scale is not None:
             positive("uncertainty.gauge_full_scale", self.gauge_full_scale)
         _range("uncertainty.roughness_factor", self.roughness_factor)

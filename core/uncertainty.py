@@ -48,8 +48,9 @@ about 1e-13 relative, so the differences carry about 1e-9 relative round-off."""
 @dataclass(frozen=True)
 class InputTolerance:
     """One drawn input. half_width: Pa (gauge), relative (meter, target, diameter, length,
-    fitting K), K (temperature) or ln ε (roughness, drawn log-uniform about ``centre``, the ln of
-    a factor, or of ε in m when ``explicit``). segments: the layout's segment indices it moves."""
+    fitting K, valve Kv), K (temperature) or ln ε (roughness, drawn log-uniform about ``centre``,
+    the ln of a factor, or of ε in m when ``explicit``). segments: the layout's segment indices
+    it moves (for a valve Kv: the branch's index)."""
 
     name: str
     kind: str
@@ -101,6 +102,7 @@ class SamplingPlan:
                ("diameter", "length", "roughness", "minor_k")}
         nu, rho = np.full(n, net.fluid.kinematic_viscosity), np.full(n, net.fluid.density)
         reading = np.full(n, float(self.given.value))
+        valve = np.ones((n, len(net.branches)))
         target = np.full(n, getattr(self.find, "target_flow", np.nan), dtype=float)
         for col, inp in enumerate(self.inputs):
             zc = z[:, col]
@@ -114,13 +116,16 @@ class SamplingPlan:
             elif inp.kind == "temperature" and self.thermal is not None:
                 nu = nu * np.exp(self.thermal.dln_nu_dt * inp.half_width * zc)
                 rho = rho * np.exp(self.thermal.dln_rho_dt * inp.half_width * zc)
+            elif inp.kind == "valve Kv":
+                valve[:, s] *= (1 + inp.half_width * zc)[:, None]
             elif inp.kind == "roughness":
                 scale = np.exp(inp.centre + inp.half_width * zc)[:, None]
                 seg["roughness"][:, s] = scale if inp.explicit else base.roughness[s] * scale
             else:
                 key = "minor_k" if inp.kind == "fitting K" else inp.kind
                 seg[key][:, s] *= (1 + inp.half_width * zc)[:, None]
-        return Variants(nu=nu, density=rho, reading=reading, target=target, **seg)
+        return Variants(nu=nu, density=rho, reading=reading, target=target, valve_scale=valve,
+                        **seg)
 
     def evaluate(self, z: Array) -> tuple[dict[str, Array], bool]:
         """Every output for every row of ``z`` (NaN where no answer), and whether all converged."""
@@ -210,6 +215,9 @@ def build_plan(
             moved = free(kind)
             if percent > 0 and moved and values[list(moved)].max() > 0:
                 inputs.append(InputTolerance(f"{label} {kind}", kind, percent / 100, moved))
+        if br.valve_kv is not None and tol.valve_kv_percent > 0:
+            inputs.append(InputTolerance(f"{label} valve Kv", "valve Kv",
+                                         tol.valve_kv_percent / 100, (b,)))
     kept = tuple(i for i in inputs if i.half_width > 0)
     return SamplingPlan(network, given, find, kept, thermal, tuple(notes))
 
