@@ -186,38 +186,42 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
     if br.valve_kv is not None and br.valve_cv is not None:
         raise InputError(f"{path}.valve_cv", describe(br.valve_cv),
                          "give valve_kv or valve_cv, not both")
-    kv = _series_kv(br.valve_kv, f"{path}.valve_kv")
-    cv = _series_kv(br.valve_cv, f"{path}.valve_cv")
-    if cv is not None:
-        kv = kv_from_cv(cv)
+    value, unit = (br.valve_cv, "cv") if br.valve_cv is not None else (br.valve_kv, "kv")
+    kv = _series_kv(value, f"{path}.valve_{unit}", unit)
     return Branch(name, tuple(segs), kv), sizes, ks, paths
 
 
 _SERIES = re.compile(r"(?<=[\d.\s])\+")
 """A plus sign between two numbers (not the one of an exponent, 1e+3)."""
+_COEFFICIENT = re.compile(r"\s*(kv|cv)\s*[:=]?\s*(.*)\Z", re.IGNORECASE | re.DOTALL)
 
 
-def _series_kv(value: Value, path: str) -> float | None:
-    """One flow coefficient for the valves, strainers and coils a branch has in series, given
-    as ``"160 + 40"`` (or a single number): each passes the same flow and their pressure drops
-    add, Δp ∝ (Q/Kv)², so 1/Kv² = Σ 1/Kv_i² (the same holds for Cv)."""
-    parts = _SERIES.split(value.strip()) if isinstance(value, str) else []
-    if len(parts) > 1:
-        if any(not p.strip() for p in parts):
-            raise InputError(path, describe(value), "several valves in series read like 160 + 40")
-        numbers = [plain_number(p, path) for p in parts]
-    else:
-        if isinstance(value, str) and "," in value:
-            raise InputError(path, describe(value), "use a decimal point; several valves in "
-                             "series read like 160 + 40")
-        numbers = [plain_number(value, path)]
-    if numbers == [None]:
+def _series_kv(value: Value, path: str, unit: str) -> float | None:
+    """One Kv (m³/h at 1 bar) for the valves, strainers and coils a branch has in series, given
+    as ``"160 + 40"``, ``"Cv 45 + Cv 95"`` or ``"Kv 160 + Cv 48"`` (``unit``, kv or cv, where a
+    term names none), or one number: each passes the same flow and their pressure drops add,
+    Δp ∝ (Q/Kv)², so 1/Kv² = Σ 1/Kv_i²."""
+    if value is None:
         return None
-    for number in numbers:
+    terms = _SERIES.split(value.strip()) if isinstance(value, str) else [value]
+    if isinstance(value, str) and len(terms) == 1 and "," in value:
+        raise InputError(path, describe(value), "use a decimal point; several valves in "
+                         "series read like 160 + 40")
+    kvs = []
+    for term in terms:
+        kind = unit
+        if isinstance(term, str):
+            if not term.strip():
+                raise InputError(path, describe(value),
+                                 "several valves in series read like 160 + 40")
+            if m := _COEFFICIENT.match(term):
+                kind, term = m.group(1).lower(), m.group(2)
+        number = plain_number(term, path)
         _at_least(number, path, value, 0.0, strict=True)
-    if len(numbers) == 1:
-        return numbers[0]
-    return 1 / math.hypot(*(1 / n for n in numbers))  # type: ignore[operator]
+        kvs.append(kv_from_cv(number) if kind == "cv" else number)  # type: ignore[arg-type]
+    if len(kvs) == 1:
+        return kvs[0]
+    return 1 / math.hypot(*(1 / kv for kv in kvs))
 
 
 # ---- conditions and what to find -----------------------------------------------------------

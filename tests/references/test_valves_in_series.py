@@ -51,3 +51,14 @@ def test_bad_series_text_names_the_field(value: str, reason: str) -> None:
 
 def test_an_exponent_is_not_a_series() -> None:
     assert build(parse_site(_site('valve_kv = "1.6e+2"'))).network.branches[0].valve_kv == 160
+
+
+@pytest.mark.parametrize(("line", "reference_k"), [
+    ('valve_cv = "Cv 45 + Cv 95"', fluids.Cv_to_K(45, BORE) + fluids.Cv_to_K(95, BORE)),
+    ('valve_kv = "Kv 160 + Cv 48"', fluids.Kv_to_K(160, BORE) + fluids.Cv_to_K(48, BORE)),
+    ('valve_kv = "160 + cv: 48"', fluids.Kv_to_K(160, BORE) + fluids.Cv_to_K(48, BORE)),
+])
+def test_each_term_may_name_its_coefficient(line: str, reference_k: float) -> None:
+    kv = build(parse_site(_site(line))).network.branches[0].valve_kv
+    # fluids' Cv_to_K takes Cv = 1.156 Kv; ours the exact ratio (IEC 60534): within 0.1 %.
+    assert k_from_kv(kv, BORE) == pytest.approx(reference_k, rel=1e-3)
