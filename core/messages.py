@@ -35,7 +35,7 @@ def render(text: str, show: Callable[[float, str], str] | None = None) -> str:
 
 
 def si_text(value_si: float, kind: str) -> str:
-    """The SI words for a quantity: L/s, m, kPa, mm (m from 1 m on), m/s; km beyond 10 km."""
+    """The SI words for a quantity: L/s, m, kPa, mm (m from 1 m on), m/s; km beyond 10 km; Kv."""
     if kind == "flow":
         return f"{value_si * 1000:.4g} L/s"
     if kind == "pressure":
@@ -48,6 +48,8 @@ def si_text(value_si: float, kind: str) -> str:
         return f"{value_si:.3g} m/s"
     if kind in ("length", "head"):
         return f"{value_si:.4g} m"
+    if kind == "valve":
+        return f"Kv {value_si:.3g}"
     return f"{value_si:.4g}"
 
 
@@ -73,3 +75,8 @@ def length_text(length_m: float) -> str:
 
 def velocity_text(v_m_s: float) -> str:
     return marked("velocity", v_m_s)
+
+
+def kv_text(kv_m3_h: float) -> str:
+    """A valve's flow coefficient, Kv in m³/h at 1 bar (restated as Cv in US units)."""
+    return marked("valve", kv_m3_h)

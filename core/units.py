@@ -310,6 +310,10 @@ def restate(text: str, system: str = "si", units: Mapping[str, str] | None = Non
 
     def show(value_si: float, kind: str) -> str:
         unit = chosen.get(kind)
+        if kind == "valve" and system == "us":
+            from .model import CV_PER_KV
+
+            return f"Cv {value_si * CV_PER_KV:.3g}"
         if kind not in KINDS or (system == "si" and unit is None):
             return si_text(value_si, kind)
         return format_quantity(value_si, kind, system, unit)

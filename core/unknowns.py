@@ -21,7 +21,7 @@ import numpy as np
 from . import friction
 from .errors import InputError, NoSolutionError
 from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, segment_state
-from .messages import diameter_text, flow_text, head_text, length_text, pressure_text
+from .messages import diameter_text, flow_text, head_text, kv_text, length_text, pressure_text
 from .model import MAX_LENGTH, Branch, FindUnknown, Given, Network, PressureDrop
 from .results import Solved
 
@@ -57,6 +57,22 @@ def _branch_layout(net: Network, br: Branch) -> Layout:
     return Layout.from_network(replace(net, branches=(br,)))
 
 
+def _valve_hint(net: Network, br: Branch, q: float, head: float) -> str:
+    """When a branch's valve takes more of the head than the rest of the branch leaves it, the
+    Kv it would need (Δp ∝ (Q/Kv)²: Kv_needed = Kv·√(h_valve / (H − h_rest))); else ''."""
+    if br.valve_kv is None:
+        return ""
+    lay = _branch_layout(net, br)
+    flow = np.array([q])
+    h_valve = float(lay.valve_r[0]) * q * abs(q)
+    h_rest = float(branch_head(lay, flow)[0]) - h_valve
+    if h_valve <= 0 or h_rest >= head:  # the rest alone loses too much: no Kv helps
+        return ""
+    needed = br.valve_kv * math.sqrt(h_valve / (head - h_rest))
+    return (f"; its valve ({kv_text(br.valve_kv)}) alone loses {head_text(h_valve)} at that "
+            f"flow: it would need {kv_text(needed)} or more")
+
+
 def _where(given: Given, head: float) -> str:
     if isinstance(given, PressureDrop):
         return f"at {pressure_text(given.value)}"
@@ -77,8 +93,9 @@ def _length(net: Network, br: Branch, want: FindUnknown, head: float, given: Giv
         q0 = float(flows_at_head(lay, head)[0][0])
         raise NoSolutionError(
             f"branch '{br.name}' cannot pass {flow_text(want.target_flow)} {_where(given, head)} "
-            f"with any length: at zero length its fittings alone allow {flow_text(q0)}",
-            "solve.target_flow")
+            f"with any length: at zero length its fittings"
+            f"{' and valve' if br.valve_kv is not None else ''} alone allow {flow_text(q0)}"
+            f"{_valve_hint(net, zero, want.target_flow, head)}", "solve.target_flow")
     if length > MAX_LENGTH:
         raise NoSolutionError(
             f"branch '{br.name}' would need {length_text(length)} of pipe to hold "
@@ -112,7 +129,9 @@ def _roughness(net: Network, br: Branch, want: FindUnknown, head: float, given: 
         raise NoSolutionError(
             f"branch '{br.name}' cannot carry {flow_text(want.target_flow)} {_where(given, head)} "
             "whatever the roughness: its fittings and other segments alone lose more than the "
-            "available head at that flow", "solve.target_flow")
+            "available head at that flow"
+            f"{_valve_hint(net, _with(br, s, 'length', 0.0), want.target_flow, head)}",
+            "solve.target_flow")
     smooth = float(friction.darcy(np.array([re]), np.array([0.0]), net.friction)[0][0])
     if not f_needed > smooth:
         raise NoSolutionError(
@@ -157,7 +176,8 @@ def _diameter(net: Network, br: Branch, want: FindUnknown, head: float, given: G
         raise NoSolutionError(
             f"branch '{br.name}' cannot pass {flow_text(want.target_flow)} {_where(given, head)} "
             f"with any diameter up to {diameter_text(DIAMETER_MAX)}: at that size it carries "
-            f"{flow_text(q_max)} (the rest of the branch loses too much)", "solve.target_flow")
+            f"{flow_text(q_max)} (the rest of the branch loses too much)"
+            f"{_valve_hint(net, widest, want.target_flow, head)}", "solve.target_flow")
     if log_excess(math.log(lo)) < 0:
         raise NoSolutionError(
             f"branch '{br.name}' carries {flow_text(want.target_flow)} even at "

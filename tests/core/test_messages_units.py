@@ -66,3 +66,11 @@ def test_per_quantity_units_override_the_system():
 def test_plain_text_passes_through_and_unknown_kinds_keep_si():
     assert units.restate("nothing marked", "us") == "nothing marked"
     assert render(marked("reynolds", 1234.5)) == "1234"  # not a unit kind: the number only
+
+
+def test_a_valve_coefficient_reads_as_cv_in_us_units():
+    from branchwise.core.messages import kv_text
+
+    # IEC 60534-1: Cv = 1.156 Kv (US gpm at 1 psi against m³/h at 1 bar).
+    assert units.restate(f"needs {kv_text(35.2)}", "us") == "needs Cv 40.7"
+    assert units.restate(f"needs {kv_text(35.2)}", "si") == "needs Kv 35.2"

@@ -160,3 +160,24 @@ def test_reverse_flow_says_why():
     lifted = Network(WATER, two().branches, elevation_change=10.0)
     res = solve(lifted, PressureDrop(5e4))
     assert all("less than the static lift" in w.message for w in res.warnings)
+
+
+@pytest.mark.parametrize("quantity", ["diameter", "length"])
+def test_a_valve_that_limits_the_flow_is_named_with_the_kv_it_would_need(quantity):
+    import re
+    from dataclasses import replace
+
+    def net(kv):
+        return Network(WATER, (branch("A", 0.0627, 40, 4.5e-5, 3, valve_kv=kv),
+                               branch("B", 0.05, 30, 4.5e-5, 8)))
+
+    want = FindUnknown(quantity, "A", 0.012)  # 12 L/s through a Kv 30 valve at 45 kPa: no
+    with pytest.raises(NoSolutionError) as caught:
+        solve(net(30.0), PressureDrop(45e3), want)
+    needed = float(re.search(r"would need Kv ([\d.]+) or more", str(caught.value)).group(1))
+    assert needed > 30
+    # The hint is right if a valve just above it makes the target reachable and one just below
+    # does not (for the diameter: at the 10 m limit; for the length: at zero length).
+    solve(net(needed * 1.01), PressureDrop(45e3), want)
+    with pytest.raises(NoSolutionError):
+        solve(net(needed * 0.99), PressureDrop(45e3), replace(want))
