@@ -11,13 +11,13 @@ Heavy modules (numpy, scipy, pint) load in a worker after the first screen is dr
 from __future__ import annotations
 
 import time
-from collections.abc import Callable, Iterable
+from collections.abc import Callable
 from pathlib import Path
 
 _STARTED = time.perf_counter()
 
 from textual import work  # noqa: E402  (the clock above starts before Textual loads)
-from textual.app import App, SystemCommand  # noqa: E402
+from textual.app import App  # noqa: E402
 from textual.binding import Binding  # noqa: E402
 from textual.message import Message  # noqa: E402
 from textual.reactive import reactive  # noqa: E402
@@ -30,13 +30,13 @@ from branchwise.core.units import display_unit, unit_label  # noqa: E402
 
 from .files import SiteFiles  # noqa: E402
 from .outcome import Outcome  # noqa: E402
+from .screens.keyindex import SCREEN_TITLES, KeyIndex  # noqa: E402
 from .screens.split import SplitScreen  # noqa: E402
 from .session import Session, error_text, said  # noqa: E402
 from .widgets.bandview import Band  # noqa: E402
 
 KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
-SCREEN_TITLES = {"liquid": "Liquid", "branches": "Branches", "split": "Split"}
 
 
 def _liquid_screen() -> Screen:
@@ -59,7 +59,7 @@ class Solved(Message):
         self.outcome = outcome
 
 
-class BranchwiseApp(SiteFiles, App[None]):
+class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
     """Parallel-branch pipe hydraulics for a walkdown, on the keyboard.
 
     site_path: the site file to open; None opens the last site, or the bundled demo the first
@@ -84,8 +84,9 @@ class BranchwiseApp(SiteFiles, App[None]):
                 tooltip="Save the site to its file (asks for a name the first time)"),
         Binding("ctrl+r", "save_as", "Save as", id="save-as", priority=True, show=False,
                 tooltip="Save the site under another name"),
-        Binding("f8", "rename", "Name", id="rename", show=False, key_display="F8",
-                tooltip="Give the site its name (title, site list, walkdown record)"),
+        Binding("f8", "rename", "Site, readings", id="rename", show=False, key_display="F8",
+                tooltip="The site's name; who took the readings, when, with which instruments "
+                        "(the walkdown record)"),
         Binding("ctrl+o", "open_sites", "Sites", id="open", priority=True, show=False,
                 tooltip="Open a saved or recent site, the demo, or a new one"),
         Binding("ctrl+t", "toggle_units", "SI/US", id="units", priority=True, show=False,
@@ -328,73 +329,15 @@ class BranchwiseApp(SiteFiles, App[None]):
             self.push_screen(HelpScreen(self.key_sections()))
 
     def action_rename(self) -> None:
-        from .screens.dialogs import RenameScreen
+        from .screens.record import edit_site_details
 
-        def named(name: str | None) -> None:
-            if name and name != self.site.name:
-                def change(site: Site) -> None:
-                    site.name = name
-
-                self.edit("Site name", change)
-
-        self.push_screen(RenameScreen(self.site.name or self.site.title), named)
+        edit_site_details(self)
 
     def action_cautions(self) -> None:
         from .screens.cautions import CautionsScreen
 
         if not isinstance(self.screen, CautionsScreen):
             self.push_screen(CautionsScreen())
-
-    def key_sections(self) -> list[tuple[str, list[Binding]]]:
-        """The bindings of the present screen and of the whole app, for help and the palette."""
-        sections: list[tuple[str, list[Binding]]] = []
-        screen = self._base_screen()
-        if screen is not None:
-            own = [b for b in _bindings(type(screen).BINDINGS)]
-            for widget_type in getattr(screen, "HELP_WIDGETS", ()):
-                own += _bindings(widget_type.BINDINGS)
-            sections.append((f"{SCREEN_TITLES.get(self.current_mode, '')} screen", own))
-        sections.append(("Everywhere", _bindings(self.BINDINGS)))
-        return sections
-
-    def _base_screen(self) -> Screen | None:
-        stack = self.screen_stack
-        return stack[0] if stack else None
-
-    def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
-        """Every action of the present screen and of the app, plus Textual's own."""
-        base = self._base_screen()
-        for title, bindings in self.key_sections():
-            target = base if not title.startswith("Everywhere") else self
-            for binding in bindings:
-                if not binding.description:
-                    continue
-                name = binding.action.split("(")[0]
-                state = self.available(name, ()) if target is self else \
-                    target.check_action(name, ()) if target is not None else True
-                if state is False:
-                    continue
-                key = self.get_key_display(binding)
-                yield SystemCommand(f"{binding.description} ({key})",
-                                    binding.tooltip or binding.description,
-                                    _runner(self, binding.action, target))
-        for command in super().get_system_commands(screen):
-            if command.title not in ("Quit", "Keys"):
-                yield command
-
-    def action_command_palette(self) -> None:
-        """Textual's palette, closing once; not a second one while the last one is still
-        being taken down (a burst of Ctrl+P, Esc, Ctrl+P)."""
-        from textual.command import CommandPalette
-
-        from .screens.palette import Palette
-
-        last = getattr(self, "_palette", None)
-        if not self.use_command_palette or CommandPalette.is_open(self) or (
-                last is not None and last.is_attached):
-            return
-        self._palette = Palette(id="--command-palette")
-        self.push_screen(self._palette)
 
     def save_settings(self) -> None:
         from branchwise.core.errors import InputError
@@ -403,17 +346,6 @@ class BranchwiseApp(SiteFiles, App[None]):
             self.settings.save()
         except (InputError, OSError) as exc:
             self.notify(f"Settings not saved: {exc}", severity="warning")
-
-
-def _bindings(items: Iterable[object]) -> list[Binding]:
-    return [b for b in items if isinstance(b, Binding) and not b.system]
-
-
-def _runner(app: App, action: str, target: object) -> Callable[[], object]:
-    async def run() -> None:
-        await app.run_action(action, target)  # type: ignore[arg-type]
-
-    return run
 
 
 def main(site_path: Path | str | None = None) -> None:

@@ -40,6 +40,7 @@ STARTS: dict[str, tuple[str, ...]] = {
     "cautions": ("f7",),
     "branch-form": ("f3", "e"),
     "new-branch": ("f3", "a"),
+    "site-details": ("f8",),
     # Reached in the large run only (the CI run keeps to the ones above).
     "palette": ("ctrl+p",),
     "record": ("f4", "r"),
@@ -47,7 +48,7 @@ STARTS: dict[str, tuple[str, ...]] = {
     "tolerances": ("f4", "l"),
 }
 CI_TOURS = (("liquid", "help"), ("branches", "sites"), ("split", "units"),
-            ("save-as", "branch-form"), ("cautions", "new-branch"))
+            ("save-as", "branch-form"), ("cautions", "new-branch", "site-details"))
 """The CI run: every start above 'palette', two to an app start."""
 
 APP_KEYS = ("f1", "question_mark", "f2", "f3", "f4", "f6", "f7", "exclamation_mark",

@@ -16,7 +16,7 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.widgets import DataTable, Input, Label, Static
 
-from branchwise.core.sitefile import SegmentSpec, Site
+from branchwise.core.sitefile import Site
 
 from ..session import (
     branch_name,
@@ -34,14 +34,17 @@ from ..widgets.branchcells import (
     COLUMNS,
     FIELD_COLUMNS,
     UNIT_KINDS,
+    WIDE_COLUMNS,
     cell_text,
     edit_text,
+    same_pipe,
     setter,
 )
 from ..widgets.quiet import fill_table, put
 from .base import WorkScreen
 
-COLUMN_KEYS = [key for key, _ in COLUMNS]
+WIDE = 100
+"""From this many terminal columns on, the table also shows the :data:`WIDE_COLUMNS` (the tag)."""
 
 
 class BranchesScreen(WorkScreen):
@@ -51,6 +54,8 @@ class BranchesScreen(WorkScreen):
     CSS_PATH = Path(__file__).parent.parent / "branches.tcss"
     # Until the first draw (keys typed ahead can ask check_action before on_mount runs):
     _rows: list[tuple[int, int]] = []
+    _keys: list[str] = [key for key, _ in COLUMNS if key not in WIDE_COLUMNS]
+    """The keys of the columns shown, in order."""
     _editing: tuple[int, int, str] | None = None
 
     BINDINGS = [
@@ -95,8 +100,12 @@ class BranchesScreen(WorkScreen):
     def redraw(self) -> None:
         app, site = self.bw, self.bw.site
         table = self.query_one("#branch-table", DataTable)
+        wide = self.app.size.width >= WIDE
+        self._keys = [key for key, _ in COLUMNS if wide or key not in WIDE_COLUMNS]
         columns = []
         for key, label in COLUMNS:
+            if key not in self._keys:
+                continue
             unit = f" {app.unit_text(UNIT_KINDS[key])}" if key in UNIT_KINDS else ""
             columns.append((key, f"{label}{unit}"))
         outcome = app.outcome
@@ -109,7 +118,7 @@ class BranchesScreen(WorkScreen):
         for i, br in enumerate(site.branches):
             for j, seg in enumerate(br.segments):
                 cells: list[object] = []
-                for key in COLUMN_KEYS:
+                for key in self._keys:
                     if j > 0 and key in BRANCH_COLUMNS:
                         text = f"  └ {j + 1}" if key == "name" else ""
                     elif key == "flow":
@@ -133,6 +142,11 @@ class BranchesScreen(WorkScreen):
                 f"The reading on {branch_name(site, index)} ({given_text(site)}) is the given "
                 "condition.")
 
+    def on_resize(self) -> None:
+        # The tag column comes and goes as the terminal crosses WIDE columns.
+        if (self.app.size.width >= WIDE) != (len(self._keys) == len(COLUMNS)):
+            self.redraw()
+
     def _flows(self) -> dict[int, str]:
         app = self.bw
         shown = app.outcome if app.outcome is not None and app.outcome.ok else app.good
@@ -153,7 +167,7 @@ class BranchesScreen(WorkScreen):
             return None
         row = min(table.cursor_row, len(self._rows) - 1)
         i, j = self._rows[row]
-        return i, j, COLUMN_KEYS[table.cursor_column]
+        return i, j, self._keys[min(table.cursor_column, len(self._keys) - 1)]
 
     def _go(self, branch: int, segment: int = 0) -> None:
         """Put the cursor on a branch's row after the next redraw."""
@@ -273,10 +287,7 @@ class BranchesScreen(WorkScreen):
         like = site.branches[spot[0]] if spot else None
         draft = new_branch(site)
         if like is not None:  # start from the highlighted branch's pipe, not its length
-            first = like.segments[0]
-            draft.segments = [SegmentSpec(size=first.size, diameter=first.diameter,
-                                          material=first.material, condition=first.condition,
-                                          roughness=first.roughness)]
+            draft.segments = [same_pipe(like.segments[0])]
         at = (spot[0] + 1) if spot else len(site.branches)
 
         def added(branch: object) -> None:
@@ -360,9 +371,7 @@ class BranchesScreen(WorkScreen):
             return
         i, j, _ = spot
         site = self.bw.site
-        seg = site.branches[i].segments[j]
-        fresh = SegmentSpec(size=seg.size, diameter=seg.diameter, material=seg.material,
-                            condition=seg.condition, roughness=seg.roughness)
+        fresh = same_pipe(site.branches[i].segments[j])
         self.bw.edit(f"Add a segment to {branch_name(site, i)}",
                      lambda s: s.branches[i].segments.insert(j + 1, fresh))
         self._go(i, j + 1)

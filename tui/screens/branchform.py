@@ -21,11 +21,14 @@ from branchwise.core.sitefile import BranchSpec, SegmentSpec
 
 from ..session import text_of, with_unit
 from ..widgets.branchcells import (
+    same_pipe,
     set_k,
     set_size,
+    set_tag,
     set_valve,
     set_wall,
     size_text,
+    valve_problem,
     valve_text,
     wall_text,
 )
@@ -107,8 +110,10 @@ class BranchForm(Dialog[BranchSpec | None]):
                          "segment", classes="form-keys", markup=False)
             with VerticalScroll(id="form-fields"):
                 yield Field("Name", "name", value=text_of(br.name), id="f-name")
+                yield Field("Tag", "tag", value=text_of(br.tag), id="f-tag",
+                            placeholder="the plant's line or valve tag, e.g. CHW-R-104")
                 yield Field("Valve (Kv or Cv)", "valve", value=valve_text(br),
-                            placeholder="e.g. Kv 160 or Cv 110", id="f-valve")
+                            placeholder="e.g. Kv 160, Cv 110; in series: Kv 160 + 40", id="f-valve")
                 yield Field("Note", "note", value=text_of(br.note), id="f-note")
                 for j, seg in enumerate(br.segments):
                     yield Label(f"Segment {j + 1}", classes="segment-title")
@@ -139,6 +144,7 @@ class BranchForm(Dialog[BranchSpec | None]):
         br = copy.deepcopy(self.branch)
         values = {f.path: f.text for f in self.query(Field)}
         br.name = values["name"].strip()
+        set_tag(br, values["tag"])
         set_valve(br, values["valve"])
         br.note = values["note"].strip() or None
         for j, seg in enumerate(br.segments):
@@ -176,9 +182,12 @@ class BranchForm(Dialog[BranchSpec | None]):
                 else:
                     from branchwise.core.catalogs import parse_size
 
-                    parse_size(text, key)
+                    if parse_size(text, key) is None:  # no catalog size: read it as a bore
+                        parse_quantity(text, "diameter", key, self.unit("diameter"))
             if key == "wall" and text and (text[0].isdigit() or text[0] == "."):
                 parse_quantity(text, "roughness", key, self.unit("roughness"))
+            if key == "valve" and text:
+                return valve_problem(text)
             if key == "k" and text:
                 float(text)
         except InputError as exc:
@@ -234,10 +243,7 @@ class BranchForm(Dialog[BranchSpec | None]):
             return
         j = self._segment_in_focus()
         branch = self.collect()
-        seg = branch.segments[j]
-        branch.segments.insert(j + 1, SegmentSpec(
-            size=seg.size, diameter=seg.diameter, material=seg.material,
-            condition=seg.condition, roughness=seg.roughness))
+        branch.segments.insert(j + 1, same_pipe(branch.segments[j]))
         await self._rebuild(branch, j + 1)
 
     async def action_remove_segment(self) -> None:

@@ -191,34 +191,3 @@ class SaveAsScreen(Dialog[Path | None]):
 
     def action_cancel(self) -> None:
         self.dismiss(None)
-
-
-class RenameScreen(SaveAsScreen):
-    """Ask for the site's name (the title of the site and of its walkdown record)."""
-
-    CLOSE_HINT = "Enter keeps, Esc cancels"
-
-    def __init__(self, name: str) -> None:
-        super().__init__(Path("."), name, title="Site name")
-
-    def compose(self) -> ComposeResult:
-        with Vertical():
-            yield Label(self.title_text, classes="save-title", markup=False)
-            yield Label("shown in the title, the site list and the walkdown record",
-                        classes="save-folder", markup=False)
-            yield Input(self.default, id="save-name")
-            yield Static("", classes="save-message", markup=False)
-            yield Static("Enter: keep   Esc: cancel", markup=False)
-
-    def on_mount(self) -> None:
-        box = self.query_one(Input)
-        box.focus()
-        box.selection = Selection(0, len(self.default))
-
-    def on_input_submitted(self, event: Input.Submitted) -> None:  # type: ignore[override]
-        event.stop()
-        name = " ".join(event.value.split())
-        if not name:
-            self.query_one(".save-message", Static).update("Type a name.")
-        else:
-            self.dismiss(name)  # type: ignore[arg-type]

@@ -16,7 +16,7 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.widgets import Input, Label, Static
 
-from ..session import locate, text_of, with_unit
+from ..session import is_bare_number, locate, text_of, with_unit
 from ..widgets.choice import Choice
 from ..widgets.field import Field
 from ..widgets.quiet import put
@@ -30,7 +30,7 @@ KIND_LABELS = {"water": "Water", "seawater": "Seawater",
 FIELDS = (
     ("temperature", "Temperature", "temperature"),
     ("pressure", "Pressure (absolute)", "pressure"),
-    ("concentration", "Glycol mass fraction", "fraction"),
+    ("concentration", "Glycol concentration", "fraction"),
     ("salinity", "Salinity", "salinity"),
     ("name", "Name", None),
     ("density", "Density", "density"),
@@ -45,6 +45,7 @@ USES = {
     "custom": ("name", "density", "viscosity", "kinematic_viscosity"),
 }
 """The fields each built-in kind takes (a saved preset may take any, as overrides)."""
+HINTS = {"concentration": "by mass (30 %) unless vol is written (30 % vol)"}
 
 
 class LiquidScreen(WorkScreen):
@@ -70,7 +71,8 @@ class LiquidScreen(WorkScreen):
                     self._options = self._kind_options()
                     yield Choice(self._options, self.kind(), id="liquid-kind-select")
                 for name, label, kind in FIELDS:
-                    yield Field(label, f"fluid.{name}", kind, id=f"fluid-{name}")
+                    yield Field(label, f"fluid.{name}", kind, id=f"fluid-{name}",
+                                placeholder=HINTS.get(name, ""))
                 yield Static("", id="liquid-hint", markup=False)
             with Vertical(id="liquid-props"):
                 yield Label("Properties", classes="panel-title")
@@ -185,6 +187,8 @@ class LiquidScreen(WorkScreen):
         field = event.field
         name = field.path.split(".", 1)[1]
         text = with_unit(event.text, self.bw.unit(field.kind)) if field.kind else event.text
+        if name == "concentration":
+            text = _with_basis_unit(event.text, self.bw.unit("fraction"))
         value = text.strip() or None
 
         def change(site: object) -> None:
@@ -218,3 +222,14 @@ def _reason(error: BaseException | None, say: Callable[[object], str]) -> str:
     if reason is None:
         return say(error)
     return f"{reason}, got {getattr(error, 'value', '')}"
+
+
+def _with_basis_unit(text: str, unit: str) -> str:
+    """A concentration as kept: a bare number takes the field's unit, also before a basis
+    word (``30 vol`` → ``30 % vol``), since a bare number in the site file is kg/kg."""
+    from branchwise.core.fluids.concentration import split_basis
+
+    rest, basis = split_basis(text)
+    if rest.strip() != text.strip() and is_bare_number(rest) and unit:
+        return f"{rest.strip()} {unit} {'vol' if basis == 'volume' else 'by mass'}"
+    return with_unit(text, unit)

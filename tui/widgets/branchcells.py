@@ -18,6 +18,7 @@ from ..session import is_bare_number, is_plain_diameter, text_of, with_unit
 
 COLUMNS = (
     ("name", "Branch"),
+    ("tag", "Tag"),
     ("flow", "Flow"),
     ("size", "Size/ID"),
     ("length", "Length"),
@@ -26,12 +27,14 @@ COLUMNS = (
     ("valve", "Valve"),
     ("reading", "Reading"),
 )
-BRANCH_COLUMNS = ("name", "valve", "reading")
+BRANCH_COLUMNS = ("name", "tag", "valve", "reading")
 """Columns that belong to the whole branch (blank on a further segment's row)."""
+WIDE_COLUMNS = ("tag",)
+"""Columns shown only where there is room (100 columns or more)."""
 UNIT_KINDS = {"size": "diameter", "length": "length", "wall": "roughness", "reading": "flow",
               "flow": "flow"}
 FIELD_COLUMNS = {
-    "name": "name", "diameter": "size", "size": "size", "length": "length",
+    "name": "name", "tag": "tag", "diameter": "size", "size": "size", "length": "length",
     "roughness": "wall", "material": "wall", "condition": "wall", "minor_k": "k",
     "fittings": "k", "hw_c": "k", "valve_kv": "valve", "valve_cv": "valve",
     "measured_flow": "reading", "segments": "name",
@@ -39,6 +42,8 @@ FIELD_COLUMNS = {
 """The column that shows each field of an error's path."""
 
 _VALVE = re.compile(r"\s*(kv|cv)?\s*[:=]?\s*(.+?)\s*\Z", re.I)
+_SERIES = re.compile(r"(?<=[\d.\s])\+")
+"""A plus sign between two valves in series (``160 + 40``), not an exponent's (``1e+3``)."""
 
 
 def size_text(seg: SegmentSpec) -> str:
@@ -78,6 +83,7 @@ def cell_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:
     """What a cell shows (the flow column is filled from the answer, not here)."""
     return {
         "name": lambda: text_of(br.name),
+        "tag": lambda: text_of(br.tag),
         "size": lambda: size_text(seg),
         "length": lambda: text_of(seg.length),
         "wall": lambda: wall_text(seg),
@@ -90,6 +96,30 @@ def cell_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:
 def edit_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:
     """What the cell editor starts with (the K column edits the free K only)."""
     return text_of(seg.minor_k) if column == "k" else cell_text(br, seg, column)
+
+
+def valve_problem(text: str) -> str | None:
+    """What is wrong with a typed valve (None: it reads as one Kv or Cv, or several in
+    series); the site check says the same in its own words, this one says it as it is typed."""
+    probe = BranchSpec()
+    set_valve(probe, text)
+    value = probe.valve_kv if probe.valve_kv is not None else probe.valve_cv
+    if value is None or not isinstance(value, str):
+        return None
+    for part in _SERIES.split(value):
+        try:
+            if float(part) > 0:
+                continue
+        except ValueError:
+            pass
+        return "write Kv 160 or Cv 110 (positive numbers); valves in series: Kv 160 + 40"
+    return None
+
+
+def same_pipe(seg: SegmentSpec) -> SegmentSpec:
+    """A new segment of ``seg``'s pipe (size and wall), its length and fittings still to type."""
+    return SegmentSpec(size=seg.size, diameter=seg.diameter, material=seg.material,
+                       condition=seg.condition, roughness=seg.roughness)
 
 
 def set_size(seg: SegmentSpec, text: str, unit: str) -> None:
@@ -128,11 +158,18 @@ def set_valve(br: BranchSpec, text: str) -> None:
     if not text.strip() or m is None:
         return
     kind, value = (m.group(1) or "kv").lower(), m.group(2)
+    # Several valves in series: "Kv 160 + Kv 40" is kept as the site file's "160 + 40".
+    value = re.sub(rf"\+\s*{kind}\b\s*[:=]?\s*", "+ ", value, flags=re.I)
     number: float | str = float(value) if is_bare_number(value) else value
     if kind == "cv":
         br.valve_cv = number
     else:
         br.valve_kv = number
+
+
+def set_tag(br: BranchSpec, text: str) -> None:
+    """The plant's line or valve tag: free text, blank for none."""
+    br.tag = " ".join(text.split()) or None
 
 
 def setter(column: str, unit: Callable[[str], str]) -> Callable[[BranchSpec, SegmentSpec, str],
@@ -148,5 +185,6 @@ def setter(column: str, unit: Callable[[str], str]) -> Callable[[BranchSpec, Seg
         "wall": lambda br, seg, text: set_wall(seg, text, unit("roughness")),
         "k": lambda br, seg, text: set_k(seg, text),
         "valve": lambda br, seg, text: set_valve(br, text),
+        "tag": lambda br, seg, text: set_tag(br, text),
     }
     return table.get(column)
