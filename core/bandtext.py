@@ -10,6 +10,7 @@ in a Markdown file and in a work order.
 from __future__ import annotations
 
 import math
+import textwrap
 from typing import TYPE_CHECKING, Any
 
 from .model import TotalFlow
@@ -20,6 +21,8 @@ if TYPE_CHECKING:
     from .uncertainty import InputTolerance, OutputBand, UncertaintyResult
 
 BAR_WIDTH = 20
+LINE_WIDTH = 80
+"""Columns the text report keeps within (a terminal)."""
 """Cells of a full bar (a share of 100 %)."""
 _EIGHTHS = " ▏▎▍▌▋▊▉"
 TOP = 8
@@ -117,8 +120,9 @@ def tolerance_text(inp: InputTolerance, system: str = "si") -> str:
     a = inp.half_width
     if inp.kind == "gauge":
         return f"± {format_quantity(a, 'pressure', system)}"
-    if inp.kind == "temperature":
-        return f"± {format_number(a, 3)} K"
+    if inp.kind == "temperature":  # a difference: 1 K = 1.8 °F (exact, by the scales' definition)
+        return f"± {format_number(a * 1.8, 3)} °F" if system == "us" else (
+            f"± {format_number(a, 3)} K")
     if inp.kind == "roughness":
         low, high = math.exp(inp.centre - a), math.exp(inp.centre + a)
         if inp.explicit:
@@ -146,16 +150,22 @@ def ranking_lines(sr: SiteResult, system: str = "si", top: int = TOP) -> list[st
     if not rows:
         return [f"No input tolerance moves the {what[0].lower() + what[1:]}."]
     tol = {i.name: tolerance_text(i, system) for i in u.inputs}
-    width = max(len(n) for n, _ in rows)
     twidth = max(len(tol.get(n, "")) for n, _ in rows)
-    out = [f"What dominates the spread of the {what[0].lower() + what[1:]} "
-           "(share of the GUM linear variance):"]
-    out += [f"  {n.ljust(width)}  {tol.get(n, '').ljust(twidth)}  {bar(s)} "
-            f"{format_number(s * 100, 3).rjust(5)} %" for n, s in rows]
+    room = LINE_WIDTH - (2 + 2 + twidth + 2 + BAR_WIDTH + 1 + 8)  # the rest of a line
+    width = min(max(len(n) for n, _ in rows), max(room, 20))
+    out = textwrap.wrap(f"What dominates the spread of the {what[0].lower() + what[1:]} "
+                        "(share of the GUM linear variance):", LINE_WIDTH,
+                        subsequent_indent="  ")
+    out += [f"  {_cut(n, width).ljust(width)}  {tol.get(n, '').ljust(twidth)}  {bar(s)} "
+            f"{format_number(s * 100, 3).rjust(6)} %" for n, s in rows]
     if more:
         out.append(f"  … {more} more input{'s' if more > 1 else ''}, "
                    f"{format_number(rest * 100, 2)} % together")
     return out
+
+
+def _cut(text: str, width: int) -> str:
+    return text if len(text) <= width else text[: width - 1] + "…"
 
 
 def markdown_lines(sr: SiteResult, system: str = "si") -> list[str]:

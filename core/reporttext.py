@@ -247,7 +247,7 @@ def to_markdown(
     src = source or (str(sr.site.source) if sr.site.source else "(not saved)")
     out = [
         f"# Walkdown record: {_md(sr.site.title)}", "",
-        f"- Date: {date.strftime('%Y-%m-%d %H:%M %Z').strip()}",
+        f"- Report written: {date.strftime('%Y-%m-%d %H:%M %Z').strip()}",
         *(f"- {_md(line)}" for line in record_lines(sr.site)),
         f"- Site file: `{src}`",
         f"- Calculated with branchwise {version()}; units: {system.upper()}", "",

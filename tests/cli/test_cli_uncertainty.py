@@ -25,6 +25,7 @@ from hypothesis import strategies as st
 
 from branchwise.core.reporttext import CSV_LABELS
 from branchwise.core.sitefile import demo_text
+from branchwise.core.units import format_number
 from branchwise.tui.cli import main
 
 PSI = 6894.757  # Pa, NIST SP 811
@@ -276,3 +277,21 @@ def test_any_value_in_any_tolerance_exits_0_or_2(changes):
         assert code in (0, 2)
         assert code == 0 or err.getvalue().count("\n") == 1
         assert path.read_bytes() == text.encode()
+
+
+def test_ranking_fits_a_terminal_and_temperature_limits_read_in_fahrenheit(tmp_path, capsys):
+    text = demo_text().replace('name = "AHU-2 coil"', 'name = "AHU-2 coil on the far mezzanine"')
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+    assert main(["solve", str(path), "--uncertainty", "--samples", "2000", "--units", "us"]) == 0
+    out = capsys.readouterr().out
+    lines = out.splitlines()
+    start = next(i for i, line in enumerate(lines) if line.startswith("What dominates"))
+    ranking = lines[start:lines.index("", start)]
+    assert all(len(line) <= 80 for line in ranking), ranking
+    assert main(["solve", str(path), "--uncertainty", "--samples", "2000", "--format",
+                 "json"]) == 0
+    inputs = json.loads(capsys.readouterr().out)["uncertainty"]["inputs"]
+    kelvin = next(i["half_width"] for i in inputs if i["kind"] == "temperature")
+    # A temperature difference of 1 K is 1.8 °F (the scales' definitions, NIST SP 811 B.8).
+    assert f"± {format_number(kelvin * 1.8, 3)} °F" in out and " K " not in out
