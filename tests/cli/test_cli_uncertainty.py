@@ -294,4 +294,7 @@ def test_ranking_fits_a_terminal_and_temperature_limits_read_in_fahrenheit(tmp_p
     inputs = json.loads(capsys.readouterr().out)["uncertainty"]["inputs"]
     kelvin = next(i["half_width"] for i in inputs if i["kind"] == "temperature")
     # A temperature difference of 1 K is 1.8 °F (the scales' definitions, NIST SP 811 B.8).
-    assert f"± {format_number(kelvin * 1.8, 3)} °F" in out and " K " not in out
+    assert main(["solve", str(path), "--uncertainty", "--samples", "2000", "--units", "us",
+                 "--format", "markdown"]) == 0
+    markdown = capsys.readouterr().out  # every input with its limit, in the US units
+    assert f"| ± {format_number(kelvin * 1.8, 3)} °F |" in markdown and " K |" not in markdown
