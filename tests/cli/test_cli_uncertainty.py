@@ -297,4 +297,4 @@ def test_ranking_fits_a_terminal_and_temperature_limits_read_in_fahrenheit(tmp_p
     assert main(["solve", str(path), "--uncertainty", "--samples", "2000", "--units", "us",
                  "--format", "markdown"]) == 0
     markdown = capsys.readouterr().out  # every input with its limit, in the US units
-    assert f"| ± {format_number(kelvin * 1.8, 3)} °F |" in markdown and " K |" not in markdown
+    assert f"| temperature | ± {format_number(kelvin * 1.8, 3)} °F |" in markdown
