@@ -236,9 +236,9 @@ def _given(site: Site, names: list[str]) -> Given:
     for i in site.measured_branches():
         offered.append((f"branches[{i}].measured_flow", site.branches[i].measured_flow))
     if not offered:
-        raise InputError("conditions", "nothing", "give one reading: the pressure drop "
-                         "(pressure_drop), the total flow (total_flow) or one branch's "
-                         "measured flow (measured_flow)")
+        raise InputError("conditions", "nothing", "needs one reading: the pressure drop "
+                         "across the headers, the total flow, or one branch's measured flow "
+                         "(in a site file: pressure_drop, total_flow or measured_flow)")
     if len(offered) > 1:
         (first, _), (second, value) = offered[0], offered[1]
         raise InputError(second, describe(value), f"contradicts {first}: give exactly one of "

@@ -66,7 +66,7 @@ BAD_FILES = [
      'branch "Condenser A" length: must not be negative'),
     ("roughness at least D/2", edit('roughness = "0.045 mm"', 'roughness = "60 mm"'),
      'branch "Condenser A" roughness: must be below half the diameter'),
-    ("missing condition", edit('pressure_drop = "68 kPa"', ""), "conditions: give one reading"),
+    ("missing condition", edit('pressure_drop = "68 kPa"', ""), "conditions: needs one reading"),
     ("contradictory conditions", edit('pressure_drop = "68 kPa"',
                                       'pressure_drop = "68 kPa"\ntotal_flow = "30 L/s"'),
      "conditions.total_flow: contradicts conditions.pressure_drop"),
