@@ -42,7 +42,7 @@ def test_enter_then_ctrl_n_in_the_branch_form(ui, sandbox, data_dir, monkeypatch
             monkeypatch.setattr(BranchForm, "recompose", enter_arrives_late)
             await pilot.press("ctrl+n")
             assert app.screen is form and len(form.branch.segments) == 2
-            assert len(form.query(Field)) == 3 + 2 * 5  # name, valve, note; 5 per segment
+            assert len(form.query(Field)) == 4 + 2 * 5  # name, tag, valve, note; 5 per segment
             monkeypatch.undo()
             await pilot.press("enter")  # Enter on the new layout applies the form
             await ui.settle(pilot)
