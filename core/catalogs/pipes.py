@@ -11,7 +11,7 @@ Every length is in metres. The inner diameter is OD − 2·wall, with the wall t
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field, replace
 from fractions import Fraction
 from functools import cache
 from typing import Any
@@ -33,7 +33,8 @@ class PipeSize:
     outside_diameter_m, wall_m, inner_diameter_m: metres. ``nominal`` is the display form of the
     nominal size (``"3"``, ``"1-1/2"``; for ISO 4427 the OD in mm, ``"110"``); ``schedule`` the
     standard's designation (``"40"``, ``"STD"``, ``"40S"``, ``"L"``, ``"SDR 11"``, ``"DR 17"``).
-    ``label`` is the canonical text: :func:`~.sizetext.parse_size` reads it back to this size.
+    ``label`` is the text to show (by NPS, or by DN where the user wrote DN):
+    :func:`~.sizetext.parse_size` reads it back to this size; it takes no part in equality.
     ``material_hint`` is a key of ``presets/materials.toml`` for a default roughness. ``dn`` is
     the metric designation where the standard pairs one with the size (DN 80 for NPS 3).
     """
@@ -44,8 +45,8 @@ class PipeSize:
     outside_diameter_m: float
     wall_m: float
     inner_diameter_m: float
-    label: str
-    material_hint: str
+    label: str = field(compare=False)
+    material_hint: str = ""
     dn: int | None = None
 
 
@@ -228,5 +229,13 @@ def smallest_at_least(inner_diameter_m: float, like: PipeSize) -> PipeSize | Non
     candidates = sorted(sizes(like.standard, like.schedule), key=lambda p: p.inner_diameter_m)
     for candidate in candidates:
         if candidate.inner_diameter_m >= required * (1.0 - 1e-12):
-            return candidate
+            return dn_labelled(candidate) if like.label.startswith("DN") else candidate
     return None
+
+
+def dn_labelled(size: PipeSize) -> PipeSize:
+    """``size`` labelled by its DN (``DN65 sch 40``) when it has one, as a user who wrote DN
+    reads it; the label still reads back to the same size."""
+    if size.dn is None or not size.label.startswith(f"NPS {size.nominal}"):
+        return size
+    return replace(size, label=f"DN{size.dn}" + size.label[len(f"NPS {size.nominal}"):])

@@ -24,7 +24,7 @@ from fractions import Fraction
 from ..errors import InputError
 from ..units import describe
 from . import _data
-from .pipes import PipeSize, _Table, make, nominal_value, schedule_name, table
+from .pipes import PipeSize, _Table, dn_labelled, make, nominal_value, schedule_name, table
 
 Fail = Callable[[str], InputError]
 
@@ -212,7 +212,8 @@ def _resolve(
             f"it lists {_data.spoken_list(listed)} for that size; nearest sizes with "
             f"{_show_schedule(t, name)}: {near}"
         )
-    return make(t, nominal, name)
+    size = make(t, nominal, name)
+    return dn_labelled(size) if dn is not None else size
 
 
 def _steel_like(

@@ -11,7 +11,7 @@ from __future__ import annotations
 import fluids.piping as ref
 import pytest
 
-from branchwise.core.catalogs import parse_size, sizes
+from branchwise.core.catalogs import parse_size, sizes, smallest_at_least
 from branchwise.core.errors import InputError
 
 INCH_M = 0.0254
@@ -163,3 +163,13 @@ def test_every_b3610_size_reads_in_the_common_spellings():
         for p in sizes("ASME B36.10M", schedule):
             assert parse_size(f"{p.nominal} in sch {schedule}") == p
             assert parse_size(f"DN{p.dn} schedule {schedule.lower()}") == p
+
+
+def test_a_size_written_by_dn_is_shown_by_dn_and_reads_back():
+    # ASME B36.10M pairs DN 65 with NPS 2-1/2 and DN 80 with NPS 3 (its size tables).
+    p = parse_size("DN65 sch 40")
+    assert p.label == "DN65 sch 40" and parse_size(p.label) == p == parse_size("2-1/2 in sch 40")
+    bigger = smallest_at_least(p.inner_diameter_m * 1.01, p)
+    assert bigger is not None and bigger.label == "DN80 sch 40"
+    assert smallest_at_least(p.inner_diameter_m * 1.01, parse_size("NPS 2-1/2 sch 40")).label \
+        == "NPS 3 sch 40"
