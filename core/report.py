@@ -198,7 +198,7 @@ def solved_lines(sr: SiteResult, system: str = "si") -> list[str]:
     seg = f" (segment {s.segment + 1})" if len(sr.result.branch(s.branch).segments) > 1 else ""
     lines = [f"{s.quantity.capitalize()} of '{s.branch}'{seg} to carry "
              f"{format_quantity(s.target_flow, 'flow', system)}: "
-             f"{format_quantity(s.value, kind, system)}"]
+             f"{format_quantity(s.value, kind, system)}{_against_table(sr, system)}"]
     if sr.catalog is not None:
         c = sr.catalog
         lines.append(
@@ -207,6 +207,32 @@ def solved_lines(sr: SiteResult, system: str = "si") -> list[str]:
             f"with it the branch carries {format_quantity(c.flow, 'flow', system)} "
             f"({_held_text(sr, system)}).")
     return lines
+
+
+def _against_table(sr: SiteResult, system: str) -> str:
+    """For a found roughness, the material's table value for new pipe beside it ('' when the
+    segment names no material): how much rougher the line has become."""
+    from .errors import BranchwiseError
+    from .userpresets import material_for
+
+    s = sr.result.solved
+    if s is None or s.quantity != "roughness":
+        return ""
+    names = [b.name for b in sr.site.branches]
+    if s.branch not in names:
+        return ""
+    specs = sr.site.branches[names.index(s.branch)].segments
+    key = specs[s.segment].material if s.segment < len(specs) else None
+    if not isinstance(key, str):
+        return ""
+    try:
+        new = material_for(key.strip(), "material").roughness_m
+    except BranchwiseError:
+        return ""
+    if new <= 0:
+        return f" (the table value for {key.strip()} is smooth, 0)"
+    return (f" ({s.value / new:.2g}× the table value for new {key.strip()}, "
+            f"{format_quantity(new, 'roughness', system)})")
 
 
 def _text(value: object) -> str:

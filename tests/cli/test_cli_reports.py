@@ -181,3 +181,21 @@ def test_csv_carries_the_answer_a_solve_was_for(tmp_path, capsys, system):
     total = data["total_flow_m3_s"] / UNITS[system][0]
     assert any(f"total flow {format_number(total)}" in line for line in result)
     assert rows.index(next(r for r in rows if r[0] == "Result")) > 4  # after the data rows
+
+
+def test_a_found_roughness_is_set_beside_the_materials_table_value(tmp_path, capsys):
+    # Commercial steel, new: 0.045 mm (Moody 1944 and handbook tables; the shipped value is
+    # checked against the HHR table of the `fluids` library in tests/references).
+    from branchwise.core.catalogs import material
+
+    text = demo_text().replace("# [solve]", "[solve]").replace(
+        '# find = "diameter"', 'find = "roughness"').replace(
+        '# branch = "AHU-2 coil"', 'branch = "AHU-2 coil"').replace(
+        '# target_flow = "220 gpm"', 'target_flow = "160 gpm"')
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+    found = json.loads(solve(capsys, str(path), "--format", "json"))["solved"]["value_si"]
+    table = material("commercial-steel").roughness_m  # m
+    assert table == pytest.approx(4.5e-5)
+    out = " ".join(solve(capsys, str(path)).split())
+    assert f"({found / table:.2g}× the table value for new commercial-steel, 0.045 mm)" in out
