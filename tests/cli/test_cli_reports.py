@@ -198,4 +198,4 @@ def test_a_found_roughness_is_set_beside_the_materials_table_value(tmp_path, cap
     table = material("commercial-steel").roughness_m  # m
     assert table == pytest.approx(4.5e-5)
     out = " ".join(solve(capsys, str(path)).split())
-    assert f"({found / table:.2g}× the table value for new commercial-steel, 0.045 mm)" in out
+    assert f"({found / table:.2g}× the table value for new commercial-steel, 0.04500 mm)" in out
