@@ -8,6 +8,9 @@ settings.register_profile(
 settings.register_profile(
     "large", max_examples=25_000, deadline=None, suppress_health_check=list(HealthCheck)
 )
+settings.register_profile(
+    "medium", max_examples=2_500, deadline=None, suppress_health_check=list(HealthCheck)
+)
 settings.load_profile("ci")
 
 
