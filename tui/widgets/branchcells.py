@@ -107,12 +107,14 @@ def valve_problem(text: str) -> str | None:
     if value is None or not isinstance(value, str):
         return None
     for part in _SERIES.split(value):
+        m = _VALVE.match(part)  # each a number, or one marked Kv or Cv (Kv 160 + Cv 48)
         try:
-            if float(part) > 0:
+            if m is not None and float(m.group(2)) > 0:
                 continue
         except ValueError:
             pass
-        return "write Kv 160 or Cv 110 (positive numbers); valves in series: Kv 160 + 40"
+        return ("write Kv 160 or Cv 110 (positive numbers); valves in series: Kv 160 + 40 "
+                "or Kv 160 + Cv 48")
     return None
 
 
