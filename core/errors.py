@@ -23,17 +23,23 @@ class InputError(BranchwiseError, ValueError):
     """
 
     def __init__(self, field: str, value: object, reason: str) -> None:
+        from .messages import render
+
         self.field = field
-        self.value = value
-        self.reason = reason
+        # ``reason`` and a text ``value`` may hold quantities marked by ``core.messages``: the
+        # plain attributes say them in SI, ``marked_*`` keep them for ``units.say``.
+        self.marked_reason, self.marked_value = reason, value
+        self.value = render(value) if isinstance(value, str) else value
+        self.reason = render(reason)
+        self.marked = f"{field}: {reason}, got {value}"
         # One printable line whatever the file held: a message is printed on one line by the
         # command line and shown beside a field by the app.
-        super().__init__(one_line(f"{field}: {reason}, got {value}"))
+        super().__init__(one_line(f"{field}: {self.reason}, got {self.value}"))
 
     def within(self, prefix: str) -> InputError:
         """The same error with ``prefix`` put in front of its field path."""
         field = f"{prefix}.{self.field}" if self.field else prefix
-        return InputError(field, self.value, self.reason)
+        return InputError(field, self.marked_value, self.marked_reason)
 
 
 def one_line(text: str) -> str:

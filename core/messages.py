@@ -23,6 +23,11 @@ def marked(kind: str, value_si: float) -> str:
     return f"{_OPEN}{kind} {float(value_si)!r}{_CLOSE}"
 
 
+def has_marks(text: object) -> bool:
+    """Whether ``text`` holds a marked quantity."""
+    return isinstance(text, str) and _OPEN in text
+
+
 def render(text: str, show: Callable[[float, str], str] | None = None) -> str:
     """``text`` with every marked quantity written out by ``show(value_si, kind)``.
 
@@ -50,6 +55,9 @@ def si_text(value_si: float, kind: str) -> str:
         return f"{value_si:.4g} m"
     if kind == "valve":
         return f"Kv {value_si:.3g}"
+    if kind == "temperature":  # K in, °C out, to 0.01 K without trailing zeros
+        text = f"{value_si - 273.15:.2f}".rstrip("0").rstrip(".")
+        return f"{'0' if text == '-0' else text} °C"
     return f"{value_si:.4g}"
 
 
@@ -80,3 +88,8 @@ def velocity_text(v_m_s: float) -> str:
 def kv_text(kv_m3_h: float) -> str:
     """A valve's flow coefficient, Kv in m³/h at 1 bar (restated as Cv in US units)."""
     return marked("valve", kv_m3_h)
+
+
+def temperature_text(t_k: float) -> str:
+    """A temperature, K (said in °C, or °F in US units)."""
+    return marked("temperature", t_k)

@@ -19,6 +19,7 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from branchwise.core.messages import has_marks
 from branchwise.core.sitefile import BranchSpec, SegmentSpec, Site, SolveSpec
 
 FIELD_KINDS: dict[str, str] = {
@@ -142,6 +143,12 @@ def error_text(error: BaseException, site: Site, system: str = "si",
     if not field or reason is None:
         return said(error, system, units)
     value = getattr(error, "value", "")
+    if has_marks(getattr(error, "marked", "")):  # quantities to state in the user's units
+        from branchwise.core.units import restate
+
+        reason = restate(error.marked_reason, system, units)  # type: ignore[attr-defined]
+        if isinstance(error.marked_value, str):  # type: ignore[attr-defined]
+            value = restate(error.marked_value, system, units)  # type: ignore[attr-defined]
     return f"{field_label(site, field)}: {reason}" + (f", got {value}" if value != "" else "")
 
 

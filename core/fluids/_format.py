@@ -18,5 +18,7 @@ def percent(fraction: float) -> str:
 
 
 def state(temperature_k: float) -> str:
-    """A temperature as the value of an error message: "268.15 K (-5.00 °C)"."""
-    return f"{temperature_k:g} K ({celsius(temperature_k, 2)} °C)"
+    """A temperature as the value of an error message ("-5 °C"; "23 °F" in US units)."""
+    from ..messages import temperature_text
+
+    return temperature_text(temperature_k)

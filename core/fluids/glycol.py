@@ -23,6 +23,7 @@ from typing import Literal
 import numpy as np
 
 from ..errors import InputError
+from ..messages import temperature_text
 from ..model import Fluid, finite
 from . import _spline
 from ._format import celsius, percent, state
@@ -128,13 +129,13 @@ def glycol(kind: GlycolKind, temperature_k: float, mass_fraction: float) -> Flui
         raise InputError(
             "fluid.temperature",
             state(t),
-            f"{_TITLES[kind].lower()} at {percent(x)} % freezes at {celsius(t_freeze)} °C",
+            f"{_TITLES[kind].lower()} at {percent(x)} % freezes at {temperature_text(t_freeze)}",
         )
     if t > table.top_k:
         raise InputError(
             "fluid.temperature",
             state(t),
-            f"must be at most {celsius(table.top_k)} °C (the tabulated range)",
+            f"must be at most {temperature_text(table.top_k)} (the tabulated range)",
         )
     s = (t - t_freeze) / (table.top_k - t_freeze)
     rho_rows = _spline.evaluate(table.s_knots, table.density, table.density_m, s)

@@ -16,6 +16,7 @@ accepted up to 2.5 MPa, where that error stays near the correlation's own ±0.1 
 from __future__ import annotations
 
 from ..errors import InputError
+from ..messages import temperature_text
 from ..model import Fluid, finite
 from ._format import celsius, state
 from .water import STANDARD_ATMOSPHERE_PA, boiling_error, liquid_range_k
@@ -92,7 +93,7 @@ def seawater(
         raise InputError(
             "fluid.temperature",
             state(t),
-            f"must be between {celsius(T_MIN_K)} °C and {celsius(T_MAX_K)} °C "
+            f"must be between {temperature_text(T_MIN_K)} and {temperature_text(T_MAX_K)} "
             "(range of Sharqawy et al. 2010)",
         )
     _, boiling_k = liquid_range_k(pressure_pa)

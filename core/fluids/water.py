@@ -24,6 +24,7 @@ from __future__ import annotations
 import math
 
 from ..errors import InputError
+from ..messages import pressure_text, temperature_text
 from ..model import Fluid, finite
 from ._format import celsius, state
 
@@ -144,10 +145,10 @@ def liquid_range_k(pressure_pa: float) -> tuple[float, float]:
 def boiling_error(temperature_k: float, top_k: float, pressure_pa: float, what: str) -> InputError:
     """The InputError for a temperature at or above ``top_k`` from :func:`liquid_range_k`."""
     reason = (
-        f"{what} boils at {celsius(top_k, 2)} °C at {pressure_pa:g} Pa (IAPWS-IF97); "
-        "only liquid is handled"
+        f"{what} boils at {temperature_text(top_k)} at {pressure_text(pressure_pa)} "
+        "(IAPWS-IF97); only liquid is handled"
         if top_k < REGION1_MAX_K
-        else f"must be below {celsius(top_k)} °C (the top of IAPWS-IF97 region 1)"
+        else f"must be below {temperature_text(top_k)} (the top of IAPWS-IF97 region 1)"
     )
     return InputError("fluid.temperature", state(temperature_k), reason)
 
@@ -160,7 +161,7 @@ def check_liquid(temperature_k: float, pressure_pa: float) -> float:
         raise InputError(
             "fluid.temperature",
             state(t),
-            f"water freezes below {celsius(low, 2)} °C (the triple point, {low} K)",
+            f"water freezes below {temperature_text(low)} (the triple point, {low} K)",
         )
     if t >= high:
         raise boiling_error(t, high, pressure_pa, "water")

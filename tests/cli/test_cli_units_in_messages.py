@@ -48,3 +48,17 @@ def test_fluid_line_in_us_units_gives_fahrenheit(capsys):
     out = capsys.readouterr().out
     # The demo's water is at 44 °F; the line must not fall back to Celsius in US units.
     assert "Fluid: Water at 44.0 °F" in out and "°C" not in out
+
+
+def test_a_freezing_liquid_is_refused_in_the_units_asked_for(tmp_path, capsys):
+    # CoolProp INCOMP::MEG[0.3] freezes at about -14.6 °C (5.8 °F); -40 °F is -40 °C.
+    text = demo_text().replace('kind = "water"', 'kind = "ethylene-glycol"\nconcentration = "30 %"'
+                               ).replace('temperature = "44 degF"', 'temperature = "-40 degF"')
+    path = tmp_path / "cold.toml"
+    path.write_text(text, encoding="utf-8")
+    assert main(["solve", str(path), "--units", "us"]) == 2
+    err = capsys.readouterr().err
+    assert "freezes at 5." in err and "°F, got -40.00 °F" in err and "°C" not in err
+    assert main(["solve", str(path)]) == 2
+    err = capsys.readouterr().err
+    assert "freezes at -14." in err and "°C, got -40 °C" in err
