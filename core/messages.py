@@ -45,6 +45,8 @@ def si_text(value_si: float, kind: str) -> str:
         return f"{value_si * 1000:.4g} L/s"
     if kind == "pressure":
         return f"{value_si / 1000:.4g} kPa"
+    if kind == "roughness":
+        return f"{value_si * 1000:.4g} mm"
     if kind == "diameter":
         return f"{value_si * 1000:.4g} mm" if value_si < 1 else f"{value_si:.4g} m"
     if kind == "length" and abs(value_si) >= 10_000:

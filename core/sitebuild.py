@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 from .errors import InputError
+from .messages import marked
 from .model import (
     FRICTION_MODELS,
     STANDARD_GRAVITY,
@@ -31,7 +32,7 @@ from .model import (
 )
 from .sitefile import BranchSpec, SegmentSpec, Site, Value
 from .sitefluid import PresetSource, build_fluid, text_value
-from .units import describe, format_quantity, parse_quantity
+from .units import describe, parse_quantity
 
 if TYPE_CHECKING:
     from .uncertainty import Tolerances
@@ -153,7 +154,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     if roughness >= diameter / 2:  # type: ignore[operator]
         r_path, r_value = ((f"{path}.roughness", seg.roughness) if seg.roughness is not None
                            else (m_path, seg.material))
-        half = format_quantity(diameter / 2, "roughness")
+        half = marked("roughness", diameter / 2)  # type: ignore[operator]
         raise InputError(r_path, describe(r_value), f"must be below half the diameter ({half})")
     minor_k = plain_number(seg.minor_k, f"{path}.minor_k") or 0.0
     _at_least(minor_k, f"{path}.minor_k", seg.minor_k, 0.0, strict=False)

@@ -29,9 +29,10 @@ from dataclasses import replace
 from typing import TYPE_CHECKING
 
 from .errors import InputError
+from .messages import pressure_text
 from .model import Fluid, Given, Network, PressureDrop
 from .sitefile import Site, TolerancesSpec, Value
-from .units import describe, format_quantity, parse_quantity
+from .units import describe, parse_quantity
 
 if TYPE_CHECKING:
     from .sitebuild import PresetSource
@@ -132,7 +133,7 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
         if not full > 0:
             raise InputError(f"{path}.gauge_full_scale", describe(value), "must be positive")
         if isinstance(given, PressureDrop) and abs(given.value) > full * (1 + 1e-9):
-            read = format_quantity(abs(given.value), "pressure")
+            read = pressure_text(abs(given.value))
             raise InputError(f"{path}.gauge_full_scale", describe(value),
                              f"is below the pressure drop read on the gauge ({read})")
         kw["gauge_full_scale"] = full
