@@ -28,6 +28,8 @@ from branchwise.core.sitefile import (
     parse_site,
 )
 
+from .session import shown_path
+
 if TYPE_CHECKING:
     from .app import BranchwiseApp
 
@@ -129,7 +131,7 @@ class SiteFiles:
                 source = self.session.path
                 recovered.source, recovered.origin = source, self.session.site.origin
                 self.session.replace(recovered)
-                self.session.saved_revision = -1  # restored work is unsaved work
+                self.session.mark_unsaved()  # restored work is unsaved work
                 self.site_changed()
                 self.notify("Restored the unsaved changes.")
             elif choice == "discard":
@@ -190,7 +192,7 @@ class SiteFiles:
         self.settings.remember_site(path)
         self.save_settings()
         self.site_changed()
-        self.notify(f"Saved {path}", timeout=4)
+        self.notify(f"Saved {file_and_folder(path)}", timeout=4)
         if callable(then):
             then()
         return True
@@ -285,13 +287,19 @@ class SiteFiles:
             except InputError as exc:
                 self.notify(str(exc), title="Not written", severity="error", timeout=10)
                 return
-            extra = " (with the P5–P95 band)" if with_band else ""
+            extra = "\nwith the P5–P95 band" if with_band else ""
             if path != wanted:
-                extra += f"; {wanted.name} exists and was kept"
-            self.notify(f"Wrote {path}{extra}", timeout=5)
+                extra += f"\n({wanted.name} exists and was kept)"
+            self.notify(f"Wrote {file_and_folder(path)}{extra}", timeout=5)
 
         title = "Walkdown record (Markdown)" if fmt == "markdown" else "Results (CSV)"
         self.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix), chosen)
+
+
+def file_and_folder(path: Path) -> str:
+    """A written file for a message: its name, then its folder on a line of its own (with
+    ``~`` for home), so that a narrow notice never breaks the name in the middle."""
+    return f"{path.name}\nin {shown_path(path.parent)}"
 
 
 def _free(path: Path) -> Path:

@@ -164,6 +164,16 @@ def said(item: object, system: str = "si", units: Mapping[str, str] | None = Non
 
 # ---- reading the site ------------------------------------------------------------------------
 
+def shown_path(path: Path) -> str:
+    """A path as a person reads it: absolute, with ``~`` for the home folder
+    (``./site.toml`` → ``~/plant/site.toml``)."""
+    full = Path(path).expanduser().absolute()
+    try:
+        return str(Path("~") / full.relative_to(Path.home()))
+    except ValueError:
+        return str(full)
+
+
 def text_of(value: object) -> str:
     """A site value as shown in a field: '' for nothing, numbers without a trailing '.0'."""
     if value is None:
@@ -293,7 +303,8 @@ class Session:
     """The one site being edited, with undo/redo and a change counter.
 
     ``revision`` goes up on every change (screens and the solver compare it); ``saved_revision``
-    is the revision last written to ``site.source``.
+    is the revision last written to ``site.source``, and ``saved`` that site itself: an edit
+    undone (or typed) back to what was saved leaves nothing unsaved.
     """
 
     site: Site
@@ -304,10 +315,18 @@ class Session:
     parked: dict[str, str] = field(default_factory=dict)
     """Values taken out of the site by a switch (the old pressure drop when a reading becomes
     the given, a fluid field another kind does not use), to put back on the way back."""
+    saved: Site | None = None
+    """The site as last saved or opened (None: nothing on disk matches it, such as restored
+    work); set with the first revision when the session starts."""
+
+    def __post_init__(self) -> None:
+        if self.saved is None and self.revision == self.saved_revision:
+            self.saved = copy.deepcopy(self.site)
 
     @property
     def dirty(self) -> bool:
-        return self.revision != self.saved_revision
+        # Site equality leaves out the file and its text: only the values count.
+        return self.revision != self.saved_revision and self.site != self.saved
 
     @property
     def path(self) -> Path | None:
@@ -363,7 +382,13 @@ class Session:
         self.redo_stack.clear()
         self.parked.clear()
         self.revision += 1
-        self.saved_revision = self.revision
+        self.mark_saved()
 
     def mark_saved(self) -> None:
         self.saved_revision = self.revision
+        self.saved = copy.deepcopy(self.site)
+
+    def mark_unsaved(self) -> None:
+        """Nothing on disk holds the present site (work restored from a recovery copy)."""
+        self.saved_revision = -1
+        self.saved = None

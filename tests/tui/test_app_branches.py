@@ -82,10 +82,19 @@ def test_branch_table_by_keys(ui):
             assert app.screen.__class__.__name__ == "BranchForm"
             form = app.screen
             fields = {f.path: f for f in form.query("Field")}
-            fields["name"].input.value = "Drain line"
-            fields["0.length"].input.value = "12"
-            fields["0.fittings"].input.value = "elbow-90 2, gate-valve 1"
-            fields["0.length"].input.focus()
+            # Typed as a person would: the cursor starts in Name (its text selected, so typing
+            # replaces it) and Enter goes field by field; Enter on the last field applies.
+            assert app.focused is fields["name"].input
+            await ui.type(pilot, "Drain line")
+            await pilot.press(*["enter"] * 5)  # tag, valve, note, size (carried), length
+            assert app.focused is fields["0.length"].input
+            await pilot.press("enter")  # no length yet: said beside the field, cursor stays
+            assert app.focused is fields["0.length"].input
+            assert "required" in str(fields["0.length"].query_one(".field-message").render())
+            await ui.type(pilot, "12")
+            await pilot.press("enter", "enter", "enter")  # wall, K, fittings
+            assert app.focused is fields["0.fittings"].input
+            await ui.type(pilot, "elbow-90 2, gate-valve 1")
             await pilot.press("enter")
             await ui.settle(pilot)
             new = app.site.branches[1]

@@ -114,6 +114,9 @@ def test_open_from_the_site_list_and_export(ui, data_dir):
             await pilot.press("ctrl+z")
             await ui.settle(pilot)
             assert app.outcome.ok and app.site.conditions.pressure_drop == "55 kPa"
+            assert not app.session.dirty  # undone back to the file: nothing unsaved
+            await pilot.press("end", "ctrl+u", *"60", "enter")  # a change that is not saved
+            await ui.settle(pilot)
 
             # A new empty site: the first thing missing is named beside its field.
             await pilot.press("escape", "ctrl+o")
@@ -121,7 +124,7 @@ def test_open_from_the_site_list_and_export(ui, data_dir):
             table.move_cursor(row=table.row_count - 1)
             await pilot.press("enter")
             await pilot.pause()
-            assert isinstance(app.screen, ChoiceScreen)  # the edits above are not saved
+            assert isinstance(app.screen, ChoiceScreen)  # the 60 kPa is not saved
             await pilot.press("n")
             await ui.settle(pilot)
             assert app.site.title == "New site" and not app.outcome.ok

@@ -47,7 +47,9 @@ def test_site_name_by_key_and_kept_in_the_saved_file(ui, data_dir):
         async with app.run_test(size=(80, 24)) as pilot:
             await ui.settle(pilot)
             await pilot.press("f8")
-            await pilot.press(*"Plant B header", "enter")  # the old name is selected: replaced
+            # The old name is selected: typing replaces it. Enter goes through the record's
+            # four fields and keeps on the last.
+            await pilot.press(*"Plant B header", *["enter"] * 5)
             await ui.settle(pilot)
             assert app.site.name == "Plant B header"
             assert "Plant B header" in ui.text(app)

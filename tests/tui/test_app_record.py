@@ -95,7 +95,10 @@ def test_site_and_readings_dialog(ui, site_file):
             # Blank fields are left out; the word "today" is today's date.
             await pilot.press("f8")
             await pilot.pause()
+            # Enter moves field by field and keeps on the last (date, instruments, kept).
             await pilot.press("tab", "tab", *"today", "enter")
+            assert app.focused is app.screen.query_one("#details-pressure_instrument").input
+            await pilot.press("enter", "enter")
             await ui.settle(pilot)
             assert app.site.record is not None and app.site.record.technician is None
             assert app.site.record.date == datetime.date.today().isoformat()
@@ -122,10 +125,12 @@ def test_branch_tag_in_the_form_and_the_wide_table(ui, site_file):
             labels = [str(c.label) for c in table.ordered_columns]
             assert labels[:2] == ["Branch", "Tag"]
 
-            # The form: the tag under the name (focus starts on the first segment's size).
+            # The form: the tag under the name (the cursor starts in the column it came from,
+            # Branch: the name); Enter field by field, and on the last field it applies.
             await pilot.press("e")
             await pilot.pause()
-            await pilot.press("shift+tab", "shift+tab", "shift+tab", *"CHW-R-104", "enter")
+            assert app.focused is app.screen.query_one("#f-name").input
+            await pilot.press("enter", *"CHW-R-104", *["enter"] * 8)
             await ui.settle(pilot)
             assert app.site.branches[0].tag == "CHW-R-104"
             assert "CHW-R-104" in ui.text(app)
@@ -160,7 +165,7 @@ def test_valves_in_series_typed_in_the_form(ui, site_file):
             await ui.settle(pilot)
             await pilot.press("e")
             await pilot.pause()
-            await pilot.press("shift+tab", "shift+tab", "ctrl+u", *"Kv 160 + 4O")
+            await pilot.press("enter", "enter", "ctrl+u", *"Kv 160 + 4O")  # name, tag, valve
             await pilot.pause()
             form = app.screen
             valve = form.query_one("#f-valve")
@@ -168,7 +173,7 @@ def test_valves_in_series_typed_in_the_form(ui, site_file):
             await pilot.press("enter")
             await pilot.pause()
             assert app.screen is form  # not applied
-            await pilot.press("ctrl+u", *"Kv 160 + Kv 40", "enter")
+            await pilot.press("ctrl+u", *"Kv 160 + Kv 40", *["enter"] * 7)
             await ui.settle(pilot)
             assert app.site.branches[0].valve_kv == "160 + 40"
             flows = app.outcome.solved.result.flows

@@ -44,7 +44,11 @@ def test_enter_then_ctrl_n_in_the_branch_form(ui, sandbox, data_dir, monkeypatch
             assert app.screen is form and len(form.branch.segments) == 2
             assert len(form.query(Field)) == 4 + 2 * 5  # name, tag, valve, note; 5 per segment
             monkeypatch.undo()
-            await pilot.press("enter")  # Enter on the new layout applies the form
+            # Enter on the new layout goes on from the new segment's first field.
+            assert app.focused is form.query_one("#f-1-size", Field).input
+            await pilot.press("enter")
+            assert app.focused is form.query_one("#f-1-length", Field).input
+            await pilot.press(*"5", "enter", "enter", "enter", "enter")  # wall, K, fittings
             await ui.settle(pilot)
             assert not isinstance(app.screen, BranchForm)
             assert len(app.site.branches[0].segments) == 2

@@ -199,6 +199,13 @@ def test_curve_and_tolerances(ui, tmp_path):
             await pilot.press("tab", "tab")
             assert app.focused is meter.input
             await ui.type(pilot, "5")
+            # Enter goes field by field (a form); the last, the valve's Kv/Cv, keeps it.
+            await pilot.press("enter")
+            assert isinstance(app.screen, TolerancesScreen)
+            valve = dialog.query_one("#tol-valve_kv", Field)
+            assert "10 % · common practice" in valve.input.placeholder  # core's default
+            await pilot.press(*["enter"] * 6)
+            assert app.focused is valve.input
             await pilot.press("enter")
             await ui.settle(pilot)
             assert not isinstance(app.screen, TolerancesScreen)
@@ -223,6 +230,7 @@ def test_curve_and_tolerances(ui, tmp_path):
             await pilot.pause()
             field = app.screen.query_one("#tol-gauge_full_scale", Field)
             assert field.has_class("-error") and "below the pressure drop" in ui.text(app)
+            assert app.focused is field.input  # Enter stays on a value that reads wrong
             await pilot.press("escape")
             assert app.site.tolerances.gauge_full_scale == "30 psid"
 

@@ -305,7 +305,7 @@ class BranchesScreen(WorkScreen):
         spot = self.here()
         if spot is None:
             return
-        i = spot[0]
+        i, j, column = spot
         site = self.bw.site
         old_name = text_of(site.branches[i].name)
 
@@ -322,7 +322,8 @@ class BranchesScreen(WorkScreen):
 
             self.bw.edit(f"Edit {old_name}", change)
 
-        self.app.push_screen(BranchForm(site.branches[i], self.bw.unit), done)
+        self.app.push_screen(BranchForm(site.branches[i], self.bw.unit, start=column,
+                                        segment=j), done)
 
     def action_copy(self) -> None:
         spot = self.here()

@@ -1,8 +1,9 @@
 """The branch form: one branch with all its series segments, fittings and valve.
 
-Works on a copy of the branch; Enter in any field applies it, Escape leaves it unchanged. Each
-value is checked as it is typed (units, numbers, fitting names), and its message shows right
-under the field; the whole site is checked once the form is applied.
+Works on a copy of the branch; Enter moves to the next field and, on the last, applies it;
+Escape leaves it unchanged. Each value is checked as it is typed (units, numbers, fitting
+names, a value the branch needs), and its message shows right under the field; the whole site
+is checked once the form is applied.
 """
 
 from __future__ import annotations
@@ -15,6 +16,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.widgets import Label, Static
+from textual.widgets.input import Selection
 
 from branchwise.core.errors import InputError
 from branchwise.core.sitefile import BranchSpec, SegmentSpec
@@ -33,7 +35,7 @@ from ..widgets.branchcells import (
     wall_text,
 )
 from ..widgets.field import Field
-from .dialogs import Dialog
+from .dialogs import FORM_HINT, FORM_KEYS, Dialog
 
 SEGMENT_FIELDS = (
     ("size", "Size or bore", "diameter"),
@@ -79,7 +81,7 @@ class BranchForm(Dialog[BranchSpec | None]):
         Binding("ctrl+g", "remove_segment", "Remove segment", id="form-remove-segment",
                 tooltip="Remove the segment being edited"),
     ]
-    CLOSE_HINT = "Enter applies, Esc cancels"
+    CLOSE_HINT = FORM_HINT
     DEFAULT_CSS = """
     BranchForm { align: center middle; }
     BranchForm > Vertical {
@@ -94,20 +96,23 @@ class BranchForm(Dialog[BranchSpec | None]):
     """
 
     def __init__(self, branch: BranchSpec, unit: Callable[[str], str],
-                 title: str = "Branch") -> None:
+                 title: str = "Branch", start: str = "name", segment: int = 0) -> None:
+        """start: the field the cursor starts in (a column key of the branch table: ``name``,
+        ``size``, ``valve``…); segment: the segment of a segment's field."""
         super().__init__()
         self.branch = copy.deepcopy(branch)
         self.unit = unit
         self.title_text = title
-        self._focus_segment = 0
+        self._focus_segment = segment
+        self._start = start
 
     def compose(self) -> ComposeResult:
         br = self.branch
         with Vertical():
             yield Label(f"{self.title_text}: {text_of(br.name)}", classes="form-title",
                         markup=False)
-            yield Static("Enter: apply   Esc: cancel   Ctrl+N: add segment   Ctrl+G: remove "
-                         "segment", classes="form-keys", markup=False)
+            yield Static(f"{FORM_KEYS}\nCtrl+N: add a segment   Ctrl+G: remove this segment",
+                         classes="form-keys", markup=False)
             with VerticalScroll(id="form-fields"):
                 yield Field("Name", "name", value=text_of(br.name), id="f-name")
                 yield Field("Tag", "tag", value=text_of(br.tag), id="f-tag",
@@ -126,11 +131,15 @@ class BranchForm(Dialog[BranchSpec | None]):
         for field in self.query(Field):
             if field.kind:
                 field.set_unit(self.unit(field.kind))
-        fields = list(self.query(Field))
-        target = next((f for f in fields if f.path.startswith(f"{self._focus_segment}.")),
-                      fields[0])
-        target.input.focus()
         self._fitting_keys: set[str] | None = None
+        fields = {f.path: f for f in self.query(Field)}
+        j = min(self._focus_segment, len(self.branch.segments) - 1)
+        target = fields.get(self._start) or fields.get(f"{j}.{self._start}") or fields["name"]
+        if self._rebuilding:  # a segment added or removed: its first field
+            target = fields[f"{j}.size"]
+        target.input.focus()
+        if target.path == "name":  # typing replaces the name at once
+            target.input.selection = Selection(0, len(target.text))
 
     @staticmethod
     def _seg_text(seg: SegmentSpec, key: str) -> str:
@@ -167,13 +176,19 @@ class BranchForm(Dialog[BranchSpec | None]):
         try:
             if key == "name" and not text:
                 return "every branch needs a name"
+            if key in ("size", "length") and not text:
+                return ("required: a catalog size (4 in sch 40, DN80) or the bore" if key == "size"
+                        else "required: the pipe's length")
+            if key == "wall" and not text and self._plain_bore(field):
+                return "required for a bore: a roughness or a material"
             if key == "fittings" and text:
                 known = self._known_fittings()
                 for name in parse_fittings(text, "fittings"):
                     if known and name not in known:
                         return (f"no fitting '{name}'; known: {', '.join(sorted(known))}")
             if key in ("length",) and text:
-                parse_quantity(text, "length", key, self.unit("length"))
+                if parse_quantity(text, "length", key, self.unit("length")) < 0:
+                    return f"must not be negative, got {text}"
             if key == "size" and text:
                 probe = SegmentSpec()
                 set_size(probe, text, self.unit("diameter"))
@@ -196,6 +211,17 @@ class BranchForm(Dialog[BranchSpec | None]):
             return "must be a plain number"
         return None
 
+    def _plain_bore(self, field: Field) -> bool:
+        """True if the segment of ``field`` gives a bore (no catalog size, so no material)."""
+        segment = field.path.split(".")[0]
+        size = self.query_one(f"#f-{segment}-size", Field).text
+        probe = SegmentSpec()
+        try:
+            set_size(probe, size, self.unit("diameter"))
+        except InputError:
+            return False
+        return probe.diameter is not None
+
     def _known_fittings(self) -> set[str]:
         if self._fitting_keys is None:
             from branchwise.core.catalogs import fittings
@@ -206,12 +232,21 @@ class BranchForm(Dialog[BranchSpec | None]):
     def on_field_edited(self, event: Field.Edited) -> None:
         if not self._rebuilding:
             event.field.set_error(self.check(event.field))
+            if event.field.path.endswith(".size"):  # a bore needs a roughness, a size not
+                wall = self.query_one(f"#f-{event.field.path.split('.')[0]}-wall", Field)
+                wall.set_error(self.check(wall))
 
     def on_field_done(self, event: Field.Done) -> None:
+        """Enter: a field that reads wrong keeps the cursor, its message beside it; else
+        the next field; on the last field the form applies."""
         # An Enter typed just before Ctrl+N/Ctrl+G can arrive while the fields are being
         # rebuilt (the branch already has its new segments, the fields not yet): the form
-        # stays open on the new layout, and Enter there applies it.
-        if not self._rebuilding:
+        # stays open on the new layout.
+        if self._rebuilding:
+            return
+        message = self.check(event.field)
+        event.field.set_error(message)
+        if message is None and not self.next_field(event.field):
             self.apply()
 
     def apply(self) -> None:

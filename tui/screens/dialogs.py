@@ -11,10 +11,17 @@ from textual.await_complete import AwaitComplete
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.screen import ModalScreen
+from textual.widget import Widget
 from textual.widgets import Input, Label, Static
 from textual.widgets.input import Selection
 
+from ..session import shown_path
+
 ResultT = TypeVar("ResultT")
+
+FORM_KEYS = "Enter: next field (keeps on the last)   Tab/Shift+Tab: move   Esc: cancel"
+"""The key line of every dialog with several fields: one rule for all of them."""
+FORM_HINT = "Enter on the last field keeps, Esc cancels"
 
 
 async def _nothing() -> None:
@@ -46,6 +53,17 @@ class Dialog(ModalScreen[ResultT]):
 
     def on_key(self, event: events.Key) -> None:
         app_key(self, event, pass_keys=self.PASS_KEYS, hint=self.CLOSE_HINT)
+
+    def next_field(self, widget: Widget) -> bool:
+        """Enter in a field of a dialog with several: the focus goes to the next field shown
+        (True); on the last one it stays, and the caller keeps the dialog (False)."""
+        from ..widgets.field import Field
+
+        shown = [f for f in self.query(Field) if f.display]
+        if widget not in shown or widget is shown[-1]:
+            return False
+        shown[shown.index(widget) + 1].input.focus()  # type: ignore[arg-type]
+        return True
 
 
 def app_key(screen: ModalScreen, event: events.Key, *, pass_keys: bool, hint: str) -> bool:
@@ -155,8 +173,8 @@ class SaveAsScreen(Dialog[Path | None]):
     def compose(self) -> ComposeResult:
         with Vertical():
             yield Label(self.title_text, classes="save-title", markup=False)
-            yield Label(f"in {self.folder} (or type a full path)", classes="save-folder",
-                        markup=False)
+            yield Label(f"in {shown_path(self.folder)}/ (or type a full path)",
+                        classes="save-folder", markup=False)
             yield Input(self.default, id="save-name")
             yield Static("", classes="save-message", markup=False)
             yield Static("Enter: save   Esc: cancel", markup=False)
@@ -173,7 +191,7 @@ class SaveAsScreen(Dialog[Path | None]):
             return None
         path = Path(text).expanduser()
         if not path.is_absolute() and len(path.parts) == 1:
-            path = self.folder / path
+            path = self.folder.expanduser().absolute() / path
         if not path.suffix:
             path = path.with_suffix(self.suffix)
         return path

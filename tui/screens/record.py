@@ -20,7 +20,7 @@ from branchwise.core.sitefile import RecordSpec
 
 from ..session import text_of
 from ..widgets.field import Field
-from .dialogs import Dialog
+from .dialogs import FORM_HINT, FORM_KEYS, Dialog
 
 if TYPE_CHECKING:
     from branchwise.core.sitefile import Site
@@ -44,7 +44,8 @@ def today() -> str:
 
 
 class SiteDetailsScreen(Dialog[Details | None]):
-    """Edit the site's name and the walkdown record together; Enter keeps, Esc cancels."""
+    """Edit the site's name and the walkdown record together; Enter moves to the next field
+    and keeps on the last, Esc cancels."""
 
     BINDINGS = [
         Binding("escape", "cancel", "Cancel", id="details-cancel",
@@ -52,7 +53,7 @@ class SiteDetailsScreen(Dialog[Details | None]):
         Binding("ctrl+d", "today", "Today", id="details-today", priority=True,
                 tooltip="Put today's date in the date field"),
     ]
-    CLOSE_HINT = "Enter keeps, Esc cancels"
+    CLOSE_HINT = FORM_HINT
     DEFAULT_CSS = """
     SiteDetailsScreen { align: center middle; }
     SiteDetailsScreen > Vertical {
@@ -83,8 +84,8 @@ class SiteDetailsScreen(Dialog[Details | None]):
                 yield Field(label, f"record.{key}", value=text_of(getattr(self.record, key)),
                             placeholder=hint, id=f"details-{key}")
             yield Static("", classes="details-message", markup=False)
-            yield Static("Enter: keep   Esc: cancel   Tab: next field   Ctrl+D: today's date",
-                         classes="details-keys", markup=False)
+            yield Static(f"{FORM_KEYS}\nCtrl+D: today's date", classes="details-keys",
+                         markup=False)
 
     def on_mount(self) -> None:
         box = self.query_one("#details-name", Field).input
@@ -109,6 +110,12 @@ class SiteDetailsScreen(Dialog[Details | None]):
 
     def on_field_done(self, event: Field.Done) -> None:
         event.stop()
+        if event.field.path == "name" and not event.field.text.strip():
+            event.field.set_error("type the site's name")
+            return
+        event.field.set_error(None)
+        if self.next_field(event.field):
+            return
         name, record = self.details()
         if not name:
             message = self.query_one(".details-message", Static)

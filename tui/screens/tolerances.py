@@ -1,10 +1,11 @@
 """The ± limits behind the uncertainty band: see every one in use, and change the main ones.
 
 Each field shows the site's own value where its ``[tolerances]`` table has one; an empty field
-takes the common-practice default, shown greyed and marked so (no standard fixes these). Keep
-(Enter in a field, as in every dialog) checks the values with the core's own reader of the table and
-returns a new :class:`~branchwise.core.sitefile.TolerancesSpec`; the screen that asked puts it
-into the site as one undoable edit, and it is saved with the site.
+takes the common-practice default, shown greyed and marked so (no standard fixes these). Enter
+moves to the next field, as in every form; on the last field it keeps: the values are checked
+with the core's own reader of the table and a new
+:class:`~branchwise.core.sitefile.TolerancesSpec` goes back; the screen that asked puts it into
+the site as one undoable edit, and it is saved with the site.
 """
 
 from __future__ import annotations
@@ -22,12 +23,13 @@ from branchwise.core.sitefile import TolerancesSpec
 
 from ..session import text_of, with_unit
 from ..widgets.field import Field
-from .dialogs import Dialog
+from .dialogs import FORM_HINT, FORM_KEYS, Dialog
 
 if TYPE_CHECKING:
     from branchwise.core.sitefile import Site
 
-PERCENT = ("gauge_accuracy", "flow_meter_accuracy", "diameter", "length", "fitting_k")
+PERCENT = ("gauge_accuracy", "flow_meter_accuracy", "diameter", "length", "fitting_k",
+           "valve_kv")
 ROWS = (
     # site key, label, what a bare number means
     ("gauge_accuracy", "Gauge accuracy", "% of full scale"),
@@ -39,6 +41,7 @@ ROWS = (
     ("length", "Length ±", "%"),
     ("temperature", "Temperature ±", "K"),
     ("fitting_k", "Fitting K ±", "%"),
+    ("valve_kv", "Valve Kv/Cv ±", "%"),
 )
 INTRO = ("± limits on the readings and the records, used by the band (b). Grey values are "
          "common practice, not a standard: type the site's own to replace them.")
@@ -59,6 +62,7 @@ def defaults() -> dict[str, str]:
         "length": f"{d.length_percent:g} %",
         "temperature": f"{d.temperature_k:g} K",
         "fitting_k": f"{d.fitting_k_percent:g} %",
+        "valve_kv": f"{d.valve_kv_percent:g} %",
     }
 
 
@@ -73,6 +77,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
     BINDINGS = [
         Binding("escape", "cancel", "Cancel", id="tolerances-cancel"),
     ]
+    CLOSE_HINT = FORM_HINT
     DEFAULT_CSS = """
     TolerancesScreen { align: center middle; }
     TolerancesScreen > Vertical {
@@ -118,8 +123,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
                 yield Static(f"Roughness ranges kept from the site file: {kept}",
                              classes="tol-kept", markup=False)
             yield Static("", classes="tol-message", markup=False)
-            yield Static("Enter: keep   Esc: cancel   (Ctrl+Z undoes it later)",
-                         markup=False)
+            yield Static(FORM_KEYS, classes="tol-keys", markup=False)
 
     def on_mount(self) -> None:
         for field in self.query(Field):
@@ -183,10 +187,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
             field.set_error(None)
         message = ""
         if exc is not None:
-            path = exc.field.replace("roughness_factor[0]", "roughness_low").replace(
-                "roughness_factor[1]", "roughness_high").replace("roughness_factor",
-                                                                  "roughness_low")
-            reason = f"{exc.reason}, got {exc.value}" if exc.value != "" else exc.reason
+            path, reason = self._path_of(exc), self._reason(exc)
             if path in fields:  # said beside the field
                 fields[path].set_error(reason)
                 fields[path].input.focus()
@@ -206,11 +207,36 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
         self.dismiss(None if unchanged else spec)
 
     def on_field_done(self, event: Field.Done) -> None:
+        """Enter: a value that reads wrong keeps the cursor, its message beside it; else the
+        next field; on the last field the form keeps."""
         event.stop()
-        self.action_keep()
+        if self._field_error(event.field) is None and not self.next_field(event.field):
+            self.action_keep()
 
     def on_field_edited(self, event: Field.Edited) -> None:
         event.stop()
+        self._field_error(event.field)
+
+    def _field_error(self, field: Field) -> InputError | None:
+        """Check the form as far as ``field`` goes and say what is wrong with it beside it
+        (other fields keep their messages until they are edited)."""
+        try:
+            self.collect()
+        except InputError as exc:
+            if self._path_of(exc) == field.path:
+                field.set_error(self._reason(exc))
+                return exc
+        field.set_error(None)
+        return None
+
+    @staticmethod
+    def _path_of(exc: InputError) -> str:
+        return exc.field.replace("roughness_factor[0]", "roughness_low").replace(
+            "roughness_factor[1]", "roughness_high").replace("roughness_factor", "roughness_low")
+
+    @staticmethod
+    def _reason(exc: InputError) -> str:
+        return f"{exc.reason}, got {exc.value}" if exc.value != "" else exc.reason
 
     def action_cancel(self) -> None:
         self.dismiss(None)
