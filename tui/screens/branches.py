@@ -37,9 +37,11 @@ from ..widgets.branchcells import (
     WIDE_COLUMNS,
     cell_text,
     edit_text,
+    flow_cells,
     same_pipe,
     setter,
 )
+from ..widgets.branchtable import BranchTable
 from ..widgets.quiet import fill_table, put
 from .base import WorkScreen
 
@@ -74,7 +76,7 @@ class BranchesScreen(WorkScreen):
                 show=False, tooltip="Move the branch up"),
         Binding("shift+down,right_square_bracket", "move(1)", "Down", id="branches-down",
                 show=False, tooltip="Move the branch down"),
-        Binding("m", "edit_reading", "Reading", id="branches-reading", show=False,
+        Binding("m", "edit_cell('reading')", "Reading", id="branches-reading", show=False,
                 tooltip="Type a measured flow for the branch: it becomes the given"),
         Binding("escape", "cancel_edit", "Cancel", id="branches-cancel", show=False,
                 tooltip="Close the cell editor without changing the cell"),
@@ -82,7 +84,9 @@ class BranchesScreen(WorkScreen):
 
     def body(self) -> ComposeResult:
         with Vertical(id="branches"):
-            yield DataTable(id="branch-table", cursor_type="cell", zebra_stripes=True)
+            table = BranchTable(id="branch-table", cursor_type="cell", zebra_stripes=True)
+            table.fixed_columns = 1  # the names stay in sight as → scrolls to the valve
+            yield table
             yield Static("", id="branch-message", classes="message", markup=False)
             editor = Horizontal(id="cell-editor")
             editor.display = False  # shown while a cell is edited
@@ -112,7 +116,7 @@ class BranchesScreen(WorkScreen):
         bad = locate(outcome.field) if outcome is not None and outcome.error else None
         bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
             else None
-        flows = self._flows()
+        flows = flow_cells(app)
         self._rows = []
         rows: list[tuple[str, list[object]]] = []
         for i, br in enumerate(site.branches):
@@ -146,19 +150,6 @@ class BranchesScreen(WorkScreen):
         # The tag column comes and goes as the terminal crosses WIDE columns.
         if (self.app.size.width >= WIDE) != (len(self._keys) == len(COLUMNS)):
             self.redraw()
-
-    def _flows(self) -> dict[int, str]:
-        app = self.bw
-        shown = app.outcome if app.outcome is not None and app.outcome.ok else app.good
-        if shown is None or shown.solved is None:
-            return {}
-        names = {br.name.casefold(): br.flow for br in shown.solved.result.branches}
-        out = {}
-        for i, br in enumerate(app.site.branches):
-            flow = names.get(text_of(br.name).strip().casefold())
-            if flow is not None:
-                out[i] = app.fmt(flow, "flow", unit=False)
-        return out
 
     def here(self) -> tuple[int, int, str] | None:
         """(branch, segment, column key) under the cursor, or None for an empty table."""
@@ -210,9 +201,6 @@ class BranchesScreen(WorkScreen):
         box.value = edit_text(br, seg, key) if key != "name" else text_of(br.name)
         box.cursor_position = len(box.value)
         box.focus()
-
-    def action_edit_reading(self) -> None:
-        self.action_edit_cell("reading")
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         if event.input.id != "cell-input" or self._editing is None:
@@ -396,7 +384,6 @@ class BranchesScreen(WorkScreen):
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         if action == "cancel_edit":
             return True if self._editing is not None else None
-        if action in ("edit_cell", "form", "copy", "remove", "add_segment", "move",
-                      "edit_reading"):
+        if action in ("edit_cell", "form", "copy", "remove", "add_segment", "move"):
             return True if self.bw.site.branches else None
         return True

@@ -45,7 +45,8 @@ USES = {
     "custom": ("name", "density", "viscosity", "kinematic_viscosity"),
 }
 """The fields each built-in kind takes (a saved preset may take any, as overrides)."""
-HINTS = {"concentration": "by mass (30 %) unless vol is written (30 % vol)"}
+HINTS = {"concentration": "by mass (30 %) unless vol is written (30 % vol)",
+         "pressure": "empty: 1 atm"}
 
 
 class LiquidScreen(WorkScreen):
@@ -120,7 +121,8 @@ class LiquidScreen(WorkScreen):
             field = self.query_one(f"#fluid-{name}", Field)
             field.display = name in uses
             field.show(text_of(getattr(spec, name)))
-            field.set_unit(app.unit_text(qkind) if qkind else "")
+            unit = app.unit_text(qkind) if qkind else ""
+            field.set_unit(f"{unit} abs" if name == "pressure" else unit)  # not gauge
             wrong = ref is not None and ref.area == "fluid" and ref.name == name
             field.set_error(_reason(error, app.say) if wrong else None)
         hint = self.query_one("#liquid-hint", Static)

@@ -60,6 +60,8 @@ class SplitScreen(GivenFindEdits, PanelScreen):
                 tooltip="Type the value of the given condition"),
         Binding("f", "pick('find-kind')", "Find", id="split-find",
                 tooltip="Choose what to find: the flows, or a diameter, length or roughness"),
+        Binding("o", "pick('find-branch')", "Of branch", id="split-of", show=False,
+                tooltip="Choose the branch whose diameter, length or roughness is found"),
         Binding("t", "focus('find-target')", "Target", id="split-target", show=False,
                 tooltip="Type the target flow of the branch being sized"),
         Binding("z", "focus('lift-value')", "Lift", id="split-lift", show=False,
@@ -188,8 +190,9 @@ class SplitScreen(GivenFindEdits, PanelScreen):
         self.query_one("#split-results").set_class(stale, "-stale")
         table = self.query_one("#results", TextTable)
         u = app.unit_text
-        # Below 100 columns the share bar is shorter and Re compact (180k), so that the losses
-        # stay on screen at 80×24; the table still scrolls sideways if names are long.
+        # Below 100 columns the share is a bare percentage and Re compact (180k), so that the
+        # losses stay on screen at 80×24, in US units too; the table still scrolls sideways
+        # if names are long.
         wide = self.app.size.width >= 100
         columns = [("Branch", False), (f"Flow {u('flow')}", True), ("Share", False),
                    (f"V {u('velocity')}", True), ("Re", True), ("f", True),
@@ -216,7 +219,7 @@ class SplitScreen(GivenFindEdits, PanelScreen):
                 rows.append([
                     br.name if first else f"  └ {'segment' if wide else 'seg.'} {j + 1}",
                     app.fmt(br.flow, "flow", unit=False) if first else "",
-                    share_bar(br.share, 6 if wide else 3) if first else "",
+                    (share_bar(br.share, 6) if wide else _percent(br.share)) if first else "",
                     app.fmt(seg.velocity, "velocity", 3, unit=False),
                     f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
                     f"{seg.friction_factor:.4f}",
@@ -314,7 +317,7 @@ class SplitScreen(GivenFindEdits, PanelScreen):
         if action == "export":
             outcome = self.bw.outcome
             return True if outcome is not None and outcome.ok else None
-        if action == "focus" and parameters == ("find-target",):
+        if parameters in (("find-target",), ("find-branch",)):
             return True if find_of(self.bw.site) != "flows" else None
         if action == "focus" and parameters == ("results",):
             # Esc: shown (with Enter's meaning) while typing in a field, hidden otherwise.
@@ -326,6 +329,8 @@ class SplitScreen(GivenFindEdits, PanelScreen):
             return "Nothing to write yet: the site does not solve (see the message above)."
         if action == "focus" and parameters == ("find-target",):
             return "No target flow while finding the flows: f chooses what to find."
+        if action == "pick" and parameters == ("find-branch",):
+            return "No branch to size while finding the flows: f chooses what to find."
         return ""
 
 
@@ -337,6 +342,14 @@ def _compact(number: float) -> str:
         if abs(number) >= scale:
             return f"{number / scale:.3g}{suffix}"
     return f"{number:.0f}"
+
+
+def _percent(share: float) -> str:
+    """A share of the total flow as ``53%`` or ``6.8%`` (a dash when there is none)."""
+    if not share == share:  # NaN: no total flow
+        return "—"
+    percent = share * 100
+    return f"{percent:.1f}%" if abs(percent) < 10 else f"{percent:.0f}%"
 
 
 def _hidden(widget: Static) -> Static:

@@ -49,9 +49,18 @@ class GivenFindEdits:
             self._switch_find(str(event.value))
         elif ident == "find-branch":
             name = str(event.value)
-            if name != text_of(self.bw.site.solve.branch if self.bw.site.solve else None):
-                self.bw.edit(f"Find on {name}", lambda s: set_find(s, find_of(s), branch=name,
-                                                                   segment=1))
+            site = self.bw.site
+            old = text_of(site.solve.branch if site.solve else None)
+            if name != old:
+                # A target still as filled in for the old branch follows to the new one
+                # (its present flow); a target the person typed stays.
+                names = [branch_name(site, i) for i in range(len(site.branches))]
+                target = text_of(site.solve.target_flow if site.solve else None)
+                if old in names and target == self._current("measured_flow", names.index(old),
+                                                             down=True):
+                    target = self._current("measured_flow", names.index(name), down=True)
+                self.bw.edit(f"Find on {name}", lambda s: set_find(
+                    s, find_of(s), branch=name, segment=1, target=target or None))
         elif ident == "find-segment":
             seg = int(str(event.value))
             self.bw.edit(f"Segment {seg}", lambda s: set_find(s, find_of(s), segment=seg))
@@ -104,19 +113,23 @@ class GivenFindEdits:
         app.edit(f"Given: {label}", lambda s: set_given(s, new_kind, text, new_index))
         self.query_one("#given-value", Input).focus()
 
-    def _current(self, kind: str, index: int | None) -> str:
-        """The present answer's value of a quantity about to become the given (or '')."""
+    def _current(self, kind: str, index: int | None, *, down: bool = False) -> str:
+        """The present answer's value of a quantity about to become the given or the target
+        (or ''), to :data:`CARRIED_DIGITS` figures so the answer stays the same; ``down``
+        rounds toward zero (a target flow never above what the branch carries)."""
         good = self.bw.good
         if good is None or good.solved is None:
             return ""
         result = good.solved.result
         if kind == "pressure_drop":
-            return self.bw.fmt(result.pressure_drop, "pressure")
-        if kind == "total_flow":
-            return self.bw.fmt(result.total_flow, "flow")
-        if index is not None and index < len(result.branches):
-            return self.bw.fmt(result.branches[index].flow, "flow")
-        return ""
+            value, what = result.pressure_drop, "pressure"
+        elif kind == "total_flow":
+            value, what = result.total_flow, "flow"
+        elif index is not None and index < len(result.branches):
+            value, what = result.branches[index].flow, "flow"
+        else:
+            return ""
+        return carried_text(value, what, self.bw.unit(what), down=down)
 
     def _switch_find(self, find: str) -> None:
         app = self.bw
@@ -141,11 +154,33 @@ class GivenFindEdits:
             kind, index = given_of(site)
             candidates = [n for i, n in enumerate(names) if i != index] or names
             branch = candidates[0] if candidates else ""
+        # The flow it carries now, rounded down: the installed size (or length, roughness)
+        # comes back, not the next size up for a hair more flow than the branch carries.
         target = text_of(solve.target_flow if solve else None) or parked.get(
             "solve.target_flow", "") or self._current("measured_flow", names.index(branch)
-                                                      if branch in names else None)
+                                                      if branch in names else None, down=True)
         app.edit(f"Find the {find}", lambda s: set_find(s, find, branch, target))
         self.query_one("#find-target", Input).focus()
+
+
+CARRIED_DIGITS = 7
+"""Significant figures of a value carried from the answer into a field: enough that the answer
+does not move (a 4-figure flow as the target of a found diameter lands a hair off the installed
+bore), few enough to read."""
+
+
+def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False) -> str:
+    """``value_si`` as field text in ``unit`` to :data:`CARRIED_DIGITS` figures; ``down``
+    rounds toward zero."""
+    import math
+
+    from branchwise.core.units import format_number, to_unit
+
+    value = to_unit(value_si, kind, unit)
+    if down and value and math.isfinite(value):
+        step = 10.0 ** (math.floor(math.log10(abs(value))) - CARRIED_DIGITS + 1)
+        value = math.copysign(math.floor(abs(value) / step) * step, value)
+    return f"{format_number(value, CARRIED_DIGITS)} {unit}"
 
 
 def _park_key(site: object, kind: str, index: int | None) -> str:

@@ -103,6 +103,8 @@ class PanelScreen(WorkScreen):
         self.view = "table" if self.view == name else name
         for view, ident in VIEWS.items():
             self.query_one(ident).display = view == self.view
+        for totals in self.query("#totals"):  # the band has its own total and Δp rows:
+            totals.display = self.view != "band" or self.app.size.height >= 30  # room for it
         main = self.main_view()
         if main is not None:
             main.focus()

@@ -27,7 +27,10 @@ if TYPE_CHECKING:
     from ..app import BranchwiseApp
 
 RANK_BAR = 14
-"""Cells of a full bar in the ranking (a share of 100 %)."""
+"""Cells of a full bar in the ranking (a share of 100 %); :data:`RANK_BAR_NARROW` below
+:data:`WIDE` columns."""
+RANK_BAR_NARROW = 6
+WIDE = 100
 
 
 @dataclass(frozen=True, eq=False)
@@ -102,18 +105,21 @@ def band_body(app: BranchwiseApp, sr: SiteResult) -> Text:
         top, more, rest = bandtext.ranked(u, focus)
         what = {"total flow": "total flow", "pressure drop": "pressure drop"}.get(
             focus, "found " + (sr.result.solved.quantity if sr.result.solved else "value"))
-        out.append(f"\n\nWhat dominates the spread of the {what} — measure these first:\n",
-                   style="bold")
+        narrow = app.size.width < WIDE
+        # Below 100 columns (a 24-line terminal, most likely) the ranking starts right under
+        # the table, so that more of it is in sight.
+        out.append(f"\n{'' if narrow else chr(10)}What dominates the spread of the {what} — "
+                   "measure these first:\n", style="bold")
         if not top:
             out.append(f"  no input tolerance moves the {what}", style="dim")
         limits = {i.name: bandtext.tolerance_text(i, app.unit_system) for i in u.inputs}
         name_w = max((cell_len(short_name(n)) for n, _ in top), default=0)
-        limit_w = max((cell_len(limits.get(n, "")) for n, _ in top), default=0)
+        # The share first, so that a long name or limit never pushes it off a narrow screen.
         for i, (name, share) in enumerate(top):
-            out.append(("\n" if i else "") + f"  {short_name(name).ljust(name_w)}  "
-                       f"{limits.get(name, '').ljust(limit_w)}  ")
-            out.append(bandtext.bar(share, RANK_BAR), style="cyan")
-            out.append(f" {format_number(share * 100, 3).rjust(5)} %")
+            out.append(("\n" if i else "") + f"  {format_number(share * 100, 3).rjust(5)} % ")
+            out.append(bandtext.bar(share, RANK_BAR_NARROW if narrow else RANK_BAR),
+                       style="cyan")
+            out.append(f"  {short_name(name).ljust(name_w)}  {limits.get(name, '')}")
         if more:
             out.append(f"\n  … {more} more input{'s' if more > 1 else ''}, "
                        f"{format_number(rest * 100, 2)} % together", style="dim")

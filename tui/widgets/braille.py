@@ -64,6 +64,11 @@ class BrailleCanvas:
                 err += dx
                 y0 += sy
 
+    @property
+    def marks(self) -> frozenset[tuple[int, int]]:
+        """The cells (col, row) that hold a mark."""
+        return frozenset(self._marks)
+
     def mark(self, col: int, row: int, char: str, style: str = "") -> None:
         """Put ``char`` in the cell (col, row) in place of its dots."""
         if 0 <= col < self.width and 0 <= row < self.height:

@@ -11,10 +11,14 @@ from __future__ import annotations
 
 import re
 from collections.abc import Callable
+from typing import TYPE_CHECKING
 
 from branchwise.core.sitefile import BranchSpec, SegmentSpec
 
 from ..session import is_bare_number, is_plain_diameter, text_of, with_unit
+
+if TYPE_CHECKING:
+    from ..app import BranchwiseApp
 
 COLUMNS = (
     ("name", "Branch"),
@@ -91,6 +95,21 @@ def cell_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:
         "valve": lambda: valve_text(br),
         "reading": lambda: text_of(br.measured_flow),
     }.get(column, lambda: "")()
+
+
+def flow_cells(app: BranchwiseApp) -> dict[int, str]:
+    """The Flow column: each branch's flow in the present answer (or the last good one),
+    by branch index, in the display unit; a branch the answer does not name has none."""
+    shown = app.outcome if app.outcome is not None and app.outcome.ok else app.good
+    if shown is None or shown.solved is None:
+        return {}
+    names = {br.name.casefold(): br.flow for br in shown.solved.result.branches}
+    out = {}
+    for i, br in enumerate(app.site.branches):
+        flow = names.get(text_of(br.name).strip().casefold())
+        if flow is not None:
+            out[i] = app.fmt(flow, "flow", unit=False)
+    return out
 
 
 def edit_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:

@@ -1,4 +1,5 @@
 """A one-line pick-one control: shows the chosen label; Enter opens the list, ←/→ step through.
+Focused, it is drawn in reverse colours (plain to see on any theme, and without colour).
 
 Lighter than Textual's Select (whose drop-down list is built with the screen): the list here
 is a small dialog built only when opened, which keeps the first screen quick to draw.
@@ -27,7 +28,7 @@ class Choice(Widget, can_focus=True):
     ]
     DEFAULT_CSS = """
     Choice { height: 1; width: 24; background: $boost; padding: 0 1; }
-    Choice:focus { background: $primary 40%; text-style: bold; }
+    Choice:focus { text-style: bold reverse; }
     """
 
     @dataclass

@@ -22,6 +22,9 @@ GUIDE_STYLE = "grey50"
 POINT_STYLE = "bold bright_red"
 POINT_CHAR = "◆"
 AXIS_STYLE = "grey62"
+MARKERS = ("●", "○", "▲", "△", "■", "□", "+", "×")
+"""One glyph per series, set on its line and in the legend, so the lines read apart without
+colour too (after the eighth series the glyphs come round again)."""
 
 
 @dataclass(frozen=True)
@@ -122,6 +125,11 @@ def draw(data: PlotData | None, width: int, height: int, empty: str = "") -> Tex
             canvas.line(a, b, c, d, s.style)
         if len(points) == 1:
             canvas.dot(*points[0], s.style)
+    for k, s in enumerate(data.series):
+        points = [(px(x), py(y)) for x, y in zip(s.x, s.y, strict=False)
+                  if math.isfinite(x) and math.isfinite(y)]
+        _mark_series(canvas, points, MARKERS[k % len(MARKERS)], s.style,
+                     (k + 1) / (len(data.series) + 1))
     if data.point is not None:
         canvas.mark(ox // 2, oy // 4, POINT_CHAR, POINT_STYLE)
 
@@ -136,11 +144,29 @@ def draw(data: PlotData | None, width: int, height: int, empty: str = "") -> Tex
     return Text("\n").join(lines)
 
 
+def _mark_series(canvas: BrailleCanvas, points: list[tuple[int, int]], marker: str,
+                 style: str, where: float) -> None:
+    """Set ``marker`` on a series' line: at the point ``where`` (0…1) along it, staggered from
+    one series to the next so that marks on lines that run close do not cover each other,
+    and at its right end; never over another series' mark (the operating point, drawn
+    after, goes over it)."""
+    if not points:
+        return
+    ends = sorted(points)
+    for x, y in {ends[round(where * (len(ends) - 1))], ends[-1]}:
+        at = (x // 2, y // 4)
+        if 0 <= at[0] < canvas.width and 0 <= at[1] < canvas.height and \
+                at not in canvas.marks:
+            canvas.mark(*at, marker, f"bold {style}")
+
+
 def _legend(data: PlotData, width: int) -> list[Text]:
-    """The y-axis title, then one entry per series; on two lines at most (then "…")."""
+    """The y-axis title, then one entry per series, with its line's glyph; on two lines at
+    most (then "…")."""
     lines = [Text(data.y_title, style="bold " + AXIS_STYLE, no_wrap=True)]
-    for s in data.series:
-        entry = Text.assemble(("━━ ", s.style), (s.label, ""))
+    for k, s in enumerate(data.series):
+        marker = MARKERS[k % len(MARKERS)]
+        entry = Text.assemble((f"━{marker}━ ", f"bold {s.style}"), (s.label, ""))
         if cell_len(lines[-1].plain) + 2 + entry.cell_len > width:
             if len(lines) == 2:
                 lines[-1].append(" …")

@@ -24,6 +24,9 @@ class TextTable(ScrollableContainer, can_focus=True):
     TextTable > Static { width: auto; }
     TextTable:focus > Static { background: $boost; }
     """
+    FOCUS_MARK = "▶"
+    """Leads the header row while the table has the focus (so it shows without colour too);
+    the header is then drawn in the theme's accent colour."""
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
@@ -39,14 +42,30 @@ class TextTable(ScrollableContainer, can_focus=True):
                 [str(c) for c in r] for r in self.rows]:
             return
         self.columns, self.rows = columns, rows
+        self._draw()
+
+    def on_focus(self) -> None:
+        self._draw(focused=True)  # has_focus is set only after this event
+
+    def on_blur(self) -> None:
+        self._draw(focused=False)
+
+    def _draw(self, focused: bool | None = None) -> None:
+        columns, rows = self.columns, self.rows
+        focused = self.has_focus if focused is None else focused
+        head = "bold reverse"
+        if focused:
+            accent = self.app.theme_variables.get("accent")
+            head = f"bold reverse {accent}" if accent else head
         widths = [cell_len(label) for label, _ in columns]
         for row in rows:
             for c, cell in enumerate(row):
                 widths[c] = max(widths[c], cell_len(str(cell)))
         out = Text(no_wrap=True, overflow="crop")
         for c, (label, right) in enumerate(columns):
-            out.append(" " + (label.rjust(widths[c]) if right else label.ljust(widths[c])) + " ",
-                       style="bold reverse")
+            lead = self.FOCUS_MARK if focused and c == 0 else " "
+            out.append(lead + (label.rjust(widths[c]) if right else label.ljust(widths[c]))
+                       + " ", style=head)
         for row in rows:
             out.append("\n")
             for c, cell in enumerate(row):
