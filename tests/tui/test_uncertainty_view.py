@@ -74,8 +74,9 @@ def check_band(app, ui) -> None:
     top, share = ref.ranking["total flow"][0]
     text = ui.text(app)
     assert "What dominates the spread of the total flow" in text
-    assert re.search(re.escape(top.replace("branch '", "").replace("'", "")) + r"\s.*█", text)
-    assert f"{format_number(share * 100, 3)} %" in text
+    # The top driver's line: its share first, then the bar, then its name.
+    assert re.search(re.escape(f"{format_number(share * 100, 3)} %") + r" █.*"
+                     + re.escape(top.replace("branch '", "").replace("'", "")), text)
 
 
 def test_band_by_keys(ui, monkeypatch):
