@@ -219,6 +219,10 @@ def sizes(standard: str, schedule: str) -> list[PipeSize]:
     return [make(t, s.nominal, name) for s in t.sizes if s.nominal in walls]
 
 
+BORE_MATCH = 1e-6
+"""Relative slack when matching a found bore to a catalog bore (far below any wall tolerance)."""
+
+
 def smallest_at_least(inner_diameter_m: float, like: PipeSize) -> PipeSize | None:
     """The smallest size of ``like``'s standard and schedule whose bore is ≥ ``inner_diameter_m``.
 
@@ -228,7 +232,9 @@ def smallest_at_least(inner_diameter_m: float, like: PipeSize) -> PipeSize | Non
     required = positive("inner_diameter", inner_diameter_m)
     candidates = sorted(sizes(like.standard, like.schedule), key=lambda p: p.inner_diameter_m)
     for candidate in candidates:
-        if candidate.inner_diameter_m >= required * (1.0 - 1e-12):
+        # 1e-6 relative (0.1 µm in 100 mm): a bore found for the flow a pipe carries now comes
+        # back as that pipe, whatever the last digits of the solve.
+        if candidate.inner_diameter_m >= required * (1.0 - BORE_MATCH):
             return dn_labelled(candidate) if like.label.startswith("DN") else candidate
     return None
 

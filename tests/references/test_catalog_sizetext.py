@@ -173,3 +173,21 @@ def test_a_size_written_by_dn_is_shown_by_dn_and_reads_back():
     assert bigger is not None and bigger.label == "DN80 sch 40"
     assert smallest_at_least(p.inner_diameter_m * 1.01, parse_size("NPS 2-1/2 sch 40")).label \
         == "NPS 3 sch 40"
+
+
+@pytest.mark.parametrize("digits", [17, 10, 7])
+@pytest.mark.parametrize("name", ["AHU-1 coil", "AHU-2 coil"])
+def test_sizing_a_branch_for_the_flow_it_carries_gives_back_its_own_size(name, digits):
+    # The round trip a site engineer does first: the found bore for today's flow must give the
+    # installed catalog size (ASME B36.10M), not the next one up.
+    from branchwise.core.sitefile import SolveSpec, demo_site
+    from branchwise.core.sitesolve import solve_site
+
+    site = demo_site()
+    flows = solve_site(site).result
+    q = float(flows.flows[[b.name for b in flows.network.branches].index(name)])
+    # the flow as read off a screen: to 7, 10 or all its figures, rounded either way
+    site.solve = SolveSpec(find="diameter", branch=name, target_flow=f"{q:.{digits}g} m^3/s")
+    solved = solve_site(site)
+    installed = parse_size(next(b for b in site.branches if b.name == name).segments[0].size)
+    assert solved.catalog is not None and solved.catalog.size == installed

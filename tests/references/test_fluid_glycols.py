@@ -88,7 +88,8 @@ def test_glycol_names_read_well() -> None:
     assert fluid.name == "Propylene glycol 30 % by mass at 5.0 °C"
     assert fluid.kind == "propylene-glycol"
     assert "INCOMP::MPG" in fluid.source
-    assert glycol("ethylene-glycol", 263.15, 0.325).name == "Ethylene glycol 32.5 % by mass at -10.0 °C"
+    eg = glycol("ethylene-glycol", 263.15, 0.325)
+    assert eg.name == "Ethylene glycol 32.5 % by mass at -10.0 °C"
 
 
 @pytest.mark.parametrize("kind", CODES)

@@ -61,7 +61,8 @@ def test_site_file_concentration_by_volume(typed: str) -> None:
     from branchwise.core.sitefile import parse_site
 
     def site(concentration: str):
-        return parse_site(f'format = 1\n[fluid]\nkind = "ethylene-glycol"\ntemperature = "20 degC"\n'
+        return parse_site('format = 1\n[fluid]\nkind = "ethylene-glycol"\n'
+                          'temperature = "20 degC"\n'
                           f'concentration = "{concentration}"\n[conditions]\n'
                           'pressure_drop = "10 kPa"\n[[branches]]\nname = "A"\n'
                           'diameter = "50 mm"\nlength = "10 m"\n')
