@@ -65,21 +65,25 @@ class Solved:
 class Warning:
     """Something the engineer should know. ``code`` is stable for scripts.
 
-    ``message`` states its quantities in SI; ``marked`` is the same text with the quantities
-    marked (see ``core.messages``), for a boundary that states them in the user's units.
+    ``marked`` is the text with its quantities marked (see ``core.messages``), for a boundary
+    that states them in the user's units; ``message`` states them in SI (worked out when first
+    read: a network of thousands of fast branches has thousands of warnings).
     """
 
     code: str
     branch: str | None
-    message: str
-    marked: str = field(default="", compare=False, repr=False)
+    marked: str
+
+    @cached_property
+    def message(self) -> str:
+        from .messages import render
+
+        return render(self.marked)
 
     @classmethod
     def of(cls, code: str, branch: str | None, marked_text: str) -> Warning:
-        """A warning from marked text: the plain message is its SI rendering."""
-        from .messages import render
-
-        return cls(code, branch, render(marked_text), marked_text)
+        """A warning from marked text (the same as the constructor; kept for readability)."""
+        return cls(code, branch, marked_text)
 
 
 @dataclass(frozen=True)
