@@ -237,3 +237,37 @@ def test_a_double_enter_closes_the_tolerances_dialog_once(ui):
         ui.run(scenario)
     except Exception as exc:  # the app's own error, re-raised by run_test
         raise AssertionError(f"{type(exc).__name__}: {exc}") from exc
+
+
+def test_an_undo_under_the_cell_editor_takes_its_cell_away(ui):
+    """Large sweep seed 3: a cell editor was open when Ctrl+Z undid the addition of its branch;
+    Enter then wrote into a branch that no longer existed (IndexError), or, had another branch
+    taken its place, into the wrong one. Forced here: a change adds a branch, the editor opens
+    on it, an undo takes it away, Enter."""
+    from branchwise.core.sitefile import BranchSpec, SegmentSpec
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("f3")
+            await ui.settle(pilot)
+            before = len(app.site.branches)
+            app.edit("Add Spare", lambda s: s.branches.append(
+                BranchSpec(name="Spare", segments=[SegmentSpec(size="2 in sch 40")])))
+            await ui.settle(pilot)
+            screen = app.screen
+            screen.query_one("#branch-table").move_cursor(row=len(screen._rows) - 1)
+            screen.action_edit_cell("length")
+            await ui.settle(pilot)
+            assert screen._editing is not None and screen._editing[0] == before
+            app.action_undo()  # the addition goes while the editor is open
+            await ui.settle(pilot)
+            assert len(app.site.branches) == before and screen._editing is None
+            await pilot.press("1", "2", "enter")
+            await ui.settle(pilot)
+            assert app._exception is None and len(app.site.branches) == before
+            assert all(seg.length != "12" and seg.length != "12 m"
+                       for br in app.site.branches for seg in br.segments)
+
+    ui.run(scenario)

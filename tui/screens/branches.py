@@ -59,6 +59,7 @@ class BranchesScreen(WorkScreen):
     _keys: list[str] = [key for key, _ in COLUMNS if key not in WIDE_COLUMNS]
     """The keys of the columns shown, in order."""
     _editing: tuple[int, int, str] | None = None
+    _editing_revision = 0
 
     BINDINGS = [
         Binding("enter", "edit_cell", "Edit", id="branches-edit",
@@ -103,6 +104,10 @@ class BranchesScreen(WorkScreen):
 
     def redraw(self) -> None:
         app, site = self.bw, self.bw.site
+        if self._editing is not None and app.session.revision != self._editing_revision:
+            self._close_editor()  # an undo or redo under the editor: its cell may be gone
+            app.notify("The site changed while you typed (undo or redo): the cell was closed, "
+                       "nothing written.", severity="warning")
         table = self.query_one("#branch-table", DataTable)
         wide = self.app.size.width >= WIDE
         self._keys = [key for key, _ in COLUMNS if wide or key not in WIDE_COLUMNS]
@@ -194,6 +199,7 @@ class BranchesScreen(WorkScreen):
         where = branch_name(self.bw.site, i) + (f" segment {j + 1}" if len(br.segments) > 1
                                                 and key not in BRANCH_COLUMNS else "")
         self._editing = (i, j, key)
+        self._editing_revision = self.bw.session.revision
         self.query_one("#cell-label", Label).update(f"{where} · {label}{unit}: ")
         editor = self.query_one("#cell-editor")
         editor.display = True
