@@ -28,11 +28,11 @@ from .model import (
     PressureDrop,
     Segment,
     TotalFlow,
-    kv_from_cv,
 )
 from .sitefile import BranchSpec, SegmentSpec, Site, Value
 from .sitefluid import PresetSource, build_fluid, text_value
 from .units import describe, parse_quantity
+from .valvetext import series_kv
 
 if TYPE_CHECKING:
     from .uncertainty import Tolerances
@@ -188,41 +188,8 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
         raise InputError(f"{path}.valve_cv", describe(br.valve_cv),
                          "give valve_kv or valve_cv, not both")
     value, unit = (br.valve_cv, "cv") if br.valve_cv is not None else (br.valve_kv, "kv")
-    kv = _series_kv(value, f"{path}.valve_{unit}", unit)
+    kv = series_kv(value, f"{path}.valve_{unit}", unit)
     return Branch(name, tuple(segs), kv), sizes, ks, paths
-
-
-_SERIES = re.compile(r"(?<=[\d.\s])\+")
-"""A plus sign between two numbers (not the one of an exponent, 1e+3)."""
-_COEFFICIENT = re.compile(r"\s*(kv|cv)\s*[:=]?\s*(.*)\Z", re.IGNORECASE | re.DOTALL)
-
-
-def _series_kv(value: Value, path: str, unit: str) -> float | None:
-    """One Kv (m³/h at 1 bar) for the valves, strainers and coils a branch has in series, given
-    as ``"160 + 40"``, ``"Cv 45 + Cv 95"`` or ``"Kv 160 + Cv 48"`` (``unit``, kv or cv, where a
-    term names none), or one number: each passes the same flow and their pressure drops add,
-    Δp ∝ (Q/Kv)², so 1/Kv² = Σ 1/Kv_i²."""
-    if value is None:
-        return None
-    terms = _SERIES.split(value.strip()) if isinstance(value, str) else [value]
-    if isinstance(value, str) and len(terms) == 1 and "," in value:
-        raise InputError(path, describe(value), "use a decimal point; several valves in "
-                         "series read like 160 + 40")
-    kvs = []
-    for term in terms:
-        kind = unit
-        if isinstance(term, str):
-            if not term.strip():
-                raise InputError(path, describe(value),
-                                 "several valves in series read like 160 + 40")
-            if m := _COEFFICIENT.match(term):
-                kind, term = m.group(1).lower(), m.group(2)
-        number = plain_number(term, path)
-        _at_least(number, path, value, 0.0, strict=True)
-        kvs.append(kv_from_cv(number) if kind == "cv" else number)  # type: ignore[arg-type]
-    if len(kvs) == 1:
-        return kvs[0]
-    return 1 / math.hypot(*(1 / kv for kv in kvs))
 
 
 # ---- conditions and what to find -----------------------------------------------------------

@@ -62,3 +62,15 @@ def test_each_term_may_name_its_coefficient(line: str, reference_k: float) -> No
     kv = build(parse_site(_site(line))).network.branches[0].valve_kv
     # fluids' Cv_to_K takes Cv = 1.156 Kv; ours the exact ratio (IEC 60534): within 0.1 %.
     assert k_from_kv(kv, BORE) == pytest.approx(reference_k, rel=1e-3)
+
+
+@pytest.mark.parametrize(("value", "words"), [
+    ('"Kv 160 + Cv"', "term 2 has no number"),
+    ('"160 ++ 40"', "term 2 is not a plain number"),
+    ('"1e-320 + 1"', "term 1 is not a valve's flow coefficient"),
+    ('"160 + nan"', "term 2 must be a positive number"),
+])
+def test_a_bad_term_is_named_and_the_whole_text_quoted(value: str, words: str) -> None:
+    with pytest.raises(InputError) as caught:
+        build(parse_site(_site(f"valve_kv = {value}")))
+    assert words in caught.value.reason and caught.value.value == value.strip('"')
