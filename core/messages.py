@@ -15,7 +15,8 @@ import re
 from collections.abc import Callable
 
 _OPEN, _CLOSE = "\ue000", "\ue001"  # private-use characters: never typed, never printed
-_MARK = re.compile(f"{_OPEN}([a-z_]+) ([^{_CLOSE}]+){_CLOSE}")
+_MARK = re.compile(f"{_OPEN}([a-z_]+) ([-+]?(?:[0-9.]+(?:[eE][-+]?[0-9]+)?|inf|nan)){_CLOSE}")
+"""A marker as :func:`marked` writes it; anything else between the characters is left as it is."""
 
 
 def marked(kind: str, value_si: float) -> str:

@@ -74,3 +74,19 @@ def test_a_valve_coefficient_reads_as_cv_in_us_units():
     # IEC 60534-1: Cv = 1.156 Kv (US gpm at 1 psi against m³/h at 1 bar).
     assert units.restate(f"needs {kv_text(35.2)}", "us") == "needs Cv 40.7"
     assert units.restate(f"needs {kv_text(35.2)}", "si") == "needs Kv 35.2"
+
+
+def test_text_that_only_looks_like_a_marker_is_left_alone():
+    from branchwise.core.messages import render
+
+    assert render("name \ue000flow x\ue001 end") == "name \ue000flow x\ue001 end"  # no crash
+
+
+def test_a_file_holding_the_marker_characters_is_refused_by_line():
+    from branchwise.core.errors import InputError
+    from branchwise.core.sitefile import parse_site
+
+    text = 'format = 1\n[fluid]\nkind = "\ue000flow 1e-3\ue001"\n'
+    with pytest.raises(InputError) as caught:
+        parse_site(text, "site.toml")
+    assert caught.value.field == "site.toml line 3" and "private-use" in caught.value.reason
