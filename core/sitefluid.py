@@ -59,8 +59,10 @@ def fluid_inputs(site: Site, presets: PresetSource | None = None) -> tuple[str, 
 
     spec = site.fluid
     kind = text_value(spec.kind, "fluid.kind") or "water"
+    spelled = "-".join(kind.lower().replace("_", " ").split())  # "Propylene glycol" too
+    kind = spelled if spelled in FLUID_KINDS else kind
     values: dict[str, tuple[Value, str | None]] = {}
-    if kind.lower() not in FLUID_KINDS:
+    if kind not in FLUID_KINDS:
         preset = _fluid_preset(kind, presets, FLUID_KINDS)
         kind = str(preset.get("kind", "custom"))
         for key, value in preset.items():  # a preset's bare numbers are SI

@@ -72,3 +72,14 @@ def test_site_file_concentration_by_volume(typed: str) -> None:
     expected = glycol("ethylene-glycol", T20, mass_fraction_from_volume("ethylene-glycol", 0.3))
     assert by_volume.density == pytest.approx(expected.density, rel=1e-12)
     assert by_volume.density > by_mass.density  # more glycol by mass than 30 %
+
+
+@pytest.mark.parametrize("spelled", ["Ethylene-Glycol", "ethylene glycol", "ETHYLENE_GLYCOL"])
+def test_the_kind_is_read_however_it_is_capitalised_or_spaced(spelled: str) -> None:
+    from branchwise.core.sitebuild import build_fluid
+    from branchwise.core.sitefile import parse_site
+
+    site = parse_site(f'format = 1\n[fluid]\nkind = "{spelled}"\ntemperature = "20 degC"\n'
+                      'concentration = "30 % vol"\n')
+    expected = glycol("ethylene-glycol", T20, mass_fraction_from_volume("ethylene-glycol", 0.3))
+    assert build_fluid(site).density == pytest.approx(expected.density, rel=1e-12)
