@@ -32,7 +32,7 @@ from .files import SiteFiles  # noqa: E402
 from .outcome import Outcome  # noqa: E402
 from .screens.keyindex import SCREEN_TITLES, KeyIndex  # noqa: E402
 from .screens.split import SplitScreen  # noqa: E402
-from .session import Session, error_text, said  # noqa: E402
+from .session import Session, error_text, reason_text, said  # noqa: E402
 from .widgets.bandview import Band  # noqa: E402
 
 KEYS_DELAY = 0.25
@@ -142,6 +142,11 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
     def error_words(self, error: BaseException) -> str:
         """An error with its field in words (see :func:`~.session.error_text`), in these units."""
         return error_text(error, self.site, self.unit_system, self.settings.display_units)
+
+    def reason_words(self, error: BaseException | None) -> str:
+        """An error without its field, for beside the field (see
+        :func:`~.session.reason_text`), in these units."""
+        return reason_text(error, self.unit_system, self.settings.display_units)
 
     def fluid_name(self, fluid: object) -> str:
         """The liquid's name, its temperature in the temperature display unit."""

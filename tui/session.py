@@ -139,17 +139,27 @@ def error_text(error: BaseException, site: Site, system: str = "si",
     (kind → unit) in which the quantities the core marked in a message are stated.
     """
     field = getattr(error, "field", "")
+    if not field or getattr(error, "reason", None) is None:
+        return said(error, system, units)
+    return f"{field_label(site, field)}: {reason_text(error, system, units)}"
+
+
+def reason_text(error: BaseException | None, system: str = "si",
+                units: Mapping[str, str] | None = None) -> str:
+    """An error without its field, for the message shown beside that field: ``reason, got
+    value``, the quantities the core marked in either stated in ``system`` and ``units`` (as
+    :func:`error_text` does). An error with no reason (no solution) is said whole."""
     reason = getattr(error, "reason", None)
-    if not field or reason is None:
+    if reason is None:
         return said(error, system, units)
     value = getattr(error, "value", "")
     if has_marks(getattr(error, "marked", "")):  # quantities to state in the user's units
         from branchwise.core.units import restate
 
-        reason = restate(error.marked_reason, system, units)  # type: ignore[attr-defined]
-        if isinstance(error.marked_value, str):  # type: ignore[attr-defined]
-            value = restate(error.marked_value, system, units)  # type: ignore[attr-defined]
-    return f"{field_label(site, field)}: {reason}" + (f", got {value}" if value != "" else "")
+        reason = restate(error.marked_reason, system, units)  # type: ignore[union-attr]
+        if isinstance(error.marked_value, str):  # type: ignore[union-attr]
+            value = restate(error.marked_value, system, units)  # type: ignore[union-attr]
+    return reason + (f", got {value}" if value not in ("", None) else "")
 
 
 def said(item: object, system: str = "si", units: Mapping[str, str] | None = None) -> str:

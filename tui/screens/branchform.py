@@ -206,7 +206,7 @@ class BranchForm(Dialog[BranchSpec | None]):
             if key == "k" and text:
                 float(text)
         except InputError as exc:
-            return exc.reason + (f", got {exc.value}" if exc.value else "")
+            return self.app.reason_words(exc)  # type: ignore[attr-defined]
         except ValueError:
             return "must be a plain number"
         return None

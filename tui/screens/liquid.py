@@ -8,7 +8,6 @@ refuses (frozen, boiling, out of its range) shows its message beside the field a
 
 from __future__ import annotations
 
-from collections.abc import Callable
 from pathlib import Path
 
 from textual.app import ComposeResult
@@ -124,7 +123,7 @@ class LiquidScreen(WorkScreen):
             unit = app.unit_text(qkind) if qkind else ""
             field.set_unit(f"{unit} abs" if name == "pressure" else unit)  # not gauge
             wrong = ref is not None and ref.area == "fluid" and ref.name == name
-            field.set_error(_reason(error, app.say) if wrong else None)
+            field.set_error(app.reason_words(error) if wrong else None)
         hint = self.query_one("#liquid-hint", Static)
         if ref is not None and ref.area == "fluid" and ref.name not in uses:
             put(hint, f"✗ {app.error_words(error)}")  # type: ignore[arg-type]
@@ -215,15 +214,6 @@ class LiquidScreen(WorkScreen):
 
     def action_leave_field(self) -> None:
         self.query_one("#liquid-kind-select").focus()
-
-
-def _reason(error: BaseException | None, say: Callable[[object], str]) -> str:
-    """The error without its field (it shows beside the field): reason and value; ``say``
-    states an error without a reason (no solution) in the person's units."""
-    reason = getattr(error, "reason", None)
-    if reason is None:
-        return say(error)
-    return f"{reason}, got {getattr(error, 'value', '')}"
 
 
 def _with_basis_unit(text: str, unit: str) -> str:

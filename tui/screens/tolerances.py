@@ -234,9 +234,8 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
         return exc.field.replace("roughness_factor[0]", "roughness_low").replace(
             "roughness_factor[1]", "roughness_high").replace("roughness_factor", "roughness_low")
 
-    @staticmethod
-    def _reason(exc: InputError) -> str:
-        return f"{exc.reason}, got {exc.value}" if exc.value != "" else exc.reason
+    def _reason(self, exc: InputError) -> str:
+        return self.app.reason_words(exc)  # type: ignore[attr-defined]
 
     def action_cancel(self) -> None:
         self.dismiss(None)

@@ -13,7 +13,9 @@ import re
 from collections.abc import Callable
 from typing import TYPE_CHECKING
 
+from branchwise.core.errors import InputError
 from branchwise.core.sitefile import BranchSpec, SegmentSpec
+from branchwise.core.valvetext import series_kv
 
 from ..session import is_bare_number, is_plain_diameter, text_of, with_unit
 
@@ -46,8 +48,6 @@ FIELD_COLUMNS = {
 """The column that shows each field of an error's path."""
 
 _VALVE = re.compile(r"\s*(kv|cv)?\s*[:=]?\s*(.+?)\s*\Z", re.I)
-_SERIES = re.compile(r"(?<=[\d.\s])\+")
-"""A plus sign between two valves in series (``160 + 40``), not an exponent's (``1e+3``)."""
 
 
 def size_text(seg: SegmentSpec) -> str:
@@ -119,21 +119,16 @@ def edit_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:
 
 def valve_problem(text: str) -> str | None:
     """What is wrong with a typed valve (None: it reads as one Kv or Cv, or several in
-    series); the site check says the same in its own words, this one says it as it is typed."""
+    series). The site file's own reading (``core.valvetext.series_kv``) judges it, so the form
+    refuses just what the site would, and says which term is at fault."""
     probe = BranchSpec()
     set_valve(probe, text)
-    value = probe.valve_kv if probe.valve_kv is not None else probe.valve_cv
-    if value is None or not isinstance(value, str):
-        return None
-    for part in _SERIES.split(value):
-        m = _VALVE.match(part)  # each a number, or one marked Kv or Cv (Kv 160 + Cv 48)
-        try:
-            if m is not None and float(m.group(2)) > 0:
-                continue
-        except ValueError:
-            pass
-        return ("write Kv 160 or Cv 110 (positive numbers); valves in series: Kv 160 + 40 "
-                "or Kv 160 + Cv 48")
+    value, unit = (probe.valve_cv, "cv") if probe.valve_cv is not None else (probe.valve_kv,
+                                                                              "kv")
+    try:
+        series_kv(value, f"valve_{unit}", unit)
+    except InputError as exc:
+        return exc.reason
     return None
 
 

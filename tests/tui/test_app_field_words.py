@@ -1,0 +1,63 @@
+"""A field's own message (the line beside it) in the units the person reads, and the branch
+form's valve check reading a valve as the site file does."""
+
+from __future__ import annotations
+
+import re
+
+from branchwise.core.errors import InputError
+from branchwise.core.sitebuild import build
+from branchwise.tui.app import BranchwiseApp
+from branchwise.tui.widgets.branchcells import set_valve, valve_problem
+from branchwise.tui.widgets.field import Field
+
+
+def test_liquid_field_message_in_us_units(ui):
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("ctrl+t")  # US customary
+            await pilot.press("f2")
+            await ui.settle(pilot)
+            field = app.screen.query_one("#fluid-temperature", Field)
+            field.input.focus()
+            await pilot.press("ctrl+u")
+            await ui.type(pilot, "20")  # a bare number: the field's unit, °F
+            await ui.settle(pilot)
+            assert app.site.fluid.temperature == "20 degF"
+            assert field.has_class("-error")
+            text = str(field.query_one(".field-message").render())
+            assert "°C" not in text and "°F" in text, text
+            # Pure water freezes at 0 °C = 32 °F at one atmosphere (T/°F = T/°C × 9/5 + 32,
+            # NIST SP 811, B.8); the limit quoted is the freezing point, within 0.1 °F.
+            limits = [float(x) for x in re.findall(r"(-?\d+(?:\.\d+)?) °F", text)]
+            assert any(abs(x - 32) < 0.1 for x in limits), text
+
+    ui.run(scenario)
+
+
+def _site_refuses(text: str) -> str | None:
+    """The site's own check of a valve typed ``text`` (None: the site takes it)."""
+    app_site = BranchwiseApp().site
+    set_valve(app_site.branches[0], text)
+    try:
+        build(app_site)
+    except InputError as exc:
+        assert "valve" in exc.field
+        return exc.reason
+    return None
+
+
+def test_valve_check_agrees_with_the_site_file():
+    # A flow coefficient is a finite positive number (IEC 60534-1 defines Kv as the flow in
+    # m³/h at 1 bar; 0, negative and infinite values name no valve).
+    for text in ("Kv inf", "Kv 0", "-5", "Kv 160 + 0", "Cv nan", "Kv 160 + abc", "Kv 1e30"):
+        problem = valve_problem(text)
+        assert problem is not None, text
+        assert problem == _site_refuses(text), text
+    for text in ("Kv 160", "Cv 110", "160 + 40", "Kv 160 + Cv 48", "1e+3"):
+        assert valve_problem(text) is None, text
+        assert _site_refuses(text) is None, text
+    # The message names the term at fault.
+    assert "term 2" in valve_problem("Kv 160 + 0")
