@@ -74,6 +74,7 @@ MAX_ELEVATION = 1e4  # m
 MAX_KV = 1e7  # m³/h
 MIN_KV = 1e-6  # m³/h (a needle valve passes thousands of times more)
 MIN_FLOW = 1e-30  # m³/s: a non-zero flow below this is no reading (and underflows in the solve)
+MAX_FLOW = 1e6  # m³/s (the largest penstocks carry about a thousand)
 
 
 @dataclass(frozen=True)

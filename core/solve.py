@@ -25,6 +25,7 @@ from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, head_for_t
 from .hydraulics import segment_state as _segment_state
 from .messages import flow_text, head_text
 from .model import (
+    MAX_FLOW,
     MIN_FLOW,
     UNKNOWNS,
     Find,
@@ -35,6 +36,7 @@ from .model import (
     Network,
     PressureDrop,
     TotalFlow,
+    at_most,
     finite,
 )
 from .results import Arrays, Convergence, Result, Solved
@@ -82,10 +84,13 @@ def _check_given(network: Network, given: Given) -> None:
     if isinstance(given, PressureDrop):
         finite("conditions.pressure_drop", given.value)
     elif isinstance(given, TotalFlow):
-        finite("conditions.total_flow", given.value)
+        at_most("conditions.total_flow", finite("conditions.total_flow", given.value), MAX_FLOW,
+                "m³/s", "pipe flow")
     elif isinstance(given, MeasuredFlow):
         i = network.index_of(given.branch, "conditions.measured_flow")
-        value = finite(f"branches[{i}].measured_flow", given.value)
+        value = at_most(f"branches[{i}].measured_flow",
+                        finite(f"branches[{i}].measured_flow", given.value), MAX_FLOW, "m³/s",
+                        "pipe flow")
         if 0 < abs(value) < MIN_FLOW:
             raise InputError(f"branches[{i}].measured_flow", given.value,
                              f"is below any measurable flow (give 0 or at least {MIN_FLOW:g} "
@@ -122,7 +127,8 @@ def _check_find(network: Network, given: Given, find: FindUnknown) -> int:
     n_seg = len(network.branches[index].segments)
     if not 0 <= find.segment < n_seg:
         raise InputError("solve.segment", find.segment, f"branch has segments 0 to {n_seg - 1}")
-    target = finite("solve.target_flow", find.target_flow)
+    target = at_most("solve.target_flow", finite("solve.target_flow", find.target_flow),
+                     MAX_FLOW, "m³/s", "pipe flow")
     if target == 0:
         raise InputError("solve.target_flow", find.target_flow, "must not be zero")
     if isinstance(given, MeasuredFlow) and network.index_of(given.branch) == index:

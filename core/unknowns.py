@@ -63,14 +63,25 @@ def _valve_hint(net: Network, br: Branch, q: float, head: float) -> str:
     if br.valve_kv is None:
         return ""
     lay = _branch_layout(net, br)
-    flow = np.array([q])
-    h_valve = float(lay.valve_r[0]) * q * abs(q)
-    h_rest = float(branch_head(lay, flow)[0]) - h_valve
-    if h_valve <= 0 or h_rest >= head:  # the rest alone loses too much: no Kv helps
+    with np.errstate(all="ignore"):  # a target far beyond any pipe overflows: no hint then
+        h_valve = float(lay.valve_r[0]) * q * abs(q)
+        h_rest = float(branch_head(lay, np.array([q]))[0]) - h_valve
+        if not (0 < h_valve < math.inf and h_rest < head):  # else no Kv would help
+            return ""
+        needed = _three_figures_up(br.valve_kv * math.sqrt(h_valve / (head - h_rest)))
+    if not math.isfinite(needed):
         return ""
-    needed = br.valve_kv * math.sqrt(h_valve / (head - h_rest))
     return (f"; its valve ({kv_text(br.valve_kv)}) alone loses {head_text(h_valve)} at that "
             f"flow: it would need {kv_text(needed)} or more")
+
+
+def _three_figures_up(x: float) -> float:
+    """``x`` rounded up to three significant figures (a "needs at least" figure never reads
+    below the need)."""
+    if not (math.isfinite(x) and x > 0):
+        return x
+    step = 10.0 ** (math.floor(math.log10(x)) - 2)
+    return math.ceil(x / step - 1e-9) * step
 
 
 def _where(given: Given, head: float) -> str:

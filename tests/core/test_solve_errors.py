@@ -165,7 +165,6 @@ def test_reverse_flow_says_why():
 @pytest.mark.parametrize("quantity", ["diameter", "length"])
 def test_a_valve_that_limits_the_flow_is_named_with_the_kv_it_would_need(quantity):
     import re
-    from dataclasses import replace
 
     def net(kv):
         return Network(WATER, (branch("A", 0.0627, 40, 4.5e-5, 3, valve_kv=kv),
@@ -176,8 +175,15 @@ def test_a_valve_that_limits_the_flow_is_named_with_the_kv_it_would_need(quantit
         solve(net(30.0), PressureDrop(45e3), want)
     needed = float(re.search(r"would need Kv ([\d.]+) or more", str(caught.value)).group(1))
     assert needed > 30
-    # The hint is right if a valve just above it makes the target reachable and one just below
-    # does not (for the diameter: at the 10 m limit; for the length: at zero length).
-    solve(net(needed * 1.01), PressureDrop(45e3), want)
+    # The hint is right if a valve of the Kv printed (rounded up, "or more") makes the target
+    # reachable and one 1 % below does not (diameter: at the 10 m limit; length: at zero).
+    solve(net(needed), PressureDrop(45e3), want)
     with pytest.raises(NoSolutionError):
-        solve(net(needed * 0.99), PressureDrop(45e3), replace(want))
+        solve(net(needed * 0.99), PressureDrop(45e3), want)
+
+
+@pytest.mark.parametrize("given", [TotalFlow(2e6), MeasuredFlow("A", -2e6)])
+def test_a_flow_beyond_any_pipe_is_refused_before_it_overflows(given):
+    with pytest.raises(InputError) as caught:
+        solve(two(), given)
+    assert "beyond any pipe flow" in caught.value.reason
