@@ -5,6 +5,8 @@ from __future__ import annotations
 
 import re
 
+import pytest
+
 from branchwise.core.errors import InputError
 from branchwise.core.sitebuild import build
 from branchwise.tui.app import BranchwiseApp
@@ -61,3 +63,37 @@ def test_valve_check_agrees_with_the_site_file():
         assert _site_refuses(text) is None, text
     # The message names the term at fault.
     assert "term 2" in valve_problem("Kv 160 + 0")
+
+
+def test_split_losses_named_as_in_the_exports(ui):
+    """The Split table's Major, Minor and Valve columns hold what the exports' "Major loss",
+    "Minor loss" and "Valve loss" hold (the minor loss without the valve's)."""
+    from branchwise.core.reporttext import COLUMNS
+    from branchwise.tui.widgets.texttable import TextTable
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        for size in ((80, 24), (120, 40)):
+            async with app.run_test(size=size) as pilot:
+                await ui.settle(pilot)
+                table = app.screen.query_one("#results", TextTable)
+                labels = [label.split("\n")[0].split(" ")[0] for label, _ in table.columns]
+                for key in ("major", "minor", "valve"):
+                    assert COLUMNS[key].title.split()[0] in labels
+                minor, valve = labels.index("Minor"), labels.index("Valve")
+                rows = iter(table.text_rows())
+                result = app.outcome.solved.result
+                for br in result.branches:
+                    for j, seg in enumerate(br.segments):
+                        row = next(rows)
+                        # Darcy–Weisbach minor loss K·v²/2g, as the core reports it (m).
+                        assert float(row[minor]) == pytest.approx(seg.minor_loss, rel=6e-3)
+                        if j == 0 and br.valve_loss:
+                            assert float(row[valve]) == pytest.approx(br.valve_loss, rel=6e-3)
+                        else:
+                            assert row[valve] == ""
+                # The demo's coils each have a valve: the column is not empty.
+                assert any(row[valve] for row in table.text_rows())
+            app = BranchwiseApp()
+
+    ui.run(scenario)

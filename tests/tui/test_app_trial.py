@@ -114,7 +114,12 @@ def test_80x24_in_us_units_keeps_what_matters(ui):
             await pilot.press("ctrl+t")
             await ui.settle(pilot)
             text = ui.text(app)
-            assert "Minor ft" in text and "[ft]" in text
+            # The three losses, each in ft (on the line under the headings at 80 columns).
+            head = next(line for line in text.splitlines() if "Minor" in line)
+            under = text.splitlines()[text.splitlines().index(head) + 1]
+            assert all(w in head for w in ("Major", "Minor", "Valve")), head
+            assert under.split()[-3:] == ["ft", "ft", "ft"], under
+            assert "[ft]" in text
             # Branches: moving right to the Valve column keeps the names in sight, and no
             # cut-off column sits beside them.
             await pilot.press("f3")

@@ -190,14 +190,16 @@ class SplitScreen(GivenFindEdits, PanelScreen):
         self.query_one("#split-results").set_class(stale, "-stale")
         table = self.query_one("#results", TextTable)
         u = app.unit_text
-        # Below 100 columns the share is a bare percentage and Re compact (180k), so that the
-        # losses stay on screen at 80×24, in US units too; the table still scrolls sideways
-        # if names are long.
+        # Below 100 columns the share is a bare percentage, Re compact (180k) and each unit
+        # under its heading, so that the losses stay on screen at 80×24, in US units too; the
+        # table still scrolls sideways if names are long. The losses are the exports' own:
+        # the pipe's (major), its fittings' (minor) and the valve's.
         wide = self.app.size.width >= 100
-        columns = [("Branch", False), (f"Flow {u('flow')}", True), ("Share", False),
-                   (f"V {u('velocity')}", True), ("Re", True), ("f", True),
+        sep = " " if wide else "\n"
+        columns = [("Branch", False), (f"Flow{sep}{u('flow')}", True), ("Share", False),
+                   (f"V{sep}{u('velocity')}", True), ("Re", True), ("f", True),
                    ("Regime" if wide else "Reg.", False),
-                   (f"Major {u('head')}", True), (f"Minor {u('head')}", True)]
+                   *((f"{name}{sep}{u('head')}", True) for name in ("Major", "Minor", "Valve"))]
         totals = self.query_one("#totals", Static)
         solved = self.query_one("#solved", Static)
         warnings = self.query_one("#warnings", Static)
@@ -225,8 +227,9 @@ class SplitScreen(GivenFindEdits, PanelScreen):
                     f"{seg.friction_factor:.4f}",
                     REGIMES.get(seg.regime, seg.regime),
                     app.fmt(seg.major_loss, "head", 3, unit=False),
-                    app.fmt(seg.minor_loss + (br.valve_loss if first else 0.0), "head", 3,
-                            unit=False),
+                    app.fmt(seg.minor_loss, "head", 3, unit=False),
+                    app.fmt(br.valve_loss, "head", 3, unit=False)
+                    if first and br.valve_loss else "",
                 ])
         table.show(columns, rows)
         fluid = result.network.fluid
@@ -266,7 +269,7 @@ class SplitScreen(GivenFindEdits, PanelScreen):
         shown = min(len(self.warning_lines), self._warning_room, MAX_WARNING_LINES)
         if self.view == "table":
             table = self.query_one("#results", TextTable)
-            spare = table.scrollable_content_region.height - (len(table.rows) + 1)
+            spare = table.scrollable_content_region.height - (len(table.rows) + table.header_lines)
         else:
             spare = 2 - shown  # the band and the curve take what is left: two lines
         room = max(1, min(MAX_WARNING_LINES, shown + spare))

@@ -57,15 +57,24 @@ class TextTable(ScrollableContainer, can_focus=True):
         if focused:
             accent = self.app.theme_variables.get("accent")
             head = f"bold reverse {accent}" if accent else head
-        widths = [cell_len(label) for label, _ in columns]
+        # A label may take several lines (``"Flow\nL/s"``: the unit under the name, where
+        # the columns are narrow); the header's lines are aligned at the bottom.
+        labels = [label.split("\n") for label, _ in columns]
+        height = max((len(lines) for lines in labels), default=1)
+        labels = [[""] * (height - len(lines)) + lines for lines in labels]
+        widths = [max(map(cell_len, lines)) for lines in labels]
         for row in rows:
             for c, cell in enumerate(row):
                 widths[c] = max(widths[c], cell_len(str(cell)))
         out = Text(no_wrap=True, overflow="crop")
-        for c, (label, right) in enumerate(columns):
-            lead = self.FOCUS_MARK if focused and c == 0 else " "
-            out.append(lead + (label.rjust(widths[c]) if right else label.ljust(widths[c]))
-                       + " ", style=head)
+        for line in range(height):
+            if line:
+                out.append("\n")
+            for c, (_, right) in enumerate(columns):
+                label = labels[c][line]
+                lead = self.FOCUS_MARK if focused and c == 0 and line == height - 1 else " "
+                out.append(lead + (label.rjust(widths[c]) if right else label.ljust(widths[c]))
+                           + " ", style=head)
         for row in rows:
             out.append("\n")
             for c, cell in enumerate(row):
@@ -74,10 +83,15 @@ class TextTable(ScrollableContainer, can_focus=True):
                 out.append(" " + (pad if columns[c][1] else ""))
                 out.append_text(piece)
                 out.append(("" if columns[c][1] else pad) + " ")
-        shape = (len(rows), sum(widths) + 2 * len(widths))
+        shape = (len(rows) + height, sum(widths) + 2 * len(widths))
         # A new layout only when the table's size changes, not for new numbers in it.
         self.query_one(Static).update(out, layout=shape != getattr(self, "_shape", None))
         self._shape = shape
+
+    @property
+    def header_lines(self) -> int:
+        """How many lines the header takes."""
+        return max((label.count("\n") + 1 for label, _ in self.columns), default=1)
 
     def text_rows(self) -> list[list[str]]:
         """The cells as plain text (what a person reads)."""
