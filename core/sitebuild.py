@@ -309,5 +309,5 @@ def _site_path(exc: InputError, site: Site) -> InputError:
     """``exc`` with a model path (``branches[1].segments[0].hw_c``) as the file names it."""
     m = re.match(r"branches\[(\d+)\]\.segments\[0\]\.(.*)", exc.field)
     if m and len(site.branches[int(m[1])].segments) == 1:
-        return InputError(f"branches[{m[1]}].{m[2]}", exc.value, exc.reason)
+        return InputError(f"branches[{m[1]}].{m[2]}", exc.marked_value, exc.marked_reason)
     return exc

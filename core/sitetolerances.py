@@ -29,7 +29,7 @@ from dataclasses import replace
 from typing import TYPE_CHECKING
 
 from .errors import InputError
-from .messages import pressure_text
+from .messages import pressure_text, render
 from .model import Fluid, Given, Network, PressureDrop
 from .sitefile import Site, TolerancesSpec, Value
 from .units import describe, parse_quantity
@@ -171,7 +171,7 @@ def site_error(exc: InputError) -> InputError:
         return exc
     key = SITE_KEYS[m[1]]
     suffix = f'."{m[2].strip(chr(39))}"' if m[2] else ""
-    return InputError(f"tolerances.{key}{suffix}", exc.value, exc.reason)
+    return InputError(f"tolerances.{key}{suffix}", exc.marked_value, exc.marked_reason)
 
 
 def site_thermal(
@@ -206,12 +206,12 @@ def site_thermal(
         thermal = Thermal.from_fluid_at(fluid_at, centre, tol.temperature_k)
     except InputError as exc:
         typed = site.tolerances.temperature if site.tolerances is not None else None
-        reason = (f"takes the liquid outside its model ({exc.field}: {exc.reason}, "
-                  f"got {exc.value})")
+        reason = (f"takes the liquid outside its model ({exc.field}: {exc.marked_reason}, "
+                  f"got {exc.marked_value})")
         if typed is not None:
             raise InputError("tolerances.temperature", describe(typed), reason) from None
         return replace(tol, temperature_k=0.0), None, (
-            f"temperature tolerance not applied: ± {tol.temperature_k:g} K {reason}",)
+            f"temperature tolerance not applied: ± {tol.temperature_k:g} K {render(reason)}",)
     return tol, thermal, ()
 
 

@@ -62,3 +62,25 @@ def test_a_freezing_liquid_is_refused_in_the_units_asked_for(tmp_path, capsys):
     assert main(["solve", str(path)]) == 2
     err = capsys.readouterr().err
     assert "freezes at -14." in err and "°C, got -40 °C" in err
+
+
+@pytest.mark.parametrize("fmt", ["table", "json", "csv", "markdown"])
+@pytest.mark.parametrize("system", ["si", "us"])
+def test_no_marker_character_reaches_any_output(tmp_path, capsys, fmt, system):
+    # Sites that raise every kind of marked text: fast branches (velocity warnings), a valve
+    # hint, a temperature tolerance that leaves the liquid's model, a fluid limit.
+    fast = demo_text().replace('pressure_drop = "10 psid"', 'pressure_drop = "28 psid"')
+    cold = demo_text().replace('temperature = "2 K"', 'temperature = "20 K"').replace(
+        'temperature = "44 degF"', 'temperature = "34 degF"')
+    for i, text in enumerate((fast, cold)):
+        path = tmp_path / f"s{i}.toml"
+        path.write_text(text, encoding="utf-8")
+        main(["solve", str(path), "--format", fmt, "--units", system, "--uncertainty",
+              "--samples", "200"])
+    impossible = _impossible_length_site(tmp_path)
+    main(["solve", str(impossible), "--format", fmt, "--units", system])
+    captured = capsys.readouterr()
+    text = captured.out + captured.err
+    assert "\ue000" not in text and "\ue001" not in text
+    # each site did produce its marked text: a velocity warning, a fluid limit, a no-solution
+    assert "velocity" in text and "outside its model" in text and "cannot pass" in text
