@@ -80,11 +80,6 @@ class Warning:
 
         return render(self.marked)
 
-    @classmethod
-    def of(cls, code: str, branch: str | None, marked_text: str) -> Warning:
-        """A warning from marked text (the same as the constructor; kept for readability)."""
-        return cls(code, branch, marked_text)
-
 
 @dataclass(frozen=True)
 class Convergence:

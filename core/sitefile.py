@@ -1,10 +1,8 @@
 """Site files: a walkdown kept as human-editable TOML, read into an editable tree of strings.
 
-A :class:`Site` keeps every value exactly as the person typed it (``"64 m"``, ``"4 in sch 40"``,
-``6.2``), so that a report can show the inputs as entered and the app can edit them in place.
-Reading checks only the shape of the file (known keys, tables where tables belong); the values
-are checked when :func:`branchwise.core.sitebuild.build` turns them into SI objects, so the app
-can open a file with one bad value and show the error beside that field.
+A :class:`Site` keeps every value as typed (``"64 m"``, ``"4 in sch 40"``, ``6.2``) for reports
+and in-place editing. Reading checks only the file's shape; :func:`.sitebuild.build` checks the
+values, so the app can open a file with one bad value and show the error beside that field.
 
 File layout (format 1; the keys are a contract)::
 
@@ -26,9 +24,8 @@ File layout (format 1; the keys are a contract)::
                    roughness_range = { "<branch>" = [low, high] }, diameter, length,
                    temperature, fitting_k, valve_kv (missing keys: common-practice defaults)
 
-A branch is either one pipe (its diameter, length... at the top of the branch) or a list of
-series ``segments`` (each with its own pipe keys); mixing the two is refused as ambiguous.
-``solve.segment`` counts from 1.
+A branch is one pipe (its keys at the top of the branch) or a list of series ``segments``, each
+with its own pipe keys; mixing the two is refused as ambiguous. ``solve.segment`` counts from 1.
 """
 
 from __future__ import annotations

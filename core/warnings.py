@@ -28,7 +28,7 @@ def collect_warnings(
         where = ""
         if seg is not None and len(net.branches[branch].segments) > 1:  # type: ignore[index]
             where = f"segment {seg_index[seg] + 1}: "
-        out.append(Warning.of(code, name, f"{where}{detail}"))
+        out.append(Warning(code, name, f"{where}{detail}"))
 
     flowing = a.flow[a.seg_branch] != 0
     speed = np.abs(a.velocity)
@@ -50,7 +50,7 @@ def collect_warnings(
     for b in np.flatnonzero(a.flow < 0):
         add("reverse-flow", None, int(b), f"reverse flow ({flow_text(a.flow[b])}): {why}")
     if not conv.converged:
-        out.append(Warning.of("not-converged", None,
+        out.append(Warning("not-converged", None,
                            f"the solver stopped at a relative residual of {conv.residual:.2g}"))
     return out
 
