@@ -274,13 +274,21 @@ class SiteFiles:
         if with_band:
             solved = band.solved  # the same answer, with its P5–P95 band
 
+        # The answer is the site's as it is now: with edits not yet saved, the file alone
+        # would not give it back, and the record says so.
+        unsaved = self.session.dirty
+        saved_at = self.session.path
+        source = (f"{saved_at} (with unsaved changes)" if unsaved and saved_at is not None
+                  else None)
+
         def chosen(path: Path | None) -> None:
             if path is None:
                 return
             from branchwise.core.report import to_csv, to_markdown
             from branchwise.core.tomlfile import atomic_write_text
 
-            text = to_markdown(solved, system) if fmt == "markdown" else to_csv(solved, system)
+            text = (to_markdown(solved, system, source=source) if fmt == "markdown"
+                    else to_csv(solved, system))
             wanted, path = path, _free(path)  # an export never replaces a file
             try:
                 atomic_write_text(path, text)
@@ -288,6 +296,8 @@ class SiteFiles:
                 self.notify(str(exc), title="Not written", severity="error", timeout=10)
                 return
             extra = "\nwith the P5–P95 band" if with_band else ""
+            if unsaved:
+                extra += "\nfrom the site with unsaved changes (Ctrl+S saves them)"
             if path != wanted:
                 extra += f"\n({wanted.name} exists and was kept)"
             self.notify(f"Wrote {file_and_folder(path)}{extra}", timeout=5)

@@ -215,3 +215,41 @@ def test_glycol_by_volume_on_the_liquid_screen(ui, site_file):
             assert app.outcome.fluid.density == pytest.approx(reference, rel=0.006)
 
     ui.run(scenario)
+
+
+def test_record_of_unsaved_changes_says_so(ui, site_file):
+    """A record written while the site holds changes not yet saved cites the file with that
+    said: the file alone would not give back the figures (the readings differ)."""
+    async def scenario() -> None:
+        app = BranchwiseApp(site_file)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            # F8 points at where the instruments' accuracy is typed (it sets the band).
+            await pilot.press("f8")
+            await pilot.pause()
+            assert "accuracy sets the band: l (Tolerances) on Split" in ui.text(app)
+            await pilot.press("escape")
+            await pilot.pause()
+
+            def record() -> str:
+                found = sorted(site_file.parent.glob("*.md"), key=lambda p: p.stat().st_mtime)
+                return found[-1].read_text(encoding="utf-8")
+
+            await pilot.press("r", "enter")
+            await pilot.pause()
+            saved = next(line for line in record().splitlines() if "Site file" in line)
+            assert saved.endswith(f"`{site_file}`")  # just the file: it holds these figures
+
+            app.edit("Given value", lambda s: setattr(s.conditions, "pressure_drop", "40 kPa"))
+            await ui.settle(pilot)
+            assert app.session.dirty
+            await pilot.press("r", "enter")
+            await pilot.pause()
+            text = record()
+            line = next(line for line in text.splitlines() if "Site file" in line)
+            assert str(site_file) in line and line.endswith("(with unsaved changes)`")
+            assert "40 kPa" in text  # the figures are those of the site as it now is
+            # and the notice says so too
+            assert any("unsaved changes" in n.message for n in app._notifications)
+
+    ui.run(scenario)

@@ -75,7 +75,8 @@ class SiteDetailsScreen(Dialog[Details | None]):
     def compose(self) -> ComposeResult:
         with Vertical():
             yield Label("Site and readings", classes="details-title")
-            yield Label("The walkdown record's header; nothing here changes the answer.",
+            yield Label("The walkdown record's header; nothing here changes the answer.\n"
+                        "The instruments' accuracy sets the band: l (Tolerances) on Split.",
                         classes="details-note", markup=False)
             yield Field("Site name", "name", value=self.name_text, id="details-name")
             for key, label, hint in RECORD_FIELDS:
