@@ -286,3 +286,30 @@ def test_snapshots_of_curve_and_band(ui, monkeypatch):
 
     ui.run(scenario)
     assert not problems, "\n\n".join(problems)
+
+
+def test_band_of_a_site_without_an_answer(ui):
+    """A site with no answer (here: no length of pipe carries the target flow) has no band;
+    the band view says so as it is, and keeps the earlier band below, greyed."""
+    from branchwise.core.errors import NoSolutionError
+    from branchwise.tui.session import set_find
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            screen = app.screen
+            await pilot.press("b")
+            await until(pilot, lambda: screen.band_state() == "current")
+            # 1000 L/s through a 4 in coil branch: a velocity near 120 m/s, far past what 69 kPa
+            # drives even with no pipe at all (Bernoulli: v = √(2Δp/ρ) ≈ 12 m/s, common practice).
+            app.edit("Find", lambda s: set_find(s, "length", "AHU-1 coil", "1000 L/s"))
+            await ui.settle(pilot)
+            assert isinstance(app.outcome.error, NoSolutionError)
+            assert screen.band_state() == "broken"
+            text = ui.text(app)
+            assert "No band: this site has no answer now" in text
+            assert "STALE" not in text and "has an error" not in text
+            assert screen.query_one("#band-view", BandView).has_class("-stale")
+
+    ui.run(scenario)

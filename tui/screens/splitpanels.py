@@ -188,7 +188,8 @@ class PanelScreen(WorkScreen):
 
     def band_state(self) -> str:
         """``current``, ``computing``, ``error`` (no band for these inputs, see its message),
-        ``broken`` (the site has an error), ``stale`` or ``none``."""
+        ``broken`` (the site has no answer: bad input, or readings no flow fits), ``stale``
+        or ``none``."""
         app = self.bw
         rev, band, outcome = app.session.revision, self.band, app.outcome
         if self._band_running == rev:
@@ -206,7 +207,7 @@ class PanelScreen(WorkScreen):
             "computing": Text(f"computing… {draws} (seed {BAND_SEED})", style="italic"),
             "current": Text(f"P5 … P95: the middle 90 % of {draws} (seed {BAND_SEED})",
                             style="dim"),
-            "broken": Text("STALE: the site has an error; no band until it is fixed",
+            "broken": Text("No band: this site has no answer now (see the message above)",
                            style="bold yellow"),
             "stale": Text("STALE: the inputs changed since this band; it is worked out "
                           "again when typing pauses", style="bold yellow"),
@@ -216,7 +217,7 @@ class PanelScreen(WorkScreen):
             head = Text(f"✗ No band: {band.error}", style="bold red")  # type: ignore[union-attr]
             if band is not None and band.field.startswith("tolerances"):
                 head.append("  (l: tolerances)", style="dim")
-        elif state == "computing" and band is not None and band.solved is not None:
+        elif state in ("computing", "broken") and band is not None and band.solved is not None:
             head.append("; below, the band of earlier inputs", style="dim")
         body = Text()
         if band is not None and band.solved is not None:
