@@ -174,7 +174,7 @@ def to_table(sr: SiteResult, system: str = "si") -> str:
 
 # ---- CSV -----------------------------------------------------------------------------------
 
-CSV_LABELS = ("Result", "Record", "Band", "Warning", "Note", "Caution")
+CSV_LABELS = ("Result", "Value", "Record", "Band", "Warning", "Note", "Caution")
 """First cells of the rows after the data, saying what each row carries."""
 
 
@@ -184,8 +184,9 @@ def to_csv(sr: SiteResult, system: str = "si") -> str:
     A header row with units (``Flow (L/s)``), one row per segment (each naming its branch and
     segment, so rows can be sorted and filtered; with bands, ``Flow P5`` and ``Flow P95``
     after the flow; the line tag last), then one row per line of the result (the liquid, the
-    given reading, Δp and total flow, a found unknown and its catalog size), of the record, the
-    total bands, the warnings, the notes and the cautions: its label (:data:`CSV_LABELS`) in the
+    given reading, Δp and total flow, a found unknown and its catalog size), the same headline
+    figures as numbers (``Value`` rows: name with unit, then the number), the record, the total
+    bands, the warnings, the notes and the cautions: its label (:data:`CSV_LABELS`) in the
     first cell, the text in the second, the other cells empty.
     """
     band = sr.uncertainty is not None
@@ -203,13 +204,35 @@ def to_csv(sr: SiteResult, system: str = "si") -> str:
             pair = bandtext.band_range(sr, f"branch '{b.name}' flow", system) if j == 0 else None
             row[at:at] = [format_number(v) for v in pair] if pair else ["", ""]
         rows.append(row)
-    texts = ([*summary_lines(sr, system), *solved_lines(sr, system)], record_lines(sr.site),
-             bandtext.summary_lines(sr, system), _warnings(sr, system), _notes(sr), CAUTIONS)
+    texts = ([*summary_lines(sr, system), *solved_lines(sr, system)], [],
+             record_lines(sr.site), bandtext.summary_lines(sr, system), _warnings(sr, system),
+             _notes(sr), CAUTIONS)
     for label, lines in zip(CSV_LABELS, texts, strict=True):
+        if label == "Value":
+            rows += [["Value", name, number] + [""] * (len(header) - 3)
+                     for name, number in _csv_values(sr, system)]
         rows += [[label, " ".join(line.split())] + [""] * (len(header) - 2) for line in lines]
     buf = io.StringIO()
     csv.writer(buf, lineterminator="\n").writerows(rows)
     return buf.getvalue()
+
+
+def _csv_values(sr: SiteResult, system: str) -> list[tuple[str, str]]:
+    """The headline figures as numbers a spreadsheet can use: (name with unit, number)."""
+    def item(name: str, value: float, kind: str) -> tuple[str, str]:
+        unit = display_unit(kind, system)
+        return f"{name} ({unit_label(unit)})", format_number(to_unit(value, kind, unit), 6)
+
+    r = sr.result
+    out = [item("pressure drop", r.pressure_drop, "pressure"),
+           item("total flow", r.total_flow, "flow")]
+    if (s := r.solved) is not None:
+        seg = f" segment {s.segment + 1}" if len(r.branch(s.branch).segments) > 1 else ""
+        out.append(item(f"{s.quantity} of '{s.branch}'{seg} (found)", s.value, s.quantity))
+        if sr.catalog is not None:
+            out.append((f"catalog size for '{s.branch}'", sr.catalog.size.label))
+            out.append(item(f"flow of '{s.branch}' at the catalog size", sr.catalog.flow, "flow"))
+    return out
 
 
 # ---- Markdown walkdown record --------------------------------------------------------------

@@ -99,7 +99,9 @@ def test_csv_is_one_rectangle_with_labelled_rows(capsys, args):
     assert [r[0] for r in data] == ["AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass", "Bypass"]
     assert rows.index(extra[0]) == len(data) + 1  # the labelled rows come after the data
     assert [r[1] for r in extra if r[0] == "Caution"] == list(CAUTIONS)
-    assert all(not any(r[2:]) for r in extra)  # label, text, then empty cells
+    # label, text, then empty cells; a Value row: label, name with unit, number
+    assert all(not any(r[3 if r[0] == "Value" else 2:]) for r in extra)
+    assert all(float(r[2]) == float(r[2]) for r in extra if r[0] == "Value")
     labels = [r[0] for r in extra]
     assert labels == sorted(labels, key=CSV_LABELS.index)  # in the order of CSV_LABELS
     record = [r[1] for r in extra if r[0] == "Record"]
@@ -181,6 +183,12 @@ def test_csv_carries_the_answer_a_solve_was_for(tmp_path, capsys, system):
     total = data["total_flow_m3_s"] / UNITS[system][0]
     assert any(f"total flow {format_number(total)}" in line for line in result)
     assert rows.index(next(r for r in rows if r[0] == "Result")) > 4  # after the data rows
+    values = {r[1]: r[2] for r in rows if r[0] == "Value"}  # numbers a spreadsheet can use
+    number = float(values[f"diameter of 'AHU-2 coil' (found) ({unit})"])
+    assert number == pytest.approx(found, rel=1e-5)
+    assert float(values[f"total flow ({'L/s' if system == 'si' else 'gpm'})"]) == pytest.approx(
+        total, rel=1e-5)
+    assert values["catalog size for 'AHU-2 coil'"] == data["solved"]["catalog_size"]
 
 
 def test_a_found_roughness_is_set_beside_the_materials_table_value(tmp_path, capsys):
