@@ -89,11 +89,11 @@ class BranchesScreen(WorkScreen):
             table.fixed_columns = 1  # the names stay in sight as → scrolls to the valve
             yield table
             yield Static("", id="branch-message", classes="message", markup=False)
-            editor = Horizontal(id="cell-editor")
-            editor.display = False  # shown while a cell is edited
-            with editor:
-                yield Label("", id="cell-label", markup=False)
-                yield Input(id="cell-input", compact=True)
+            with Vertical(id="cell-editor"):  # while a cell is edited: says so, marks it
+                yield Static("", id="cell-title", markup=False)
+                with Horizontal():
+                    yield Label("", id="cell-label", markup=False)
+                    yield Input(id="cell-input", compact=True)
 
     def on_mount(self) -> None:
         self._rows = []
@@ -142,6 +142,7 @@ class BranchesScreen(WorkScreen):
                 self._rows.append((i, j))
         fill_table(table, columns, rows)
         message = self.query_one("#branch-message", Static)
+        message.set_class(bad is None, "-hint")
         if bad is not None:
             put(message, f"✗ {app.error_words(outcome.error)}")  # type: ignore[union-attr,arg-type]
         else:
@@ -200,9 +201,12 @@ class BranchesScreen(WorkScreen):
                                                 and key not in BRANCH_COLUMNS else "")
         self._editing = (i, j, key)
         self._editing_revision = self.bw.session.revision
-        self.query_one("#cell-label", Label).update(f"{where} · {label}{unit}: ")
-        editor = self.query_one("#cell-editor")
-        editor.display = True
+        doing = f"Renaming {where}" if key == "name" else f"Editing {where} · {label}"
+        self.query_one("#cell-title", Static).update(f"✎ {doing} — Enter keeps · Esc cancels")
+        self.query_one("#cell-label", Label).update(f"{'Name' if key == 'name' else label}"
+                                                    f"{unit}: ")
+        self.query_one("#cell-editor").display = True
+        self.query_one("#branches").add_class("-editing")  # marks the cell, hides the key hint
         box = self.query_one("#cell-input", Input)
         box.value = edit_text(br, seg, key) if key != "name" else text_of(br.name)
         box.cursor_position = len(box.value)
@@ -222,6 +226,7 @@ class BranchesScreen(WorkScreen):
     def _close_editor(self) -> None:
         self._editing = None
         self.query_one("#cell-editor").display = False
+        self.query_one("#branches").remove_class("-editing")
         self.query_one("#branch-table", DataTable).focus()
 
     def commit(self, i: int, j: int, key: str, text: str) -> None:

@@ -21,13 +21,20 @@ AREA_KEYS = {"fluid": "F2 Liquid", "branches": "F3 Branches", "conditions": "F4 
              "solve": "F4 Split", "tolerances": "F4 Split, l tolerances", "site": "F3 Branches"}
 
 
+ERROR_LINES = 2
+"""At most this many lines for an error: one that does not fit on one line is wrapped, so
+that its figures (the value typed, the limit) are in sight on a narrow terminal too; a longer
+one ends with where to read it whole."""
+
+
 class StatusStrip(Static):
-    """Two lines: the given condition and the find choice; then the solver's state."""
+    """The given condition and the find choice on one line; then the solver's state (an
+    error on as many as :data:`ERROR_LINES` lines)."""
 
     DEFAULT_CSS = """
-    StatusStrip { height: 2; padding: 0 1; background: $boost; text-wrap: nowrap;
-                  text-overflow: ellipsis; }
+    StatusStrip { height: auto; padding: 0 1; background: $boost; text-wrap: nowrap; }
     """
+    _lines = 2
 
     def on_mount(self) -> None:
         app: BranchwiseApp = self.app  # type: ignore[assignment]
@@ -37,14 +44,22 @@ class StatusStrip(Static):
 
     def _redraw(self, *_: object) -> None:
         app: BranchwiseApp = self.app  # type: ignore[assignment]
-        text = describe(app, getattr(self.screen, "LISTS_WARNINGS", False))
+        width = self.content_size.width or max(1, app.size.width - 2)
+        text = describe(app, getattr(self.screen, "LISTS_WARNINGS", False), width)
         if self.content != text:
-            self.update(text, layout=False)  # two lines, always: no new layout needed
+            lines = text.plain.count("\n") + 1
+            # A new layout only when an error takes more lines or gives them back.
+            self.update(text, layout=lines != self._lines)
+            self._lines = lines
+
+    def on_resize(self) -> None:
+        self._redraw()
 
 
-def describe(app: BranchwiseApp, on_split: bool = False) -> Text:
+def describe(app: BranchwiseApp, on_split: bool = False, width: int | None = None) -> Text:
     """The strip's text for the app's present state (``on_split``: the strip of the Split
-    screen, where ``w`` lists the warnings)."""
+    screen, where ``w`` lists the warnings); ``width`` (cells): the room on each line, where
+    the first line is cut and an error wrapped (None: one line each, uncut)."""
     site = app.session.site
     kind, index = given_of(site)
     value = given_text(site) or "—"
@@ -66,22 +81,47 @@ def describe(app: BranchwiseApp, on_split: bool = False) -> Text:
     line.append("  Find ", style="dim")
     line.append(sought, style="bold")
     line.append(f"  [{app.unit_system.upper()}]", style="dim")
+    if width is not None:
+        line.truncate(width, overflow="ellipsis")
     line.append("\n")
+    state, where = _state(app, on_split)
+    if width is not None and state.cell_len + where.cell_len > width:
+        # An error that does not fit: wrapped on the lines it may take, the last cut to leave
+        # room for where to read it whole (the Split's message area, the Branches screen's,
+        # the field on the Liquid screen).
+        lines = state.wrap(app.console, width, overflow="fold")
+        if len(lines) > ERROR_LINES:
+            lines = lines[:ERROR_LINES]
+            lines[-1].truncate(max(1, width - where.cell_len - 1))
+            lines[-1].rstrip()
+            lines[-1].append("…")
+        if lines[-1].cell_len + where.cell_len <= width:
+            lines[-1].append_text(where)
+        state = Text("\n").join(lines)
+    else:
+        state.append_text(where)
+    line.append_text(state)
+    line.no_wrap = True
+    line.overflow = "ellipsis"
+    return line
+
+
+def _state(app: BranchwiseApp, on_split: bool) -> tuple[Text, Text]:
+    """The solver's state (solving, the error, or how many branches were solved), and for an
+    error, the screen where it is read in full (``  (F3 Branches)``)."""
+    line, where = Text(), Text()
     outcome = app.outcome
     if outcome is None:  # (a later answer replaces this line; no flicker while typing)
         line.append("… solving", style="italic dim")
     elif outcome.error is not None:
-        where = AREA_KEYS[locate(outcome.field).area]
         line.append(f"✗ {app.error_words(outcome.error)}", style="bold red")
-        line.append(f"  ({where})", style="dim")
+        where = Text(f"  ({AREA_KEYS[locate(outcome.field).area]})", style="dim")
     else:
         n = len(outcome.solved.result.branches) if outcome.solved else 0
         line.append(f"✓ solved {n} branches in {outcome.seconds * 1000:.1f} ms", style="green")
         warnings = len(outcome.solved.result.warnings) if outcome.solved else 0
         if warnings:
-            where = "w lists them" if on_split else "F4"
-            line.append(f"  ⚠ {warnings} warning{'s' if warnings > 1 else ''} ({where})",
+            listed = "w lists them" if on_split else "F4"
+            line.append(f"  ⚠ {warnings} warning{'s' if warnings > 1 else ''} ({listed})",
                         style="yellow")
-    line.no_wrap = True
-    line.overflow = "ellipsis"
-    return line
+    return line, where
