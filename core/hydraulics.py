@@ -123,10 +123,13 @@ def segment_state(lay: Layout, q: Array) -> SegmentState:
     else:
         with np.errstate(divide="ignore", invalid="ignore"):
             f, slope = friction.darcy(re, lay.relative_roughness, lay.model)
-    vel_head = v * speed / (2 * lay.gravity)
-    with np.errstate(invalid="ignore"):
+    # A bracket being widened tries flows far past the root: heads overflow to inf there,
+    # which the solvers read as "too high" (no warning wanted).
+    with np.errstate(over="ignore", invalid="ignore"):
+        vel_head = v * speed / (2 * lay.gravity)
         major = np.where(speed > 0, f * lay.length / lay.diameter * vel_head, 0.0)
-    return SegmentState(v, re, f, slope, major, lay.minor_k * vel_head)
+        minor = lay.minor_k * vel_head
+    return SegmentState(v, re, f, slope, major, minor)
 
 
 def head_and_slope(lay: Layout, q: Array) -> tuple[Array, Array]:
@@ -134,11 +137,12 @@ def head_and_slope(lay: Layout, q: Array) -> tuple[Array, Array]:
     q = np.asarray(q, dtype=float)
     st = segment_state(lay, q)
     n = lay.n_branches
-    valve = lay.valve_r * q * np.abs(q)
-    h = np.bincount(lay.seg_branch, st.major + st.minor, minlength=n) + valve
-    # d h/d ln Q per segment: major (2 + slope), minor and valve 2.
-    dh = np.bincount(lay.seg_branch, st.major * (2 + st.slope) + 2 * st.minor, minlength=n)
-    dh = dh + 2 * valve
+    with np.errstate(over="ignore", invalid="ignore"):  # inf far past the root, as above
+        valve = lay.valve_r * q * np.abs(q)
+        h = np.bincount(lay.seg_branch, st.major + st.minor, minlength=n) + valve
+        # d h/d ln Q per segment: major (2 + slope), minor and valve 2.
+        dh = np.bincount(lay.seg_branch, st.major * (2 + st.slope) + 2 * st.minor, minlength=n)
+        dh = dh + 2 * valve
     with np.errstate(divide="ignore", invalid="ignore"):
         return h, np.where(h != 0, dh / h, 2.0)
 
@@ -164,12 +168,13 @@ def _initial_flows(lay: Layout, head: Array) -> Array:
     nu = lay.nu[lay.seg_branch]
     n = lay.n_branches
     f = np.full_like(a, 0.02)
-    for _ in range(2):
-        r_seg = (f * lay.length / lay.diameter + lay.minor_k) / (2 * g * a**2)
-        r = np.bincount(lay.seg_branch, r_seg, minlength=n) + lay.valve_r
-        q = np.sqrt(head / r)
-        re = np.maximum(q[lay.seg_branch] / a * lay.diameter / nu, 1e-300)
-        f = np.maximum(64 / re, friction.swamee_jain(np.maximum(re, 1.0), rr)[0])
+    with np.errstate(all="ignore"):  # a branch with no resistance: q is inf, replaced below
+        for _ in range(2):
+            r_seg = (f * lay.length / lay.diameter + lay.minor_k) / (2 * g * a**2)
+            r = np.bincount(lay.seg_branch, r_seg, minlength=n) + lay.valve_r
+            q = np.sqrt(head / r)
+            re = np.maximum(q[lay.seg_branch] / a * lay.diameter / nu, 1e-300)
+            f = np.maximum(64 / re, friction.swamee_jain(np.maximum(re, 1.0), rr)[0])
     return np.where(np.isfinite(q) & (q > 0), q, 1e-6)
 
 

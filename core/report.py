@@ -71,6 +71,13 @@ def _given_json(sr: SiteResult) -> dict[str, Any]:
     return {"quantity": "measured_flow", "branch": branch, "value_si": g.value}
 
 
+def _readings_json(sr: SiteResult) -> list[dict[str, Any]]:
+    from .readings import compare
+
+    return [{"quantity": c.kind, "branch": c.branch, "value_si": c.read, "solved_si": c.solved,
+             "difference": c.difference, "within_band": c.within} for c in compare(sr)]
+
+
 def _solved_json(sr: SiteResult) -> dict[str, Any] | None:
     s = sr.result.solved
     if s is None:
@@ -123,6 +130,7 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
         },
         "branches": branches,
         "solved": _solved_json(sr),
+        "other_readings": _readings_json(sr),
         "warnings": [{"code": w.code, "branch": w.branch, "message": w.message}
                      for w in r.warnings],
         "notes": [*sr.notes, *r.notes],
@@ -186,7 +194,25 @@ def summary_lines(sr: SiteResult, system: str = "si") -> list[str]:
         f"Pressure drop {format_quantity(r.pressure_drop, 'pressure', system)}, head loss "
         f"{format_quantity(r.head_loss, 'head', system)}, total flow "
         f"{format_quantity(r.total_flow, 'flow', system)}",
+        *readings_lines(sr, system),
     ]
+
+
+def readings_lines(sr: SiteResult, system: str = "si") -> list[str]:
+    """The readings kept beside the given one, each against what the solve makes of it."""
+    from .readings import compare
+
+    lines = []
+    for c in compare(sr):
+        kind = "pressure" if c.kind == "pressure_drop" else "flow"
+        what = {"pressure_drop": "pressure drop", "total_flow": "total flow"}.get(
+            c.kind, f"measured flow in '{c.branch}'")
+        band = ("" if c.within is None else
+                "; within the P5–P95 band" if c.within else "; outside the P5–P95 band")
+        lines.append(f"Also read: {what} {format_quantity(c.read, kind, system)}; the solve "
+                     f"gives {format_quantity(c.solved, kind, system)} "
+                     f"({c.difference:+.1%}{band})")
+    return lines
 
 
 def solved_lines(sr: SiteResult, system: str = "si") -> list[str]:

@@ -29,6 +29,7 @@ from .model import (
     Segment,
     TotalFlow,
 )
+from .readings import chosen
 from .sitefile import BranchSpec, SegmentSpec, Site, Value
 from .sitefluid import PresetSource, build_fluid, text_value
 from .units import describe, parse_quantity
@@ -195,29 +196,15 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
 # ---- conditions and what to find -----------------------------------------------------------
 
 def _given(site: Site, names: list[str]) -> Given:
-    c = site.conditions
-    offered: list[tuple[str, Value]] = []
-    if c.pressure_drop is not None:
-        offered.append(("conditions.pressure_drop", c.pressure_drop))
-    if c.total_flow is not None:
-        offered.append(("conditions.total_flow", c.total_flow))
-    for i in site.measured_branches():
-        offered.append((f"branches[{i}].measured_flow", site.branches[i].measured_flow))
-    if not offered:
-        raise InputError("conditions", "nothing", "needs one reading: the pressure drop "
-                         "across the headers, the total flow, or one branch's measured flow "
-                         "(in a site file: pressure_drop, total_flow or measured_flow)")
-    if len(offered) > 1:
-        (first, _), (second, value) = offered[0], offered[1]
-        raise InputError(second, describe(value), f"contradicts {first}: give exactly one of "
-                         "pressure_drop, total_flow or one branch's measured_flow")
-    path, value = offered[0]
-    if path == "conditions.pressure_drop":
+    """The given condition from the reading :func:`.readings.chosen` picks (SI)."""
+    reading, _ = chosen(site)
+    path, value = reading.path, reading.value
+    if reading.kind == "pressure_drop":
         return PressureDrop(parse_quantity(value, "pressure", path))
     flow = parse_quantity(value, "flow", path)
-    if path == "conditions.total_flow":
+    if reading.kind == "total_flow":
         return TotalFlow(flow)
-    return MeasuredFlow(names[site.measured_branches()[0]], flow)
+    return MeasuredFlow(names[reading.branch], flow)  # type: ignore[index]
 
 
 def _find(site: Site, network: Network) -> Find:

@@ -12,8 +12,9 @@ File layout (format 1; the keys are a contract)::
                    date), pressure_instrument, flow_instrument
     [fluid]        kind, temperature, pressure, concentration, salinity, density, viscosity,
                    kinematic_viscosity, name
-    [conditions]   exactly one of pressure_drop / total_flow / a branch's measured_flow;
-                   elevation_change, friction, gravity, velocity_limit optional
+    [conditions]   pressure_drop / total_flow / a branch's measured_flow: one, or several and
+                   given = the one to solve from; elevation_change, friction, gravity,
+                   velocity_limit optional
     [[branches]]   name; tag (the plant's line or valve tag, optional); diameter | size;
                    length; roughness | material (+ condition); minor_k;
                    fittings = { elbow-90 = 4 }; hw_c; valve_kv | valve_cv; measured_flow;
@@ -55,7 +56,7 @@ BRANCH_KEYS = ("name", "tag", *PIPE_KEYS, "valve_kv", "valve_cv", "measured_flow
 FLUID_KEYS = ("kind", "name", "temperature", "pressure", "concentration", "salinity", "density",
               "viscosity", "kinematic_viscosity")
 CONDITION_KEYS = ("pressure_drop", "total_flow", "elevation_change", "friction", "gravity",
-                  "velocity_limit")
+                  "velocity_limit", "given")
 SOLVE_KEYS = ("find", "branch", "target_flow", "segment")
 TOLERANCE_KEYS = ("gauge_accuracy", "gauge_full_scale", "flow_meter_accuracy",
                   "target_flow_measured", "roughness_factor", "roughness_range", "diameter",
@@ -126,7 +127,7 @@ class FluidSpec:
 
 @dataclass
 class ConditionsSpec:
-    """The reading that fixes the head, and the network's settings, as typed."""
+    """The readings and which one fixes the head (``given``), and the network's settings."""
 
     pressure_drop: Value = None
     total_flow: Value = None
@@ -134,6 +135,7 @@ class ConditionsSpec:
     friction: Value = None
     gravity: Value = None
     velocity_limit: Value = None
+    given: Value = None
 
 
 @dataclass

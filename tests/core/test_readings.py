@@ -1,0 +1,75 @@
+"""Several readings in one site: which one the head is solved from, and the others compared.
+
+The comparisons are checked against the solver itself run the other way round (a reading that
+agrees with the solve must show a zero difference); the solver is checked against `fluids` in
+tests/references.
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from branchwise.core.errors import InputError
+from branchwise.core.readings import chosen, compare
+from branchwise.core.report import to_dict
+from branchwise.core.sitefile import demo_text, parse_site
+from branchwise.core.sitesolve import solve_site
+from branchwise.core.sitewrite import dump_site
+
+CLAMP_ON = ('# measured_flow = "80 gpm"         # a clamp-on reading: un-comment it and '
+            'comment out', 'measured_flow = "80 gpm"')
+
+
+def site(given: str | None = None, measured: str = "80 gpm"):
+    text = demo_text().replace(*CLAMP_ON).replace('"80 gpm"', f'"{measured}"')
+    if given is not None:
+        text = text.replace('friction = "colebrook"', f'friction = "colebrook"\ngiven = "{given}"')
+    return parse_site(text)
+
+
+def test_two_readings_need_to_say_which_one_is_given():
+    with pytest.raises(InputError) as caught:
+        chosen(site())
+    assert caught.value.field == "branches[2].measured_flow"
+    assert "conditions.given" in caught.value.reason
+
+
+@pytest.mark.parametrize(("given", "kind"), [("pressure_drop", "pressure_drop"),
+                                             ("AHU-3 coil", "measured_flow"),
+                                             ("measured_flow", "measured_flow")])
+def test_given_picks_the_reading(given, kind):
+    reading, others = chosen(site(given))
+    assert reading.kind == kind and len(others) == 1 and others[0].kind != kind
+
+
+@pytest.mark.parametrize(("given", "words"), [("total_flow", "no such reading"),
+                                              ("AHU-1 coil", "no measured_flow"),
+                                              ("gauge", "must be pressure_drop")])
+def test_given_naming_nothing_held_is_refused(given, words):
+    with pytest.raises(InputError) as caught:
+        solve_site(site(given))
+    assert caught.value.field == "conditions.given" and words in caught.value.reason
+
+
+def test_a_reading_that_agrees_with_the_solve_shows_no_difference():
+    flow = float(solve_site(site("pressure_drop", "1 gpm")).result.flows[2])  # AHU-3, gauge
+    agreeing = site("pressure_drop", f"{flow!r} m^3/s")
+    (c,) = compare(solve_site(agreeing))
+    assert c.kind == "measured_flow" and c.branch == "AHU-3 coil"
+    assert c.difference == pytest.approx(0.0, abs=1e-9)
+    # and the other way round: solved from that flow, the gauge reading is met
+    (back,) = compare(solve_site(site("AHU-3 coil", f"{flow!r} m^3/s")))
+    assert back.kind == "pressure_drop" and back.difference == pytest.approx(0.0, abs=1e-8)
+
+
+def test_the_readings_and_given_survive_a_save_and_reach_the_json():
+    s = site("AHU-3 coil")
+    again = parse_site(dump_site(s))
+    assert again.conditions.given == "AHU-3 coil"
+    assert again.branches[2].measured_flow == "80 gpm" and again.conditions.pressure_drop
+    doc = to_dict(solve_site(again))
+    assert doc["given"]["quantity"] == "measured_flow"
+    (other,) = doc["other_readings"]
+    assert other["quantity"] == "pressure_drop" and other["solved_si"] > 0
+    assert set(other) == {"quantity", "branch", "value_si", "solved_si", "difference",
+                          "within_band"}
