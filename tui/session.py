@@ -41,7 +41,6 @@ FIELD_KINDS: dict[str, str] = {
 }
 """The kind of quantity (a key of ``units.KINDS``) each field holds, by its last path part."""
 
-GIVEN_KINDS = ("pressure_drop", "total_flow", "measured_flow")
 FIND_CHOICES = ("flows", "diameter", "length", "roughness")
 
 _BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
@@ -128,7 +127,9 @@ def field_label(site: Site, path: str) -> str:
     if ref.area == "site":
         return path
     area = AREA_LABELS.get(ref.area, "")
-    return f"{area} {name}".strip() if name != ref.area else area or path
+    if name in (ref.area, area):  # conditions.given: "given", not "given given"
+        return area or path
+    return f"{area} {name}".strip()
 
 
 def error_text(error: BaseException, site: Site, system: str = "si",
@@ -193,26 +194,6 @@ def text_of(value: object) -> str:
     return str(value)
 
 
-def given_of(site: Site) -> tuple[str, int | None]:
-    """The given condition: (``pressure_drop`` | ``total_flow`` | ``measured_flow``, branch).
-
-    With none set (a new site), the pressure drop is the one to fill in.
-    """
-    measured = site.measured_branches()
-    if measured:
-        return "measured_flow", measured[0]
-    if site.conditions.total_flow is not None and site.conditions.pressure_drop is None:
-        return "total_flow", None
-    return "pressure_drop", None
-
-
-def given_text(site: Site) -> str:
-    kind, index = given_of(site)
-    if kind == "measured_flow" and index is not None:
-        return text_of(site.branches[index].measured_flow)
-    return text_of(getattr(site.conditions, kind))
-
-
 def find_of(site: Site) -> str:
     solve = site.solve
     if solve is None or not isinstance(solve.find, str) or solve.find not in FIND_CHOICES:
@@ -240,23 +221,6 @@ def unique_name(site: Site, stem: str) -> str:
 
 # ---- edits (each takes a copy of the site and changes it in place) ------------------------
 
-def set_given(site: Site, kind: str, value: str, branch: int | None = None) -> None:
-    """Make ``kind`` (on ``branch`` for a measured flow) the one given condition."""
-    site.conditions.pressure_drop = None
-    site.conditions.total_flow = None
-    for br in site.branches:
-        br.measured_flow = None
-    text = value or None
-    if kind == "measured_flow":
-        if branch is None or not 0 <= branch < len(site.branches):
-            raise ValueError(f"no branch {branch}")
-        site.branches[branch].measured_flow = text
-    elif kind in ("pressure_drop", "total_flow"):
-        setattr(site.conditions, kind, text)
-    else:
-        raise ValueError(f"unknown given {kind!r}")
-
-
 def set_find(site: Site, find: str, branch: str | None = None, target: str | None = None,
              segment: int | None = None) -> None:
     """Set what to solve for; ``flows`` keeps the rest of the [solve] table for later."""
@@ -274,11 +238,15 @@ def set_find(site: Site, find: str, branch: str | None = None, target: str | Non
 
 
 def rename_branch(site: Site, index: int, new: str) -> None:
-    """Rename a branch and the [solve] table's reference to it, so the two stay together."""
-    old = text_of(site.branches[index].name).strip().casefold()
+    """Rename a branch and what refers to it by name (the [solve] table, ``conditions.given``
+    when its reading is the given), so that they stay together."""
+    old = text_of(site.branches[index].name).strip()
     site.branches[index].name = new
-    if site.solve is not None and text_of(site.solve.branch).strip().casefold() == old:
+    if site.solve is not None and text_of(site.solve.branch).strip().casefold() == old.casefold():
         site.solve.branch = new
+    given = site.conditions.given
+    if isinstance(given, str) and given.strip() == old and old:
+        site.conditions.given = new.strip()
 
 
 def new_branch(site: Site, like: BranchSpec | None = None) -> BranchSpec:
@@ -323,8 +291,12 @@ class Session:
     undo_stack: list[Step] = field(default_factory=list)
     redo_stack: list[Step] = field(default_factory=list)
     parked: dict[str, str] = field(default_factory=dict)
-    """Values taken out of the site by a switch (the old pressure drop when a reading becomes
-    the given, a fluid field another kind does not use), to put back on the way back."""
+    """Values the site cannot hold after a switch (a fluid field another kind does not use,
+    the branch and target of a find switched to the flows), to put back on the way back.
+    Readings are never parked: the site keeps them all (``givens``)."""
+    carried: dict[str, str] = field(default_factory=dict)
+    """Readings the app filled in from the answer when they became the given, by given key:
+    one switched away from untouched is taken out again, as nobody read it."""
     saved: Site | None = None
     """The site as last saved or opened (None: nothing on disk matches it, such as restored
     work); set with the first revision when the session starts."""
@@ -391,6 +363,7 @@ class Session:
         self.undo_stack.clear()
         self.redo_stack.clear()
         self.parked.clear()
+        self.carried.clear()
         self.revision += 1
         self.mark_saved()
 

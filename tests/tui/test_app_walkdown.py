@@ -92,7 +92,9 @@ def test_walkdown_by_keys(ui, data_dir):
             await pilot.press("down", "enter")
             await ui.settle(pilot)
             assert app.site.conditions.total_flow is not None
-            assert app.site.conditions.pressure_drop is None
+            # The gauge's reading stays in the site beside the total, which is now the given.
+            assert app.site.conditions.pressure_drop == "20 psi"
+            assert app.site.conditions.given == "total_flow"
             held = flows_on_screen(app)
             for name, q in held.items():
                 assert q == pytest_approx(after[name], 2e-3), name
@@ -103,7 +105,7 @@ def test_walkdown_by_keys(ui, data_dir):
             assert total == pytest_approx(150 * US_GPM * 1000, 2e-3)
             assert "Given total flow 150 gpm" in ui.text(app)
 
-            # A clamp-on reading on AHU-3 becomes the given condition.
+            # A clamp-on reading on AHU-3: kept beside the given, then made the given (g).
             await pilot.press("f3")
             await ui.settle(pilot)
             table = app.screen.query_one("#branch-table", DataTable)
@@ -115,12 +117,21 @@ def test_walkdown_by_keys(ui, data_dir):
             await pilot.press("enter")
             await ui.settle(pilot)
             assert app.site.branches[2].measured_flow == "6 L/s"
-            assert app.site.conditions.total_flow is None
-            assert "Given reading on AHU-3 coil 6 L/s" in ui.text(app)
-
-            # Size AHU-1 (NPS 4 sch 40) for 25 L/s: the diameter and the catalog size.
+            assert app.site.conditions.given == "total_flow"
+            assert "Given total flow 150 gpm" in ui.text(app)
             await pilot.press("f4")
             await ui.settle(pilot)
+            await pilot.press("escape", "g")
+            await pilot.pause()
+            await pilot.press("down", "down", "down", "enter")  # Δp, total, AHU-1, 2, 3
+            await ui.settle(pilot)
+            assert app.site.conditions.given == "AHU-3 coil"
+            assert app.site.conditions.total_flow == "150 gpm"
+            assert app.site.conditions.pressure_drop == "20 psi"
+            assert "Given reading on AHU-3 coil 6 L/s" in ui.text(app)
+            assert "Also read total: 9.464 L/s" in ui.text(app)  # 150 gpm (NIST SP 811)
+
+            # Size AHU-1 (NPS 4 sch 40) for 25 L/s: the diameter and the catalog size.
             await pilot.press("escape", "f")
             await pilot.pause()
             await pilot.press("down", "enter")
@@ -162,7 +173,8 @@ def test_walkdown_by_keys(ui, data_dir):
             site = again.site
             assert site.source == saved
             assert site.branches[2].measured_flow == "6 L/s"
-            assert site.conditions.pressure_drop is None and site.conditions.total_flow is None
+            assert (site.conditions.pressure_drop, site.conditions.total_flow,
+                    site.conditions.given) == ("20 psi", "150 gpm", "AHU-3 coil")
             assert (site.solve.find, site.solve.branch, site.solve.target_flow) == (
                 "diameter", "AHU-1 coil", "25 L/s")
             assert str(again.screen.query_one("#solved", Static).render()) == kept_line

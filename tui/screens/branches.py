@@ -2,8 +2,9 @@
 
 Cells are edited in place (Enter opens a one-line editor under the table) or in the branch form
 (``e``). Branches are added, copied, removed (undo brings them back) and reordered. A reading
-typed in a branch's Reading cell becomes the given condition; the condition it replaces is kept
-aside for when the reading is cleared. The Flow column is the present answer.
+typed in a branch's Reading cell is kept beside the given (the Split screen compares it with
+the answer; ``g`` there makes it the given); the cell of the given reading says so. The Flow
+column is the present answer.
 """
 
 from __future__ import annotations
@@ -18,17 +19,15 @@ from textual.widgets import DataTable, Input, Label, Static
 
 from branchwise.core.sitefile import Site
 
-from ..session import (
-    branch_name,
+from ..givens import (
+    add_reading,
+    clear_reading,
     given_of,
-    given_text,
-    locate,
-    new_branch,
-    rename_branch,
-    set_given,
-    text_of,
-    with_unit,
+    given_words,
+    held,
+    remove_branch,
 )
+from ..session import branch_name, locate, new_branch, rename_branch, text_of, with_unit
 from ..widgets.branchcells import (
     BRANCH_COLUMNS,
     COLUMNS,
@@ -78,7 +77,7 @@ class BranchesScreen(WorkScreen):
         Binding("shift+down,right_square_bracket", "move(1)", "Down", id="branches-down",
                 show=False, tooltip="Move the branch down"),
         Binding("m", "edit_cell('reading')", "Reading", id="branches-reading", show=False,
-                tooltip="Type a measured flow for the branch: it becomes the given"),
+                tooltip="Type a measured flow for the branch: kept beside the given"),
         Binding("escape", "cancel_edit", "Cancel", id="branches-cancel", show=False,
                 tooltip="Close the cell editor without changing the cell"),
     ]
@@ -122,6 +121,7 @@ class BranchesScreen(WorkScreen):
         bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
             else None
         flows = flow_cells(app)
+        given = given_of(site)
         self._rows = []
         rows: list[tuple[str, list[object]]] = []
         for i, br in enumerate(site.branches):
@@ -132,6 +132,8 @@ class BranchesScreen(WorkScreen):
                         text = f"  └ {j + 1}" if key == "name" else ""
                     elif key == "flow":
                         text = flows.get(i, "") if j == 0 else ""
+                    elif key == "reading" and given == ("measured_flow", i):
+                        text = f"{cell_text(br, seg, key)} ◂ given"
                     else:
                         text = cell_text(br, seg, key)
                     wrong = (bad is not None and bad.branch == i and key == bad_column
@@ -146,11 +148,7 @@ class BranchesScreen(WorkScreen):
         if bad is not None:
             put(message, f"✗ {app.error_words(outcome.error)}")  # type: ignore[union-attr,arg-type]
         else:
-            kind, index = given_of(site)
-            put(message, "Enter edit · e form · a add · c copy · s segment · Del remove · bare "
-                "numbers take the header's unit" if index is None else
-                f"The reading on {branch_name(site, index)} ({given_text(site)}) is the given "
-                "condition.")
+            put(message, reading_hint(site, given))
 
     def on_resize(self) -> None:
         # The tag column comes and goes as the terminal crosses WIDE columns.
@@ -254,27 +252,19 @@ class BranchesScreen(WorkScreen):
 
     def _set_reading(self, i: int, text: str) -> None:
         app = self.bw
-        site = app.site
-        name = branch_name(site, i)
-        parked = app.session.parked
-        kind, index = given_of(site)
+        name = branch_name(app.site, i)
         value = with_unit(text, app.unit("flow"))
         if value:
-            if kind != "measured_flow" or index != i:
-                old = given_text(site)
-                if old:
-                    parked[kind if index is None else f"measured_flow:{branch_name(site, index)}"] \
-                        = old
-            app.edit(f"Reading on {name}", lambda s: set_given(s, "measured_flow", value, i))
-            app.notify(f"The reading on {name} is now the given condition.", timeout=4)
-            return
-        if kind == "measured_flow" and index == i:
-            back = "pressure_drop" if parked.get("pressure_drop") or not parked.get(
-                "total_flow") else "total_flow"
-            restored = parked.get(back, "")
-            parked[f"measured_flow:{name}"] = given_text(site)
+            app.edit(f"Reading on {name}", lambda s: add_reading(s, i, value))
+            if given_of(app.site) == ("measured_flow", i):
+                app.notify(f"The reading on {name} is the given condition.", timeout=4)
+            else:
+                app.notify(f"Reading on {name} kept beside the given: the Split screen (F4) "
+                           "compares it with the answer; g there makes it the given.",
+                           timeout=5)
+        elif app.site.branches[i].measured_flow is not None:
             app.edit(f"Clear the reading on {name}",
-                     lambda s: set_given(s, back, restored))
+                     lambda s: clear_reading(s, "measured_flow", i))
 
     # ---- branch actions --------------------------------------------------------------------------
 
@@ -349,18 +339,11 @@ class BranchesScreen(WorkScreen):
         if len(site.branches[i].segments) > 1:
             self.notify(f"{name} has {len(site.branches[i].segments)} segments: removing "
                         "the whole branch.", timeout=4)
-        kind, index = given_of(site)
-        was_given = kind == "measured_flow" and index == i
-        parked = self.bw.session.parked
 
         def change(s: Site) -> None:
-            s.branches.pop(i)
+            remove_branch(s, i)  # its reading too: the given moves on if it was that one
             if s.solve is not None and text_of(s.solve.branch).casefold() == name.casefold():
                 s.solve = None
-            if was_given:
-                back = "total_flow" if parked.get("total_flow") and not parked.get(
-                    "pressure_drop") else "pressure_drop"
-                set_given(s, back, parked.get(back, ""))
 
         self.bw.edit(f"Remove {name}", change)
         self.notify(f"Removed {name}. Ctrl+Z brings it back.", timeout=5)
@@ -398,3 +381,15 @@ class BranchesScreen(WorkScreen):
         if action in ("edit_cell", "form", "copy", "remove", "add_segment", "move"):
             return True if self.bw.site.branches else None
         return True
+
+
+def reading_hint(site: Site, given: tuple[str, int | None]) -> str:
+    """The line under the table: the keys, or, once a branch holds a reading, which reading
+    is the given and where the others are compared."""
+    if not site.measured_branches():
+        return ("Enter edit · e form · a add · c copy · s segment · Del remove · bare numbers "
+                "take the header's unit")
+    others = len(held(site)) - (1 if given in held(site) else 0)
+    return f"Given: the {given_words(site, *given)}." + (
+        " The other readings are compared with the answer on Split (F4); g there changes "
+        "the given." if others else " g on Split (F4) changes the given.")

@@ -15,21 +15,15 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.widgets import Input, Label, Static
 
-from ..session import (
-    FIND_CHOICES,
-    branch_name,
-    find_of,
-    given_of,
-    given_text,
-    locate,
-    text_of,
-)
+from ..givens import given_of, given_text
+from ..session import FIND_CHOICES, branch_name, find_of, locate, text_of
 from ..widgets.choice import Choice
 from ..widgets.quiet import put, show_text
 from ..widgets.sharebar import share_bar
 from ..widgets.texttable import TextTable
 from .splitedits import GIVEN_PREFIX, GivenFindEdits
 from .splitpanels import PANEL_BINDINGS, PanelScreen
+from .splitreadings import reading_lines
 from .warnings import fit_lines
 
 FIND_LABELS = {"flows": "the flows", "diameter": "the diameter", "length": "the length",
@@ -119,6 +113,10 @@ class SplitScreen(GivenFindEdits, PanelScreen):
             self._draw_results()
         self.draw_panel()
 
+    def draw_panel(self) -> None:
+        super().draw_panel()
+        self._draw_results()  # a band come in says whether each reading lies inside it
+
     def _draw_inputs(self) -> None:
         app, site = self.bw, self.bw.site
         kind, index = given_of(site)
@@ -179,7 +177,8 @@ class SplitScreen(GivenFindEdits, PanelScreen):
     def _draw_results(self) -> None:
         app = self.bw
         outcome = app.outcome
-        drawn = (outcome, app.good, app.unit_system, tuple(app.settings.display_units.items()))
+        drawn = (outcome, app.good, app.unit_system, tuple(app.settings.display_units.items()),
+                 app.latest_band, self.app.size.width >= 100)
         if getattr(self, "_drawn", None) == drawn:
             return  # the site changed but its answer has not arrived yet: nothing new to show
         self._drawn = drawn
@@ -210,7 +209,7 @@ class SplitScreen(GivenFindEdits, PanelScreen):
             put(solved, "", layout=False)
             if solved.display:
                 solved.display = False
-            self.warning_lines = []
+            self.warning_lines = self.screen_lines = []
             put(warnings, "")
             return
         result = shown.solved.result
@@ -246,16 +245,20 @@ class SplitScreen(GivenFindEdits, PanelScreen):
         lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{app.say(w)}"
                  for w in result.warnings]
         lines += [f"• {app.say(note)}" for note in (*shown.solved.notes, *result.notes)]
-        self.warning_lines = lines
+        # The other readings against the answer first: on a walkdown they are the news.
+        self.warning_lines = reading_lines(app, shown) + lines
+        self.screen_lines = reading_lines(app, shown, short=not wide) + lines
         self._show_warnings(self._warning_room)
         self.call_after_refresh(self._fit_warnings)
 
     warning_lines: list[str] = []
-    """Every warning and note of the answer shown (the screen shows as many as fit)."""
+    """The other readings against the answer, every warning and note of it (``w`` lists
+    them); :attr:`screen_lines` the same, shorter below 100 columns, as many as fit."""
+    screen_lines: list[str] = []
     _warning_room = MAX_WARNING_LINES
 
     def _show_warnings(self, room: int) -> None:
-        lines = fit_lines(self.warning_lines, min(room, MAX_WARNING_LINES))
+        lines = fit_lines(self.screen_lines, min(room, MAX_WARNING_LINES))
         warnings = self.query_one("#warnings", Static)
         put(warnings, "\n".join(lines))
         if warnings.display != bool(lines):

@@ -1,8 +1,11 @@
 """The Split screen's edits of its top rows: the given condition and what to find.
 
-Switching the given (Δp, total flow, one branch's reading) or the find choice keeps the value
-it replaces aside in the session (``parked``), so that switching back brings it again; a value
-typed in a field goes into the site at once (keystrokes in one field are one undo step).
+Switching the given (Δp, total flow, one branch's reading) keeps every reading in the site and
+names the one solved from in ``conditions.given`` (see :mod:`..givens`); a reading the app
+filled in from the answer and nobody touched goes again when the given moves on. Switching the
+find choice keeps the branch and target aside in the session (``parked``), so that switching
+back brings them again. A value typed in a field goes into the site at once (keystrokes in one
+field are one undo step).
 """
 
 from __future__ import annotations
@@ -11,16 +14,8 @@ from typing import TYPE_CHECKING, Any
 
 from textual.widgets import Input
 
-from ..session import (
-    branch_name,
-    find_of,
-    given_of,
-    given_text,
-    set_find,
-    set_given,
-    text_of,
-    with_unit,
-)
+from ..givens import given_of, make_given, reading_text, set_reading
+from ..session import branch_name, find_of, set_find, text_of, with_unit
 from ..widgets.choice import Choice
 
 if TYPE_CHECKING:
@@ -73,7 +68,12 @@ class GivenFindEdits:
             kind, index = given_of(app.site)
             unit = app.unit("pressure" if kind == "pressure_drop" else "flow")
             text = with_unit(event.value, unit)
-            app.edit("Given value", lambda s: set_given(s, kind, text, index), key="given")
+
+            def retype(s: object) -> None:  # that reading only: the others stay as they are
+                set_reading(s, kind, text, index)  # type: ignore[arg-type]
+                make_given(s, kind, index)  # type: ignore[arg-type]
+
+            app.edit("Given value", retype, key="given")
         elif event.input.id == "lift-value":
             text = with_unit(event.value, app.unit("head")) or None
 
@@ -102,15 +102,26 @@ class GivenFindEdits:
         old_kind, old_index = given_of(site)
         if (new_kind, new_index) == (old_kind, old_index):
             return
-        parked = app.session.parked
-        old_value = given_text(site)
-        if old_value:
-            parked[_park_key(site, old_kind, old_index)] = old_value
-        text = parked.get(_park_key(site, new_kind, new_index)) or self._current(
-            new_kind, new_index)
+        carried = app.session.carried
+        old_text = reading_text(site, old_kind, old_index)
+        # A reading the app filled in from the answer, untouched since: nobody read it.
+        untouched = bool(old_text) and carried.get(_park_key(site, old_kind, old_index)) \
+            == old_text
+        fill = "" if reading_text(site, new_kind, new_index) else self._current(new_kind,
+                                                                                 new_index)
+
+        def change(s: object) -> None:
+            if untouched:
+                set_reading(s, old_kind, None, old_index)  # type: ignore[arg-type]
+            if fill:
+                set_reading(s, new_kind, fill, new_index)  # type: ignore[arg-type]
+            make_given(s, new_kind, new_index)  # type: ignore[arg-type]
+
         label = ("the reading on " + branch_name(site, new_index) if new_index is not None
                  else new_kind.replace("_", " "))
-        app.edit(f"Given: {label}", lambda s: set_given(s, new_kind, text, new_index))
+        app.edit(f"Given: {label}", change)
+        if fill:
+            carried[_park_key(site, new_kind, new_index)] = fill
         self.query_one("#given-value", Input).focus()
 
     def _current(self, kind: str, index: int | None, *, down: bool = False) -> str:

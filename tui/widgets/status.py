@@ -11,12 +11,12 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.widgets import Static
 
-from ..session import branch_name, find_of, given_of, given_text, locate, text_of
+from ..givens import given_of, given_text, given_words
+from ..session import find_of, locate, text_of
 
 if TYPE_CHECKING:
     from ..app import BranchwiseApp
 
-GIVEN_LABELS = {"pressure_drop": "Δp across the header", "total_flow": "total flow"}
 AREA_KEYS = {"fluid": "F2 Liquid", "branches": "F3 Branches", "conditions": "F4 Split",
              "solve": "F4 Split", "tolerances": "F4 Split, l tolerances", "site": "F3 Branches"}
 
@@ -63,10 +63,7 @@ def describe(app: BranchwiseApp, on_split: bool = False, width: int | None = Non
     site = app.session.site
     kind, index = given_of(site)
     value = given_text(site) or "—"
-    if kind == "measured_flow" and index is not None:
-        given = f"reading on {branch_name(site, index)}"
-    else:
-        given = GIVEN_LABELS[kind]
+    given = given_words(site, kind, index)
     find = find_of(site)
     if find == "flows":
         sought = "the flow in every branch"
