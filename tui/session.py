@@ -142,6 +142,12 @@ def error_text(error: BaseException, site: Site, system: str = "si",
     field = getattr(error, "field", "")
     if not field or getattr(error, "reason", None) is None:
         return said(error, system, units)
+    if field == "conditions.given":
+        from .givens import given_of, given_text, given_words
+
+        if not given_text(site):  # its value being retyped: not "no such reading"
+            return (f"given {given_words(site, *given_of(site))}: needs a value (the other "
+                    "readings are kept)")
     return f"{field_label(site, field)}: {reason_text(error, system, units)}"
 
 

@@ -207,3 +207,29 @@ def test_renaming_or_removing_the_given_branch_keeps_given_in_step():
     make_given(site, "total_flow")
     remove_branch(site, 0)  # no reading on it: the given stays
     assert site.conditions.given == "total_flow"
+
+
+def test_a_given_being_retyped_says_so(ui, demo_file):
+    """With a second reading held, clearing the given's field asks for its value instead of
+    saying the site holds no such reading; the other reading stays."""
+    demo_file.write_text(demo_text().replace('# measured_flow = "80 gpm"',
+                                             'measured_flow = "80 gpm"').replace(
+        'friction = "colebrook"', 'friction = "colebrook"\ngiven = "pressure_drop"'))
+
+    async def scenario() -> None:
+        app = BranchwiseApp(demo_file)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            assert app.outcome.ok and also_read(app)
+            await pilot.press("v", "ctrl+u")
+            await ui.settle(pilot)
+            assert app.outcome.error is not None
+            message = str(app.screen.query_one("#given-message").render())
+            assert "Δp across the header: needs a value" in message
+            assert app.site.branches[2].measured_flow == "80 gpm"
+            assert given_of(app.site) == ("pressure_drop", None)
+            await ui.type(pilot, "12 psi")
+            await ui.settle(pilot)
+            assert app.outcome.ok and app.site.conditions.given == "pressure_drop"
+
+    ui.run(scenario)

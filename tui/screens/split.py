@@ -49,7 +49,8 @@ class SplitScreen(GivenFindEdits, PanelScreen):
                 tooltip="Enter moves to the next field; Esc leaves the fields for the results, "
                         "and single letters are keys again"),
         Binding("g", "pick('given-kind')", "Given", id="split-given",
-                tooltip="Choose what was measured: Δp, total flow or one branch's reading"),
+                tooltip="Choose the reading the head is solved from: Δp, total flow or one "
+                        "branch's reading (the others are kept and compared)"),
         Binding("v", "focus('given-value')", "Value", id="split-value", show=False,
                 tooltip="Type the value of the given condition"),
         Binding("f", "pick('find-kind')", "Find", id="split-find",
