@@ -101,3 +101,27 @@ def test_snapshots_120x40(ui):
 
     ui.run(scenario)
     assert not problems, "\n\n".join(problems)
+
+
+def test_snapshots_of_several_readings(ui):
+    """The demo with its clamp-on reading on AHU-3 made the given: Split compares the gauge's
+    Δp with the answer (the short line at 80×24); Branches marks the given's reading."""
+    from branchwise.tui.givens import set_given
+
+    problems: list[str] = []
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            app.edit("clamp-on", lambda s: set_given(s, "measured_flow", "80 gpm", 2))
+            await shot(pilot, ui, "readings-split-80x24", problems)
+        app = BranchwiseApp()
+        async with app.run_test(size=(120, 40)) as pilot:
+            await ui.settle(pilot)
+            app.edit("clamp-on", lambda s: set_given(s, "measured_flow", "80 gpm", 2))
+            await pilot.press("f3")
+            await shot(pilot, ui, "readings-branches-120x40", problems)
+
+    ui.run(scenario)
+    assert not problems, "\n\n".join(problems)
