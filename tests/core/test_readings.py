@@ -16,8 +16,7 @@ from branchwise.core.sitefile import demo_text, parse_site
 from branchwise.core.sitesolve import solve_site
 from branchwise.core.sitewrite import dump_site
 
-CLAMP_ON = ('# measured_flow = "80 gpm"         # a clamp-on reading: un-comment it and '
-            'comment out', 'measured_flow = "80 gpm"')
+CLAMP_ON = ('# measured_flow = "80 gpm"', 'measured_flow = "80 gpm"')  # the demo's clamp-on
 
 
 def site(given: str | None = None, measured: str = "80 gpm"):

@@ -21,7 +21,7 @@ ASME = "# ASME B36.10M: inner diameter"
 STRAINER = "# entrance, exit and strainer, summed by hand"
 BALANCING = "# balancing valve, partly closed"
 HINT = '# measured_flow = "80 gpm"'
-HINT_MORE = "# conditions.pressure_drop to make it the given condition"
+HINT_MORE = "# the solve; given = \"AHU-3 coil\" in [conditions] solves from it"
 SOLVE_BLOCK = "# [solve]"
 RANGE_HINT = "# roughness_range = "
 _KEY = re.compile(r"([A-Za-z0-9_-]+)\s*=")
@@ -194,7 +194,7 @@ def test_added_keys_leave_comments_beside_their_keys() -> None:
     i = _line_of(text, 'gravity = "9.81')
     assert rows[i - 1][1] == "friction" and rows[i + 1][2] == ""
     i = rows.index(("branch AHU-3 coil", "measured_flow", 'measured_flow = "80 gpm"'))
-    assert rows[i - 1][2].strip().startswith("# conditions.")  # below the hint, not between
+    assert rows[i - 1][2].strip() == HINT_MORE  # below the hint, not between
     assert rows[_line_of(text, "target_flow_measured")][0] == "tolerances"
 
 
