@@ -119,7 +119,7 @@ def tolerance_text(inp: InputTolerance, system: str = "si") -> str:
     """An input's ± limit as typed by a person: ``± 3 %``, ``± 689 Pa``, ``× 0.5 … 2``."""
     a = inp.half_width
     if inp.kind == "gauge":
-        return f"± {format_quantity(a, 'pressure', system)}"
+        return f"± {format_quantity(a, 'pressure', system, digits=3)}"
     if inp.kind == "temperature":  # a difference: 1 K = 1.8 °F (exact, by the scales' definition)
         return f"± {format_number(a * 1.8, 3)} °F" if system == "us" else (
             f"± {format_number(a, 3)} K")
