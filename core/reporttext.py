@@ -263,16 +263,21 @@ def _md(text: str) -> str:
 
 
 def to_markdown(
-    sr: SiteResult, system: str = "si", date: datetime | None = None, source: str | None = None
+    sr: SiteResult, system: str = "si", date: datetime | None = None, source: str | None = None,
+    unsaved: bool = False,
 ) -> str:
-    """A walkdown record a technician can paste into a work order."""
+    """A walkdown record a technician can paste into a work order.
+
+    source: the site file to cite (default: the one the site was read from); unsaved: the
+    answer is of edits not yet saved to it, which the record says.
+    """
     date = date or datetime.now().astimezone()
     src = source or (str(sr.site.source) if sr.site.source else "(not saved)")
     out = [
         f"# Walkdown record: {_md(sr.site.title)}", "",
         f"- Report written: {date.strftime('%Y-%m-%d %H:%M %Z').strip()}",
         *(f"- {_md(line)}" for line in record_lines(sr.site)),
-        f"- Site file: `{src}`",
+        f"- Site file: `{src}`" + (" (with unsaved changes)" if unsaved else ""),
         f"- Calculated with branchwise {version()}; units: {system.upper()}", "",
     ]
     if isinstance(sr.site.notes, str) and sr.site.notes.strip():

@@ -278,8 +278,6 @@ class SiteFiles:
         # would not give it back, and the record says so.
         unsaved = self.session.dirty
         saved_at = self.session.path
-        source = (f"{saved_at} (with unsaved changes)" if unsaved and saved_at is not None
-                  else None)
 
         def chosen(path: Path | None) -> None:
             if path is None:
@@ -287,8 +285,10 @@ class SiteFiles:
             from branchwise.core.report import to_csv, to_markdown
             from branchwise.core.tomlfile import atomic_write_text
 
-            text = (to_markdown(solved, system, source=source) if fmt == "markdown"
-                    else to_csv(solved, system))
+            source = None if saved_at is None else str(saved_at)
+            text = (to_markdown(solved, system, source=source,
+                                unsaved=unsaved and saved_at is not None)
+                    if fmt == "markdown" else to_csv(solved, system))
             wanted, path = path, _free(path)  # an export never replaces a file
             try:
                 atomic_write_text(path, text)

@@ -247,7 +247,7 @@ def test_record_of_unsaved_changes_says_so(ui, site_file):
             await pilot.pause()
             text = record()
             line = next(line for line in text.splitlines() if "Site file" in line)
-            assert str(site_file) in line and line.endswith("(with unsaved changes)`")
+            assert str(site_file) in line and line.endswith("` (with unsaved changes)")
             assert "40 kPa" in text  # the figures are those of the site as it now is
             # and the notice says so too
             assert any("unsaved changes" in n.message for n in app._notifications)
