@@ -4,6 +4,8 @@ luck. Robustness, no outside reference."""
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import keyfuzz
 import pytest
 
@@ -269,5 +271,22 @@ def test_an_undo_under_the_cell_editor_takes_its_cell_away(ui):
             assert app._exception is None and len(app.site.branches) == before
             assert all(seg.length != "12" and seg.length != "12 m"
                        for br in app.site.branches for seg in br.segments)
+
+    ui.run(scenario)
+
+
+def test_the_file_name_dialog_mounted_without_its_field_does_not_fail(ui):
+    """Large sweep seed 109: Ctrl+Q then r (the record) in one burst; the file-name dialog was
+    mounted while the app closed, before its field was composed, and its on_mount's
+    query_one(Input) raised NoMatches. Forced here: on_mount with no field."""
+    from branchwise.tui.screens.dialogs import SaveAsScreen
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            dialog = SaveAsScreen(Path("."), "record.md")
+            dialog.on_mount()  # nothing composed: it must simply return
+            assert app._exception is None
 
     ui.run(scenario)

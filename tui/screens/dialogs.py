@@ -180,7 +180,10 @@ class SaveAsScreen(Dialog[Path | None]):
             yield Static("Enter: save   Esc: cancel", markup=False)
 
     def on_mount(self) -> None:
-        box = self.query_one(Input)
+        boxes = self.query(Input)
+        if not boxes:  # the app is closing (Ctrl+Q a moment before): nothing was composed
+            return
+        box = boxes.first()
         box.focus()
         stem_end = len(Path(self.default).stem)
         box.selection = Selection(0, stem_end)

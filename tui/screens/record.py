@@ -89,6 +89,8 @@ class SiteDetailsScreen(Dialog[Details | None]):
                          markup=False)
 
     def on_mount(self) -> None:
+        if not self.children:  # the app is closing: nothing was composed
+            return
         box = self.query_one("#details-name", Field).input
         box.focus()
         box.selection = Selection(0, len(box.value))  # typing replaces the name at once

@@ -54,6 +54,8 @@ class SitesScreen(Dialog[Path | str | None]):
             yield Static("", classes="sites-note", markup=False)
 
     def on_mount(self) -> None:
+        if not self.children:  # the app is closing: nothing was composed
+            return
         table = self.query_one(DataTable)
         table.add_columns("Site", "Last changed", "File")
         listing = list_sites()

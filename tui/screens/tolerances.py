@@ -126,6 +126,8 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
             yield Static(FORM_KEYS, classes="tol-keys", markup=False)
 
     def on_mount(self) -> None:
+        if not self.children:  # the app is closing: nothing was composed
+            return
         for field in self.query(Field):
             field.set_unit(getattr(field, "meaning", ""))
         self.query_one("#tol-gauge_accuracy", Field).input.focus()
