@@ -252,6 +252,8 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
             self.refresh_bindings()
 
     async def action_show(self, mode: str) -> None:
+        if not self.is_running:  # a switch asked for as the app shuts down (a key that closed
+            return               # a dialog, then Ctrl+Q): Textual's shutdown iterates the modes
         if mode in self.MODES and self.current_mode != mode:
             # Awaited, so that the next key (Ctrl+Q typed at once) finds the switch done:
             # Textual's shutdown cannot take a screen that is still being added.

@@ -290,3 +290,16 @@ def test_the_file_name_dialog_mounted_without_its_field_does_not_fail(ui):
             assert app._exception is None
 
     ui.run(scenario)
+
+
+def test_an_app_key_from_the_palette_then_the_end(sandbox, data_dir):
+    """Large sweep seed 221: typed into the palette, F2 closed it and switched screens while
+    the keys went on and the run ended: the palette's search worker looked for its list once
+    gone (NoMatches), and Textual's shutdown met the switch still adding its screen
+    (RuntimeError "dictionary changed size during iteration"). Both failed most runs at
+    120×40 before the fix; played three times here."""
+    keys = ["ctrl+p", "4", "k", "ctrl+a", "f2", "7", "bar", "ctrl+g"]
+    for _ in range(3):
+        report = keyfuzz.drive(keys, size=(120, 40), sandbox=sandbox, data_dir=data_dir,
+                               timeout=60)
+        assert not report.problems, report.describe(221, "palette")

@@ -43,6 +43,7 @@ class Palette(CommandPalette):
     def dismiss(self, result: object = None) -> AwaitComplete:
         if self.app.screen is not self:
             return AwaitComplete(_nothing())
+        self.workers.cancel_all()  # a search still running would look for the list once gone
         return super().dismiss(result)
 
     def on_key(self, event: events.Key) -> None:
