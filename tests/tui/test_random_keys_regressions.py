@@ -311,7 +311,10 @@ def test_an_app_key_from_the_palette_then_the_end(sandbox, data_dir, ui):
             await pilot.press("ctrl+p")
             await ui.settle(pilot)
             palette = app.screen
-            running = palette.run_worker(asyncio.sleep(30), group="search")
+            async def search() -> None:
+                await asyncio.sleep(30)
+
+            running = palette.run_worker(search, group="search")
             palette.dismiss()
             await ui.settle(pilot)
             assert running.is_cancelled  # closing the palette stops its search
