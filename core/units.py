@@ -327,6 +327,16 @@ def say(item: object, system: str = "si", units: Mapping[str, str] | None = None
     return one_line(restate(text, system, units)) if text else str(item)
 
 
+def reason_and_value(
+    error: Any, system: str = "si", units: Mapping[str, str] | None = None
+) -> tuple[str, object]:
+    """An InputError's reason and value (as shown after "got") with the quantities the core
+    marked in them restated, for a boundary that words the field its own way."""
+    value = error.marked_value
+    return (restate(error.marked_reason, system, units),
+            restate(value, system, units) if isinstance(value, str) else value)
+
+
 def fluid_name(fluid: Any, system: str = "si", unit: str | None = None) -> str:
     """A fluid's name with its temperature in ``system``'s unit (or ``unit``): the names the
     fluid models build say "at 6.7 °C"; in US units that reads "at 44.0 °F"."""

@@ -297,7 +297,7 @@ def _message(exc: Exception, label: str, names: list[object] | None = None,
     """
     from branchwise.core.errors import InputError, NoSolutionError
     from branchwise.core.sitewords import in_words
-    from branchwise.core.units import restate, say
+    from branchwise.core.units import reason_and_value, say
 
     if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
         return _one_line(f"{exc.field}: {exc.reason}, got {exc.value}")
@@ -307,8 +307,7 @@ def _message(exc: Exception, label: str, names: list[object] | None = None,
         if field == name or field.startswith(name + " "):  # "demo.toml line 7" → "line 7"
             field = field[len(name):].strip()
         words = in_words(field, names)
-        reason, value = restate(exc.marked_reason, system), exc.marked_value
-        value = restate(value, system) if isinstance(value, str) else value
+        reason, value = reason_and_value(exc, system)
         text = (f"{words + ': ' if words else ''}{in_words(reason, names)}, got {value}"
                 + (f" ({field})" if words != field else ""))
     elif isinstance(exc, NoSolutionError) and exc.field:

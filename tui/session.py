@@ -161,11 +161,9 @@ def reason_text(error: BaseException | None, system: str = "si",
         return said(error, system, units)
     value = getattr(error, "value", "")
     if has_marks(getattr(error, "marked", "")):  # quantities to state in the user's units
-        from branchwise.core.units import restate
+        from branchwise.core.units import reason_and_value
 
-        reason = restate(error.marked_reason, system, units)  # type: ignore[union-attr]
-        if isinstance(error.marked_value, str):  # type: ignore[union-attr]
-            value = restate(error.marked_value, system, units)  # type: ignore[union-attr]
+        reason, value = reason_and_value(error, system, units)
     return reason + (f", got {value}" if value not in ("", None) else "")
 
 
