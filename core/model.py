@@ -185,7 +185,7 @@ class Network:
     """Branches in parallel between two common nodes.
 
     elevation_change: z_outlet − z_inlet, m; gravity: m/s²; friction: the model for the
-    turbulent regime (see :mod:`branchwise.core.friction`).
+    turbulent regime (see :mod:`branchwise.core.numerics.friction`).
     """
 
     fluid: Fluid

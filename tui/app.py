@@ -24,15 +24,15 @@ from textual.reactive import reactive  # noqa: E402
 from textual.screen import ModalScreen, Screen  # noqa: E402
 from textual.worker import get_current_worker  # noqa: E402
 
-from branchwise.core.settings import Settings  # noqa: E402
-from branchwise.core.sitefile import Site  # noqa: E402
+from branchwise.core.site.spec import Site  # noqa: E402
+from branchwise.core.storage.settings import Settings  # noqa: E402
 from branchwise.core.units import display_unit, unit_label  # noqa: E402
 
 from .files import SiteFiles  # noqa: E402
-from .outcome import Outcome  # noqa: E402
-from .screens.keyindex import SCREEN_TITLES, KeyIndex  # noqa: E402
-from .screens.split import SplitScreen  # noqa: E402
-from .session import Session, error_text, reason_text, said  # noqa: E402
+from .keys import SCREEN_TITLES, KeyIndex  # noqa: E402
+from .screens.split.screen import SplitScreen  # noqa: E402
+from .state.outcome import Outcome  # noqa: E402
+from .state.session import Session, error_text, reason_text, said  # noqa: E402
 from .widgets.bandview import Band  # noqa: E402
 
 KEYS_DELAY = 0.25
@@ -46,7 +46,7 @@ def _liquid_screen() -> Screen:
 
 
 def _branches_screen() -> Screen:
-    from .screens.branches import BranchesScreen
+    from .screens.branches.screen import BranchesScreen
 
     return BranchesScreen()
 
@@ -67,7 +67,7 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
     """
 
     TITLE = "branchwise"
-    CSS_PATH = Path(__file__).parent / "branchwise.tcss"
+    CSS_PATH = Path(__file__).parent / "app.tcss"
     MODES = {"liquid": _liquid_screen, "branches": _branches_screen, "split": SplitScreen}
     DEFAULT_MODE = "split"
     SCREENS_GROUP = Binding.Group("Screens")
@@ -208,7 +208,7 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
     def _solve(self, site: Site, revision: int) -> None:
         from branchwise.core.errors import BranchwiseError
 
-        from .outcome import compute
+        from .state.outcome import compute
 
         try:
             outcome = compute(site, revision)

@@ -21,7 +21,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, TextIO
 
 if TYPE_CHECKING:
-    from branchwise.core.sitesolve import SiteResult
+    from branchwise.core.site.solve import SiteResult
 
 EXIT_OK = 0
 EXIT_INPUT = 2
@@ -33,7 +33,7 @@ about 12 s and 2 GB of memory on the demo site (measured), so more is refused.""
 
 
 def _version() -> str:
-    from branchwise.core.report import version
+    from branchwise.core.report.lines import version
 
     return version()
 
@@ -151,9 +151,9 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
            args: argparse.Namespace | None = None) -> int:
     from branchwise.core.errors import InputError
     from branchwise.core.report import render
-    from branchwise.core.sitefile import demo_site, load_site
-    from branchwise.core.sitesolve import solve_site, with_uncertainty
-    from branchwise.core.tomlfile import atomic_write_text
+    from branchwise.core.site.read import demo_site, load_site
+    from branchwise.core.site.solve import solve_site, with_uncertainty
+    from branchwise.core.storage.toml_files import atomic_write_text
 
     samples_text, seed_text = getattr(args, "samples", None), getattr(args, "seed", None)
     samples = _whole(samples_text, "--samples", SAMPLES_MIN, SAMPLES_MAX, SAMPLES_DEFAULT)
@@ -190,8 +190,9 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
 def _curve_csv(solved: SiteResult, units: str) -> str:
     """The system curve of a solved site through its operating point, as CSV in the display
     units of ``units`` (``si`` or ``us``)."""
-    from branchwise.core.curve import system_curve, to_csv
     from branchwise.core.errors import InputError
+    from branchwise.core.numerics.curve import system_curve
+    from branchwise.core.report.curve_csv import to_csv
 
     result = solved.result
     try:
@@ -205,8 +206,8 @@ def _curve_csv(solved: SiteResult, units: str) -> str:
 
 def _demo(path: Path, force: bool, out: TextIO) -> int:
     from branchwise.core.errors import InputError
-    from branchwise.core.sitefile import DEMO_NAME, demo_text
-    from branchwise.core.tomlfile import atomic_write_text
+    from branchwise.core.site.read import DEMO_NAME, demo_text
+    from branchwise.core.storage.toml_files import atomic_write_text
 
     if path.is_dir():
         path = path / DEMO_NAME
@@ -220,7 +221,7 @@ def _demo(path: Path, force: bool, out: TextIO) -> int:
 
 
 def _where(out: TextIO) -> int:
-    from branchwise.core.paths import DATA_DIR_ENV, where_files_live
+    from branchwise.core.storage.paths import DATA_DIR_ENV, where_files_live
 
     labels = {"data_dir": "data folder", "presets_file": "presets", "settings_file": "settings",
               "sites_dir": "sites", "recovery_dir": "recovery copies"}
@@ -258,7 +259,7 @@ def _launch_app(site_path: Path | None) -> int | None:
 def _site_label(args: argparse.Namespace) -> str:
     site = getattr(args, "site", None)
     if args.command == "demo":
-        from branchwise.core.sitefile import DEMO_NAME
+        from branchwise.core.site.read import DEMO_NAME
 
         return str(args.path / DEMO_NAME if args.path.is_dir() else args.path)
     if args.command in ("presets", "where"):
@@ -273,8 +274,8 @@ def _one_line(text: str) -> str:
 def _branch_names(args: argparse.Namespace) -> list[object]:
     """The branch names of the site file being solved (the demo's without a file), read again
     only to word an error message; [] when the file cannot be read as TOML."""
-    from branchwise.core.sitefile import demo_text
-    from branchwise.core.sitewords import branch_names
+    from branchwise.core.site.fields import branch_names
+    from branchwise.core.site.read import demo_text
 
     if args.command not in ("solve", "open", None):
         return []
@@ -296,7 +297,7 @@ def _message(exc: Exception, label: str, names: list[object] | None = None,
     ``site.toml: branch "AHU-2 coil" length: must not be negative, got -5 m (branches[1].length)``.
     """
     from branchwise.core.errors import InputError, NoSolutionError
-    from branchwise.core.sitewords import in_words
+    from branchwise.core.site.fields import in_words
     from branchwise.core.units import reason_and_value, say
 
     if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
@@ -339,7 +340,7 @@ def main(argv: list[str] | None = None) -> int:
         if args.command == "demo":
             return _demo(args.path, args.force, out)
         if args.command == "presets":
-            from .presetcmd import run_presets
+            from .presets_command import run_presets
 
             return run_presets(args.action, args.kind, args.key, args.values, out)
         return _where(out)

@@ -3,7 +3,7 @@
 Unsaved work is never lost: every change schedules a recovery copy (written atomically in a
 worker, a second after the typing stops); quitting or opening another site with unsaved changes
 asks first; a recovery copy found at start-up is offered back. Saving goes through
-:func:`branchwise.core.sitefile.save_site` (atomic, keeps a ``.bak``, keeps the file's comments).
+:func:`branchwise.core.site.read.save_site` (atomic, keeps a ``.bak``, keeps the file's comments).
 """
 
 from __future__ import annotations
@@ -16,19 +16,11 @@ from typing import TYPE_CHECKING
 from textual import work
 
 from branchwise.core.errors import InputError
-from branchwise.core.paths import recovery_path, sites_dir
-from branchwise.core.sitefile import (
-    BranchSpec,
-    ConditionsSpec,
-    FluidSpec,
-    SegmentSpec,
-    Site,
-    demo_site,
-    load_site,
-    parse_site,
-)
+from branchwise.core.site.read import demo_site, load_site, parse_site
+from branchwise.core.site.spec import BranchSpec, ConditionsSpec, FluidSpec, SegmentSpec, Site
+from branchwise.core.storage.paths import recovery_path, sites_dir
 
-from .session import shown_path
+from .state.session import shown_path
 
 if TYPE_CHECKING:
     from .app import BranchwiseApp
@@ -89,8 +81,8 @@ class SiteFiles:
 
     @work(thread=True, exclusive=True, exit_on_error=False, group="recovery")
     def _write_recovery(self: BranchwiseApp, site: Site, path: Path) -> None:
-        from branchwise.core.sitefile import dump_site
-        from branchwise.core.tomlfile import atomic_write_text
+        from branchwise.core.site.write import dump_site
+        from branchwise.core.storage.toml_files import atomic_write_text
 
         try:
             atomic_write_text(path, dump_site(site), backup=False)
@@ -167,7 +159,7 @@ class SiteFiles:
     def save_to(self: BranchwiseApp, path: Path, overwrite: bool = False,
                 then: object = None) -> bool:
         """Save the site to ``path``; asks before replacing a file that is not ours."""
-        from branchwise.core.sitefile import save_site
+        from branchwise.core.site.write import save_site
 
         from .screens.dialogs import ChoiceScreen
 
@@ -282,8 +274,9 @@ class SiteFiles:
         def chosen(path: Path | None) -> None:
             if path is None:
                 return
-            from branchwise.core.report import to_csv, to_markdown
-            from branchwise.core.tomlfile import atomic_write_text
+            from branchwise.core.report.csv_report import to_csv
+            from branchwise.core.report.markdown import to_markdown
+            from branchwise.core.storage.toml_files import atomic_write_text
 
             source = None if saved_at is None else str(saved_at)
             text = (to_markdown(solved, system, source=source,

@@ -20,7 +20,7 @@ from .fittings import (
 )
 from .materials import Material, material, materials
 from .pipes import PipeSize, sizes, smallest_at_least, standards
-from .sizetext import parse_size
+from .size_text import parse_size
 
 __all__ = [
     "Fitting",

@@ -24,9 +24,8 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import cache
 
-from ..errors import InputError
+from ..errors import InputError, describe
 from ..model import non_negative, positive
-from ..units import describe
 from . import _data
 from .pipes import PipeSize, nominal_value, sizes
 

@@ -11,8 +11,7 @@ from dataclasses import dataclass
 from functools import cache
 from typing import Any
 
-from ..errors import InputError
-from ..units import describe
+from ..errors import InputError, describe
 from . import _data
 
 

@@ -16,9 +16,8 @@ from fractions import Fraction
 from functools import cache
 from typing import Any
 
-from ..errors import InputError
+from ..errors import InputError, describe
 from ..model import positive
-from ..units import describe
 from . import _data
 
 INCH = 0.0254

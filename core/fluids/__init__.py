@@ -1,118 +1,169 @@
-"""Liquid properties from published models, in SI: K, Pa, kg/kg, kg/m³, Pa·s.
+"""The liquids branchwise knows, in one registry, and the entry point that builds one.
 
-- :func:`water`: IAPWS-IF97 region 1 density, IAPWS 2008 viscosity.
-- :func:`seawater`: Sharqawy, Lienhard & Zubair (2010).
-- :func:`glycol`: ethylene/propylene glycol in water, from CoolProp tables shipped in
+Each kind of liquid is one :class:`LiquidKind` in :data:`LIQUIDS`: its key (the site file's
+``fluid.kind``), its label, the inputs it needs and takes (:data:`INPUTS`), the published model
+that gives its properties (one module each, imported on first use), and what holds for it
+(water-based, so that the trade's velocity rule applies; Hazen–Williams meaningful). The site
+loader, the ``presets`` command, the Liquid screen and the reports all read this registry.
+
+Models (SI: K, Pa, kg/kg, kg/m³, Pa·s):
+
+- :mod:`.water`: IAPWS-IF97 region 1 density, IAPWS 2008 viscosity.
+- :mod:`.seawater`: Sharqawy, Lienhard & Zubair (2010).
+- :mod:`.glycol`: ethylene/propylene glycol in water, from CoolProp tables shipped in
   ``presets/fluids/`` (read on first use).
-- :func:`custom`: density plus a dynamic or kinematic viscosity.
-- :func:`fluid_from_spec`: one entry point for saved sites and forms; every missing or
-  unexpected input is an :class:`~branchwise.core.errors.InputError` naming its field.
+- :mod:`.custom`: density plus a dynamic or kinematic viscosity.
+
+Adding a liquid: its model module, and one entry (with its builder) here.
 """
 
 from __future__ import annotations
 
-from ..errors import InputError
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import Any
+
+from ..errors import InputError, describe
 from ..model import Fluid
-from ..units import describe
-from .custom import custom
-from .glycol import GLYCOL_KINDS, GlycolKind, freezing_point_k, glycol
-from .seawater import seawater
-from .water import STANDARD_ATMOSPHERE_PA, water
-
-FLUID_KINDS: tuple[str, ...] = ("water", "seawater", *GLYCOL_KINDS, "custom")
-
-# Field path of every input fluid_from_spec takes, and which inputs each kind requires/allows.
-_FIELDS = {
-    "temperature_k": "fluid.temperature",
-    "pressure_pa": "fluid.pressure",
-    "mass_fraction": "fluid.concentration",
-    "salinity_kg_kg": "fluid.salinity",
-    "density": "fluid.density",
-    "viscosity": "fluid.viscosity",
-    "kinematic_viscosity": "fluid.kinematic_viscosity",
-    "name": "fluid.name",
-}
-_REQUIRED = {
-    "water": ("temperature_k",),
-    "seawater": ("temperature_k", "salinity_kg_kg"),
-    "ethylene-glycol": ("temperature_k", "mass_fraction"),
-    "propylene-glycol": ("temperature_k", "mass_fraction"),
-    "custom": ("density",),
-}
-_OPTIONAL = {
-    "water": ("pressure_pa",),
-    "seawater": ("pressure_pa",),
-    "ethylene-glycol": (),
-    "propylene-glycol": (),
-    "custom": ("viscosity", "kinematic_viscosity", "name"),
-}
+from .water import STANDARD_ATMOSPHERE_PA
 
 
-def fluid_from_spec(
-    kind: str,
-    *,
-    temperature_k: float | None = None,
-    pressure_pa: float | None = None,
-    mass_fraction: float | None = None,
-    salinity_kg_kg: float | None = None,
-    density: float | None = None,
-    viscosity: float | None = None,
-    kinematic_viscosity: float | None = None,
-    name: str | None = None,
-) -> Fluid:
+@dataclass(frozen=True)
+class LiquidInput:
+    """One value a liquid may need. key: the site file's key under ``[fluid]``; arg: the keyword
+    of :func:`fluid_from_spec` (SI, its unit in the name); quantity: the units kind of its text
+    (None: free text); label and hint: for a form."""
+
+    key: str
+    arg: str
+    quantity: str | None
+    label: str
+    hint: str = ""
+
+
+INPUTS: dict[str, LiquidInput] = {i.key: i for i in (
+    LiquidInput("temperature", "temperature_k", "temperature", "Temperature"),
+    LiquidInput("pressure", "pressure_pa", "pressure", "Pressure (absolute)", "empty: 1 atm"),
+    LiquidInput("concentration", "mass_fraction", "fraction", "Glycol concentration",
+                "by mass (30 %) unless vol is written (30 % vol)"),
+    LiquidInput("salinity", "salinity_kg_kg", "salinity", "Salinity"),
+    LiquidInput("name", "name", None, "Name"),
+    LiquidInput("density", "density", "density", "Density"),
+    LiquidInput("viscosity", "viscosity", "viscosity", "Dynamic viscosity"),
+    LiquidInput("kinematic_viscosity", "kinematic_viscosity", "kinematic_viscosity",
+                "Kinematic viscosity"),
+)}
+"""Every input a liquid can take, in the order a form shows them."""
+_BY_ARG = {i.arg: i for i in INPUTS.values()}
+
+
+@dataclass(frozen=True)
+class LiquidKind:
+    """One kind of liquid.
+
+    key: ``fluid.kind`` in a site file; label: for people; required / optional: keys of
+    :data:`INPUTS`; build: makes the :class:`~branchwise.core.model.Fluid` from the inputs by
+    their ``arg`` names (SI); water_based: water or a water solution (the trade's velocity rule
+    of thumb applies); hazen_williams: the Hazen–Williams formula may be used (water at
+    ordinary temperatures: an empirical fit for water alone).
+    """
+
+    key: str
+    label: str
+    required: tuple[str, ...]
+    optional: tuple[str, ...]
+    build: Callable[..., Fluid]
+    water_based: bool = False
+    hazen_williams: bool = False
+
+    @property
+    def inputs(self) -> tuple[str, ...]:
+        """Every input this kind takes, required first."""
+        return self.required + self.optional
+
+
+def _water(temperature_k: float, pressure_pa: float = STANDARD_ATMOSPHERE_PA) -> Fluid:
+    from .water import water
+
+    return water(temperature_k, pressure_pa)
+
+
+def _seawater(temperature_k: float, salinity_kg_kg: float,
+              pressure_pa: float = STANDARD_ATMOSPHERE_PA) -> Fluid:
+    from .seawater import seawater
+
+    return seawater(temperature_k, salinity_kg_kg, pressure_pa)
+
+
+def _glycol(kind: str) -> Callable[..., Fluid]:
+    def build(temperature_k: float, mass_fraction: float) -> Fluid:
+        from .glycol import glycol
+
+        return glycol(kind, temperature_k, mass_fraction)  # type: ignore[arg-type]
+
+    return build
+
+
+def _custom(density: float, viscosity: float | None = None,
+            kinematic_viscosity: float | None = None, name: str | None = None) -> Fluid:
+    from .custom import custom
+
+    return custom(name or "Custom fluid", density, viscosity, kinematic_viscosity)
+
+
+LIQUIDS: dict[str, LiquidKind] = {k.key: k for k in (
+    LiquidKind("water", "Water", ("temperature",), ("pressure",), _water,
+               water_based=True, hazen_williams=True),
+    LiquidKind("seawater", "Seawater", ("temperature", "salinity"), ("pressure",), _seawater,
+               water_based=True, hazen_williams=True),
+    LiquidKind("ethylene-glycol", "Ethylene glycol in water", ("temperature", "concentration"),
+               (), _glycol("ethylene-glycol"), water_based=True),
+    LiquidKind("propylene-glycol", "Propylene glycol in water",
+               ("temperature", "concentration"), (), _glycol("propylene-glycol"),
+               water_based=True),
+    LiquidKind("custom", "Custom (density and viscosity)", ("density",),
+               ("viscosity", "kinematic_viscosity", "name"), _custom),
+)}
+"""Every built-in kind of liquid, by key."""
+
+FLUID_KINDS: tuple[str, ...] = tuple(LIQUIDS)
+
+
+def liquid(kind: str) -> LiquidKind | None:
+    """The built-in kind written ``kind`` in any capitals, spaces or underscores
+    (``Propylene glycol`` is ``propylene-glycol``), or None."""
+    key = "-".join(kind.lower().replace("_", " ").split()) if isinstance(kind, str) else ""
+    return LIQUIDS.get(key)
+
+
+def fluid_from_spec(kind: str, **inputs: Any) -> Fluid:
     """The :class:`Fluid` for ``kind`` (one of :data:`FLUID_KINDS`) from the inputs that kind
-    takes; units as in the keyword names (K, Pa, kg/kg; kg/m³, Pa·s, m²/s).
+    takes, by their ``arg`` names in SI (``temperature_k`` K, ``pressure_pa`` Pa,
+    ``mass_fraction`` and ``salinity_kg_kg`` kg/kg, ``density`` kg/m³, ``viscosity`` Pa·s,
+    ``kinematic_viscosity`` m²/s, ``name``); None counts as not given.
 
     An input the kind needs but lacks, or one it does not use (a salinity for a glycol), is
     refused with an InputError on its field, so a form or a saved site never silently loses
     a value.
     """
-    key = kind.strip().lower() if isinstance(kind, str) else kind
-    if key not in FLUID_KINDS:
-        raise InputError("fluid.kind", describe(kind), f"must be one of {', '.join(FLUID_KINDS)}")
-    given = {
-        "temperature_k": temperature_k,
-        "pressure_pa": pressure_pa,
-        "mass_fraction": mass_fraction,
-        "salinity_kg_kg": salinity_kg_kg,
-        "density": density,
-        "viscosity": viscosity,
-        "kinematic_viscosity": kinematic_viscosity,
-        "name": name,
-    }
-    allowed = _REQUIRED[key] + _OPTIONAL[key]
+    spec = liquid(kind) if isinstance(kind, str) and kind == kind.strip().lower() else None
+    if spec is None:
+        raise InputError("fluid.kind", describe(kind), f"must be one of {', '.join(LIQUIDS)}")
+    given = {arg: value for arg, value in inputs.items() if value is not None}
     for arg, value in given.items():
-        if value is not None and arg not in allowed:
-            takes = ", ".join(_FIELDS[a].removeprefix("fluid.") for a in allowed)
+        item = _BY_ARG.get(arg)
+        if item is None:
+            raise TypeError(f"fluid_from_spec() got an unexpected keyword argument {arg!r}")
+        if item.key not in spec.inputs:
+            takes = ", ".join(spec.inputs)
             shown = f"{value:.6g}" if isinstance(value, float) else describe(value)
-            raise InputError(_FIELDS[arg], shown, f"not used for {key} (it takes {takes})")
-    for arg in _REQUIRED[key]:
-        if given[arg] is None:
-            raise InputError(_FIELDS[arg], "nothing", f"needed for {key}")
-    pressure = STANDARD_ATMOSPHERE_PA if pressure_pa is None else pressure_pa
-    if key == "water":
-        return water(temperature_k, pressure)  # type: ignore[arg-type]
-    if key == "seawater":
-        return seawater(temperature_k, salinity_kg_kg, pressure)  # type: ignore[arg-type]
-    if key == "custom":
-        return custom(
-            name or "Custom fluid",
-            density,
-            viscosity,  # type: ignore[arg-type]
-            kinematic_viscosity,
-        )
-    return glycol(key, temperature_k, mass_fraction)  # type: ignore[arg-type]
+            raise InputError(f"fluid.{item.key}", shown, f"not used for {spec.key} (it takes "
+                             f"{takes})")
+    for key in spec.required:
+        if INPUTS[key].arg not in given:
+            raise InputError(f"fluid.{key}", "nothing", f"needed for {spec.key}")
+    return spec.build(**given)
 
 
-__all__ = [
-    "FLUID_KINDS",
-    "GLYCOL_KINDS",
-    "Fluid",
-    "GlycolKind",
-    "custom",
-    "fluid_from_spec",
-    "freezing_point_k",
-    "glycol",
-    "seawater",
-    "water",
-]
+__all__ = ["FLUID_KINDS", "INPUTS", "LIQUIDS", "STANDARD_ATMOSPHERE_PA", "LiquidInput",
+           "LiquidKind", "fluid_from_spec", "liquid"]

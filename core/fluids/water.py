@@ -37,6 +37,7 @@ CRITICAL_PA = 22.064e6
 REGION1_MAX_K = 623.15
 REGION1_MAX_PA = 100e6
 STANDARD_ATMOSPHERE_PA = 101325.0
+"""Pa; the pressure a liquid is taken at when none is given (the standard atmosphere, ISO 2533)."""
 
 # fmt: off
 # IAPWS-IF97 Table 2: exponents I, J and coefficients n of the region-1 Gibbs free energy.

@@ -143,8 +143,8 @@ def test_branch_fields_are_named_by_the_branch(tmp_path, capsys, change, words, 
 def test_branch_error_keeps_its_field_path_for_the_app(tmp_path):
     # The app places the message beside the widget of InputError.field: it stays a path.
     from branchwise.core.errors import InputError
-    from branchwise.core.sitefile import load_site
-    from branchwise.core.sitesolve import solve_site
+    from branchwise.core.site.read import load_site
+    from branchwise.core.site.solve import solve_site
 
     site = tmp_path / "site.toml"
     site.write_text(edit('length = "180 ft"', 'length = "-180 ft"'), encoding="utf-8")
@@ -154,7 +154,7 @@ def test_branch_error_keeps_its_field_path_for_the_app(tmp_path):
 
 
 def test_in_words_puts_every_branch_reference_by_name():
-    from branchwise.core.sitewords import branch_names, in_words
+    from branchwise.core.site.fields import branch_names, in_words
 
     names = branch_names(GOOD)
     assert names == ["Condenser A", "Jacket loop"]

@@ -10,9 +10,9 @@ import sys
 
 import pytest
 
-from branchwise.core.report import CAUTIONS
-from branchwise.core.reporttext import CSV_LABELS
-from branchwise.core.sitefile import demo_text
+from branchwise.core.report.csv_report import CSV_LABELS
+from branchwise.core.report.lines import CAUTIONS
+from branchwise.core.site.read import demo_text
 from branchwise.tui.cli import main
 
 STANDARD_GRAVITY = 9.80665  # m/s², ISO 80000-3 / CGPM 1901

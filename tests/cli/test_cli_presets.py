@@ -6,7 +6,7 @@ import json
 
 import pytest
 
-from branchwise.core.sitefile import demo_text
+from branchwise.core.site.read import demo_text
 from branchwise.tui.cli import main
 
 

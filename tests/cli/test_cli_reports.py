@@ -10,9 +10,9 @@ import json
 
 import pytest
 
-from branchwise.core.report import CAUTIONS
-from branchwise.core.reporttext import CSV_LABELS
-from branchwise.core.sitefile import demo_text
+from branchwise.core.report.csv_report import CSV_LABELS
+from branchwise.core.report.lines import CAUTIONS
+from branchwise.core.site.read import demo_text
 from branchwise.core.units import format_number
 from branchwise.tui.cli import main
 

@@ -23,8 +23,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from branchwise.core.reporttext import CSV_LABELS
-from branchwise.core.sitefile import demo_text
+from branchwise.core.report.csv_report import CSV_LABELS
+from branchwise.core.site.read import demo_text
 from branchwise.core.units import format_number
 from branchwise.tui.cli import main
 

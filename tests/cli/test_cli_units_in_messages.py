@@ -10,7 +10,7 @@ import re
 
 import pytest
 
-from branchwise.core.sitefile import demo_text
+from branchwise.core.site.read import demo_text
 from branchwise.tui.cli import main
 
 GPM = 0.0254**3 * 231 / 60

@@ -14,11 +14,13 @@ import math
 import numpy as np
 import pytest
 
-from branchwise.core.curve import system_curve, tiled_layout, to_csv
 from branchwise.core.errors import InputError
-from branchwise.core.hydraulics import Layout, flows_at_head
 from branchwise.core.model import Branch, Fluid, Network, PressureDrop, Segment, branch
-from branchwise.core.solve import solve
+from branchwise.core.numerics.curve import system_curve
+from branchwise.core.numerics.hydraulics import Layout, flows_at_head
+from branchwise.core.numerics.solve import solve
+from branchwise.core.numerics.variants import tiled_layout
+from branchwise.core.report.curve_csv import to_csv
 
 G = 9.80665
 RHO, MU = 999.1, 1.138e-3  # a liquid like water near 15 °C (values need only be consistent)

@@ -14,7 +14,7 @@ from branchwise.core import units
 from branchwise.core.errors import NoSolutionError
 from branchwise.core.messages import flow_text, marked, render
 from branchwise.core.model import FindUnknown, Fluid, Network, PressureDrop, branch
-from branchwise.core.solve import solve
+from branchwise.core.numerics.solve import solve
 
 WATER = Fluid("water", 998.2, 1.0016e-3, "water")  # 20 °C, values from the iapws package
 GPM = 0.0254**3 * 231 / 60  # NIST SP 811: US gallon = 231 in³
@@ -84,7 +84,7 @@ def test_text_that_only_looks_like_a_marker_is_left_alone():
 
 def test_a_file_holding_the_marker_characters_is_refused_by_line():
     from branchwise.core.errors import InputError
-    from branchwise.core.sitefile import parse_site
+    from branchwise.core.site.read import parse_site
 
     text = 'format = 1\n[fluid]\nkind = "\ue000flow 1e-3\ue001"\n'
     with pytest.raises(InputError) as caught:

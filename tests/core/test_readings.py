@@ -10,11 +10,11 @@ from __future__ import annotations
 import pytest
 
 from branchwise.core.errors import InputError
-from branchwise.core.readings import chosen, compare
-from branchwise.core.report import to_dict
-from branchwise.core.sitefile import demo_text, parse_site
-from branchwise.core.sitesolve import solve_site
-from branchwise.core.sitewrite import dump_site
+from branchwise.core.report.json_report import to_dict
+from branchwise.core.site.read import demo_text, parse_site
+from branchwise.core.site.readings import chosen, compare
+from branchwise.core.site.solve import solve_site
+from branchwise.core.site.write import dump_site
 
 CLAMP_ON = ('# measured_flow = "80 gpm"', 'measured_flow = "80 gpm"')  # the demo's clamp-on
 

@@ -9,8 +9,9 @@ import tomllib
 import pytest
 
 from branchwise.core.errors import InputError
-from branchwise.core.sitefile import RecordSpec, demo_text, parse_site
-from branchwise.core.sitewrite import dump_site
+from branchwise.core.site.read import demo_text, parse_site
+from branchwise.core.site.spec import RecordSpec
+from branchwise.core.site.write import dump_site
 
 PLAIN = """format = 1
 name = "Pump room"  # no record, no tags

@@ -20,11 +20,11 @@ import tomllib
 import pytest
 
 from branchwise.core.errors import InputError
-from branchwise.core.sitebuild import build
-from branchwise.core.sitefile import DEMO_PATH, demo_text, load_site, parse_site
-from branchwise.core.sitesolve import solve_site, uncertainty_for_site
-from branchwise.core.sitewrite import dump_site
-from branchwise.core.uncertainty import Tolerances
+from branchwise.core.numerics.uncertainty import Tolerances
+from branchwise.core.site.build import build
+from branchwise.core.site.read import DEMO_PATH, demo_text, load_site, parse_site
+from branchwise.core.site.solve import solve_site, uncertainty_for_site
+from branchwise.core.site.write import dump_site
 
 PSI = 6894.757  # Pa, NIST SP 811
 INCH = 0.0254  # m, NIST SP 811 (exact)
@@ -264,7 +264,7 @@ def test_site_bands_are_ordered_seeded_and_hold_the_solve(capsys):
 
 def test_a_band_with_negative_ends_reads_without_a_double_dash(monkeypatch):
     # A reverse flow has negative band ends: "-6.27 to -4.14", never "-6.27–-4.14".
-    from branchwise.core import bandtext
+    from branchwise.core.report import band as bandtext
 
     monkeypatch.setattr(bandtext, "band_range", lambda sr, name, system: (-6.273, -4.139))
     assert bandtext.flow_band_cell(None, "A") == "-6.273 to -4.139"

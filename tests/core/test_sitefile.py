@@ -27,17 +27,16 @@ from branchwise.core.model import (
     TotalFlow,
     branch,
 )
-from branchwise.core.sitefile import (
+from branchwise.core.numerics.solve import solve
+from branchwise.core.site.read import (
     DEMO_PATH,
     demo_site,
     demo_text,
-    dump_site,
     load_site,
     parse_site,
-    save_site,
 )
-from branchwise.core.sitesolve import solve_site
-from branchwise.core.solve import solve
+from branchwise.core.site.solve import solve_site
+from branchwise.core.site.write import dump_site, save_site
 
 INCH, FOOT = 0.0254, 0.3048                      # NIST SP 811: exact
 GALLON = 231 * INCH**3                           # US gallon = 231 in³ (≈ 3.785 412 E-03 m³)
@@ -307,7 +306,7 @@ class Presets:
 
 
 def test_fluid_preset_key_with_site_values_on_top():
-    from branchwise.core.sitebuild import build
+    from branchwise.core.site.build import build
 
     text = site_text("pressure_drop").replace('kind = "custom"', 'kind = "brine-22"')
     site = parse_site(text.replace('density = "998.2 kg/m^3"\n', ""))
@@ -319,7 +318,7 @@ def test_fluid_preset_key_with_site_values_on_top():
 
 
 def test_aged_material_and_hazen_williams_c_come_from_the_material():
-    from branchwise.core.sitebuild import build
+    from branchwise.core.site.build import build
 
     text = site_text("pressure_drop").replace(
         'roughness = "0.0018 in"', 'material = "commercial-steel"\ncondition = "aged"')

@@ -14,8 +14,9 @@ import tomllib
 
 import pytest
 
-from branchwise.core.sitefile import SolveSpec, demo_text, parse_site
-from branchwise.core.sitewrite import dump_site
+from branchwise.core.site.read import demo_text, parse_site
+from branchwise.core.site.spec import SolveSpec
+from branchwise.core.site.write import dump_site
 
 ASME = "# ASME B36.10M: inner diameter"
 STRAINER = "# entrance, exit and strainer, summed by hand"

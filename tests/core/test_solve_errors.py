@@ -18,7 +18,7 @@ from branchwise.core.model import (
     TotalFlow,
     branch,
 )
-from branchwise.core.solve import solve
+from branchwise.core.numerics.solve import solve
 
 WATER = Fluid("water", 998.2, 1.0016e-3, "water")  # 20 °C, values from the iapws package
 

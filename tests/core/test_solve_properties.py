@@ -19,7 +19,6 @@ from hypothesis import given, note
 from hypothesis import strategies as st
 
 from branchwise.core.errors import NoSolutionError
-from branchwise.core.hydraulics import Layout, branch_head
 from branchwise.core.model import (
     Branch,
     FindUnknown,
@@ -30,7 +29,8 @@ from branchwise.core.model import (
     Segment,
     TotalFlow,
 )
-from branchwise.core.solve import solve
+from branchwise.core.numerics.hydraulics import Layout, branch_head
+from branchwise.core.numerics.solve import solve
 
 RTOL = 1e-9
 

@@ -18,7 +18,7 @@ import pytest
 import tomlkit
 
 from branchwise.core.errors import InputError
-from branchwise.core.store import (
+from branchwise.core.storage.presets import (
     FORMAT,
     PresetStore,
     Settings,

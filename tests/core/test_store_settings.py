@@ -13,7 +13,7 @@ from pathlib import Path
 import pytest
 
 from branchwise.core.errors import InputError
-from branchwise.core.store import (
+from branchwise.core.storage.presets import (
     MAX_RECENT,
     Settings,
     atomic_write_text,

@@ -31,8 +31,8 @@ from branchwise.core.model import (
     TotalFlow,
     branch,
 )
-from branchwise.core.solve import solve
-from branchwise.core.uncertainty import Thermal, Tolerances, build_plan, monte_carlo
+from branchwise.core.numerics.solve import solve
+from branchwise.core.numerics.uncertainty import Thermal, Tolerances, build_plan, monte_carlo
 
 G = 9.80665
 RHO, MU = 999.1, 1.138e-3  # a liquid like water near 15 °C (values need only be consistent)

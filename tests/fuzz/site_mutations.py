@@ -15,7 +15,7 @@ import re
 
 from hypothesis import strategies as st
 
-from branchwise.core.sitefile import demo_text
+from branchwise.core.site.read import demo_text
 
 # ---- valid sites ---------------------------------------------------------------------------
 

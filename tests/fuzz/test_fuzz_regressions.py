@@ -18,10 +18,10 @@ import pytest
 from branchwise.core.catalogs import fittings_k, material, parse_size
 from branchwise.core.errors import InputError
 from branchwise.core.fluids import fluid_from_spec
-from branchwise.core.sitebuild import build
-from branchwise.core.sitefile import load_site, parse_site
-from branchwise.core.sitesolve import solve_site
-from branchwise.core.tomlfile import MAX_DEPTH, migrate
+from branchwise.core.site.build import build
+from branchwise.core.site.read import load_site, parse_site
+from branchwise.core.site.solve import solve_site
+from branchwise.core.storage.toml_files import MAX_DEPTH, migrate
 
 HEAD = 'format = 1\nname = "x"\n[fluid]\nkind = "water"\ntemperature = "20 degC"\n'
 

@@ -24,8 +24,9 @@ from hypothesis import strategies as st
 from site_mutations import JUNK, SEEDS, VALUE_DAMAGE, mutated_site
 
 from branchwise.core.errors import BranchwiseError, InputError, NoSolutionError
-from branchwise.core.sitefile import TOP_KEYS, load_site, parse_site
-from branchwise.core.sitesolve import solve_site
+from branchwise.core.site.read import load_site, parse_site
+from branchwise.core.site.solve import solve_site
+from branchwise.core.site.spec import TOP_KEYS
 from branchwise.tui.cli import main
 
 NAME = "site.toml"

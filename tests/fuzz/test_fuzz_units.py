@@ -15,8 +15,8 @@ from fuzz_support import STATS, time_limit
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from branchwise.core.errors import InputError
-from branchwise.core.units import KINDS, describe, parse_quantity
+from branchwise.core.errors import InputError, describe
+from branchwise.core.units import KINDS, parse_quantity
 
 FIELD = "branches[3].segments[1].length"
 

@@ -2,7 +2,7 @@
 one, and it loads.
 
 A forked child process saves two different sites in turn over the same file with
-:func:`~branchwise.core.sitewrite.save_site` (``overwrite=True``) and is killed with SIGKILL
+:func:`~branchwise.core.site.write.save_site` (``overwrite=True``) and is killed with SIGKILL
 after a random delay. The reference is the POSIX guarantee for rename(2) (POSIX.1-2017: the
 new name "shall remain visible ... and refer either to the file referred to by new or old"),
 which protects only a writer that never writes into the real name. The harness itself is
@@ -23,10 +23,11 @@ import pytest
 from fuzz_support import STATS
 from site_mutations import CUSTOM_SEGMENTS
 
-from branchwise.core.sitefile import Site, demo_text, load_site, parse_site
-from branchwise.core.sitesolve import solve_site
-from branchwise.core.sitewrite import dump_site, save_site
-from branchwise.core.store import list_sites
+from branchwise.core.site.read import demo_text, load_site, parse_site
+from branchwise.core.site.solve import solve_site
+from branchwise.core.site.spec import Site
+from branchwise.core.site.write import dump_site, save_site
+from branchwise.core.storage.presets import list_sites
 
 pytestmark = pytest.mark.skipif(not hasattr(os, "fork"), reason="needs POSIX fork and signals")
 

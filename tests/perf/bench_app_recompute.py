@@ -23,7 +23,7 @@ def site_with(n: int):
     """The demo site with ``n`` branches (copies of the demo's, renamed)."""
     import copy
 
-    from branchwise.core.sitefile import demo_site
+    from branchwise.core.site.read import demo_site
 
     site = demo_site()
     base = site.branches

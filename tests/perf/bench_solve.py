@@ -20,9 +20,9 @@ import time
 
 import numpy as np
 
-from branchwise.core.hydraulics import Layout, flows_at_head
 from branchwise.core.model import Branch, Fluid, Network, PressureDrop, Segment
-from branchwise.core.solve import solve
+from branchwise.core.numerics.hydraulics import Layout, flows_at_head
+from branchwise.core.numerics.solve import solve
 
 G = 9.80665
 WATER = Fluid("water 20 °C", 998.2, 1.0016e-3, "water")

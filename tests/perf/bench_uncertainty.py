@@ -27,8 +27,8 @@ from branchwise.core.model import (
     Segment,
     TotalFlow,
 )
-from branchwise.core.solve import solve
-from branchwise.core.uncertainty import Thermal, Tolerances, build_plan, monte_carlo
+from branchwise.core.numerics.solve import solve
+from branchwise.core.numerics.uncertainty import Thermal, Tolerances, build_plan, monte_carlo
 
 SAMPLES = 10_000
 LOOP_SAMPLES = 300

@@ -180,8 +180,9 @@ def test_a_size_written_by_dn_is_shown_by_dn_and_reads_back():
 def test_sizing_a_branch_for_the_flow_it_carries_gives_back_its_own_size(name, digits):
     # The round trip a site engineer does first: the found bore for today's flow must give the
     # installed catalog size (ASME B36.10M), not the next one up.
-    from branchwise.core.sitefile import SolveSpec, demo_site
-    from branchwise.core.sitesolve import solve_site
+    from branchwise.core.site.read import demo_site
+    from branchwise.core.site.solve import solve_site
+    from branchwise.core.site.spec import SolveSpec
 
     site = demo_site()
     flows = solve_site(site).result

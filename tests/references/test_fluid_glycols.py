@@ -17,7 +17,8 @@ from CoolProp.CoolProp import PropsSI
 from scipy.interpolate import CubicSpline
 
 from branchwise.core.errors import InputError
-from branchwise.core.fluids import _spline, freezing_point_k, glycol
+from branchwise.core.fluids import _spline
+from branchwise.core.fluids.glycol import freezing_point_k, glycol
 
 ATM = 101325.0
 CODES = {"ethylene-glycol": "MEG", "propylene-glycol": "MPG"}

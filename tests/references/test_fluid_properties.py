@@ -15,11 +15,14 @@ from iapws._iapws import _Viscosity as iapws_viscosity
 from iapws.iapws97 import _TSat_P as tsat_if97
 
 from branchwise.core.errors import InputError
-from branchwise.core.fluids import FLUID_KINDS, custom, fluid_from_spec, seawater, water
+from branchwise.core.fluids import FLUID_KINDS, fluid_from_spec
+from branchwise.core.fluids.custom import custom
+from branchwise.core.fluids.seawater import seawater
 from branchwise.core.fluids.water import (
     density_if97,
     saturation_temperature_if97,
     viscosity_iapws2008,
+    water,
 )
 
 ATM = 101325.0

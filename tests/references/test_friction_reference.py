@@ -8,7 +8,7 @@ import fluids.friction as ref
 import numpy as np
 import pytest
 
-from branchwise.core import friction
+from branchwise.core.numerics import friction
 
 RE_GRID = np.geomspace(4e3, 1e8, 41)
 RR_GRID = np.concatenate([[0.0], np.geomspace(1e-7, 0.05, 15)])

@@ -12,8 +12,8 @@ from __future__ import annotations
 import pytest
 from CoolProp.CoolProp import PropsSI
 
-from branchwise.core.fluids import glycol
 from branchwise.core.fluids.concentration import mass_fraction_from_volume, split_basis
+from branchwise.core.fluids.glycol import glycol
 
 VOLUME_CODES = {"ethylene-glycol": "AEG", "propylene-glycol": "APG"}
 T20 = 293.15
@@ -57,8 +57,8 @@ def test_basis_words(text: str, expected: tuple[str, str]) -> None:
 
 @pytest.mark.parametrize("typed", ["30 % vol", "30 vol%", "30 % by volume"])
 def test_site_file_concentration_by_volume(typed: str) -> None:
-    from branchwise.core.sitebuild import build_fluid
-    from branchwise.core.sitefile import parse_site
+    from branchwise.core.site.build import build_fluid
+    from branchwise.core.site.read import parse_site
 
     def site(concentration: str):
         return parse_site('format = 1\n[fluid]\nkind = "ethylene-glycol"\n'
@@ -76,8 +76,8 @@ def test_site_file_concentration_by_volume(typed: str) -> None:
 
 @pytest.mark.parametrize("spelled", ["Ethylene-Glycol", "ethylene glycol", "ETHYLENE_GLYCOL"])
 def test_the_kind_is_read_however_it_is_capitalised_or_spaced(spelled: str) -> None:
-    from branchwise.core.sitebuild import build_fluid
-    from branchwise.core.sitefile import parse_site
+    from branchwise.core.site.build import build_fluid
+    from branchwise.core.site.read import parse_site
 
     site = parse_site(f'format = 1\n[fluid]\nkind = "{spelled}"\ntemperature = "20 degC"\n'
                       'concentration = "30 % vol"\n')

@@ -24,7 +24,7 @@ from branchwise.core.model import (
     Segment,
     TotalFlow,
 )
-from branchwise.core.solve import solve
+from branchwise.core.numerics.solve import solve
 
 G = 9.80665
 RHO, MU = 999.1, 1.138e-3  # a liquid like water near 15 °C (values only need to be consistent)

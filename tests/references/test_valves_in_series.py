@@ -12,8 +12,8 @@ import pytest
 
 from branchwise.core.catalogs import k_from_kv
 from branchwise.core.errors import InputError
-from branchwise.core.sitebuild import build
-from branchwise.core.sitefile import parse_site
+from branchwise.core.site.build import build
+from branchwise.core.site.read import parse_site
 
 BORE = 0.1  # m
 

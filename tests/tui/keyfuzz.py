@@ -8,7 +8,7 @@ person would) and returns what went wrong, so that a failure can print its seed 
 replayed with ``drive(keys)``.
 
 Nothing here writes outside the test's own folder: every file write of the app goes through
-:func:`branchwise.core.tomlfile.atomic_write_text`, which the sandbox refuses (the way a
+:func:`branchwise.core.storage.toml_files.atomic_write_text`, which the sandbox refuses (the way a
 read-only folder would) for any path outside the test's folder. The app runs as the same user
 as the tests, so a typed ``/x`` in a save dialog must not reach the real file system.
 """
@@ -135,10 +135,9 @@ class Sandbox:
     """Refuse app file writes outside ``root``; remember every site saved."""
 
     def __init__(self, root: Path, monkeypatch) -> None:
-        import branchwise.core.sitefile as sitefile
-        import branchwise.core.sitewrite as sitewrite
-        import branchwise.core.store as store
-        import branchwise.core.tomlfile as tomlfile
+        import branchwise.core.site.write as sitewrite
+        import branchwise.core.storage.presets as store
+        import branchwise.core.storage.toml_files as tomlfile
         from branchwise.core.errors import InputError
 
         self.root = root.resolve()
@@ -160,7 +159,6 @@ class Sandbox:
         monkeypatch.setattr(tomlfile, "atomic_write_text", guarded_write)
         monkeypatch.setattr(store, "atomic_write_text", guarded_write)
         monkeypatch.setattr(sitewrite, "save_site", recorded_save)
-        monkeypatch.setattr(sitefile, "save_site", recorded_save)
         home = root / "home"
         home.mkdir(parents=True, exist_ok=True)
         monkeypatch.setenv("HOME", str(home))  # a typed ~/x stays inside
@@ -181,7 +179,7 @@ class Sandbox:
 
     def broken_sites(self, data_dir: Path) -> list[str]:
         from branchwise.core.errors import InputError
-        from branchwise.core.sitefile import load_site
+        from branchwise.core.site.read import load_site
 
         broken = []
         for path in self.site_files(data_dir):
@@ -310,8 +308,8 @@ async def _one_app(keys: list[str], at: int, report: Report, size: tuple[int, in
 
 async def _check_alive(pilot, report: Report) -> None:
     """Close every dialog with Esc, then F3 and F4 must switch screens and a solve finish."""
-    from branchwise.tui.screens.branches import BranchesScreen
-    from branchwise.tui.screens.split import SplitScreen
+    from branchwise.tui.screens.branches.screen import BranchesScreen
+    from branchwise.tui.screens.split.screen import SplitScreen
 
     app = pilot.app
     await pilot.pause()  # a dialog the last keys asked for is up before it is closed

@@ -8,9 +8,9 @@ import re
 import pytest
 
 from branchwise.core.errors import InputError
-from branchwise.core.sitebuild import build
+from branchwise.core.site.build import build
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.widgets.branchcells import set_valve, valve_problem
+from branchwise.tui.screens.branches.cells import set_valve, valve_problem
 from branchwise.tui.widgets.field import Field
 
 
@@ -68,7 +68,7 @@ def test_valve_check_agrees_with_the_site_file():
 def test_split_losses_named_as_in_the_exports(ui):
     """The Split table's Major, Minor and Valve columns hold what the exports' "Major loss",
     "Minor loss" and "Valve loss" hold (the minor loss without the valve's)."""
-    from branchwise.core.reporttext import COLUMNS
+    from branchwise.core.report.columns import COLUMNS
     from branchwise.tui.widgets.texttable import TextTable
 
     async def scenario() -> None:

@@ -6,9 +6,10 @@ from __future__ import annotations
 import csv
 import io
 
-import branchwise.tui.outcome as outcome_module
-from branchwise.core.paths import recovery_path
-from branchwise.core.sitefile import demo_site, save_site
+import branchwise.tui.state.outcome as outcome_module
+from branchwise.core.site.read import demo_site
+from branchwise.core.site.write import save_site
+from branchwise.core.storage.paths import recovery_path
 from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.screens.dialogs import ChoiceScreen
 
@@ -92,7 +93,7 @@ def test_open_from_the_site_list_and_export(ui, data_dir):
                 next(path.parent.glob("pump-room-2-*.csv")).read_text(encoding="utf-8"))))
             assert rows[0][0].startswith("Branch") and any("(L/s)" in c for c in rows[0])
             # After the segment rows come labelled Result/Record/Warning/Caution rows.
-            from branchwise.core.reporttext import CSV_LABELS as labels
+            from branchwise.core.report.csv_report import CSV_LABELS as labels
             data = [r for r in rows[1:] if r and not r[0].startswith("#") and r[0] not in labels]
             assert len(data) == 5  # four branches, the bypass in two segments
             assert any(r[0] == "Caution" for r in rows)

@@ -10,9 +10,9 @@ from rich.console import Console
 from textual.binding import Binding
 
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.screens.branches import BranchesScreen
+from branchwise.tui.screens.branches.screen import BranchesScreen
 from branchwise.tui.screens.liquid import LiquidScreen
-from branchwise.tui.screens.split import SplitScreen
+from branchwise.tui.screens.split.screen import SplitScreen
 from branchwise.tui.widgets.texttable import TextTable
 
 US_GPM = 3.785411784e-3 / 60  # m³/s per US gallon per minute (NIST SP 811, gallon exact)

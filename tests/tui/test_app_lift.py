@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import pytest
 
-from branchwise.core.sitefile import demo_site
-from branchwise.core.sitesolve import solve_site
+from branchwise.core.site.read import demo_site
+from branchwise.core.site.solve import solve_site
 from branchwise.tui.app import BranchwiseApp
 
 
@@ -40,7 +40,7 @@ def test_lift_typed_on_the_split_screen(ui):
 
 
 def test_site_name_by_key_and_kept_in_the_saved_file(ui, data_dir):
-    from branchwise.core.sitefile import load_site
+    from branchwise.core.site.read import load_site
 
     async def scenario() -> None:
         app = BranchwiseApp()

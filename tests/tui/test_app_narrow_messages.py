@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from branchwise.core.errors import NoSolutionError
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.session import set_find
+from branchwise.tui.state.session import set_find
 from branchwise.tui.widgets.status import ERROR_LINES, StatusStrip
 
 DEMO_ROWS = ("AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass", "└ seg. 2")

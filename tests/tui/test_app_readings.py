@@ -14,10 +14,10 @@ import pytest
 from test_app_walkdown import PSI, US_GPM, ahu3_flow_by_hand
 from textual.widgets import DataTable, Input
 
-from branchwise.core.sitefile import demo_text, load_site, parse_site
+from branchwise.core.site.read import demo_text, load_site, parse_site
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.givens import given_of, make_given, remove_branch, set_reading
-from branchwise.tui.session import rename_branch
+from branchwise.tui.state.givens import given_of, make_given, remove_branch, set_reading
+from branchwise.tui.state.session import rename_branch
 
 
 @pytest.fixture

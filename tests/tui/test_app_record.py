@@ -13,7 +13,7 @@ import math
 import pytest
 from textual.widgets import DataTable
 
-from branchwise.core.sitefile import load_site
+from branchwise.core.site.read import load_site
 from branchwise.tui.app import BranchwiseApp
 
 SITE = """format = 1
@@ -180,8 +180,8 @@ def test_valves_in_series_typed_in_the_form(ui, site_file):
 
         # Valves in series pass one flow and their drops add; with Δp = (Q/Kv)² (the Kv of
         # IEC 60534-1), 1/Kv² = 1/160² + 1/40²: the same answer as one valve of that Kv.
-        from branchwise.core.sitefile import parse_site
-        from branchwise.core.sitesolve import solve_site
+        from branchwise.core.site.read import parse_site
+        from branchwise.core.site.solve import solve_site
 
         one = 1 / math.sqrt(1 / 160**2 + 1 / 40**2)
         expected = solve_site(parse_site(SITE.replace("valve_kv = 160", f"valve_kv = {one!r}")))

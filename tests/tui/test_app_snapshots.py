@@ -14,9 +14,9 @@ from pathlib import Path
 
 import pytest
 
-import branchwise.tui.outcome as outcome_module
+import branchwise.tui.state.outcome as outcome_module
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.session import set_find
+from branchwise.tui.state.session import set_find
 
 SNAPSHOTS = Path(__file__).parent / "snapshots"
 UPDATE = os.environ.get("BRANCHWISE_UPDATE_SNAPSHOTS", "") not in ("", "0")
@@ -106,7 +106,7 @@ def test_snapshots_120x40(ui):
 def test_snapshots_of_several_readings(ui):
     """The demo with its clamp-on reading on AHU-3 made the given: Split compares the gauge's
     Δp with the answer (the short line at 80×24); Branches marks the given's reading."""
-    from branchwise.tui.givens import set_given
+    from branchwise.tui.state.givens import set_given
 
     problems: list[str] = []
 

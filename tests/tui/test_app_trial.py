@@ -13,7 +13,7 @@ import pytest
 
 from branchwise.core.catalogs import parse_size
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.screens.branchform import BranchForm
+from branchwise.tui.screens.branches.form import BranchForm
 from branchwise.tui.widgets.curveplot import MARKERS, PlotData, Series, draw
 from branchwise.tui.widgets.field import Field
 
@@ -194,7 +194,8 @@ def test_undo_back_to_the_saved_site_is_not_unsaved(ui, data_dir):
 
 
 def test_export_dialog_shows_the_real_folder(ui, data_dir, tmp_path, monkeypatch):
-    from branchwise.core.sitefile import demo_site, save_site
+    from branchwise.core.site.read import demo_site
+    from branchwise.core.site.write import save_site
 
     folder = tmp_path / "plant"
     save_site(demo_site(), folder / "header.toml")

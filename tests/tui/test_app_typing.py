@@ -13,8 +13,8 @@ from __future__ import annotations
 from textual.widgets import Input
 
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.givens import set_given
 from branchwise.tui.screens.warnings import fit_lines
+from branchwise.tui.state.givens import set_given
 from branchwise.tui.widgets.texttable import TextTable
 
 

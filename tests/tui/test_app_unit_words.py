@@ -12,8 +12,8 @@ import re
 import pytest
 
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.givens import set_given
-from branchwise.tui.session import set_find
+from branchwise.tui.state.givens import set_given
+from branchwise.tui.state.session import set_find
 
 FOOT = 0.3048  # m per foot (NIST SP 811, exact)
 SI_WORDS = ("m/s", "L/s", "°C", "kPa")

@@ -34,7 +34,8 @@ def sandbox(tmp_path, monkeypatch, data_dir):
 
 def _seed_site(data_dir) -> None:
     """One saved site in the sites folder, so that the site list has one to open."""
-    from branchwise.core.sitefile import demo_site, save_site
+    from branchwise.core.site.read import demo_site
+    from branchwise.core.site.write import save_site
 
     site = demo_site()
     site.name = "Boiler room"
@@ -70,7 +71,8 @@ def test_a_quit_mid_sequence_restarts_and_the_keys_go_on(sandbox, data_dir):
 
 def test_the_sandbox_refuses_writes_outside_the_test_folder(sandbox, tmp_path):
     from branchwise.core.errors import InputError
-    from branchwise.core.sitefile import demo_site, save_site
+    from branchwise.core.site.read import demo_site
+    from branchwise.core.site.write import save_site
 
     outside = tmp_path.parent / "not-here" / "x.toml"
     with pytest.raises(InputError, match="Permission denied"):

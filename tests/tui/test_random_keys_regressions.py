@@ -11,7 +11,7 @@ import keyfuzz
 import pytest
 
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.screens.branchform import BranchForm
+from branchwise.tui.screens.branches.form import BranchForm
 from branchwise.tui.widgets.field import Field
 
 
@@ -105,7 +105,7 @@ def test_branch_keys_asked_before_the_branches_screen_is_drawn():
     """Keys typed ahead (F3, then a key at once) can make Textual ask the Branches screen which
     of its actions are available before its on_mount ran: that raised AttributeError
     '_editing' (found by the large sweep after the palette keys above)."""
-    from branchwise.tui.screens.branches import BranchesScreen
+    from branchwise.tui.screens.branches.screen import BranchesScreen
 
     assert BranchesScreen().check_action("cancel_edit", ()) is None
 
@@ -138,7 +138,7 @@ def test_a_burst_of_keys_closes_a_dialog_once(ui):
     reaches a dialog before the first key was handled closed it twice; Textual's dismiss
     takes the top screen off, so the second close took the app's last screen
     (ScreenStackError). Each case failed every time before the fix."""
-    from branchwise.tui.screens.split import SplitScreen
+    from branchwise.tui.screens.split.screen import SplitScreen
 
     async def scenario() -> None:
         app = BranchwiseApp()
@@ -247,7 +247,7 @@ def test_an_undo_under_the_cell_editor_takes_its_cell_away(ui):
     Enter then wrote into a branch that no longer existed (IndexError), or, had another branch
     taken its place, into the wrong one. Forced here: a change adds a branch, the editor opens
     on it, an undo takes it away, Enter."""
-    from branchwise.core.sitefile import BranchSpec, SegmentSpec
+    from branchwise.core.site.spec import BranchSpec, SegmentSpec
 
     async def scenario() -> None:
         app = BranchwiseApp()

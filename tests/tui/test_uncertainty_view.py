@@ -1,6 +1,6 @@
 """The Split screen's band, curve and tolerances, by keys.
 
-The band's numbers are compared with :func:`branchwise.core.sitesolve.uncertainty_for_site` run
+The band's numbers are compared with :func:`branchwise.core.site.solve.uncertainty_for_site` run
 with the same seed (the core is checked against the GUM, JCGM 100:2008, in tests/core); the
 curve's operating point with the solve; unit factors come from NIST SP 811. Snapshots of the
 curve (80×24, 120×40) and the band (80×24) follow the scheme of test_app_snapshots.py.
@@ -14,13 +14,13 @@ import threading
 import pytest
 from test_app_snapshots import FixedClock, shot
 
-import branchwise.core.sitesolve as sitesolve
-import branchwise.tui.outcome as outcome_module
-from branchwise.core.paths import sites_dir
-from branchwise.core.sitefile import demo_text, load_site
+import branchwise.core.site.solve as sitesolve
+import branchwise.tui.state.outcome as outcome_module
+from branchwise.core.site.read import demo_text, load_site
+from branchwise.core.storage.paths import sites_dir
 from branchwise.core.units import format_number
 from branchwise.tui.app import BranchwiseApp
-from branchwise.tui.screens.splitpanels import BAND_SAMPLES, BAND_SEED
+from branchwise.tui.screens.split.views import BAND_SAMPLES, BAND_SEED
 from branchwise.tui.screens.tolerances import TolerancesScreen
 from branchwise.tui.widgets.bandview import BandView
 from branchwise.tui.widgets.braille import BrailleCanvas
@@ -292,7 +292,7 @@ def test_band_of_a_site_without_an_answer(ui):
     """A site with no answer (here: no length of pipe carries the target flow) has no band;
     the band view says so as it is, and keeps the earlier band below, greyed."""
     from branchwise.core.errors import NoSolutionError
-    from branchwise.tui.session import set_find
+    from branchwise.tui.state.session import set_find
 
     async def scenario() -> None:
         app = BranchwiseApp()

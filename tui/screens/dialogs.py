@@ -15,7 +15,7 @@ from textual.widget import Widget
 from textual.widgets import Input, Label, Static
 from textual.widgets.input import Selection
 
-from ..session import shown_path
+from ..state.session import shown_path
 
 ResultT = TypeVar("ResultT")
 

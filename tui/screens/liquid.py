@@ -15,11 +15,11 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.widgets import Input, Label, Static
 
-from ..session import is_bare_number, locate, text_of, with_unit
+from ..state.session import is_bare_number, locate, text_of, with_unit
 from ..widgets.choice import Choice
 from ..widgets.field import Field
 from ..widgets.quiet import put
-from .base import WorkScreen
+from .work_screen import WorkScreen
 
 BUILT_IN = ("water", "seawater", "ethylene-glycol", "propylene-glycol", "custom")
 KIND_LABELS = {"water": "Water", "seawater": "Seawater",
@@ -52,7 +52,7 @@ class LiquidScreen(WorkScreen):
     """Kind, state, and the resulting properties of the liquid."""
 
     AUTO_FOCUS = "#liquid-kind-select"
-    CSS_PATH = Path(__file__).parent.parent / "liquid.tcss"
+    CSS_PATH = Path(__file__).parent / "liquid.tcss"
 
     BINDINGS = [
         Binding("escape", "leave_field", "Done typing", id="liquid-leave",
@@ -81,7 +81,7 @@ class LiquidScreen(WorkScreen):
     def _kind_options(self) -> list[tuple[str, str]]:
         options = [(KIND_LABELS[k], k) for k in BUILT_IN]
         try:
-            from branchwise.core.store import PresetStore
+            from branchwise.core.storage.presets import PresetStore
 
             saved = PresetStore().list("fluids")
         except (OSError, ValueError) as exc:

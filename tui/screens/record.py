@@ -16,14 +16,14 @@ from textual.containers import Vertical
 from textual.widgets import Label, Static
 from textual.widgets.input import Selection
 
-from branchwise.core.sitefile import RecordSpec
+from branchwise.core.site.spec import RecordSpec
 
-from ..session import text_of
+from ..state.session import text_of
 from ..widgets.field import Field
 from .dialogs import FORM_HINT, FORM_KEYS, Dialog
 
 if TYPE_CHECKING:
-    from branchwise.core.sitefile import Site
+    from branchwise.core.site.spec import Site
 
     from ..app import BranchwiseApp
 

@@ -10,7 +10,7 @@ from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widgets import DataTable, Input, Label, Static
 
-from branchwise.core.paths import list_sites, sites_dir
+from branchwise.core.storage.paths import list_sites, sites_dir
 
 from .dialogs import Dialog
 

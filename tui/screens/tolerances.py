@@ -4,7 +4,7 @@ Each field shows the site's own value where its ``[tolerances]`` table has one; 
 takes the common-practice default, shown greyed and marked so (no standard fixes these). Enter
 moves to the next field, as in every form; on the last field it keeps: the values are checked
 with the core's own reader of the table and a new
-:class:`~branchwise.core.sitefile.TolerancesSpec` goes back; the screen that asked puts it into
+:class:`~branchwise.core.site.read.TolerancesSpec` goes back; the screen that asked puts it into
 the site as one undoable edit, and it is saved with the site.
 """
 
@@ -19,14 +19,14 @@ from textual.containers import Vertical
 from textual.widgets import Label, Static
 
 from branchwise.core.errors import InputError
-from branchwise.core.sitefile import TolerancesSpec
+from branchwise.core.site.spec import TolerancesSpec
 
-from ..session import text_of, with_unit
+from ..state.session import text_of, with_unit
 from ..widgets.field import Field
 from .dialogs import FORM_HINT, FORM_KEYS, Dialog
 
 if TYPE_CHECKING:
-    from branchwise.core.sitefile import Site
+    from branchwise.core.site.spec import Site
 
 PERCENT = ("gauge_accuracy", "flow_meter_accuracy", "diameter", "length", "fitting_k",
            "valve_kv")
@@ -49,7 +49,7 @@ INTRO = ("± limits on the readings and the records, used by the band (b). Grey 
 
 def defaults() -> dict[str, str]:
     """The common-practice default of every row, as text (from the core's Tolerances)."""
-    from branchwise.core.uncertainty import Tolerances
+    from branchwise.core.numerics.uncertainty import Tolerances
 
     d = Tolerances()
     return {
@@ -139,8 +139,8 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
 
     def collect(self) -> TolerancesSpec:
         """The table as the form now says (raises InputError naming the field at fault)."""
-        from branchwise.core.sitebuild import plain_number
-        from branchwise.core.sitetolerances import percent, temperature_difference
+        from branchwise.core.site.tolerances import percent, temperature_difference
+        from branchwise.core.site.values import plain_number
         from branchwise.core.units import parse_quantity
 
         spec = copy.deepcopy(self.spec) if self.spec is not None else TolerancesSpec()
@@ -173,7 +173,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
         """Read the table as the solve will, with the site as it is now. Only a complaint
         about the tolerances is this form's business; anything else wrong with the site is
         shown where it belongs (and the table is read again at the next solve)."""
-        from branchwise.core.sitebuild import build
+        from branchwise.core.site.build import build
 
         trial = copy.deepcopy(self.site)
         trial.tolerances = spec

@@ -1,7 +1,7 @@
 """The uncertainty band as the Split screen shows it: P5–P95 of every branch flow, the total
 flow, the pressure drop and a found unknown, then the inputs ranked by their part in the spread.
 
-The numbers come from :func:`branchwise.core.sitesolve.with_uncertainty` (run in a worker by the
+The numbers come from :func:`branchwise.core.site.solve.with_uncertainty` (run in a worker by the
 screen); this module only lays them out in the app's display units. A band belongs to one
 revision of the site: once the site changes it is drawn greyed under a line saying so, never as
 if it were current.
@@ -22,7 +22,7 @@ from textual.widgets import Static
 from .quiet import put
 
 if TYPE_CHECKING:
-    from branchwise.core.sitesolve import SiteResult
+    from branchwise.core.site.solve import SiteResult
 
     from ..app import BranchwiseApp
 
@@ -77,7 +77,7 @@ def _signed_percent(value: float) -> str:
 
 def band_body(app: BranchwiseApp, sr: SiteResult) -> Text:
     """The band table and the ranking with bars, in the app's display units."""
-    from branchwise.core import bandtext
+    from branchwise.core.report import band as bandtext
     from branchwise.core.units import format_number
 
     u = sr.uncertainty

@@ -11,8 +11,8 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.widgets import Static
 
-from ..givens import given_of, given_text, given_words
-from ..session import find_of, locate, text_of
+from ..state.givens import given_of, given_text, given_words
+from ..state.session import find_of, locate, text_of
 
 if TYPE_CHECKING:
     from ..app import BranchwiseApp

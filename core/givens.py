@@ -1,0 +1,76 @@
+"""What can be given: the readings that fix the driving head between the two headers.
+
+One registry, :data:`GIVENS`, read by the site file, the solver, the reports, the uncertainty
+plan and the app, so that each reading is named, measured and worded the same way everywhere.
+A reading is taken at the header (the differential gauge, the plant's total-flow meter) or on
+one branch (a clamp-on meter); its accuracy is a percent of the gauge's full scale or of the
+meter's reading.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .model import Given, MeasuredFlow, PressureDrop, TotalFlow
+
+
+@dataclass(frozen=True)
+class GivenKind:
+    """One kind of reading.
+
+    key: its site-file key and the JSON ``quantity``; quantity: the units kind of its value
+    (``pressure`` or ``flow``); words: how a sentence names it; label: how the app's list of
+    givens names it; short: a word for a narrow screen; instrument: ``gauge`` (accuracy as a
+    percent of full scale) or ``meter`` (a percent of the reading); on_branch: read on one
+    branch rather than across the header; model: the core's class for it.
+    """
+
+    key: str
+    quantity: str
+    words: str
+    label: str
+    short: str
+    instrument: str
+    on_branch: bool
+    model: type[PressureDrop] | type[TotalFlow] | type[MeasuredFlow]
+
+
+GIVENS: dict[str, GivenKind] = {g.key: g for g in (
+    GivenKind("pressure_drop", "pressure", "pressure drop", "Δp across the header", "Δp",
+              "gauge", False, PressureDrop),
+    GivenKind("total_flow", "flow", "total flow", "Total flow", "total", "meter", False,
+              TotalFlow),
+    GivenKind("measured_flow", "flow", "measured flow", "Reading on a branch", "reading",
+              "meter", True, MeasuredFlow),
+)}
+"""Every kind of reading, by key, in the order a site file lists them."""
+
+HEADER_READINGS = tuple(k for k, g in GIVENS.items() if not g.on_branch)
+"""The readings kept under ``[conditions]`` (the others are kept on their branch)."""
+
+
+def kind_of(given: Given) -> GivenKind:
+    """The registry entry of a given condition."""
+    for g in GIVENS.values():
+        if isinstance(given, g.model):
+            return g
+    raise TypeError(f"not a given condition: {given!r}")
+
+
+def make_given(key: str, value: float, branch: str | None = None) -> Given:
+    """The core's given condition of kind ``key`` (SI value; ``branch`` for a branch reading)."""
+    kind = GIVENS[key]
+    if kind.on_branch:
+        if branch is None:
+            raise ValueError(f"{key} needs a branch")
+        return MeasuredFlow(branch, value)
+    return kind.model(value)  # type: ignore[call-arg]
+
+
+def reading_words(key: str, branch: str | None = None) -> str:
+    """A reading in a sentence: ``pressure drop``, ``total flow``, ``measured flow in 'AHU-3'``."""
+    words = GIVENS[key].words
+    return f"{words} in '{branch}'" if GIVENS[key].on_branch and branch is not None else words
+
+
+__all__ = ["GIVENS", "HEADER_READINGS", "GivenKind", "kind_of", "make_given", "reading_words"]

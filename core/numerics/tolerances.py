@@ -1,0 +1,107 @@
+"""What is known about the inputs of a survey: ± limits, and how the liquid moves with temperature.
+
+The limits are read by :mod:`branchwise.core.numerics.uncertainty`, which turns each into a distribution
+(rectangular by the GUM, JCGM 100:2008, 4.3.7, when nothing more is known about it).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass, field
+
+from ..errors import InputError
+from ..model import Fluid, positive
+
+
+@dataclass(frozen=True)
+class Tolerances:
+    """± limits on the inputs. The defaults are common practice for a site survey (no standard
+    fixes them); change them to what is known about the instruments and the line.
+
+    gauge_percent: pressure-gauge accuracy, % of full scale (common practice: a class 1 gauge,
+    ±1 %). gauge_full_scale: the gauge's full scale, Pa; None takes the percent of the reading
+    instead (optimistic for a small reading on a big gauge; the result notes it).
+    flow_meter_percent: flow reading accuracy, % of reading (common practice: clamp-on ultrasonic
+    meters ±2–5 %; 3). target_flow_measured: the sought unknown's target flow is a reading (True)
+    or a design figure with no tolerance (False).
+    roughness_factor: (low, high) multiplying the entered ε, drawn log-uniform (common practice
+    for a table value: 0.5 to 2; for an aged line entered as new, e.g. (1, 10)).
+    roughness_m: {branch name: (low, high)}, an explicit ε range in m for every segment of that
+    branch, replacing the factor there.
+    diameter_percent: ± % of inner diameter (common practice: 1, wall tolerance and deposits).
+    length_percent: ± % (common practice: 5, lengths taken off drawings or paced out).
+    temperature_k: ± K of the fluid temperature (common practice: 2), acting on ν and ρ through
+    a :class:`Thermal` model (ignored without one; the result notes it).
+    fitting_k_percent: ± % of every fitting K (common practice: 25, the scatter of tabulated K).
+    valve_kv_percent: ± % of every valve's Kv or Cv (common practice: 10 — makers' published
+    flow coefficients carry about that much, from memory; a balancing valve read off its
+    setting chart can be worse).
+    """
+
+    gauge_percent: float = 1.0
+    gauge_full_scale: float | None = None
+    flow_meter_percent: float = 3.0
+    target_flow_measured: bool = True
+    roughness_factor: tuple[float, float] = (0.5, 2.0)
+    roughness_m: Mapping[str, tuple[float, float]] = field(default_factory=dict)
+    diameter_percent: float = 1.0
+    length_percent: float = 5.0
+    temperature_k: float = 2.0
+    fitting_k_percent: float = 25.0
+    valve_kv_percent: float = 10.0
+
+    def validate(self) -> None:
+        """InputError (field ``uncertainty.<name>``) for a value that cannot be a tolerance."""
+        for name in ("gauge_percent", "temperature_k"):
+            _limit(name, getattr(self, name), None)
+        for name in ("flow_meter_percent", "diameter_percent", "length_percent"):
+            _limit(name, getattr(self, name), 100.0, closed=False)
+        _limit("fitting_k_percent", self.fitting_k_percent, 100.0)
+        _limit("valve_kv_percent", self.valve_kv_percent, 100.0, closed=False)
+        if self.gauge_full_scale is not None:
+            positive("uncertainty.gauge_full_scale", self.gauge_full_scale)
+        _range("uncertainty.roughness_factor", self.roughness_factor)
+        for name, pair in self.roughness_m.items():
+            _range(f"uncertainty.roughness_m[{name!r}]", pair)
+
+
+def _limit(name: str, value: float, upper: float | None, closed: bool = True) -> None:
+    number = float(value) if isinstance(value, int | float) else math.nan
+    if not (math.isfinite(number) and number >= 0):
+        raise InputError(f"uncertainty.{name}", value, "must be a number not below zero")
+    if upper is not None and (number > upper or (not closed and number == upper)):
+        raise InputError(f"uncertainty.{name}", value,
+                         f"must be {'at most' if closed else 'below'} {upper:g}")
+
+
+def _range(path: str, pair: tuple[float, float]) -> None:
+    try:
+        low, high = (float(v) for v in pair)
+    except (TypeError, ValueError):
+        raise InputError(path, pair, "must be a pair (low, high)") from None
+    if not (math.isfinite(low) and math.isfinite(high) and 0 < low <= high):
+        raise InputError(path, pair, "must be a pair with 0 < low ≤ high")
+
+
+@dataclass(frozen=True)
+class Thermal:
+    """How the fluid moves with temperature near the operating point: d ln ν/dT and d ln ρ/dT,
+    1/K. Linear in the logarithm because liquid viscosity falls roughly exponentially with
+    temperature (Andrade's equation), so a few kelvin either side stay accurate."""
+
+    dln_nu_dt: float
+    dln_rho_dt: float
+
+    @classmethod
+    def from_fluid_at(
+        cls, fluid_at: Callable[[float], Fluid], temperature: float, step: float = 0.5
+    ) -> Thermal:
+        """Central differences of ``fluid_at(T)`` (T in K) at ``temperature`` ± ``step`` (K)."""
+        positive("conditions.temperature", temperature)
+        positive("uncertainty.temperature_step", step)
+        cold, hot = fluid_at(temperature - step), fluid_at(temperature + step)
+        return cls(
+            math.log(hot.kinematic_viscosity / cold.kinematic_viscosity) / (2 * step),
+            math.log(hot.density / cold.density) / (2 * step),
+        )

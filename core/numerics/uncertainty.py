@@ -1,0 +1,339 @@
+"""How far to trust a solve: Monte Carlo bands, the GUM linear estimate and a sensitivity ranking.
+
+Every tolerance here is a ± limit with nothing more known about it, so by the GUM (JCGM 100:2008,
+4.3.7, Type B) it is a rectangular distribution: uniform between the limits, standard uncertainty
+u = a/√3 for half-width a. Roughness is known only to a factor, so it is uniform in ln ε
+(log-uniform) and its half-width is taken in ln ε.
+
+* Monte Carlo (the method of JCGM 101:2008, GUM Supplement 1): draw every input, solve all the
+  drawn networks in one vectorised call (:func:`branchwise.core.numerics.variants.solve_copies`), and read
+  P5, P50 and P95 of every output.
+* Linear estimate (JCGM 100:2008, 5.1.2, law of propagation of uncertainty, uncorrelated inputs):
+  u_c²(y) = Σ c_i² u²(x_i), with c_i = ∂y/∂x_i from central differences at ±δ around the centre
+  of every input. The shares c_i² u_i² / u_c² rank the inputs by their part in the spread.
+
+One draw per branch is shared by the segments of that branch (the same pipe, the same age, the
+same survey): fully correlated within a branch, independent between branches.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import InputError
+from ..model import (
+    Find,
+    FindFlows,
+    FindUnknown,
+    Given,
+    MeasuredFlow,
+    Network,
+    PressureDrop,
+)
+from .copies import solve_copies
+from .hydraulics import Array, Layout
+from .results import Result
+from .solve import solve
+from .tolerances import Thermal, Tolerances
+from .variants import Variants
+
+SQRT3 = math.sqrt(3.0)
+STEP = 1e-4
+"""δ of the finite differences, as a fraction of each input's half-width (–). Outputs are solved to
+about 1e-13 relative, so the differences carry about 1e-9 relative round-off."""
+
+
+@dataclass(frozen=True)
+class InputTolerance:
+    """One drawn input. half_width: Pa (gauge), relative (meter, target, diameter, length,
+    fitting K, valve Kv), K (temperature) or ln ε (roughness, drawn log-uniform about ``centre``,
+    the ln of a factor, or of ε in m when ``explicit``). segments: the layout's segment indices
+    it moves (for a valve Kv: the branch's index)."""
+
+    name: str
+    kind: str
+    half_width: float
+    segments: tuple[int, ...] = ()
+    centre: float = 0.0
+    explicit: bool = False
+
+    @property
+    def distribution(self) -> str:
+        return "log-uniform" if self.kind == "roughness" else "uniform"
+
+    @property
+    def standard_uncertainty(self) -> float:
+        """u = a/√3 of a rectangular distribution (JCGM 100:2008, 4.3.7), in half_width's unit."""
+        return self.half_width / SQRT3
+
+
+@dataclass(frozen=True)
+class SamplingPlan:
+    """The inputs to draw for one solve, and the map from standard draws to solved outputs.
+
+    A row of ``z`` holds one value in [−1, 1] per input: −1 and +1 are its limits."""
+
+    network: Network
+    given: Given
+    find: Find
+    inputs: tuple[InputTolerance, ...]
+    thermal: Thermal | None
+    notes: tuple[str, ...] = ()
+
+    @property
+    def found_name(self) -> str | None:
+        """The output name of the sought unknown (None when the flows are sought)."""
+        if not isinstance(want := self.find, FindUnknown):
+            return None
+        br = self.network.branches[self.network.index_of(want.branch)]
+        seg = f" segment {want.segment + 1}" if len(br.segments) > 1 else ""
+        return f"branch '{br.name}'{seg} {want.quantity} (found)"
+
+    def unit_of(self, output: str) -> str:
+        return {"pressure drop": "Pa", self.found_name: "m"}.get(output, "m³/s")
+
+    def variants(self, z: Array) -> Variants:
+        """The networks that the rows of ``z`` stand for, as arrays."""
+        z = np.atleast_2d(np.asarray(z, dtype=float))
+        n, net, base = len(z), self.network, Layout.from_network(self.network)
+        seg = {k: np.tile(getattr(base, k), (n, 1)) for k in
+               ("diameter", "length", "roughness", "minor_k")}
+        nu, rho = np.full(n, net.fluid.kinematic_viscosity), np.full(n, net.fluid.density)
+        reading = np.full(n, float(self.given.value))
+        valve = np.ones((n, len(net.branches)))
+        target = np.full(n, getattr(self.find, "target_flow", np.nan), dtype=float)
+        for col, inp in enumerate(self.inputs):
+            zc = z[:, col]
+            s = list(inp.segments)
+            if inp.kind == "gauge":
+                reading = reading + inp.half_width * zc
+            elif inp.kind == "meter":
+                reading = reading * (1 + inp.half_width * zc)
+            elif inp.kind == "target":
+                target = target * (1 + inp.half_width * zc)
+            elif inp.kind == "temperature" and self.thermal is not None:
+                nu = nu * np.exp(self.thermal.dln_nu_dt * inp.half_width * zc)
+                rho = rho * np.exp(self.thermal.dln_rho_dt * inp.half_width * zc)
+            elif inp.kind == "valve Kv":
+                valve[:, s] *= (1 + inp.half_width * zc)[:, None]
+            elif inp.kind == "roughness":
+                scale = np.exp(inp.centre + inp.half_width * zc)[:, None]
+                seg["roughness"][:, s] = scale if inp.explicit else base.roughness[s] * scale
+            else:
+                key = "minor_k" if inp.kind == "fitting K" else inp.kind
+                seg[key][:, s] *= (1 + inp.half_width * zc)[:, None]
+        return Variants(nu=nu, density=rho, reading=reading, target=target, valve_scale=valve,
+                        **seg)
+
+    def evaluate(self, z: Array) -> tuple[dict[str, Array], bool]:
+        """Every output for every row of ``z`` (NaN where no answer), and whether all converged."""
+        sol = solve_copies(self.network, self.given, self.find, self.variants(z))
+        out = {f"branch '{b.name}' flow": sol.flows[:, i]
+               for i, b in enumerate(self.network.branches)}
+        out |= {"total flow": sol.total_flow, "pressure drop": sol.pressure_drop}
+        if self.found_name is not None and sol.found is not None:
+            out[self.found_name] = sol.found
+        return out, sol.converged
+
+    def outputs_of(self, result: Result) -> dict[str, float]:
+        """The same outputs from a deterministic :func:`solve` result."""
+        out = {f"branch '{b.name}' flow": float(q)
+               for b, q in zip(self.network.branches, result.flows, strict=True)}
+        out |= {"total flow": result.total_flow, "pressure drop": result.pressure_drop}
+        if self.found_name is not None and result.solved is not None:
+            out[self.found_name] = result.solved.value
+        return out
+
+    def network_for(self, z_row: Array) -> tuple[Network, Given, Find]:
+        """One row as plain model objects, for :func:`solve` (tests and the benchmark baseline)."""
+        v = self.variants(np.asarray(z_row, dtype=float)[None, :])
+        return v.as_model(self.network, self.given, self.find)
+
+
+def build_plan(
+    network: Network, given: Given, find: Find, tol: Tolerances, thermal: Thermal | None
+) -> SamplingPlan:
+    """The inputs that ``tol`` makes uncertain for this solve (zero-width ones left out)."""
+    inputs: list[InputTolerance] = []
+    notes: list[str] = []
+    meter = tol.flow_meter_percent / 100
+    if isinstance(given, PressureDrop):
+        if tol.gauge_full_scale is None:
+            notes.append("pressure-gauge accuracy taken as a percent of the reading: no full "
+                         "scale was given")
+        span = abs(given.value) if tol.gauge_full_scale is None else tol.gauge_full_scale
+        inputs.append(InputTolerance("pressure gauge", "gauge", tol.gauge_percent / 100 * span))
+    elif isinstance(given, MeasuredFlow):
+        name = network.branches[network.index_of(given.branch)].name
+        inputs.append(InputTolerance(f"flow meter on branch '{name}'", "meter", meter))
+    else:
+        inputs.append(InputTolerance("flow meter (total flow)", "meter", meter))
+    want = find if isinstance(find, FindUnknown) else None
+    x = network.index_of(want.branch) if want is not None else -1
+    if want is not None and tol.target_flow_measured:
+        name = network.branches[x].name
+        inputs.append(InputTolerance(f"flow meter on branch '{name}' (target)", "target", meter))
+    if tol.temperature_k > 0 and thermal is None:
+        notes.append("temperature tolerance not applied: no model of ν and ρ against "
+                     "temperature was given")
+    elif thermal is not None:
+        inputs.append(InputTolerance("temperature", "temperature", float(tol.temperature_k)))
+    explicit = {network.index_of(k, "uncertainty.roughness_m"): v
+                for k, v in tol.roughness_m.items()}
+    base = Layout.from_network(network)
+    sought = int(np.flatnonzero(base.seg_branch == x)[want.segment]) if want is not None else -1
+    rough_model = network.friction not in ("hazen-williams", "laminar")
+    for b, br in enumerate(network.branches):
+        segs = [int(s) for s in np.flatnonzero(base.seg_branch == b)]
+
+        def free(quantity: str, segs: list[int] = segs) -> tuple[int, ...]:
+            drop = sought if want is not None and want.quantity == quantity else -1
+            return tuple(s for s in segs if s != drop)
+
+        label = f"branch '{br.name}'"
+        low, high = explicit.get(b, tol.roughness_factor)
+        rough = free("roughness")
+        if rough_model and rough and (b in explicit or base.roughness[list(rough)].max() > 0):
+            top = high if b in explicit else high * base.roughness[list(rough)].max()
+            narrowest = base.diameter[segs].min() * (1 - tol.diameter_percent / 100)
+            if top >= narrowest / 2:
+                path = f"uncertainty.roughness_m[{br.name!r}]" if b in explicit else (
+                    "uncertainty.roughness_factor")
+                raise InputError(path, (low, high), f"reaches half the narrowest diameter of "
+                                 f"branch '{br.name}' ({narrowest / 2:g} m)")
+            centre, half = (math.log(low) + math.log(high)) / 2, math.log(high / low) / 2
+            if half > 0:
+                inputs.append(InputTolerance(f"{label} roughness", "roughness", half, rough,
+                                             centre, b in explicit))
+        for kind, percent, values in (
+            ("diameter", tol.diameter_percent, base.diameter),
+            ("length", tol.length_percent, base.length),
+            ("fitting K", tol.fitting_k_percent, base.minor_k),
+        ):
+            moved = free(kind)
+            if percent > 0 and moved and values[list(moved)].max() > 0:
+                inputs.append(InputTolerance(f"{label} {kind}", kind, percent / 100, moved))
+        if br.valve_kv is not None and tol.valve_kv_percent > 0:
+            inputs.append(InputTolerance(f"{label} valve Kv", "valve Kv",
+                                         tol.valve_kv_percent / 100, (b,)))
+    kept = tuple(i for i in inputs if i.half_width > 0)
+    return SamplingPlan(network, given, find, kept, thermal, tuple(notes))
+
+
+@dataclass(frozen=True)
+class OutputBand:
+    """One output's spread, in its SI unit: the deterministic value, P5/P50/P95, the Monte Carlo
+    mean and standard deviation, and the GUM linear standard uncertainty ``linear_sigma``."""
+
+    name: str
+    unit: str
+    nominal: float
+    p5: float
+    p50: float
+    p95: float
+    mean: float
+    std: float
+    linear_sigma: float
+
+
+@dataclass(frozen=True)
+class UncertaintyResult:
+    """Bands per output, the inputs drawn, and per output the inputs ranked by their share of
+    the linear variance, as (input name, share 0…1), largest first.
+
+    failed: draws for which the sought unknown has no solution (left out of the bands).
+    draws: the Monte Carlo values per output (for histograms), in the outputs' units.
+    """
+
+    samples: int
+    seed: int
+    outputs: dict[str, OutputBand]
+    ranking: dict[str, list[tuple[str, float]]]
+    inputs: tuple[InputTolerance, ...]
+    failed: int = 0
+    notes: tuple[str, ...] = ()
+    draws: dict[str, Array] = field(default_factory=dict, repr=False)
+
+    def to_dict(self) -> dict[str, object]:
+        """JSON-ready: samples, seed, failed, per output its band, the ranking, the notes."""
+        outputs = {
+            name: {"unit": b.unit, "nominal": b.nominal, "p5": b.p5, "p50": b.p50, "p95": b.p95,
+                   "mean": b.mean, "std": b.std, "linear_sigma": b.linear_sigma}
+            for name, b in self.outputs.items()
+        }
+        ranking = {name: [[inp, share] for inp, share in rows]
+                   for name, rows in self.ranking.items()}
+        return {"samples": self.samples, "seed": self.seed, "failed": self.failed,
+                "outputs": outputs, "ranking": ranking, "notes": list(self.notes)}
+
+
+def monte_carlo(
+    network: Network, given: Given, find: Find | None = None, tol: Tolerances | None = None,
+    samples: int = 10_000, seed: int = 0, thermal: Thermal | None = None,
+) -> UncertaintyResult:
+    """Propagate ``tol`` through the solve of ``network`` with ``given`` and ``find``.
+
+    samples: Monte Carlo draws (≥ 10); seed: for numpy's ``default_rng`` (same seed, same
+    answer); thermal: how ν and ρ move with temperature (see :meth:`Thermal.from_fluid_at`).
+    Raises what :func:`solve` raises for the nominal inputs.
+    """
+    find = FindFlows() if find is None else find
+    tol = Tolerances() if tol is None else tol
+    tol.validate()
+    if isinstance(samples, bool) or not isinstance(samples, int | np.integer) or samples < 10:
+        raise InputError("uncertainty.samples", samples, "must be a whole number of at least 10")
+    nominal = solve(network, given, find)
+    plan = build_plan(network, given, find, tol, thermal)
+    notes, n_in = list(plan.notes), len(plan.inputs)
+    z = np.random.default_rng(seed).uniform(-1.0, 1.0, size=(samples, n_in))
+    design = np.vstack([STEP * np.eye(n_in), -STEP * np.eye(n_in)])
+    values, converged = plan.evaluate(np.vstack([z, design]))
+    if not converged:
+        notes.append("some drawn networks did not converge to the usual tolerance")
+    failed_rows = np.zeros(samples, dtype=bool)
+    for column in values.values():
+        failed_rows |= np.isnan(column[:samples])
+    failed = int(failed_rows.sum())
+    if failed:
+        notes.append(f"{failed} of {samples} draws have no solution for the sought unknown; "
+                     "they are left out of the bands")
+    outputs: dict[str, OutputBand] = {}
+    ranking: dict[str, list[tuple[str, float]]] = {}
+    nominal_values = plan.outputs_of(nominal)
+    for name, column in values.items():
+        plus, minus = column[samples:samples + n_in], column[samples + n_in:]
+        contrib = (plus - minus) / (2 * STEP) / SQRT3  # c_i u(x_i), in the output's unit
+        variance = float(np.sum(contrib**2))
+        mc = column[:samples][~failed_rows]
+        outputs[name] = _band(name, plan.unit_of(name), nominal_values[name], mc, variance)
+        ranking[name] = _ranked(plan.inputs, contrib**2, variance)
+    return UncertaintyResult(
+        samples=int(samples), seed=seed, outputs=outputs, ranking=ranking, inputs=plan.inputs,
+        failed=failed, notes=tuple(notes),
+        draws={name: column[:samples] for name, column in values.items()},
+    )
+
+
+def _band(name: str, unit: str, nominal: float, mc: Array, variance: float) -> OutputBand:
+    if mc.size:
+        p5, p50, p95 = (float(v) for v in np.percentile(mc, [5.0, 50.0, 95.0]))
+        mean, std = float(mc.mean()), float(mc.std(ddof=1))
+    else:
+        p5 = p50 = p95 = mean = std = math.nan
+    return OutputBand(name, unit, nominal, p5, p50, p95, mean, std, math.sqrt(variance))
+
+
+def _ranked(
+    inputs: tuple[InputTolerance, ...], shares: Array, variance: float
+) -> list[tuple[str, float]]:
+    if not variance > 0:
+        return []
+    rows = [(inp.name, float(s / variance)) for inp, s in zip(inputs, shares, strict=True)]
+    return sorted((r for r in rows if r[1] > 0), key=lambda r: -r[1])
+
+
+__all__ = ["InputTolerance", "OutputBand", "SamplingPlan", "Thermal", "Tolerances",
+           "UncertaintyResult", "build_plan", "monte_carlo"]

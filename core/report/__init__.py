@@ -1,0 +1,31 @@
+"""A solved site as a report: JSON for scripts (SI), a text table, CSV and a Markdown record.
+
+The text formats are in the reader's units and share their lines (:mod:`.lines`); the columns
+of their tables are in :mod:`.columns`, the uncertainty band's text in :mod:`.band`.
+"""
+
+from __future__ import annotations
+
+from ..site.solve import SiteResult
+from ..units import Units
+
+FORMATS = ("table", "json", "csv", "markdown")
+
+
+def render(sr: SiteResult, fmt: str = "table", reader: Units | str = "si") -> str:
+    """``sr`` in one of :data:`FORMATS` (JSON is always SI)."""
+    if fmt == "json":
+        from .json_report import to_json
+
+        return to_json(sr)
+    if fmt == "csv":
+        from .csv_report import to_csv
+
+        return to_csv(sr, reader)
+    if fmt == "markdown":
+        from .markdown import to_markdown
+
+        return to_markdown(sr, reader)
+    from .text_table import to_table
+
+    return to_table(sr, reader)

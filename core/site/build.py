@@ -1,0 +1,265 @@
+"""From a :class:`~branchwise.core.site.read.Site` as typed to the core's SI objects.
+
+:func:`build` converts every value through :mod:`.units`, :mod:`.fluids` and :mod:`.catalogs`
+and checks it, naming the field as it appears in the file (``branches[1].length``, or
+``branches[1].segments[0].length`` for a branch given as segments). Solving is in
+:mod:`.sitesolve`.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any
+
+from ..errors import InputError, describe
+from ..messages import marked
+from ..model import (
+    FRICTION_MODELS,
+    STANDARD_GRAVITY,
+    Branch,
+    Find,
+    FindFlows,
+    FindUnknown,
+    Given,
+    MeasuredFlow,
+    Network,
+    PressureDrop,
+    Segment,
+    TotalFlow,
+)
+from ..units import parse_quantity
+from .liquid import build_fluid
+from .readings import chosen
+from .spec import BranchSpec, SegmentSpec, Site
+from .values import at_least, plain_number, quantity, text_value
+from .valves import series_kv
+
+if TYPE_CHECKING:
+    from ..numerics.uncertainty import Tolerances
+    from ..storage.presets import PresetSource
+
+CONDITIONS = ("new", "aged")
+FINDS = ("flows", "diameter", "length", "roughness")
+
+
+@dataclass(frozen=True)
+class Built:
+    """A site in SI, ready to solve.
+
+    sizes[i][j] is the catalog size of segment j of branch i (None for a plain diameter);
+    fittings_k[i][j] the K its fittings add (–); paths[i][j] the field path of that segment;
+    tolerances: the site's ``[tolerances]`` as :class:`~.uncertainty.Tolerances`, or None when
+    the file has no such table (the defaults apply).
+    """
+
+    network: Network
+    given: Given
+    find: Find
+    sizes: tuple[tuple[Any, ...], ...]
+    fittings_k: tuple[tuple[float, ...], ...]
+    paths: tuple[tuple[str, ...], ...]
+    notes: tuple[str, ...] = ()
+    tolerances: Tolerances | None = None
+
+
+# ---- branches ------------------------------------------------------------------------------
+
+def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
+    from ..catalogs import fittings_k, parse_size
+    from ..storage.user_presets import material_for
+
+    if seg.diameter is not None and seg.size is not None:
+        raise InputError(f"{path}.size", describe(seg.size), "give diameter or size, not both")
+    size = None
+    if seg.size is not None:
+        size_text = text_value(seg.size, f"{path}.size")
+        size = parse_size(size_text, f"{path}.size")  # type: ignore[arg-type]
+        diameter = (size.inner_diameter_m if size is not None
+                    else parse_quantity(size_text, "diameter", f"{path}.size"))
+        d_path, d_value = f"{path}.size", seg.size
+    else:
+        diameter = quantity(seg.diameter, "diameter", f"{path}.diameter")  # type: ignore[assignment]
+        d_path, d_value = f"{path}.diameter", seg.diameter
+    at_least(diameter, d_path, d_value, 0.0, strict=True)
+
+    length = quantity(seg.length, "length", f"{path}.length")
+    at_least(length, f"{path}.length", seg.length, 0.0, strict=False)
+
+    if seg.roughness is not None and seg.material is not None:
+        raise InputError(f"{path}.material", describe(seg.material),
+                         "give roughness or material, not both")
+    condition = text_value(seg.condition, f"{path}.condition")
+    if condition is not None and condition not in CONDITIONS:
+        raise InputError(f"{path}.condition", condition, "must be new or aged")
+    hw_c = plain_number(seg.hw_c, f"{path}.hw_c")
+    at_least(hw_c, f"{path}.hw_c", seg.hw_c, 0.0, strict=True)
+    m_path = f"{path}.material"
+    if seg.roughness is not None:
+        if condition is not None:
+            raise InputError(f"{path}.condition", condition, "applies to a material, not to "
+                             "a roughness given as a value")
+        roughness = quantity(seg.roughness, "roughness", f"{path}.roughness")
+        at_least(roughness, f"{path}.roughness", seg.roughness, 0.0, strict=False)
+    else:
+        key = text_value(seg.material, f"{path}.material")
+        if key is None:
+            if size is None:
+                raise InputError(f"{path}.roughness", "nothing",
+                                 "give a roughness or a material")
+            key, m_path = size.material_hint, f"{path}.size"
+        mat = material_for(key, m_path)
+        roughness = mat.roughness_m
+        if condition == "aged":
+            if mat.aged_roughness_m is None:
+                raise InputError(f"{path}.condition", condition,
+                                 f"no aged roughness is listed for {mat.name}")
+            roughness = mat.aged_roughness_m
+        if hw_c is None:
+            hw_c = mat.hazen_williams_c
+    if roughness >= diameter / 2:  # type: ignore[operator]
+        r_path, r_value = ((f"{path}.roughness", seg.roughness) if seg.roughness is not None
+                           else (m_path, seg.material))
+        half = marked("roughness", diameter / 2)  # type: ignore[operator]
+        raise InputError(r_path, describe(r_value), f"must be below half the diameter ({half})")
+    minor_k = plain_number(seg.minor_k, f"{path}.minor_k") or 0.0
+    at_least(minor_k, f"{path}.minor_k", seg.minor_k, 0.0, strict=False)
+    counts: dict[str, float] = {}
+    for key, count in seg.fittings.items():
+        number = plain_number(count, f"{path}.fittings.{key}")
+        at_least(number, f"{path}.fittings.{key}", count, 0.0, strict=False)
+        counts[key] = number  # type: ignore[assignment]
+    k_fittings = fittings_k(counts, diameter, f"{path}.fittings") if counts else 0.0
+    segment = Segment(diameter, length, roughness, minor_k + k_fittings, hw_c)  # type: ignore[arg-type]
+    return segment, size, k_fittings
+
+
+def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], list[str]]:
+    path = f"branches[{i}]"
+    name = text_value(br.name, f"{path}.name")
+    if name is None:
+        raise InputError(f"{path}.name", "nothing", "every branch needs a name")
+    if not br.segments:
+        raise InputError(f"{path}.segments", "[]", "a branch needs at least one segment")
+    many = len(br.segments) > 1
+    segs, sizes, ks, paths = [], [], [], []
+    for j, spec in enumerate(br.segments):
+        seg_path = f"{path}.segments[{j}]" if many else path
+        seg, size, k = _segment(spec, seg_path)
+        segs.append(seg)
+        sizes.append(size)
+        ks.append(k)
+        paths.append(seg_path)
+    if br.valve_kv is not None and br.valve_cv is not None:
+        raise InputError(f"{path}.valve_cv", describe(br.valve_cv),
+                         "give valve_kv or valve_cv, not both")
+    value, unit = (br.valve_cv, "cv") if br.valve_cv is not None else (br.valve_kv, "kv")
+    kv = series_kv(value, f"{path}.valve_{unit}", unit)
+    return Branch(name, tuple(segs), kv), sizes, ks, paths
+
+
+# ---- conditions and what to find -----------------------------------------------------------
+
+def _given(site: Site, names: list[str]) -> Given:
+    """The given condition from the reading :func:`.readings.chosen` picks (SI)."""
+    reading, _ = chosen(site)
+    path, value = reading.path, reading.value
+    if reading.kind == "pressure_drop":
+        return PressureDrop(parse_quantity(value, "pressure", path))
+    flow = parse_quantity(value, "flow", path)
+    if reading.kind == "total_flow":
+        return TotalFlow(flow)
+    return MeasuredFlow(names[reading.branch], flow)  # type: ignore[index]
+
+
+def _find(site: Site, network: Network) -> Find:
+    s = site.solve
+    if s is None:
+        return FindFlows()
+    find = text_value(s.find, "solve.find") or "flows"
+    if find not in FINDS:
+        raise InputError("solve.find", find, f"must be one of {', '.join(FINDS)}")
+    if find == "flows":
+        for key in ("branch", "target_flow", "segment"):
+            if getattr(s, key) is not None:
+                raise InputError(f"solve.{key}", describe(getattr(s, key)),
+                                 "is used only when find is diameter, length or roughness")
+        return FindFlows()
+    branch = text_value(s.branch, "solve.branch")
+    if branch is None:
+        raise InputError("solve.branch", "nothing", f"name the branch whose {find} to find")
+    index = network.index_of(branch, "solve.branch")
+    target = quantity(s.target_flow, "flow", "solve.target_flow")
+    if target == 0:
+        raise InputError("solve.target_flow", describe(s.target_flow), "must not be zero")
+    n_seg = len(network.branches[index].segments)
+    seg = 1 if s.segment is None else plain_number(s.segment, "solve.segment")
+    if seg is None or seg != int(seg) or not 1 <= seg <= n_seg:
+        raise InputError("solve.segment", describe(s.segment),
+                         f"must be a segment number from 1 to {n_seg} (counted from 1)")
+    return FindUnknown(find, network.branches[index].name, target, int(seg) - 1)  # type: ignore[arg-type]
+
+
+def build(site: Site, presets: PresetSource | None = None) -> Built:
+    """The core objects for ``site``; every bad value is an InputError naming its field.
+
+    presets: where a fluid kind that is not built in is looked up (default: the user's
+    :class:`~branchwise.core.storage.presets.PresetStore`, read only when needed).
+    """
+    fluid = build_fluid(site, presets)
+    if not site.branches:
+        raise InputError("branches", "nothing", "a site needs at least one [[branches]] table")
+    branches, sizes, ks, paths = [], [], [], []
+    seen: dict[str, int] = {}
+    for i, spec in enumerate(site.branches):
+        br, s, k, p = _branch(spec, i)
+        key = br.name.casefold()
+        if key in seen:
+            raise InputError(f"branches[{i}].name", br.name,
+                             f"duplicates branches[{seen[key]}].name")
+        seen[key] = i
+        branches.append(br)
+        sizes.append(tuple(s))
+        ks.append(tuple(k))
+        paths.append(tuple(p))
+    c = site.conditions
+    friction = text_value(c.friction, "conditions.friction") or "colebrook"
+    if friction not in FRICTION_MODELS:
+        raise InputError("conditions.friction", friction,
+                         f"must be one of {', '.join(FRICTION_MODELS)}")
+    elevation = quantity(c.elevation_change, "length", "conditions.elevation_change", False)
+    gravity = quantity(c.gravity, "acceleration", "conditions.gravity", False)
+    at_least(gravity, "conditions.gravity", c.gravity, 0.0, strict=True)
+    limit = quantity(c.velocity_limit, "velocity", "conditions.velocity_limit", False)
+    at_least(limit, "conditions.velocity_limit", c.velocity_limit, 0.0, strict=True)
+    try:
+        network = Network(
+            fluid, tuple(branches), elevation or 0.0, gravity or STANDARD_GRAVITY,
+            friction,  # type: ignore[arg-type]
+            3.0 if limit is None else limit,
+        )
+    except InputError as exc:  # the model names segments[0] even of a one-pipe branch
+        raise _site_path(exc, site) from None
+    given = _given(site, [b.name for b in branches])
+    find = _find(site, network)
+    notes = []
+    if isinstance(find, FindUnknown) and find.quantity == "diameter":
+        i = network.index_of(find.branch)
+        if ks[i][find.segment]:
+            notes.append("the fittings' K values were held at those of the entered size while "
+                         "the diameter was found")
+    tolerances = None
+    if site.tolerances is not None:
+        from .tolerances import build_tolerances
+
+        tolerances = build_tolerances(site.tolerances, network, given)
+    return Built(network, given, find, tuple(sizes), tuple(ks), tuple(paths), tuple(notes),
+                 tolerances)
+
+
+def _site_path(exc: InputError, site: Site) -> InputError:
+    """``exc`` with a model path (``branches[1].segments[0].hw_c``) as the file names it."""
+    m = re.match(r"branches\[(\d+)\]\.segments\[0\]\.(.*)", exc.field)
+    if m and len(site.branches[int(m[1])].segments) == 1:
+        return InputError(f"branches[{m[1]}].{m[2]}", exc.marked_value, exc.marked_reason)
+    return exc

@@ -1,0 +1,224 @@
+"""Reading site files: TOML text into a :class:`~.spec.Site`, and the bundled demo site.
+
+Reading checks only the file's shape (known keys, tables where tables belong); :func:`.build.build`
+checks the values, so that the app can open a file with one bad value and show the error beside
+that field. The layout of the file is described in :mod:`.spec`.
+"""
+
+from __future__ import annotations
+
+import difflib
+import json
+import re
+from collections.abc import Mapping
+from dataclasses import fields
+from datetime import date, time
+from functools import cache
+from pathlib import Path
+from typing import Any
+
+from ..errors import InputError, describe
+from .spec import (
+    BRANCH_KEYS,
+    CONDITION_KEYS,
+    FLUID_KEYS,
+    PIPE_KEYS,
+    RECORD_KEYS,
+    SOLVE_KEYS,
+    TOLERANCE_KEYS,
+    TOP_KEYS,
+    BranchSpec,
+    ConditionsSpec,
+    FluidSpec,
+    RecordSpec,
+    SegmentSpec,
+    Site,
+    SolveSpec,
+    TolerancesSpec,
+    Value,
+)
+
+# ---- reading ---------------------------------------------------------------------------------
+
+_BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")
+"""A TOML bare key; any other key (empty, spaces, dots) is shown quoted."""
+
+
+def _known(table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> None:
+    for key in table:
+        if key not in keys:
+            close = difflib.get_close_matches(key, keys, n=1)
+            hint = f" (did you mean '{close[0]}'?)" if close else ""
+            shown = key if _BARE_KEY.fullmatch(key) else json.dumps(key)  # as TOML quotes it
+            where = f"{path}.{shown}" if path else shown
+            known = ", ".join(keys)
+            raise InputError(where, describe(table[key]), f"unknown key{hint}; known: {known}")
+
+
+def _table(value: object, path: str) -> Mapping[str, Any]:
+    if value is None:
+        return {}
+    if not isinstance(value, Mapping):
+        raise InputError(path, describe(value), "must be a table ([section] or { ... })")
+    return value
+
+
+def _scalar(value: object, path: str) -> Value:
+    if value is None or isinstance(value, str | int | float | bool):
+        return value
+    raise InputError(path, describe(value), "must be text or a number")
+
+
+def _fill(spec: Any, table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> Any:
+    """Copy the scalar values of ``table`` into the dataclass ``spec``."""
+    _known(table, keys, path)
+    for name in keys:
+        if name in table and name in {f.name for f in fields(spec)}:
+            setattr(spec, name, _scalar(table[name], f"{path}.{name}" if path else name))
+    return spec
+
+
+def _segment(table: Mapping[str, Any], path: str) -> SegmentSpec:
+    pipe = {k: v for k, v in table.items() if k != "fittings"}
+    seg = _fill(SegmentSpec(), pipe, tuple(k for k in PIPE_KEYS if k != "fittings"), path)
+    fittings = _table(table.get("fittings"), f"{path}.fittings")
+    seg.fittings = {str(k): _scalar(v, f"{path}.fittings.{k}") for k, v in fittings.items()}
+    return seg
+
+
+def _branch(table: object, path: str) -> BranchSpec:
+    table = _table(table, path)
+    _known(table, BRANCH_KEYS, path)
+    br = BranchSpec()
+    for key in ("name", "valve_kv", "valve_cv", "measured_flow", "note"):
+        if key in table:
+            setattr(br, key, _scalar(table[key], f"{path}.{key}"))
+    if "tag" in table:
+        br.tag = _words(table["tag"], f"{path}.tag")
+    own = {k: v for k, v in table.items() if k in PIPE_KEYS}
+    if "segments" in table:
+        segments = table["segments"]
+        if not isinstance(segments, list) or not segments:
+            raise InputError(f"{path}.segments", describe(segments),
+                             "must be a list of one or more tables: [ {diameter = ...}, ... ]")
+        if own:
+            key = next(iter(own))
+            raise InputError(f"{path}.{key}", describe(own[key]),
+                             "a branch with segments gives its pipe values in each segment")
+        br.segments = [_segment(_table(s, f"{path}.segments[{j}]"), f"{path}.segments[{j}]")
+                       for j, s in enumerate(segments)]
+    else:
+        br.segments = [_segment(own, path)]
+    return br
+
+
+def _words(value: object, path: str, dates: bool = False) -> str:
+    """Free text for the record; with ``dates``, a TOML date or date-time becomes its ISO text."""
+    if isinstance(value, str):
+        return value
+    if dates and isinstance(value, date | time):  # datetime is a date
+        return value.isoformat()
+    key = path.rsplit(".", 1)[-1]
+    hint = f' ({key} = "{value}")' if isinstance(value, int | float | date | time) else ""
+    raise InputError(path, describe(value), f"must be text in quotes{hint}")
+
+
+def _record(table: Mapping[str, Any]) -> RecordSpec:
+    _known(table, RECORD_KEYS, "record")
+    spec = RecordSpec()
+    for key in (k for k in RECORD_KEYS if k in table):
+        setattr(spec, key, _words(table[key], f"record.{key}", key == "date"))
+    return spec
+
+
+def _pair(value: object, path: str) -> list[Value]:
+    if not isinstance(value, list):
+        raise InputError(path, describe(value), "must be a pair [low, high]")
+    return [_scalar(v, f"{path}[{i}]") for i, v in enumerate(value)]
+
+
+def _tolerances(table: Mapping[str, Any]) -> TolerancesSpec:
+    path = "tolerances"
+    plain = {k: v for k, v in table.items() if k not in ("roughness_factor", "roughness_range")}
+    spec = _fill(TolerancesSpec(), plain, TOLERANCE_KEYS, path)
+    if "roughness_factor" in table:
+        spec.roughness_factor = _pair(table["roughness_factor"], f"{path}.roughness_factor")
+    ranges = _table(table.get("roughness_range"), f"{path}.roughness_range")
+    spec.roughness_range = {str(k): _pair(v, f'{path}.roughness_range."{k}"')
+                            for k, v in ranges.items()}
+    return spec
+
+
+def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
+    """A :class:`Site` from a parsed, migrated TOML document. Checks shape, not values."""
+    _known(doc, TOP_KEYS, "")
+    site = Site(source=source)
+    site.name = _scalar(doc.get("name", ""), "name")
+    site.notes = _scalar(doc.get("notes"), "notes")
+    if "record" in doc:
+        site.record = _record(_table(doc["record"], "record"))
+    site.fluid = _fill(FluidSpec(), _table(doc.get("fluid"), "fluid"), FLUID_KEYS, "fluid")
+    conditions = _table(doc.get("conditions"), "conditions")
+    site.conditions = _fill(ConditionsSpec(), conditions, CONDITION_KEYS, "conditions")
+    branches = doc.get("branches", [])
+    if not isinstance(branches, list):
+        raise InputError("branches", describe(branches), "must be [[branches]] tables")
+    site.branches = [_branch(b, f"branches[{i}]") for i, b in enumerate(branches)]
+    if "solve" in doc:
+        site.solve = _fill(SolveSpec(), _table(doc["solve"], "solve"), SOLVE_KEYS, "solve")
+    if "tolerances" in doc:
+        site.tolerances = _tolerances(_table(doc["tolerances"], "tolerances"))
+    return site
+
+
+def parse_site(text: str, source: str | Path = "<string>") -> Site:
+    """A :class:`Site` from TOML text; errors name ``source`` and the line for bad TOML."""
+    from ..storage.toml_files import migrate, parse_toml
+
+    name = Path(source).name
+    doc = parse_toml(text, name)
+    site = site_from_dict(migrate(doc, "site", name), Path(source) if source != "<string>"
+                          else None)
+    site.origin = text
+    return site
+
+
+def load_site(path: str | Path) -> Site:
+    """Read the site file ``path`` (never modifies it). InputError names the file and line."""
+    from ..storage.toml_files import load_toml, migrate
+
+    path = Path(path)
+    doc = migrate(load_toml(path), "site", path)
+    site = site_from_dict(doc, path)
+    site.origin = path.read_bytes().decode("utf-8").removeprefix("\ufeff")
+    return site
+
+
+# ---- the demo --------------------------------------------------------------------------------
+
+DEMO_NAME = "demo-site.toml"
+
+
+@cache
+def demo_text() -> str:
+    """The bundled demo site file, comments and all."""
+    from importlib.resources import files
+
+    return files("branchwise.presets").joinpath(DEMO_NAME).read_text(encoding="utf-8")
+
+
+def demo_site() -> Site:
+    """A fresh :class:`Site` of the bundled demo (no ``source``: saving asks for a path)."""
+    site = parse_site(demo_text(), DEMO_NAME)
+    site.source = None
+    return site
+
+
+def _demo_path() -> Path:
+    from importlib.resources import files
+
+    return Path(str(files("branchwise.presets").joinpath(DEMO_NAME)))
+
+
+DEMO_PATH = _demo_path()
+"""The bundled demo site file (read it with :func:`demo_text`; never write to it)."""

@@ -1,0 +1,219 @@
+"""A site's ``[tolerances]`` table: from text as typed to :class:`~.uncertainty.Tolerances`.
+
+Every key is optional; a missing one keeps the common-practice default of
+:class:`~branchwise.core.numerics.uncertainty.Tolerances`. Values are text with units where they have a
+dimension, so the file says what it means::
+
+    [tolerances]
+    gauge_accuracy = "1 %"          # of the gauge's full scale (of the reading without one)
+    gauge_full_scale = "250 kPa"
+    flow_meter_accuracy = "3 %"     # of the reading
+    target_flow_measured = true     # the target flow of [solve] is a reading, not a design figure
+    roughness_factor = [0.5, 3]     # the entered roughness times 0.5 … 3 (log-uniform)
+    roughness_range = { "Bypass" = ["0.05 mm", "0.5 mm"] }   # replaces the factor there
+    diameter = "1 %"
+    length = "5 %"
+    temperature = "2 K"             # a temperature difference: K, delta_degC, degC or degF steps
+    fitting_k = "25 %"
+    valve_kv = "10 %"               # of every valve's Kv or Cv (several in series: each)
+
+A bad value is an InputError on ``tolerances.<key>``. The temperature tolerance acts through the
+site's own fluid model, rebuilt at T ± δ (:func:`site_thermal`).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import replace
+from typing import TYPE_CHECKING
+
+from ..errors import InputError, describe
+from ..messages import pressure_text, render
+from ..model import Fluid, Given, Network, PressureDrop
+from ..units import parse_quantity
+from .spec import Site, TolerancesSpec, Value
+
+if TYPE_CHECKING:
+    from ..numerics.uncertainty import Thermal, Tolerances
+    from ..storage.presets import PresetSource
+
+PERCENT_KEYS = {
+    "gauge_accuracy": "gauge_percent",
+    "flow_meter_accuracy": "flow_meter_percent",
+    "diameter": "diameter_percent",
+    "length": "length_percent",
+    "fitting_k": "fitting_k_percent",
+    "valve_kv": "valve_kv_percent",
+}
+"""Site key → :class:`Tolerances` field, for the keys given as percentages."""
+
+SITE_KEYS = {core: key for key, core in PERCENT_KEYS.items()} | {
+    "gauge_full_scale": "gauge_full_scale", "target_flow_measured": "target_flow_measured",
+    "roughness_factor": "roughness_factor", "roughness_m": "roughness_range",
+    "temperature_k": "temperature",
+}
+""":class:`Tolerances` field → site key, to name the file's field in a core error."""
+
+_BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
+_NUMBER_THEN_UNIT = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?(.*)\Z", re.S)
+
+
+def _tidy(number: float) -> float:
+    """Round away the last-digit noise of a unit conversion (0.03 · 100 → 3.0)."""
+    return float(f"{number:.12g}")
+
+
+def percent(value: Value, path: str) -> float:
+    """A percentage typed with its sign (``"3 %"``), in % (so ``3.0``). A bare number is
+    refused: 3 could mean 3 % or 300 %."""
+    if value is None or isinstance(value, bool):
+        raise InputError(path, describe(value), "must be a percentage such as '3 %'")
+    if isinstance(value, int | float) or (isinstance(value, str) and _BARE.match(value)):
+        raise InputError(path, describe(value), f"give the percent sign, such as '{value} %'")
+    return _tidy(parse_quantity(value, "fraction", path) * 100)
+
+
+def temperature_difference(value: Value, path: str) -> float:
+    """A temperature difference in K: ``"2 K"``, ``"2 delta_degC"``, ``"2 degC"`` (a step of
+    2 °C, not the temperature 2 °C) or ``"3.6 degF"`` (= 2 K)."""
+    if not isinstance(value, str):
+        raise InputError(path, describe(value), "needs a unit, such as '2 K'")
+    match = _NUMBER_THEN_UNIT.match(value)
+    unit = match.group(1).strip() if match else ""
+    if not unit:  # parse_quantity names what is wrong: no number, or no unit
+        parse_quantity(value, "temperature", path)
+    # The difference of two readings in the same unit: offset units (degC, degF) cancel.
+    delta = parse_quantity(value, "temperature", path) - parse_quantity(
+        f"0 {unit}", "temperature", path)
+    return _tidy(delta)
+
+
+def _pair_numbers(pair: list[Value], path: str) -> tuple[float, float]:
+    from .values import plain_number
+
+    if len(pair) != 2:
+        raise InputError(path, describe(pair), "must be a pair [low, high]")
+    low, high = (plain_number(v, f"{path}[{i}]") for i, v in enumerate(pair))
+    return _ordered(low, high, pair, path)  # type: ignore[arg-type]
+
+
+def _pair_roughness(pair: list[Value], path: str) -> tuple[float, float]:
+    if len(pair) != 2:
+        raise InputError(path, describe(pair), "must be a pair [low, high], such as "
+                         "[\"0.05 mm\", \"0.5 mm\"]")
+    low, high = (parse_quantity(v, "roughness", f"{path}[{i}]") for i, v in enumerate(pair))
+    return _ordered(low, high, pair, path)
+
+
+def _ordered(low: float, high: float, pair: list[Value], path: str) -> tuple[float, float]:
+    if not (math.isfinite(low) and math.isfinite(high) and 0 < low <= high):
+        raise InputError(path, describe(pair), "must be a pair with 0 < low ≤ high")
+    return low, high
+
+
+def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> Tolerances:
+    """The :class:`Tolerances` of a ``[tolerances]`` table; missing keys keep the defaults.
+
+    network: to resolve the branch names of ``roughness_range``; given: a gauge's full scale
+    below the pressure drop read on it is refused.
+    """
+    from ..numerics.uncertainty import Tolerances
+
+    path = "tolerances"
+    kw: dict[str, object] = {}
+    for key, core in PERCENT_KEYS.items():
+        if (value := getattr(spec, key)) is not None:
+            kw[core] = percent(value, f"{path}.{key}")
+    if kw.get("gauge_percent", 0.0) >= 100:  # the core has no upper limit; a gauge has
+        raise InputError(f"{path}.gauge_accuracy", describe(spec.gauge_accuracy),
+                         "must be below 100 %")
+    if (value := spec.gauge_full_scale) is not None:
+        full = parse_quantity(value, "pressure", f"{path}.gauge_full_scale")
+        if not full > 0:
+            raise InputError(f"{path}.gauge_full_scale", describe(value), "must be positive")
+        if isinstance(given, PressureDrop) and abs(given.value) > full * (1 + 1e-9):
+            read = pressure_text(abs(given.value))
+            raise InputError(f"{path}.gauge_full_scale", describe(value),
+                             f"is below the pressure drop read on the gauge ({read})")
+        kw["gauge_full_scale"] = full
+    if (value := spec.target_flow_measured) is not None:
+        if not isinstance(value, bool):
+            raise InputError(f"{path}.target_flow_measured", describe(value),
+                             "must be true or false")
+        kw["target_flow_measured"] = value
+    if spec.roughness_factor is not None:
+        kw["roughness_factor"] = _pair_numbers(spec.roughness_factor,
+                                               f"{path}.roughness_factor")
+    ranges: dict[str, tuple[float, float]] = {}
+    for name, pair in spec.roughness_range.items():
+        where = f'{path}.roughness_range."{name}"'
+        branch = network.branches[network.index_of(name, where)].name
+        if branch in ranges:
+            raise InputError(where, describe(name), f"names the branch '{branch}' twice")
+        ranges[branch] = _pair_roughness(pair, where)
+    if ranges:
+        kw["roughness_m"] = ranges
+    if (value := spec.temperature) is not None:
+        kw["temperature_k"] = temperature_difference(value, f"{path}.temperature")
+    tol = Tolerances(**kw)  # type: ignore[arg-type]
+    try:
+        tol.validate()
+    except InputError as exc:
+        raise site_error(exc) from None
+    return tol
+
+
+def site_error(exc: InputError) -> InputError:
+    """A core ``uncertainty.<field>`` error renamed to the site file's ``tolerances.<key>``."""
+    m = re.match(r"uncertainty\.(\w+)(?:\[(.*)\])?\Z", exc.field)
+    if m is None or m[1] not in SITE_KEYS:
+        return exc
+    key = SITE_KEYS[m[1]]
+    suffix = f'."{m[2].strip(chr(39))}"' if m[2] else ""
+    return InputError(f"tolerances.{key}{suffix}", exc.marked_value, exc.marked_reason)
+
+
+def site_thermal(
+    site: Site, tol: Tolerances, presets: PresetSource | None = None
+) -> tuple[Tolerances, Thermal | None, tuple[str, ...]]:
+    """How the site's liquid moves over T ± the temperature tolerance: the fluid model of the
+    site rebuilt at both ends (:meth:`Thermal.from_fluid_at` with the tolerance as the step,
+    so the ln-linear model meets the fluid model at the band's limits).
+
+    Returns the tolerances (the temperature one set to zero where it cannot apply), the model
+    (None without one) and notes saying why a temperature tolerance was left out. A fluid
+    without a temperature (a custom one) ignores it with a note; a tolerance typed in the file
+    that takes the liquid outside its model (boiling, freezing) is an InputError.
+    """
+    from ..fluids import fluid_from_spec
+    from ..numerics.uncertainty import Thermal
+    from .liquid import fluid_inputs
+
+    if tol.temperature_k == 0:
+        return tol, None, ()
+    kind, args = fluid_inputs(site, presets)
+    centre = args.get("temperature_k")
+    if centre is None:
+        return replace(tol, temperature_k=0.0), None, (
+            f"temperature tolerance not applied: the {kind} fluid's density and viscosity "
+            "do not depend on a temperature here",)
+
+    def fluid_at(t_k: float) -> Fluid:
+        return fluid_from_spec(kind, **(args | {"temperature_k": t_k}))
+
+    try:
+        thermal = Thermal.from_fluid_at(fluid_at, centre, tol.temperature_k)
+    except InputError as exc:
+        typed = site.tolerances.temperature if site.tolerances is not None else None
+        reason = (f"takes the liquid outside its model ({exc.field}: {exc.marked_reason}, "
+                  f"got {exc.marked_value})")
+        if typed is not None:
+            raise InputError("tolerances.temperature", describe(typed), reason) from None
+        return replace(tol, temperature_k=0.0), None, (
+            f"temperature tolerance not applied: ± {tol.temperature_k:g} K {render(reason)}",)
+    return tol, thermal, ()
+
+
+__all__ = ["build_tolerances", "percent", "site_error", "site_thermal",
+           "temperature_difference"]

@@ -1,0 +1,58 @@
+"""Reading single values of a site as typed: text, plain numbers, quantities with units.
+
+Every failure is an :class:`~branchwise.core.errors.InputError` naming the field path.
+"""
+
+from __future__ import annotations
+
+import math
+
+from ..errors import InputError, describe
+from ..units import parse_quantity
+from .spec import Value
+
+# ---- values --------------------------------------------------------------------------------
+
+def quantity(value: Value, kind: str, path: str, required: bool = True) -> float | None:
+    """The SI value of a quantity typed at ``path`` (None when absent and not ``required``)."""
+    if value is None:
+        if required:
+            raise InputError(path, "nothing", "is required")
+        return None
+    return parse_quantity(value, kind, path)
+
+
+def plain_number(value: Value, path: str) -> float | None:
+    """A plain number (K, Kv, Cv, counts): a TOML number or text holding only a number."""
+    if value is None:
+        return None
+    if isinstance(value, bool):
+        raise InputError(path, describe(value), "must be a number")
+    if isinstance(value, str):
+        try:
+            value = float(value.strip())
+        except ValueError:
+            raise InputError(path, describe(value), "must be a plain number") from None
+    try:
+        number = float(value)
+    except OverflowError:  # a TOML integer has no size limit; a float stops near 1.8e308
+        raise InputError(path, describe(value), "must be a finite number") from None
+    if not math.isfinite(number):
+        raise InputError(path, describe(value), "must be a finite number")
+    return number
+
+
+def at_least(number: float | None, path: str, value: Value, low: float, strict: bool) -> None:
+    """InputError unless ``number`` is ≥ ``low`` (> ``low`` when ``strict``); None passes."""
+    if number is not None and (number < low or (strict and number == low)):
+        raise InputError(path, describe(value), "must be positive" if strict and low == 0
+                         else "must not be negative")
+
+
+def text_value(value: Value, path: str) -> str | None:
+    """Non-empty text, stripped (None when absent)."""
+    if value is None:
+        return None
+    if not isinstance(value, str) or not value.strip():
+        raise InputError(path, describe(value), "must be non-empty text")
+    return value.strip()

@@ -1,0 +1,63 @@
+"""``branchwise presets``: list, add and delete the user's own liquids and materials."""
+
+from __future__ import annotations
+
+from typing import TextIO
+
+from branchwise.core.errors import InputError
+
+
+def run_presets(action: str, kind: str | None, key: str | None, values: list[str],
+                out: TextIO) -> int:
+    from branchwise.core.storage.user_presets import check_preset, store
+
+    presets = store()
+    if presets.problems:
+        for problem in presets.problems:
+            print(f"problem: {problem}", file=out)
+    if action == "list":
+        for k in ((kind,) if kind else ("fluids", "materials")):
+            _list(k, presets, out)
+        return 0
+    if kind is None or key is None:
+        raise InputError("presets", action, "give a kind (fluids or materials) and a key")
+    if action == "delete":
+        if values:
+            raise InputError("presets", " ".join(values), "delete takes no values")
+        presets.delete(kind, key)
+        print(f"deleted {kind} preset '{key}'", file=out)
+        return 0
+    pairs = {}
+    for item in values:
+        name, sep, value = item.partition("=")
+        if not sep or not name.strip():
+            raise InputError(f"{kind}.{key}", item, "values are written NAME=VALUE")
+        pairs[name.strip()] = value.strip()
+    if not pairs:
+        raise InputError(f"{kind}.{key}", "nothing", "give at least one NAME=VALUE")
+    replaced = presets.is_user(kind, key)
+    presets.put(kind, key, check_preset(kind, key, pairs))
+    print(f"{'replaced' if replaced else 'saved'} {kind} preset '{key}' in {presets.path}",
+          file=out)
+    return 0
+
+
+def _list(kind: str, presets, out: TextIO) -> None:
+    from branchwise.core.catalogs import materials
+
+    print(f"{kind}:", file=out)
+    rows = []
+    if kind == "materials":
+        for m in materials():
+            if not presets.is_user("materials", m.key):
+                rows.append((m.key, "shipped", f"{m.name}, ε {m.roughness_m * 1000:g} mm"))
+    else:
+        rows.append(("water, seawater, ethylene-glycol, propylene-glycol, custom", "built in",
+                     "by temperature (and concentration or salinity)"))
+    for key, values in presets.list(kind).items():
+        if presets.is_user(kind, key):
+            text = ", ".join(f"{n} {v}" for n, v in values.items())
+            rows.append((key, "yours", text))
+    width = max(len(r[0]) for r in rows)
+    for key, origin, text in rows:
+        print(f"  {key:<{width}}  {origin:<8}  {text}", file=out)

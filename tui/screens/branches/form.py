@@ -1,0 +1,307 @@
+"""The branch form: one branch with all its series segments, fittings and valve.
+
+Works on a copy of the branch; Enter moves to the next field and, on the last, applies it;
+Escape leaves it unchanged. Each value is checked as it is typed (units, numbers, fitting
+names, a value the branch needs), and its message shows right under the field; the whole site
+is checked once the form is applied.
+"""
+
+from __future__ import annotations
+
+import copy
+import re
+from collections.abc import Callable
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical, VerticalScroll
+from textual.widgets import Label, Static
+from textual.widgets.input import Selection
+
+from branchwise.core.errors import InputError
+from branchwise.core.site.spec import BranchSpec, SegmentSpec
+
+from ...state.session import text_of, with_unit
+from ...widgets.field import Field
+from ..dialogs import FORM_HINT, FORM_KEYS, Dialog
+from .cells import (
+    same_pipe,
+    set_k,
+    set_size,
+    set_tag,
+    set_valve,
+    set_wall,
+    size_text,
+    valve_problem,
+    valve_text,
+    wall_text,
+)
+
+SEGMENT_FIELDS = (
+    ("size", "Size or bore", "diameter"),
+    ("length", "Length", "length"),
+    ("wall", "ε or material", "roughness"),
+    ("k", "Extra K", None),
+    ("fittings", "Fittings", None),
+)
+PLACEHOLDERS = {"size": "e.g. 4 in sch 40, DN80, 1-1/2 type L, 77.9 mm",
+                "length": "e.g. 62 m, 180 ft",
+                "wall": "e.g. 0.045 mm, or commercial-steel aged",
+                "fittings": "e.g. elbow-90 4, gate-valve 2", "k": "e.g. 2.5 (a plain number)"}
+_ITEM = re.compile(r"\s*(?:(\d+(?:\.\d*)?)\s*[x×*]?\s*([a-z][a-z0-9-]*)|([a-z][a-z0-9-]*)"
+                   r"\s*[=: ]?\s*(\d+(?:\.\d*)?)?)\s*\Z", re.I)
+
+
+def parse_fittings(text: str, field: str = "fittings") -> dict[str, float]:
+    """``elbow-90 4, gate-valve 2`` (or ``4 elbow-90``, ``elbow-90=4``) → {key: count}."""
+    out: dict[str, float] = {}
+    for item in filter(None, (part.strip() for part in text.split(","))):
+        m = _ITEM.match(item)
+        if m is None:
+            raise InputError(field, item, "write each fitting as 'key count', such as "
+                             "'elbow-90 4'")
+        key = (m.group(2) or m.group(3)).lower()
+        count = float(m.group(1) or m.group(4) or 1)
+        out[key] = out.get(key, 0.0) + count
+    return out
+
+
+def fittings_text(fittings: dict[str, object]) -> str:
+    return ", ".join(f"{key} {text_of(count)}" for key, count in fittings.items())
+
+
+class BranchForm(Dialog[BranchSpec | None]):
+    """Edit one branch. ``unit`` gives the display unit of a kind of quantity."""
+
+    BINDINGS = [
+        Binding("escape", "cancel", "Cancel", id="form-cancel",
+                tooltip="Close the form without changing the branch"),
+        Binding("ctrl+n", "add_segment", "Add segment", id="form-add-segment",
+                tooltip="Add a series segment after the one being edited"),
+        Binding("ctrl+g", "remove_segment", "Remove segment", id="form-remove-segment",
+                tooltip="Remove the segment being edited"),
+    ]
+    CLOSE_HINT = FORM_HINT
+    DEFAULT_CSS = """
+    BranchForm { align: center middle; }
+    BranchForm > Vertical {
+        width: 90; max-width: 100%; height: 90%; border: thick $primary; background: $surface;
+        padding: 0 1;
+    }
+    BranchForm .form-title { text-style: bold; }
+    BranchForm .segment-title { margin-top: 1; color: $accent; text-style: bold; }
+    BranchForm .form-keys { color: $text-muted; }
+    BranchForm .form-message { color: $error; }
+
+    """
+
+    def __init__(self, branch: BranchSpec, unit: Callable[[str], str],
+                 title: str = "Branch", start: str = "name", segment: int = 0) -> None:
+        """start: the field the cursor starts in (a column key of the branch table: ``name``,
+        ``size``, ``valve``…); segment: the segment of a segment's field."""
+        super().__init__()
+        self.branch = copy.deepcopy(branch)
+        self.unit = unit
+        self.title_text = title
+        self._focus_segment = segment
+        self._start = start
+
+    def compose(self) -> ComposeResult:
+        br = self.branch
+        with Vertical():
+            yield Label(f"{self.title_text}: {text_of(br.name)}", classes="form-title",
+                        markup=False)
+            yield Static(f"{FORM_KEYS}\nCtrl+N: add a segment   Ctrl+G: remove this segment",
+                         classes="form-keys", markup=False)
+            with VerticalScroll(id="form-fields"):
+                yield Field("Name", "name", value=text_of(br.name), id="f-name")
+                yield Field("Tag", "tag", value=text_of(br.tag), id="f-tag",
+                            placeholder="the plant's line or valve tag, e.g. CHW-R-104")
+                yield Field("Valve (Kv or Cv)", "valve", value=valve_text(br),
+                            placeholder="e.g. Kv 160, Cv 110; in series: Kv 160 + 40", id="f-valve")
+                yield Field("Note", "note", value=text_of(br.note), id="f-note")
+                for j, seg in enumerate(br.segments):
+                    yield Label(f"Segment {j + 1}", classes="segment-title")
+                    for key, label, kind in SEGMENT_FIELDS:
+                        yield Field(label, f"{j}.{key}", kind, value=self._seg_text(seg, key),
+                                    id=f"f-{j}-{key}", placeholder=PLACEHOLDERS.get(key, ""))
+            yield Static("", classes="form-message", markup=False)
+
+    def on_mount(self) -> None:
+        for field in self.query(Field):
+            if field.kind:
+                field.set_unit(self.unit(field.kind))
+        self._fitting_keys: set[str] | None = None
+        fields = {f.path: f for f in self.query(Field)}
+        j = min(self._focus_segment, len(self.branch.segments) - 1)
+        target = fields.get(self._start) or fields.get(f"{j}.{self._start}") or fields["name"]
+        if self._rebuilding:  # a segment added or removed: its first field
+            target = fields[f"{j}.size"]
+        target.input.focus()
+        if target.path == "name":  # typing replaces the name at once
+            target.input.selection = Selection(0, len(target.text))
+
+    @staticmethod
+    def _seg_text(seg: SegmentSpec, key: str) -> str:
+        return {"size": size_text(seg), "length": text_of(seg.length), "wall": wall_text(seg),
+                "k": text_of(seg.minor_k), "fittings": fittings_text(seg.fittings)}[key]
+
+    # ---- reading the fields back ----------------------------------------------------------------
+
+    def collect(self) -> BranchSpec:
+        """The branch as the fields now say (values checked by :meth:`check`)."""
+        br = copy.deepcopy(self.branch)
+        values = {f.path: f.text for f in self.query(Field)}
+        br.name = values["name"].strip()
+        set_tag(br, values["tag"])
+        set_valve(br, values["valve"])
+        br.note = values["note"].strip() or None
+        for j, seg in enumerate(br.segments):
+            set_size(seg, values[f"{j}.size"], self.unit("diameter"))
+            seg.length = with_unit(values[f"{j}.length"], self.unit("length")) or None
+            set_wall(seg, values[f"{j}.wall"], self.unit("roughness"))
+            set_k(seg, values[f"{j}.k"])
+            try:
+                seg.fittings = dict(parse_fittings(values[f"{j}.fittings"]))
+            except InputError:
+                pass  # reported by check(); the fields keep what was typed
+        return br
+
+    def check(self, field: Field) -> str | None:
+        """The message for ``field``'s text, or None when it reads well on its own."""
+        from branchwise.core.units import parse_quantity
+
+        text = field.text.strip()
+        key = field.path.split(".")[-1]
+        try:
+            if key == "name" and not text:
+                return "every branch needs a name"
+            if key in ("size", "length") and not text:
+                return ("required: a catalog size (4 in sch 40, DN80) or the bore" if key == "size"
+                        else "required: the pipe's length")
+            if key == "wall" and not text and self._plain_bore(field):
+                return "required for a bore: a roughness or a material"
+            if key == "fittings" and text:
+                known = self._known_fittings()
+                for name in parse_fittings(text, "fittings"):
+                    if known and name not in known:
+                        return (f"no fitting '{name}'; known: {', '.join(sorted(known))}")
+            if key in ("length",) and text:
+                if parse_quantity(text, "length", key, self.unit("length")) < 0:
+                    return f"must not be negative, got {text}"
+            if key == "size" and text:
+                probe = SegmentSpec()
+                set_size(probe, text, self.unit("diameter"))
+                if probe.diameter is not None:
+                    parse_quantity(probe.diameter, "diameter", key)
+                else:
+                    from branchwise.core.catalogs import parse_size
+
+                    if parse_size(text, key) is None:  # no catalog size: read it as a bore
+                        parse_quantity(text, "diameter", key, self.unit("diameter"))
+            if key == "wall" and text and (text[0].isdigit() or text[0] == "."):
+                parse_quantity(text, "roughness", key, self.unit("roughness"))
+            if key == "valve" and text:
+                return valve_problem(text)
+            if key == "k" and text:
+                float(text)
+        except InputError as exc:
+            return self.app.reason_words(exc)  # type: ignore[attr-defined]
+        except ValueError:
+            return "must be a plain number"
+        return None
+
+    def _plain_bore(self, field: Field) -> bool:
+        """True if the segment of ``field`` gives a bore (no catalog size, so no material)."""
+        segment = field.path.split(".")[0]
+        size = self.query_one(f"#f-{segment}-size", Field).text
+        probe = SegmentSpec()
+        try:
+            set_size(probe, size, self.unit("diameter"))
+        except InputError:
+            return False
+        return probe.diameter is not None
+
+    def _known_fittings(self) -> set[str]:
+        if self._fitting_keys is None:
+            from branchwise.core.catalogs import fittings
+
+            self._fitting_keys = {f.key for f in fittings()}
+        return self._fitting_keys
+
+    def on_field_edited(self, event: Field.Edited) -> None:
+        if not self._rebuilding:
+            event.field.set_error(self.check(event.field))
+            if event.field.path.endswith(".size"):  # a bore needs a roughness, a size not
+                wall = self.query_one(f"#f-{event.field.path.split('.')[0]}-wall", Field)
+                wall.set_error(self.check(wall))
+
+    def on_field_done(self, event: Field.Done) -> None:
+        """Enter: a field that reads wrong keeps the cursor, its message beside it; else
+        the next field; on the last field the form applies."""
+        # An Enter typed just before Ctrl+N/Ctrl+G can arrive while the fields are being
+        # rebuilt (the branch already has its new segments, the fields not yet): the form
+        # stays open on the new layout.
+        if self._rebuilding:
+            return
+        message = self.check(event.field)
+        event.field.set_error(message)
+        if message is None and not self.next_field(event.field):
+            self.apply()
+
+    def apply(self) -> None:
+        bad = [(f, m) for f in self.query(Field) if (m := self.check(f))]
+        for field, message in bad:
+            field.set_error(message)
+        if bad:
+            self.query_one(".form-message", Static).update(
+                "Fix the marked fields, or Esc to leave the branch as it was.")
+            bad[0][0].input.focus()
+            return
+        self.dismiss(self.collect())
+
+    # ---- segments -------------------------------------------------------------------------------
+
+    def _segment_in_focus(self) -> int:
+        focused = self.focused
+        for field in self.query(Field):
+            if focused is not None and focused in field.query("Input"):
+                head = field.path.split(".")[0]
+                return int(head) if head.isdigit() else 0
+        return 0
+
+    _rebuilding = False
+    """True while the fields are rebuilt for a segment added or removed."""
+
+    async def action_add_segment(self) -> None:
+        if self._rebuilding:
+            return
+        j = self._segment_in_focus()
+        branch = self.collect()
+        branch.segments.insert(j + 1, same_pipe(branch.segments[j]))
+        await self._rebuild(branch, j + 1)
+
+    async def action_remove_segment(self) -> None:
+        if self._rebuilding:
+            return
+        if len(self.branch.segments) < 2:
+            self.notify("A branch keeps at least one segment.", severity="warning")
+            return
+        j = self._segment_in_focus()
+        branch = self.collect()
+        branch.segments.pop(j)
+        await self._rebuild(branch, max(0, j - 1))
+
+    async def _rebuild(self, branch: BranchSpec, focus_segment: int) -> None:
+        """Show ``branch`` (one more or one fewer segment) with the focus on a segment."""
+        self._rebuilding = True
+        try:
+            self.branch = branch
+            self._focus_segment = focus_segment
+            await self.recompose()
+            self.on_mount()
+        finally:
+            self._rebuilding = False
+
+    def action_cancel(self) -> None:
+        self.dismiss(None)

@@ -1,0 +1,395 @@
+"""The Branches screen: every branch between the two headers, one row per series segment.
+
+Cells are edited in place (Enter opens a one-line editor under the table) or in the branch form
+(``e``). Branches are added, copied, removed (undo brings them back) and reordered. A reading
+typed in a branch's Reading cell is kept beside the given (the Split screen compares it with
+the answer; ``g`` there makes it the given); the cell of the given reading says so. The Flow
+column is the present answer.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical
+from textual.widgets import DataTable, Input, Label, Static
+
+from branchwise.core.site.spec import Site
+
+from ...state.givens import (
+    add_reading,
+    clear_reading,
+    given_of,
+    given_words,
+    held,
+    remove_branch,
+)
+from ...state.session import branch_name, locate, new_branch, rename_branch, text_of, with_unit
+from ...widgets.branchtable import BranchTable
+from ...widgets.quiet import fill_table, put
+from ..work_screen import WorkScreen
+from .cells import (
+    BRANCH_COLUMNS,
+    COLUMNS,
+    FIELD_COLUMNS,
+    UNIT_KINDS,
+    WIDE_COLUMNS,
+    cell_text,
+    edit_text,
+    flow_cells,
+    same_pipe,
+    setter,
+)
+
+WIDE = 100
+"""From this many terminal columns on, the table also shows the :data:`WIDE_COLUMNS` (the tag)."""
+
+
+class BranchesScreen(WorkScreen):
+    """The branch table and its cell editor."""
+
+    AUTO_FOCUS = "#branch-table"
+    CSS_PATH = Path(__file__).parent / "branches.tcss"
+    # Until the first draw (keys typed ahead can ask check_action before on_mount runs):
+    _rows: list[tuple[int, int]] = []
+    _keys: list[str] = [key for key, _ in COLUMNS if key not in WIDE_COLUMNS]
+    """The keys of the columns shown, in order."""
+    _editing: tuple[int, int, str] | None = None
+    _editing_revision = 0
+
+    BINDINGS = [
+        Binding("enter", "edit_cell", "Edit", id="branches-edit",
+                tooltip="Edit the highlighted cell in place"),
+        Binding("e", "form", "Form", id="branches-form",
+                tooltip="Edit the whole branch and its segments in a form"),
+        Binding("a", "add", "Add", id="branches-add", tooltip="Add a branch"),
+        Binding("c", "copy", "Copy", id="branches-copy",
+                tooltip="Add a copy of the highlighted branch"),
+        Binding("delete", "remove", "Remove", id="branches-remove",
+                tooltip="Remove the highlighted branch (or segment); Ctrl+Z brings it back"),
+        Binding("s", "add_segment", "Segment", id="branches-segment", show=False,
+                tooltip="Add a series segment after the highlighted one"),
+        Binding("shift+up,left_square_bracket", "move(-1)", "Up", id="branches-up",
+                show=False, tooltip="Move the branch up"),
+        Binding("shift+down,right_square_bracket", "move(1)", "Down", id="branches-down",
+                show=False, tooltip="Move the branch down"),
+        Binding("m", "edit_cell('reading')", "Reading", id="branches-reading", show=False,
+                tooltip="Type a measured flow for the branch: kept beside the given"),
+        Binding("escape", "cancel_edit", "Cancel", id="branches-cancel", show=False,
+                tooltip="Close the cell editor without changing the cell"),
+    ]
+
+    def body(self) -> ComposeResult:
+        with Vertical(id="branches"):
+            table = BranchTable(id="branch-table", cursor_type="cell", zebra_stripes=True)
+            table.fixed_columns = 1  # the names stay in sight as → scrolls to the valve
+            yield table
+            yield Static("", id="branch-message", classes="message", markup=False)
+            with Vertical(id="cell-editor"):  # while a cell is edited: says so, marks it
+                yield Static("", id="cell-title", markup=False)
+                with Horizontal():
+                    yield Label("", id="cell-label", markup=False)
+                    yield Input(id="cell-input", compact=True)
+
+    def on_mount(self) -> None:
+        self._rows = []
+        self._editing = None
+        super().on_mount()
+
+    # ---- drawing ---------------------------------------------------------------------------------
+
+    def redraw(self) -> None:
+        app, site = self.bw, self.bw.site
+        if self._editing is not None and app.session.revision != self._editing_revision:
+            self._close_editor()  # an undo or redo under the editor: its cell may be gone
+            app.notify("The site changed while you typed (undo or redo): the cell was closed, "
+                       "nothing written.", severity="warning")
+        table = self.query_one("#branch-table", DataTable)
+        wide = self.app.size.width >= WIDE
+        self._keys = [key for key, _ in COLUMNS if wide or key not in WIDE_COLUMNS]
+        columns = []
+        for key, label in COLUMNS:
+            if key not in self._keys:
+                continue
+            unit = f" {app.unit_text(UNIT_KINDS[key])}" if key in UNIT_KINDS else ""
+            columns.append((key, f"{label}{unit}"))
+        outcome = app.outcome
+        bad = locate(outcome.field) if outcome is not None and outcome.error else None
+        bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
+            else None
+        flows = flow_cells(app)
+        given = given_of(site)
+        self._rows = []
+        rows: list[tuple[str, list[object]]] = []
+        for i, br in enumerate(site.branches):
+            for j, seg in enumerate(br.segments):
+                cells: list[object] = []
+                for key in self._keys:
+                    if j > 0 and key in BRANCH_COLUMNS:
+                        text = f"  └ {j + 1}" if key == "name" else ""
+                    elif key == "flow":
+                        text = flows.get(i, "") if j == 0 else ""
+                    elif key == "reading" and given == ("measured_flow", i):
+                        text = f"{cell_text(br, seg, key)} ◂ given"
+                    else:
+                        text = cell_text(br, seg, key)
+                    wrong = (bad is not None and bad.branch == i and key == bad_column
+                             and (bad.segment or 0) == j)
+                    cells.append(Text(text or "?", style="bold white on red") if wrong
+                                 else Text(text, justify="right" if key == "flow" else "left"))
+                rows.append((f"{i}.{j}", cells))
+                self._rows.append((i, j))
+        fill_table(table, columns, rows)
+        message = self.query_one("#branch-message", Static)
+        message.set_class(bad is None, "-hint")
+        if bad is not None:
+            put(message, f"✗ {app.error_words(outcome.error)}")  # type: ignore[union-attr,arg-type]
+        else:
+            put(message, reading_hint(site, given))
+
+    def on_resize(self) -> None:
+        # The tag column comes and goes as the terminal crosses WIDE columns.
+        if (self.app.size.width >= WIDE) != (len(self._keys) == len(COLUMNS)):
+            self.redraw()
+
+    def here(self) -> tuple[int, int, str] | None:
+        """(branch, segment, column key) under the cursor, or None for an empty table."""
+        table = self.query_one("#branch-table", DataTable)
+        if not self._rows:
+            return None
+        row = min(table.cursor_row, len(self._rows) - 1)
+        i, j = self._rows[row]
+        return i, j, self._keys[min(table.cursor_column, len(self._keys) - 1)]
+
+    def _go(self, branch: int, segment: int = 0) -> None:
+        """Put the cursor on a branch's row after the next redraw."""
+        def move() -> None:
+            if (branch, segment) in self._rows:
+                table = self.query_one("#branch-table", DataTable)
+                table.move_cursor(row=self._rows.index((branch, segment)), animate=False)
+        self.call_after_refresh(move)
+
+    # ---- in-place editing ------------------------------------------------------------------------
+
+    def on_data_table_cell_selected(self, event: DataTable.CellSelected) -> None:
+        event.stop()
+        self.action_edit_cell()
+
+    def action_edit_cell(self, column: str | None = None) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i, j, key = spot
+        key = column or key
+        if key == "flow":
+            self.notify("The flow is worked out. To fix this branch's flow, type a Reading "
+                        "(m); to size it for a flow, use Find on the Split screen (F4).",
+                        timeout=6)
+            return
+        if j > 0 and key in BRANCH_COLUMNS:
+            j = 0
+        br = self.bw.site.branches[i]
+        seg = br.segments[j]
+        label = dict(COLUMNS)[key]
+        unit = f" [{self.bw.unit_text(UNIT_KINDS[key])}]" if key in UNIT_KINDS else ""
+        where = branch_name(self.bw.site, i) + (f" segment {j + 1}" if len(br.segments) > 1
+                                                and key not in BRANCH_COLUMNS else "")
+        self._editing = (i, j, key)
+        self._editing_revision = self.bw.session.revision
+        doing = f"Renaming {where}" if key == "name" else f"Editing {where} · {label}"
+        self.query_one("#cell-title", Static).update(f"✎ {doing} — Enter keeps · Esc cancels")
+        self.query_one("#cell-label", Label).update(f"{'Name' if key == 'name' else label}"
+                                                    f"{unit}: ")
+        self.query_one("#cell-editor").display = True
+        self.query_one("#branches").add_class("-editing")  # marks the cell, hides the key hint
+        box = self.query_one("#cell-input", Input)
+        box.value = edit_text(br, seg, key) if key != "name" else text_of(br.name)
+        box.cursor_position = len(box.value)
+        box.focus()
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        if event.input.id != "cell-input" or self._editing is None:
+            return
+        event.stop()
+        i, j, key = self._editing
+        self._close_editor()
+        self.commit(i, j, key, event.value)
+
+    def action_cancel_edit(self) -> None:
+        self._close_editor()
+
+    def _close_editor(self) -> None:
+        self._editing = None
+        self.query_one("#cell-editor").display = False
+        self.query_one("#branches").remove_class("-editing")
+        self.query_one("#branch-table", DataTable).focus()
+
+    def commit(self, i: int, j: int, key: str, text: str) -> None:
+        """Write a typed cell into the site."""
+        app = self.bw
+        site = app.site
+        name = branch_name(site, i)
+        if key == "name":
+            new = text.strip()
+            if new and new != text_of(site.branches[i].name):
+                app.edit(f"Rename {name}", lambda s: rename_branch(s, i, new))
+            return
+        if key == "reading":
+            self._set_reading(i, text)
+            return
+        write = setter(key, app.unit)
+        if write is None:
+            return
+
+        def change(s: Site) -> None:
+            br = s.branches[i]
+            write(br, br.segments[j], text)
+
+        app.edit(f"{name} {dict(COLUMNS)[key].lower()}", change)
+
+    def _set_reading(self, i: int, text: str) -> None:
+        app = self.bw
+        name = branch_name(app.site, i)
+        value = with_unit(text, app.unit("flow"))
+        if value:
+            app.edit(f"Reading on {name}", lambda s: add_reading(s, i, value))
+            if given_of(app.site) == ("measured_flow", i):
+                app.notify(f"The reading on {name} is the given condition.", timeout=4)
+            else:
+                app.notify(f"Reading on {name} kept beside the given: the Split screen (F4) "
+                           "compares it with the answer; g there makes it the given.",
+                           timeout=5)
+        elif app.site.branches[i].measured_flow is not None:
+            app.edit(f"Clear the reading on {name}",
+                     lambda s: clear_reading(s, "measured_flow", i))
+
+    # ---- branch actions --------------------------------------------------------------------------
+
+    def action_add(self) -> None:
+        from .form import BranchForm
+
+        spot = self.here()
+        site = self.bw.site
+        like = site.branches[spot[0]] if spot else None
+        draft = new_branch(site)
+        if like is not None:  # start from the highlighted branch's pipe, not its length
+            draft.segments = [same_pipe(like.segments[0])]
+        at = (spot[0] + 1) if spot else len(site.branches)
+
+        def added(branch: object) -> None:
+            if branch is None:
+                return
+            self.bw.edit(f"Add {text_of(branch.name)}",  # type: ignore[attr-defined]
+                         lambda s: s.branches.insert(at, branch))  # type: ignore[arg-type]
+            self._go(at)
+
+        self.app.push_screen(BranchForm(draft, self.bw.unit, title="New branch"), added)
+
+    def action_form(self) -> None:
+        from .form import BranchForm
+
+        spot = self.here()
+        if spot is None:
+            return
+        i, j, column = spot
+        site = self.bw.site
+        old_name = text_of(site.branches[i].name)
+
+        def done(branch: object) -> None:
+            if branch is None:
+                return
+
+            def change(s: Site) -> None:
+                new_name = text_of(branch.name)  # type: ignore[attr-defined]
+                s.branches[i] = branch  # type: ignore[assignment]
+                if new_name != old_name:
+                    branch.name = old_name  # type: ignore[attr-defined]
+                    rename_branch(s, i, new_name)
+
+            self.bw.edit(f"Edit {old_name}", change)
+
+        self.app.push_screen(BranchForm(site.branches[i], self.bw.unit, start=column,
+                                        segment=j), done)
+
+    def action_copy(self) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i = spot[0]
+        copy = new_branch(self.bw.site, self.bw.site.branches[i])
+        self.bw.edit(f"Copy {branch_name(self.bw.site, i)}",
+                     lambda s: s.branches.insert(i + 1, copy))
+        self._go(i + 1)
+
+    def action_remove(self) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i, j, _ = spot
+        site = self.bw.site
+        name = branch_name(site, i)
+        if j > 0:
+            self.bw.edit(f"Remove segment {j + 1} of {name}",
+                         lambda s: s.branches[i].segments.pop(j))
+            self.notify(f"Removed segment {j + 1} of {name}. Ctrl+Z brings it back.")
+            return
+        if len(site.branches[i].segments) > 1:
+            self.notify(f"{name} has {len(site.branches[i].segments)} segments: removing "
+                        "the whole branch.", timeout=4)
+
+        def change(s: Site) -> None:
+            remove_branch(s, i)  # its reading too: the given moves on if it was that one
+            if s.solve is not None and text_of(s.solve.branch).casefold() == name.casefold():
+                s.solve = None
+
+        self.bw.edit(f"Remove {name}", change)
+        self.notify(f"Removed {name}. Ctrl+Z brings it back.", timeout=5)
+
+    def action_add_segment(self) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i, j, _ = spot
+        site = self.bw.site
+        fresh = same_pipe(site.branches[i].segments[j])
+        self.bw.edit(f"Add a segment to {branch_name(site, i)}",
+                     lambda s: s.branches[i].segments.insert(j + 1, fresh))
+        self._go(i, j + 1)
+        self.call_after_refresh(lambda: self.action_edit_cell("length"))
+
+    def action_move(self, step: int) -> None:
+        spot = self.here()
+        if spot is None:
+            return
+        i = spot[0]
+        k = i + step
+        if not 0 <= k < len(self.bw.site.branches):
+            return
+
+        def change(s: Site) -> None:
+            s.branches[i], s.branches[k] = s.branches[k], s.branches[i]
+
+        self.bw.edit(f"Move {branch_name(self.bw.site, i)}", change)
+        self._go(k)
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "cancel_edit":
+            return True if self._editing is not None else None
+        if action in ("edit_cell", "form", "copy", "remove", "add_segment", "move"):
+            return True if self.bw.site.branches else None
+        return True
+
+
+def reading_hint(site: Site, given: tuple[str, int | None]) -> str:
+    """The line under the table: the keys, or, once a branch holds a reading, which reading
+    is the given and where the others are compared."""
+    if not site.measured_branches():
+        return ("Enter edit · e form · a add · c copy · s segment · Del remove · bare numbers "
+                "take the header's unit")
+    others = len(held(site)) - (1 if given in held(site) else 0)
+    return f"Given: the {given_words(site, *given)}." + (
+        " The other readings are compared with the answer on Split (F4); g there changes "
+        "the given." if others else " g on Split (F4) changes the given.")

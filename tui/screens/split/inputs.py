@@ -1,0 +1,200 @@
+"""The Split screen's edits of its top rows: the given condition and what to find.
+
+Switching the given (Δp, total flow, one branch's reading) keeps every reading in the site and
+names the one solved from in ``conditions.given`` (see :mod:`..givens`); a reading the app
+filled in from the answer and nobody touched goes again when the given moves on. Switching the
+find choice keeps the branch and target aside in the session (``parked``), so that switching
+back brings them again. A value typed in a field goes into the site at once (keystrokes in one
+field are one undo step).
+"""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING, Any
+
+from textual.widgets import Input
+
+from ...state.givens import given_of, make_given, reading_text, set_reading
+from ...state.session import branch_name, find_of, set_find, text_of, with_unit
+from ...widgets.choice import Choice
+
+if TYPE_CHECKING:
+    from ...app import BranchwiseApp
+
+GIVEN_PREFIX = "measured:"
+"""A given-kind choice value ``measured:<index>``: the reading on that branch."""
+FIELDS = ("given-value", "lift-value", "find-target")
+"""The typing fields in Enter order (Enter in the last goes back to the first)."""
+
+
+class GivenFindEdits:
+    """The Split screen's handlers for its given and find rows (a mixin of the screen)."""
+
+    if TYPE_CHECKING:
+        bw: BranchwiseApp
+        ready: bool
+
+        def query_one(self, selector: str, expect_type: type = ...) -> Any: ...
+
+    def on_choice_changed(self, event: Choice.Changed) -> None:
+        ident = event.choice.id
+        if ident == "given-kind":
+            self._switch_given(str(event.value))
+        elif ident == "find-kind":
+            self._switch_find(str(event.value))
+        elif ident == "find-branch":
+            name = str(event.value)
+            site = self.bw.site
+            old = text_of(site.solve.branch if site.solve else None)
+            if name != old:
+                # A target still as filled in for the old branch follows to the new one
+                # (its present flow); a target the person typed stays.
+                names = [branch_name(site, i) for i in range(len(site.branches))]
+                target = text_of(site.solve.target_flow if site.solve else None)
+                if old in names and target == self._current("measured_flow", names.index(old),
+                                                             down=True):
+                    target = self._current("measured_flow", names.index(name), down=True)
+                self.bw.edit(f"Find on {name}", lambda s: set_find(
+                    s, find_of(s), branch=name, segment=1, target=target or None))
+        elif ident == "find-segment":
+            seg = int(str(event.value))
+            self.bw.edit(f"Segment {seg}", lambda s: set_find(s, find_of(s), segment=seg))
+
+    def on_input_changed(self, event: Input.Changed) -> None:
+        if not self.ready:
+            return
+        app = self.bw
+        if event.input.id == "given-value":
+            kind, index = given_of(app.site)
+            unit = app.unit("pressure" if kind == "pressure_drop" else "flow")
+            text = with_unit(event.value, unit)
+
+            def retype(s: object) -> None:  # that reading only: the others stay as they are
+                set_reading(s, kind, text, index)  # type: ignore[arg-type]
+                make_given(s, kind, index)  # type: ignore[arg-type]
+
+            app.edit("Given value", retype, key="given")
+        elif event.input.id == "lift-value":
+            text = with_unit(event.value, app.unit("head")) or None
+
+            def lift(s: object) -> None:
+                s.conditions.elevation_change = text  # type: ignore[attr-defined]
+
+            app.edit("Lift", lift, key="lift")
+        elif event.input.id == "find-target":
+            text = with_unit(event.value, app.unit("flow"))
+            app.edit("Target flow", lambda s: set_find(s, find_of(s), target=text),
+                     key="target")
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        """Enter keeps the value (it is in the site already) and goes to the next field, as
+        in a form: the focus stays in a field, so that letters typed next are not keys."""
+        fields = [self.query_one(f"#{ident}", Input) for ident in FIELDS]
+        shown = [box for box in fields if box.display]
+        if event.input in shown:
+            shown[(shown.index(event.input) + 1) % len(shown)].focus()
+
+    def _switch_given(self, value: str) -> None:
+        app = self.bw
+        site = app.site
+        new_kind, new_index = ("measured_flow", int(value[len(GIVEN_PREFIX):])) \
+            if value.startswith(GIVEN_PREFIX) else (value, None)
+        old_kind, old_index = given_of(site)
+        if (new_kind, new_index) == (old_kind, old_index):
+            return
+        carried = app.session.carried
+        old_text = reading_text(site, old_kind, old_index)
+        # A reading the app filled in from the answer, untouched since: nobody read it.
+        untouched = bool(old_text) and carried.get(_park_key(site, old_kind, old_index)) \
+            == old_text
+        fill = "" if reading_text(site, new_kind, new_index) else self._current(new_kind,
+                                                                                 new_index)
+
+        def change(s: object) -> None:
+            if untouched:
+                set_reading(s, old_kind, None, old_index)  # type: ignore[arg-type]
+            if fill:
+                set_reading(s, new_kind, fill, new_index)  # type: ignore[arg-type]
+            make_given(s, new_kind, new_index)  # type: ignore[arg-type]
+
+        label = ("the reading on " + branch_name(site, new_index) if new_index is not None
+                 else new_kind.replace("_", " "))
+        app.edit(f"Given: {label}", change)
+        if fill:
+            carried[_park_key(site, new_kind, new_index)] = fill
+        self.query_one("#given-value", Input).focus()
+
+    def _current(self, kind: str, index: int | None, *, down: bool = False) -> str:
+        """The present answer's value of a quantity about to become the given or the target
+        (or ''), to :data:`CARRIED_DIGITS` figures so the answer stays the same; ``down``
+        rounds toward zero (a target flow never above what the branch carries)."""
+        good = self.bw.good
+        if good is None or good.solved is None:
+            return ""
+        result = good.solved.result
+        if kind == "pressure_drop":
+            value, what = result.pressure_drop, "pressure"
+        elif kind == "total_flow":
+            value, what = result.total_flow, "flow"
+        elif index is not None and index < len(result.branches):
+            value, what = result.branches[index].flow, "flow"
+        else:
+            return ""
+        return carried_text(value, what, self.bw.unit(what), down=down)
+
+    def _switch_find(self, find: str) -> None:
+        app = self.bw
+        site = app.site
+        if find == find_of(site):
+            return
+        parked = app.session.parked
+        if find == "flows":
+            if site.solve is not None:
+                parked["solve.branch"] = text_of(site.solve.branch)
+                parked["solve.target_flow"] = text_of(site.solve.target_flow)
+
+            def change(s: object) -> None:
+                s.solve = None  # type: ignore[attr-defined]
+
+            app.edit("Find the flows", change)
+            return
+        solve = site.solve
+        branch = text_of(solve.branch if solve else None) or parked.get("solve.branch", "")
+        names = [branch_name(site, i) for i in range(len(site.branches))]
+        if branch not in names:
+            kind, index = given_of(site)
+            candidates = [n for i, n in enumerate(names) if i != index] or names
+            branch = candidates[0] if candidates else ""
+        # The flow it carries now, rounded down: the installed size (or length, roughness)
+        # comes back, not the next size up for a hair more flow than the branch carries.
+        target = text_of(solve.target_flow if solve else None) or parked.get(
+            "solve.target_flow", "") or self._current("measured_flow", names.index(branch)
+                                                      if branch in names else None, down=True)
+        app.edit(f"Find the {find}", lambda s: set_find(s, find, branch, target))
+        self.query_one("#find-target", Input).focus()
+
+
+CARRIED_DIGITS = 7
+"""Significant figures of a value carried from the answer into a field: enough that the answer
+does not move (a 4-figure flow as the target of a found diameter lands a hair off the installed
+bore), few enough to read."""
+
+
+def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False) -> str:
+    """``value_si`` as field text in ``unit`` to :data:`CARRIED_DIGITS` figures; ``down``
+    rounds toward zero."""
+    import math
+
+    from branchwise.core.units import format_number, to_unit
+
+    value = to_unit(value_si, kind, unit)
+    if down and value and math.isfinite(value):
+        step = 10.0 ** (math.floor(math.log10(abs(value))) - CARRIED_DIGITS + 1)
+        value = math.copysign(math.floor(abs(value) / step) * step, value)
+    return f"{format_number(value, CARRIED_DIGITS)} {unit}"
+
+
+def _park_key(site: object, kind: str, index: int | None) -> str:
+    if kind == "measured_flow" and index is not None:
+        return f"measured_flow:{branch_name(site, index)}"  # type: ignore[arg-type]
+    return kind

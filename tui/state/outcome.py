@@ -1,0 +1,63 @@
+"""One solve of the site, as the app's worker runs it, and what the screens read from it.
+
+:func:`compute` is called in a worker thread: it imports the heavy modules (numpy, scipy, pint)
+on first use, so the first screen is drawn before they load. It never raises for anything the
+user typed: an :class:`~branchwise.core.errors.InputError` or a
+:class:`~branchwise.core.errors.NoSolutionError` comes back in :attr:`Outcome.error`, with the
+liquid worked out on its own so the liquid screen can show it even when a branch is wrong.
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any
+
+from branchwise.core.errors import BranchwiseError
+
+if TYPE_CHECKING:
+    from branchwise.core.model import Fluid
+    from branchwise.core.site.solve import SiteResult
+    from branchwise.core.site.spec import Site
+
+
+@dataclass(frozen=True, eq=False)
+class Outcome:
+    """The answer for one revision of the site.
+
+    solved: the solved site, or None when ``error`` says why not; fluid: the liquid at its
+    state (None when its own fields are wrong); seconds: wall time of the solve.
+    """
+
+    revision: int
+    solved: SiteResult | None
+    fluid: Fluid | None
+    error: BranchwiseError | None
+    seconds: float
+
+    @property
+    def ok(self) -> bool:
+        return self.error is None and self.solved is not None
+
+    @property
+    def field(self) -> str:
+        """The field path the error points at ('' when there is none)."""
+        return getattr(self.error, "field", "") or ""
+
+
+def compute(site: Site, revision: int, presets: Any = None) -> Outcome:
+    """Solve ``site``; every failure the user can fix comes back as ``Outcome.error``."""
+    from branchwise.core import catalogs, fluids, units  # noqa: F401  (loaded, not timed)
+    from branchwise.core.numerics import solve  # noqa: F401
+    from branchwise.core.site.build import build_fluid
+    from branchwise.core.site.solve import solve_site
+
+    units.registry()
+    start = time.perf_counter()
+    fluid = None
+    try:
+        fluid = build_fluid(site, presets)
+        solved = solve_site(site, presets)
+    except BranchwiseError as exc:
+        return Outcome(revision, None, fluid, exc, time.perf_counter() - start)
+    return Outcome(revision, solved, fluid, None, time.perf_counter() - start)
