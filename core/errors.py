@@ -8,11 +8,24 @@ no answer, and states the limit that was hit.
 
 from __future__ import annotations
 
-from typing import Any
+from collections.abc import Sequence
+from typing import Any, Self
 
 
 class BranchwiseError(Exception):
-    """Base of every error meant for the user (the CLI prints it, exit 2)."""
+    """Base of every error meant for the user (the CLI prints it, exit 2).
+
+    ``names``: the branch names of the site the error belongs to, in file order (as typed;
+    set where a site is read, built or solved), so that a boundary without the site can still
+    say a branch's field by the branch's name.
+    """
+
+    names: tuple[object, ...] = ()
+
+    def naming(self, names: Sequence[object]) -> Self:
+        """This error, with the branch names of its site (see :attr:`names`)."""
+        self.names = tuple(names)
+        return self
 
 
 class InputError(BranchwiseError, ValueError):

@@ -105,11 +105,6 @@ class Fluid:
         """m²/s."""
         return self.viscosity / self.density
 
-    @property
-    def is_watery(self) -> bool:
-        """True for water and water-based liquids, where the 3 m/s velocity rule applies."""
-        return self.kind in ("water", "seawater", "ethylene-glycol", "propylene-glycol")
-
 
 @dataclass(frozen=True)
 class Segment:
@@ -266,8 +261,6 @@ class MeasuredFlow:
 
 
 Given = PressureDrop | TotalFlow | MeasuredFlow
-
-UNKNOWNS = ("diameter", "length", "roughness")
 
 
 @dataclass(frozen=True)

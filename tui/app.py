@@ -11,28 +11,29 @@ Heavy modules (numpy, scipy, pint) load in a worker after the first screen is dr
 from __future__ import annotations
 
 import time
-from collections.abc import Callable
+from collections.abc import Callable, Iterable
 from pathlib import Path
 
 _STARTED = time.perf_counter()
 
 from textual import work  # noqa: E402  (the clock above starts before Textual loads)
-from textual.app import App  # noqa: E402
+from textual.app import App, SystemCommand  # noqa: E402
 from textual.binding import Binding  # noqa: E402
 from textual.message import Message  # noqa: E402
 from textual.reactive import reactive  # noqa: E402
 from textual.screen import ModalScreen, Screen  # noqa: E402
+from textual.timer import Timer  # noqa: E402
 from textual.worker import get_current_worker  # noqa: E402
 
 from branchwise.core.site.spec import Site  # noqa: E402
 from branchwise.core.storage.settings import Settings  # noqa: E402
-from branchwise.core.units import display_unit, unit_label  # noqa: E402
+from branchwise.core.units import Units  # noqa: E402
 
 from .files import SiteFiles  # noqa: E402
-from .keys import SCREEN_TITLES, KeyIndex  # noqa: E402
+from .keys import SCREEN_TITLES, key_sections, system_commands  # noqa: E402
 from .screens.split.screen import SplitScreen  # noqa: E402
 from .state.outcome import Outcome  # noqa: E402
-from .state.session import Session, error_text, reason_text, said  # noqa: E402
+from .state.session import Session  # noqa: E402
 from .widgets.bandview import Band  # noqa: E402
 
 KEYS_DELAY = 0.25
@@ -59,7 +60,7 @@ class Solved(Message):
         self.outcome = outcome
 
 
-class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
+class BranchwiseApp(App[None]):
     """Parallel-branch pipe hydraulics for a walkdown, on the keyboard.
 
     site_path: the site file to open; None opens the last site, or the bundled demo the first
@@ -117,7 +118,13 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
         self.latest_band: Band | None = None
         """The last uncertainty band the Split screen worked out (exports use it if current)."""
         self.startup_seconds: float | None = None
-        site, note = self.first_site(Path(site_path) if site_path else None)
+        self._keys_timer: Timer | None = None
+        self._key_state: tuple[object, ...] | None = None
+        self._palette: Screen | None = None
+        self.files = SiteFiles(self)
+        """Open, save, the recovery copy, exports: everything that touches files."""
+        site, note, self._remember_on_start = self.files.first_site(
+            Path(site_path) if site_path else None)
         self.session = Session(site)
         problems = [f"Settings: {p}" for p in self.settings.problems]
         self._note = "\n".join(filter(None, [note, *problems]))
@@ -128,39 +135,50 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
     def site(self) -> Site:
         return self.session.site
 
+    @property
+    def units(self) -> Units:
+        """How this person reads quantities: the unit system and the units chosen per kind."""
+        return Units(self.unit_system, self.settings.display_units)
+
     def unit(self, kind: str) -> str:
         """The unit a ``kind`` of quantity is shown in, and a bare number is read in."""
-        return self.settings.display_units.get(kind) or display_unit(kind, self.unit_system)
+        return self.units.unit(kind)
 
     def unit_text(self, kind: str) -> str:
-        return unit_label(self.unit(kind))
+        return self.units.label(kind)
 
     def say(self, item: object) -> str:
         """A warning's or an error's text, its quantities in the units the person reads."""
-        return said(item, self.unit_system, self.settings.display_units)
+        if not getattr(item, "marked", ""):  # nothing to restate: the units stay unloaded
+            return str(getattr(item, "message", "") or item)
+        return self.units.say(item)
 
     def error_words(self, error: BaseException) -> str:
-        """An error with its field in words (see :func:`~.session.error_text`), in these units."""
-        return error_text(error, self.site, self.unit_system, self.settings.display_units)
+        """An error as the person reads it: the field in words, the reason, in these units."""
+        from branchwise.core.site.fields import error_text
+
+        from .state.givens import needs_value
+
+        retyping = needs_value(error, self.site)
+        if retyping is not None:
+            return retyping
+        return error_text(error, self.units, [b.name for b in self.site.branches])
 
     def reason_words(self, error: BaseException | None) -> str:
-        """An error without its field, for beside the field (see
-        :func:`~.session.reason_text`), in these units."""
-        return reason_text(error, self.unit_system, self.settings.display_units)
+        """An error without its field, for beside the field, in these units."""
+        from branchwise.core.site.fields import reason_text
+
+        return "" if error is None else reason_text(error, self.units)
 
     def fluid_name(self, fluid: object) -> str:
         """The liquid's name, its temperature in the temperature display unit."""
-        from branchwise.core.units import fluid_name
-
-        return fluid_name(fluid, self.unit_system, self.unit("temperature"))
+        return self.units.fluid_name(fluid)
 
     def fmt(self, value_si: float, kind: str, digits: int = 4, unit: bool = True) -> str:
         """``value_si`` in the display unit of ``kind`` (needs the units module warmed up)."""
-        from branchwise.core.units import format_number, format_quantity, to_unit
-
         if not unit:
-            return format_number(to_unit(value_si, kind, self.unit(kind)), digits)
-        return format_quantity(value_si, kind, unit=self.unit(kind), digits=digits)
+            return self.units.number(value_si, kind, digits)
+        return self.units.quantity(value_si, kind, digits)
 
     # ---- start ----------------------------------------------------------------------------------
 
@@ -174,10 +192,10 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
                  "the app module started loading")
         if self._note:
             self.notify(self._note, severity="warning", timeout=8)
-        if getattr(self, "_remember_on_start", False):
+        if self._remember_on_start:
             self.save_settings()  # so that a plain `branchwise` comes back to this site
         self.request_solve()
-        self.offer_recovery()
+        self.files.offer_recovery()
 
     # ---- edits ------------------------------------------------------------------------------
 
@@ -192,7 +210,7 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
         self.dirty = self.session.dirty
         self.sub_title = self._subtitle()
         self.request_solve()
-        self.schedule_recovery()
+        self.files.schedule_recovery()
         self.refresh_keys()
 
     def _subtitle(self) -> str:
@@ -235,9 +253,8 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
     def refresh_keys(self) -> None:
         """Redraw the footer's keys once typing pauses, and only when what is available has
         changed (the footer rebuilds itself on a refresh: too slow for every keystroke)."""
-        timer = getattr(self, "_keys_timer", None)
-        if timer is not None:
-            timer.stop()
+        if self._keys_timer is not None:
+            self._keys_timer.stop()
         self._keys_timer = self.set_timer(KEYS_DELAY, self._refresh_keys_now)
 
     def _refresh_keys_now(self) -> None:
@@ -247,7 +264,7 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
         state = (bool(self.session.undo_stack), bool(self.session.redo_stack),
                  self.session.dirty, self.session.path, outcome is not None and outcome.ok,
                  self.current_mode, len(self.screen_stack))
-        if state != getattr(self, "_key_state", None):
+        if state != self._key_state:
             self._key_state = state
             self.refresh_bindings()
 
@@ -333,7 +350,45 @@ class BranchwiseApp(SiteFiles, KeyIndex, App[None]):
         from .screens.help import HelpScreen
 
         if not isinstance(self.screen, HelpScreen):
-            self.push_screen(HelpScreen(self.key_sections()))
+            self.push_screen(HelpScreen(key_sections(self)))
+
+    # ---- files (see :class:`~.files.SiteFiles`) ------------------------------------------------
+
+    def action_save(self) -> None:
+        self.files.save()
+
+    def action_save_as(self) -> None:
+        self.files.save_as()
+
+    def action_open_sites(self) -> None:
+        self.files.open_sites()
+
+    async def action_quit(self) -> None:
+        self.files.quit()
+
+    def export(self, fmt: str) -> None:
+        """Write the walkdown record (``markdown``) or the CSV (``csv``) of the answer."""
+        self.files.export(fmt)
+
+    # ---- the command palette -------------------------------------------------------------------
+
+    def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
+        """Every action of the present screen and of the app, plus Textual's own."""
+        return system_commands(self, screen)
+
+    def action_command_palette(self) -> None:
+        """Textual's palette, closing once; not a second one while the last one is still
+        being taken down (a burst of Ctrl+P, Esc, Ctrl+P)."""
+        from textual.command import CommandPalette
+
+        from .screens.palette import Palette
+
+        last = self._palette
+        if not self.use_command_palette or CommandPalette.is_open(self) or (
+                last is not None and last.is_attached):
+            return
+        self._palette = Palette(id="--command-palette")
+        self.push_screen(self._palette)
 
     def action_rename(self) -> None:
         from .screens.record import edit_site_details

@@ -271,52 +271,25 @@ def _one_line(text: str) -> str:
     return " ".join(text.split())
 
 
-def _branch_names(args: argparse.Namespace) -> list[object]:
-    """The branch names of the site file being solved (the demo's without a file), read again
-    only to word an error message; [] when the file cannot be read as TOML."""
-    from branchwise.core.site.fields import branch_names
-    from branchwise.core.site.read import demo_text
-
-    if args.command not in ("solve", "open", None):
-        return []
-    site = getattr(args, "site", None)
-    if site is None:
-        return list(branch_names(demo_text()))
-    try:
-        text = Path(site).read_bytes().decode("utf-8").removeprefix("\ufeff")
-    except (OSError, UnicodeDecodeError):
-        return []
-    return list(branch_names(text))
-
-
-def _message(exc: Exception, label: str, names: list[object] | None = None,
-             system: str = "si") -> str:
-    """``<file>: <field>: <reason>, got <value>`` on one line, the file named once.
-
-    A branch's field is put by the branch's name, the path as in the file after it:
-    ``site.toml: branch "AHU-2 coil" length: must not be negative, got -5 m (branches[1].length)``.
-    """
-    from branchwise.core.errors import InputError, NoSolutionError
-    from branchwise.core.site.fields import in_words
-    from branchwise.core.units import reason_and_value, say
+def _message(exc: Exception, label: str, system: str = "si") -> str:
+    """``<file>: <field>: <reason>, got <value>`` on one line, the file named once: the error
+    as the app words it (:func:`~branchwise.core.site.fields.error_text`), then the field's
+    path in the file where the words differ from it: ``site.toml: branch "AHU-2 coil"
+    length: must not be negative, got -5 m (branches[1].length)``."""
+    from branchwise.core.errors import InputError
+    from branchwise.core.site.fields import FieldPath, error_text
 
     if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
         return _one_line(f"{exc.field}: {exc.reason}, got {exc.value}")
-    names = names or []
-    if isinstance(exc, InputError):
-        field, name = exc.field, Path(label).name
-        if field == name or field.startswith(name + " "):  # "demo.toml line 7" → "line 7"
-            field = field[len(name):].strip()
-        words = in_words(field, names)
-        reason, value = reason_and_value(exc, system)
-        text = (f"{words + ': ' if words else ''}{in_words(reason, names)}, got {value}"
-                + (f" ({field})" if words != field else ""))
-    elif isinstance(exc, NoSolutionError) and exc.field:
-        words = in_words(exc.field, names)
-        text = f"{words}: {in_words(say(exc, system), names)}" + (
-            f" ({exc.field})" if words != exc.field else "")
-    else:
-        text = say(exc, system)
+    field, name = getattr(exc, "field", "") or "", Path(label).name
+    if field == name or field.startswith(name + " "):  # "demo.toml line 7" → "line 7"
+        field = field[len(name):].strip()
+        exc = InputError(field, exc.marked_value, exc.marked_reason).naming(  # type: ignore
+            exc.names)  # type: ignore[attr-defined]
+    text = error_text(exc, system)
+    path = FieldPath.parse(field)
+    if field and path.parts and path.words(getattr(exc, "names", ())) != field:
+        text += f" ({field})"
     return _one_line(f"{label}: {text}")
 
 
@@ -345,9 +318,8 @@ def main(argv: list[str] | None = None) -> int:
             return run_presets(args.action, args.kind, args.key, args.values, out)
         return _where(out)
     except BranchwiseError as exc:
-        names = _branch_names(args) if "branches[" in str(exc) else []
         system = getattr(args, "units", "si")
-        print(f"branchwise: {_message(exc, _site_label(args), names, system)}", file=sys.stderr)
+        print(f"branchwise: {_message(exc, _site_label(args), system)}", file=sys.stderr)
         return EXIT_INPUT
     except OSError as exc:
         target = exc.filename if exc.filename is not None else _site_label(args)

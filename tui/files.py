@@ -13,14 +13,14 @@ from datetime import datetime
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from textual import work
+from textual.timer import Timer
 
 from branchwise.core.errors import InputError
 from branchwise.core.site.read import demo_site, load_site, parse_site
 from branchwise.core.site.spec import BranchSpec, ConditionsSpec, FluidSpec, SegmentSpec, Site
 from branchwise.core.storage.paths import recovery_path, sites_dir
 
-from .state.session import shown_path
+from .state.values import shown_path
 
 if TYPE_CHECKING:
     from .app import BranchwiseApp
@@ -46,62 +46,70 @@ def file_name_for(title: str) -> str:
 
 
 class SiteFiles:
-    """Mixed into :class:`~branchwise.tui.app.BranchwiseApp`: everything that touches files."""
+    """Everything the app does with files: the app holds one (``app.files``) and its file
+    actions hand over to it."""
 
-    def first_site(self: BranchwiseApp, path: Path | None) -> tuple[Site, str]:
-        """The site to start on, and a note to show (a file that could not be opened)."""
-        if path is None and self.settings.last_site is not None:
-            path = self.settings.last_site
+    def __init__(self, app: BranchwiseApp) -> None:
+        self.app = app
+        self._recovery_timer: Timer | None = None
+
+    def first_site(self, path: Path | None) -> tuple[Site, str, bool]:
+        """The site to start on, a note to show (a file that could not be opened), and whether
+        the settings should remember it (written once the first screen is drawn)."""
+        settings = self.app.settings
+        if path is None and settings.last_site is not None:
+            path = settings.last_site
             if not path.exists():
-                return demo_site(), f"The last site is gone ({path}): opened the demo."
+                return demo_site(), f"The last site is gone ({path}): opened the demo.", False
         if path is None:
-            return demo_site(), ""
+            return demo_site(), "", False
         try:
             site = load_site(path)
         except InputError as exc:
-            return demo_site(), f"Could not open {path}: {exc}. Opened the demo instead."
-        self.settings.remember_site(path)
-        self._remember_on_start = True  # written once the first screen is drawn
-        return site, ""
+            return demo_site(), f"Could not open {path}: {exc}. Opened the demo instead.", False
+        settings.remember_site(path)
+        return site, "", True
 
     # ---- recovery ---------------------------------------------------------------------------
 
-    def recovery_file(self: BranchwiseApp) -> Path:
-        return recovery_path(self.session.path)
+    def recovery_file(self) -> Path:
+        return recovery_path(self.app.session.path)
 
-    def schedule_recovery(self: BranchwiseApp) -> None:
-        timer = getattr(self, "_recovery_timer", None)
-        if timer is not None:
-            timer.stop()
-        self._recovery_timer = self.set_timer(RECOVERY_DELAY, self.write_recovery)
+    def schedule_recovery(self) -> None:
+        if self._recovery_timer is not None:
+            self._recovery_timer.stop()
+        self._recovery_timer = self.app.set_timer(RECOVERY_DELAY, self.write_recovery)
 
-    def write_recovery(self: BranchwiseApp) -> None:
-        if self.session.dirty:
-            self._write_recovery(self.session.site, self.recovery_file())
+    def write_recovery(self) -> None:
+        if self.app.session.dirty:
+            self._write_recovery(self.app.session.site, self.recovery_file())
 
-    @work(thread=True, exclusive=True, exit_on_error=False, group="recovery")
-    def _write_recovery(self: BranchwiseApp, site: Site, path: Path) -> None:
-        from branchwise.core.site.write import dump_site
-        from branchwise.core.storage.toml_files import atomic_write_text
+    def _write_recovery(self, site: Site, path: Path) -> None:
+        """Write the copy in a thread worker (one at a time: a newer copy replaces an older)."""
+        def write() -> None:
+            from branchwise.core.site.write import dump_site
+            from branchwise.core.storage.atomic import atomic_write_text
 
-        try:
-            atomic_write_text(path, dump_site(site), backup=False)
-        except InputError as exc:
-            self.call_from_thread(self.notify, f"Recovery copy not written: {exc}",
-                                  severity="warning")
+            try:
+                atomic_write_text(path, dump_site(site), backup=False)
+            except InputError as exc:
+                self.app.call_from_thread(self.app.notify, f"Recovery copy not written: {exc}",
+                                          severity="warning")
 
-    def drop_recovery(self: BranchwiseApp, path: Path | None = None) -> None:
-        timer = getattr(self, "_recovery_timer", None)
-        if timer is not None:
-            timer.stop()
+        self.app.run_worker(write, thread=True, exclusive=True, exit_on_error=False,
+                            group="recovery")
+
+    def drop_recovery(self, path: Path | None = None) -> None:
+        if self._recovery_timer is not None:
+            self._recovery_timer.stop()
         target = path or self.recovery_file()
         try:
             target.unlink(missing_ok=True)
         except OSError as exc:
-            self.notify(f"Could not remove the recovery copy {target}: {exc}",
+            self.app.notify(f"Could not remove the recovery copy {target}: {exc}",
                         severity="warning")
 
-    def offer_recovery(self: BranchwiseApp) -> None:
+    def offer_recovery(self) -> None:
         """If a recovery copy of this site is lying about, offer to bring it back."""
         from .screens.dialogs import ChoiceScreen
 
@@ -114,49 +122,50 @@ class SiteFiles:
         try:
             recovered = parse_site(text, path)
         except InputError as exc:
-            self.notify(f"A recovery copy could not be read ({exc}); it is left at {path}.",
+            self.app.notify(f"A recovery copy could not be read ({exc}); it is left at {path}.",
                         severity="warning")
             return
 
         def answer(choice: str | None) -> None:
             if choice == "restore":
-                source = self.session.path
-                recovered.source, recovered.origin = source, self.session.site.origin
-                self.session.replace(recovered)
-                self.session.mark_unsaved()  # restored work is unsaved work
-                self.site_changed()
-                self.notify("Restored the unsaved changes.")
+                source = self.app.session.path
+                recovered.source, recovered.origin = source, self.app.session.site.origin
+                self.app.session.replace(recovered)
+                self.app.session.mark_unsaved()  # restored work is unsaved work
+                self.app.site_changed()
+                self.app.notify("Restored the unsaved changes.")
             elif choice == "discard":
                 self.drop_recovery(path)
 
         question = (f"Unsaved changes to “{recovered.title}” from {when} were kept in a "
                     "recovery copy. Bring them back?")
-        self.push_screen(ChoiceScreen("Recovered work", question,
+        self.app.push_screen(ChoiceScreen("Recovered work", question,
                                       [("r", "restore", "Restore them"),
                                        ("d", "discard", "Discard them"),
                                        ("escape", "later", "Decide later")]), answer)
 
     # ---- save ---------------------------------------------------------------------------------
 
-    def action_save(self: BranchwiseApp) -> None:
-        if self.session.path is None:
-            self.action_save_as()
+    def save(self) -> None:
+        if self.app.session.path is None:
+            self.save_as()
         else:
-            self.save_to(self.session.path)
+            self.save_to(self.app.session.path)
 
-    def action_save_as(self: BranchwiseApp, then: object = None) -> None:
+    def save_as(self, then: object = None) -> None:
         from .screens.dialogs import SaveAsScreen
 
-        folder = self.session.path.parent if self.session.path else sites_dir()
-        name = self.session.path.name if self.session.path else file_name_for(self.site.title)
+        path = self.app.session.path
+        folder = path.parent if path else sites_dir()
+        name = path.name if path else file_name_for(self.app.site.title)
 
         def chosen(path: Path | None) -> None:
             if path is not None:
                 self.save_to(path, then=then)
 
-        self.push_screen(SaveAsScreen(folder, name), chosen)
+        self.app.push_screen(SaveAsScreen(folder, name), chosen)
 
-    def save_to(self: BranchwiseApp, path: Path, overwrite: bool = False,
+    def save_to(self, path: Path, overwrite: bool = False,
                 then: object = None) -> bool:
         """Save the site to ``path``; asks before replacing a file that is not ours."""
         from branchwise.core.site.write import save_site
@@ -164,7 +173,7 @@ class SiteFiles:
         from .screens.dialogs import ChoiceScreen
 
         old_recovery = self.recovery_file()
-        site = self.session.site
+        site = self.app.session.site
         try:
             save_site(site, path, overwrite=overwrite)
         except InputError as exc:
@@ -173,34 +182,35 @@ class SiteFiles:
                     if choice == "replace":
                         self.save_to(path, overwrite=True, then=then)
 
-                self.push_screen(ChoiceScreen("Replace file?", f"{exc}.",
+                self.app.push_screen(ChoiceScreen("Replace file?", f"{exc}.",
                                               [("y", "replace", "Replace it"),
                                                ("escape", "cancel", "Cancel")]), answer)
             else:
-                self.notify(str(exc), title="Not saved", severity="error", timeout=10)
+                self.app.notify(str(exc), title="Not saved", severity="error", timeout=10)
             return False
-        self.session.mark_saved()
+        self.app.session.mark_saved()
         self.drop_recovery(old_recovery)
-        self.settings.remember_site(path)
-        self.save_settings()
-        self.site_changed()
-        self.notify(f"Saved {file_and_folder(path)}", timeout=4)
+        self.app.settings.remember_site(path)
+        self.app.save_settings()
+        self.app.site_changed()
+        self.app.notify(f"Saved {file_and_folder(path)}", timeout=4)
         if callable(then):
             then()
         return True
 
     # ---- open ---------------------------------------------------------------------------------
 
-    def action_open_sites(self: BranchwiseApp) -> None:
+    def open_sites(self) -> None:
         from .screens.sites import SitesScreen
 
         def chosen(choice: Path | str | None) -> None:
             if choice is not None:
                 self.leave_site(lambda: self.open_choice(choice), "opening another site")
 
-        self.push_screen(SitesScreen(self.settings.recent_sites, self.session.path), chosen)
+        self.app.push_screen(SitesScreen(self.app.settings.recent_sites, self.app.session.path),
+                             chosen)
 
-    def open_choice(self: BranchwiseApp, choice: Path | str) -> None:
+    def open_choice(self, choice: Path | str) -> None:
         if choice == "demo":
             site = demo_site()
         elif choice == "new":
@@ -209,74 +219,74 @@ class SiteFiles:
             try:
                 site = load_site(Path(choice))
             except InputError as exc:
-                self.notify(str(exc), title="Not opened", severity="error", timeout=10)
+                self.app.notify(str(exc), title="Not opened", severity="error", timeout=10)
                 return
-            self.settings.remember_site(Path(choice))
-            self.save_settings()
-        self.session.replace(site)
-        self.good = None
-        self.site_changed()
+            self.app.settings.remember_site(Path(choice))
+            self.app.save_settings()
+        self.app.session.replace(site)
+        self.app.good = None
+        self.app.site_changed()
         self.offer_recovery()
 
-    def leave_site(self: BranchwiseApp, go: object, doing: str) -> None:
+    def leave_site(self, go: object, doing: str) -> None:
         """Run ``go`` once the present site's changes are saved or knowingly dropped."""
         from .screens.dialogs import ChoiceScreen
 
-        if not self.session.dirty:
+        if not self.app.session.dirty:
             go()  # type: ignore[operator]
             return
 
         def answer(choice: str | None) -> None:
             if choice == "save":
-                if self.session.path is None:
-                    self.action_save_as(then=go)
+                if self.app.session.path is None:
+                    self.save_as(then=go)
                 else:
-                    self.save_to(self.session.path, then=go)
+                    self.save_to(self.app.session.path, then=go)
             elif choice == "drop":
                 self.drop_recovery()
                 go()  # type: ignore[operator]
 
-        self.push_screen(ChoiceScreen(
-            "Unsaved changes", f"“{self.site.title}” has unsaved changes. Save them before "
+        self.app.push_screen(ChoiceScreen(
+            "Unsaved changes", f"“{self.app.site.title}” has unsaved changes. Save them before "
             f"{doing}?", [("s", "save", "Save"), ("n", "drop", "Don't save"),
                           ("escape", "cancel", "Cancel")]), answer)
 
-    async def action_quit(self: BranchwiseApp) -> None:
-        self.leave_site(self.exit, "quitting")
+    def quit(self) -> None:
+        self.leave_site(self.app.exit, "quitting")
 
     # ---- export -------------------------------------------------------------------------------
 
-    def export(self: BranchwiseApp, fmt: str) -> None:
+    def export(self, fmt: str) -> None:
         """Write the Markdown walkdown record (``markdown``) or the CSV (``csv``) of the
         present results next to the site file (or in the sites folder)."""
         from .screens.dialogs import SaveAsScreen
 
-        outcome = self.outcome
+        outcome = self.app.outcome
         if outcome is None or not outcome.ok:
-            self.notify("Nothing to export: the site does not solve yet.", severity="warning")
+            self.app.notify("Nothing to export: the site does not solve yet.", severity="warning")
             return
-        folder = self.session.path.parent if self.session.path else sites_dir()
-        stem = Path(file_name_for(self.site.title)).stem
+        folder = self.app.session.path.parent if self.app.session.path else sites_dir()
+        stem = Path(file_name_for(self.app.site.title)).stem
         suffix = ".md" if fmt == "markdown" else ".csv"
         name = _free(folder / f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}").name
-        solved, system = outcome.solved, self.unit_system
-        band = getattr(self, "latest_band", None)
+        solved, system = outcome.solved, self.app.unit_system
+        band = self.app.latest_band
         with_band = (band is not None and band.solved is not None
-                     and band.revision == self.session.revision)
+                     and band.revision == self.app.session.revision)
         if with_band:
             solved = band.solved  # the same answer, with its P5–P95 band
 
         # The answer is the site's as it is now: with edits not yet saved, the file alone
         # would not give it back, and the record says so.
-        unsaved = self.session.dirty
-        saved_at = self.session.path
+        unsaved = self.app.session.dirty
+        saved_at = self.app.session.path
 
         def chosen(path: Path | None) -> None:
             if path is None:
                 return
             from branchwise.core.report.csv_report import to_csv
             from branchwise.core.report.markdown import to_markdown
-            from branchwise.core.storage.toml_files import atomic_write_text
+            from branchwise.core.storage.atomic import atomic_write_text
 
             source = None if saved_at is None else str(saved_at)
             text = (to_markdown(solved, system, source=source,
@@ -286,17 +296,17 @@ class SiteFiles:
             try:
                 atomic_write_text(path, text)
             except InputError as exc:
-                self.notify(str(exc), title="Not written", severity="error", timeout=10)
+                self.app.notify(str(exc), title="Not written", severity="error", timeout=10)
                 return
             extra = "\nwith the P5–P95 band" if with_band else ""
             if unsaved:
                 extra += "\nfrom the site with unsaved changes (Ctrl+S saves them)"
             if path != wanted:
                 extra += f"\n({wanted.name} exists and was kept)"
-            self.notify(f"Wrote {file_and_folder(path)}{extra}", timeout=5)
+            self.app.notify(f"Wrote {file_and_folder(path)}{extra}", timeout=5)
 
         title = "Walkdown record (Markdown)" if fmt == "markdown" else "Results (CSV)"
-        self.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix), chosen)
+        self.app.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix), chosen)
 
 
 def file_and_folder(path: Path) -> str:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..fluids import liquid
 from ..messages import flow_text, velocity_text
 from ..model import Network
 from .friction import RE_LAMINAR, RE_TURBULENT
@@ -36,7 +37,7 @@ def collect_warnings(
         "laminar": flowing & (regimes == "laminar"),
         "transition": flowing & (regimes == "transition"),
         "roughness-range": flowing & (rr > ROUGHNESS_RANGE) & (not hw),
-        "velocity-high": flowing & (speed > net.velocity_limit) & net.fluid.is_watery,
+        "velocity-high": flowing & (speed > net.velocity_limit) & _water_based(net),
         "hazen-williams-range": flowing & hw & (
             (regimes != "turbulent") | (net.fluid.kind not in ("water", "seawater"))),
     }
@@ -68,6 +69,12 @@ def _detail(code: str, net: Network, a: Arrays, rr: np.ndarray, s: int) -> str:
                 f"{velocity_text(net.velocity_limit)} "
                 "(common practice for water lines: expect noise and erosion)")
     return "Hazen–Williams is meant for water in turbulent flow; use a Darcy model here"
+
+
+def _water_based(net: Network) -> bool:
+    """Whether the liquid is water or a water solution (the velocity rule of thumb is theirs)."""
+    kind = liquid(net.fluid.kind)
+    return kind is not None and kind.water_based
 
 
 def _segment_numbers(net: Network) -> list[int]:

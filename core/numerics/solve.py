@@ -20,11 +20,11 @@ from dataclasses import replace
 import numpy as np
 
 from ..errors import InputError, NoSolutionError
+from ..finds import UNKNOWNS
 from ..messages import flow_text, head_text
 from ..model import (
     MAX_FLOW,
     MIN_FLOW,
-    UNKNOWNS,
     Find,
     FindFlows,
     FindUnknown,

@@ -1,6 +1,6 @@
 """What is known about the inputs of a survey: ± limits, and how the liquid moves with temperature.
 
-The limits are read by :mod:`branchwise.core.numerics.uncertainty`, which turns each into a distribution
+The limits are read by :mod:`.uncertainty`, which turns each into a distribution
 (rectangular by the GUM, JCGM 100:2008, 4.3.7, when nothing more is known about it).
 """
 
@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, fields
 
 from ..errors import InputError
 from ..model import Fluid, positive
@@ -37,22 +37,27 @@ class Tolerances:
     valve_kv_percent: ± % of every valve's Kv or Cv (common practice: 10 — makers' published
     flow coefficients carry about that much, from memory; a balancing valve read off its
     setting chart can be worse).
+
+    Each field's ``key`` (its metadata; :func:`path_of`) is the key of a site file's
+    ``[tolerances]`` table that sets it, and names it in errors: ``tolerances.gauge_accuracy``.
     """
 
-    gauge_percent: float = 1.0
-    gauge_full_scale: float | None = None
-    flow_meter_percent: float = 3.0
-    target_flow_measured: bool = True
-    roughness_factor: tuple[float, float] = (0.5, 2.0)
-    roughness_m: Mapping[str, tuple[float, float]] = field(default_factory=dict)
-    diameter_percent: float = 1.0
-    length_percent: float = 5.0
-    temperature_k: float = 2.0
-    fitting_k_percent: float = 25.0
-    valve_kv_percent: float = 10.0
+    gauge_percent: float = field(default=1.0, metadata={"key": "gauge_accuracy"})
+    gauge_full_scale: float | None = field(default=None, metadata={"key": "gauge_full_scale"})
+    flow_meter_percent: float = field(default=3.0, metadata={"key": "flow_meter_accuracy"})
+    target_flow_measured: bool = field(default=True, metadata={"key": "target_flow_measured"})
+    roughness_factor: tuple[float, float] = field(default=(0.5, 2.0),
+                                                  metadata={"key": "roughness_factor"})
+    roughness_m: Mapping[str, tuple[float, float]] = field(default_factory=dict,
+                                                           metadata={"key": "roughness_range"})
+    diameter_percent: float = field(default=1.0, metadata={"key": "diameter"})
+    length_percent: float = field(default=5.0, metadata={"key": "length"})
+    temperature_k: float = field(default=2.0, metadata={"key": "temperature"})
+    fitting_k_percent: float = field(default=25.0, metadata={"key": "fitting_k"})
+    valve_kv_percent: float = field(default=10.0, metadata={"key": "valve_kv"})
 
     def validate(self) -> None:
-        """InputError (field ``uncertainty.<name>``) for a value that cannot be a tolerance."""
+        """InputError (on ``tolerances.<key>``) for a value that cannot be a tolerance."""
         for name in ("gauge_percent", "temperature_k"):
             _limit(name, getattr(self, name), None)
         for name in ("flow_meter_percent", "diameter_percent", "length_percent"):
@@ -60,18 +65,26 @@ class Tolerances:
         _limit("fitting_k_percent", self.fitting_k_percent, 100.0)
         _limit("valve_kv_percent", self.valve_kv_percent, 100.0, closed=False)
         if self.gauge_full_scale is not None:
-            positive("uncertainty.gauge_full_scale", self.gauge_full_scale)
-        _range("uncertainty.roughness_factor", self.roughness_factor)
+            positive(path_of("gauge_full_scale"), self.gauge_full_scale)
+        _range(path_of("roughness_factor"), self.roughness_factor)
         for name, pair in self.roughness_m.items():
-            _range(f"uncertainty.roughness_m[{name!r}]", pair)
+            _range(path_of("roughness_m", name), pair)
+
+
+def path_of(name: str, branch: str | None = None) -> str:
+    """The field path of :class:`Tolerances` field ``name``: the site file's key that sets it,
+    ``tolerances.gauge_accuracy``; for ``roughness_m``, the branch's entry,
+    ``tolerances.roughness_range."Bypass"``."""
+    key = _KEYS[name]
+    return f"tolerances.{key}" + (f'."{branch}"' if branch is not None else "")
 
 
 def _limit(name: str, value: float, upper: float | None, closed: bool = True) -> None:
     number = float(value) if isinstance(value, int | float) else math.nan
     if not (math.isfinite(number) and number >= 0):
-        raise InputError(f"uncertainty.{name}", value, "must be a number not below zero")
+        raise InputError(path_of(name), value, "must be a number not below zero")
     if upper is not None and (number > upper or (not closed and number == upper)):
-        raise InputError(f"uncertainty.{name}", value,
+        raise InputError(path_of(name), value,
                          f"must be {'at most' if closed else 'below'} {upper:g}")
 
 
@@ -105,3 +118,6 @@ class Thermal:
             math.log(hot.kinematic_viscosity / cold.kinematic_viscosity) / (2 * step),
             math.log(hot.density / cold.density) / (2 * step),
         )
+
+
+_KEYS = {f.name: f.metadata["key"] for f in fields(Tolerances)}

@@ -6,7 +6,7 @@ u = a/√3 for half-width a. Roughness is known only to a factor, so it is unifo
 (log-uniform) and its half-width is taken in ln ε.
 
 * Monte Carlo (the method of JCGM 101:2008, GUM Supplement 1): draw every input, solve all the
-  drawn networks in one vectorised call (:func:`branchwise.core.numerics.variants.solve_copies`), and read
+  drawn networks in one vectorised call (:func:`.copies.solve_copies`), and read
   P5, P50 and P95 of every output.
 * Linear estimate (JCGM 100:2008, 5.1.2, law of propagation of uncertainty, uncorrelated inputs):
   u_c²(y) = Σ c_i² u²(x_i), with c_i = ∂y/∂x_i from central differences at ±δ around the centre
@@ -37,8 +37,19 @@ from .copies import solve_copies
 from .hydraulics import Array, Layout
 from .results import Result
 from .solve import solve
-from .tolerances import Thermal, Tolerances
+from .tolerances import Thermal, Tolerances, path_of
 from .variants import Variants
+
+PRESSURE_DROP = "pressure drop"
+TOTAL_FLOW = "total flow"
+"""The names of the bands of the pressure drop and the total flow (each branch's flow is
+:func:`branch_flow`; a found unknown's is :attr:`SamplingPlan.found_name`)."""
+
+
+def branch_flow(name: str) -> str:
+    """The name of the band of branch ``name``'s flow: ``branch 'AHU-3 coil' flow``."""
+    return f"branch '{name}' flow"
+
 
 SQRT3 = math.sqrt(3.0)
 STEP = 1e-4
@@ -93,7 +104,7 @@ class SamplingPlan:
         return f"branch '{br.name}'{seg} {want.quantity} (found)"
 
     def unit_of(self, output: str) -> str:
-        return {"pressure drop": "Pa", self.found_name: "m"}.get(output, "m³/s")
+        return {PRESSURE_DROP: "Pa", self.found_name: "m"}.get(output, "m³/s")
 
     def variants(self, z: Array) -> Variants:
         """The networks that the rows of ``z`` stand for, as arrays."""
@@ -131,18 +142,18 @@ class SamplingPlan:
     def evaluate(self, z: Array) -> tuple[dict[str, Array], bool]:
         """Every output for every row of ``z`` (NaN where no answer), and whether all converged."""
         sol = solve_copies(self.network, self.given, self.find, self.variants(z))
-        out = {f"branch '{b.name}' flow": sol.flows[:, i]
+        out = {branch_flow(b.name): sol.flows[:, i]
                for i, b in enumerate(self.network.branches)}
-        out |= {"total flow": sol.total_flow, "pressure drop": sol.pressure_drop}
+        out |= {TOTAL_FLOW: sol.total_flow, PRESSURE_DROP: sol.pressure_drop}
         if self.found_name is not None and sol.found is not None:
             out[self.found_name] = sol.found
         return out, sol.converged
 
     def outputs_of(self, result: Result) -> dict[str, float]:
         """The same outputs from a deterministic :func:`solve` result."""
-        out = {f"branch '{b.name}' flow": float(q)
+        out = {branch_flow(b.name): float(q)
                for b, q in zip(self.network.branches, result.flows, strict=True)}
-        out |= {"total flow": result.total_flow, "pressure drop": result.pressure_drop}
+        out |= {TOTAL_FLOW: result.total_flow, PRESSURE_DROP: result.pressure_drop}
         if self.found_name is not None and result.solved is not None:
             out[self.found_name] = result.solved.value
         return out
@@ -181,7 +192,7 @@ def build_plan(
                      "temperature was given")
     elif thermal is not None:
         inputs.append(InputTolerance("temperature", "temperature", float(tol.temperature_k)))
-    explicit = {network.index_of(k, "uncertainty.roughness_m"): v
+    explicit = {network.index_of(k, path_of("roughness_m", k)): v
                 for k, v in tol.roughness_m.items()}
     base = Layout.from_network(network)
     sought = int(np.flatnonzero(base.seg_branch == x)[want.segment]) if want is not None else -1
@@ -200,8 +211,8 @@ def build_plan(
             top = high if b in explicit else high * base.roughness[list(rough)].max()
             narrowest = base.diameter[segs].min() * (1 - tol.diameter_percent / 100)
             if top >= narrowest / 2:
-                path = f"uncertainty.roughness_m[{br.name!r}]" if b in explicit else (
-                    "uncertainty.roughness_factor")
+                path = (path_of("roughness_m", br.name) if b in explicit
+                        else path_of("roughness_factor"))
                 raise InputError(path, (low, high), f"reaches half the narrowest diameter of "
                                  f"branch '{br.name}' ({narrowest / 2:g} m)")
             centre, half = (math.log(low) + math.log(high)) / 2, math.log(high / low) / 2

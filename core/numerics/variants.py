@@ -97,7 +97,7 @@ class Variants:
     def as_model(
         self, network: Network, given: Given, find: Find, copy: int = 0
     ) -> tuple[Network, Given, Find]:
-        """Copy ``copy`` as plain model objects (for :func:`branchwise.core.numerics.solve.solve`)."""
+        """Copy ``copy`` as plain model objects (for :func:`.solve.solve`)."""
         k, branches = 0, []
         for br in network.branches:
             segs = []

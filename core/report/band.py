@@ -58,7 +58,9 @@ def focus(sr: SiteResult) -> str | None:
     return "pressure drop" if isinstance(sr.built.given, TotalFlow) else "total flow"
 
 
-def band_range(sr: SiteResult, output: str, reader: Units | str = "si") -> tuple[float, float] | None:
+def band_range(
+    sr: SiteResult, output: str, reader: Units | str = "si"
+) -> tuple[float, float] | None:
     """(P5, P95) of ``output`` in the reader's unit, or None without bands."""
     u = sr.uncertainty
     if u is None or output not in u.outputs:

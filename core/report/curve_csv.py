@@ -23,7 +23,8 @@ def to_csv(curve: SystemCurve, reader: Units | str = "si") -> str:
                     + [f"Flow {name} ({flow})" for name in curve.branch_names]
                     + ["Operating point"])
     for i, total in enumerate(curve.total_flow):
-        numbers = [u.value(float(total), "flow"), u.value(float(curve.pressure_drop[i]), "pressure"),
+        numbers = [u.value(float(total), "flow"),
+                   u.value(float(curve.pressure_drop[i]), "pressure"),
                    u.value(float(curve.driving_head[i]), "head"),
                    *(u.value(float(q), "flow") for q in curve.branch_flows[i])]
         writer.writerow([f"{a:.10g}" for a in numbers] + [int(i == curve.operating_index)])

@@ -45,7 +45,8 @@ def _given_json(sr: SiteResult) -> dict[str, Any]:
 
 def _readings_json(sr: SiteResult) -> list[dict[str, Any]]:
     return [{"quantity": c.kind, "branch": c.branch, "value_si": c.read, "solved_si": c.solved,
-             "difference": c.difference, "within_band": c.within} for c in compare(sr)]
+             "difference": c.difference, "within_band": c.within}
+            for c in compare(sr.site, sr.result, sr.uncertainty)]
 
 
 def _solved_json(sr: SiteResult) -> dict[str, Any] | None:

@@ -95,11 +95,12 @@ def reading_line(c: Comparison, reader: Units | str = "si", short: bool = False)
 
 def readings_lines(sr: SiteResult, reader: Units | str = "si", short: bool = False) -> list[str]:
     """Each reading kept beside the given one, against what the solve makes of it."""
-    return [reading_line(c, reader, short) for c in compare(sr)]
+    return [reading_line(c, reader, short) for c in compare(sr.site, sr.result, sr.uncertainty)]
 
 
-def solved_lines(sr: SiteResult, reader: Units | str = "si") -> list[str]:
-    """The found unknown and, for a catalog pipe, the size to buy and what it carries."""
+def solved_lines(sr: SiteResult, reader: Units | str = "si", short: bool = False) -> list[str]:
+    """The found unknown and, for a catalog pipe, the size to buy and what it carries; ``short``:
+    the catalog line without what is held (for a screen's two lines)."""
     u = units_for(reader)
     s = sr.result.solved
     if s is None:
@@ -109,7 +110,12 @@ def solved_lines(sr: SiteResult, reader: Units | str = "si") -> list[str]:
     lines = [f"{s.quantity.capitalize()} of '{s.branch}'{seg} to carry "
              f"{u.quantity(s.target_flow, 'flow')}: {u.quantity(s.value, kind)}"
              f"{_against_table(sr, u)}"]
-    if sr.catalog is not None:
+    if sr.catalog is not None and short:
+        c = sr.catalog
+        lines.append(f"→ catalog size {c.size.label} (bore "
+                     f"{u.quantity(c.size.inner_diameter_m, 'diameter')}) carries "
+                     f"{u.quantity(c.flow, 'flow')}")
+    elif sr.catalog is not None:
         c = sr.catalog
         lines.append(
             f"Smallest catalog size at least that large: {c.size.label} "

@@ -8,11 +8,12 @@ and checks it, naming the field as it appears in the file (``branches[1].length`
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
+from ..finds import FINDS
+from ..givens import GIVENS, make_given
 from ..messages import marked
 from ..model import (
     FRICTION_MODELS,
@@ -22,13 +23,11 @@ from ..model import (
     FindFlows,
     FindUnknown,
     Given,
-    MeasuredFlow,
     Network,
-    PressureDrop,
     Segment,
-    TotalFlow,
 )
 from ..units import parse_quantity
+from .fields import FieldPath
 from .liquid import build_fluid
 from .readings import chosen
 from .spec import BranchSpec, SegmentSpec, Site
@@ -40,7 +39,6 @@ if TYPE_CHECKING:
     from ..storage.presets import PresetSource
 
 CONDITIONS = ("new", "aged")
-FINDS = ("flows", "diameter", "length", "roughness")
 
 
 @dataclass(frozen=True)
@@ -163,13 +161,9 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
 def _given(site: Site, names: list[str]) -> Given:
     """The given condition from the reading :func:`.readings.chosen` picks (SI)."""
     reading, _ = chosen(site)
-    path, value = reading.path, reading.value
-    if reading.kind == "pressure_drop":
-        return PressureDrop(parse_quantity(value, "pressure", path))
-    flow = parse_quantity(value, "flow", path)
-    if reading.kind == "total_flow":
-        return TotalFlow(flow)
-    return MeasuredFlow(names[reading.branch], flow)  # type: ignore[index]
+    kind = GIVENS[reading.kind]
+    value = parse_quantity(reading.value, kind.quantity, reading.path)
+    return make_given(kind.key, value, None if reading.branch is None else names[reading.branch])
 
 
 def _find(site: Site, network: Network) -> Find:
@@ -201,11 +195,19 @@ def _find(site: Site, network: Network) -> Find:
 
 
 def build(site: Site, presets: PresetSource | None = None) -> Built:
-    """The core objects for ``site``; every bad value is an InputError naming its field.
+    """The core objects for ``site``; every bad value is an InputError naming its field (and
+    carrying the site's branch names, :attr:`InputError.names`).
 
     presets: where a fluid kind that is not built in is looked up (default: the user's
     :class:`~branchwise.core.storage.presets.PresetStore`, read only when needed).
     """
+    try:
+        return _build(site, presets)
+    except InputError as exc:
+        raise exc.naming([b.name for b in site.branches]) from None
+
+
+def _build(site: Site, presets: PresetSource | None) -> Built:
     fluid = build_fluid(site, presets)
     if not site.branches:
         raise InputError("branches", "nothing", "a site needs at least one [[branches]] table")
@@ -239,7 +241,7 @@ def build(site: Site, presets: PresetSource | None = None) -> Built:
             3.0 if limit is None else limit,
         )
     except InputError as exc:  # the model names segments[0] even of a one-pipe branch
-        raise _site_path(exc, site) from None
+        raise _as_written(exc, site) from None
     given = _given(site, [b.name for b in branches])
     find = _find(site, network)
     notes = []
@@ -257,9 +259,12 @@ def build(site: Site, presets: PresetSource | None = None) -> Built:
                  tolerances)
 
 
-def _site_path(exc: InputError, site: Site) -> InputError:
-    """``exc`` with a model path (``branches[1].segments[0].hw_c``) as the file names it."""
-    m = re.match(r"branches\[(\d+)\]\.segments\[0\]\.(.*)", exc.field)
-    if m and len(site.branches[int(m[1])].segments) == 1:
-        return InputError(f"branches[{m[1]}].{m[2]}", exc.marked_value, exc.marked_reason)
-    return exc
+def _as_written(exc: InputError, site: Site) -> InputError:
+    """``exc`` with a model path (``branches[1].segments[0].hw_c``) as the file writes it."""
+    path = FieldPath.parse(exc.field)
+    i = path.branch
+    if i is None or i >= len(site.branches):
+        return exc
+    written = path.as_written(len(site.branches[i].segments))
+    return exc if written is path else InputError(str(written), exc.marked_value,
+                                                  exc.marked_reason)

@@ -1,54 +1,156 @@
-"""A site file's field paths in the words of someone reading the file: branches by name.
+"""The one field path of a site: parsed, located, and put in words.
 
-Errors keep their field path (``branches[1].length``: the app finds the widget by it); the
-command line puts the branch's name in front of it so that a technician with the file open
-reads ``branch "AHU-2 coil" length`` rather than counting tables from zero.
+Every error names the field it is about by its path in the site file — ``fluid.temperature``,
+``branches[1].length``, ``branches[3].segments[0].size``, ``tolerances.roughness_range."Bypass"``
+— so that the app can find the field on screen and the command line can point into the file.
+:class:`FieldPath` reads such a path once; :meth:`FieldPath.words` says it the way a technician
+with the file open would (``branch "AHU-2 coil" length``), the same in the app and the command
+line.
 """
 
 from __future__ import annotations
 
 import re
-from collections.abc import Mapping, Sequence
+from collections.abc import Sequence
+from dataclasses import dataclass
 
-from ..errors import describe
+from ..errors import BranchwiseError, InputError, describe
+from ..units import Units, reason_and_value, units_for
 from .spec import Value
 
-_BRANCH_REF = re.compile(r"branches\[(\d+)\](?:\.segments\[(\d+)\])?(\.[^\s,;:()]+)?")
-"""A branch's field path inside a message: ``branches[1].length``,
-``branches[3].segments[0].size``."""
+_PART = re.compile(r'(?:"((?:[^"\\]|\\.)*)"|([A-Za-z0-9_-]+))(?:\[(\d+)\])?')
+AREAS = ("fluid", "conditions", "solve", "tolerances", "record", "branches")
+"""The parts of a site a path can point into (anything else points at the site itself)."""
 
 
-def branch_names(text: str) -> list[Value]:
-    """The ``name`` of each ``[[branches]]`` table of the site file text ``text``, as typed
-    (None where a table has none); [] when the text is not TOML or has no branch list. Used to
-    put an error's field path in the branch's own name."""
-    import tomllib
+@dataclass(frozen=True)
+class FieldPath:
+    """A field of a site file, parsed from its path text.
 
-    try:
-        doc = tomllib.loads(text)
-    except tomllib.TOMLDecodeError:
-        return []
-    tables = doc.get("branches")
-    if not isinstance(tables, list):
-        return []
-    return [t.get("name") if isinstance(t, Mapping) else None for t in tables]
+    parts: (name, index) pairs, ``branches[2].length`` → (("branches", 2), ("length", None));
+    a quoted part keeps its text as the name. A text that is no site path (a file name and
+    line, ``demo.toml line 7``) keeps no parts and points at the site as a whole.
+    """
+
+    text: str
+    parts: tuple[tuple[str, int | None], ...]
+
+    @classmethod
+    def parse(cls, text: str) -> FieldPath:
+        """The path ``text`` (what :attr:`InputError.field` holds)."""
+        parts: list[tuple[str, int | None]] = []
+        pos = 0
+        while pos < len(text):
+            m = _PART.match(text, pos)
+            if m is None:
+                return cls(text, ())
+            name = m[2] if m[2] is not None else m[1]
+            parts.append((name, int(m[3]) if m[3] is not None else None))
+            pos = m.end()
+            if pos < len(text):
+                if text[pos] != ".":
+                    return cls(text, ())
+                pos += 1
+        return cls(text, tuple(parts))
+
+    def __str__(self) -> str:
+        return self.text
+
+    @property
+    def area(self) -> str:
+        """Which part of the site: one of :data:`AREAS`, or ``site`` (its name, notes, or the
+        file as a whole)."""
+        if self.parts and self.parts[0][0] in AREAS:
+            return self.parts[0][0]
+        return "site"
+
+    @property
+    def branch(self) -> int | None:
+        """The branch's index for a path under ``branches[i]``."""
+        if self.area == "branches" and self.parts:
+            return self.parts[0][1]
+        return None
+
+    @property
+    def segment(self) -> int | None:
+        """The segment's index for a path under ``branches[i].segments[j]``."""
+        return next((i for n, i in self.parts[1:] if n == "segments"), None)
+
+    @property
+    def name(self) -> str:
+        """The field's own name: ``length``, ``temperature``, ``fittings`` ('' for a whole
+        branch or area)."""
+        if len(self.parts) < 2:
+            return "" if self.area != "site" or not self.parts else self.parts[0][0]
+        rest = [n for n, _ in self.parts[1:] if n != "segments"]
+        return rest[0] if rest else ""
+
+    @property
+    def key(self) -> str | None:
+        """The key inside the field, where it has one: the fitting of ``fittings.elbow-90``,
+        the branch of ``tolerances.roughness_range."Bypass"``."""
+        rest = [n for n, _ in self.parts[1:] if n != "segments"]
+        return rest[1] if len(rest) > 1 else None
+
+    def as_written(self, segments: int) -> FieldPath:
+        """The path as the site file writes it: a branch of one pipe (``segments`` == 1) keeps
+        its pipe keys at the top, so ``branches[1].segments[0].hw_c`` is ``branches[1].hw_c``."""
+        if self.segment == 0 and segments == 1:
+            text = re.sub(r"^(branches\[\d+\])\.segments\[0\]", r"\1", self.text)
+            return FieldPath.parse(text)
+        return self
+
+    def words(self, names: Sequence[Value] = ()) -> str:
+        """The path as a technician with the file open would say it: a branch's field by the
+        branch's name, ``branch "AHU-2 coil" length``, ``branch "Bypass" segment 1 size``
+        (segments count from 1, as ``solve.segment`` does); any other field as the file writes
+        it (``fluid.temperature``). ``names``: the branches' names in file order; a branch with
+        no usable name is called by its place."""
+        i = self.branch
+        if i is None:
+            return self.text
+        typed = names[i] if i < len(names) else None
+        who = (f'branch "{describe(typed.strip(), 40)}"'
+               if isinstance(typed, str) and typed.strip() else f"branch {i + 1} (no name)")
+        seg = f" segment {self.segment + 1}" if self.segment is not None else ""
+        rest = ".".join(n if k is None else f"{n}[{k}]" for n, k in self.parts[1:]
+                        if n != "segments")
+        return f"{who}{seg}{' ' + rest if rest else ''}"
+
+
+_BRANCH_REF = re.compile(r"branches\[\d+\](?:\.segments\[\d+\])?(?:\.[A-Za-z0-9_-]+)*")
+"""A branch's field path inside message text."""
 
 
 def in_words(text: str, names: Sequence[Value]) -> str:
-    """``text`` with every branch field path put by the branch's name, as a technician reading
-    the file would say it: ``branches[1].length`` → ``branch "AHU-2 coil" length``,
-    ``branches[3].segments[0].size`` → ``branch "Bypass" segment 1 size`` (segments count
-    from 1, as ``solve.segment`` does). ``names``: the branches' names in file order; a branch
-    with no usable name is called by its place, ``branch 2 (no name)``."""
+    """``text`` with every branch field path in it put in words (see :meth:`FieldPath.words`):
+    a reason may name another field (``duplicates branches[0].name``)."""
+    return _BRANCH_REF.sub(lambda m: FieldPath.parse(m[0]).words(names), text)
 
-    def words(m: re.Match[str]) -> str:
-        i = int(m[1])
-        name = names[i] if i < len(names) else None
-        if isinstance(name, str) and name.strip():
-            who = f'branch "{describe(name.strip(), 40)}"'
-        else:
-            who = f"branch {i + 1} (no name)"
-        seg = f" segment {int(m[2]) + 1}" if m[2] is not None else ""
-        return who + seg + (f" {m[3][1:]}" if m[3] else "")
 
-    return _BRANCH_REF.sub(words, text)
+def reason_text(error: BaseException, reader: Units | str = "si") -> str:
+    """An error without its field, as shown beside that field: ``reason, got value``, the
+    quantities the core marked in either stated in the reader's units. An error with no
+    reason (a no-solution error) is said whole."""
+    u = units_for(reader)
+    if not isinstance(error, InputError):
+        return u.say(error)
+    reason, value = reason_and_value(error, u.system, u.chosen)
+    return reason + (f", got {value}" if value not in ("", None) else "")
+
+
+def error_text(error: BaseException, reader: Units | str = "si",
+               names: Sequence[Value] | None = None) -> str:
+    """An error for a person, worded the same in the app and on the command line: the field
+    in words (:meth:`FieldPath.words`), then the reason: ``branch "AHU-2 coil" length: must
+    not be negative, got -180 ft``. ``names``: the site's branch names (default: those the
+    error carries, :attr:`~branchwise.core.errors.BranchwiseError.names`)."""
+    names = error.names if names is None and isinstance(error, BranchwiseError) else names
+    field = getattr(error, "field", "") or ""
+    reason = in_words(reason_text(error, reader), names or ())
+    if not field:
+        return reason
+    return f"{FieldPath.parse(field).words(names or ())}: {reason}"
+
+
+__all__ = ["AREAS", "FieldPath", "error_text", "in_words", "reason_text"]

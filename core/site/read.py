@@ -150,7 +150,24 @@ def _tolerances(table: Mapping[str, Any]) -> TolerancesSpec:
 
 
 def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
-    """A :class:`Site` from a parsed, migrated TOML document. Checks shape, not values."""
+    """A :class:`Site` from a parsed, migrated TOML document. Checks shape, not values; an
+    error carries the names of the file's branches (:attr:`InputError.names`)."""
+    try:
+        return _site(doc, source)
+    except InputError as exc:
+        raise exc.naming(_branch_names(doc)) from None
+
+
+def _branch_names(doc: Mapping[str, Any]) -> list[Value]:
+    """The ``name`` of each ``[[branches]]`` table as typed (None where a table has none)."""
+    tables = doc.get("branches")
+    if not isinstance(tables, list):
+        return []
+    return [t.get("name") if isinstance(t, Mapping) and isinstance(t.get("name"), str)
+            else None for t in tables]
+
+
+def _site(doc: Mapping[str, Any], source: Path | None) -> Site:
     _known(doc, TOP_KEYS, "")
     site = Site(source=source)
     site.name = _scalar(doc.get("name", ""), "name")

@@ -11,11 +11,17 @@ The others are kept for the record and compared with what the solve makes of the
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from ..errors import InputError, describe
+from ..givens import GIVENS, HEADER_READINGS
+from ..units import parse_quantity
 from .spec import Site, Value
 
-CONDITION_READINGS = ("pressure_drop", "total_flow")
+if TYPE_CHECKING:  # the solve's own modules load with numpy, after the app's first screen
+    from ..numerics.results import Result
+    from ..numerics.uncertainty import UncertaintyResult
+
 
 
 @dataclass(frozen=True)
@@ -32,7 +38,7 @@ class Reading:
 def readings(site: Site) -> list[Reading]:
     """Every reading the site holds, in the file's order."""
     out = [Reading(k, None, f"conditions.{k}", getattr(site.conditions, k))
-           for k in CONDITION_READINGS if getattr(site.conditions, k) is not None]
+           for k in HEADER_READINGS if getattr(site.conditions, k) is not None]
     out += [Reading("measured_flow", i, f"branches[{i}].measured_flow", b.measured_flow)
             for i, b in enumerate(site.branches) if b.measured_flow is not None]
     return out
@@ -71,7 +77,7 @@ def chosen(site: Site) -> tuple[Reading, list[Reading]]:
     if key == "measured_flow" and len(measured) == 1:
         return measured[0], [o for o in held if o is not measured[0]]
     what = ("that branch has no measured_flow" if key in names else
-            "the site holds no such reading" if key in (*CONDITION_READINGS, "measured_flow")
+            "the site holds no such reading" if key in GIVENS
             else "must be pressure_drop, total_flow or the name of a branch with a "
                  "measured_flow")
     raise InputError("conditions.given", describe(given), what)
@@ -95,31 +101,32 @@ class Comparison:
         return (self.solved - self.read) / self.read if self.read else float("nan")
 
 
-def compare(sr: object) -> list[Comparison]:
-    """Each reading kept beside the given one, against the solve of ``sr`` (a SiteResult).
+def compare(site: Site, result: Result, band: UncertaintyResult | None = None
+            ) -> list[Comparison]:
+    """Each reading kept beside the given one, against what ``result`` (the solve of ``site``)
+    makes of it, and whether it lies inside ``band``'s P5–P95 of that output.
 
     A reading that cannot be read (a bad unit) is left out: the site's own check reports it
     when that reading is made the given one.
     """
-    from ..units import parse_quantity
+    from ..numerics.uncertainty import PRESSURE_DROP, TOTAL_FLOW, branch_flow
 
-    site, result = sr.site, sr.result  # type: ignore[attr-defined]
-    band = sr.uncertainty  # type: ignore[attr-defined]
     _, others = chosen(site)
     out = []
     for r in others:
-        quantity = "pressure" if r.kind == "pressure_drop" else "flow"
+        kind = GIVENS[r.kind]
         try:
-            read = parse_quantity(r.value, quantity, r.path)
+            read = parse_quantity(r.value, kind.quantity, r.path)
         except InputError:
             continue
-        if r.kind == "pressure_drop":
-            solved, output, name = result.pressure_drop, "pressure drop", None
-        elif r.kind == "total_flow":
-            solved, output, name = result.total_flow, "total flow", None
-        else:
+        name = None
+        if kind.on_branch and r.branch is not None:
             name = result.network.branches[r.branch].name
-            solved, output = float(result.flows[r.branch]), f"branch '{name}' flow"
+            solved, output = float(result.flows[r.branch]), branch_flow(name)
+        elif kind.quantity == "pressure":
+            solved, output = result.pressure_drop, PRESSURE_DROP
+        else:
+            solved, output = result.total_flow, TOTAL_FLOW
         b = band.outputs.get(output) if band is not None else None
         within = None if b is None else bool(min(b.p5, b.p95) <= read <= max(b.p5, b.p95))
         out.append(Comparison(r.kind, name, read, float(solved), within))

@@ -13,7 +13,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import TYPE_CHECKING, Any
 
-from ..errors import InputError
+from ..errors import BranchwiseError
 from ..model import FindFlows, FindUnknown
 from ..numerics.results import Result
 from ..units import format_quantity
@@ -59,7 +59,10 @@ def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
     from ..numerics.solve import solve
 
     built = build(site, presets)
-    result = solve(built.network, built.given, built.find)
+    try:
+        result = solve(built.network, built.given, built.find)
+    except BranchwiseError as exc:
+        raise exc.naming([b.name for b in built.network.branches]) from None
     pick = None
     notes = list(built.notes)
     find = built.find
@@ -109,15 +112,15 @@ def uncertainty_for_site(
     (``tolerances.<key>``); nothing is printed.
     """
     from ..numerics.uncertainty import Tolerances, monte_carlo
-    from .tolerances import site_error, site_thermal
+    from .tolerances import site_thermal
 
     built = build(site, presets) if built is None else built
     tol = tolerances or built.tolerances or Tolerances()
     tol, thermal, notes = site_thermal(site, tol, presets)
     try:
         res = monte_carlo(built.network, built.given, built.find, tol, samples, seed, thermal)
-    except InputError as exc:
-        raise site_error(exc) from None
+    except BranchwiseError as exc:
+        raise exc.naming([b.name for b in built.network.branches]) from None
     return replace(res, notes=(*notes, *res.notes))
 
 

@@ -1,8 +1,8 @@
 """A site's ``[tolerances]`` table: from text as typed to :class:`~.uncertainty.Tolerances`.
 
 Every key is optional; a missing one keeps the common-practice default of
-:class:`~branchwise.core.numerics.uncertainty.Tolerances`. Values are text with units where they have a
-dimension, so the file says what it means::
+:class:`~branchwise.core.numerics.tolerances.Tolerances`. Values are text with units where they
+have a dimension, so the file says what it means::
 
     [tolerances]
     gauge_accuracy = "1 %"          # of the gauge's full scale (of the reading without one)
@@ -25,35 +25,22 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import replace
+from dataclasses import fields, replace
 from typing import TYPE_CHECKING
 
 from ..errors import InputError, describe
 from ..messages import pressure_text, render
 from ..model import Fluid, Given, Network, PressureDrop
+from ..numerics.tolerances import Thermal, Tolerances
 from ..units import parse_quantity
 from .spec import Site, TolerancesSpec, Value
 
 if TYPE_CHECKING:
-    from ..numerics.uncertainty import Thermal, Tolerances
     from ..storage.presets import PresetSource
 
-PERCENT_KEYS = {
-    "gauge_accuracy": "gauge_percent",
-    "flow_meter_accuracy": "flow_meter_percent",
-    "diameter": "diameter_percent",
-    "length": "length_percent",
-    "fitting_k": "fitting_k_percent",
-    "valve_kv": "valve_kv_percent",
-}
+PERCENT_KEYS = {f.metadata["key"]: f.name for f in fields(Tolerances)
+                if f.name.endswith("_percent")}
 """Site key → :class:`Tolerances` field, for the keys given as percentages."""
-
-SITE_KEYS = {core: key for key, core in PERCENT_KEYS.items()} | {
-    "gauge_full_scale": "gauge_full_scale", "target_flow_measured": "target_flow_measured",
-    "roughness_factor": "roughness_factor", "roughness_m": "roughness_range",
-    "temperature_k": "temperature",
-}
-""":class:`Tolerances` field → site key, to name the file's field in a core error."""
 
 _BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
 _NUMBER_THEN_UNIT = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?(.*)\Z", re.S)
@@ -118,8 +105,6 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
     network: to resolve the branch names of ``roughness_range``; given: a gauge's full scale
     below the pressure drop read on it is refused.
     """
-    from ..numerics.uncertainty import Tolerances
-
     path = "tolerances"
     kw: dict[str, object] = {}
     for key, core in PERCENT_KEYS.items():
@@ -157,21 +142,8 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
     if (value := spec.temperature) is not None:
         kw["temperature_k"] = temperature_difference(value, f"{path}.temperature")
     tol = Tolerances(**kw)  # type: ignore[arg-type]
-    try:
-        tol.validate()
-    except InputError as exc:
-        raise site_error(exc) from None
+    tol.validate()
     return tol
-
-
-def site_error(exc: InputError) -> InputError:
-    """A core ``uncertainty.<field>`` error renamed to the site file's ``tolerances.<key>``."""
-    m = re.match(r"uncertainty\.(\w+)(?:\[(.*)\])?\Z", exc.field)
-    if m is None or m[1] not in SITE_KEYS:
-        return exc
-    key = SITE_KEYS[m[1]]
-    suffix = f'."{m[2].strip(chr(39))}"' if m[2] else ""
-    return InputError(f"tolerances.{key}{suffix}", exc.marked_value, exc.marked_reason)
 
 
 def site_thermal(
@@ -187,7 +159,6 @@ def site_thermal(
     that takes the liquid outside its model (boiling, freezing) is an InputError.
     """
     from ..fluids import fluid_from_spec
-    from ..numerics.uncertainty import Thermal
     from .liquid import fluid_inputs
 
     if tol.temperature_k == 0:
@@ -215,5 +186,5 @@ def site_thermal(
     return tol, thermal, ()
 
 
-__all__ = ["build_tolerances", "percent", "site_error", "site_thermal",
+__all__ = ["build_tolerances", "percent", "site_thermal",
            "temperature_difference"]

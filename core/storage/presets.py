@@ -16,7 +16,7 @@ The user's own presets live in one hand-editable file, ``presets.toml`` in the d
 
 The shipped presets are data owned by other modules, passed in as one callable per kind, so
 this module depends on none of them. Saving goes through a comment-preserving TOML round trip
-and :func:`~branchwise.core.storage.toml_files.atomic_write_text`. A file that does not load is listed in
+and :func:`~.atomic.atomic_write_text`. A file that does not load is listed in
 ``problems``, left byte for byte as it is, and refuses every save until the person fixes it;
 the shipped presets keep working meanwhile.
 """

@@ -1,6 +1,6 @@
 """The user's own liquids and materials, as a site file and the ``presets`` command use them.
 
-User presets live in ``presets.toml`` in the data folder (see :mod:`branchwise.core.storage.presets`);
+User presets live in ``presets.toml`` in the data folder (see :mod:`.presets`);
 values are kept as the user typed them (``"870 kg/m^3"``, ``"0.5 mm"``) and read through
 :mod:`branchwise.core.units` when used. A user material overrides a shipped one with the same key.
 """
@@ -27,8 +27,8 @@ _cache: tuple[float, Any] | None = None
 
 
 def store():  # -> PresetStore, read again only when the file changes
-    """The user's :class:`~branchwise.core.storage.presets.PresetStore`, kept while its file is unchanged
-    (the app solves on every keystroke; reading the file each time would cost more)."""
+    """The user's :class:`~.presets.PresetStore`, kept while its file is unchanged (the app
+    solves on every keystroke; reading the file each time would cost more)."""
     global _cache
     from .presets import PresetStore, presets_path
 

@@ -28,4 +28,5 @@ def test_core_imports_no_ui_and_no_heavy_modules():
 
 def test_core_has_modules():
     # The walk above must see the package's modules, or the purity check proves nothing.
-    assert {"branchwise.core.numerics.solve", "branchwise.core.numerics.friction"} <= set(_core_modules())
+    walked = set(_core_modules())
+    assert {"branchwise.core.numerics.solve", "branchwise.core.numerics.friction"} <= walked

@@ -246,12 +246,12 @@ def test_draws_without_an_answer_are_counted_and_left_out():
 
 
 @pytest.mark.parametrize(("fields", "path"), [
-    ({"gauge_percent": -1}, "uncertainty.gauge_percent"),
-    ({"flow_meter_percent": 100}, "uncertainty.flow_meter_percent"),
-    ({"roughness_factor": (2, 1)}, "uncertainty.roughness_factor"),
-    ({"roughness_factor": (1, 400)}, "uncertainty.roughness_factor"),
-    ({"roughness_m": {"Nowhere": (1e-5, 1e-4)}}, "uncertainty.roughness_m"),
-    ({"gauge_full_scale": 0}, "uncertainty.gauge_full_scale"),
+    ({"gauge_percent": -1}, "tolerances.gauge_accuracy"),
+    ({"flow_meter_percent": 100}, "tolerances.flow_meter_accuracy"),
+    ({"roughness_factor": (2, 1)}, "tolerances.roughness_factor"),
+    ({"roughness_factor": (1, 400)}, "tolerances.roughness_factor"),
+    ({"roughness_m": {"Nowhere": (1e-5, 1e-4)}}, 'tolerances.roughness_range."Nowhere"'),
+    ({"gauge_full_scale": 0}, "tolerances.gauge_full_scale"),
 ])
 def test_bad_tolerances_name_the_field(fields, path):
     with pytest.raises(InputError) as err:

@@ -22,7 +22,7 @@ def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
             await pilot.press("v")
             await ui.type(pilot, "7.5 psi")
             await ui.settle(pilot)
-            app.write_recovery()  # what the timer does a second after typing stops
+            app.files.write_recovery()  # what the timer does a second after typing stops
             await app.workers.wait_for_complete()
             assert recovery_path(None).is_file()
             app.exit()  # no question asked: as if the terminal were closed

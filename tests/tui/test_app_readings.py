@@ -35,7 +35,7 @@ def reading_cell(app, row: int) -> str:
 
 
 def also_read(app) -> str:
-    return "\n".join(line for line in app.screen.warning_lines if line.startswith("≈"))
+    return "\n".join(line for line in app.screen.views.warning_lines if line.startswith("≈"))
 
 
 def test_switching_the_given_keeps_both_readings(ui, demo_file):

@@ -134,7 +134,7 @@ def test_80x24_in_us_units_keeps_what_matters(ui):
             await pilot.press("f4", "escape", "b")
             for _ in range(100):
                 await ui.settle(pilot)
-                if app.screen.band is not None and app.screen.band.solved is not None:
+                if app.screen.views.band is not None and app.screen.views.band.solved is not None:
                     break
             await pilot.pause()
             text = ui.text(app)

@@ -206,8 +206,8 @@ def test_split_at_80x24_keeps_every_branch_row_with_many_warnings(ui):
             lines = text.splitlines()
             for name in ("AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass", "seg. 2"):
                 assert name in text, name
-            assert "Total" in text and "Diameter of AHU-1 coil" in text
-            warnings = app.screen.warning_lines
+            assert "Total" in text and "Diameter of 'AHU-1 coil'" in text
+            warnings = app.screen.views.warning_lines
             assert len(warnings) >= 5
             shown = [ln for ln in lines if ln.lstrip().startswith(("⚠", "•", "…"))]
             assert 1 <= len(shown) <= len(warnings)

@@ -36,7 +36,7 @@ def test_us_units_on_the_split_screen(ui):
             assert result.warnings and all(w.code == "velocity-high" for w in result.warnings)
 
             screen = app.screen
-            warnings = "\n".join(screen.warning_lines)
+            warnings = "\n".join(screen.views.warning_lines)
             totals = str(screen.query_one("#totals").render())
             for word in SI_WORDS:
                 assert word not in warnings, warnings
@@ -46,7 +46,7 @@ def test_us_units_on_the_split_screen(ui):
             # Each velocity quoted is the branch's own, in ft/s.
             velocities = {b.name: b.segments[0].velocity for b in result.branches}
             for w in result.warnings[:3]:
-                line = next(x for x in screen.warning_lines if x.startswith(f"⚠ {w.branch}"))
+                line = next(x for x in screen.views.warning_lines if x.startswith(f"⚠ {w.branch}"))
                 shown = _numbers_before("ft/s", line)[0]
                 assert shown == pytest.approx(velocities[w.branch] / FOOT, rel=5e-4)
 
@@ -104,7 +104,7 @@ def test_a_chosen_display_unit_is_used_in_warnings(ui):
             app.settings.display_units = {"velocity": "ft/s"}
             app.edit("Given value", lambda s: set_given(s, "pressure_drop", "28 psi"))
             await ui.settle(pilot)
-            warnings = "\n".join(app.screen.warning_lines)
+            warnings = "\n".join(app.screen.views.warning_lines)
             assert "ft/s" in warnings and "m/s" not in warnings
             shown = _numbers_before("ft/s", warnings)
             assert 3 / FOOT == pytest.approx(shown[1], abs=6e-4)

@@ -151,7 +151,7 @@ def test_walkdown_by_keys(ui, data_dir):
             assert solved.catalog.size.inner_diameter_m == pytest_approx(di, 1e-6)
             line = str(app.screen.query_one("#solved", Static).render())
             assert f"NPS {nps:g} sch 40" in line
-            assert "Diameter of AHU-1 coil for 25.00 L/s" in line
+            assert "Diameter of 'AHU-1 coil' to carry 25.00 L/s" in line  # the reports' own line
 
             # Save under a name of our own, then quit: nothing asks, nothing is lost.
             await pilot.press("ctrl+s")
@@ -186,7 +186,8 @@ def test_walkdown_by_keys(ui, data_dir):
             error = again.outcome.error
             assert isinstance(error, InputError) and error.field == "branches[2].measured_flow"
             message = again.screen.query_one("#given-message", Static)
-            assert message.display and "AHU-3 coil, measured flow" in str(message.render())
+            # Worded as the command line words it: the branch by its name, the file's key.
+            assert message.display and 'branch "AHU-3 coil" measured_flow' in str(message.render())
             assert again.screen.query_one("#split-results").has_class("-stale")
             assert flows_on_screen(again)  # the last good answer is still on screen
             assert again.screen.query_one("#given-value", Input).value == "lots"

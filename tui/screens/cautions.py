@@ -7,7 +7,7 @@ from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widgets import Label, Static
 
-from .dialogs import Dialog
+from ..modal import Dialog
 
 CAUTIONS = (
     "Pressurised, hot or hazardous lines can injure. Keep clear of them unless the owner's "

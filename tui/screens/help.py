@@ -9,7 +9,7 @@ from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.widgets import Static
 
-from .dialogs import Dialog
+from ..modal import Dialog
 
 ABOUT = (
     "Values: every field takes a number with any unit (250 ft, 76 m, 12 psi, 400 gpm, 65 degF);"

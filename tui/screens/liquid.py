@@ -15,7 +15,9 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.widgets import Input, Label, Static
 
-from ..state.session import is_bare_number, locate, text_of, with_unit
+from branchwise.core.site.fields import FieldPath
+
+from ..state.values import is_bare_number, text_of, with_unit
 from ..widgets.choice import Choice
 from ..widgets.field import Field
 from ..widgets.quiet import put
@@ -115,7 +117,7 @@ class LiquidScreen(WorkScreen):
         uses = self.uses(kind)
         outcome = app.outcome
         error = outcome.error if outcome is not None else None
-        ref = locate(outcome.field) if error is not None else None
+        ref = FieldPath.parse(outcome.field) if error is not None else None
         for name, _, qkind in FIELDS:
             field = self.query_one(f"#fluid-{name}", Field)
             field.display = name in uses

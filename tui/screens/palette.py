@@ -16,7 +16,7 @@ from textual.binding import Binding
 from textual.command import CommandList, CommandPalette
 from textual.widgets import Input
 
-from .dialogs import app_key
+from ..modal import app_key
 
 
 async def _nothing() -> None:

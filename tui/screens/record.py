@@ -18,9 +18,10 @@ from textual.widgets.input import Selection
 
 from branchwise.core.site.spec import RecordSpec
 
-from ..state.session import text_of
+from ..modal import Dialog
+from ..state.values import text_of
 from ..widgets.field import Field
-from .dialogs import FORM_HINT, FORM_KEYS, Dialog
+from .dialogs import FORM_HINT, FORM_KEYS
 
 if TYPE_CHECKING:
     from branchwise.core.site.spec import Site

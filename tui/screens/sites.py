@@ -12,7 +12,7 @@ from textual.widgets import DataTable, Input, Label, Static
 
 from branchwise.core.storage.paths import list_sites, sites_dir
 
-from .dialogs import Dialog
+from ..modal import Dialog
 
 
 def _when(seconds: float) -> str:

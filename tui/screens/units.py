@@ -9,8 +9,8 @@ from textual.widgets import Label, Static
 
 from branchwise.core.units import display_unit, unit_choices, unit_label
 
+from ..modal import Dialog
 from ..widgets.choice import Choice
-from .dialogs import Dialog
 
 QUANTITIES = ("pressure", "flow", "length", "diameter", "roughness", "head", "velocity",
               "temperature", "density", "viscosity", "kinematic_viscosity")

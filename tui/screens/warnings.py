@@ -11,7 +11,7 @@ from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.widgets import Label, Static
 
-from .dialogs import Dialog
+from ..modal import Dialog
 
 
 def fit_lines(lines: list[str], room: int) -> list[str]:

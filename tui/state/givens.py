@@ -12,15 +12,14 @@ Nothing here imports Textual, numpy or pint (``core.readings`` loads pint only t
 from __future__ import annotations
 
 from branchwise.core.errors import InputError
-from branchwise.core.site.readings import CONDITION_READINGS, chosen, readings
+from branchwise.core.givens import GIVENS, HEADER_READINGS
+from branchwise.core.site.readings import chosen, readings
 from branchwise.core.site.spec import Site
 
-from .session import branch_name, text_of
+from .values import branch_name, text_of
 
 Given = tuple[str, int | None]
-"""(``pressure_drop`` | ``total_flow`` | ``measured_flow``, the branch's index or None)."""
-
-GIVEN_KINDS = (*CONDITION_READINGS, "measured_flow")
+"""(a key of ``core.givens.GIVENS``, the branch's index for a branch reading, else None)."""
 
 
 def given_of(site: Site) -> Given:
@@ -48,7 +47,7 @@ def _named(site: Site) -> Given | None:
     if not isinstance(given, str):
         return None
     key = given.strip()
-    if key in CONDITION_READINGS:
+    if key in HEADER_READINGS:
         return key, None
     for i, br in enumerate(site.branches):
         if text_of(br.name).strip() == key:
@@ -97,7 +96,7 @@ def set_reading(site: Site, kind: str, value: str | None, branch: int | None = N
         if branch is None or not 0 <= branch < len(site.branches):
             raise ValueError(f"no branch {branch}")
         site.branches[branch].measured_flow = text
-    elif kind in CONDITION_READINGS:
+    elif kind in HEADER_READINGS:
         setattr(site.conditions, kind, text)
     else:
         raise ValueError(f"unknown given {kind!r}")
@@ -154,6 +153,23 @@ def add_reading(site: Site, branch: int, value: str) -> bool:
 
 def given_words(site: Site, kind: str, branch: int | None) -> str:
     """A reading in words: ``Δp across the header``, ``total flow``, ``reading on AHU-3``."""
-    if kind == "measured_flow" and branch is not None:
+    if GIVENS[kind].on_branch and branch is not None:
         return f"reading on {branch_name(site, branch)}"
-    return {"pressure_drop": "Δp across the header", "total_flow": "total flow"}[kind]
+    label = GIVENS[kind].label  # "Total flow" reads "total flow"; "Δp…" stays as it is
+    return label[0].lower() + label[1:] if label[:1].isascii() else label
+
+
+def given_label(site: Site, kind: str, branch: int | None) -> str:
+    """A reading as the list of givens shows it: ``Δp across the header``, ``Reading on
+    AHU-3``."""
+    words = given_words(site, kind, branch)
+    return words[0].upper() + words[1:]
+
+
+def needs_value(error: BaseException, site: Site) -> str | None:
+    """The words for an error on the given reading while its value is being retyped (not
+    "no such reading": the reading is there, waiting for its value); None for any other."""
+    if getattr(error, "field", "") != "conditions.given" or given_text(site):
+        return None
+    return (f"given {given_words(site, *given_of(site))}: needs a value (the other readings "
+            "are kept)")

@@ -14,7 +14,7 @@ from textual.binding import Binding
 from textual.message import Message
 from textual.widget import Widget
 
-from ..screens.dialogs import Dialog
+from ..modal import Dialog
 
 
 class Choice(Widget, can_focus=True):

@@ -11,14 +11,18 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.widgets import Static
 
+from branchwise.core.site.fields import FieldPath
+
 from ..state.givens import given_of, given_text, given_words
-from ..state.session import find_of, locate, text_of
+from ..state.session import find_of
+from ..state.values import text_of
 
 if TYPE_CHECKING:
     from ..app import BranchwiseApp
 
 AREA_KEYS = {"fluid": "F2 Liquid", "branches": "F3 Branches", "conditions": "F4 Split",
-             "solve": "F4 Split", "tolerances": "F4 Split, l tolerances", "site": "F3 Branches"}
+             "solve": "F4 Split", "tolerances": "F4 Split, l tolerances", "record": "F8",
+             "site": "F3 Branches"}
 
 
 ERROR_LINES = 2
@@ -112,7 +116,7 @@ def _state(app: BranchwiseApp, on_split: bool) -> tuple[Text, Text]:
         line.append("… solving", style="italic dim")
     elif outcome.error is not None:
         line.append(f"✗ {app.error_words(outcome.error)}", style="bold red")
-        where = Text(f"  ({AREA_KEYS[locate(outcome.field).area]})", style="dim")
+        where = Text(f"  ({AREA_KEYS[FieldPath.parse(outcome.field).area]})", style="dim")
     else:
         n = len(outcome.solved.result.branches) if outcome.solved else 0
         line.append(f"✓ solved {n} branches in {outcome.seconds * 1000:.1f} ms", style="green")

@@ -1,1 +1,5 @@
-"""branches."""
+"""The Branches screen: the branch table, its cells and the branch form."""
+
+from .screen import BranchesScreen
+
+__all__ = ["BranchesScreen"]

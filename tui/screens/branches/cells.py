@@ -17,7 +17,7 @@ from branchwise.core.errors import InputError
 from branchwise.core.site.spec import BranchSpec, SegmentSpec
 from branchwise.core.site.valves import series_kv
 
-from ...state.session import is_bare_number, is_plain_diameter, text_of, with_unit
+from ...state.values import is_bare_number, is_plain_diameter, text_of, with_unit
 
 if TYPE_CHECKING:
     from ...app import BranchwiseApp

@@ -21,9 +21,10 @@ from textual.widgets.input import Selection
 from branchwise.core.errors import InputError
 from branchwise.core.site.spec import BranchSpec, SegmentSpec
 
-from ...state.session import text_of, with_unit
+from ...modal import Dialog
+from ...state.values import text_of, with_unit
 from ...widgets.field import Field
-from ..dialogs import FORM_HINT, FORM_KEYS, Dialog
+from ..dialogs import FORM_HINT, FORM_KEYS
 from .cells import (
     same_pipe,
     set_k,

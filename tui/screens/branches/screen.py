@@ -17,6 +17,7 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.widgets import DataTable, Input, Label, Static
 
+from branchwise.core.site.fields import FieldPath
 from branchwise.core.site.spec import Site
 
 from ...state.givens import (
@@ -27,7 +28,8 @@ from ...state.givens import (
     held,
     remove_branch,
 )
-from ...state.session import branch_name, locate, new_branch, rename_branch, text_of, with_unit
+from ...state.session import new_branch, rename_branch
+from ...state.values import branch_name, text_of, with_unit
 from ...widgets.branchtable import BranchTable
 from ...widgets.quiet import fill_table, put
 from ..work_screen import WorkScreen
@@ -117,7 +119,8 @@ class BranchesScreen(WorkScreen):
             unit = f" {app.unit_text(UNIT_KINDS[key])}" if key in UNIT_KINDS else ""
             columns.append((key, f"{label}{unit}"))
         outcome = app.outcome
-        bad = locate(outcome.field) if outcome is not None and outcome.error else None
+        bad = (FieldPath.parse(outcome.field) if outcome is not None and outcome.error
+               else None)
         bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
             else None
         flows = flow_cells(app)

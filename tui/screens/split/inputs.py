@@ -1,22 +1,32 @@
-"""The Split screen's edits of its top rows: the given condition and what to find.
+"""The Split screen's top rows: the given condition and what to find, as one widget.
 
 Switching the given (Δp, total flow, one branch's reading) keeps every reading in the site and
-names the one solved from in ``conditions.given`` (see :mod:`..givens`); a reading the app
-filled in from the answer and nobody touched goes again when the given moves on. Switching the
-find choice keeps the branch and target aside in the session (``parked``), so that switching
-back brings them again. A value typed in a field goes into the site at once (keystrokes in one
-field are one undo step).
+names the one solved from in ``conditions.given`` (see :mod:`...state.givens`); a reading the
+app filled in from the answer and nobody touched goes again when the given moves on. Switching
+the find choice keeps the branch and target aside in the session (``parked``), so that
+switching back brings them again. A value typed in a field goes into the site at once
+(keystrokes in one field are one undo step). An error on one of these fields shows under its
+row.
 """
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
-from textual.widgets import Input
+from textual.app import ComposeResult
+from textual.containers import Horizontal, Vertical
+from textual.widgets import Input, Label, Static
 
-from ...state.givens import given_of, make_given, reading_text, set_reading
-from ...state.session import branch_name, find_of, set_find, text_of, with_unit
+from branchwise.core.finds import FINDS
+from branchwise.core.givens import GIVENS
+from branchwise.core.site.fields import FieldPath
+from branchwise.core.site.spec import Site
+
+from ...state.givens import given_label, given_of, given_text, make_given, reading_text, set_reading
+from ...state.session import find_of, set_find
+from ...state.values import branch_name, text_of, with_unit
 from ...widgets.choice import Choice
+from ...widgets.quiet import put, show_text
 
 if TYPE_CHECKING:
     from ...app import BranchwiseApp
@@ -25,18 +35,107 @@ GIVEN_PREFIX = "measured:"
 """A given-kind choice value ``measured:<index>``: the reading on that branch."""
 FIELDS = ("given-value", "lift-value", "find-target")
 """The typing fields in Enter order (Enter in the last goes back to the first)."""
+HEADER_GIVENS = [(g.label, g.key) for g in GIVENS.values() if not g.on_branch]
+"""The readings taken at the header, as the list of givens offers them."""
 
 
-class GivenFindEdits:
-    """The Split screen's handlers for its given and find rows (a mixin of the screen)."""
+class GivenFindRows(Vertical):
+    """The given reading (its kind, value and the lift) and what to find (the flows, or a
+    branch's diameter, length or roughness for a target flow), with their messages."""
 
-    if TYPE_CHECKING:
-        bw: BranchwiseApp
-        ready: bool
+    @property
+    def bw(self) -> BranchwiseApp:
+        return self.app  # type: ignore[return-value]
 
-        def query_one(self, selector: str, expect_type: type = ...) -> Any: ...
+    def compose(self) -> ComposeResult:
+        seeking = find_of(self.bw.site) != "flows"
+        with Horizontal(classes="row"):
+            yield Label("Given", classes="row-label")
+            yield Choice(HEADER_GIVENS, id="given-kind")
+            yield Input(id="given-value", compact=True)
+            yield Label("", id="given-unit", classes="unit", markup=False)
+            yield Label("lift", id="lift-label")
+            yield Input(id="lift-value", compact=True, placeholder="0",
+                        tooltip="Elevation change, outlet minus inlet (z_out − z_in)")
+            yield Label("", id="lift-unit", classes="unit", markup=False)
+        yield _hidden(Static("", id="given-message", classes="message", markup=False))
+        with Horizontal(classes="row"):
+            yield Label("Find", classes="row-label")
+            yield Choice([(f.label, f.key) for f in FINDS.values()], "flows", id="find-kind")
+            parts = (Label(" of ", classes="find-part"),
+                     Choice([], id="find-branch", prompt="branch", classes="find-part"),
+                     Label(" for ", classes="find-part"),
+                     Input(id="find-target", compact=True, placeholder="flow",
+                           classes="find-part"),
+                     Choice([], id="find-segment", prompt="segment", classes="find-part"))
+            for part in parts:
+                part.display = seeking  # as the site is, so that nothing moves at start
+                yield part
+        yield _hidden(Static("", id="find-message", classes="message", markup=False))
+
+    # ---- drawing ---------------------------------------------------------------------------
+
+    def show(self) -> None:
+        """Show the site's given and find, and an error on either."""
+        app, site = self.bw, self.bw.site
+        kind, index = given_of(site)
+        options = list(HEADER_GIVENS)
+        options += [(given_label(site, "measured_flow", i), f"{GIVEN_PREFIX}{i}")
+                    for i in range(len(site.branches))]
+        value = kind if not GIVENS[kind].on_branch else f"{GIVEN_PREFIX}{index}"
+        self.query_one("#given-kind", Choice).set_options(options, value)
+        show_text(self.query_one("#given-value", Input), given_text(site))
+        put(self.query_one("#given-unit", Label), f"[{app.unit_text(GIVENS[kind].quantity)}]")
+        show_text(self.query_one("#lift-value", Input),
+                  text_of(site.conditions.elevation_change))
+        put(self.query_one("#lift-unit", Label), f"[{app.unit_text('head')}]")
+
+        find = find_of(site)
+        self.query_one("#find-kind", Choice).value = find
+        names = [(branch_name(site, i), branch_name(site, i)) for i in range(len(site.branches))]
+        solve = site.solve
+        chosen = text_of(solve.branch if solve else None)
+        self.query_one("#find-branch", Choice).set_options(names, chosen)
+        show_text(self.query_one("#find-target", Input),
+                  text_of(solve.target_flow if solve else None))
+        segments = self._segments_of(chosen)
+        for part in self.query(".find-part"):
+            show = find != "flows" and (part.id != "find-segment" or segments > 1)
+            if part.display != show:
+                part.display = show
+        self.query_one("#find-segment", Choice).set_options(
+            [(f"segment {j}", str(j)) for j in range(1, segments + 1)],
+            text_of(solve.segment if solve else None) or "1")
+        self._show_messages()
+
+    def _segments_of(self, name: str) -> int:
+        for br in self.bw.site.branches:
+            if text_of(br.name).strip().casefold() == name.strip().casefold():
+                return len(br.segments)
+        return 1
+
+    def _show_messages(self) -> None:
+        outcome = self.bw.outcome
+        given_msg = find_msg = ""
+        if outcome is not None and outcome.error is not None:
+            path = FieldPath.parse(outcome.field)
+            text = self.bw.error_words(outcome.error)
+            if path.area == "conditions" or path.name == "measured_flow":
+                given_msg = text
+            elif path.area == "tolerances":
+                given_msg = f"{text}  (l to change)"
+            elif path.area == "solve":
+                find_msg = text
+        for ident, message in (("#given-message", given_msg), ("#find-message", find_msg)):
+            box = self.query_one(ident, Static)
+            put(box, f"✗ {message}" if message else "")
+            if box.display != bool(message):
+                box.display = bool(message)
+
+    # ---- edits -----------------------------------------------------------------------------
 
     def on_choice_changed(self, event: Choice.Changed) -> None:
+        event.stop()
         ident = event.choice.id
         if ident == "given-kind":
             self._switch_given(str(event.value))
@@ -61,7 +160,8 @@ class GivenFindEdits:
             self.bw.edit(f"Segment {seg}", lambda s: set_find(s, find_of(s), segment=seg))
 
     def on_input_changed(self, event: Input.Changed) -> None:
-        if not self.ready:
+        event.stop()
+        if not getattr(self.screen, "ready", False):
             return
         app = self.bw
         if event.input.id == "given-value":
@@ -69,16 +169,16 @@ class GivenFindEdits:
             unit = app.unit("pressure" if kind == "pressure_drop" else "flow")
             text = with_unit(event.value, unit)
 
-            def retype(s: object) -> None:  # that reading only: the others stay as they are
-                set_reading(s, kind, text, index)  # type: ignore[arg-type]
-                make_given(s, kind, index)  # type: ignore[arg-type]
+            def retype(s: Site) -> None:  # that reading only: the others stay as they are
+                set_reading(s, kind, text, index)
+                make_given(s, kind, index)
 
             app.edit("Given value", retype, key="given")
         elif event.input.id == "lift-value":
             text = with_unit(event.value, app.unit("head")) or None
 
-            def lift(s: object) -> None:
-                s.conditions.elevation_change = text  # type: ignore[attr-defined]
+            def lift(s: Site) -> None:
+                s.conditions.elevation_change = text
 
             app.edit("Lift", lift, key="lift")
         elif event.input.id == "find-target":
@@ -89,6 +189,7 @@ class GivenFindEdits:
     def on_input_submitted(self, event: Input.Submitted) -> None:
         """Enter keeps the value (it is in the site already) and goes to the next field, as
         in a form: the focus stays in a field, so that letters typed next are not keys."""
+        event.stop()
         fields = [self.query_one(f"#{ident}", Input) for ident in FIELDS]
         shown = [box for box in fields if box.display]
         if event.input in shown:
@@ -110,12 +211,12 @@ class GivenFindEdits:
         fill = "" if reading_text(site, new_kind, new_index) else self._current(new_kind,
                                                                                  new_index)
 
-        def change(s: object) -> None:
+        def change(s: Site) -> None:
             if untouched:
-                set_reading(s, old_kind, None, old_index)  # type: ignore[arg-type]
+                set_reading(s, old_kind, None, old_index)
             if fill:
-                set_reading(s, new_kind, fill, new_index)  # type: ignore[arg-type]
-            make_given(s, new_kind, new_index)  # type: ignore[arg-type]
+                set_reading(s, new_kind, fill, new_index)
+            make_given(s, new_kind, new_index)
 
         label = ("the reading on " + branch_name(site, new_index) if new_index is not None
                  else new_kind.replace("_", " "))
@@ -153,8 +254,8 @@ class GivenFindEdits:
                 parked["solve.branch"] = text_of(site.solve.branch)
                 parked["solve.target_flow"] = text_of(site.solve.target_flow)
 
-            def change(s: object) -> None:
-                s.solve = None  # type: ignore[attr-defined]
+            def change(s: Site) -> None:
+                s.solve = None
 
             app.edit("Find the flows", change)
             return
@@ -172,6 +273,7 @@ class GivenFindEdits:
                                                       if branch in names else None, down=True)
         app.edit(f"Find the {find}", lambda s: set_find(s, find, branch, target))
         self.query_one("#find-target", Input).focus()
+
 
 
 CARRIED_DIGITS = 7
@@ -194,7 +296,12 @@ def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False) -
     return f"{format_number(value, CARRIED_DIGITS)} {unit}"
 
 
-def _park_key(site: object, kind: str, index: int | None) -> str:
+def _park_key(site: Site, kind: str, index: int | None) -> str:
     if kind == "measured_flow" and index is not None:
-        return f"measured_flow:{branch_name(site, index)}"  # type: ignore[arg-type]
+        return f"measured_flow:{branch_name(site, index)}"
     return kind
+
+
+def _hidden(widget: Static) -> Static:
+    widget.display = False
+    return widget

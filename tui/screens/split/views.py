@@ -1,6 +1,9 @@
-"""The Split screen's other views, in the place of the results table: the uncertainty band and
-the system curve; and the tolerances dialog behind the band.
+"""The Split screen's results area: the flow table, or in its place the uncertainty band or
+the system curve; the totals, the found value and the warnings under it.
 
+* Table: one row per branch (and per further segment), the totals, the found value with the
+  catalog size (the reports' own lines), the other readings against the answer, the warnings.
+  While the site has an error the last good answer stays on screen, greyed.
 * Band (``b``): Monte Carlo P5–P95 of every flow, the pressure drop and a found unknown, and
   what dominates the spread, worked out in a thread worker (10,000 draws, a fixed seed: the
   same site always shows the same band). A band belongs to one revision of the site: after an
@@ -18,20 +21,26 @@ from typing import TYPE_CHECKING
 
 from rich.text import Text
 from textual import work
-from textual.binding import Binding
+from textual.app import ComposeResult
+from textual.containers import Vertical
 from textual.message import Message
 from textual.widget import Widget
+from textual.widgets import Static
 from textual.worker import get_current_worker
 
 from ...widgets.bandview import Band, BandView, band_body, band_notes
 from ...widgets.curveplot import CurvePlot, PlotData, Series
-from ..work_screen import WorkScreen
+from ...widgets.quiet import put
+from ...widgets.sharebar import share_bar
+from ...widgets.texttable import TextTable
+from ..warnings import fit_lines
 
 if TYPE_CHECKING:
     from branchwise.core.numerics.curve import SystemCurve
     from branchwise.core.site.solve import SiteResult
     from branchwise.core.site.spec import Site, TolerancesSpec
 
+    from ...app import BranchwiseApp
     from ...state.outcome import Outcome
 
 BAND_SAMPLES = 10_000
@@ -44,17 +53,11 @@ TOTAL_STYLE = "bold bright_yellow"
 BRANCH_STYLES = ("cyan", "green", "magenta", "blue", "bright_cyan", "bright_green",
                  "bright_magenta", "bright_blue")
 VIEWS = {"table": "#results", "band": "#band-view", "curve": "#curve-view"}
-
-PANEL_BINDINGS = [
-    Binding("b", "view('band')", "Band", id="split-band",
-            tooltip="P5–P95 band of every flow from the tolerances, and what dominates it "
-                    "(b again: back to the table)"),
-    Binding("p", "view('curve')", "Curve", id="split-curve", show=False,
-            tooltip="System curve: Δp against the total and branch flows, operating point "
-                    "marked (p again: back to the table)"),
-    Binding("l", "tolerances", "Tolerances", id="split-tolerances", show=False,
-            tooltip="See and change the ± limits on the readings and records"),
-]
+MAX_WARNING_LINES = 6
+"""At most this many warning lines under the table; fewer when the branch rows need the room."""
+REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb."}
+MARK = "≈"
+"""The mark in front of a reading's line (warnings carry ⚠, notes •)."""
 
 
 class BandReady(Message):
@@ -73,33 +76,50 @@ class CurveReady(Message):
         self.outcome, self.curve, self.error = outcome, curve, error
 
 
-class PanelScreen(WorkScreen):
-    """A work screen whose results area can show the table, the band or the curve.
-
-    Subclasses put :meth:`panel_widgets` after their ``#results`` table and call
-    :meth:`draw_panel` at the end of their ``redraw``."""
+class ResultViews(Vertical):
+    """The results area of the Split screen: the table, the band or the curve, and the lines
+    under it."""
 
     view = "table"
     band: Band | None = None
     """The newest band worked out (maybe for an earlier revision: then it is shown as stale)."""
     band_pause = BAND_PAUSE
+    warning_lines: list[str] = []
+    """The other readings against the answer, every warning and note of it (``w`` lists
+    them); :attr:`screen_lines` the same, shorter below 100 columns, as many as fit."""
+    screen_lines: list[str] = []
+    _warning_room = MAX_WARNING_LINES
     _band_running: int | None = None
     _band_now = False
     _band_timer = None
     _curve_for: Outcome | None = None
     _curve: tuple[Outcome, SystemCurve | None, str] | None = None
     _plot_key: tuple[object, ...] | None = None
+    _drawn: tuple[object, ...] | None = None
 
-    def panel_widgets(self) -> list[Widget]:
+    @property
+    def bw(self) -> BranchwiseApp:
+        return self.app  # type: ignore[return-value]
+
+    def compose(self) -> ComposeResult:
+        yield TextTable(id="results")
         band, curve = BandView(id="band-view"), CurvePlot(id="curve-view")
         band.display = curve.display = False
-        return [band, curve]
+        yield band
+        yield curve
+        yield Static("", id="totals", markup=False)
+        yield Static("", id="solved", markup=False)
+        warnings = Static("", id="warnings", markup=False)
+        warnings.display = False
+        yield warnings
 
     def main_view(self) -> Widget | None:
         """The focusable widget of the view shown (the curve has none)."""
         return None if self.view == "curve" else self.query_one(VIEWS[self.view])
 
-    def action_view(self, name: str) -> None:
+    def toggle(self, name: str) -> None:
+        """Show the ``name`` view (``band``, ``curve``) in the table's place, or the table
+        again if it is shown already."""
         self.view = "table" if self.view == name else name
         for view, ident in VIEWS.items():
             self.query_one(ident).display = view == self.view
@@ -109,16 +129,143 @@ class PanelScreen(WorkScreen):
         if main is not None:
             main.focus()
         else:
-            self.set_focus(None)
+            self.screen.set_focus(None)
         self._band_now = self.view == "band"
-        self.draw_panel()
+        self.show_view()
 
-    def draw_panel(self) -> None:
+    def show(self) -> None:
+        """Show the present answer (or the last good one, greyed) and the view open."""
+        self._draw_results()
+        self.show_view()
+
+    def show_view(self) -> None:
         if self.view == "band":
             self._schedule_band()
             self._draw_band()
         elif self.view == "curve":
             self._draw_curve()
+        self._draw_results()  # a band come in says whether each reading lies inside it
+
+    # ---- the table ---------------------------------------------------------------------------
+
+    def _draw_results(self) -> None:
+        app = self.bw
+        outcome = app.outcome
+        drawn = (outcome, app.good, app.unit_system, tuple(app.settings.display_units.items()),
+                 app.latest_band, self.app.size.width >= 100)
+        if self._drawn == drawn:
+            return  # the site changed but its answer has not arrived yet: nothing new to show
+        self._drawn = drawn
+        shown = outcome if outcome is not None and outcome.ok else app.good
+        # Greyed only when the site has an error: a solve takes milliseconds, and greying the
+        # table while it runs would only make it flicker as someone types.
+        stale = outcome is not None and not outcome.ok and shown is not None
+        self.set_class(stale, "-stale")
+        table = self.query_one("#results", TextTable)
+        u = app.unit_text
+        # Below 100 columns the share is a bare percentage, Re compact (180k) and each unit
+        # under its heading, so that the losses stay on screen at 80×24, in US units too; the
+        # table still scrolls sideways if names are long. The losses are the exports' own:
+        # the pipe's (major), its fittings' (minor) and the valve's.
+        wide = self.app.size.width >= 100
+        sep = " " if wide else "\n"
+        columns = [("Branch", False), (f"Flow{sep}{u('flow')}", True), ("Share", False),
+                   (f"V{sep}{u('velocity')}", True), ("Re", True), ("f", True),
+                   ("Regime" if wide else "Reg.", False),
+                   *((f"{name}{sep}{u('head')}", True) for name in ("Major", "Minor", "Valve"))]
+        totals = self.query_one("#totals", Static)
+        solved = self.query_one("#solved", Static)
+        warnings = self.query_one("#warnings", Static)
+        if shown is None or shown.solved is None:
+            table.show(columns, [])
+            put(totals, "… solving" if outcome is None else "No answer yet: see the message "
+                "above.", layout=False)
+            put(solved, "", layout=False)
+            if solved.display:
+                solved.display = False
+            self.warning_lines = self.screen_lines = []
+            put(warnings, "")
+            return
+        from branchwise.core.report.lines import solved_lines  # after the first screen: numpy
+
+        result = shown.solved.result
+        rows: list[list[str | Text]] = []
+        for br in result.branches:
+            for j, seg in enumerate(br.segments):
+                first = j == 0
+                rows.append([
+                    br.name if first else f"  └ {'segment' if wide else 'seg.'} {j + 1}",
+                    app.fmt(br.flow, "flow", unit=False) if first else "",
+                    (share_bar(br.share, 6) if wide else _percent(br.share)) if first else "",
+                    app.fmt(seg.velocity, "velocity", 3, unit=False),
+                    f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
+                    f"{seg.friction_factor:.4f}",
+                    REGIMES.get(seg.regime, seg.regime),
+                    app.fmt(seg.major_loss, "head", 3, unit=False),
+                    app.fmt(seg.minor_loss, "head", 3, unit=False),
+                    app.fmt(br.valve_loss, "head", 3, unit=False)
+                    if first and br.valve_loss else "",
+                ])
+        table.show(columns, rows)
+        fluid = result.network.fluid
+        put(totals,
+            f"Total {app.fmt(result.total_flow, 'flow')}   "
+            f"Δp {app.fmt(result.pressure_drop, 'pressure')}   "
+            f"head loss {app.fmt(result.head_loss, 'head', 3)}\n{app.fluid_name(fluid)}: "
+            f"{app.fmt(fluid.density, 'density')}, {app.fmt(fluid.viscosity, 'viscosity', 3)}",
+            layout=False)  # always two lines: no new layout needed
+        text = "\n".join(solved_lines(shown.solved, app.units, short=True))
+        put(solved, text, layout=False)
+        if solved.display != bool(text):
+            solved.display = bool(text)
+        lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{app.say(w)}"
+                 for w in result.warnings]
+        lines += [f"• {app.say(note)}" for note in (*shown.solved.notes, *result.notes)]
+        # The other readings against the answer first: on a walkdown they are the news.
+        self.warning_lines = self._reading_lines(shown) + lines
+        self.screen_lines = self._reading_lines(shown, short=not wide) + lines
+        self._show_warnings(self._warning_room)
+        self.call_after_refresh(self._fit_warnings)
+
+    def _show_warnings(self, room: int) -> None:
+        lines = fit_lines(self.screen_lines, min(room, MAX_WARNING_LINES))
+        warnings = self.query_one("#warnings", Static)
+        put(warnings, "\n".join(lines))
+        if warnings.display != bool(lines):
+            warnings.display = bool(lines)
+
+    def _fit_warnings(self) -> None:
+        """After layout: give the warnings only the rows the table does not need, so that
+        every branch row stays in sight (each warning is one line, cut at the edge)."""
+        if not self.is_attached or not self.warning_lines:
+            return
+        shown = min(len(self.warning_lines), self._warning_room, MAX_WARNING_LINES)
+        if self.view == "table":
+            table = self.query_one("#results", TextTable)
+            spare = table.scrollable_content_region.height - (len(table.rows) + table.header_lines)
+        else:
+            spare = 2 - shown  # the band and the curve take what is left: two lines
+        room = max(1, min(MAX_WARNING_LINES, shown + spare))
+        if room != self._warning_room:
+            self._warning_room = room
+            self._show_warnings(room)
+
+    def _reading_lines(self, shown: Outcome, short: bool = False) -> list[str]:
+        """The readings kept beside the given, against the answer (with the band's verdict
+        once a band for this answer has been worked out)."""
+        from branchwise.core.errors import InputError
+        from branchwise.core.report.lines import readings_lines
+
+        sr = shown.solved
+        band = self.bw.latest_band
+        if band is not None and band.solved is not None and band.revision == shown.revision:
+            sr = band.solved  # the same answer, with its P5–P95 band
+        if sr is None:
+            return []
+        try:
+            return [f"{MARK} {line}" for line in readings_lines(sr, self.bw.units, short)]
+        except InputError:
+            return []  # the site's own check says why (it is shown beside the given)
 
     # ---- the band ------------------------------------------------------------------------------
 
@@ -155,14 +302,15 @@ class PanelScreen(WorkScreen):
     def _compute_band(self, site: Site, revision: int, solved: SiteResult, system: str,
                       units: dict[str, str]) -> None:
         from branchwise.core.errors import BranchwiseError
+        from branchwise.core.site.fields import error_text
         from branchwise.core.site.solve import with_uncertainty
-
-        from ...state.session import error_text
+        from branchwise.core.units import Units
 
         try:
             band = Band(revision, with_uncertainty(solved, BAND_SAMPLES, BAND_SEED))
         except BranchwiseError as exc:
-            band = Band(revision, None, error_text(exc, site, system, units),
+            band = Band(revision, None, error_text(exc, Units(system, units),
+                                           [b.name for b in site.branches]),
                         getattr(exc, "field", "") or "")
         except Exception as exc:  # a bug, not bad input: shown, and the app carries on
             self.log.error(f"band failed: {exc!r}")
@@ -181,10 +329,10 @@ class PanelScreen(WorkScreen):
         self._panel_changed()
 
     def _panel_changed(self) -> None:
-        if self.is_current:
-            self.draw_panel()
+        if self.screen.is_current:
+            self.show_view()
         else:
-            self._stale_view = True  # drawn when the screen comes back into view
+            self.screen._stale_view = True  # type: ignore[attr-defined]  # drawn on return
 
     def band_state(self) -> str:
         """``current``, ``computing``, ``error`` (no band for these inputs, see its message),
@@ -295,9 +443,7 @@ class PanelScreen(WorkScreen):
         return PlotData(tuple(series), f"flow {app.unit_text('flow')}",
                         f"Δp {app.unit_text('pressure')}", point, label)
 
-    # ---- tolerances ----------------------------------------------------------------------------
-
-    def action_tolerances(self) -> None:
+    def edit_tolerances(self) -> None:
         from ..tolerances import TolerancesScreen
 
         app = self.bw
@@ -309,3 +455,21 @@ class PanelScreen(WorkScreen):
                            timeout=4)
 
         app.push_screen(TolerancesScreen(app.site, app.unit("pressure")), chosen)
+
+
+def _compact(number: float) -> str:
+    """``180266`` → ``180k``, ``1234567`` → ``1.23M``: a Reynolds number in four cells or so."""
+    if not number == number:  # NaN
+        return "—"
+    for scale, suffix in ((1e6, "M"), (1e3, "k")):
+        if abs(number) >= scale:
+            return f"{number / scale:.3g}{suffix}"
+    return f"{number:.0f}"
+
+
+def _percent(share: float) -> str:
+    """A share of the total flow as ``53%`` or ``6.8%`` (a dash when there is none)."""
+    if not share == share:  # NaN: no total flow
+        return "—"
+    percent = share * 100
+    return f"{percent:.1f}%" if abs(percent) < 10 else f"{percent:.0f}%"

@@ -1,0 +1,72 @@
+"""Site values as the app shows and takes them: text in a field, a bare number with its unit,
+a branch's name.
+
+Nothing here imports Textual, numpy or pint, so the first screen can be drawn before they load.
+"""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+
+from branchwise.core.site.spec import Site
+
+_BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
+_PLAIN_ID = re.compile(
+    r"\s*(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*(?:mm|cm|m|in|inch|inches|\"|ft|um|µm)?\s*\Z"
+)
+
+
+def is_bare_number(text: str) -> bool:
+    """True for ``"64"`` or ``"-1.5e3"``: a number without a unit."""
+    return bool(_BARE.match(text))
+
+
+def with_unit(text: str, unit: str) -> str:
+    """``text`` as it should be kept: a bare number gets ``unit`` (the field's display unit)."""
+    text = text.strip()
+    return f"{text} {unit}" if unit and is_bare_number(text) else text
+
+
+def is_plain_diameter(text: str) -> bool:
+    """True when a size field holds an inner diameter (``77.9 mm``, ``3.068"``), not a catalog
+    size (``3 in sch 40``, ``DN80``, ``1-1/2 type L``)."""
+    return bool(_PLAIN_ID.match(text))
+
+
+def text_of(value: object) -> str:
+    """A site value as shown in a field: '' for nothing, numbers without a trailing '.0'."""
+    if value is None:
+        return ""
+    if isinstance(value, float) and value.is_integer():
+        return str(int(value))
+    return str(value)
+
+
+def shown_path(path: Path) -> str:
+    """A path as a person reads it: absolute, with ``~`` for the home folder
+    (``./site.toml`` → ``~/plant/site.toml``)."""
+    full = Path(path).expanduser().absolute()
+    try:
+        return str(Path("~") / full.relative_to(Path.home()))
+    except ValueError:
+        return str(full)
+
+
+def branch_name(site: Site, index: int) -> str:
+    """Branch ``index``'s name, or ``Branch 3`` for one without."""
+    name = text_of(site.branches[index].name).strip()
+    return name or f"Branch {index + 1}"
+
+
+def unique_name(site: Site, stem: str) -> str:
+    """``stem``, or ``stem 2``, ``stem 3``… whichever no branch uses yet."""
+    taken = {text_of(b.name).strip().casefold() for b in site.branches}
+    stem = stem.strip() or "Branch"
+    if stem.casefold() not in taken:
+        return stem
+    base = re.sub(r"\s+\d+\Z", "", stem) or stem
+    n = 2
+    while f"{base} {n}".casefold() in taken:
+        n += 1
+    return f"{base} {n}"
