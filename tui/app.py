@@ -32,9 +32,8 @@ from branchwise.core.units import Units  # noqa: E402
 from .files import SiteFiles  # noqa: E402
 from .keys import SCREEN_TITLES, key_sections, system_commands  # noqa: E402
 from .screens.split.screen import SplitScreen  # noqa: E402
-from .state.outcome import Outcome  # noqa: E402
+from .state.outcome import Band, Outcome  # noqa: E402
 from .state.session import Session  # noqa: E402
-from .widgets.bandview import Band  # noqa: E402
 
 KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
@@ -393,7 +392,7 @@ class BranchwiseApp(App[None]):
     def action_rename(self) -> None:
         from .screens.record import edit_site_details
 
-        edit_site_details(self)
+        edit_site_details(self, self)
 
     def action_cautions(self) -> None:
         from .screens.cautions import CautionsScreen

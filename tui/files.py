@@ -11,8 +11,8 @@ from __future__ import annotations
 import re
 from datetime import datetime
 from pathlib import Path
-from typing import TYPE_CHECKING
 
+from textual.app import App
 from textual.timer import Timer
 
 from branchwise.core.errors import InputError
@@ -21,9 +21,7 @@ from branchwise.core.site.spec import BranchSpec, ConditionsSpec, FluidSpec, Seg
 from branchwise.core.storage.paths import recovery_path, sites_dir
 
 from .state.values import shown_path
-
-if TYPE_CHECKING:
-    from .app import BranchwiseApp
+from .workspace import workspace
 
 RECOVERY_DELAY = 1.0
 """Seconds of quiet after a change before the recovery copy is written."""
@@ -49,14 +47,16 @@ class SiteFiles:
     """Everything the app does with files: the app holds one (``app.files``) and its file
     actions hand over to it."""
 
-    def __init__(self, app: BranchwiseApp) -> None:
+    def __init__(self, app: App[None]) -> None:
         self.app = app
+        self.ws = workspace(app)
+        """The same app as the workspace it is: the site, the settings, the answer."""
         self._recovery_timer: Timer | None = None
 
     def first_site(self, path: Path | None) -> tuple[Site, str, bool]:
         """The site to start on, a note to show (a file that could not be opened), and whether
         the settings should remember it (written once the first screen is drawn)."""
-        settings = self.app.settings
+        settings = self.ws.settings
         if path is None and settings.last_site is not None:
             path = settings.last_site
             if not path.exists():
@@ -73,7 +73,7 @@ class SiteFiles:
     # ---- recovery ---------------------------------------------------------------------------
 
     def recovery_file(self) -> Path:
-        return recovery_path(self.app.session.path)
+        return recovery_path(self.ws.session.path)
 
     def schedule_recovery(self) -> None:
         if self._recovery_timer is not None:
@@ -81,8 +81,8 @@ class SiteFiles:
         self._recovery_timer = self.app.set_timer(RECOVERY_DELAY, self.write_recovery)
 
     def write_recovery(self) -> None:
-        if self.app.session.dirty:
-            self._write_recovery(self.app.session.site, self.recovery_file())
+        if self.ws.session.dirty:
+            self._write_recovery(self.ws.session.site, self.recovery_file())
 
     def _write_recovery(self, site: Site, path: Path) -> None:
         """Write the copy in a thread worker (one at a time: a newer copy replaces an older)."""
@@ -128,11 +128,11 @@ class SiteFiles:
 
         def answer(choice: str | None) -> None:
             if choice == "restore":
-                source = self.app.session.path
-                recovered.source, recovered.origin = source, self.app.session.site.origin
-                self.app.session.replace(recovered)
-                self.app.session.mark_unsaved()  # restored work is unsaved work
-                self.app.site_changed()
+                source = self.ws.session.path
+                recovered.source, recovered.origin = source, self.ws.session.site.origin
+                self.ws.session.replace(recovered)
+                self.ws.session.mark_unsaved()  # restored work is unsaved work
+                self.ws.site_changed()
                 self.app.notify("Restored the unsaved changes.")
             elif choice == "discard":
                 self.drop_recovery(path)
@@ -147,17 +147,17 @@ class SiteFiles:
     # ---- save ---------------------------------------------------------------------------------
 
     def save(self) -> None:
-        if self.app.session.path is None:
+        if self.ws.session.path is None:
             self.save_as()
         else:
-            self.save_to(self.app.session.path)
+            self.save_to(self.ws.session.path)
 
     def save_as(self, then: object = None) -> None:
         from .screens.dialogs import SaveAsScreen
 
-        path = self.app.session.path
+        path = self.ws.session.path
         folder = path.parent if path else sites_dir()
-        name = path.name if path else file_name_for(self.app.site.title)
+        name = path.name if path else file_name_for(self.ws.site.title)
 
         def chosen(path: Path | None) -> None:
             if path is not None:
@@ -173,7 +173,7 @@ class SiteFiles:
         from .screens.dialogs import ChoiceScreen
 
         old_recovery = self.recovery_file()
-        site = self.app.session.site
+        site = self.ws.session.site
         try:
             save_site(site, path, overwrite=overwrite)
         except InputError as exc:
@@ -188,11 +188,11 @@ class SiteFiles:
             else:
                 self.app.notify(str(exc), title="Not saved", severity="error", timeout=10)
             return False
-        self.app.session.mark_saved()
+        self.ws.session.mark_saved()
         self.drop_recovery(old_recovery)
-        self.app.settings.remember_site(path)
-        self.app.save_settings()
-        self.app.site_changed()
+        self.ws.settings.remember_site(path)
+        self.ws.save_settings()
+        self.ws.site_changed()
         self.app.notify(f"Saved {file_and_folder(path)}", timeout=4)
         if callable(then):
             then()
@@ -207,7 +207,7 @@ class SiteFiles:
             if choice is not None:
                 self.leave_site(lambda: self.open_choice(choice), "opening another site")
 
-        self.app.push_screen(SitesScreen(self.app.settings.recent_sites, self.app.session.path),
+        self.app.push_screen(SitesScreen(self.ws.settings.recent_sites, self.ws.session.path),
                              chosen)
 
     def open_choice(self, choice: Path | str) -> None:
@@ -221,33 +221,33 @@ class SiteFiles:
             except InputError as exc:
                 self.app.notify(str(exc), title="Not opened", severity="error", timeout=10)
                 return
-            self.app.settings.remember_site(Path(choice))
-            self.app.save_settings()
-        self.app.session.replace(site)
-        self.app.good = None
-        self.app.site_changed()
+            self.ws.settings.remember_site(Path(choice))
+            self.ws.save_settings()
+        self.ws.session.replace(site)
+        self.ws.good = None
+        self.ws.site_changed()
         self.offer_recovery()
 
     def leave_site(self, go: object, doing: str) -> None:
         """Run ``go`` once the present site's changes are saved or knowingly dropped."""
         from .screens.dialogs import ChoiceScreen
 
-        if not self.app.session.dirty:
+        if not self.ws.session.dirty:
             go()  # type: ignore[operator]
             return
 
         def answer(choice: str | None) -> None:
             if choice == "save":
-                if self.app.session.path is None:
+                if self.ws.session.path is None:
                     self.save_as(then=go)
                 else:
-                    self.save_to(self.app.session.path, then=go)
+                    self.save_to(self.ws.session.path, then=go)
             elif choice == "drop":
                 self.drop_recovery()
                 go()  # type: ignore[operator]
 
         self.app.push_screen(ChoiceScreen(
-            "Unsaved changes", f"“{self.app.site.title}” has unsaved changes. Save them before "
+            "Unsaved changes", f"“{self.ws.site.title}” has unsaved changes. Save them before "
             f"{doing}?", [("s", "save", "Save"), ("n", "drop", "Don't save"),
                           ("escape", "cancel", "Cancel")]), answer)
 
@@ -261,25 +261,25 @@ class SiteFiles:
         present results next to the site file (or in the sites folder)."""
         from .screens.dialogs import SaveAsScreen
 
-        outcome = self.app.outcome
+        outcome = self.ws.outcome
         if outcome is None or not outcome.ok:
             self.app.notify("Nothing to export: the site does not solve yet.", severity="warning")
             return
-        folder = self.app.session.path.parent if self.app.session.path else sites_dir()
-        stem = Path(file_name_for(self.app.site.title)).stem
+        folder = self.ws.session.path.parent if self.ws.session.path else sites_dir()
+        stem = Path(file_name_for(self.ws.site.title)).stem
         suffix = ".md" if fmt == "markdown" else ".csv"
         name = _free(folder / f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}").name
-        solved, system = outcome.solved, self.app.unit_system
-        band = self.app.latest_band
+        solved, system = outcome.solved, self.ws.unit_system
+        band = self.ws.latest_band
         with_band = (band is not None and band.solved is not None
-                     and band.revision == self.app.session.revision)
+                     and band.revision == self.ws.session.revision)
         if with_band:
             solved = band.solved  # the same answer, with its P5–P95 band
 
         # The answer is the site's as it is now: with edits not yet saved, the file alone
         # would not give it back, and the record says so.
-        unsaved = self.app.session.dirty
-        saved_at = self.app.session.path
+        unsaved = self.ws.session.dirty
+        saved_at = self.ws.session.path
 
         def chosen(path: Path | None) -> None:
             if path is None:

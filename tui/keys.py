@@ -7,14 +7,12 @@ app's), so that what they list cannot drift from what the keys do.
 from __future__ import annotations
 
 from collections.abc import Callable, Iterable
-from typing import TYPE_CHECKING
 
 from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.screen import Screen
 
-if TYPE_CHECKING:
-    from .app import BranchwiseApp
+from .workspace import workspace
 
 SCREEN_TITLES = {"liquid": "Liquid", "branches": "Branches", "split": "Split"}
 
@@ -25,7 +23,7 @@ def base_screen(app: App[object]) -> Screen[object] | None:
     return stack[0] if stack else None
 
 
-def key_sections(app: BranchwiseApp) -> list[tuple[str, list[Binding]]]:
+def key_sections(app: App[None]) -> list[tuple[str, list[Binding]]]:
     """The bindings of the present screen and of the whole app, for help and the palette."""
     sections: list[tuple[str, list[Binding]]] = []
     screen = base_screen(app)
@@ -38,7 +36,7 @@ def key_sections(app: BranchwiseApp) -> list[tuple[str, list[Binding]]]:
     return sections
 
 
-def system_commands(app: BranchwiseApp, screen: Screen[object]) -> Iterable[SystemCommand]:
+def system_commands(app: App[None], screen: Screen[object]) -> Iterable[SystemCommand]:
     """Every action of the present screen and of the app, plus Textual's own."""
     base = base_screen(app)
     for title, items in key_sections(app):
@@ -48,7 +46,7 @@ def system_commands(app: BranchwiseApp, screen: Screen[object]) -> Iterable[Syst
                 continue
             name = binding.action.split("(")[0]
             if target is app:
-                state = app.available(name, ())
+                state = workspace(app).available(name, ())
             elif isinstance(target, Screen):
                 state = target.check_action(name, ())
             else:

@@ -10,7 +10,7 @@ from __future__ import annotations
 import datetime
 from typing import TYPE_CHECKING
 
-from textual.app import ComposeResult
+from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widgets import Label, Static
@@ -26,7 +26,7 @@ from .dialogs import FORM_HINT, FORM_KEYS
 if TYPE_CHECKING:
     from branchwise.core.site.spec import Site
 
-    from ..app import BranchwiseApp
+    from ..workspace import Workspace
 
 RECORD_FIELDS = (
     ("technician", "Technician", "who took the readings"),
@@ -133,7 +133,7 @@ class SiteDetailsScreen(Dialog[Details | None]):
         self.dismiss(None)
 
 
-def edit_site_details(app: BranchwiseApp) -> None:
+def edit_site_details(app: Workspace, ui: App[None]) -> None:
     """Open the dialog on the app's site; a change is one undoable edit (saved with the site)."""
     site = app.site
 
@@ -149,4 +149,4 @@ def edit_site_details(app: BranchwiseApp) -> None:
 
         app.edit("Site and readings", change)
 
-    app.push_screen(SiteDetailsScreen(text_of(site.name) or site.title, site.record), kept)
+    ui.push_screen(SiteDetailsScreen(text_of(site.name) or site.title, site.record), kept)

@@ -13,9 +13,10 @@ from textual.widget import Widget
 from textual.widgets import Footer, Header
 
 from ..widgets.status import StatusStrip
+from ..workspace import workspace
 
 if TYPE_CHECKING:
-    from ..app import BranchwiseApp
+    from ..workspace import Workspace
 
 
 class WorkScreen(Screen):
@@ -25,8 +26,8 @@ class WorkScreen(Screen):
     """Widget classes whose bindings the help screen lists for this screen."""
 
     @property
-    def bw(self) -> BranchwiseApp:
-        return self.app  # type: ignore[return-value]
+    def bw(self) -> Workspace:
+        return workspace(self.app)
 
     def compose(self) -> ComposeResult:
         yield Header(icon="≡")

@@ -45,6 +45,18 @@ class Outcome:
         return getattr(self.error, "field", "") or ""
 
 
+@dataclass(frozen=True, eq=False)
+class Band:
+    """The band worked out for one revision of the site: ``solved`` carries it in
+    :attr:`SiteResult.uncertainty`; or ``error`` says why there is none (``field``: the path
+    of the input at fault, such as ``tolerances.gauge_full_scale``)."""
+
+    revision: int
+    solved: SiteResult | None
+    error: str = ""
+    field: str = ""
+
+
 def compute(site: Site, revision: int, presets: Any = None) -> Outcome:
     """Solve ``site``; every failure the user can fix comes back as ``Outcome.error``."""
     from branchwise.core import catalogs, fluids, units  # noqa: F401  (loaded, not timed)

@@ -10,7 +10,6 @@ if it were current.
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from rich.cells import cell_len
@@ -24,25 +23,13 @@ from .quiet import put
 if TYPE_CHECKING:
     from branchwise.core.site.solve import SiteResult
 
-    from ..app import BranchwiseApp
+    from ..workspace import Workspace
 
 RANK_BAR = 14
 """Cells of a full bar in the ranking (a share of 100 %); :data:`RANK_BAR_NARROW` below
 :data:`WIDE` columns."""
 RANK_BAR_NARROW = 6
 WIDE = 100
-
-
-@dataclass(frozen=True, eq=False)
-class Band:
-    """The band worked out for one revision of the site: ``solved`` carries it in
-    :attr:`SiteResult.uncertainty`; or ``error`` says why there is none (``field``: the path
-    of the input at fault, such as ``tolerances.gauge_full_scale``)."""
-
-    revision: int
-    solved: SiteResult | None
-    error: str = ""
-    field: str = ""
 
 
 class BandView(ScrollableContainer, can_focus=True):
@@ -75,7 +62,7 @@ def _signed_percent(value: float) -> str:
     return f"{value:+.1f} %".replace("-", "−")
 
 
-def band_body(app: BranchwiseApp, sr: SiteResult) -> Text:
+def band_body(app: Workspace, sr: SiteResult, wide: bool) -> Text:
     """The band table and the ranking with bars, in the app's display units."""
     from branchwise.core.report import band as bandtext
     from branchwise.core.units import format_number
@@ -105,7 +92,7 @@ def band_body(app: BranchwiseApp, sr: SiteResult) -> Text:
         top, more, rest = bandtext.ranked(u, focus)
         what = {"total flow": "total flow", "pressure drop": "pressure drop"}.get(
             focus, "found " + (sr.result.solved.quantity if sr.result.solved else "value"))
-        narrow = app.size.width < WIDE
+        narrow = not wide
         # Below 100 columns (a 24-line terminal, most likely) the ranking starts right under
         # the table, so that more of it is in sight.
         out.append(f"\n{'' if narrow else chr(10)}What dominates the spread of the {what} — "
@@ -139,7 +126,7 @@ def _table(header: list[str], right: list[bool], rows: list[list[str]]) -> Text:
     return out
 
 
-def band_notes(app: BranchwiseApp, sr: SiteResult) -> Text:
+def band_notes(app: Workspace, sr: SiteResult) -> Text:
     """Where the tolerances come from, and the notes of the computation."""
     u = sr.uncertainty
     source = ("the site's [tolerances], common practice where it is silent"
@@ -150,4 +137,4 @@ def band_notes(app: BranchwiseApp, sr: SiteResult) -> Text:
     return out
 
 
-__all__ = ["Band", "BandView", "band_body", "band_notes", "short_name"]
+__all__ = ["BandView", "band_body", "band_notes", "short_name"]

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
+from rich.console import Console
 from rich.text import Text
 from textual.widgets import Static
 
@@ -16,9 +17,10 @@ from branchwise.core.site.fields import FieldPath
 from ..state.givens import given_of, given_text, given_words
 from ..state.session import find_of
 from ..state.values import text_of
+from ..workspace import workspace
 
 if TYPE_CHECKING:
-    from ..app import BranchwiseApp
+    from ..workspace import Workspace
 
 AREA_KEYS = {"fluid": "F2 Liquid", "branches": "F3 Branches", "conditions": "F4 Split",
              "solve": "F4 Split", "tolerances": "F4 Split, l tolerances", "record": "F8",
@@ -41,15 +43,15 @@ class StatusStrip(Static):
     _lines = 2
 
     def on_mount(self) -> None:
-        app: BranchwiseApp = self.app  # type: ignore[assignment]
+        app = self.app
         for name in ("revision", "outcome", "unit_system", "dirty"):
             self.watch(app, name, self._redraw, init=False)
         self._redraw()
 
     def _redraw(self, *_: object) -> None:
-        app: BranchwiseApp = self.app  # type: ignore[assignment]
-        width = self.content_size.width or max(1, app.size.width - 2)
-        text = describe(app, getattr(self.screen, "LISTS_WARNINGS", False), width)
+        width = self.content_size.width or max(1, self.app.size.width - 2)
+        text = describe(workspace(self.app), getattr(self.screen, "LISTS_WARNINGS", False),
+                        width, self.app.console)
         if self.content != text:
             lines = text.plain.count("\n") + 1
             # A new layout only when an error takes more lines or gives them back.
@@ -60,7 +62,8 @@ class StatusStrip(Static):
         self._redraw()
 
 
-def describe(app: BranchwiseApp, on_split: bool = False, width: int | None = None) -> Text:
+def describe(app: Workspace, on_split: bool = False, width: int | None = None,
+             console: Console | None = None) -> Text:
     """The strip's text for the app's present state (``on_split``: the strip of the Split
     screen, where ``w`` lists the warnings); ``width`` (cells): the room on each line, where
     the first line is cut and an error wrapped (None: one line each, uncut)."""
@@ -90,7 +93,7 @@ def describe(app: BranchwiseApp, on_split: bool = False, width: int | None = Non
         # An error that does not fit: wrapped on the lines it may take, the last cut to leave
         # room for where to read it whole (the Split's message area, the Branches screen's,
         # the field on the Liquid screen).
-        lines = state.wrap(app.console, width, overflow="fold")
+        lines = state.wrap(console or Console(), width, overflow="fold")
         if len(lines) > ERROR_LINES:
             lines = lines[:ERROR_LINES]
             lines[-1].truncate(max(1, width - where.cell_len - 1))
@@ -107,7 +110,7 @@ def describe(app: BranchwiseApp, on_split: bool = False, width: int | None = Non
     return line
 
 
-def _state(app: BranchwiseApp, on_split: bool) -> tuple[Text, Text]:
+def _state(app: Workspace, on_split: bool) -> tuple[Text, Text]:
     """The solver's state (solving, the error, or how many branches were solved), and for an
     error, the screen where it is read in full (``  (F3 Branches)``)."""
     line, where = Text(), Text()

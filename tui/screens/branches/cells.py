@@ -20,7 +20,7 @@ from branchwise.core.site.valves import series_kv
 from ...state.values import is_bare_number, is_plain_diameter, text_of, with_unit
 
 if TYPE_CHECKING:
-    from ...app import BranchwiseApp
+    from ...workspace import Workspace
 
 COLUMNS = (
     ("name", "Branch"),
@@ -97,7 +97,7 @@ def cell_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:
     }.get(column, lambda: "")()
 
 
-def flow_cells(app: BranchwiseApp) -> dict[int, str]:
+def flow_cells(app: Workspace) -> dict[int, str]:
     """The Flow column: each branch's flow in the present answer (or the last good one),
     by branch index, in the display unit; a branch the answer does not name has none."""
     shown = app.outcome if app.outcome is not None and app.outcome.ok else app.good

@@ -27,9 +27,10 @@ from ...state.session import find_of, set_find
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.choice import Choice
 from ...widgets.quiet import put, show_text
+from ...workspace import workspace
 
 if TYPE_CHECKING:
-    from ...app import BranchwiseApp
+    from ...workspace import Workspace
 
 GIVEN_PREFIX = "measured:"
 """A given-kind choice value ``measured:<index>``: the reading on that branch."""
@@ -44,8 +45,8 @@ class GivenFindRows(Vertical):
     branch's diameter, length or roughness for a target flow), with their messages."""
 
     @property
-    def bw(self) -> BranchwiseApp:
-        return self.app  # type: ignore[return-value]
+    def bw(self) -> Workspace:
+        return workspace(self.app)
 
     def compose(self) -> ComposeResult:
         seeking = find_of(self.bw.site) != "flows"

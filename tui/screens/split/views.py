@@ -28,11 +28,13 @@ from textual.widget import Widget
 from textual.widgets import Static
 from textual.worker import get_current_worker
 
-from ...widgets.bandview import Band, BandView, band_body, band_notes
+from ...state.outcome import Band
+from ...widgets.bandview import WIDE, BandView, band_body, band_notes
 from ...widgets.curveplot import CurvePlot, PlotData, Series
 from ...widgets.quiet import put
 from ...widgets.sharebar import share_bar
 from ...widgets.texttable import TextTable
+from ...workspace import workspace
 from ..warnings import fit_lines
 
 if TYPE_CHECKING:
@@ -40,8 +42,8 @@ if TYPE_CHECKING:
     from branchwise.core.site.solve import SiteResult
     from branchwise.core.site.spec import Site, TolerancesSpec
 
-    from ...app import BranchwiseApp
     from ...state.outcome import Outcome
+    from ...workspace import Workspace
 
 BAND_SAMPLES = 10_000
 BAND_SEED = 0
@@ -98,8 +100,8 @@ class ResultViews(Vertical):
     _drawn: tuple[object, ...] | None = None
 
     @property
-    def bw(self) -> BranchwiseApp:
-        return self.app  # type: ignore[return-value]
+    def bw(self) -> Workspace:
+        return workspace(self.app)
 
     def compose(self) -> ComposeResult:
         yield TextTable(id="results")
@@ -369,7 +371,8 @@ class ResultViews(Vertical):
             head.append("; below, the band of earlier inputs", style="dim")
         body = Text()
         if band is not None and band.solved is not None:
-            body = band_body(app, band.solved) + band_notes(app, band.solved)
+            wide = self.app.size.width >= WIDE
+            body = band_body(app, band.solved, wide) + band_notes(app, band.solved)
         self.query_one("#band-view", BandView).show(head, body, stale=state != "current")
 
     # ---- the curve -----------------------------------------------------------------------------
