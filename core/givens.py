@@ -9,6 +9,7 @@ meter's reading.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from .model import Given, MeasuredFlow, PressureDrop, TotalFlow
@@ -33,15 +34,17 @@ class GivenKind:
     instrument: str
     on_branch: bool
     model: type[PressureDrop] | type[TotalFlow] | type[MeasuredFlow]
+    build: Callable[[float, str], Given]
+    """The given condition from an SI value (and, on a branch, the branch's name)."""
 
 
 GIVENS: dict[str, GivenKind] = {g.key: g for g in (
     GivenKind("pressure_drop", "pressure", "pressure drop", "Δp across the header", "Δp",
-              "gauge", False, PressureDrop),
+              "gauge", False, PressureDrop, lambda value, _: PressureDrop(value)),
     GivenKind("total_flow", "flow", "total flow", "Total flow", "total", "meter", False,
-              TotalFlow),
+              TotalFlow, lambda value, _: TotalFlow(value)),
     GivenKind("measured_flow", "flow", "measured flow", "Reading on a branch", "reading",
-              "meter", True, MeasuredFlow),
+              "meter", True, MeasuredFlow, lambda value, branch: MeasuredFlow(branch, value)),
 )}
 """Every kind of reading, by key, in the order a site file lists them."""
 
@@ -60,11 +63,14 @@ def kind_of(given: Given) -> GivenKind:
 def make_given(key: str, value: float, branch: str | None = None) -> Given:
     """The core's given condition of kind ``key`` (SI value; ``branch`` for a branch reading)."""
     kind = GIVENS[key]
-    if kind.on_branch:
-        if branch is None:
-            raise ValueError(f"{key} needs a branch")
-        return MeasuredFlow(branch, value)
-    return kind.model(value)  # type: ignore[call-arg]
+    if kind.on_branch and branch is None:
+        raise ValueError(f"{key} needs a branch")
+    return kind.build(value, branch or "")
+
+
+def branch_of(given: Given) -> str | None:
+    """The branch a given reading was taken on (None for a reading at the header)."""
+    return given.branch if isinstance(given, MeasuredFlow) else None
 
 
 def reading_words(key: str, branch: str | None = None) -> str:
@@ -73,4 +79,5 @@ def reading_words(key: str, branch: str | None = None) -> str:
     return f"{words} in '{branch}'" if GIVENS[key].on_branch and branch is not None else words
 
 
-__all__ = ["GIVENS", "HEADER_READINGS", "GivenKind", "kind_of", "make_given", "reading_words"]
+__all__ = ["GIVENS", "HEADER_READINGS", "GivenKind", "branch_of", "kind_of", "make_given",
+           "reading_words"]

@@ -9,17 +9,27 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
-from typing import Literal
+from typing import Literal, get_args
 
 from .errors import InputError
 
 STANDARD_GRAVITY = 9.80665
 """Standard acceleration of gravity, m/s² (ISO 80000-3; CGPM 1901)."""
 
-FRICTION_MODELS = ("colebrook", "haaland", "swamee-jain", "churchill", "hazen-williams", "laminar")
 FrictionModel = Literal[
     "colebrook", "haaland", "swamee-jain", "churchill", "hazen-williams", "laminar"
 ]
+FRICTION_MODELS: tuple[FrictionModel, ...] = get_args(FrictionModel)
+"""The friction models a network may use (see :mod:`branchwise.core.numerics.friction`)."""
+
+
+def friction_model(text: object, path: str = "conditions.friction") -> FrictionModel:
+    """``text`` as one of :data:`FRICTION_MODELS`, or an InputError on ``path`` naming them."""
+    for model in FRICTION_MODELS:
+        if text == model:
+            return model
+    raise InputError(path, text, f"must be one of {', '.join(FRICTION_MODELS)}")
+
 
 CV_PER_KV = 1.156
 """Cv (US gpm, psi) per Kv (m³/h, bar); IEC 60534-1 / ISA-75.01 give Cv = 1.156 Kv."""
@@ -207,10 +217,7 @@ class Network:
                 finite("conditions.elevation_change", self.elevation_change), MAX_ELEVATION, "m",
                 "elevation change")
         positive("conditions.gravity", self.gravity)
-        if self.friction not in FRICTION_MODELS:
-            raise InputError(
-                "conditions.friction", self.friction, f"must be one of {', '.join(FRICTION_MODELS)}"
-            )
+        friction_model(self.friction)
         if self.friction == "hazen-williams":
             for i, br in enumerate(self.branches):
                 for j, seg in enumerate(br.segments):

@@ -198,7 +198,7 @@ class BranchwiseApp(App[None]):
 
     # ---- edits ------------------------------------------------------------------------------
 
-    def edit(self, label: str, change: Callable[[Site], None], key: str = "") -> None:
+    def edit(self, label: str, change: Callable[[Site], object], key: str = "") -> None:
         """Apply ``change`` to a copy of the site, make it the site, and solve again."""
         self.session.edit(label, change, key)
         self.site_changed()
@@ -303,7 +303,7 @@ class BranchwiseApp(App[None]):
             return "Nothing to undo."
         if action == "redo":
             return "Nothing to redo."
-        if action == "save":
+        if action == "save" and self.session.path is not None:
             return f"Nothing to save: no changes since it was saved to {self.session.path.name}."
         if action == "show":
             return f"This is the {SCREEN_TITLES.get(str(parameters[0]), '')} screen."
@@ -378,12 +378,11 @@ class BranchwiseApp(App[None]):
     def action_command_palette(self) -> None:
         """Textual's palette, closing once; not a second one while the last one is still
         being taken down (a burst of Ctrl+P, Esc, Ctrl+P)."""
-        from textual.command import CommandPalette
 
         from .screens.palette import Palette
 
         last = self._palette
-        if not self.use_command_palette or CommandPalette.is_open(self) or (
+        if not self.use_command_palette or self.screen.has_class("--textual-command-palette") or (
                 last is not None and last.is_attached):
             return
         self._palette = Palette(id="--command-palette")

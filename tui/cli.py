@@ -129,6 +129,7 @@ def _whole(text: str | None, option: str, low: int, high: int | None, default: i
 
     if text is None:
         return default
+    number: int | None
     try:
         number = int(text)
     except ValueError:
@@ -136,7 +137,7 @@ def _whole(text: str | None, option: str, low: int, high: int | None, default: i
             value = float(text)
         except ValueError:
             value = float("nan")
-        number = int(value) if value.is_integer() else None  # type: ignore[assignment]
+        number = int(value) if value.is_integer() else None
     if number is None or number < low or (high is not None and number > high):
         span = f"from {low:,} to {high:,}" if high is not None else f"of at least {low}"
         raise InputError(option, text, f"must be a whole number {span}")
@@ -153,7 +154,7 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     from branchwise.core.report import render
     from branchwise.core.site.read import demo_site, load_site
     from branchwise.core.site.solve import solve_site, with_uncertainty
-    from branchwise.core.storage.toml_files import atomic_write_text
+    from branchwise.core.storage.atomic import atomic_write_text
 
     samples_text, seed_text = getattr(args, "samples", None), getattr(args, "seed", None)
     samples = _whole(samples_text, "--samples", SAMPLES_MIN, SAMPLES_MAX, SAMPLES_DEFAULT)
@@ -207,7 +208,7 @@ def _curve_csv(solved: SiteResult, units: str) -> str:
 def _demo(path: Path, force: bool, out: TextIO) -> int:
     from branchwise.core.errors import InputError
     from branchwise.core.site.read import DEMO_NAME, demo_text
-    from branchwise.core.storage.toml_files import atomic_write_text
+    from branchwise.core.storage.atomic import atomic_write_text
 
     if path.is_dir():
         path = path / DEMO_NAME
@@ -282,10 +283,10 @@ def _message(exc: Exception, label: str, system: str = "si") -> str:
     if isinstance(exc, InputError) and exc.field.startswith("--"):  # an option, not the file
         return _one_line(f"{exc.field}: {exc.reason}, got {exc.value}")
     field, name = getattr(exc, "field", "") or "", Path(label).name
-    if field == name or field.startswith(name + " "):  # "demo.toml line 7" → "line 7"
+    if isinstance(exc, InputError) and (field == name or field.startswith(name + " ")):
+        # "demo.toml line 7" → "line 7"
         field = field[len(name):].strip()
-        exc = InputError(field, exc.marked_value, exc.marked_reason).naming(  # type: ignore
-            exc.names)  # type: ignore[attr-defined]
+        exc = InputError(field, exc.marked_value, exc.marked_reason).naming(exc.names)
     text = error_text(exc, system)
     path = FieldPath.parse(field)
     if field and path.parts and path.words(getattr(exc, "names", ())) != field:

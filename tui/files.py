@@ -9,6 +9,7 @@ asks first; a recovery copy found at start-up is offered back. Saving goes throu
 from __future__ import annotations
 
 import re
+from collections.abc import Callable
 from datetime import datetime
 from pathlib import Path
 
@@ -228,12 +229,12 @@ class SiteFiles:
         self.ws.site_changed()
         self.offer_recovery()
 
-    def leave_site(self, go: object, doing: str) -> None:
+    def leave_site(self, go: Callable[[], object], doing: str) -> None:
         """Run ``go`` once the present site's changes are saved or knowingly dropped."""
         from .screens.dialogs import ChoiceScreen
 
         if not self.ws.session.dirty:
-            go()  # type: ignore[operator]
+            go()
             return
 
         def answer(choice: str | None) -> None:
@@ -244,7 +245,7 @@ class SiteFiles:
                     self.save_to(self.ws.session.path, then=go)
             elif choice == "drop":
                 self.drop_recovery()
-                go()  # type: ignore[operator]
+                go()
 
         self.app.push_screen(ChoiceScreen(
             "Unsaved changes", f"“{self.ws.site.title}” has unsaved changes. Save them before "
@@ -273,8 +274,10 @@ class SiteFiles:
         band = self.ws.latest_band
         with_band = (band is not None and band.solved is not None
                      and band.revision == self.ws.session.revision)
-        if with_band:
+        if band is not None and band.solved is not None and with_band:
             solved = band.solved  # the same answer, with its P5–P95 band
+        if solved is None:
+            return
 
         # The answer is the site's as it is now: with edits not yet saved, the file alone
         # would not give it back, and the record says so.

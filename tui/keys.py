@@ -7,9 +7,11 @@ app's), so that what they list cannot drift from what the keys do.
 from __future__ import annotations
 
 from collections.abc import Callable, Iterable
+from typing import Any
 
 from textual.app import App, SystemCommand
 from textual.binding import Binding
+from textual.dom import DOMNode
 from textual.screen import Screen
 
 from .workspace import workspace
@@ -17,13 +19,13 @@ from .workspace import workspace
 SCREEN_TITLES = {"liquid": "Liquid", "branches": "Branches", "split": "Split"}
 
 
-def base_screen(app: App[object]) -> Screen[object] | None:
+def base_screen(app: App[Any]) -> Screen[Any] | None:
     """The screen under any dialogs."""
     stack = app.screen_stack
     return stack[0] if stack else None
 
 
-def key_sections(app: App[None]) -> list[tuple[str, list[Binding]]]:
+def key_sections(app: App[Any]) -> list[tuple[str, list[Binding]]]:
     """The bindings of the present screen and of the whole app, for help and the palette."""
     sections: list[tuple[str, list[Binding]]] = []
     screen = base_screen(app)
@@ -36,21 +38,21 @@ def key_sections(app: App[None]) -> list[tuple[str, list[Binding]]]:
     return sections
 
 
-def system_commands(app: App[None], screen: Screen[object]) -> Iterable[SystemCommand]:
+def system_commands(app: App[Any], screen: Screen[Any]) -> Iterable[SystemCommand]:
     """Every action of the present screen and of the app, plus Textual's own."""
     base = base_screen(app)
     for title, items in key_sections(app):
-        target: object = base if not title.startswith("Everywhere") else app
+        target: DOMNode | None = base if not title.startswith("Everywhere") else app
+        if target is None:
+            continue
         for binding in items:
             if not binding.description:
                 continue
             name = binding.action.split("(")[0]
             if target is app:
                 state = workspace(app).available(name, ())
-            elif isinstance(target, Screen):
-                state = target.check_action(name, ())
             else:
-                state = True
+                state = target.check_action(name, ())
             if state is False:
                 continue
             key = app.get_key_display(binding)
@@ -67,8 +69,8 @@ def bindings(items: Iterable[object]) -> list[Binding]:
     return [b for b in items if isinstance(b, Binding) and not b.system]
 
 
-def _runner(app: App[object], action: str, target: object) -> Callable[[], object]:
+def _runner(app: App[Any], action: str, target: DOMNode) -> Callable[[], object]:
     async def run() -> None:
-        await app.run_action(action, target)  # type: ignore[arg-type]
+        await app.run_action(action, target)
 
     return run

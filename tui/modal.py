@@ -51,9 +51,10 @@ class Dialog(ModalScreen[ResultT]):
         from .widgets.field import Field
 
         shown = [f for f in self.query(Field) if f.display]
-        if widget not in shown or widget is shown[-1]:
+        at = next((i for i, f in enumerate(shown) if f is widget), None)
+        if at is None or at == len(shown) - 1:
             return False
-        shown[shown.index(widget) + 1].input.focus()  # type: ignore[arg-type]
+        shown[at + 1].input.focus()
         return True
 
 

@@ -23,6 +23,7 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import cache
+from typing import Any
 
 from ..errors import InputError, describe
 from ..model import non_negative, positive
@@ -77,19 +78,19 @@ def crane_bend_n(angle_deg: float, r_over_d: float, n_90: float) -> float:
     return (m - 1.0) * (0.25 * math.pi * r_over_d + 0.5 * n_90) + n_90
 
 
-def _fitting(raw: dict) -> Fitting:
+def _fitting(raw: dict[str, Any]) -> Fitting:
     n = raw.get("n")
     if "bend" in raw:
         bend = raw["bend"]
         n = crane_bend_n(bend["angle_deg"], bend["r_over_d"], bend["n_90"])
-    rows = tuple(tuple(float(x) for x in row) for row in raw.get("n_by_nps", ()))
+    rows = tuple((float(low), float(high), float(n)) for low, high, n in raw.get("n_by_nps", ()))
     return Fitting(
         key=raw["key"],
         name=raw["name"],
         n=None if n is None else float(n),
         k=None if raw.get("k") is None else float(raw["k"]),
         source=raw["source"],
-        n_by_nps=rows,  # type: ignore[arg-type]
+        n_by_nps=rows,
     )
 
 

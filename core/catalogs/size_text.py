@@ -182,6 +182,8 @@ def _resolve(
             how += " (NPS) or DN" if has_dn and t.nominal_unit == "in" else ""
             raise fail(f"{t.standard} sizes are given in {how}, not {unit}")
         wanted = Fraction(dn) if dn is not None else value
+        if wanted is None:  # checked above: a size or a DN was found
+            raise fail("has no size; write e.g. '3 in sch 40' or 'DN 80 sch 40'")
         matches = [sz for sz in t.sizes if sz.value == wanted]
         if not matches:
             hint = ""

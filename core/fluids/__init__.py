@@ -21,11 +21,14 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
 from ..model import Fluid
 from .water import STANDARD_ATMOSPHERE_PA
+
+if TYPE_CHECKING:
+    from .glycol import GlycolKind
 
 
 @dataclass(frozen=True)
@@ -95,11 +98,11 @@ def _seawater(temperature_k: float, salinity_kg_kg: float,
     return seawater(temperature_k, salinity_kg_kg, pressure_pa)
 
 
-def _glycol(kind: str) -> Callable[..., Fluid]:
+def _glycol(kind: GlycolKind) -> Callable[..., Fluid]:
     def build(temperature_k: float, mass_fraction: float) -> Fluid:
         from .glycol import glycol
 
-        return glycol(kind, temperature_k, mass_fraction)  # type: ignore[arg-type]
+        return glycol(kind, temperature_k, mass_fraction)
 
     return build
 

@@ -36,7 +36,7 @@ def second_derivatives(knots: FloatArray, values: FloatArray) -> FloatArray:
     # Not-a-knot: the cubic on the first two intervals is one polynomial (same at the far end).
     a[0, :3] = (h[1], -(h[0] + h[1]), h[0])
     a[-1, -3:] = (h[-1], -(h[-2] + h[-1]), h[-2])
-    return np.linalg.solve(a, rhs)
+    return np.asarray(np.linalg.solve(a, rhs), dtype=np.float64)
 
 
 def evaluate(knots: FloatArray, values: FloatArray, curvature: FloatArray, x: float) -> FloatArray:
@@ -50,12 +50,13 @@ def evaluate(knots: FloatArray, values: FloatArray, curvature: FloatArray, x: fl
     left = knots[i + 1] - x
     right = x - knots[i]
     m0, m1 = curvature[i], curvature[i + 1]
-    return (
+    out: FloatArray = (
         m0 * left**3 / (6.0 * h)
         + m1 * right**3 / (6.0 * h)
         + (values[i] / h - m0 * h / 6.0) * left
         + (values[i + 1] / h - m1 * h / 6.0) * right
     )
+    return out
 
 
 def interpolate(knots: FloatArray, values: FloatArray, x: float) -> FloatArray:

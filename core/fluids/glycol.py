@@ -87,7 +87,7 @@ def _table(kind: GlycolKind) -> _Table:
 def _checked_kind(kind: str) -> GlycolKind:
     if kind not in GLYCOL_KINDS:
         raise InputError("fluid.kind", kind, f"must be one of {', '.join(GLYCOL_KINDS)}")
-    return kind  # type: ignore[return-value]
+    return kind
 
 
 def _checked_fraction(table: _Table, mass_fraction: float) -> float:

@@ -101,7 +101,7 @@ def saturation_temperature_if97(pressure_pa: float) -> float:
     IAPWS-IF97 region 4, eq. 31 (the backward equation); valid from 611.213 Pa to 22.064 MPa.
     """
     n = _N4
-    beta = (pressure_pa / 1e6) ** 0.25
+    beta = math.sqrt(math.sqrt(pressure_pa / 1e6))
     e = beta**2 + n[2] * beta + n[5]
     f = n[0] * beta**2 + n[3] * beta + n[6]
     g = n[1] * beta**2 + n[4] * beta + n[7]

@@ -26,7 +26,7 @@ def collect_warnings(
     def add(code: str, seg: int | None, branch: int | None, detail: str) -> None:
         name = names[branch] if branch is not None else None
         where = ""
-        if seg is not None and len(net.branches[branch].segments) > 1:  # type: ignore[index]
+        if seg is not None and branch is not None and len(net.branches[branch].segments) > 1:
             where = f"segment {seg_index[seg] + 1}: "
         out.append(Warning(code, name, f"{where}{detail}"))
 

@@ -14,6 +14,8 @@ branch's Q(h) has exactly one answer, and results there are flagged.
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 import numpy as np
 from numpy.typing import NDArray
 
@@ -168,7 +170,9 @@ def darcy(re: Array, rr: Array, model: str = "colebrook") -> tuple[Array, Array]
     return f, slope
 
 
-def _bridged(re: Array, rr: Array, turbulent) -> tuple[Array, Array]:
+def _bridged(
+    re: Array, rr: Array, turbulent: Callable[[Array, Array], tuple[Array, Array]]
+) -> tuple[Array, Array]:
     """Churchill in the transition zone, shifted to meet 64/Re and the turbulent model."""
     lo = np.full_like(re, RE_LAMINAR)
     hi = np.full_like(re, RE_TURBULENT)
@@ -198,7 +202,7 @@ HW_Q_EXP = 1.852
 HW_D_EXP = 4.8704
 
 
-def hazen_williams_head(q: Array, length: Array, diameter: Array, c: Array) -> Array:
+def hazen_williams_head(q: Array, length: Array | float, diameter: Array, c: Array) -> Array:
     """Friction head loss, m, by Hazen–Williams in SI units (q m³/s, length and diameter m)."""
     q = np.asarray(q, dtype=float)
     return HW_K_SI * length * np.abs(q) ** HW_Q_EXP / (c**HW_Q_EXP * diameter**HW_D_EXP)

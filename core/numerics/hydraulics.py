@@ -141,8 +141,8 @@ def head_and_slope(lay: Layout, q: Array) -> tuple[Array, Array]:
         valve = lay.valve_r * q * np.abs(q)
         h = np.bincount(lay.seg_branch, st.major + st.minor, minlength=n) + valve
         # d h/d ln Q per segment: major (2 + slope), minor and valve 2.
-        dh = np.bincount(lay.seg_branch, st.major * (2 + st.slope) + 2 * st.minor, minlength=n)
-        dh = dh + 2 * valve
+        dh = np.bincount(lay.seg_branch, st.major * (2 + st.slope) + 2 * st.minor,
+                         minlength=n) + 2 * valve
     with np.errstate(divide="ignore", invalid="ignore"):
         return h, np.where(h != 0, dh / h, 2.0)
 

@@ -15,7 +15,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 from numpy.typing import NDArray
 
-from ..model import Find, FindUnknown, Given, Network
+from ..model import Branch, Find, FindUnknown, Given, Network, Segment
 from .hydraulics import Array, Layout
 
 BoolArray = NDArray[np.bool_]
@@ -98,9 +98,10 @@ class Variants:
         self, network: Network, given: Given, find: Find, copy: int = 0
     ) -> tuple[Network, Given, Find]:
         """Copy ``copy`` as plain model objects (for :func:`.solve.solve`)."""
-        k, branches = 0, []
+        k = 0
+        branches: list[Branch] = []
         for br in network.branches:
-            segs = []
+            segs: list[Segment] = []
             for sg in br.segments:
                 segs.append(replace(
                     sg, diameter=float(self.diameter[copy, k]), length=float(self.length[copy, k]),

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import csv
 import io
+from collections.abc import Sequence
 
 from ..site.solve import SiteResult
 from ..units import Units, format_number, units_for
@@ -49,7 +50,7 @@ def to_csv(sr: SiteResult, reader: Units | str = "si") -> str:
             pair = band.band_range(sr, f"branch '{b.name}' flow", u) if j == 0 else None
             row[at:at] = [format_number(v) for v in pair] if pair else ["", ""]
         rows.append(row)
-    texts = ([*summary_lines(sr, u), *solved_lines(sr, u)], [],
+    texts: tuple[Sequence[str], ...] = ([*summary_lines(sr, u), *solved_lines(sr, u)], [],
              record_lines(sr.site), band.summary_lines(sr, u), warning_lines(sr, u),
              notes_of(sr), CAUTIONS)
     for label, lines in zip(CSV_LABELS, texts, strict=True):

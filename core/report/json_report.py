@@ -13,7 +13,7 @@ import json
 import math
 from typing import Any
 
-from ..givens import kind_of
+from ..givens import branch_of, kind_of
 from ..numerics.results import SegmentResult
 from ..site.readings import compare
 from ..site.solve import SiteResult
@@ -39,7 +39,7 @@ def _segment_json(seg: SegmentResult) -> dict[str, Any]:
 
 def _given_json(sr: SiteResult) -> dict[str, Any]:
     g = sr.built.given
-    return {"quantity": kind_of(g).key, "branch": getattr(g, "branch", None),
+    return {"quantity": kind_of(g).key, "branch": branch_of(g),
             "value_si": g.value}
 
 

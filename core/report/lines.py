@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from ..errors import BranchwiseError
 from ..finds import FINDS
-from ..givens import GIVENS, kind_of, reading_words
+from ..givens import GIVENS, branch_of, kind_of, reading_words
 from ..site.readings import Comparison, compare
 from ..site.solve import SiteResult
 from ..site.spec import Site
@@ -42,7 +42,7 @@ def given_text(sr: SiteResult, reader: Units | str = "si") -> str:
     kind = kind_of(g)
     value = u.quantity(g.value, kind.quantity)
     if kind.on_branch:
-        return f"{kind.words} {value} in '{g.branch}'"  # type: ignore[union-attr]
+        return f"{kind.words} {value} in '{branch_of(g)}'"
     return f"{kind.words} {value}"
 
 
@@ -54,8 +54,7 @@ def held_text(sr: SiteResult, reader: Units | str = "si") -> str:
     if kind.key == "total_flow":
         return f"the total flow of {value} held: the other branches then carry less"
     if kind.on_branch:
-        return (f"the measured {value} in '{g.branch}' held, "  # type: ignore[union-attr]
-                "so the driving head is unchanged")
+        return f"the measured {value} in '{branch_of(g)}' held, so the driving head is unchanged"
     return f"the {kind.words} of {value} held"
 
 

@@ -16,7 +16,6 @@ from ..finds import FINDS
 from ..givens import GIVENS, make_given
 from ..messages import marked
 from ..model import (
-    FRICTION_MODELS,
     STANDARD_GRAVITY,
     Branch,
     Find,
@@ -25,13 +24,14 @@ from ..model import (
     Given,
     Network,
     Segment,
+    friction_model,
 )
 from ..units import parse_quantity
 from .fields import FieldPath
 from .liquid import build_fluid
 from .readings import chosen
-from .spec import BranchSpec, SegmentSpec, Site
-from .values import at_least, plain_number, quantity, text_value
+from .spec import BranchSpec, SegmentSpec, Site, Value
+from .values import at_least, number, optional_quantity, plain_number, quantity, text_value
 from .valves import series_kv
 
 if TYPE_CHECKING:
@@ -70,14 +70,15 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     if seg.diameter is not None and seg.size is not None:
         raise InputError(f"{path}.size", describe(seg.size), "give diameter or size, not both")
     size = None
+    d_value: Value
     if seg.size is not None:
-        size_text = text_value(seg.size, f"{path}.size")
-        size = parse_size(size_text, f"{path}.size")  # type: ignore[arg-type]
+        size_text = text_value(seg.size, f"{path}.size") or ""
+        size = parse_size(size_text, f"{path}.size")
         diameter = (size.inner_diameter_m if size is not None
                     else parse_quantity(size_text, "diameter", f"{path}.size"))
         d_path, d_value = f"{path}.size", seg.size
     else:
-        diameter = quantity(seg.diameter, "diameter", f"{path}.diameter")  # type: ignore[assignment]
+        diameter = quantity(seg.diameter, "diameter", f"{path}.diameter")
         d_path, d_value = f"{path}.diameter", seg.diameter
     at_least(diameter, d_path, d_value, 0.0, strict=True)
 
@@ -115,20 +116,20 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
             roughness = mat.aged_roughness_m
         if hw_c is None:
             hw_c = mat.hazen_williams_c
-    if roughness >= diameter / 2:  # type: ignore[operator]
+    if roughness >= diameter / 2:
         r_path, r_value = ((f"{path}.roughness", seg.roughness) if seg.roughness is not None
                            else (m_path, seg.material))
-        half = marked("roughness", diameter / 2)  # type: ignore[operator]
+        half = marked("roughness", diameter / 2)
         raise InputError(r_path, describe(r_value), f"must be below half the diameter ({half})")
     minor_k = plain_number(seg.minor_k, f"{path}.minor_k") or 0.0
     at_least(minor_k, f"{path}.minor_k", seg.minor_k, 0.0, strict=False)
     counts: dict[str, float] = {}
     for key, count in seg.fittings.items():
-        number = plain_number(count, f"{path}.fittings.{key}")
-        at_least(number, f"{path}.fittings.{key}", count, 0.0, strict=False)
-        counts[key] = number  # type: ignore[assignment]
+        n = number(count, f"{path}.fittings.{key}")
+        at_least(n, f"{path}.fittings.{key}", count, 0.0, strict=False)
+        counts[key] = n
     k_fittings = fittings_k(counts, diameter, f"{path}.fittings") if counts else 0.0
-    segment = Segment(diameter, length, roughness, minor_k + k_fittings, hw_c)  # type: ignore[arg-type]
+    segment = Segment(diameter, length, roughness, minor_k + k_fittings, hw_c)
     return segment, size, k_fittings
 
 
@@ -191,7 +192,7 @@ def _find(site: Site, network: Network) -> Find:
     if seg is None or seg != int(seg) or not 1 <= seg <= n_seg:
         raise InputError("solve.segment", describe(s.segment),
                          f"must be a segment number from 1 to {n_seg} (counted from 1)")
-    return FindUnknown(find, network.branches[index].name, target, int(seg) - 1)  # type: ignore[arg-type]
+    return FindUnknown(find, network.branches[index].name, target, int(seg) - 1)
 
 
 def build(site: Site, presets: PresetSource | None = None) -> Built:
@@ -225,19 +226,16 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
         ks.append(tuple(k))
         paths.append(tuple(p))
     c = site.conditions
-    friction = text_value(c.friction, "conditions.friction") or "colebrook"
-    if friction not in FRICTION_MODELS:
-        raise InputError("conditions.friction", friction,
-                         f"must be one of {', '.join(FRICTION_MODELS)}")
-    elevation = quantity(c.elevation_change, "length", "conditions.elevation_change", False)
-    gravity = quantity(c.gravity, "acceleration", "conditions.gravity", False)
+    friction = friction_model(text_value(c.friction, "conditions.friction") or "colebrook")
+    elevation = optional_quantity(c.elevation_change, "length", "conditions.elevation_change")
+    gravity = optional_quantity(c.gravity, "acceleration", "conditions.gravity")
     at_least(gravity, "conditions.gravity", c.gravity, 0.0, strict=True)
-    limit = quantity(c.velocity_limit, "velocity", "conditions.velocity_limit", False)
+    limit = optional_quantity(c.velocity_limit, "velocity", "conditions.velocity_limit")
     at_least(limit, "conditions.velocity_limit", c.velocity_limit, 0.0, strict=True)
     try:
         network = Network(
             fluid, tuple(branches), elevation or 0.0, gravity or STANDARD_GRAVITY,
-            friction,  # type: ignore[arg-type]
+            friction,
             3.0 if limit is None else limit,
         )
     except InputError as exc:  # the model names segments[0] even of a one-pipe branch

@@ -16,7 +16,6 @@ from dataclasses import dataclass
 
 from ..errors import BranchwiseError, InputError, describe
 from ..units import Units, reason_and_value, units_for
-from .spec import Value
 
 _PART = re.compile(r'(?:"((?:[^"\\]|\\.)*)"|([A-Za-z0-9_-]+))(?:\[(\d+)\])?')
 AREAS = ("fluid", "conditions", "solve", "tolerances", "record", "branches")
@@ -100,7 +99,7 @@ class FieldPath:
             return FieldPath.parse(text)
         return self
 
-    def words(self, names: Sequence[Value] = ()) -> str:
+    def words(self, names: Sequence[object] = ()) -> str:
         """The path as a technician with the file open would say it: a branch's field by the
         branch's name, ``branch "AHU-2 coil" length``, ``branch "Bypass" segment 1 size``
         (segments count from 1, as ``solve.segment`` does); any other field as the file writes
@@ -122,7 +121,7 @@ _BRANCH_REF = re.compile(r"branches\[\d+\](?:\.segments\[\d+\])?(?:\.[A-Za-z0-9_
 """A branch's field path inside message text."""
 
 
-def in_words(text: str, names: Sequence[Value]) -> str:
+def in_words(text: str, names: Sequence[object]) -> str:
     """``text`` with every branch field path in it put in words (see :meth:`FieldPath.words`):
     a reason may name another field (``duplicates branches[0].name``)."""
     return _BRANCH_REF.sub(lambda m: FieldPath.parse(m[0]).words(names), text)
@@ -140,7 +139,7 @@ def reason_text(error: BaseException, reader: Units | str = "si") -> str:
 
 
 def error_text(error: BaseException, reader: Units | str = "si",
-               names: Sequence[Value] | None = None) -> str:
+               names: Sequence[object] | None = None) -> str:
     """An error for a person, worded the same in the app and on the command line: the field
     in words (:meth:`FieldPath.words`), then the reason: ``branch "AHU-2 coil" length: must
     not be negative, got -180 ft``. ``names``: the site's branch names (default: those the

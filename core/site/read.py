@@ -15,9 +15,13 @@ from dataclasses import fields
 from datetime import date, time
 from functools import cache
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any, TypeVar
 
 from ..errors import InputError, describe
+
+if TYPE_CHECKING:
+    from _typeshed import DataclassInstance
+
 from .spec import (
     BRANCH_KEYS,
     CONDITION_KEYS,
@@ -39,6 +43,8 @@ from .spec import (
 )
 
 # ---- reading ---------------------------------------------------------------------------------
+
+SpecT = TypeVar("SpecT", bound="DataclassInstance")
 
 _BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")
 """A TOML bare key; any other key (empty, spaces, dots) is shown quoted."""
@@ -69,7 +75,7 @@ def _scalar(value: object, path: str) -> Value:
     raise InputError(path, describe(value), "must be text or a number")
 
 
-def _fill(spec: Any, table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> Any:
+def _fill(spec: SpecT, table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> SpecT:
     """Copy the scalar values of ``table`` into the dataclass ``spec``."""
     _known(table, keys, path)
     for name in keys:

@@ -26,7 +26,7 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import fields, replace
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
 from ..messages import pressure_text, render
@@ -34,6 +34,7 @@ from ..model import Fluid, Given, Network, PressureDrop
 from ..numerics.tolerances import Thermal, Tolerances
 from ..units import parse_quantity
 from .spec import Site, TolerancesSpec, Value
+from .values import number
 
 if TYPE_CHECKING:
     from ..storage.presets import PresetSource
@@ -77,12 +78,10 @@ def temperature_difference(value: Value, path: str) -> float:
 
 
 def _pair_numbers(pair: list[Value], path: str) -> tuple[float, float]:
-    from .values import plain_number
-
     if len(pair) != 2:
         raise InputError(path, describe(pair), "must be a pair [low, high]")
-    low, high = (plain_number(v, f"{path}[{i}]") for i, v in enumerate(pair))
-    return _ordered(low, high, pair, path)  # type: ignore[arg-type]
+    low, high = (number(v, f"{path}[{i}]") for i, v in enumerate(pair))
+    return _ordered(low, high, pair, path)
 
 
 def _pair_roughness(pair: list[Value], path: str) -> tuple[float, float]:
@@ -106,7 +105,7 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
     below the pressure drop read on it is refused.
     """
     path = "tolerances"
-    kw: dict[str, object] = {}
+    kw: dict[str, Any] = {}
     for key, core in PERCENT_KEYS.items():
         if (value := getattr(spec, key)) is not None:
             kw[core] = percent(value, f"{path}.{key}")
@@ -141,7 +140,7 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
         kw["roughness_m"] = ranges
     if (value := spec.temperature) is not None:
         kw["temperature_k"] = temperature_difference(value, f"{path}.temperature")
-    tol = Tolerances(**kw)  # type: ignore[arg-type]
+    tol = Tolerances(**kw)
     tol.validate()
     return tol
 

@@ -13,19 +13,30 @@ from .spec import Value
 
 # ---- values --------------------------------------------------------------------------------
 
-def quantity(value: Value, kind: str, path: str, required: bool = True) -> float | None:
-    """The SI value of a quantity typed at ``path`` (None when absent and not ``required``)."""
+def quantity(value: Value, kind: str, path: str) -> float:
+    """The SI value of a quantity typed at ``path``, which must be there."""
     if value is None:
-        if required:
-            raise InputError(path, "nothing", "is required")
-        return None
+        raise InputError(path, "nothing", "is required")
     return parse_quantity(value, kind, path)
 
 
+def optional_quantity(value: Value, kind: str, path: str) -> float | None:
+    """The SI value of a quantity typed at ``path``, or None when it is not there."""
+    return None if value is None else parse_quantity(value, kind, path)
+
+
 def plain_number(value: Value, path: str) -> float | None:
-    """A plain number (K, Kv, Cv, counts): a TOML number or text holding only a number."""
+    """A plain number (K, Kv, Cv, counts): a TOML number or text holding only a number; None
+    when absent."""
     if value is None:
         return None
+    return number(value, path)
+
+
+def number(value: Value, path: str) -> float:
+    """A plain number that must be there (see :func:`plain_number`)."""
+    if value is None:
+        raise InputError(path, "nothing", "is required")
     if isinstance(value, bool):
         raise InputError(path, describe(value), "must be a number")
     if isinstance(value, str):

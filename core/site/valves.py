@@ -39,12 +39,14 @@ def series_kv(value: object, path: str, unit: str = "kv") -> float | None:
         which = f"term {n} " if len(terms) > 1 else ""
         kind, text = unit, term
         if isinstance(term, str):
+            written = term
             if m := _COEFFICIENT.match(term):
-                kind, text = m.group(1).lower(), m.group(2)
-            if not text.strip():
+                kind, written = m.group(1).lower(), m.group(2)
+            if not written.strip():
                 raise InputError(path, shown, f"{which}has no number; {_HOW}")
+            text = written.strip()
         try:
-            number = float(text.strip() if isinstance(text, str) else text)
+            number = float(text)
         except (ValueError, OverflowError):
             raise InputError(path, shown, f"{which}is not a plain number; {_HOW}") from None
         if not (math.isfinite(number) and number > 0):

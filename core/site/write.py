@@ -211,7 +211,7 @@ def _sync_branches(doc: Any, old: Any, branches: list[dict[str, Any]], tomlkit: 
         if j is not None:
             used.add(j)
         order.append(j)
-    new_tables = []
+    new_tables: list[Any] = []
     for k, (j, br) in enumerate(zip(order, branches, strict=True)):
         table = tomlkit.table() if j is None else tables[j]
         _sync(table, br, tomlkit, plain)
@@ -251,7 +251,7 @@ def save_site(site: Site, path: str | Path, overwrite: bool = False) -> Path:
     changed on disk since, or if ``overwrite`` is True; otherwise InputError. Afterwards
     ``site.source`` is ``path`` and ``site.origin`` the text written.
     """
-    from ..storage.toml_files import atomic_write_text
+    from ..storage.atomic import atomic_write_text
 
     path = Path(path)
     text = dump_site(site)

@@ -1,7 +1,4 @@
-"""User presets over the shipped ones, and the one import for the files people keep.
-
-Settings (:mod:`.settings`), folders and site listing (:mod:`.paths`) and safe TOML reading and
-writing (:mod:`.tomlfile`) live in their own modules and are re-exported here.
+"""User presets over the shipped ones: the user's own liquids, materials and site defaults.
 
 The user's own presets live in one hand-editable file, ``presets.toml`` in the data folder::
 
@@ -32,48 +29,11 @@ from typing import Any, Protocol
 
 from ..errors import InputError
 from ..model import FRICTION_MODELS, STANDARD_GRAVITY
-from .paths import (
-    SiteEntry,
-    SiteListing,
-    data_dir,
-    list_sites,
-    presets_path,
-    recovery_dir,
-    recovery_path,
-    sites_dir,
-    where_files_live,
-)
-from .settings import MAX_RECENT, UNIT_SYSTEMS, Settings
-from .toml_files import (
-    FORMAT,
-    atomic_write_text,
-    editable,
-    load_toml,
-    migrate,
-    plain,
-    save_document,
-    sync_table,
-)
+from .paths import presets_path
+from .settings import UNIT_SYSTEMS
+from .toml_files import editable, load_toml, migrate, plain, save_document, sync_table
 
-__all__ = [
-    "FORMAT",
-    "MAX_RECENT",
-    "PRESET_KINDS",
-    "PresetStore",
-    "Settings",
-    "SiteEntry",
-    "SiteListing",
-    "atomic_write_text",
-    "check_key",
-    "data_dir",
-    "list_sites",
-    "load_toml",
-    "migrate",
-    "recovery_dir",
-    "recovery_path",
-    "sites_dir",
-    "where_files_live",
-]
+__all__ = ["PRESET_KINDS", "SITE_DEFAULTS", "PresetSource", "PresetStore", "check_key"]
 
 PRESET_KINDS = ("fluids", "materials")
 _KEY = re.compile(r"[a-z0-9](?:[a-z0-9-]{0,38}[a-z0-9])?")
@@ -131,10 +91,10 @@ def _check_site_default(field: str, name: str, value: object) -> object:
             raise InputError(field, value, f"must be one of {', '.join(FRICTION_MODELS)}")
     elif name == "gravity":
         low, high = GRAVITY_RANGE
-        ok = isinstance(value, int | float) and not isinstance(value, bool)
-        if not ok or not low <= float(value) <= high:  # type: ignore[arg-type]
+        if (isinstance(value, bool) or not isinstance(value, int | float)
+                or not low <= float(value) <= high):
             raise InputError(field, value, f"must be between {low} and {high} m/s²")
-        value = float(value)  # type: ignore[arg-type]
+        value = float(value)
     else:
         raise InputError(field, value, "unknown site default")
     return value
@@ -193,9 +153,10 @@ class PresetStore:
                 where = f"{self.path.name} {kind}.{key}"
                 try:
                     check_key(where, key)
-                    if not isinstance(values, dict):
+                    clean = _check_value(where, values)
+                    if not isinstance(clean, dict):
                         raise InputError(where, values, "must be a table of values")
-                    self._user[kind][key] = _check_value(where, values)  # type: ignore[assignment]
+                    self._user[kind][key] = clean
                 except InputError as exc:
                     self.problems.append(str(exc))
         for name, value in doc.get("site_defaults", {}).items():
@@ -260,7 +221,9 @@ class PresetStore:
         entry = doc[kind].get(key)
         if not isinstance(entry, MutableMapping):
             doc[kind][key] = entry = tomlkit.table()
-        sync_table(entry, clean)  # type: ignore[arg-type]
+        if not isinstance(clean, dict):  # checked above: values is a mapping
+            raise InputError(where, values, "must be a table with at least one value")
+        sync_table(entry, clean)
         save_document(self.path, doc, "presets")
         self.reload()
 

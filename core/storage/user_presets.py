@@ -8,10 +8,14 @@ values are kept as the user typed them (``"870 kg/m^3"``, ``"0.5 mm"``) and read
 from __future__ import annotations
 
 from collections.abc import Mapping
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError
 from ..units import parse_quantity
+
+if TYPE_CHECKING:
+    from ..catalogs.materials import Material
+    from .presets import PresetStore
 
 FLUID_FIELDS = {
     "density": "density", "viscosity": "viscosity", "kinematic_viscosity": "kinematic_viscosity",
@@ -23,14 +27,16 @@ TEXT_FIELDS = ("name", "kind", "source")
 MATERIAL_FIELDS = {"roughness": "roughness", "aged_roughness": "roughness"}
 """Quantities a material preset may hold; plus ``hazen_williams_c`` (a plain number)."""
 
-_cache: tuple[float, Any] | None = None
+_cache: tuple[float, PresetStore] | None = None
 
 
-def store():  # -> PresetStore, read again only when the file changes
+def store() -> PresetStore:
     """The user's :class:`~.presets.PresetStore`, kept while its file is unchanged (the app
-    solves on every keystroke; reading the file each time would cost more)."""
+    solves on every keystroke; reading the file each time would cost more): read again only
+    when the file changes."""
     global _cache
-    from .presets import PresetStore, presets_path
+    from .paths import presets_path
+    from .presets import PresetStore
 
     path = presets_path()
     stamp = path.stat().st_mtime_ns if path.exists() else -1.0
@@ -83,7 +89,7 @@ def check_preset(kind: str, key: str, values: Mapping[str, Any]) -> dict[str, An
     return out
 
 
-def material_for(key: str, field: str):  # -> catalogs.Material
+def material_for(key: str, field: str) -> Material:
     """The user's material ``key`` if there is one, else the shipped one."""
     from ..catalogs import material
     from ..catalogs.materials import Material

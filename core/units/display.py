@@ -142,10 +142,11 @@ def fluid_name(fluid: Any, system: str = "si", unit: str | None = None) -> str:
     from ..fluids._format import celsius
 
     t = getattr(fluid, "temperature", None)
+    name = str(fluid.name)
     if t is None or (system == "si" and unit in (None, "degC")):
-        return fluid.name
+        return name
     shown = format_quantity(t, "temperature", system, unit, digits=3)
-    return fluid.name.replace(f" at {celsius(t)} °C", f" at {shown}", 1)
+    return name.replace(f" at {celsius(t)} °C", f" at {shown}", 1)
 
 
 @dataclass(frozen=True)

@@ -8,7 +8,7 @@ grammar of its own first and hands pint only names and operators.
 from __future__ import annotations
 
 import re
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
 
@@ -31,7 +31,7 @@ MAX_UNIT_NAMES, MAX_UNIT_PARENTHESES, MAX_UNIT_NAME_LENGTH = 12, 4, 48
 in a name (pint's longest has 41); beyond them the text is refused unread."""
 
 
-def unit_expression(ureg: pint.UnitRegistry, text: str, field: str, value: object) -> str:
+def unit_expression(ureg: pint.UnitRegistry[Any], text: str, field: str, value: object) -> str:
     """Check ``text`` against a small unit grammar and return it in pint's syntax.
 
     Grammar: names joined by ``*``, ``/``, ``·`` or spaces, each optionally raised to a whole
@@ -92,10 +92,11 @@ def unit_expression(ureg: pint.UnitRegistry, text: str, field: str, value: objec
                     raise InputError(field, value, "a unit power cannot be raised to a power")
                 exp = _TOKEN.match(text, pos)
                 digits = exp.group(4) if exp is not None else None
-                if digits is None or len(digits) > 3 or not 0 < abs(int(digits)) <= 9:
+                if (exp is None or digits is None or len(digits) > 3
+                        or not 0 < abs(int(digits)) <= 9):
                     raise InputError(field, value, "a unit power must be a whole number, "
                                      "-9 to 9, not 0")
-                pos = exp.end()  # type: ignore[union-attr]
+                pos = exp.end()
                 out.append(f"**{int(digits)}")
             else:
                 out.append("*" if op == "·" else op)
@@ -107,7 +108,7 @@ def unit_expression(ureg: pint.UnitRegistry, text: str, field: str, value: objec
     return "".join(out)
 
 
-def is_unit(ureg: pint.UnitRegistry, name: str) -> bool:
+def is_unit(ureg: pint.UnitRegistry[Any], name: str) -> bool:
     """Whether pint knows ``name``; names pint keeps private ("_x", "x__") are not units, nor
     is text its parser cannot read as one name (``¼`` is a word character to a regular
     expression but not a Python identifier, and trips an assertion inside pint)."""

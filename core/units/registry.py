@@ -18,7 +18,7 @@ Trade units that pint lacks, or defines differently:
 from __future__ import annotations
 
 from functools import cache
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     import pint
@@ -45,11 +45,12 @@ _TRADE_UNITS = (
 
 
 @cache
-def registry() -> pint.UnitRegistry:
+def registry() -> pint.UnitRegistry[Any]:
     """The one unit registry, built on first call with the trade units above."""
     import pint
 
-    ureg = pint.UnitRegistry(on_redefinition="ignore", autoconvert_offset_to_baseunit=False)
+    ureg: pint.UnitRegistry[Any] = pint.UnitRegistry(
+        on_redefinition="ignore", autoconvert_offset_to_baseunit=False)
     for line in _TRADE_UNITS:
         ureg.define(line)
     return ureg

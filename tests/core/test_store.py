@@ -18,17 +18,11 @@ import pytest
 import tomlkit
 
 from branchwise.core.errors import InputError
-from branchwise.core.storage.presets import (
-    FORMAT,
-    PresetStore,
-    Settings,
-    atomic_write_text,
-    data_dir,
-    list_sites,
-    load_toml,
-    migrate,
-    where_files_live,
-)
+from branchwise.core.storage.atomic import atomic_write_text
+from branchwise.core.storage.paths import data_dir, list_sites, where_files_live
+from branchwise.core.storage.presets import PresetStore
+from branchwise.core.storage.settings import Settings
+from branchwise.core.storage.toml_files import FORMAT, load_toml, migrate
 
 SHIPPED_FLUIDS = {"water-20c": {"density": 998.21, "viscosity": 1.0016e-3}}
 SHIPPED_MATERIALS = {"commercial-steel": {"roughness": 4.5e-5}}

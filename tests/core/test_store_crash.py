@@ -24,7 +24,9 @@ from pathlib import Path
 import pytest
 
 from branchwise.core.errors import InputError
-from branchwise.core.storage.presets import atomic_write_text, list_sites, load_toml
+from branchwise.core.storage.atomic import atomic_write_text
+from branchwise.core.storage.paths import list_sites
+from branchwise.core.storage.toml_files import load_toml
 
 TEMP_NAME = re.compile(r"\.site\.toml(\.bak)?\.[0-9a-f]{8}\.tmp")
 
@@ -90,7 +92,7 @@ def test_interrupt_during_write_cleans_up(tmp_path: Path, monkeypatch: pytest.Mo
 CHILD = """
 import sys
 from pathlib import Path
-from branchwise.core.storage.toml_files import atomic_write_text
+from branchwise.core.storage.atomic import atomic_write_text
 target, old, new, mode = Path(sys.argv[1]), Path(sys.argv[2]), Path(sys.argv[3]), sys.argv[4]
 texts = [new.read_text(), old.read_text()]
 print("go", flush=True)

@@ -13,15 +13,9 @@ from pathlib import Path
 import pytest
 
 from branchwise.core.errors import InputError
-from branchwise.core.storage.presets import (
-    MAX_RECENT,
-    Settings,
-    atomic_write_text,
-    list_sites,
-    recovery_dir,
-    recovery_path,
-    sites_dir,
-)
+from branchwise.core.storage.atomic import atomic_write_text
+from branchwise.core.storage.paths import list_sites, recovery_dir, recovery_path, sites_dir
+from branchwise.core.storage.settings import MAX_RECENT, Settings
 
 
 @pytest.fixture

@@ -27,7 +27,7 @@ from branchwise.core.site.read import demo_text, load_site, parse_site
 from branchwise.core.site.solve import solve_site
 from branchwise.core.site.spec import Site
 from branchwise.core.site.write import dump_site, save_site
-from branchwise.core.storage.presets import list_sites
+from branchwise.core.storage.paths import list_sites
 
 pytestmark = pytest.mark.skipif(not hasattr(os, "fork"), reason="needs POSIX fork and signals")
 

@@ -8,7 +8,7 @@ person would) and returns what went wrong, so that a failure can print its seed 
 replayed with ``drive(keys)``.
 
 Nothing here writes outside the test's own folder: every file write of the app goes through
-:func:`branchwise.core.storage.toml_files.atomic_write_text`, which the sandbox refuses (the way a
+:func:`branchwise.core.storage.atomic.atomic_write_text`, which the sandbox refuses (the way a
 read-only folder would) for any path outside the test's folder. The app runs as the same user
 as the tests, so a typed ``/x`` in a save dialog must not reach the real file system.
 """
@@ -136,7 +136,7 @@ class Sandbox:
 
     def __init__(self, root: Path, monkeypatch) -> None:
         import branchwise.core.site.write as sitewrite
-        import branchwise.core.storage.presets as store
+        import branchwise.core.storage.atomic as atomic
         import branchwise.core.storage.toml_files as tomlfile
         from branchwise.core.errors import InputError
 
@@ -157,7 +157,7 @@ class Sandbox:
             return written
 
         monkeypatch.setattr(tomlfile, "atomic_write_text", guarded_write)
-        monkeypatch.setattr(store, "atomic_write_text", guarded_write)
+        monkeypatch.setattr(atomic, "atomic_write_text", guarded_write)
         monkeypatch.setattr(sitewrite, "save_site", recorded_save)
         home = root / "home"
         home.mkdir(parents=True, exist_ok=True)

@@ -2,9 +2,11 @@
 
 from __future__ import annotations
 
+from typing import Any
+
 from rich.table import Table
 from rich.text import Text
-from textual.app import ComposeResult
+from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.widgets import Static
@@ -63,11 +65,11 @@ class HelpScreen(Dialog[None]):
         self.dismiss(None)
 
 
-def _key_text(app: object, key: str, binding: Binding) -> str:
+def _key_text(app: App[Any], key: str, binding: Binding) -> str:
     """How a key is written in help: F1, Ctrl+S, ?, Esc."""
     if key.startswith("f") and key[1:].isdigit():
         return key.upper()
-    shown = app.get_key_display(Binding(key, binding.action))  # type: ignore[attr-defined]
+    shown = app.get_key_display(Binding(key, binding.action))
     if shown.startswith("^"):
         return "Ctrl+" + shown[1:].upper()
     return shown[:1].upper() + shown[1:] if len(shown) > 1 else shown

@@ -15,39 +15,15 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.widgets import Input, Label, Static
 
+from branchwise.core.fluids import INPUTS, LIQUIDS, liquid
 from branchwise.core.site.fields import FieldPath
+from branchwise.core.site.spec import Site
 
 from ..state.values import is_bare_number, text_of, with_unit
 from ..widgets.choice import Choice
 from ..widgets.field import Field
 from ..widgets.quiet import put
 from .work_screen import WorkScreen
-
-BUILT_IN = ("water", "seawater", "ethylene-glycol", "propylene-glycol", "custom")
-KIND_LABELS = {"water": "Water", "seawater": "Seawater",
-               "ethylene-glycol": "Ethylene glycol in water",
-               "propylene-glycol": "Propylene glycol in water",
-               "custom": "Custom (density and viscosity)"}
-FIELDS = (
-    ("temperature", "Temperature", "temperature"),
-    ("pressure", "Pressure (absolute)", "pressure"),
-    ("concentration", "Glycol concentration", "fraction"),
-    ("salinity", "Salinity", "salinity"),
-    ("name", "Name", None),
-    ("density", "Density", "density"),
-    ("viscosity", "Dynamic viscosity", "viscosity"),
-    ("kinematic_viscosity", "Kinematic viscosity", "kinematic_viscosity"),
-)
-USES = {
-    "water": ("temperature", "pressure"),
-    "seawater": ("temperature", "salinity", "pressure"),
-    "ethylene-glycol": ("temperature", "concentration"),
-    "propylene-glycol": ("temperature", "concentration"),
-    "custom": ("name", "density", "viscosity", "kinematic_viscosity"),
-}
-"""The fields each built-in kind takes (a saved preset may take any, as overrides)."""
-HINTS = {"concentration": "by mass (30 %) unless vol is written (30 % vol)",
-         "pressure": "empty: 1 atm"}
 
 
 class LiquidScreen(WorkScreen):
@@ -72,16 +48,16 @@ class LiquidScreen(WorkScreen):
                     yield Label("Kind", classes="row-label")
                     self._options = self._kind_options()
                     yield Choice(self._options, self.kind(), id="liquid-kind-select")
-                for name, label, kind in FIELDS:
-                    yield Field(label, f"fluid.{name}", kind, id=f"fluid-{name}",
-                                placeholder=HINTS.get(name, ""))
+                for item in INPUTS.values():
+                    yield Field(item.label, f"fluid.{item.key}", item.quantity,
+                                id=f"fluid-{item.key}", placeholder=item.hint)
                 yield Static("", id="liquid-hint", markup=False)
             with Vertical(id="liquid-props"):
                 yield Label("Properties", classes="panel-title")
                 yield Static("", id="liquid-values", markup=False)
 
     def _kind_options(self) -> list[tuple[str, str]]:
-        options = [(KIND_LABELS[k], k) for k in BUILT_IN]
+        options = [(kind.label, key) for key, kind in LIQUIDS.items()]
         try:
             from branchwise.core.storage.presets import PresetStore
 
@@ -89,8 +65,8 @@ class LiquidScreen(WorkScreen):
         except (OSError, ValueError) as exc:
             self.notify(f"Saved liquids not read: {exc}", severity="warning")
             saved = {}
-        options += [(f"Saved: {key}", key) for key in sorted(saved) if key not in BUILT_IN]
-        self._saved = {key: values for key, values in saved.items() if key not in BUILT_IN}
+        options += [(f"Saved: {key}", key) for key in sorted(saved) if key not in LIQUIDS]
+        self._saved = {key: values for key, values in saved.items() if key not in LIQUIDS}
         return options
 
     def on_mount(self) -> None:
@@ -100,10 +76,9 @@ class LiquidScreen(WorkScreen):
         return text_of(self.bw.site.fluid.kind).strip().lower() or "water"
 
     def uses(self, kind: str) -> tuple[str, ...]:
-        if kind in USES:
-            return USES[kind]
-        base = str(self._saved.get(kind, {}).get("kind", "custom"))
-        return USES.get(base, USES["custom"])
+        """The inputs a kind of liquid takes (a saved one: those of the kind it is based on)."""
+        known = liquid(kind) or liquid(str(self._saved.get(kind, {}).get("kind", "custom")))
+        return (known or LIQUIDS["custom"]).inputs
 
     # ---- drawing ---------------------------------------------------------------------------------
 
@@ -117,8 +92,9 @@ class LiquidScreen(WorkScreen):
         uses = self.uses(kind)
         outcome = app.outcome
         error = outcome.error if outcome is not None else None
-        ref = FieldPath.parse(outcome.field) if error is not None else None
-        for name, _, qkind in FIELDS:
+        ref = FieldPath.parse(outcome.field) if outcome is not None and error else None
+        for name, item in INPUTS.items():
+            qkind = item.quantity
             field = self.query_one(f"#fluid-{name}", Field)
             field.display = name in uses
             field.show(text_of(getattr(spec, name)))
@@ -127,8 +103,8 @@ class LiquidScreen(WorkScreen):
             wrong = ref is not None and ref.area == "fluid" and ref.name == name
             field.set_error(app.reason_words(error) if wrong else None)
         hint = self.query_one("#liquid-hint", Static)
-        if ref is not None and ref.area == "fluid" and ref.name not in uses:
-            put(hint, f"✗ {app.error_words(error)}")  # type: ignore[arg-type]
+        if error is not None and ref is not None and ref.area == "fluid" and ref.name not in uses:
+            put(hint, f"✗ {app.error_words(error)}")
         else:
             put(hint, "A bare number takes the unit in brackets; or type any unit: 65 degF, "
                 "12 cP, 1.2 cSt.")
@@ -167,22 +143,23 @@ class LiquidScreen(WorkScreen):
         parked = self.bw.session.parked
         spec = self.bw.site.fluid
         keep = self.uses(new)
-        for name, _, _ in FIELDS:
+        for name in INPUTS:
             value = text_of(getattr(spec, name))
             if value and name not in keep:
                 parked[f"fluid.{name}"] = value
         restore = {name: parked.get(f"fluid.{name}") for name in keep}
 
-        def change(site: object) -> None:
-            fluid = site.fluid  # type: ignore[attr-defined]
+        def change(site: Site) -> None:
+            fluid = site.fluid
             fluid.kind = new
-            for name, _, _ in FIELDS:
+            for name in INPUTS:
                 if name not in keep:
                     setattr(fluid, name, None)
                 elif getattr(fluid, name) is None and restore.get(name):
                     setattr(fluid, name, restore[name])
 
-        self.bw.edit(f"Liquid: {KIND_LABELS.get(new, new)}", change)
+        known = liquid(new)
+        self.bw.edit(f"Liquid: {known.label if known else new}", change)
 
     def on_field_edited(self, event: Field.Edited) -> None:
         if not self.ready:
@@ -194,8 +171,8 @@ class LiquidScreen(WorkScreen):
             text = _with_basis_unit(event.text, self.bw.unit("fraction"))
         value = text.strip() or None
 
-        def change(site: object) -> None:
-            setattr(site.fluid, name, value)  # type: ignore[attr-defined]
+        def change(site: Site) -> None:
+            setattr(site.fluid, name, value)
 
         self.bw.edit(f"Liquid {name.replace('_', ' ')}", change, key=field.path)
 

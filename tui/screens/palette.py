@@ -10,6 +10,8 @@ pages by its laid-out lines, which a hidden list has not got (KeyError).
 
 from __future__ import annotations
 
+from typing import Any
+
 from textual import events
 from textual.await_complete import AwaitComplete
 from textual.binding import Binding
@@ -40,7 +42,7 @@ class Palette(CommandPalette):
             else:
                 options.action_page_up()
 
-    def dismiss(self, result: object = None) -> AwaitComplete:
+    def dismiss(self, result: Any = None) -> AwaitComplete:
         if self.app.screen is not self:
             return AwaitComplete(_nothing())
         self.workers.cancel_all()  # a search still running would look for the list once gone

@@ -19,11 +19,12 @@ from textual.containers import Vertical
 from textual.widgets import Label, Static
 
 from branchwise.core.errors import InputError
-from branchwise.core.site.spec import TolerancesSpec
+from branchwise.core.site.spec import TolerancesSpec, Value
 
 from ..modal import Dialog
 from ..state.values import text_of, with_unit
 from ..widgets.field import Field
+from ..workspace import workspace
 from .dialogs import FORM_HINT, FORM_KEYS
 
 if TYPE_CHECKING:
@@ -116,7 +117,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
                     field = Field(label, f"tolerances.{key}", value=typed[key],
                                   placeholder=f"{base[key]} · common practice", id=f"tol-{key}")
                     field.meaning = (unit_label(self.pressure_unit) if key == "gauge_full_scale"
-                                     else meaning)  # type: ignore[attr-defined]
+                                     else meaning)
                     yield field
             if spec.roughness_range:
                 kept = ", ".join(f"{name} {text_of(a)} … {text_of(b)}"
@@ -141,7 +142,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
     def collect(self) -> TolerancesSpec:
         """The table as the form now says (raises InputError naming the field at fault)."""
         from branchwise.core.site.tolerances import percent, temperature_difference
-        from branchwise.core.site.values import plain_number
+        from branchwise.core.site.values import number
         from branchwise.core.units import parse_quantity
 
         spec = copy.deepcopy(self.spec) if self.spec is not None else TolerancesSpec()
@@ -164,9 +165,9 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
             raise InputError(f"tolerances.{empty}", "", "give both ends of the factor, or neither")
         spec.roughness_factor = None
         if low:
-            numbers = [plain_number(text, f"tolerances.roughness_{end}")
-                       for text, end in ((low, "low"), (high, "high"))]
-            spec.roughness_factor = [_tidy(n) for n in numbers]  # type: ignore[arg-type]
+            factor: list[Value] = [_tidy(number(text, f"tolerances.roughness_{end}"))
+                                   for text, end in ((low, "low"), (high, "high"))]
+            spec.roughness_factor = factor
         self._check_with_site(spec)
         return spec
 
@@ -238,7 +239,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
             "roughness_factor[1]", "roughness_high").replace("roughness_factor", "roughness_low")
 
     def _reason(self, exc: InputError) -> str:
-        return self.app.reason_words(exc)  # type: ignore[attr-defined]
+        return workspace(self.app).reason_words(exc)
 
     def action_cancel(self) -> None:
         self.dismiss(None)

@@ -46,21 +46,28 @@ class WorkScreen(Screen):
         if not self.is_attached:
             return  # the app quit while this screen was being built: nothing to draw
         for name in ("revision", "outcome", "unit_system"):
-            self.watch(self.bw, name, self._changed, init=False)
+            self.watch(self.app, name, self._changed, init=False)
         self.redraw()
         self.call_after_refresh(self._settled)
 
     def _settled(self) -> None:
         self.ready = True
 
+    _stale_view = False
+    """Something changed while another screen was shown: redrawn when this one comes back."""
+
     def _changed(self, *_: object) -> None:
         if self.is_current:
             self.redraw()
         else:
-            self._stale_view = True  # drawn when it comes back into view
+            self.redraw_on_return()
+
+    def redraw_on_return(self) -> None:
+        """Redraw when this screen is shown again (it is not in sight now)."""
+        self._stale_view = True
 
     def on_screen_resume(self) -> None:
-        if getattr(self, "_stale_view", False):
+        if self._stale_view:
             self._stale_view = False
             self.redraw()
 

@@ -127,7 +127,7 @@ class Session:
     def path(self) -> Path | None:
         return self.site.source
 
-    def edit(self, label: str, change: Callable[[Site], None], key: str = "") -> Site:
+    def edit(self, label: str, change: Callable[[Site], object], key: str = "") -> Site:
         """Apply ``change`` to a copy of the site and make the copy the site.
 
         key: the field being typed into; consecutive edits with the same non-empty key within

@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from rich.text import Text
+from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.message import Message
 from textual.widget import Widget
@@ -107,9 +108,9 @@ class ChoiceMenu(Dialog[str | None]):
         super().__init__()
         self.options = options
         self.value = value
-        self.anchor = anchor
+        self.at = anchor
 
-    def compose(self):
+    def compose(self) -> ComposeResult:
         from textual.widgets import OptionList
 
         yield OptionList(*[label for label, _ in self.options])
@@ -121,7 +122,7 @@ class ChoiceMenu(Dialog[str | None]):
         values = [v for _, v in self.options]
         if self.value in values:
             menu.highlighted = values.index(self.value)
-        x, y = getattr(self.anchor, "x", 0), getattr(self.anchor, "y", 0) + 1
+        x, y = getattr(self.at, "x", 0), getattr(self.at, "y", 0) + 1
         menu.styles.offset = (max(0, x - 1), y)
         menu.focus()
 

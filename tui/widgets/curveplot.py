@@ -9,7 +9,7 @@ plot knows nothing of pint or of the site.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 from rich.cells import cell_len
@@ -178,14 +178,15 @@ def _legend(data: PlotData, width: int) -> list[Text]:
     return lines
 
 
-def _x_axis(ticks: tuple[float, float, float], gutter: int, cols: int, px: object,
+def _x_axis(ticks: tuple[float, float, float], gutter: int, cols: int,
+            px: Callable[[float], int],
             title: str) -> list[Text]:
     axis = ["─"] * cols
     under = [" "] * (gutter + 1 + cols)
     room = gutter + 1 + cols - cell_len(title) - 1  # the title keeps the right end
     step = ticks[2]
     for value in _ticks(*ticks):
-        col = px(value) // 2  # type: ignore[operator]
+        col = px(value) // 2
         axis[min(col, cols - 1)] = "┬"
         text = tick_text(value, step)
         start = max(0, gutter + 1 + col - len(text) // 2)

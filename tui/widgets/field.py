@@ -31,6 +31,9 @@ class Field(Vertical):
     Field.-error .field-label { color: $error; }
     """
 
+    meaning: str = ""
+    """What a bare number typed here means, where it is no unit (``% of reading``)."""
+
     @dataclass
     class Edited(Message):
         """The person changed the text (sent on every keystroke)."""

@@ -93,7 +93,7 @@ def describe(app: Workspace, on_split: bool = False, width: int | None = None,
         # An error that does not fit: wrapped on the lines it may take, the last cut to leave
         # room for where to read it whole (the Split's message area, the Branches screen's,
         # the field on the Liquid screen).
-        lines = state.wrap(console or Console(), width, overflow="fold")
+        lines = list(state.wrap(console or Console(), width, overflow="fold"))
         if len(lines) > ERROR_LINES:
             lines = lines[:ERROR_LINES]
             lines[-1].truncate(max(1, width - where.cell_len - 1))

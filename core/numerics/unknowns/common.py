@@ -11,7 +11,7 @@ import numpy as np
 
 from ...messages import head_text, kv_text, pressure_text
 from ...model import Branch, FindUnknown, Given, Network, PressureDrop
-from ..hydraulics import Array, Layout, branch_head
+from ..hydraulics import Array, IntArray, Layout, branch_head
 from ..variants import Variants
 
 
@@ -48,7 +48,7 @@ class Sought:
         """The sought segment's index in the network's layout (the variants' segment columns)."""
         return int(np.flatnonzero(self.base.seg_branch == self.branch)[self.segment])
 
-    def layout(self, **change: Array) -> tuple[Layout, Array]:
+    def layout(self, **change: Array) -> tuple[Layout, IntArray]:
         """The copies of the branch alone (with ``change``d segment arrays, shape (copies,
         segments)), and the sought segment's index in that layout for every copy."""
         lay = self.variants.layout(self.base, np.arange(self.base.n_branches) == self.branch,
@@ -59,7 +59,7 @@ class Sought:
     def column(self, name: str, value: float) -> Array:
         """A copy of the variants' segment array ``name`` with the sought segment set to
         ``value`` in every copy."""
-        out = getattr(self.variants, name).copy()
+        out: Array = getattr(self.variants, name).copy()
         out[:, self.index] = value
         return out
 

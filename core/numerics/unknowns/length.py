@@ -15,7 +15,7 @@ import numpy as np
 from ...errors import NoSolutionError
 from ...messages import flow_text, length_text
 from ...model import MAX_LENGTH, FindUnknown, Given, Network
-from ..hydraulics import Array, Layout, branch_head, flows_at_head, segment_state
+from ..hydraulics import Array, IntArray, Layout, branch_head, flows_at_head, segment_state
 from ..roots import FAST_TOL
 from .common import Sought, valve_hint, where, with_value
 
@@ -24,12 +24,13 @@ def check(net: Network, want: FindUnknown, index: int) -> None:
     """Any length can be sought: nothing to refuse before solving."""
 
 
-def _required(lay: Layout, k: Array, q: Array, head: Array, gravity: float) -> Array:
+def _required(lay: Layout, k: IntArray, q: Array, head: Array, gravity: float) -> Array:
     """L of the segments ``k`` of ``lay`` (whose own length is 0) for flows ``q`` at ``head``."""
     st = segment_state(lay, q)
     per_metre = st.friction_factor[k] / lay.diameter[k] * st.velocity[k] * np.abs(
         st.velocity[k]) / (2 * gravity)
-    return (head - branch_head(lay, q)) / per_metre
+    found: Array = (head - branch_head(lay, q)) / per_metre
+    return found
 
 
 def solve(s: Sought, tol: float = FAST_TOL) -> Array:

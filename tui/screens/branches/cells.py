@@ -66,8 +66,8 @@ def k_text(seg: SegmentSpec) -> str:
     count = 0.0
     for value in seg.fittings.values():
         try:
-            count += float(value)  # type: ignore[arg-type]
-        except (TypeError, ValueError):
+            count += float(value) if isinstance(value, int | float | str) else float("nan")
+        except ValueError:
             count = float("nan")
     if not seg.fittings:
         return k

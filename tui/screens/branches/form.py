@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import copy
 import re
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -24,6 +24,7 @@ from branchwise.core.site.spec import BranchSpec, SegmentSpec
 from ...modal import Dialog
 from ...state.values import text_of, with_unit
 from ...widgets.field import Field
+from ...workspace import workspace
 from ..dialogs import FORM_HINT, FORM_KEYS
 from .cells import (
     same_pipe,
@@ -67,7 +68,7 @@ def parse_fittings(text: str, field: str = "fittings") -> dict[str, float]:
     return out
 
 
-def fittings_text(fittings: dict[str, object]) -> str:
+def fittings_text(fittings: Mapping[str, object]) -> str:
     return ", ".join(f"{key} {text_of(count)}" for key, count in fittings.items())
 
 
@@ -207,7 +208,7 @@ class BranchForm(Dialog[BranchSpec | None]):
             if key == "k" and text:
                 float(text)
         except InputError as exc:
-            return self.app.reason_words(exc)  # type: ignore[attr-defined]
+            return workspace(self.app).reason_words(exc)
         except ValueError:
             return "must be a plain number"
         return None

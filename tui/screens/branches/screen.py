@@ -18,7 +18,7 @@ from textual.containers import Horizontal, Vertical
 from textual.widgets import DataTable, Input, Label, Static
 
 from branchwise.core.site.fields import FieldPath
-from branchwise.core.site.spec import Site
+from branchwise.core.site.spec import BranchSpec, Site
 
 from ...state.givens import (
     add_reading,
@@ -31,7 +31,7 @@ from ...state.givens import (
 from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.branchtable import BranchTable
-from ...widgets.quiet import fill_table, put
+from ...widgets.quiet import put
 from ..work_screen import WorkScreen
 from .cells import (
     BRANCH_COLUMNS,
@@ -107,9 +107,9 @@ class BranchesScreen(WorkScreen):
         app, site = self.bw, self.bw.site
         if self._editing is not None and app.session.revision != self._editing_revision:
             self._close_editor()  # an undo or redo under the editor: its cell may be gone
-            app.notify("The site changed while you typed (undo or redo): the cell was closed, "
+            self.notify("The site changed while you typed (undo or redo): the cell was closed, "
                        "nothing written.", severity="warning")
-        table = self.query_one("#branch-table", DataTable)
+        table = self.query_one("#branch-table", BranchTable)
         wide = self.app.size.width >= WIDE
         self._keys = [key for key, _ in COLUMNS if wide or key not in WIDE_COLUMNS]
         columns = []
@@ -145,11 +145,11 @@ class BranchesScreen(WorkScreen):
                                  else Text(text, justify="right" if key == "flow" else "left"))
                 rows.append((f"{i}.{j}", cells))
                 self._rows.append((i, j))
-        fill_table(table, columns, rows)
+        table.show(columns, rows)
         message = self.query_one("#branch-message", Static)
         message.set_class(bad is None, "-hint")
-        if bad is not None:
-            put(message, f"✗ {app.error_words(outcome.error)}")  # type: ignore[union-attr,arg-type]
+        if bad is not None and outcome is not None and outcome.error is not None:
+            put(message, f"✗ {app.error_words(outcome.error)}")
         else:
             put(message, reading_hint(site, given))
 
@@ -260,9 +260,9 @@ class BranchesScreen(WorkScreen):
         if value:
             app.edit(f"Reading on {name}", lambda s: add_reading(s, i, value))
             if given_of(app.site) == ("measured_flow", i):
-                app.notify(f"The reading on {name} is the given condition.", timeout=4)
+                self.notify(f"The reading on {name} is the given condition.", timeout=4)
             else:
-                app.notify(f"Reading on {name} kept beside the given: the Split screen (F4) "
+                self.notify(f"Reading on {name} kept beside the given: the Split screen (F4) "
                            "compares it with the answer; g there makes it the given.",
                            timeout=5)
         elif app.site.branches[i].measured_flow is not None:
@@ -282,11 +282,10 @@ class BranchesScreen(WorkScreen):
             draft.segments = [same_pipe(like.segments[0])]
         at = (spot[0] + 1) if spot else len(site.branches)
 
-        def added(branch: object) -> None:
+        def added(branch: BranchSpec | None) -> None:
             if branch is None:
                 return
-            self.bw.edit(f"Add {text_of(branch.name)}",  # type: ignore[attr-defined]
-                         lambda s: s.branches.insert(at, branch))  # type: ignore[arg-type]
+            self.bw.edit(f"Add {text_of(branch.name)}", lambda s: s.branches.insert(at, branch))
             self._go(at)
 
         self.app.push_screen(BranchForm(draft, self.bw.unit, title="New branch"), added)
@@ -301,15 +300,15 @@ class BranchesScreen(WorkScreen):
         site = self.bw.site
         old_name = text_of(site.branches[i].name)
 
-        def done(branch: object) -> None:
+        def done(branch: BranchSpec | None) -> None:
             if branch is None:
                 return
 
             def change(s: Site) -> None:
-                new_name = text_of(branch.name)  # type: ignore[attr-defined]
-                s.branches[i] = branch  # type: ignore[assignment]
+                new_name = text_of(branch.name)
+                s.branches[i] = branch
                 if new_name != old_name:
-                    branch.name = old_name  # type: ignore[attr-defined]
+                    branch.name = old_name
                     rename_branch(s, i, new_name)
 
             self.bw.edit(f"Edit {old_name}", change)

@@ -176,10 +176,10 @@ class GivenFindRows(Vertical):
 
             app.edit("Given value", retype, key="given")
         elif event.input.id == "lift-value":
-            text = with_unit(event.value, app.unit("head")) or None
+            lift_text = with_unit(event.value, app.unit("head")) or None
 
             def lift(s: Site) -> None:
-                s.conditions.elevation_change = text
+                s.conditions.elevation_change = lift_text
 
             app.edit("Lift", lift, key="lift")
         elif event.input.id == "find-target":

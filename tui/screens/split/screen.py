@@ -34,22 +34,22 @@ class SplitScreen(WorkScreen):
     """``w`` lists the warnings here (the status strip says so)."""
 
     BINDINGS = [
-        Binding("escape", "focus('results')", "Done typing", id="split-table",
+        Binding("escape", "field('results')", "Done typing", id="split-table",
                 key_display="Enter next · Esc",
                 tooltip="Enter moves to the next field; Esc leaves the fields for the results, "
                         "and single letters are keys again"),
         Binding("g", "pick('given-kind')", "Given", id="split-given",
                 tooltip="Choose the reading the head is solved from: Δp, total flow or one "
                         "branch's reading (the others are kept and compared)"),
-        Binding("v", "focus('given-value')", "Value", id="split-value", show=False,
+        Binding("v", "field('given-value')", "Value", id="split-value", show=False,
                 tooltip="Type the value of the given condition"),
         Binding("f", "pick('find-kind')", "Find", id="split-find",
                 tooltip="Choose what to find: the flows, or a diameter, length or roughness"),
         Binding("o", "pick('find-branch')", "Of branch", id="split-of", show=False,
                 tooltip="Choose the branch whose diameter, length or roughness is found"),
-        Binding("t", "focus('find-target')", "Target", id="split-target", show=False,
+        Binding("t", "field('find-target')", "Target", id="split-target", show=False,
                 tooltip="Type the target flow of the branch being sized"),
-        Binding("z", "focus('lift-value')", "Lift", id="split-lift", show=False,
+        Binding("z", "field('lift-value')", "Lift", id="split-lift", show=False,
                 tooltip="Type the elevation change between the headers, outlet minus inlet"),
         Binding("r", "export('markdown')", "Record", id="split-record",
                 tooltip="Write the walkdown record (Markdown)"),
@@ -91,7 +91,8 @@ class SplitScreen(WorkScreen):
         self.views.edit_tolerances()
 
 
-    def action_focus(self, ident: str) -> None:
+    def action_field(self, ident: str) -> None:
+        """Put the cursor in a field (or, for ``results``, on the table, band or curve)."""
         widget = self.views.main_view() if ident == "results" else self.query_one(f"#{ident}")
         if widget is None:
             self.set_focus(None)  # the curve: nothing to type into, keys work from the screen
@@ -118,7 +119,7 @@ class SplitScreen(WorkScreen):
             return True if outcome is not None and outcome.ok else None
         if parameters in (("find-target",), ("find-branch",)):
             return True if find_of(self.bw.site) != "flows" else None
-        if action == "focus" and parameters == ("results",):
+        if action == "field" and parameters == ("results",):
             # Esc: shown (with Enter's meaning) while typing in a field, hidden otherwise.
             return self.focused is not None and self.focused is not self.views.main_view()
         return True
@@ -126,7 +127,7 @@ class SplitScreen(WorkScreen):
     def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
         if action == "export":
             return "Nothing to write yet: the site does not solve (see the message above)."
-        if action == "focus" and parameters == ("find-target",):
+        if action == "field" and parameters == ("find-target",):
             return "No target flow while finding the flows: f chooses what to find."
         if action == "pick" and parameters == ("find-branch",):
             return "No branch to size while finding the flows: f chooses what to find."

@@ -17,6 +17,7 @@ the system curve; the totals, the found value and the warnings under it.
 from __future__ import annotations
 
 import copy
+from collections.abc import Iterable
 from typing import TYPE_CHECKING
 
 from rich.text import Text
@@ -36,6 +37,7 @@ from ...widgets.sharebar import share_bar
 from ...widgets.texttable import TextTable
 from ...workspace import workspace
 from ..warnings import fit_lines
+from ..work_screen import WorkScreen
 
 if TYPE_CHECKING:
     from branchwise.core.numerics.curve import SystemCurve
@@ -295,6 +297,8 @@ class ResultViews(Vertical):
             return
         self._band_now = False
         app = self.bw
+        if app.outcome is None or app.outcome.solved is None:
+            return
         self._band_running = app.session.revision
         self._compute_band(app.session.site, app.session.revision, app.outcome.solved,
                            app.unit_system, dict(app.settings.display_units))
@@ -334,7 +338,9 @@ class ResultViews(Vertical):
         if self.screen.is_current:
             self.show_view()
         else:
-            self.screen._stale_view = True  # type: ignore[attr-defined]  # drawn on return
+            screen = self.screen
+            if isinstance(screen, WorkScreen):
+                screen.redraw_on_return()
 
     def band_state(self) -> str:
         """``current``, ``computing``, ``error`` (no band for these inputs, see its message),
@@ -363,8 +369,8 @@ class ResultViews(Vertical):
                           "again when typing pauses", style="bold yellow"),
             "none": Text("No band yet: it is worked out once the site solves", style="dim"),
         }.get(state)
-        if head is None:  # error
-            head = Text(f"✗ No band: {band.error}", style="bold red")  # type: ignore[union-attr]
+        if head is None:  # error: the band of these inputs says why it has no figures
+            head = Text(f"✗ No band: {band.error if band else ''}", style="bold red")
             if band is not None and band.field.startswith("tolerances"):
                 head.append("  (l: tolerances)", style="dim")
         elif state in ("computing", "broken") and band is not None and band.solved is not None:
@@ -407,8 +413,9 @@ class ResultViews(Vertical):
         sr = outcome.solved
         curve, error = None, ""
         try:
-            curve = system_curve(sr.built.network, max_factor=CURVE_FACTOR,  # type: ignore
-                                 operating=sr.result)  # type: ignore[union-attr]
+            if sr is not None:  # only an answer is drawn
+                curve = system_curve(sr.built.network, max_factor=CURVE_FACTOR,
+                                     operating=sr.result)
         except BranchwiseError as exc:
             error = getattr(exc, "reason", "") or str(exc)
         except Exception as exc:  # a bug, not bad input: shown, and the app carries on
@@ -429,10 +436,10 @@ class ResultViews(Vertical):
         app = self.bw
         flow_unit, dp_unit = app.unit("flow"), app.unit("pressure")
 
-        def flows(values: object) -> tuple[float, ...]:
-            return tuple(float(v) for v in to_unit(values, "flow", flow_unit))  # type: ignore
+        def flows(values: Iterable[float]) -> tuple[float, ...]:
+            return tuple(to_unit(float(v), "flow", flow_unit) for v in values)
 
-        dp = tuple(float(v) for v in to_unit(curve.pressure_drop, "pressure", dp_unit))
+        dp = tuple(to_unit(float(v), "pressure", dp_unit) for v in curve.pressure_drop)
         series = [Series(name, flows(curve.branch_flows[:, i]), dp,
                          BRANCH_STYLES[i % len(BRANCH_STYLES)])
                   for i, name in enumerate(curve.branch_names)]
@@ -454,10 +461,10 @@ class ResultViews(Vertical):
         def chosen(spec: TolerancesSpec | None) -> None:
             if spec is not None:
                 app.edit("Tolerances", lambda s: setattr(s, "tolerances", copy.deepcopy(spec)))
-                app.notify("Tolerances changed (Ctrl+Z undoes it; Ctrl+S saves the site)",
-                           timeout=4)
+                self.notify("Tolerances changed (Ctrl+Z undoes it; Ctrl+S saves the site)",
+                            timeout=4)
 
-        app.push_screen(TolerancesScreen(app.site, app.unit("pressure")), chosen)
+        self.app.push_screen(TolerancesScreen(app.site, app.unit("pressure")), chosen)
 
 
 def _compact(number: float) -> str:
