@@ -13,32 +13,11 @@ from pathlib import Path
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
+from site_texts import PUMP_ROOM
 
 from branchwise.tui.cli import main
 
-GOOD = """format = 1
-name = "Pump room"
-
-[fluid]
-kind = "water"
-temperature = "18 degC"
-
-[conditions]
-pressure_drop = "68 kPa"
-
-[[branches]]
-name = "Condenser A"
-diameter = "102.26 mm"
-length = "64 m"
-roughness = "0.045 mm"
-minor_k = 6.2
-
-[[branches]]
-name = "Jacket loop"
-size = "3 in sch 40"
-length = "180 ft"
-material = "commercial-steel"
-"""
+GOOD = PUMP_ROOM
 
 
 def edit(old: str, new: str) -> str:

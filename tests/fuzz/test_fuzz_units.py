@@ -2,7 +2,7 @@
 field, for every kind of quantity — never another exception, never a hang.
 
 Robustness, no outside reference (the unit factors themselves are checked against NIST SP 811
-in tests/core/test_units.py). Mutations start from values as people type them on site.
+in tests/core/units/test_units.py). Mutations start from values as people type them on site.
 """
 
 from __future__ import annotations

@@ -6,7 +6,7 @@ A forked child process saves two different sites in turn over the same file with
 after a random delay. The reference is the POSIX guarantee for rename(2) (POSIX.1-2017: the
 new name "shall remain visible ... and refer either to the file referred to by new or old"),
 which protects only a writer that never writes into the real name. The harness itself is
-checked against a writer that saves in place (tests/core/test_store_crash.py does the same
+checked against a writer that saves in place (tests/core/storage/test_saves_killed.py does the same
 for the bare atomic write).
 """
 

@@ -12,39 +12,26 @@ import math
 
 import fluids.friction as ref
 import pytest
+from networks import BRANCHES, MU, RHO, test_header
 from scipy.optimize import brentq
 
 from branchwise.core.model import (
-    Branch,
     FindUnknown,
-    Fluid,
     MeasuredFlow,
     Network,
     PressureDrop,
-    Segment,
     TotalFlow,
 )
 from branchwise.core.numerics.solve import solve
 
 G = 9.80665
-RHO, MU = 999.1, 1.138e-3  # a liquid like water near 15 °C (values only need to be consistent)
 RTOL = 1e-8
 
-# (name, [(D m, L m, eps m, K)], Kv or None) — a header of our own with a two-size branch.
-BRANCHES = [
-    ("Coil 1", [(0.0779, 42.0, 4.6e-5, 4.2)], None),
-    ("Coil 2", [(0.0627, 35.0, 4.6e-5, 6.0)], 40.0),
-    ("Reducer run", [(0.1023, 20.0, 1.5e-4, 1.5), (0.0525, 12.0, 1.5e-4, 2.5)], None),
-    ("Bypass", [(0.0409, 8.0, 4.6e-5, 9.0)], 18.0),
-]
 
 
-def network(elevation=0.0) -> Network:
-    return Network(
-        Fluid("test liquid", RHO, MU, "water"),
-        tuple(Branch(n, tuple(Segment(*s) for s in segs), kv) for n, segs, kv in BRANCHES),
-        elevation_change=elevation,
-    )
+def network(elevation: float = 0.0) -> Network:
+    """The shared test header (tests/networks.py: a header of our own with a two-size branch)."""
+    return test_header(elevation)
 
 
 # ---- the independent reference ------------------------------------------------------------

@@ -9,10 +9,14 @@ from __future__ import annotations
 
 import asyncio
 import io
-from collections.abc import Awaitable, Callable
+from collections.abc import AsyncIterator, Awaitable, Callable
+from contextlib import asynccontextmanager
+from pathlib import Path
 from types import SimpleNamespace
+from typing import Any
 
 import pytest
+from textual.pilot import Pilot
 
 
 @pytest.fixture(autouse=True)
@@ -59,6 +63,23 @@ def run(scenario: Callable[[], Awaitable[None]]) -> None:
     asyncio.run(scenario())
 
 
+@asynccontextmanager
+async def started(key: str | None = None, size: tuple[int, int] = (80, 24),
+                  site: str | Path | None = None) -> AsyncIterator[tuple[Any, Pilot]]:
+    """The app on ``site`` (None: the last site, or the demo), settled on its first answer,
+    then (``key``, such as ``f3``) on another screen, settled again."""
+    from branchwise.tui.app import BranchwiseApp
+
+    app = BranchwiseApp(site)
+    async with app.run_test(size=size) as pilot:
+        await settle(pilot)
+        if key is not None:
+            await pilot.press(key)
+            await settle(pilot)
+        yield app, pilot
+
+
 @pytest.fixture
 def ui():
-    return SimpleNamespace(settle=settle, type=type_text, text=screen_text, run=run)
+    return SimpleNamespace(settle=settle, type=type_text, text=screen_text, run=run,
+                           started=started)

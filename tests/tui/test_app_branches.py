@@ -6,8 +6,6 @@ from __future__ import annotations
 import pytest
 from textual.widgets import DataTable
 
-from branchwise.tui.app import BranchwiseApp
-
 FOOT = 0.3048  # m per foot (NIST SP 811, exact)
 
 
@@ -17,11 +15,7 @@ def names(app) -> list[str]:
 
 def test_branch_table_by_keys(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f3")
-            await ui.settle(pilot)
+        async with ui.started("f3") as (app, pilot):
             table = app.screen.query_one("#branch-table", DataTable)
             assert app.focused is table
 

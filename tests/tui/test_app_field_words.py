@@ -16,9 +16,7 @@ from branchwise.tui.widgets.field import Field
 
 def test_liquid_field_message_in_us_units(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("ctrl+t")  # US customary
             await pilot.press("f2")
             await ui.settle(pilot)

@@ -16,9 +16,7 @@ from branchwise.tui.screens.dialogs import ChoiceScreen
 
 def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
     async def crash() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("v")
             await ui.type(pilot, "7.5 psi")
             await ui.settle(pilot)
@@ -28,9 +26,7 @@ def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
             app.exit()  # no question asked: as if the terminal were closed
 
     async def come_back() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.pause()
             assert isinstance(app.screen, ChoiceScreen)
             assert "Unsaved changes" in ui.text(app)
@@ -63,9 +59,7 @@ def test_open_from_the_site_list_and_export(ui, data_dir):
     path = save_site(site, data_dir / "sites" / "pump-room-2.toml")
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("ctrl+o")
             listing = ui.text(app)
             assert "Pump room 2" in listing and "pump-room-2.toml" in listing

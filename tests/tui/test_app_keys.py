@@ -32,9 +32,7 @@ def test_every_binding_has_an_id_and_a_short_description():
 
 def test_help_palette_greying_units_and_cautions(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
 
             # Greyed, not hidden: nothing to undo yet, and the Split screen is the one shown.
             active = app.screen.active_bindings

@@ -11,14 +11,11 @@ import pytest
 
 from branchwise.core.site.read import demo_site
 from branchwise.core.site.solve import solve_site
-from branchwise.tui.app import BranchwiseApp
 
 
 def test_lift_typed_on_the_split_screen(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             before = app.outcome.solved.result
             await pilot.press("z")
             await ui.type(pilot, "3")  # a bare number takes the display unit, m
@@ -43,9 +40,7 @@ def test_site_name_by_key_and_kept_in_the_saved_file(ui, data_dir):
     from branchwise.core.site.read import load_site
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("f8")
             # The old name is selected: typing replaces it. Enter goes through the record's
             # four fields and keeps on the last.
@@ -63,9 +58,7 @@ def test_site_name_by_key_and_kept_in_the_saved_file(ui, data_dir):
 
 def test_an_export_never_replaces_a_file(ui, data_dir):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             for _ in range(2):  # the same minute: the same proposed name
                 await pilot.press("r", "enter")
                 await ui.settle(pilot)

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import pytest
 
-from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.widgets.field import Field
 
 
@@ -18,11 +17,7 @@ def message(app, name: str) -> str:
 
 def test_liquid_by_keys(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f2")
-            await ui.settle(pilot)
+        async with ui.started("f2") as (app, pilot):
             assert app.focused.id == "liquid-kind-select"
 
             # Water boils at 99.97 °C at one standard atmosphere (IAPWS-IF97 saturation line,

@@ -4,7 +4,6 @@ read whole where its field is; a cell being edited on the Branches screen says s
 from __future__ import annotations
 
 from branchwise.core.errors import NoSolutionError
-from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.state.session import set_find
 from branchwise.tui.widgets.status import ERROR_LINES, StatusStrip
 
@@ -21,9 +20,7 @@ def _words(text: str) -> str:
 
 def test_long_errors_at_80x24(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             # A branch error longer than a line: wrapped in the status, the value typed in sight.
             long_name = "Chilled-water return to air handler AHU-1 coil (level 3)"
             app.edit("Rename", lambda s: setattr(s.branches[0], "name", long_name))
@@ -64,11 +61,7 @@ def test_long_errors_at_80x24(ui):
 
 def test_cell_editor_says_what_is_edited(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f3")
-            await ui.settle(pilot)
+        async with ui.started("f3") as (app, pilot):
             screen = app.screen
             box = screen.query_one("#branches")
             assert "Enter edit" in ui.text(app)

@@ -89,9 +89,7 @@ def test_snapshots_120x40(ui):
     problems: list[str] = []
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started(size=(120, 40)) as (app, pilot):
             app.edit("size AHU-1", lambda s: set_find(s, "diameter", "AHU-1 coil", "25 L/s"))
             await shot(pilot, ui, "split-120x40", problems)
             await pilot.press("f3")
@@ -111,14 +109,10 @@ def test_snapshots_of_several_readings(ui):
     problems: list[str] = []
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             app.edit("clamp-on", lambda s: set_given(s, "measured_flow", "80 gpm", 2))
             await shot(pilot, ui, "readings-split-80x24", problems)
-        app = BranchwiseApp()
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started(size=(120, 40)) as (app, pilot):
             app.edit("clamp-on", lambda s: set_given(s, "measured_flow", "80 gpm", 2))
             await pilot.press("f3")
             await shot(pilot, ui, "readings-branches-120x40", problems)

@@ -20,11 +20,7 @@ from branchwise.tui.widgets.field import Field
 
 def test_branch_form_starts_where_the_person_was(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f3")
-            await ui.settle(pilot)
+        async with ui.started("f3") as (app, pilot):
             # A new branch: the name first, selected, so that typing replaces it.
             await pilot.press("a")
             await pilot.pause()
@@ -64,9 +60,7 @@ def test_find_diameter_prefilled_gives_back_the_installed_size(ui, row):
     ASME B36.10M bore, from the catalog), never the next size up."""
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             site = app.site
             installed = parse_size(site.branches[row].segments[0].size, "size")
             flow = app.outcome.solved.result.branches[row].flow
@@ -93,11 +87,7 @@ def test_find_diameter_prefilled_gives_back_the_installed_size(ui, row):
 
 def test_liquid_pressure_says_absolute(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f2")
-            await ui.settle(pilot)
+        async with ui.started("f2") as (app, pilot):
             assert "Pressure (absolute)" in ui.text(app) and "[kPa abs]" in ui.text(app)
             await pilot.press("ctrl+t")
             await ui.settle(pilot)
@@ -108,9 +98,7 @@ def test_liquid_pressure_says_absolute(ui):
 
 def test_80x24_in_us_units_keeps_what_matters(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("ctrl+t")
             await ui.settle(pilot)
             text = ui.text(app)
@@ -148,9 +136,7 @@ def test_80x24_in_us_units_keeps_what_matters(ui):
 
 def test_focus_is_plain_to_see(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             kind = app.screen.query_one("#find-kind")
             kind.focus()
             await pilot.pause()
@@ -176,9 +162,7 @@ def test_curve_legend_reads_without_colour():
 
 def test_undo_back_to_the_saved_site_is_not_unsaved(ui, data_dir):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("v", "end", "ctrl+u", *"12", "escape")
             await ui.settle(pilot)
             assert app.session.dirty and "●" in app.sub_title

@@ -12,7 +12,6 @@ from __future__ import annotations
 
 from textual.widgets import Input
 
-from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.screens.warnings import fit_lines
 from branchwise.tui.state.givens import set_given
 from branchwise.tui.widgets.texttable import TextTable
@@ -31,9 +30,7 @@ def footer_text(app) -> str:
 
 def test_enter_in_a_value_moves_to_the_next_field_and_letters_stay_in_fields(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("v", "ctrl+u")
             await ui.type(pilot, "12")
             await pilot.press("enter")
@@ -63,11 +60,7 @@ def test_enter_in_a_value_moves_to_the_next_field_and_letters_stay_in_fields(ui)
 
 def test_liquid_enter_goes_round_the_fields_shown(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f2")
-            await ui.settle(pilot)
+        async with ui.started("f2") as (app, pilot):
             await pilot.press("tab")  # the temperature (water: temperature, pressure)
             assert app.focused.parent.parent.id == "fluid-temperature"
             assert "Enter next · Esc" in footer_text(app)
@@ -83,9 +76,7 @@ def test_liquid_enter_goes_round_the_fields_shown(ui):
 
 def test_g_and_f_open_their_lists_at_once(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("g")
             await pilot.pause()
             assert app.screen.__class__.__name__ == "ChoiceMenu"
@@ -105,9 +96,7 @@ def test_g_and_f_open_their_lists_at_once(ui):
 
 def test_app_keys_under_a_dialog_act_or_say_why(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             # A dialog that only shows something: the key closes it and acts.
             await pilot.press("f1")
             await pilot.pause()
@@ -143,9 +132,7 @@ def test_app_keys_under_a_dialog_act_or_say_why(ui):
 
 def test_units_dialog_keeps_on_enter_like_every_dialog(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("f6")
             await pilot.pause()
             await pilot.press("tab", "tab", "right")  # flow: the next unit of the list
@@ -163,9 +150,7 @@ def test_units_dialog_keeps_on_enter_like_every_dialog(ui):
 
 def test_greyed_keys_say_why(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("ctrl+z")
             await pilot.pause()
             assert "Nothing to undo." in notices(app)
@@ -188,9 +173,7 @@ def test_fit_lines_says_how_many_are_left_out():
 
 def test_split_at_80x24_keeps_every_branch_row_with_many_warnings(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             # A tiny pressure drop: laminar flow in every segment (five warnings), and a
             # diameter to find (two more lines for the answer).
             app.edit("Given value", lambda s: set_given(s, "pressure_drop", "0.002 kPa"))

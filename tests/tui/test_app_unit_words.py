@@ -11,7 +11,6 @@ import re
 
 import pytest
 
-from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.state.givens import set_given
 from branchwise.tui.state.session import set_find
 
@@ -25,9 +24,7 @@ def _numbers_before(unit: str, text: str) -> list[float]:
 
 def test_us_units_on_the_split_screen(ui):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started(size=(120, 40)) as (app, pilot):
             await pilot.press("ctrl+t")  # US customary
             # 28 psid across the demo's header drives every coil above 3 m/s.
             app.edit("Given value", lambda s: set_given(s, "pressure_drop", "28 psi"))
@@ -98,9 +95,7 @@ def test_a_chosen_display_unit_is_used_in_warnings(ui):
     """SI with velocities in ft/s chosen (F6): warnings follow the choice."""
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started(size=(120, 40)) as (app, pilot):
             app.settings.display_units = {"velocity": "ft/s"}
             app.edit("Given value", lambda s: set_given(s, "pressure_drop", "28 psi"))
             await ui.settle(pilot)

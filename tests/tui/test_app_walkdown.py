@@ -61,9 +61,7 @@ def flows_on_screen(app) -> dict[str, float]:
 
 def test_walkdown_by_keys(ui, data_dir):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             assert app.site.title.startswith("Demo")
             before = flows_on_screen(app)
             assert set(before) == {"AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass"}

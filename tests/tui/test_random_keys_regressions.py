@@ -10,7 +10,6 @@ from pathlib import Path
 import keyfuzz
 import pytest
 
-from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.screens.branches.form import BranchForm
 from branchwise.tui.widgets.field import Field
 
@@ -29,9 +28,7 @@ def test_enter_then_ctrl_n_in_the_branch_form(ui, sandbox, data_dir, monkeypatch
     assert not report.problems, report.describe(7108, "branch-form")
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("f3", "e")
             form = app.screen
             assert isinstance(form, BranchForm)
@@ -85,9 +82,7 @@ def test_the_palette_still_lists_and_runs_the_app_actions(ui):
     from branchwise.tui.screens.liquid import LiquidScreen
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("ctrl+p")
             titles = [c.title for c in app.get_system_commands(app.screen)]
             for title in ("Liquid (F2)", "Undo (", "Save as (", "Quit ("):
@@ -141,9 +136,7 @@ def test_a_burst_of_keys_closes_a_dialog_once(ui):
     from branchwise.tui.screens.split.screen import SplitScreen
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             for opener, burst in BURSTS:
                 await pilot.press(*opener)
                 await pilot.pause()
@@ -174,9 +167,7 @@ def test_a_closed_palette_starts_no_search(sandbox, data_dir, ui):
     assert not report.problems, report.describe()
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("ctrl+p")
             palette = app.screen
             assert isinstance(palette, Palette)
@@ -200,9 +191,7 @@ def test_page_keys_in_the_palette_while_its_list_is_hidden(ui):
     from textual.command import CommandList
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("ctrl+p")
             await pilot.pause(0.3)
             palette = app.screen
@@ -228,9 +217,7 @@ def test_a_double_enter_closes_the_tolerances_dialog_once(ui):
     stack too (ScreenStackError)."""
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("l")
             await pilot.pause()
             assert len(app.screen_stack) == 2
@@ -250,11 +237,7 @@ def test_an_undo_under_the_cell_editor_takes_its_cell_away(ui):
     from branchwise.core.site.spec import BranchSpec, SegmentSpec
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f3")
-            await ui.settle(pilot)
+        async with ui.started("f3") as (app, pilot):
             before = len(app.site.branches)
             app.edit("Add Spare", lambda s: s.branches.append(
                 BranchSpec(name="Spare", segments=[SegmentSpec(size="2 in sch 40")])))
@@ -283,9 +266,7 @@ def test_the_file_name_dialog_mounted_without_its_field_does_not_fail(ui):
     from branchwise.tui.screens.dialogs import SaveAsScreen
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             dialog = SaveAsScreen(Path("."), "record.md")
             dialog.on_mount()  # nothing composed: it must simply return
             assert app._exception is None
@@ -305,9 +286,7 @@ def test_an_app_key_from_the_palette_then_the_end(sandbox, data_dir, ui):
     assert not report.problems, report.describe(221, "palette")
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started(size=(120, 40)) as (app, pilot):
             await pilot.press("ctrl+p")
             await ui.settle(pilot)
             palette = app.screen

@@ -81,9 +81,7 @@ def check_band(app, ui) -> None:
 
 def test_band_by_keys(ui, monkeypatch):
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             screen = app.screen
             await pilot.press("b")
             await until(pilot, lambda: screen.views.band_state() == "current")
@@ -271,16 +269,12 @@ def test_snapshots_of_curve_and_band(ui, monkeypatch):
     problems: list[str] = []
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             await pilot.press("p")
             await shot(pilot, ui, "curve-80x24", problems)
             await pilot.press("b")
             await shot(pilot, ui, "band-80x24", problems)
-        app = BranchwiseApp()
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started(size=(120, 40)) as (app, pilot):
             await pilot.press("p")
             await shot(pilot, ui, "curve-120x40", problems)
 
@@ -295,9 +289,7 @@ def test_band_of_a_site_without_an_answer(ui):
     from branchwise.tui.state.session import set_find
 
     async def scenario() -> None:
-        app = BranchwiseApp()
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
+        async with ui.started() as (app, pilot):
             screen = app.screen
             await pilot.press("b")
             await until(pilot, lambda: screen.views.band_state() == "current")

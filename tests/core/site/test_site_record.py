@@ -7,34 +7,17 @@ import datetime as dt
 import tomllib
 
 import pytest
+from site_texts import PUMP_ROOM
 
 from branchwise.core.errors import InputError
 from branchwise.core.site.read import demo_text, parse_site
 from branchwise.core.site.spec import RecordSpec
 from branchwise.core.site.write import dump_site
 
-PLAIN = """format = 1
-name = "Pump room"  # no record, no tags
-
-[fluid]
-kind = "water"
-temperature = "18 degC"
-
-[conditions]
-pressure_drop = "68 kPa"
-
-[[branches]]
-name = "Condenser A"
-diameter = "102.26 mm"
-length = "64 m"
-roughness = "0.045 mm"
-
-[[branches]]
-name = "Jacket loop"
-size = "3 in sch 40"   # the pipe as bought
-length = "180 ft"
-material = "commercial-steel"
-"""
+PLAIN = (PUMP_ROOM.replace('name = "Pump room"', 'name = "Pump room"  # no record, no tags')
+         .replace("minor_k = 6.2\n", "")
+         .replace('size = "3 in sch 40"', 'size = "3 in sch 40"   # the pipe as bought'))
+"""The shared pump room with comments of its own (a save must keep them as they are)."""
 
 RECORD = """
 [record]

@@ -13,6 +13,8 @@ import math
 
 import numpy as np
 import pytest
+from networks import BRANCHES as TEST_BRANCHES
+from networks import MU, RHO, test_header
 
 from branchwise.core.errors import InputError
 from branchwise.core.model import Branch, Fluid, Network, PressureDrop, Segment, branch
@@ -23,20 +25,12 @@ from branchwise.core.numerics.variants import tiled_layout
 from branchwise.core.report.curve_csv import to_csv
 
 G = 9.80665
-RHO, MU = 999.1, 1.138e-3  # a liquid like water near 15 °C (values need only be consistent)
-BRANCHES = [
-    ("Coil 1", [(0.0779, 42.0, 4.6e-5, 4.2)]),
-    ("Coil 2", [(0.0627, 35.0, 4.6e-5, 6.0)]),
-    ("Reducer run", [(0.1023, 20.0, 1.5e-4, 1.5), (0.0525, 12.0, 1.5e-4, 2.5)]),
-]
+BRANCHES = [(name, segments, None) for name, segments, _ in TEST_BRANCHES[:3]]
+"""The test header's first three branches, without valves."""
 
 
 def network(elevation: float = 1.5) -> Network:
-    return Network(
-        Fluid("test liquid", RHO, MU, "water"),
-        tuple(Branch(n, tuple(Segment(*s) for s in segs)) for n, segs in BRANCHES),
-        elevation_change=elevation,
-    )
+    return test_header(elevation, BRANCHES)
 
 
 def ref_head(segs, q):
@@ -79,7 +73,7 @@ def test_curve_points_obey_equal_head_loss_with_fluids_colebrook():
     for row in range(3):
         flows = curve.branch_flows[row]
         assert flows.sum() == pytest.approx(curve.total_flow[row], rel=1e-11)
-        for (_, segs), q in zip(BRANCHES, flows, strict=True):
+        for (_, segs, _), q in zip(BRANCHES, flows, strict=True):
             assert ref_head(segs, q) == pytest.approx(curve.driving_head[row], rel=1e-8)
         # Δp = ρ g (h + Δz): the loss plus the lift.
         assert curve.pressure_drop[row] == pytest.approx(
@@ -152,8 +146,8 @@ def test_tiled_copies_are_independent_networks():
     q, info = flows_at_head(lay, 4.0)
     assert info.converged
     for c in range(3):
-        segs = tuple(
-            Branch(n, tuple(Segment(s[0] * scale[c, 0], *s[1:]) for s in ss)) for n, ss in BRANCHES)
+        segs = tuple(Branch(n, tuple(Segment(s[0] * scale[c, 0], *s[1:]) for s in ss))
+                     for n, ss, _ in BRANCHES)
         alone = Network(Fluid("t", 1000.0, nu[c] * 1000.0), segs)
         expected, _ = flows_at_head(Layout.from_network(alone), 4.0)
         np.testing.assert_allclose(q[3 * c:3 * c + 3], expected, rtol=1e-12)

@@ -17,17 +17,16 @@ import math
 
 import numpy as np
 import pytest
+from networks import BRANCHES, test_header
 
 from branchwise.core.errors import InputError
 from branchwise.core.model import (
-    Branch,
     FindFlows,
     FindUnknown,
     Fluid,
     MeasuredFlow,
     Network,
     PressureDrop,
-    Segment,
     TotalFlow,
     branch,
 )
@@ -35,27 +34,16 @@ from branchwise.core.numerics.solve import solve
 from branchwise.core.numerics.uncertainty import Thermal, Tolerances, build_plan, monte_carlo
 
 G = 9.80665
-RHO, MU = 999.1, 1.138e-3  # a liquid like water near 15 °C (values need only be consistent)
 # ν and ρ slopes of water near 15 °C, of the right order (from memory; only used as a model)
 WATER_NEAR_15C = Thermal(dln_nu_dt=-0.0265, dln_rho_dt=-1.5e-4)
 
-BRANCHES = [
-    ("Coil 1", [(0.0779, 42.0, 4.6e-5, 4.2)], None),
-    ("Coil 2", [(0.0627, 35.0, 4.6e-5, 6.0)], 40.0),
-    ("Reducer run", [(0.1023, 20.0, 1.5e-4, 1.5), (0.0525, 12.0, 1.5e-4, 2.5)], None),
-    ("Bypass", [(0.0409, 8.0, 4.6e-5, 9.0)], 18.0),
-]
 NOTHING = Tolerances(gauge_percent=0, flow_meter_percent=0, roughness_factor=(1, 1),
                      diameter_percent=0, length_percent=0, temperature_k=0, fitting_k_percent=0,
                      valve_kv_percent=0)
 
 
 def network(elevation: float = 1.5) -> Network:
-    return Network(
-        Fluid("test liquid", RHO, MU, "water"),
-        tuple(Branch(n, tuple(Segment(*s) for s in segs), kv) for n, segs, kv in BRANCHES),
-        elevation_change=elevation,
-    )
+    return test_header(elevation)
 
 
 # Every direction the solver knows; targets chosen so that every draw has an answer.
