@@ -65,7 +65,41 @@ _PUBLIC = {
 }
 """Each public name and the module (under this package) that defines it."""
 
-__all__ = sorted(_PUBLIC)
+__all__ = [
+    "Branch",
+    "BranchResult",
+    "BranchwiseError",
+    "FindFlows",
+    "FindUnknown",
+    "Fluid",
+    "InputError",
+    "MeasuredFlow",
+    "Network",
+    "NoSolutionError",
+    "PressureDrop",
+    "Result",
+    "Segment",
+    "SegmentResult",
+    "Site",
+    "SiteResult",
+    "SystemCurve",
+    "Tolerances",
+    "TotalFlow",
+    "UncertaintyResult",
+    "Units",
+    "branch",
+    "fluid_from_spec",
+    "load_site",
+    "monte_carlo",
+    "parse_quantity",
+    "parse_site",
+    "render",
+    "save_site",
+    "solve",
+    "solve_site",
+    "system_curve",
+    "with_uncertainty",
+]
 
 
 def __getattr__(name: str) -> Any:

@@ -5,7 +5,7 @@ therefore carries it *marked*: ``flow_text(0.012)`` returns the flow as a marker
 kind and the exact SI value. :func:`render` turns marked text into words — by default the SI
 units a site engineer reads most easily (flows in L/s, heads in m, pressures in kPa, diameters
 in mm) — and ``branchwise.core.units.restate`` turns the same text into US or any other units.
-Errors and warnings keep the marked text (``NoSolutionError.marked``, ``Warning.marked``) and
+Errors and warnings keep the marked text (``NoSolutionError.marked``, ``SolveWarning.marked``) and
 show the SI rendering as their plain message, so nothing prints a marker.
 """
 

@@ -8,7 +8,7 @@ from ..fluids import liquid
 from ..messages import flow_text, velocity_text
 from ..model import Network
 from .friction import RE_LAMINAR, RE_TURBULENT
-from .results import Arrays, Convergence, Warning
+from .results import Arrays, Convergence, SolveWarning
 
 ROUGHNESS_RANGE = 0.05
 """ε/D above which Colebrook-type correlations are extrapolated (commonly held limit)."""
@@ -16,8 +16,8 @@ ROUGHNESS_RANGE = 0.05
 
 def collect_warnings(
     net: Network, a: Arrays, regimes: np.ndarray, conv: Convergence
-) -> list[Warning]:
-    out: list[Warning] = []
+) -> list[SolveWarning]:
+    out: list[SolveWarning] = []
     names = [b.name for b in net.branches]
     seg_index = _segment_numbers(net)
     rr = np.array([s.roughness / s.diameter for b in net.branches for s in b.segments])
@@ -28,7 +28,7 @@ def collect_warnings(
         where = ""
         if seg is not None and branch is not None and len(net.branches[branch].segments) > 1:
             where = f"segment {seg_index[seg] + 1}: "
-        out.append(Warning(code, name, f"{where}{detail}"))
+        out.append(SolveWarning(code, name, f"{where}{detail}"))
 
     flowing = a.flow[a.seg_branch] != 0
     speed = np.abs(a.velocity)
@@ -50,7 +50,7 @@ def collect_warnings(
     for b in np.flatnonzero(a.flow < 0):
         add("reverse-flow", None, int(b), f"reverse flow ({flow_text(a.flow[b])}): {why}")
     if not conv.converged:
-        out.append(Warning("not-converged", None,
+        out.append(SolveWarning("not-converged", None,
                            f"the solver stopped at a relative residual of {conv.residual:.2g}"))
     return out
 

@@ -62,7 +62,7 @@ class Solved:
 
 
 @dataclass(frozen=True)
-class Warning:
+class SolveWarning:
     """Something the engineer should know. ``code`` is stable for scripts.
 
     ``marked`` is the text with its quantities marked (see ``core.messages``), for a boundary
@@ -121,7 +121,7 @@ class Result:
     total_flow: float
     arrays: Arrays
     solved: Solved | None
-    warnings: tuple[Warning, ...]
+    warnings: tuple[SolveWarning, ...]
     convergence: Convergence
     notes: tuple[str, ...] = field(default=())
 

@@ -28,6 +28,7 @@ def test_the_public_names_are_there():
     import branchwise.core as core
 
     assert STABLE <= set(core.__all__)
+    assert set(core.__all__) == set(core._PUBLIC)  # every name exported has its module
     for name in core.__all__:
         assert getattr(core, name) is not None, name
 
