@@ -5,6 +5,7 @@ from __future__ import annotations
 from typing import TextIO
 
 from branchwise.core.errors import InputError
+from branchwise.core.fluids import LIQUIDS
 
 
 def run_presets(action: str, kind: str | None, key: str | None, values: list[str],
@@ -52,8 +53,8 @@ def _list(kind: str, presets, out: TextIO) -> None:
             if not presets.is_user("materials", m.key):
                 rows.append((m.key, "shipped", f"{m.name}, ε {m.roughness_m * 1000:g} mm"))
     else:
-        rows.append(("water, seawater, ethylene-glycol, propylene-glycol, custom", "built in",
-                     "by temperature (and concentration or salinity)"))
+        for key, built_in in LIQUIDS.items():
+            rows.append((key, "built in", f"{built_in.label}: {', '.join(built_in.inputs)}"))
     for key, values in presets.list(kind).items():
         if presets.is_user(kind, key):
             text = ", ".join(f"{n} {v}" for n, v in values.items())

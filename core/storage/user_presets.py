@@ -11,18 +11,15 @@ from collections.abc import Mapping
 from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError
+from ..fluids import INPUTS
 from ..units import parse_quantity
 
 if TYPE_CHECKING:
     from ..catalogs.materials import Material
     from .presets import PresetStore
 
-FLUID_FIELDS = {
-    "density": "density", "viscosity": "viscosity", "kinematic_viscosity": "kinematic_viscosity",
-    "temperature": "temperature", "concentration": "fraction", "salinity": "salinity",
-    "pressure": "pressure",
-}
-"""Quantities a liquid preset may hold, with the unit kind each is read as."""
+FLUID_FIELDS = {key: i.quantity for key, i in INPUTS.items() if i.quantity is not None}
+"""Quantities a liquid preset may hold (the liquids registry's inputs), with their units kind."""
 TEXT_FIELDS = ("name", "kind", "source")
 MATERIAL_FIELDS = {"roughness": "roughness", "aged_roughness": "roughness"}
 """Quantities a material preset may hold; plus ``hazen_williams_c`` (a plain number)."""

@@ -56,6 +56,8 @@ def test_pint_only_in_the_units_package():
     ("branchwise.tui.state", "branchwise.tui.screens"),
     ("branchwise.tui.state", "branchwise.tui.widgets"),
     ("branchwise.tui.widgets", "branchwise.tui.screens"),
+    ("branchwise.tui.drawing", "branchwise.tui.widgets"),
+    ("branchwise.tui.drawing", "branchwise.tui.screens"),
     ("branchwise.core.numerics", "branchwise.core.site"),
     ("branchwise.core.numerics", "branchwise.core.report"),
     ("branchwise.core.site", "branchwise.core.report"),
@@ -73,6 +75,15 @@ def test_the_state_of_the_app_needs_no_textual():
     apart from them."""
     for name, names in _imported_names("branchwise.tui.state").items():
         assert not names & {"textual", "rich"}, name
+
+
+def test_widgets_holds_widgets():
+    """Each module of tui/widgets defines a widget class (helpers live elsewhere: drawing/,
+    state/, quiet.py)."""
+    for name, path in modules().items():
+        if name.startswith("branchwise.tui.widgets."):
+            tree = ast.parse(path.read_text(encoding="utf-8"))
+            assert any(isinstance(node, ast.ClassDef) and node.bases for node in tree.body), name
 
 
 def test_root_is_the_checkout():

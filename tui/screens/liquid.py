@@ -19,10 +19,10 @@ from branchwise.core.fluids import INPUTS, LIQUIDS, liquid
 from branchwise.core.site.fields import FieldPath
 from branchwise.core.site.spec import Site
 
+from ..quiet import put
 from ..state.values import is_bare_number, text_of, with_unit
 from ..widgets.choice import Choice
 from ..widgets.field import Field
-from ..widgets.quiet import put
 from .work_screen import WorkScreen
 
 

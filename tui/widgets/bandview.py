@@ -18,7 +18,7 @@ from textual.app import ComposeResult
 from textual.containers import ScrollableContainer
 from textual.widgets import Static
 
-from .quiet import put
+from ..quiet import put
 
 if TYPE_CHECKING:
     from branchwise.core.site.solve import SiteResult

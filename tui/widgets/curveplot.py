@@ -16,7 +16,7 @@ from rich.cells import cell_len
 from rich.text import Text
 from textual.widget import Widget
 
-from .braille import BrailleCanvas
+from ..drawing.braille import BrailleCanvas
 
 GUIDE_STYLE = "grey50"
 POINT_STYLE = "bold bright_red"

@@ -9,7 +9,7 @@ from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.widgets import Input, Label, Static
 
-from .quiet import put
+from ..quiet import put
 
 
 class Field(Vertical):

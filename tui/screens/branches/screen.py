@@ -20,6 +20,7 @@ from textual.widgets import DataTable, Input, Label, Static
 from branchwise.core.site.fields import FieldPath
 from branchwise.core.site.spec import BranchSpec, Site
 
+from ...quiet import put
 from ...state.givens import (
     add_reading,
     clear_reading,
@@ -31,7 +32,6 @@ from ...state.givens import (
 from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.branchtable import BranchTable
-from ...widgets.quiet import put
 from ..work_screen import WorkScreen
 from .cells import (
     BRANCH_COLUMNS,

@@ -22,11 +22,11 @@ from branchwise.core.givens import GIVENS
 from branchwise.core.site.fields import FieldPath
 from branchwise.core.site.spec import Site
 
+from ...quiet import put, show_text
 from ...state.givens import given_label, given_of, given_text, make_given, reading_text, set_reading
 from ...state.session import find_of, set_find
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.choice import Choice
-from ...widgets.quiet import put, show_text
 from ...workspace import workspace
 
 if TYPE_CHECKING:

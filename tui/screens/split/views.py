@@ -29,11 +29,11 @@ from textual.widget import Widget
 from textual.widgets import Static
 from textual.worker import get_current_worker
 
+from ...drawing.share_bar import share_bar
+from ...quiet import put
 from ...state.outcome import Band
 from ...widgets.bandview import WIDE, BandView, band_body, band_notes
 from ...widgets.curveplot import CurvePlot, PlotData, Series
-from ...widgets.quiet import put
-from ...widgets.sharebar import share_bar
 from ...widgets.texttable import TextTable
 from ...workspace import workspace
 from ..warnings import fit_lines
