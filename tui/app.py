@@ -30,8 +30,8 @@ from branchwise.core.storage.settings import Settings  # noqa: E402
 from branchwise.core.units import Units  # noqa: E402
 
 from .files import SiteFiles  # noqa: E402
-from .keys import SCREEN_TITLES, key_sections, system_commands  # noqa: E402
-from .screens.split.screen import SplitScreen  # noqa: E402
+from .keys import key_sections, system_commands  # noqa: E402
+from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
 from .state.outcome import Band, Outcome  # noqa: E402
 from .state.session import Session  # noqa: E402
 
@@ -39,16 +39,11 @@ KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
 
 
-def _liquid_screen() -> Screen:
-    from .screens.liquid import LiquidScreen  # built when first shown: a quicker start
-
-    return LiquidScreen()
-
-
-def _branches_screen() -> Screen:
-    from .screens.branches.screen import BranchesScreen
-
-    return BranchesScreen()
+SCREENS_GROUP = Binding.Group("Screens")
+SCREEN_KEYS = [Binding(s.key, f"show('{s.mode}')", s.title, id=f"show-{s.mode}",
+                       key_display=s.key.upper(), group=SCREENS_GROUP, tooltip=s.tooltip)
+               for s in SCREENS]
+"""A key for each screen of the registry (F2 Liquid, F3 Branches, F4 Split)."""
 
 
 class Solved(Message):
@@ -68,18 +63,12 @@ class BranchwiseApp(App[None]):
 
     TITLE = "branchwise"
     CSS_PATH = Path(__file__).parent / "app.tcss"
-    MODES = {"liquid": _liquid_screen, "branches": _branches_screen, "split": SplitScreen}
-    DEFAULT_MODE = "split"
-    SCREENS_GROUP = Binding.Group("Screens")
+    MODES = {s.mode: s.build for s in SCREENS}
+    DEFAULT_MODE = FIRST
     BINDINGS = [
         Binding("f1,question_mark", "help", "Help", id="help", key_display="F1",
                 tooltip="Every key of this screen, and where things are"),
-        Binding("f2", "show('liquid')", "Liquid", id="show-liquid", key_display="F2",
-                group=SCREENS_GROUP, tooltip="The liquid: kind, temperature, properties"),
-        Binding("f3", "show('branches')", "Branches", id="show-branches", key_display="F3",
-                group=SCREENS_GROUP, tooltip="The branches between the two headers"),
-        Binding("f4", "show('split')", "Split", id="show-split", key_display="F4",
-                group=SCREENS_GROUP, tooltip="Given condition, what to find, the flow split"),
+        *SCREEN_KEYS,
         Binding("ctrl+s", "save", "Save", id="save", priority=True,
                 tooltip="Save the site to its file (asks for a name the first time)"),
         Binding("ctrl+r", "save_as", "Save as", id="save-as", priority=True, show=False,
@@ -306,7 +295,7 @@ class BranchwiseApp(App[None]):
         if action == "save" and self.session.path is not None:
             return f"Nothing to save: no changes since it was saved to {self.session.path.name}."
         if action == "show":
-            return f"This is the {SCREEN_TITLES.get(str(parameters[0]), '')} screen."
+            return f"This is the {TITLES.get(str(parameters[0]), '')} screen."
         return ""
 
     @classmethod

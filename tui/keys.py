@@ -14,9 +14,8 @@ from textual.binding import Binding
 from textual.dom import DOMNode
 from textual.screen import Screen
 
+from .screens.registry import TITLES
 from .workspace import workspace
-
-SCREEN_TITLES = {"liquid": "Liquid", "branches": "Branches", "split": "Split"}
 
 
 def base_screen(app: App[Any]) -> Screen[Any] | None:
@@ -33,7 +32,7 @@ def key_sections(app: App[Any]) -> list[tuple[str, list[Binding]]]:
         own = bindings(type(screen).BINDINGS)
         for widget_type in getattr(screen, "HELP_WIDGETS", ()):
             own += bindings(widget_type.BINDINGS)
-        sections.append((f"{SCREEN_TITLES.get(app.current_mode, '')} screen", own))
+        sections.append((f"{TITLES.get(app.current_mode, '')} screen", own))
     sections.append(("Everywhere", bindings(type(app).BINDINGS)))
     return sections
 

@@ -13,6 +13,7 @@ import math
 import textwrap
 from typing import TYPE_CHECKING, Any
 
+from ..finds import found_kind, found_noun
 from ..model import TotalFlow
 from ..site.solve import SiteResult
 from ..units import Units, format_number, units_for
@@ -42,7 +43,7 @@ def kind_of(sr: SiteResult, output: str) -> str:
     if output == "pressure drop":
         return "pressure"
     if output.endswith("(found)") and sr.result.solved is not None:
-        return sr.result.solved.quantity
+        return found_kind(sr.result.solved.quantity)
     return "flow"
 
 
@@ -83,7 +84,7 @@ def flow_band_cell(sr: SiteResult, branch: str, reader: Units | str = "si") -> s
 def _label(sr: SiteResult, output: str) -> str:
     if output.endswith("(found)") and sr.result.solved is not None:
         s = sr.result.solved
-        return f"{s.quantity.capitalize()} of '{s.branch}' (found)"
+        return f"{found_noun(s.quantity)} of '{s.branch}' (found)"
     return output[0].upper() + output[1:]
 
 

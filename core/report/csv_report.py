@@ -6,6 +6,7 @@ import csv
 import io
 from collections.abc import Sequence
 
+from ..finds import found_kind, found_noun
 from ..site.solve import SiteResult
 from ..units import Units, format_number, units_for
 from . import band
@@ -73,7 +74,8 @@ def _csv_values(sr: SiteResult, u: Units) -> list[tuple[str, str]]:
            item("total flow", r.total_flow, "flow")]
     if (s := r.solved) is not None:
         seg = f" segment {s.segment + 1}" if len(r.branch(s.branch).segments) > 1 else ""
-        out.append(item(f"{s.quantity} of '{s.branch}'{seg} (found)", s.value, s.quantity))
+        out.append(item(f"{found_noun(s.quantity).lower()} of '{s.branch}'{seg} (found)",
+                        s.value, found_kind(s.quantity)))
         if sr.catalog is not None:
             out.append((f"catalog size for '{s.branch}'", sr.catalog.size.label))
             out.append(item(f"flow of '{s.branch}' at the catalog size", sr.catalog.flow, "flow"))

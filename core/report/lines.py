@@ -6,7 +6,7 @@ record and the app's Split screen all say a result the same way, in the reader's
 from __future__ import annotations
 
 from ..errors import BranchwiseError
-from ..finds import FINDS
+from ..finds import found_kind, found_noun
 from ..givens import GIVENS, branch_of, kind_of, reading_words
 from ..site.readings import Comparison, compare
 from ..site.solve import SiteResult
@@ -104,9 +104,9 @@ def solved_lines(sr: SiteResult, reader: Units | str = "si", short: bool = False
     s = sr.result.solved
     if s is None:
         return []
-    kind = FINDS[s.quantity].quantity or s.quantity
+    kind = found_kind(s.quantity)
     seg = f" (segment {s.segment + 1})" if len(sr.result.branch(s.branch).segments) > 1 else ""
-    lines = [f"{s.quantity.capitalize()} of '{s.branch}'{seg} to carry "
+    lines = [f"{found_noun(s.quantity)} of '{s.branch}'{seg} to carry "
              f"{u.quantity(s.target_flow, 'flow')}: {u.quantity(s.value, kind)}"
              f"{_against_table(sr, u)}"]
     if sr.catalog is not None and short:

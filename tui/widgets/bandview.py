@@ -18,6 +18,8 @@ from textual.app import ComposeResult
 from textual.containers import ScrollableContainer
 from textual.widgets import Static
 
+from branchwise.core.finds import found_noun
+
 from ..quiet import put
 
 if TYPE_CHECKING:
@@ -74,7 +76,7 @@ def band_body(app: Workspace, sr: SiteResult, wide: bool) -> Text:
     for name, b in u.outputs.items():
         kind = bandtext.kind_of(sr, name)
         if name.endswith("(found)") and sr.result.solved is not None:
-            label = f"{sr.result.solved.quantity.capitalize()} of {sr.result.solved.branch}"
+            label = f"{found_noun(sr.result.solved.quantity)} of {sr.result.solved.branch}"
         elif name.startswith("branch '"):
             label = short_name(name).removesuffix(" flow")
         else:
@@ -91,7 +93,8 @@ def band_body(app: Workspace, sr: SiteResult, wide: bool) -> Text:
     if focus is not None:
         top, more, rest = bandtext.ranked(u, focus)
         what = {"total flow": "total flow", "pressure drop": "pressure drop"}.get(
-            focus, "found " + (sr.result.solved.quantity if sr.result.solved else "value"))
+            focus, "found " + (found_noun(sr.result.solved.quantity).lower() if sr.result.solved
+                               else "value"))
         narrow = not wide
         # Below 100 columns (a 24-line terminal, most likely) the ranking starts right under
         # the table, so that more of it is in sight.
