@@ -17,8 +17,8 @@ BoolArray = NDArray[np.bool_]
 FAST_TOL = 1e-12
 """|residual| at which a Monte Carlo row is done (relative, in head or friction factor): far
 below the spread of any band."""
-EXACT_TOL = 0.0
-"""A single solve stops only when its bracket has collapsed to round-off."""
+EXACT_TOL = 4 * 2.220446049250313e-16
+"""A single solve stops when its residual is at round-off (or its bracket has collapsed)."""
 
 
 def illinois(

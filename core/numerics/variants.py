@@ -80,9 +80,10 @@ class Variants:
 
     @classmethod
     def nominal(cls, network: Network, reading: float = 0.0, target: float = math.nan,
-                copies: int = 1) -> Variants:
-        """``copies`` copies of ``network`` as it is (reading: Pa or m³/s; target: m³/s)."""
-        base = Layout.from_network(network)
+                copies: int = 1, base: Layout | None = None) -> Variants:
+        """``copies`` copies of ``network`` as it is (reading: Pa or m³/s; target: m³/s;
+        base: the network's layout, when it is at hand)."""
+        base = Layout.from_network(network) if base is None else base
         segments = {name: np.tile(getattr(base, name), (copies, 1))
                     for name in ("diameter", "length", "roughness", "minor_k")}
         return cls(nu=np.full(copies, network.fluid.kinematic_viscosity),

@@ -12,7 +12,7 @@ import numpy as np
 from ...messages import head_text, kv_text, pressure_text
 from ...model import Branch, FindUnknown, Given, Network, PressureDrop
 from ..hydraulics import Array, IntArray, Layout, branch_head
-from ..variants import Variants
+from ..variants import BoolArray, Variants
 
 
 @dataclass(frozen=True)
@@ -27,13 +27,16 @@ class Sought:
     branch: int
     segment: int
     head: Array
+    alone: Layout | None = None
+    """The branch alone as one copy, when the copies are the network itself (saves tiling)."""
 
     @classmethod
     def one(cls, network: Network, want: FindUnknown, index: int, head: float) -> Sought:
         """The network itself, as one copy."""
-        v = Variants.nominal(network, target=want.target_flow)
-        return cls(network, Layout.from_network(network), v, index, want.segment,
-                   np.array([float(head)]))
+        base = Layout.from_network(network)
+        v = Variants.nominal(network, target=want.target_flow, base=base)
+        return cls(network, base, v, index, want.segment, np.array([float(head)]),
+                   branch_layout(network, network.branches[index]))
 
     @property
     def target(self) -> Array:
@@ -48,13 +51,27 @@ class Sought:
         """The sought segment's index in the network's layout (the variants' segment columns)."""
         return int(np.flatnonzero(self.base.seg_branch == self.branch)[self.segment])
 
+    @cached_property
+    def _alone(self) -> tuple[Layout, IntArray, BoolArray]:
+        """The copies of the branch alone, the sought segment's index in them per copy, and
+        which segments of the network's layout are the branch's."""
+        keep = np.arange(self.base.n_branches) == self.branch
+        lay = self.alone if self.alone is not None else self.variants.layout(self.base, keep)
+        per_copy = int(np.sum(self.base.seg_branch == self.branch))
+        return lay, np.arange(self.variants.copies) * per_copy + self.segment, keep[
+            self.base.seg_branch]
+
     def layout(self, **change: Array) -> tuple[Layout, IntArray]:
         """The copies of the branch alone (with ``change``d segment arrays, shape (copies,
-        segments)), and the sought segment's index in that layout for every copy."""
-        lay = self.variants.layout(self.base, np.arange(self.base.n_branches) == self.branch,
-                                   **change)
-        per_copy = int(np.sum(self.base.seg_branch == self.branch))
-        return lay, np.arange(self.variants.copies) * per_copy + self.segment
+        segments of the network)), and the sought segment's index in it for every copy.
+
+        The branch's layout is built once; a change replaces only the arrays it names (a
+        root finder asks for many)."""
+        lay, k, mine = self._alone
+        if change:
+            lay = replace(lay, **{name: np.ascontiguousarray(values[:, mine]).ravel()
+                                  for name, values in change.items()})
+        return lay, k
 
     def column(self, name: str, value: float) -> Array:
         """A copy of the variants' segment array ``name`` with the sought segment set to
