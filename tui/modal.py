@@ -9,6 +9,7 @@ from textual.await_complete import AwaitComplete
 from textual.binding import Binding
 from textual.screen import ModalScreen
 from textual.widget import Widget
+from textual.widgets import Input
 
 ResultT = TypeVar("ResultT")
 
@@ -48,13 +49,11 @@ class Dialog(ModalScreen[ResultT]):
     def next_field(self, widget: Widget) -> bool:
         """Enter in a field of a dialog with several: the focus goes to the next field shown
         (True); on the last one it stays, and the caller keeps the dialog (False)."""
-        from .widgets.field import Field
-
-        shown = [f for f in self.query(Field) if f.display]
+        shown = [f for f in self.query("Field") if f.display]  # the widgets.field.Field
         at = next((i for i, f in enumerate(shown) if f is widget), None)
         if at is None or at == len(shown) - 1:
             return False
-        shown[at + 1].input.focus()
+        shown[at + 1].query_one(Input).focus()
         return True
 
 

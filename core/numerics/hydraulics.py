@@ -16,7 +16,7 @@ on ln h against ln Q (a slope between 1 and 2), safeguarded by a bracket, so the
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import cached_property
 
 import numpy as np
@@ -77,6 +77,15 @@ class Layout:
     @cached_property
     def seg_nu(self) -> Array:
         return self.nu[self.seg_branch]
+
+    def with_segments(self, diameter: Array | None = None, length: Array | None = None,
+                      roughness: Array | None = None, minor_k: Array | None = None) -> Layout:
+        """The same layout with the segment arrays given replaced (m, m, m, –)."""
+        return replace(
+            self, diameter=self.diameter if diameter is None else diameter,
+            length=self.length if length is None else length,
+            roughness=self.roughness if roughness is None else roughness,
+            minor_k=self.minor_k if minor_k is None else minor_k)
 
     @classmethod
     def from_network(cls, net: Network) -> Layout:

@@ -69,8 +69,8 @@ class Sought:
         root finder asks for many)."""
         lay, k, mine = self._alone
         if change:
-            lay = replace(lay, **{name: np.ascontiguousarray(values[:, mine]).ravel()
-                                  for name, values in change.items()})
+            lay = lay.with_segments(**{name: np.ascontiguousarray(values[:, mine]).ravel()
+                                       for name, values in change.items()})
         return lay, k
 
     def column(self, name: str, value: float) -> Array:
