@@ -15,13 +15,28 @@ import re
 from collections.abc import Callable
 
 _OPEN, _CLOSE = "\ue000", "\ue001"  # private-use characters: never typed, never printed
-_MARK = re.compile(f"{_OPEN}([a-z_]+) ([-+]?(?:[0-9.]+(?:[eE][-+]?[0-9]+)?|inf|nan)){_CLOSE}")
+_MARK = re.compile(f"{_OPEN}([a-z_]+~?) ([-+]?(?:[0-9.]+(?:[eE][-+]?[0-9]+)?|inf|nan)){_CLOSE}")
 """A marker as :func:`marked` writes it; anything else between the characters is left as it is."""
 
 
 def marked(kind: str, value_si: float) -> str:
     """A quantity of ``kind`` (a key of ``units.KINDS``) as a marker inside message text."""
     return f"{_OPEN}{kind} {float(value_si)!r}{_CLOSE}"
+
+
+def limit_text(kind: str, value_si: float) -> str:
+    """A limit of ``kind`` (a rule of thumb, a sane bound) as a marker: stated in another unit it
+    is rounded as the trade quotes it (:func:`trade_round`: 3 m/s reads "10 ft/s", not 9.843)."""
+    return marked(f"{kind}~", value_si)
+
+
+def trade_round(value: float) -> float:
+    """``value`` to one significant figure where that moves it by 2 % at most (9.843 → 10,
+    4.921 → 5), else to two (7.2 → 7.2): how a limit converted to other units is quoted."""
+    if value == 0 or value != value or value in (float("inf"), float("-inf")):
+        return value
+    one = float(f"{value:.0e}")
+    return one if abs(one / value - 1) <= 0.02 else float(f"{value:.1e}")
 
 
 def has_marks(text: object) -> bool:
@@ -40,8 +55,14 @@ def render(text: str, show: Callable[[float, str], str] | None = None) -> str:
     return _MARK.sub(lambda m: show(float(m.group(2)), m.group(1)), text)
 
 
+def base_kind(kind: str) -> tuple[str, bool]:
+    """A marker's kind without its limit mark, and whether it is a limit (``velocity~``)."""
+    return (kind[:-1], True) if kind.endswith("~") else (kind, False)
+
+
 def si_text(value_si: float, kind: str) -> str:
     """The SI words for a quantity: L/s, m, kPa, mm (m from 1 m on), m/s; km beyond 10 km; Kv."""
+    kind, _ = base_kind(kind)  # an SI limit is stated as set
     if kind == "flow":
         return f"{value_si * 1000:.4g} L/s"
     if kind == "pressure":

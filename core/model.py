@@ -31,8 +31,17 @@ def friction_model(text: object, path: str = "conditions.friction") -> FrictionM
     raise InputError(path, text, f"must be one of {', '.join(FRICTION_MODELS)}")
 
 
-CV_PER_KV = 1.156
-"""Cv (US gpm, psi) per Kv (m³/h, bar); IEC 60534-1 / ISA-75.01 give Cv = 1.156 Kv."""
+US_GALLON_M3 = 231 * 0.0254**3
+"""The US gallon, m³: 231 cubic inches, the inch 0.0254 m exactly (NIST SP 811)."""
+PSI_PA = 0.45359237 * STANDARD_GRAVITY / 0.0254**2
+"""The pound-force per square inch, Pa: 0.453 592 37 kg under standard gravity on a square inch
+(exact by definition; 6894.757…)."""
+KV_REFERENCE_DP_PA = 1.0e5
+"""Kv is defined at a pressure drop of 1 bar (IEC 60534-1)."""
+CV_PER_KV = (PSI_PA / KV_REFERENCE_DP_PA) ** 0.5 / (60 * US_GALLON_M3)
+"""Cv (US gpm at 1 psi) per Kv (m³/h at 1 bar) of one valve, from the units' definitions alone:
+Cv/Kv = (m³/h per gpm) · √(bar per psi) = 1.156 099 2…; the 1.156 printed in IEC 60534-1 and
+ISA-75.01 tables is this rounded. One constant, used everywhere a Cv is read or shown."""
 
 
 def _finite(path: str, value: float) -> float:
@@ -181,7 +190,7 @@ class Branch:
 
 
 def kv_from_cv(cv: float) -> float:
-    """Kv (m³/h, bar) from Cv (US gpm, psi): Kv = Cv / 1.156 (IEC 60534-1)."""
+    """Kv (m³/h, bar) from Cv (US gpm, psi): Kv = Cv / :data:`CV_PER_KV`."""
     return cv / CV_PER_KV
 
 

@@ -26,7 +26,7 @@ from functools import cache
 from typing import Any
 
 from ..errors import InputError, describe
-from ..model import non_negative, positive
+from ..model import KV_REFERENCE_DP_PA, kv_from_cv, non_negative, positive
 from . import _data
 from .pipes import PipeSize, nominal_value, sizes
 
@@ -171,14 +171,8 @@ def fittings_k(
 
 # ---- valve flow coefficients -----------------------------------------------------------------
 
-KV_REFERENCE_DP_PA = 1.0e5
-"""Kv is defined at a pressure drop of 1 bar (IEC 60534-1)."""
 KV_REFERENCE_DENSITY = 1000.0
 """Reference density of water in the Kv definition, kg/m³ (IEC 60534-2-1: ρ/ρ₀, ρ₀ = 1000)."""
-US_GALLON_M3 = 3.785411784e-3
-PSI_PA = 6894.757293168
-KV_PER_CV = US_GALLON_M3 * 60.0 / math.sqrt(PSI_PA / KV_REFERENCE_DP_PA)
-"""Kv (m³/h, bar) of a valve with Cv = 1 (US gpm, psi): 0.86498 (Cv/Kv = 1.15610)."""
 
 
 def k_from_kv(kv_m3_h: float, inner_diameter_m: float, field: str = "kv") -> float:
@@ -202,9 +196,8 @@ def k_from_kv(kv_m3_h: float, inner_diameter_m: float, field: str = "kv") -> flo
 def k_from_cv(cv: float, inner_diameter_m: float, field: str = "cv") -> float:
     """K (–) from a US flow coefficient Cv (US gpm at 1 psi, specific gravity 1); d in m.
 
-    Cv converts to Kv by units alone: Q[gpm] = Cv √(Δp[psi]/SG) gives Kv = Cv · 0.0037854 · 60 /
-    √(6894.76/1e5) = 0.86498 Cv (IEC 60534-1 quotes Cv = 1.156 Kv). SG is taken against 1000
-    kg/m³ as for Kv; against water at 60 °F (999.0 kg/m³) it would differ by 0.1 %.
+    Cv converts to Kv by units alone (:data:`~branchwise.core.model.CV_PER_KV`, the one constant).
+    SG is taken against 1000 kg/m³ as for Kv; against water at 60 °F (999.0 kg/m³) it would differ
+    by 0.1 %.
     """
-    value = positive(field, cv)
-    return k_from_kv(value * KV_PER_CV, inner_diameter_m, field)
+    return k_from_kv(kv_from_cv(positive(field, cv)), inner_diameter_m, field)

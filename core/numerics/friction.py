@@ -222,3 +222,38 @@ def hazen_williams_f(velocity: Array, diameter: Array, c: Array, gravity: float)
 
 
 HW_SLOPE = HW_Q_EXP - 2.0
+
+
+def hazen_williams(
+    re: Array, rr: Array, diameter: Array, c: Array, nu: Array, gravity: float
+) -> tuple[Array, Array]:
+    """The Darcy f under Hazen–Williams over all regimes, and d ln f / d ln Re.
+
+    Hazen–Williams is an empirical fit for water in turbulent flow: it is used where Re ≥
+    ``RE_TURBULENT``. Below ``RE_LAMINAR`` the flow is laminar and its loss is Hagen–Poiseuille's,
+    f = 64/Re, whatever formula was chosen; in between, Churchill shifted to meet both (as for
+    the Darcy models, :func:`darcy`), so that the loss stays continuous and rising with flow.
+    diameter: m; c: Hazen–Williams C (–); nu: kinematic viscosity, m²/s; per segment.
+    """
+    re = np.asarray(re, dtype=float)
+    f = np.empty_like(re)
+    slope = np.empty_like(re)
+    lam = re < RE_LAMINAR
+    turb = re >= RE_TURBULENT
+    mid = ~(lam | turb)
+
+    def turbulent_at(sel: NDArray[np.bool_]) -> Callable[[Array, Array], tuple[Array, Array]]:
+        def hw(re_: Array, rr_: Array) -> tuple[Array, Array]:
+            d = diameter[sel]
+            f_hw = hazen_williams_f(re_ * nu[sel] / d, d, c[sel], gravity)
+            return f_hw, np.full_like(f_hw, HW_SLOPE)
+        return hw
+
+    if lam.any():
+        with np.errstate(divide="ignore"):
+            f[lam], slope[lam] = laminar(re[lam])
+    if turb.any():
+        f[turb], slope[turb] = turbulent_at(turb)(re[turb], rr[turb])
+    if mid.any():
+        f[mid], slope[mid] = _bridged(re[mid], rr[mid], turbulent_at(mid))
+    return f, slope

@@ -122,19 +122,19 @@ class SegmentState:
 
 def segment_state(lay: Layout, q: Array) -> SegmentState:
     """Velocity, Re, f and the signed major and minor head losses of every segment."""
-    qs = np.asarray(q, dtype=float)[lay.seg_branch]
-    v = qs / lay.area
-    speed = np.abs(v)
-    re = speed * lay.diameter / lay.seg_nu
-    if lay.model == "hazen-williams":
-        f = friction.hazen_williams_f(speed, lay.diameter, lay.hw_c, lay.gravity)
-        slope = np.full_like(f, friction.HW_SLOPE)
-    else:
-        with np.errstate(divide="ignore", invalid="ignore"):
-            f, slope = friction.darcy(re, lay.relative_roughness, lay.model)
     # A bracket being widened tries flows far past the root: heads overflow to inf there,
-    # which the solvers read as "too high" (no warning wanted).
-    with np.errstate(over="ignore", invalid="ignore"):
+    # which the solvers read as "too high" (no warning wanted). What reaches a user is checked
+    # for inf and NaN at the end (checks.final_check).
+    with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
+        qs = np.asarray(q, dtype=float)[lay.seg_branch]
+        v = qs / lay.area
+        speed = np.abs(v)
+        re = speed * lay.diameter / lay.seg_nu
+        if lay.model == "hazen-williams":
+            f, slope = friction.hazen_williams(re, lay.relative_roughness, lay.diameter,
+                                               lay.hw_c, lay.seg_nu, lay.gravity)
+        else:
+            f, slope = friction.darcy(re, lay.relative_roughness, lay.model)
         vel_head = v * speed / (2 * lay.gravity)
         major = np.where(speed > 0, f * lay.length / lay.diameter * vel_head, 0.0)
         minor = lay.minor_k * vel_head

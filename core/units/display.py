@@ -103,11 +103,12 @@ def restate(text: str, system: str = "si", units: Mapping[str, str] | None = Non
     system: ``si`` keeps the core's own SI wording unless ``units`` names a unit for the kind;
     ``us`` uses the US display units. units: a unit per kind (the user's display choices).
     """
-    from ..messages import render, si_text
+    from ..messages import base_kind, render, si_text, trade_round
 
     chosen = units or {}
 
-    def show(value_si: float, kind: str) -> str:
+    def show(value_si: float, marked_kind: str) -> str:
+        kind, limit = base_kind(marked_kind)
         unit = chosen.get(kind)
         if kind == "valve" and system == "us":
             from ..model import CV_PER_KV
@@ -115,6 +116,10 @@ def restate(text: str, system: str = "si", units: Mapping[str, str] | None = Non
             return f"Cv {value_si * CV_PER_KV:.3g}"
         if kind not in KINDS or (system == "si" and unit is None):
             return si_text(value_si, kind)
+        if limit:  # a limit in another unit: rounded as the trade quotes it
+            shown = unit or display_unit(kind, system)
+            number = trade_round(to_unit(value_si, kind, shown))
+            return f"{number:g} {unit_label(shown)}".strip()
         return format_quantity(value_si, kind, system, unit)
 
     return render(text, show)

@@ -33,8 +33,9 @@ def _site(valve: str) -> str:
 ])
 def test_series_loss_is_the_sum_of_each(line: str, reference_k: float) -> None:
     kv = build(parse_site(_site(line))).network.branches[0].valve_kv
-    # fluids takes ρ = 1000 kg/m³ in Kv's definition, as IEC 60534 does; within 0.1 % of ours.
-    assert k_from_kv(kv, BORE) == pytest.approx(reference_k, rel=1e-3)
+    # fluids' Kv_to_K is 1.6e9·D⁴/Kv² (its docs: water at 999.3 kg/m³); IEC 60534-2-1 takes
+    # ρ₀ = 1000 kg/m³ (1.59887e9), as we do: 0.0703 % apart, the tolerance just above that.
+    assert k_from_kv(kv, BORE) == pytest.approx(reference_k, rel=7.1e-4)
 
 
 @pytest.mark.parametrize(("value", "reason"), [
@@ -60,8 +61,10 @@ def test_an_exponent_is_not_a_series() -> None:
 ])
 def test_each_term_may_name_its_coefficient(line: str, reference_k: float) -> None:
     kv = build(parse_site(_site(line))).network.branches[0].valve_kv
-    # fluids' Cv_to_K takes Cv = 1.156 Kv; ours the exact ratio (IEC 60534): within 0.1 %.
-    assert k_from_kv(kv, BORE) == pytest.approx(reference_k, rel=1e-3)
+    # fluids' Kv_to_K and Cv_to_K use 1.6e9·D⁴/Kv² (water at 999.3 kg/m³, its docs say); IEC
+    # 60534-2-1 takes ρ₀ = 1000 kg/m³ (1.59887e9). Both use the exact Cv/Kv = 1.1560992…: the
+    # answers are 0.0703 % apart, so the tolerance sits just above that.
+    assert k_from_kv(kv, BORE) == pytest.approx(reference_k, rel=7.1e-4)
 
 
 @pytest.mark.parametrize(("value", "words"), [

@@ -28,16 +28,18 @@ def ahu3_flow_by_hand(pressure_drop_pa: float) -> float:
     The branch: inner diameter 2.067 in, 120 ft, roughness 0.0018 in, K 5, a valve of Cv 48,
     water at 44 °F, both headers at one height. Water properties from the `iapws` package
     (IAPWS-95); friction from `fluids.friction.Colebrook`; the valve by IEC 60534-2-1,
-    Q[m³/h] = Kv √(Δp[bar] / (ρ/1000)) with Kv = Cv / 1.156 (IEC 60534-1); the flow from scipy's
+    Q[m³/h] = Kv √(Δp[bar] / (ρ/1000)) with Kv from Cv by `fluids.fittings.Cv_to_Kv` (the exact
+    ratio from the units' definitions, 1.15610); the flow from scipy's
     brentq on the pressure balance.
     """
+    from fluids.fittings import Cv_to_Kv
     from fluids.friction import Colebrook
     from iapws import IAPWS95
     from scipy.optimize import brentq
 
     water = IAPWS95(T=(44 - 32) / 1.8 + 273.15, P=0.101325)
     rho, mu = water.rho, water.mu
-    d, length, eps, k, kv = 2.067 * INCH, 120 * FOOT, 0.0018 * INCH, 5.0, 48 / 1.156
+    d, length, eps, k, kv = 2.067 * INCH, 120 * FOOT, 0.0018 * INCH, 5.0, Cv_to_Kv(48)
     area = math.pi * d**2 / 4
 
     def balance(q: float) -> float:

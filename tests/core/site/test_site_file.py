@@ -12,6 +12,7 @@ import tomllib
 
 import numpy as np
 import pytest
+from fluids.fittings import Cv_to_Kv  # exact Cv/Kv from the gallon and the psi (fluids docs)
 
 from branchwise.core import catalogs
 from branchwise.core.errors import InputError
@@ -98,7 +99,7 @@ def network_by_hand() -> Network:
         fluid,
         (
             branch("A", 0.10226, 64.0, 0.045e-3, 6.2),
-            branch("B", 3.068 * INCH, 250 * FOOT, 0.0018 * INCH, valve_kv=90 / 1.156),
+            branch("B", 3.068 * INCH, 250 * FOOT, 0.0018 * INCH, valve_kv=Cv_to_Kv(90)),
             Branch("C", (Segment(2.067 * INCH, 30.0, 0.045e-3, 2.0),
                          Segment(0.0525, 12.0, 0.1e-3, 0.0))),
         ),
@@ -159,7 +160,7 @@ def test_catalog_size_rounds_up_within_the_same_schedule_and_is_resolved():
     assert sr.catalog is not None
     assert sr.catalog.size.inner_diameter_m == pytest.approx(expected_id, abs=1e-6)
     resized = sr.built.network.replace_branch(1, Branch("B", (Segment(
-        expected_id, 250 * FOOT, 0.045e-3, 0.0),), 90 / 1.156))
+        expected_id, 250 * FOOT, 0.045e-3, 0.0),), Cv_to_Kv(90)))
     again = solve(resized, GIVEN_SI["pressure_drop"], FindFlows())
     assert sr.catalog.flow == pytest.approx(again.flows[1], rel=1e-9)
     assert sr.catalog.flow >= 1.25 * base * (1 - 1e-9)  # a larger bore carries at least the target
