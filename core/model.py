@@ -38,7 +38,7 @@ PSI_PA = 0.45359237 * STANDARD_GRAVITY / 0.0254**2
 (exact by definition; 6894.757…)."""
 KV_REFERENCE_DP_PA = 1.0e5
 """Kv is defined at a pressure drop of 1 bar (IEC 60534-1)."""
-CV_PER_KV = (PSI_PA / KV_REFERENCE_DP_PA) ** 0.5 / (60 * US_GALLON_M3)
+CV_PER_KV: float = math.sqrt(PSI_PA / KV_REFERENCE_DP_PA) / (60 * US_GALLON_M3)
 """Cv (US gpm at 1 psi) per Kv (m³/h at 1 bar) of one valve, from the units' definitions alone:
 Cv/Kv = (m³/h per gpm) · √(bar per psi) = 1.156 099 2…; the 1.156 printed in IEC 60534-1 and
 ISA-75.01 tables is this rounded. One constant, used everywhere a Cv is read or shown."""
@@ -91,6 +91,9 @@ MAX_DENSITY = 3e4  # kg/m³ (denser than any liquid)
 MAX_VISCOSITY = 1e6  # Pa·s (stiffer than pitch)
 MAX_ELEVATION = 1e4  # m
 MAX_KV = 1e7  # m³/h
+MIN_DENSITY = 50.0  # kg/m³: lighter than any liquid (liquid hydrogen, about 71; from memory)
+MIN_DIAMETER = 1e-4  # m: a tenth of a millimetre, narrower than any pipe or capillary tube
+MIN_LENGTH = 1e-3  # m: a non-zero run shorter than 1 mm is a slip (0: a run of fittings only)
 MIN_KV = 1e-6  # m³/h (a needle valve passes thousands of times more)
 MIN_FLOW = 1e-30  # m³/s: a non-zero flow below this is no reading (and underflows in the solve)
 MAX_FLOW = 1e6  # m³/s (the largest penstocks carry about a thousand)
@@ -114,8 +117,12 @@ class Fluid:
     temperature: float | None = None
 
     def __post_init__(self) -> None:
-        at_most("fluid.density", positive("fluid.density", self.density), MAX_DENSITY, "kg/m³",
-                "liquid")
+        rho = at_most("fluid.density", positive("fluid.density", self.density), MAX_DENSITY,
+                      "kg/m³", "liquid")
+        if rho < MIN_DENSITY:
+            raise InputError("fluid.density", self.density,
+                             f"is lighter than any liquid (at least {MIN_DENSITY:g} kg/m³); a gas "
+                             "or vapour needs a compressible-flow method")
         at_most("fluid.viscosity", positive("fluid.viscosity", self.viscosity), MAX_VISCOSITY,
                 "Pa·s", "liquid")
 
@@ -143,8 +150,15 @@ class Segment:
     def validate(self, path: str) -> None:
         d = at_most(f"{path}.diameter", positive(f"{path}.diameter", self.diameter),
                     MAX_DIAMETER, "m", "pipe")
-        at_most(f"{path}.length", non_negative(f"{path}.length", self.length), MAX_LENGTH, "m",
-                "pipe run")
+        if d < MIN_DIAMETER:
+            raise InputError(f"{path}.diameter", self.diameter,
+                             f"is narrower than any pipe (at least {MIN_DIAMETER * 1000:g} mm)")
+        length = at_most(f"{path}.length", non_negative(f"{path}.length", self.length),
+                         MAX_LENGTH, "m", "pipe run")
+        if 0 < length < MIN_LENGTH:
+            raise InputError(f"{path}.length", self.length,
+                             f"is shorter than any pipe run (at least {MIN_LENGTH * 1000:g} mm; "
+                             "0 for a run of fittings only)")
         eps = non_negative(f"{path}.roughness", self.roughness)
         if eps >= d / 2:
             raise InputError(

@@ -10,7 +10,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, NoSolutionError
 from ..model import Network, positive
 from .hydraulics import Array, Layout, head_for_total_flow
 from .results import Result
@@ -76,6 +76,9 @@ def system_curve(
     if moving.any():
         h, qm, _ = head_for_total_flow(tiled_layout(base, int(moving.sum())), flows[moving])
         head[moving], q[moving] = h, qm.reshape(-1, base.n_branches)
+    if not (np.all(np.isfinite(head)) and np.all(np.isfinite(q))):  # never inf or NaN out
+        raise NoSolutionError("the system curve has no finite pressure drop at some of these "
+                              "flows; narrow the range of flows", "curve.total_flows")
     return SystemCurve(
         total_flow=flows,
         pressure_drop=net.fluid.density * net.gravity * (head + net.elevation_change),

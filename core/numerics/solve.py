@@ -21,7 +21,8 @@ import numpy as np
 
 from ..errors import InputError, NoSolutionError
 from ..finds import UNKNOWNS
-from ..messages import flow_text, head_text
+from ..fluids import liquid
+from ..messages import flow_text, head_text, velocity_text
 from ..model import (
     MAX_FLOW,
     MIN_FLOW,
@@ -46,6 +47,8 @@ from .results import Arrays, Convergence, Result, Solved
 def solve(network: Network, given: Given, find: Find | None = None) -> Result:
     """Solve ``network`` for ``find`` (default: the flows) with ``given`` fixing the head."""
     find = FindFlows() if find is None else find
+    _check_friction(network)
+    _check_resistance(network)
     _check_given(network, given)
     infos: list[RootInfo] = []
     solved: Solved | None = None
@@ -76,6 +79,33 @@ def driving_head(network: Network, pressure_drop: float) -> float:
 def pressure_drop_for(network: Network, head: float) -> float:
     """Δp = ρ g (H + Δz), Pa."""
     return network.fluid.density * network.gravity * (head + network.elevation_change)
+
+
+# ---- what the network allows ---------------------------------------------------------------
+
+def _check_friction(network: Network) -> None:
+    """Hazen–Williams is an empirical fit for water: refused for any other liquid."""
+    if network.friction != "hazen-williams":
+        return
+    kind = liquid(network.fluid.kind)
+    if kind is None or not kind.hazen_williams:
+        what = (kind.label.lower() if kind is not None and kind.required != ("density",)
+                else "a liquid entered by its density and viscosity")
+        raise InputError(
+            "conditions.friction", network.friction,
+            f"Hazen–Williams is an empirical fit for water at ordinary temperatures and does "
+            f"not hold for {what}; use colebrook (Darcy–Weisbach)")
+
+
+def _check_resistance(network: Network) -> None:
+    """A branch with nothing in it (no length, no fittings, no valve) cannot carry a finite
+    flow at any head: refused by name rather than solved to zero or to an overflow."""
+    for i, br in enumerate(network.branches):
+        if br.valve_kv is None and all(s.length == 0 and s.minor_k == 0 for s in br.segments):
+            raise InputError(
+                f"branches[{i}].length", "0",
+                "this branch has no resistance (no length, no fittings, no valve), so no flow "
+                "can be worked out for it; give its length")
 
 
 # ---- the head --------------------------------------------------------------------------------
@@ -174,12 +204,43 @@ def _head_for_unknown(
 
 # ---- the result ------------------------------------------------------------------------------
 
+MAX_VELOCITY = 300.0
+"""m/s. A liquid is treated as incompressible, which holds well below its speed of sound (about
+1500 m/s in water); no liquid line runs anywhere near this (common practice: 1–3 m/s)."""
+
+
+UNSETTLED = 1e-6
+"""A relative residual above which an answer that did not converge is refused, not warned of."""
+
+
+def _check_bounds(network: Network, lay: Layout, head: float, flows: np.ndarray,
+                  velocity: np.ndarray, losses: np.ndarray) -> None:
+    """The last check on every answer: no inf or NaN and no flow beyond the physical bounds
+    reaches an output; the branch that breaks them is named."""
+    bad_head = not math.isfinite(head)
+    for b in range(len(network.branches)):
+        segs = lay.seg_branch == b
+        q = float(flows[b])
+        fast = float(np.max(np.abs(velocity[segs]), initial=0.0))
+        finite_all = math.isfinite(q) and bool(np.all(np.isfinite(velocity[segs]))) and bool(
+            np.all(np.isfinite(losses[segs])))
+        if bad_head or not finite_all or abs(q) > MAX_FLOW or fast > MAX_VELOCITY:
+            shown = (f"run at {velocity_text(fast)} ({flow_text(q)})"
+                     if finite_all and not bad_head else "carry no finite flow")
+            raise NoSolutionError(
+                f"this branch would {shown}: beyond what a liquid line can carry (incompressible "
+                f"flow holds well below {velocity_text(MAX_VELOCITY)}); check its length, "
+                "fittings and valve, and the given condition",
+                f"branches[{b}].length")
+
+
 def _result(
     network: Network, given: Given, find: Find, lay: Layout, head: float, flows: np.ndarray,
     solved: Solved | None, infos: list[RootInfo],
 ) -> Result:
     st = _segment_state(lay, flows)
     valve = lay.valve_r * flows * np.abs(flows)
+    _check_bounds(network, lay, head, flows, st.velocity, st.major + st.minor)
     arrays = Arrays(
         flow=flows, seg_branch=lay.seg_branch, velocity=st.velocity, reynolds=st.reynolds,
         friction_factor=st.friction_factor, major=st.major, minor=st.minor, valve=valve,
@@ -189,6 +250,11 @@ def _result(
         iterations=sum(i.iterations for i in infos),
         residual=max((i.residual for i in infos), default=0.0),
     )
+    if not conv.converged and not conv.residual <= UNSETTLED:
+        raise NoSolutionError(
+            f"the solve did not settle (relative residual {conv.residual:.2g}): the inputs are "
+            "beyond what it can resolve; check for a branch with almost no resistance",
+            "conditions")
     warnings = collect_warnings(network, arrays, friction.regime(st.reynolds), conv)
     return Result(
         network=network, given=given, find=find,
