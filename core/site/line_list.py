@@ -224,7 +224,14 @@ def _row(cells: dict[str, str], by_key: dict[str, Column],
     branch = BranchSpec(name=name, segments=[segment])
     for key in BRANCH_KEYS:
         if key in cells:
-            setattr(branch, key, _plain(cells[key]) if key.startswith("valve") else cells[key])
+            value = cells[key]
+            if key.startswith("valve"):  # "Kv 120" in a Kv column: the number alone
+                word = key.removeprefix("valve_")
+                one = re.fullmatch(rf"{word}\s*(\d+(?:\.\d*)?|\.\d+)", value.strip(), re.I)
+                value = one.group(1) if one else value
+                setattr(branch, key, _plain(value))
+            else:
+                setattr(branch, key, value)
     return branch, segment
 
 
