@@ -171,6 +171,12 @@ class BranchwiseApp(App[None]):
     # ---- start ----------------------------------------------------------------------------------
 
     def on_mount(self) -> None:
+        theme = self.settings.theme
+        if theme is not None and theme in self.available_themes:
+            self.theme = theme  # the theme chosen last time (Ctrl+P, "Change theme")
+        elif theme is not None:
+            self._note = "\n".join(filter(None, [self._note, f"Settings: no theme '{theme}' "
+                                                              "here; the default is used."]))
         self.sub_title = self._subtitle()
         self.call_after_refresh(self._first_paint)
 
@@ -355,7 +361,8 @@ class BranchwiseApp(App[None]):
         self.files.quit()
 
     def export(self, fmt: str) -> None:
-        """Write the walkdown record (``markdown``) or the CSV (``csv``) of the answer."""
+        """Write the walkdown record (``markdown``), the report (``html``) or the CSV (``csv``)
+        of the answer."""
         self.files.export(fmt)
 
     # ---- the command palette -------------------------------------------------------------------
@@ -387,6 +394,21 @@ class BranchwiseApp(App[None]):
 
         if not isinstance(self.screen, CautionsScreen):
             self.push_screen(CautionsScreen())
+
+    def watch_theme(self, theme: str) -> None:
+        """Keep the theme chosen in the settings, for the next start."""
+        if theme != self.settings.theme and self.is_running:
+            self.settings.theme = theme
+            self.save_settings()
+
+    def deliver_screenshot(self, filename: str | None = None, path: str | None = None,
+                           time_format: str | None = None) -> str | None:
+        """Textual's screenshot command: saved in a folder that exists (the data folder, or
+        the current one), and the app says where."""
+        from .copying import save_screenshot
+
+        saved = save_screenshot(self)
+        return None if saved is None else str(saved)
 
     def save_settings(self) -> None:
         from branchwise.core.errors import InputError

@@ -5,12 +5,20 @@
     branchwise demo PATH            write the demo site as a starting file
     branchwise open SITE            open the app on a site file
     branchwise where                show where user files live
+    branchwise import LINES.csv     a line list (CSV) as a site file
+    python -m branchwise ...        the same, where the script is not on the PATH
 
 Nothing here imports Textual at module level: ``branchwise solve`` must start fast and work
 where no terminal UI can run. Bad input prints one line, ``branchwise: <file>: <field>: <reason>,
 got <value>`` (a branch's field by the branch's name, the field path after it:
 ``branch "AHU-2 coil" length: ... (branches[1].length)``), and exits with status 2; the input
-file is only ever read.
+file is only ever read. ``-`` as the site (or line list) reads standard input; ``-o -`` writes
+standard output.
+
+Exit status (:data:`EXIT_STATUSES`, also in ``--help`` and the README): 0 done; 1 an
+unexpected fault (a bug: one line, no traceback; please report it); 2 bad input, a site with no
+answer, a file that cannot be read or written, or a command line argparse refuses; 130
+interrupted (Ctrl+C).
 """
 
 from __future__ import annotations
@@ -22,10 +30,21 @@ from typing import TYPE_CHECKING, TextIO
 
 if TYPE_CHECKING:
     from branchwise.core.site.solve import SiteResult
+    from branchwise.core.site.spec import Site
 
 EXIT_OK = 0
 EXIT_INPUT = 2
 """Exit status for bad input or a site with no answer (argparse uses 2 for bad usage too)."""
+EXIT_FAULT = 1
+"""Exit status for an unexpected fault: a bug in branchwise, said on one line."""
+EXIT_INTERRUPTED = 130
+"""Exit status after Ctrl+C (128 + SIGINT, the shells' convention)."""
+EXIT_STATUSES = ("exit status: 0 done; 1 an unexpected fault (a bug, please report it); "
+                 "2 bad input, a site with no answer, a file that cannot be read or written, "
+                 "or a wrong command line; 130 interrupted")
+WIDTH_DEFAULT, WIDTH_MIN, WIDTH_MAX = 80, 40, 1000
+"""The text table's line width: the terminal's (or COLUMNS) when writing to a terminal, 80
+otherwise, --width over both; kept within WIDTH_MIN to WIDTH_MAX columns."""
 SAMPLES_DEFAULT = 10_000
 SAMPLES_MIN, SAMPLES_MAX = 10, 1_000_000
 """Monte Carlo draws: fewer than 10 give no percentiles worth the name; a million already takes
@@ -43,7 +62,8 @@ def _parser() -> argparse.ArgumentParser:
         prog="branchwise",
         description="Flow split in parallel pipe branches for site work: flows, or one "
                     "branch's diameter, length or roughness, from a field reading.",
-        epilog="Run 'branchwise COMMAND --help' for a command's options.",
+        epilog="Run 'branchwise COMMAND --help' for a command's options. " + EXIT_STATUSES
+               + ".",
     )
     p.add_argument("--version", action="version", version=f"branchwise {_version()}")
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
@@ -51,8 +71,11 @@ def _parser() -> argparse.ArgumentParser:
     solve = sub.add_parser(
         "solve", help="solve a site file and print the result",
         description="Solve a site file (default: the bundled demo site) and print the result. "
-                    "The site file is only read, never changed.")
-    solve.add_argument("site", nargs="?", type=Path, help="site file (TOML); default: the demo")
+                    "The site file is only read, never changed.",
+        epilog=EXIT_STATUSES + ".")
+    solve.add_argument("site", nargs="?", type=Path,
+                       help="site file (TOML), or - to read it from standard input; default: "
+                            "the demo")
     _output_options(solve)
     band = solve.add_argument_group(
         "uncertainty and system curve",
@@ -72,8 +95,9 @@ def _parser() -> argparse.ArgumentParser:
     band.add_argument(
         "--curve", type=Path, metavar="FILE",
         help="also write the system curve (pressure drop and each branch's flow against the "
-             "total flow, from zero to 1.5 times the operating point) as CSV to FILE, in the "
-             "--units system with the unit in each column title")
+             "total flow, from zero to 1.5 times the operating point) to FILE, in the --units "
+             "system: an image when FILE ends in .svg, else CSV with the unit in each column "
+             "title")
     band.add_argument("--force", action="store_true", help="replace an existing --curve FILE")
 
     demo = sub.add_parser(
@@ -92,6 +116,24 @@ def _parser() -> argparse.ArgumentParser:
 
     sub.add_parser("where", help="show where user files live",
                    description="Print the folders and files branchwise keeps for the user.")
+
+    lines = sub.add_parser(
+        "import", help="read a line list (CSV from a spreadsheet) into a site file",
+        description="Read a line list, a CSV whose columns are titled with the trade's words "
+                    "(name, tag, size or bore, schedule, length, material or roughness, "
+                    "fittings, K, valve Kv or Cv, measured flow), a unit in a title (Length "
+                    "(ft)) or in a cell (76 m); rows of the same name one after another are "
+                    "one branch's series segments. Every bad cell is named by its line and "
+                    "column, and nothing is written unless the whole list reads.",
+        epilog=EXIT_STATUSES + ".")
+    lines.add_argument("lines", type=Path, metavar="LINES.csv",
+                       help="the line list, or - to read it from standard input")
+    lines.add_argument("-o", "--output", type=Path, metavar="SITE",
+                       help="write the site file here (default, or -: standard output)")
+    lines.add_argument("--template", type=Path, metavar="SITE",
+                       help="take the liquid, the readings, the record and the tolerances from "
+                            "this site file (default: water at 20 °C, no reading yet)")
+    lines.add_argument("--force", action="store_true", help="replace an existing SITE")
 
     presets = sub.add_parser(
         "presets", help="list, add or delete your own liquids and materials",
@@ -115,10 +157,17 @@ def _output_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--units", choices=("si", "us"), default="si",
                    help="unit system of the table, CSV, Markdown and --curve file (JSON is "
                         "always SI)")
-    p.add_argument("--format", choices=("table", "json", "csv", "markdown"), default="table",
-                   help="output format (default: table)")
+    p.add_argument("--format", choices=("table", "json", "csv", "markdown", "html"),
+                   default="table",
+                   help="output format (default: table); csv is one row per segment (the "
+                        "cautions then go to standard error); html a walkdown report that "
+                        "opens in a browser")
     p.add_argument("-o", "--output", type=Path, metavar="FILE",
-                   help="write the output to FILE instead of the screen")
+                   help="write the output to FILE instead of the screen (- : standard output)")
+    p.add_argument("--width", metavar="N",
+                   help=f"wrap the table's text to N columns ({WIDTH_MIN} to {WIDTH_MAX}; "
+                        f"default: the terminal's width, or COLUMNS, or {WIDTH_DEFAULT} when "
+                        "not writing to a terminal)")
 
 
 # ---- commands ------------------------------------------------------------------------------
@@ -145,14 +194,48 @@ def _whole(text: str | None, option: str, low: int, high: int | None, default: i
 
 
 def _same_file(a: Path, b: Path | None) -> bool:
+    if _is_stdio(a) or _is_stdio(b):
+        return False
     return b is not None and a.resolve() == b.resolve()
+
+
+def _is_stdio(path: Path | None) -> bool:
+    """``-``: standard input for a site, standard output for ``-o``."""
+    return path is not None and str(path) == "-"
+
+
+def _width(args: argparse.Namespace | None, output: Path | None) -> int:
+    """The text table's line width: --width; else, writing to standard output, COLUMNS or the
+    terminal's width (80 when it is not a terminal); else (a file) 80."""
+    import shutil
+
+    text = getattr(args, "width", None)
+    if text is not None:
+        return _whole(text, "--width", WIDTH_MIN, WIDTH_MAX, WIDTH_DEFAULT)
+    if output is not None and not _is_stdio(output):
+        return WIDTH_DEFAULT
+    columns = shutil.get_terminal_size((WIDTH_DEFAULT, 24)).columns
+    return max(WIDTH_MIN, min(WIDTH_MAX, columns)) if columns > 0 else WIDTH_DEFAULT
+
+
+def _load(site_path: Path) -> Site:
+    """The site file, or for ``-`` the site read from standard input."""
+    from branchwise.core.site.read import load_site, parse_site
+
+    if not _is_stdio(site_path):
+        return load_site(site_path)
+    from .import_command import read_text
+
+    site = parse_site(read_text(site_path, "<stdin>"), "<stdin>")
+    site.source = None
+    return site
 
 
 def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, out: TextIO,
            args: argparse.Namespace | None = None) -> int:
     from branchwise.core.errors import InputError
     from branchwise.core.report import render
-    from branchwise.core.site.read import demo_site, load_site
+    from branchwise.core.site.read import demo_site
     from branchwise.core.site.solve import solve_site, with_uncertainty
     from branchwise.core.storage.atomic import atomic_write_text
 
@@ -160,6 +243,8 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     samples = _whole(samples_text, "--samples", SAMPLES_MIN, SAMPLES_MAX, SAMPLES_DEFAULT)
     seed = _whole(seed_text, "--seed", 0, None, 0)
     curve_path: Path | None = getattr(args, "curve", None)
+    if _is_stdio(curve_path):
+        raise InputError("--curve", "-", "needs a file name (.svg for an image, else CSV)")
     if curve_path is not None:
         if _same_file(curve_path, site_path) or _same_file(curve_path, output):
             raise InputError("--curve", str(curve_path), "is the site file or the --output "
@@ -170,34 +255,54 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     if output is not None and _same_file(output, site_path):
         raise InputError("--output", str(output), "is the site file itself; the site file is "
                          "never overwritten")
-    site = demo_site() if site_path is None else load_site(site_path)
+    width = _width(args, output)
+    site = demo_site() if site_path is None else _load(site_path)
     solved = solve_site(site)
     if getattr(args, "uncertainty", False) or samples_text is not None or seed_text is not None:
         solved = with_uncertainty(solved, samples, seed)
-    curve_text = None if curve_path is None else _curve_csv(solved, units)
-    text = render(solved, fmt, units)
+    curve_text = None if curve_path is None else _curve_csv(solved, units, curve_path)
+    text = render(solved, fmt, units, width) if fmt == "table" else render(solved, fmt, units)
     if curve_path is not None and curve_text is not None:
         atomic_write_text(curve_path, curve_text, backup=False)
-        points = curve_text.count("\n") - 1
-        print(f"branchwise: system curve ({points} points) written to {curve_path}",
+        kind = "image" if curve_path.suffix.lower() == ".svg" else (
+            f"{curve_text.count(chr(10)) - 1} points")
+        print(f"branchwise: system curve ({kind}) written to {curve_path}",
               file=sys.stderr)
-    if output is None:
+    if fmt == "csv":  # the CSV is data only: what must not be lost goes to standard error
+        _csv_cautions(solved, units)
+    if output is None or _is_stdio(output):
         out.write(text)
     else:
         atomic_write_text(output, text, backup=False)
     return EXIT_OK
 
 
-def _curve_csv(solved: SiteResult, units: str) -> str:
-    """The system curve of a solved site through its operating point, as CSV in the display
-    units of ``units`` (``si`` or ``us``)."""
+def _csv_cautions(solved: SiteResult, units: str) -> None:
+    """The warnings and cautions of a CSV's answer, on standard error."""
+    from branchwise.core.report.lines import CAUTIONS, warning_lines
+
+    for line in warning_lines(solved, units):
+        print(f"branchwise: warning: {line}", file=sys.stderr)
+    for line in CAUTIONS:
+        print(f"branchwise: caution: {line}", file=sys.stderr)
+
+
+def _curve_csv(solved: SiteResult, units: str, path: Path | None = None) -> str:
+    """The system curve of a solved site through its operating point, as CSV (or, for a
+    ``path`` ending in .svg, an SVG image) in the display units of ``units`` (``si`` or
+    ``us``)."""
     from branchwise.core.errors import InputError
     from branchwise.core.numerics.curve import system_curve
     from branchwise.core.report.curve_csv import to_csv
+    from branchwise.core.report.svg import curve_svg
 
     result = solved.result
     try:
-        return to_csv(system_curve(result.network, operating=result), units)
+        curve = system_curve(result.network, operating=result)
+        if path is not None and path.suffix.lower() == ".svg":
+            return curve_svg(curve, units, title=f"System curve: {solved.site.title}",
+                             standalone=True)
+        return to_csv(curve, units)
     except InputError as exc:
         if not exc.field.startswith("curve."):
             raise
@@ -265,6 +370,10 @@ def _site_label(args: argparse.Namespace) -> str:
         return str(args.path / DEMO_NAME if args.path.is_dir() else args.path)
     if args.command in ("presets", "where"):
         return "presets"
+    if args.command == "import":
+        return "<stdin>" if str(args.lines) == "-" else str(args.lines)
+    if site is not None and str(site) == "-":
+        return "<stdin>"
     return str(site) if site is not None else "demo site"
 
 
@@ -317,15 +426,32 @@ def main(argv: list[str] | None = None) -> int:
             from .presets_command import run_presets
 
             return run_presets(args.action, args.kind, args.key, args.values, out)
+        if args.command == "import":
+            from .import_command import run_import
+
+            return run_import(args.lines, args.output, args.template, args.force, out,
+                              sys.stderr)
         return _where(out)
     except BranchwiseError as exc:
         system = getattr(args, "units", "si")
         print(f"branchwise: {_message(exc, _site_label(args), system)}", file=sys.stderr)
         return EXIT_INPUT
+    except BrokenPipeError:  # the reader went away (``| head``): stop quietly
+        import os
+
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return EXIT_INPUT
     except OSError as exc:
         target = exc.filename if exc.filename is not None else _site_label(args)
         print(f"branchwise: {target}: {_one_line(exc.strerror or str(exc))}", file=sys.stderr)
         return EXIT_INPUT
+    except KeyboardInterrupt:
+        print("branchwise: interrupted", file=sys.stderr)
+        return EXIT_INTERRUPTED
+    except Exception as exc:  # a bug: one line, never a traceback (house rule)
+        print(f"branchwise: internal error ({type(exc).__name__}: {_one_line(str(exc))}); "
+              "please report it", file=sys.stderr)
+        return EXIT_FAULT
 
 
 if __name__ == "__main__":

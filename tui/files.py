@@ -216,6 +216,11 @@ class SiteFiles:
             site = demo_site()
         elif choice == "new":
             site = new_site()
+        elif Path(choice).suffix.lower() == ".csv":  # a line list: a new site of its branches
+            from .line_list_import import open_line_list
+
+            open_line_list(self.app, Path(choice))
+            return
         else:
             try:
                 site = load_site(Path(choice))
@@ -258,8 +263,9 @@ class SiteFiles:
     # ---- export -------------------------------------------------------------------------------
 
     def export(self, fmt: str) -> None:
-        """Write the Markdown walkdown record (``markdown``) or the CSV (``csv``) of the
-        present results next to the site file (or in the sites folder)."""
+        """Write the Markdown walkdown record (``markdown``), the HTML report (``html``) or
+        the CSV (``csv``) of the present results next to the site file (or in the sites
+        folder)."""
         from .screens.dialogs import SaveAsScreen
 
         outcome = self.ws.outcome
@@ -268,7 +274,7 @@ class SiteFiles:
             return
         folder = self.ws.session.path.parent if self.ws.session.path else sites_dir()
         stem = Path(file_name_for(self.ws.site.title)).stem
-        suffix = ".md" if fmt == "markdown" else ".csv"
+        suffix = {"markdown": ".md", "html": ".html"}.get(fmt, ".csv")
         name = _free(folder / f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}").name
         solved, system = outcome.solved, self.ws.unit_system
         band = self.ws.latest_band
@@ -283,6 +289,7 @@ class SiteFiles:
         # would not give it back, and the record says so.
         unsaved = self.ws.session.dirty
         saved_at = self.ws.session.path
+        reader = self.ws.units
 
         def chosen(path: Path | None) -> None:
             if path is None:
@@ -295,6 +302,11 @@ class SiteFiles:
             text = (to_markdown(solved, system, source=source,
                                 unsaved=unsaved and saved_at is not None)
                     if fmt == "markdown" else to_csv(solved, system))
+            if fmt == "html":
+                from branchwise.core.report.html_report import to_html
+
+                text = to_html(solved, reader, source=source,
+                               unsaved=unsaved and saved_at is not None)
             wanted, path = path, _free(path)  # an export never replaces a file
             try:
                 atomic_write_text(path, text)
@@ -308,7 +320,8 @@ class SiteFiles:
                 extra += f"\n({wanted.name} exists and was kept)"
             self.app.notify(f"Wrote {file_and_folder(path)}{extra}", timeout=5)
 
-        title = "Walkdown record (Markdown)" if fmt == "markdown" else "Results (CSV)"
+        title = {"markdown": "Walkdown record (Markdown)",
+                 "html": "Walkdown report (HTML)"}.get(fmt, "Results (CSV)")
         self.app.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix), chosen)
 
 

@@ -1,4 +1,5 @@
-"""A solved site as a report: JSON for scripts (SI), a text table, CSV and a Markdown record.
+"""A solved site as a report: JSON for scripts (SI), a text table, CSV, a Markdown record and a
+self-contained HTML report.
 
 The text formats are in the reader's units and share their lines (:mod:`.lines`); the columns
 of their tables are in :mod:`.columns`, the uncertainty band's text in :mod:`.band`.
@@ -9,11 +10,13 @@ from __future__ import annotations
 from ..site.solve import SiteResult
 from ..units import Units
 
-FORMATS = ("table", "json", "csv", "markdown")
+FORMATS = ("table", "json", "csv", "markdown", "html")
 
 
-def render(sr: SiteResult, fmt: str = "table", reader: Units | str = "si") -> str:
-    """``sr`` in one of :data:`FORMATS` (JSON is always SI)."""
+def render(sr: SiteResult, fmt: str = "table", reader: Units | str = "si",
+           width: int | None = None) -> str:
+    """``sr`` in one of :data:`FORMATS` (JSON is always SI); ``width``: the columns the
+    text table's lines are wrapped to (default 80)."""
     if fmt == "json":
         from .json_report import to_json
 
@@ -26,6 +29,10 @@ def render(sr: SiteResult, fmt: str = "table", reader: Units | str = "si") -> st
         from .markdown import to_markdown
 
         return to_markdown(sr, reader)
+    if fmt == "html":
+        from .html_report import to_html
+
+        return to_html(sr, reader)
     from .text_table import to_table
 
-    return to_table(sr, reader)
+    return to_table(sr, reader) if width is None else to_table(sr, reader, width)

@@ -4,7 +4,9 @@ The keys are a contract with scripts that read them: ``pressure_drop_pa``, ``hea
 ``total_flow_m3_s``, ``fluid``, ``branches`` (first segment's values at the top of each branch,
 the others under ``segments``), ``solved``, ``warnings``, ``cautions``. Keys may be added, never
 renamed (added since: ``record`` {``technician``, ``date``, ``pressure_instrument``,
-``flow_instrument``}, each branch's ``tag``, ``given``, ``other_readings``, ``uncertainty``).
+``flow_instrument``}, each branch's ``tag``, ``given``, ``other_readings``, ``uncertainty``,
+``schema_version``). The published JSON Schema is ``result.schema.json`` (:mod:`.schema`):
+a key added here is described there too.
 """
 
 from __future__ import annotations
@@ -20,6 +22,7 @@ from ..site.solve import SiteResult
 from ..site.spec import RECORD_KEYS, RecordSpec, Site
 from . import band
 from .lines import CAUTIONS, version
+from .schema import SCHEMA_VERSION
 
 
 def _num(value: float) -> float | None:
@@ -81,6 +84,7 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
             "segments": [_segment_json(s) for s in rest],
         })
     return {
+        "schema_version": SCHEMA_VERSION,
         "site": sr.site.title,
         "record": record_json(sr.site),
         "branchwise_version": version(),

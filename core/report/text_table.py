@@ -41,7 +41,7 @@ def grid(keys: Sequence[str], rows: list[dict[str, str]], reader: Units | str) -
     return [line(cells) for cells in table]
 
 
-def wrap(text: str, first: str = "", rest: str = "  ", width: int = WIDTH) -> list[str]:
+def _wrap(text: str, first: str = "", rest: str = "  ", width: int = WIDTH) -> list[str]:
     """``text`` broken at spaces into lines of at most ``width`` columns (a word longer than
     that stays whole), the first line led by ``first``, the others by ``rest``."""
     glued = " ".join(text.split()).replace(" %", "\u00a0%")  # "90 %" stays on one line
@@ -50,11 +50,16 @@ def wrap(text: str, first: str = "", rest: str = "  ", width: int = WIDTH) -> li
     return [line.replace("\u00a0", " ") for line in lines] or [first.rstrip()]
 
 
-def to_table(sr: SiteResult, reader: Units | str = "si") -> str:
+
+def to_table(sr: SiteResult, reader: Units | str = "si", width: int = WIDTH) -> str:
     """A readable plain-text report in the reader's units: the record header, the flows and
     the losses as two tables, then the solved unknown, the bands, the warnings, the notes and
-    the cautions."""
+    the cautions; lines of text wrapped to ``width`` columns (the tables are never cut)."""
     u = units_for(reader)
+
+    def wrap(text: str, first: str = "", rest: str = "  ") -> list[str]:
+        return _wrap(text, first, rest, width)
+
     rows = [cells for _, _, cells in segment_rows(sr, u)]
     out = [*wrap(sr.site.title), *(line for r in record_lines(sr.site) for line in wrap(r)), ""]
     out += [line for s in summary_lines(sr, u) for line in wrap(s)]

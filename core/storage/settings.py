@@ -31,6 +31,8 @@ class Settings:
     """
 
     unit_system: str = "si"
+    theme: str | None = None
+    """The app's colour theme by name (None: Textual's default); checked by the app."""
     display_units: dict[str, str] = field(default_factory=dict)
     recent_sites: list[Path] = field(default_factory=list)
     last_site: Path | None = None
@@ -58,6 +60,11 @@ class Settings:
             settings.unit_system = system
         else:
             report(str(InputError(f"{name} unit_system", system, "must be si or us")))
+        theme = doc.get("theme")
+        if isinstance(theme, str) and theme.strip():
+            settings.theme = theme.strip()
+        elif theme is not None:
+            report(str(InputError(f"{name} theme", theme, "must be a theme's name")))
         units = doc.get("display_units", {})
         if not isinstance(units, dict):
             units = {}
@@ -123,6 +130,10 @@ class Settings:
             doc.add(tomlkit.comment(header))
         if plain(doc.get("unit_system")) != self.unit_system:
             doc["unit_system"] = self.unit_system
+        if self.theme is None:
+            doc.pop("theme", None)
+        elif plain(doc.get("theme")) != self.theme:
+            doc["theme"] = self.theme
         if plain(doc.get("recent_sites")) != recent:
             doc["recent_sites"] = recent
         if self.last_site is None:

@@ -10,7 +10,6 @@ import sys
 
 import pytest
 
-from branchwise.core.report.csv_report import CSV_LABELS
 from branchwise.core.report.lines import CAUTIONS
 from branchwise.core.site.read import demo_text
 from branchwise.tui.cli import main
@@ -90,13 +89,13 @@ def test_table_in_us_units_csv_and_markdown(capsys):
     table = capsys.readouterr().out
     assert "gpm" in table and "psi" in table and "ft/s" in table
     assert main(["solve", "--format", "csv"]) == 0
-    rows = list(csv.reader(io.StringIO(capsys.readouterr().out)))
+    captured = capsys.readouterr()
+    rows = list(csv.reader(io.StringIO(captured.out)))
     # RFC 4180 2.4: each record holds the same number of fields (no '#' comment lines)
     assert {len(r) for r in rows} == {len(rows[0])}
-    cautions = [r for r in rows if r[0] == "Caution"]
-    rows = [r for r in rows if r[0] not in CSV_LABELS]
-    assert len(cautions) == 4 and [r[1] for r in cautions] == list(CAUTIONS)
-    assert rows[0][:3] == ["Branch", "Seg", "Flow (L/s)"]
+    assert [line for line in captured.err.splitlines() if "caution" in line] == [
+        f"branchwise: caution: {c}" for c in CAUTIONS]  # on standard error, not in the data
+    assert rows[0][:4] == ["Branch", "Segment", "Tag", "Flow (L/s)"]
     assert [r[0] for r in rows[1:]] == ["AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass",
                                        "Bypass"]
     assert main(["solve", "--format", "markdown"]) == 0

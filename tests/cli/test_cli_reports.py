@@ -1,17 +1,13 @@
 """What a site engineer gets from ``branchwise solve``: a table that fits a terminal yet keeps
-every figure, a CSV that imports into a spreadsheet as one rectangle, and the walkdown record
-(who, when, which instruments, line tags) in the table, the Markdown and the JSON."""
+every figure, and the walkdown record (who, when, which instruments, line tags) in the table,
+the Markdown and the JSON (the CSV: tests/cli/test_cli_csv.py)."""
 
 from __future__ import annotations
 
-import csv
-import io
 import json
 
 import pytest
 
-from branchwise.core.report.csv_report import CSV_LABELS
-from branchwise.core.report.lines import CAUTIONS
 from branchwise.core.site.read import demo_text
 from branchwise.core.units import format_number
 from branchwise.tui.cli import main
@@ -84,44 +80,6 @@ def test_seg_column_only_when_a_branch_has_segments(tmp_path, capsys):
     assert "Seg" not in section(out, "Flows:")[0] and "Seg" not in out
 
 
-# ---- CSV -----------------------------------------------------------------------------------
-
-@pytest.mark.parametrize("args", [[], ["--units", "us"], ["--uncertainty", *FAST]])
-def test_csv_is_one_rectangle_with_labelled_rows(capsys, args):
-    text = solve(capsys, "--format", "csv", *args)
-    rows = list(csv.reader(io.StringIO(text)))
-    # RFC 4180 2.4 ("each line should contain the same number of fields"); no comment lines
-    assert {len(r) for r in rows} == {len(rows[0])}
-    assert not any(line.startswith("#") for line in text.splitlines())
-    assert rows[0][0] == "Branch" and rows[0][-1] == "Tag"
-    data = [r for r in rows[1:] if r[0] not in CSV_LABELS]
-    extra = [r for r in rows[1:] if r[0] in CSV_LABELS]
-    assert [r[0] for r in data] == ["AHU-1 coil", "AHU-2 coil", "AHU-3 coil", "Bypass", "Bypass"]
-    assert rows.index(extra[0]) == len(data) + 1  # the labelled rows come after the data
-    assert [r[1] for r in extra if r[0] == "Caution"] == list(CAUTIONS)
-    # label, text, then empty cells; a Value row: label, name with unit, number
-    assert all(not any(r[3 if r[0] == "Value" else 2:]) for r in extra)
-    assert all(float(r[2]) == float(r[2]) for r in extra if r[0] == "Value")
-    labels = [r[0] for r in extra]
-    assert labels == sorted(labels, key=CSV_LABELS.index)  # in the order of CSV_LABELS
-    record = [r[1] for r in extra if r[0] == "Record"]
-    assert record[0] == "Readings taken 2025-03-12 by R. Example (demo)"
-    if "--uncertainty" in args:
-        assert any(r[0] == "Band" for r in extra)
-
-
-def test_csv_carries_warnings_as_labelled_rows(tmp_path, capsys):
-    site = tmp_path / "site.toml"  # a high pressure drop: velocities beyond the limit
-    text = demo_text().replace('"10 psid"', '"60 psid"').replace('"30 psid"', '"100 psid"')
-    site.write_text(text, encoding="utf-8")
-    doc = json.loads(solve(capsys, str(site), "--format", "json"))
-    assert doc["warnings"]
-    rows = list(csv.reader(io.StringIO(solve(capsys, str(site), "--format", "csv"))))
-    warned = [r[1] for r in rows if r[0] == "Warning"]
-    assert len(warned) == len(doc["warnings"])
-    assert all(w["code"] in text for w, text in zip(doc["warnings"], warned, strict=True))
-
-
 # ---- the record ----------------------------------------------------------------------------
 
 def test_record_and_tags_in_json_markdown_and_table(capsys):
@@ -158,37 +116,6 @@ def test_without_a_record_the_keys_are_null_and_no_lines_appear(tmp_path, capsys
     table = solve(capsys, str(site))
     assert "Readings taken" not in table and "Tag" not in table
     assert "| Tag |" not in solve(capsys, str(site), "--format", "markdown")
-
-
-@pytest.mark.parametrize("system", ["si", "us"])
-def test_csv_carries_the_answer_a_solve_was_for(tmp_path, capsys, system):
-    """The found diameter, its catalog size, the given reading and the total flow are in the
-    CSV's Result rows, in the CSV's units, matching the JSON's SI values."""
-    text = demo_text().replace("# [solve]", "[solve]").replace(
-        '# find = "diameter"', 'find = "diameter"').replace(
-        '# branch = "AHU-2 coil"', 'branch = "AHU-2 coil"').replace(
-        '# target_flow = "220 gpm"', 'target_flow = "220 gpm"')
-    path = tmp_path / "site.toml"
-    path.write_text(text, encoding="utf-8")
-    data = json.loads(solve(capsys, str(path), "--format", "json"))
-    rows = list(csv.reader(io.StringIO(solve(capsys, str(path), "--format", "csv",
-                                             "--units", system))))
-    assert len({len(r) for r in rows}) == 1
-    result = [r[1] for r in rows if r[0] == "Result"]
-    bore = UNITS[system][2]
-    found = data["solved"]["value_si"] / bore
-    unit = "mm" if system == "si" else "in"
-    assert any(f"{format_number(found)} {unit}" in line for line in result), result
-    assert any(data["solved"]["catalog_size"] in line for line in result)
-    total = data["total_flow_m3_s"] / UNITS[system][0]
-    assert any(f"total flow {format_number(total)}" in line for line in result)
-    assert rows.index(next(r for r in rows if r[0] == "Result")) > 4  # after the data rows
-    values = {r[1]: r[2] for r in rows if r[0] == "Value"}  # numbers a spreadsheet can use
-    number = float(values[f"diameter of 'AHU-2 coil' (found) ({unit})"])
-    assert number == pytest.approx(found, rel=1e-5)
-    assert float(values[f"total flow ({'L/s' if system == 'si' else 'gpm'})"]) == pytest.approx(
-        total, rel=1e-5)
-    assert values["catalog size for 'AHU-2 coil'"] == data["solved"]["catalog_size"]
 
 
 def test_a_found_roughness_is_set_beside_the_materials_table_value(tmp_path, capsys):

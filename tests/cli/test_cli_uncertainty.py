@@ -23,7 +23,6 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from branchwise.core.report.csv_report import CSV_LABELS
 from branchwise.core.site.read import demo_text
 from branchwise.core.units import format_number
 from branchwise.tui.cli import main
@@ -124,12 +123,10 @@ def test_band_in_the_markdown_record_and_the_csv(capsys):
     assert main(["solve", "--format", "csv", "--uncertainty", *FAST]) == 0
     rows = list(csv.reader(io.StringIO(capsys.readouterr().out)))
     assert {len(r) for r in rows} == {len(rows[0])}  # RFC 4180 2.4: one width for every row
-    assert [r[0] for r in rows if r[0] == "Band"]  # the total bands ride along, labelled
-    rows = [r for r in rows if r[0] not in CSV_LABELS]
-    assert rows[0][2:5] == ["Flow (L/s)", "Flow P5 (L/s)", "Flow P95 (L/s)"]
+    assert rows[0][3:6] == ["Flow (L/s)", "Flow P5 (L/s)", "Flow P95 (L/s)"]
     for r in rows[1:]:
-        if r[2]:
-            assert float(r[3]) <= float(r[2]) <= float(r[4]), r
+        if r[3]:
+            assert float(r[4]) <= float(r[3]) <= float(r[5]), r
 
 
 def test_a_found_unknown_gets_its_band_and_is_ranked(tmp_path, capsys):

@@ -73,9 +73,11 @@ class SitesScreen(Dialog[Path | str | None]):
             except OSError:
                 changed = "missing"
             table.add_row(f"(recent) {path.stem}", changed, str(path), key=str(path))
+        table.add_row("Import a line list (CSV)…", "", "—", key="import")
         table.add_row("Demo: chilled-water header", "bundled", "—", key="demo")
         table.add_row("New empty site", "", "—", key="new")
-        note = f"Saved sites live in {sites_dir()}.  Enter: open   /: type a path   Esc: cancel"
+        note = (f"Saved sites live in {sites_dir()}.  Enter: open   /: type a path (a site, "
+                "or a line list .csv to import)   Esc: cancel")
         if listing.problems:
             note += "\nNot listed: " + "; ".join(listing.problems)
         self.query_one(".sites-note", Static).update(note)
@@ -83,6 +85,10 @@ class SitesScreen(Dialog[Path | str | None]):
 
     def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
         key = event.row_key.value
+        if key == "import":
+            self.action_type_path()
+            self.query_one(Input).placeholder = "path to a line list (CSV), then Enter"
+            return
         if key in ("demo", "new"):
             self.dismiss(key)
         elif key is not None:

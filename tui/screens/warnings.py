@@ -40,17 +40,19 @@ class WarningsScreen(Dialog[None]):
     WarningsScreen .warnings-keys { color: $text-muted; }
     """
 
-    def __init__(self, lines: list[str]) -> None:
+    def __init__(self, lines: list[str], title: str | None = None,
+                 keys: str = "Esc closes.  The walkdown record (r) lists them too.") -> None:
         super().__init__()
         self.lines = lines
+        self.title_text = title
+        self.keys = keys
 
     def compose(self) -> ComposeResult:
         with Vertical():
-            yield Label(f"Warnings and notes ({len(self.lines)})")
+            yield Label(self.title_text or f"Warnings and notes ({len(self.lines)})")
             with VerticalScroll():
                 yield Static("\n".join(self.lines) or "None for this answer.", markup=False)
-            yield Static("Esc closes.  The walkdown record (r) lists them too.",
-                         classes="warnings-keys", markup=False)
+            yield Static(self.keys, classes="warnings-keys", markup=False)
 
     def action_close(self) -> None:
         self.dismiss(None)

@@ -45,7 +45,7 @@ class WorkScreen(Screen):
     def on_mount(self) -> None:
         if not self.is_attached:
             return  # the app quit while this screen was being built: nothing to draw
-        for name in ("revision", "outcome", "unit_system"):
+        for name in ("revision", "outcome", "unit_system", "theme"):
             self.watch(self.app, name, self._changed, init=False)
         self.redraw()
         self.call_after_refresh(self._settled)

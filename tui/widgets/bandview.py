@@ -21,6 +21,7 @@ from textual.widgets import Static
 from branchwise.core.finds import found_noun
 
 from ..quiet import put
+from ..theme import colour
 
 if TYPE_CHECKING:
     from branchwise.core.site.solve import SiteResult
@@ -108,7 +109,7 @@ def band_body(app: Workspace, sr: SiteResult, wide: bool) -> Text:
         for i, (name, share) in enumerate(top):
             out.append(("\n" if i else "") + f"  {format_number(share * 100, 3).rjust(5)} % ")
             out.append(bandtext.bar(share, RANK_BAR_NARROW if narrow else RANK_BAR),
-                       style="cyan")
+                       style=colour(app, "text-primary"))
             out.append(f"  {short_name(name).ljust(name_w)}  {limits.get(name, '')}")
         if more:
             out.append(f"\n  … {more} more input{'s' if more > 1 else ''}, "
@@ -136,7 +137,7 @@ def band_notes(app: Workspace, sr: SiteResult) -> Text:
               if sr.site.tolerances is not None else "common-practice defaults")
     out = Text(f"\n\nTolerances: {source}  (l: see and change them)", style="dim")
     for note in u.notes if u is not None else ():
-        out.append(f"\n• {note}", style="yellow")
+        out.append(f"\n• {note}", style=colour(app, "text-warning"))
     return out
 
 

@@ -18,10 +18,20 @@ from textual.widget import Widget
 
 from ..drawing.braille import BrailleCanvas
 
-GUIDE_STYLE = "grey50"
-POINT_STYLE = "bold bright_red"
+
+@dataclass(frozen=True)
+class PlotStyles:
+    """The plot's own colours: the guides to the operating point, the axes, the point. The
+    defaults are plain (any terminal); the widget passes the theme's
+    (:mod:`branchwise.tui.theme`)."""
+
+    guide: str = "dim"
+    axis: str = ""
+    point: str = "bold"
+
+
+PLAIN = PlotStyles()
 POINT_CHAR = "◆"
-AXIS_STYLE = "grey62"
 MARKERS = ("●", "○", "▲", "△", "■", "□", "+", "×")
 """One glyph per series, set on its line and in the legend, so the lines read apart without
 colour too (after the eighth series the glyphs come round again)."""
@@ -83,14 +93,15 @@ def _ticks(first: float, last: float, step: float) -> list[float]:
     return [first + i * step for i in range(count + 1)]
 
 
-def draw(data: PlotData | None, width: int, height: int, empty: str = "") -> Text:
+def draw(data: PlotData | None, width: int, height: int, empty: str = "",
+         styles: PlotStyles = PLAIN) -> Text:
     """The whole plot as ``height`` lines of at most ``width`` cells."""
     if data is None or width < 20 or height < 6:
         return Text(empty or "(no room for the plot)", style="dim")
     lines: list[Text] = []
     if data.point_label:
-        lines.append(Text.assemble((f"{POINT_CHAR} ", POINT_STYLE), (data.point_label, "bold")))
-    lines += _legend(data, width)
+        lines.append(Text.assemble((f"{POINT_CHAR} ", styles.point), (data.point_label, "bold")))
+    lines += _legend(data, width, styles.axis)
     xs = [v for s in data.series for v in s.x if math.isfinite(v)]
     ys = [v for s in data.series for v in s.y if math.isfinite(v)]
     if data.point is not None:
@@ -116,8 +127,8 @@ def draw(data: PlotData | None, width: int, height: int, empty: str = "") -> Tex
 
     if data.point is not None:
         ox, oy = px(data.point[0]), py(data.point[1])
-        canvas.line(ox, canvas.dot_height - 1, ox, oy, GUIDE_STYLE, every=2)
-        canvas.line(0, oy, canvas.dot_width - 1, oy, GUIDE_STYLE, every=2)
+        canvas.line(ox, canvas.dot_height - 1, ox, oy, styles.guide, every=2)
+        canvas.line(0, oy, canvas.dot_width - 1, oy, styles.guide, every=2)
     for s in data.series:
         points = [(px(x), py(y)) for x, y in zip(s.x, s.y, strict=False)
                   if math.isfinite(x) and math.isfinite(y)]
@@ -131,16 +142,17 @@ def draw(data: PlotData | None, width: int, height: int, empty: str = "") -> Tex
         _mark_series(canvas, points, MARKERS[k % len(MARKERS)], s.style,
                      (k + 1) / (len(data.series) + 1))
     if data.point is not None:
-        canvas.mark(ox // 2, oy // 4, POINT_CHAR, POINT_STYLE)
+        canvas.mark(ox // 2, oy // 4, POINT_CHAR, styles.point)
 
     labels = {py(v) // 4: tick_text(v, ystep) for v in y_ticks}
     for row in range(rows):
         label = labels.get(row)
-        line = Text((label or "").rjust(gutter - 1) + " ", style=AXIS_STYLE, no_wrap=True)
-        line.append("┤" if label is not None else "│", AXIS_STYLE)
+        line = Text((label or "").rjust(gutter - 1) + " ", style=styles.axis, no_wrap=True)
+        line.append("┤" if label is not None else "│", styles.axis)
         line.append_text(canvas.row_text(row))
         lines.append(line)
-    lines += _x_axis(nice_ticks(x0, x1, max(2, cols // 10)), gutter, cols, px, data.x_title)
+    lines += _x_axis(nice_ticks(x0, x1, max(2, cols // 10)), gutter, cols, px, data.x_title,
+                     styles.axis)
     return Text("\n").join(lines)
 
 
@@ -160,10 +172,10 @@ def _mark_series(canvas: BrailleCanvas, points: list[tuple[int, int]], marker: s
             canvas.mark(*at, marker, f"bold {style}")
 
 
-def _legend(data: PlotData, width: int) -> list[Text]:
+def _legend(data: PlotData, width: int, axis: str = "") -> list[Text]:
     """The y-axis title, then one entry per series, with its line's glyph; on two lines at
     most (then "…")."""
-    lines = [Text(data.y_title, style="bold " + AXIS_STYLE, no_wrap=True)]
+    lines = [Text(data.y_title, style=f"bold {axis}".strip(), no_wrap=True)]
     for k, s in enumerate(data.series):
         marker = MARKERS[k % len(MARKERS)]
         entry = Text.assemble((f"━{marker}━ ", f"bold {s.style}"), (s.label, ""))
@@ -180,22 +192,22 @@ def _legend(data: PlotData, width: int) -> list[Text]:
 
 def _x_axis(ticks: tuple[float, float, float], gutter: int, cols: int,
             px: Callable[[float], int],
-            title: str) -> list[Text]:
-    axis = ["─"] * cols
+            title: str, axis: str = "") -> list[Text]:
+    rule = ["─"] * cols
     under = [" "] * (gutter + 1 + cols)
     room = gutter + 1 + cols - cell_len(title) - 1  # the title keeps the right end
     step = ticks[2]
     for value in _ticks(*ticks):
         col = px(value) // 2
-        axis[min(col, cols - 1)] = "┬"
+        rule[min(col, cols - 1)] = "┬"
         text = tick_text(value, step)
         start = max(0, gutter + 1 + col - len(text) // 2)
         end = start + len(text)
         if end <= room and all(c == " " for c in under[max(0, start - 1):end + 1]):
             under[start:end] = list(text)
     under[room + 1:] = list(title)
-    return [Text(" " * gutter + "└" + "".join(axis), style=AXIS_STYLE, no_wrap=True),
-            Text("".join(under), style=AXIS_STYLE, no_wrap=True)]
+    return [Text(" " * gutter + "└" + "".join(rule), style=axis, no_wrap=True),
+            Text("".join(under), style=axis, no_wrap=True)]
 
 
 class CurvePlot(Widget):
@@ -217,8 +229,13 @@ class CurvePlot(Widget):
             self.refresh()
 
     def render(self) -> Text:
+        from ..theme import colour, muted
+
         size = self.content_size
-        return draw(self.data, size.width, size.height, self.empty)
+        styles = PlotStyles(guide=muted(self.app), axis=muted(self.app, 0.25),
+                            point=f"bold {colour(self.app, 'text-error')}".strip())
+        return draw(self.data, size.width, size.height, self.empty, styles)
 
 
-__all__ = ["CurvePlot", "PlotData", "Series", "axis_range", "draw", "nice_ticks", "tick_text"]
+__all__ = ["CurvePlot", "PlotData", "PlotStyles", "Series", "axis_range", "draw", "nice_ticks",
+           "tick_text"]

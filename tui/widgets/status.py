@@ -17,6 +17,7 @@ from branchwise.core.site.fields import FieldPath
 from ..state.givens import given_of, given_text, given_words
 from ..state.session import find_of
 from ..state.values import text_of
+from ..theme import colour
 from ..workspace import workspace
 
 if TYPE_CHECKING:
@@ -44,7 +45,7 @@ class StatusStrip(Static):
 
     def on_mount(self) -> None:
         app = self.app
-        for name in ("revision", "outcome", "unit_system", "dirty"):
+        for name in ("revision", "outcome", "unit_system", "dirty", "theme"):
             self.watch(app, name, self._redraw, init=False)
         self._redraw()
 
@@ -118,14 +119,16 @@ def _state(app: Workspace, on_split: bool) -> tuple[Text, Text]:
     if outcome is None:  # (a later answer replaces this line; no flicker while typing)
         line.append("… solving", style="italic dim")
     elif outcome.error is not None:
-        line.append(f"✗ {app.error_words(outcome.error)}", style="bold red")
+        line.append(f"✗ {app.error_words(outcome.error)}",
+                    style=f"bold {colour(app, 'text-error')}".strip())
         where = Text(f"  ({AREA_KEYS[FieldPath.parse(outcome.field).area]})", style="dim")
     else:
         n = len(outcome.solved.result.branches) if outcome.solved else 0
-        line.append(f"✓ solved {n} branches in {outcome.seconds * 1000:.1f} ms", style="green")
+        line.append(f"✓ solved {n} branches in {outcome.seconds * 1000:.1f} ms",
+                    style=colour(app, "text-success"))
         warnings = len(outcome.solved.result.warnings) if outcome.solved else 0
         if warnings:
             listed = "w lists them" if on_split else "F4"
             line.append(f"  ⚠ {warnings} warning{'s' if warnings > 1 else ''} ({listed})",
-                        style="yellow")
+                        style=colour(app, "text-warning"))
     return line, where

@@ -31,6 +31,7 @@ from ...state.givens import (
 )
 from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
+from ...theme import colour
 from ...widgets.branchtable import BranchTable
 from ..work_screen import WorkScreen
 from .cells import (
@@ -121,6 +122,7 @@ class BranchesScreen(WorkScreen):
         outcome = app.outcome
         bad = (FieldPath.parse(outcome.field) if outcome is not None and outcome.error
                else None)
+        wrong_style = f"bold reverse {colour(self.app, 'text-error')}".strip()
         bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
             else None
         flows = flow_cells(app)
@@ -141,7 +143,7 @@ class BranchesScreen(WorkScreen):
                         text = cell_text(br, seg, key)
                     wrong = (bad is not None and bad.branch == i and key == bad_column
                              and (bad.segment or 0) == j)
-                    cells.append(Text(text or "?", style="bold white on red") if wrong
+                    cells.append(Text(text or "?", style=wrong_style) if wrong
                                  else Text(text, justify="right" if key == "flow" else "left"))
                 rows.append((f"{i}.{j}", cells))
                 self._rows.append((i, j))

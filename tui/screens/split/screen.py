@@ -55,6 +55,15 @@ class SplitScreen(WorkScreen):
                 tooltip="Write the walkdown record (Markdown)"),
         Binding("c", "export('csv')", "CSV", id="split-csv", show=False,
                 tooltip="Write the results table as CSV"),
+        Binding("h", "export('html')", "Report", id="split-html", show=False,
+                tooltip="Write the walkdown report as one HTML file (opens in any browser, "
+                        "prints on A4 or Letter)"),
+        Binding("y", "copy('table')", "Copy table", id="split-copy-table", show=False,
+                tooltip="Copy the results table to the clipboard (tab-separated, for a "
+                        "spreadsheet)"),
+        Binding("a", "copy('answer')", "Copy answer", id="split-copy-answer", show=False,
+                tooltip="Copy the answer line (Δp, total flow, a found value) to the "
+                        "clipboard"),
         Binding("w", "warnings", "Warnings", id="split-warnings", show=False,
                 tooltip="List every warning and note of the answer"),
         Binding("b", "view('band')", "Band", id="split-band",
@@ -108,13 +117,18 @@ class SplitScreen(WorkScreen):
     def action_export(self, fmt: str) -> None:
         self.bw.export(fmt)
 
+    def action_copy(self, what: str) -> None:
+        from ...copying import copy
+
+        copy(self.app, what)
+
     def action_warnings(self) -> None:
         from ..warnings import WarningsScreen
 
         self.app.push_screen(WarningsScreen(list(self.views.warning_lines)))
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
-        if action == "export":
+        if action in ("export", "copy"):
             outcome = self.bw.outcome
             return True if outcome is not None and outcome.ok else None
         if parameters in (("find-target",), ("find-branch",)):
@@ -125,7 +139,7 @@ class SplitScreen(WorkScreen):
         return True
 
     def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
-        if action == "export":
+        if action in ("export", "copy"):
             return "Nothing to write yet: the site does not solve (see the message above)."
         if action == "field" and parameters == ("find-target",):
             return "No target flow while finding the flows: f chooses what to find."

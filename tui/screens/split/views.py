@@ -32,6 +32,8 @@ from textual.worker import get_current_worker
 from ...drawing.share_bar import share_bar
 from ...quiet import put
 from ...state.outcome import Band
+from ...theme import colour
+from ...theme import series as theme_series
 from ...widgets.bandview import WIDE, BandView, band_body, band_notes
 from ...widgets.curveplot import CurvePlot, PlotData, Series
 from ...widgets.texttable import TextTable
@@ -53,9 +55,6 @@ BAND_SEED = 0
 BAND_PAUSE = 0.6
 """Seconds of quiet after an edit before an open band is worked out again."""
 CURVE_FACTOR = 1.5
-TOTAL_STYLE = "bold bright_yellow"
-BRANCH_STYLES = ("cyan", "green", "magenta", "blue", "bright_cyan", "bright_green",
-                 "bright_magenta", "bright_blue")
 VIEWS = {"table": "#results", "band": "#band-view", "curve": "#curve-view"}
 MAX_WARNING_LINES = 6
 """At most this many warning lines under the table; fewer when the branch rows need the room."""
@@ -156,7 +155,7 @@ class ResultViews(Vertical):
         app = self.bw
         outcome = app.outcome
         drawn = (outcome, app.good, app.unit_system, tuple(app.settings.display_units.items()),
-                 app.latest_band, self.app.size.width >= 100)
+                 app.latest_band, self.app.size.width >= 100, self.app.theme)
         if self._drawn == drawn:
             return  # the site changed but its answer has not arrived yet: nothing new to show
         self._drawn = drawn
@@ -194,13 +193,14 @@ class ResultViews(Vertical):
 
         result = shown.solved.result
         rows: list[list[str | Text]] = []
+        bar = (colour(self.app, "text-primary"), f"bold {colour(self.app, 'text-error')}")
         for br in result.branches:
             for j, seg in enumerate(br.segments):
                 first = j == 0
                 rows.append([
                     br.name if first else f"  └ {'segment' if wide else 'seg.'} {j + 1}",
                     app.fmt(br.flow, "flow", unit=False) if first else "",
-                    (share_bar(br.share, 6) if wide else _percent(br.share)) if first else "",
+                    (share_bar(br.share, 6, *bar) if wide else _percent(br.share)) if first else "",
                     app.fmt(seg.velocity, "velocity", 3, unit=False),
                     f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
                     f"{seg.friction_factor:.4f}",
@@ -358,19 +358,21 @@ class ResultViews(Vertical):
 
     def _draw_band(self) -> None:
         app, band, state = self.bw, self.band, self.band_state()
+        warn = f"bold {colour(self.app, 'text-warning')}".strip()
         draws = f"{BAND_SAMPLES:,} Monte Carlo draws"
         head = {
             "computing": Text(f"computing… {draws} (seed {BAND_SEED})", style="italic"),
             "current": Text(f"P5 … P95: the middle 90 % of {draws} (seed {BAND_SEED})",
                             style="dim"),
             "broken": Text("No band: this site has no answer now (see the message above)",
-                           style="bold yellow"),
+                           style=warn),
             "stale": Text("STALE: the inputs changed since this band; it is worked out "
-                          "again when typing pauses", style="bold yellow"),
+                          "again when typing pauses", style=warn),
             "none": Text("No band yet: it is worked out once the site solves", style="dim"),
         }.get(state)
         if head is None:  # error: the band of these inputs says why it has no figures
-            head = Text(f"✗ No band: {band.error if band else ''}", style="bold red")
+            head = Text(f"✗ No band: {band.error if band else ''}",
+                        style=f"bold {colour(self.app, 'text-error')}".strip())
             if band is not None and band.field.startswith("tolerances"):
                 head.append("  (l: tolerances)", style="dim")
         elif state in ("computing", "broken") and band is not None and band.solved is not None:
@@ -399,7 +401,8 @@ class ResultViews(Vertical):
             plot.show(None, "computing the system curve…")
             return
         owner, curve, error = ready
-        key = (owner, app.unit("flow"), app.unit("pressure"))  # an Outcome compares by identity
+        key = (owner, app.unit("flow"), app.unit("pressure"),  # an Outcome compares by identity
+               self.app.theme)
         if key != self._plot_key:
             self._plot_key = key
             plot.show(self.plot_data(curve) if curve is not None else None,
@@ -440,10 +443,9 @@ class ResultViews(Vertical):
             return tuple(to_unit(float(v), "flow", flow_unit) for v in values)
 
         dp = tuple(to_unit(float(v), "pressure", dp_unit) for v in curve.pressure_drop)
-        series = [Series(name, flows(curve.branch_flows[:, i]), dp,
-                         BRANCH_STYLES[i % len(BRANCH_STYLES)])
+        series = [Series(name, flows(curve.branch_flows[:, i]), dp, theme_series(self.app, i))
                   for i, name in enumerate(curve.branch_names)]
-        series.append(Series("total flow", flows(curve.total_flow), dp, TOTAL_STYLE))
+        series.append(Series("total flow", flows(curve.total_flow), dp, "bold"))
         point, label = None, ""
         if curve.operating_point is not None:
             q, p = curve.operating_point
