@@ -242,12 +242,7 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
         raise _as_written(exc, site) from None
     given = _given(site, [b.name for b in branches])
     find = _find(site, network)
-    notes = []
-    if isinstance(find, FindUnknown) and find.quantity == "diameter":
-        i = network.index_of(find.branch)
-        if ks[i][find.segment]:
-            notes.append("the fittings' K values were held at those of the entered size while "
-                         "the diameter was found")
+    notes: list[str] = []
     tolerances = None
     if site.tolerances is not None:
         from .tolerances import build_tolerances

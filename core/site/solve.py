@@ -6,6 +6,10 @@ the smallest size of the same standard and schedule whose bore is at least the o
 That second solve holds the site's given condition fixed: the same pressure drop, the same total
 flow (the other branches then carry less), or the same measured flow in another branch (so the
 driving head is unchanged). The resized segment's fittings K are recomputed at its new bore.
+
+A found diameter is itself found with the fittings' K of the bore found: Crane's K = n·f_T
+depends on the nominal size, so the solve is repeated with the K of the bore just found until
+the two agree (:func:`_fittings_at_found_bore`).
 """
 
 from __future__ import annotations
@@ -68,10 +72,80 @@ def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
     find = built.find
     if isinstance(find, FindUnknown) and find.quantity == "diameter" and result.solved:
         i = built.network.index_of(find.branch)
+        try:
+            result = _fittings_at_found_bore(site, built, i, find, result, notes)
+        except BranchwiseError as exc:
+            raise exc.naming([b.name for b in built.network.branches]) from None
+        built = _with_fittings_of(built, result, i, find.segment)
         like = built.sizes[i][find.segment]
         if like is not None:
             pick = _catalog_pick(site, built, i, find, like, result.solved.value, notes)
     return SiteResult(site, built, result, pick, tuple(notes))
+
+
+def _fittings_at_found_bore(site: Site, built: Built, i: int, find: FindUnknown,
+                            result: Result, notes: list[str]) -> Result:
+    """``result`` solved again with the fittings' K of the bore it found, until they agree.
+
+    Crane's f_T steps with the nominal size, so near a step the K of one size can give a bore
+    of the next and back: then the larger of the two bores is given (its K is the smaller
+    size's, the higher one) and a note says so.
+    """
+    from ..catalogs import crane_nominal, fittings_k
+    from ..catalogs.pipes import nominal_value
+    from ..numerics.solve import solve
+
+    counts = _fitting_counts(site, i, find.segment)
+    if not counts or result.solved is None:
+        return result
+    entered = built.fittings_k[i][find.segment]
+    base = built.network.branches[i].segments[find.segment].minor_k - entered
+    held: float = entered
+    used: dict[str, Result] = {}  # nominal size -> the result found with that size's K
+    for _ in range(12):
+        if result.solved is None:
+            break
+        nominal = crane_nominal(result.solved.value).nominal
+        k_here = fittings_k(counts, result.solved.value)
+        if abs(k_here - held) <= 1e-12 * max(1.0, k_here):
+            return result  # the K used is the K of the bore found
+        if nominal in used:  # this size's K was tried and gave a bore of another size
+            both = (used[nominal], result)
+            best = max(both, key=lambda r: r.solved.value if r.solved else 0.0)
+            sizes = sorted({crane_nominal(r.solved.value).nominal for r in both if r.solved},
+                           key=lambda n: float(nominal_value(n)))
+            notes.append(f"the fittings' K steps between NPS {' and '.join(sizes)} at this bore "
+                         "(Crane's f_T is taken by nominal size): the larger bore found is given")
+            return best
+        net = result.network
+        seg = replace(net.branches[i].segments[find.segment], minor_k=base + k_here)
+        segments = list(net.branches[i].segments)
+        segments[find.segment] = seg
+        net = net.replace_branch(i, replace(net.branches[i], segments=tuple(segments)))
+        result, held = solve(net, built.given, find), k_here
+        used[nominal] = result
+    return result
+
+
+def _with_fittings_of(built: Built, result: Result, i: int, segment: int) -> Built:
+    """``built`` with the sought segment's K as ``result`` used it (the K of the bore found),
+    so that the bands and the catalog pick start from the same network."""
+    old = built.network.branches[i].segments[segment]
+    new_k = result.network.branches[i].segments[segment].minor_k
+    if new_k == old.minor_k:
+        return built
+    segments = list(built.network.branches[i].segments)
+    segments[segment] = replace(old, minor_k=new_k)
+    network = built.network.replace_branch(
+        i, replace(built.network.branches[i], segments=tuple(segments)))
+    ks = [list(row) for row in built.fittings_k]
+    ks[i][segment] += new_k - old.minor_k
+    return replace(built, network=network, fittings_k=tuple(tuple(row) for row in ks))
+
+
+def _fitting_counts(site: Site, i: int, segment: int) -> dict[str, float]:
+    spec = site.branches[i].segments[segment]
+    return {k: float(plain_number(v, "fittings") or 0.0) for k, v in spec.fittings.items()}
 
 
 def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any,
@@ -84,9 +158,8 @@ def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any
         notes.append(f"no {like.standard} schedule {like.schedule} size has a bore of "
                      f"{format_quantity(required, 'diameter')} or more")
         return None
-    spec = site.branches[i].segments[find.segment]
     seg = built.network.branches[i].segments[find.segment]
-    counts = {k: float(plain_number(v, "fittings") or 0.0) for k, v in spec.fittings.items()}
+    counts = _fitting_counts(site, i, find.segment)
     k_fit = fittings_k(counts, size.inner_diameter_m) if counts else 0.0
     minor = seg.minor_k - built.fittings_k[i][find.segment] + k_fit
     segments = list(built.network.branches[i].segments)
