@@ -278,9 +278,11 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
 
 
 def _csv_cautions(solved: SiteResult, units: str) -> None:
-    """The warnings and cautions of a CSV's answer, on standard error."""
-    from branchwise.core.report.lines import CAUTIONS, warning_lines
+    """What was assumed, the warnings and the cautions of a CSV's answer, on standard error."""
+    from branchwise.core.report.lines import CAUTIONS, assumed_lines, warning_lines
 
+    for line in assumed_lines(solved, units):
+        print(f"branchwise: assumed: {line}", file=sys.stderr)
     for line in warning_lines(solved, units):
         print(f"branchwise: warning: {line}", file=sys.stderr)
     for line in CAUTIONS:

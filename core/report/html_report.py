@@ -20,6 +20,7 @@ from . import band
 from .columns import COLUMNS, FLOW_TABLE, LOSS_TABLE, segment_rows, unit_text, used
 from .lines import (
     CAUTIONS,
+    assumed_lines,
     notes_of,
     record_lines,
     solved_lines,
@@ -173,6 +174,8 @@ def to_html(sr: SiteResult, reader: Units | str = "si", date: datetime | None = 
     body.append(_band(sr, u))
     if curve:
         body += ["<h2>System curve</h2>", _curve(sr, u)]
+    if sr.assumptions:
+        body += ["<h2>Assumed</h2>", _list(assumed_lines(sr, u))]
     body += ["<h2>Warnings</h2>", _list(warning_lines(sr, u) or ["None."])]
     notes = notes_of(sr)
     if notes:

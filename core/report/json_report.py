@@ -5,8 +5,8 @@ The keys are a contract with scripts that read them: ``pressure_drop_pa``, ``hea
 the others under ``segments``), ``solved``, ``warnings``, ``cautions``. Keys may be added, never
 renamed (added since: ``record`` {``technician``, ``date``, ``pressure_instrument``,
 ``flow_instrument``}, each branch's ``tag``, ``given``, ``other_readings``, ``uncertainty``,
-``schema_version``). The published JSON Schema is ``result.schema.json`` (:mod:`.schema`):
-a key added here is described there too.
+``schema_version``, ``assumptions`` [{``code``, ``branch``, ``message``}]). The published
+JSON Schema is ``result.schema.json`` (:mod:`.schema`): a key added here is described there too.
 """
 
 from __future__ import annotations
@@ -109,6 +109,8 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
         "warnings": [{"code": w.code, "branch": w.branch, "message": w.message}
                      for w in r.warnings],
         "notes": [*sr.notes, *r.notes],
+        "assumptions": [{"code": a.code, "branch": a.branch, "message": a.message}
+                        for a in sr.assumptions],
         "convergence": {"converged": r.convergence.converged,
                         "iterations": r.convergence.iterations,
                         "residual": _num(r.convergence.residual)},

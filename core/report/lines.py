@@ -173,6 +173,12 @@ def notes_of(sr: SiteResult) -> list[str]:
     return [*sr.notes, *sr.result.notes, *(sr.uncertainty.notes if sr.uncertainty else ())]
 
 
+def assumed_lines(sr: SiteResult, reader: Units | str = "si") -> list[str]:
+    """What was taken for granted or resolved: ``AHU-1 coil: NPS 4 sch 40: bore 102.3 mm …``."""
+    u = units_for(reader)
+    return [f"{a.branch + ': ' if a.branch else ''}{u.say(a)}" for a in sr.assumptions]
+
+
 def warning_lines(sr: SiteResult, reader: Units | str = "si") -> list[str]:
     """Every warning of the answer: ``AHU-3 coil: velocity … [velocity-high]``."""
     u = units_for(reader)

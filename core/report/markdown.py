@@ -14,6 +14,7 @@ from . import band
 from .columns import RESULT_TABLE, segment_rows, titled, used
 from .lines import (
     CAUTIONS,
+    assumed_lines,
     notes_of,
     record_lines,
     solved_lines,
@@ -80,6 +81,8 @@ def to_markdown(
     if sr.result.solved:
         out += ["", "## Solved unknown", "", *(f"- {_md(s)}" for s in solved_lines(sr, u))]
     out += band.markdown_lines(sr, u)
+    if sr.assumptions:
+        out += ["", "## Assumed", "", *(f"- {_md(a)}" for a in assumed_lines(sr, u))]
     out += ["", "## Warnings", ""]
     out += ([f"- {_md((w.branch + ': ') if w.branch else '')}{_md(u.say(w))} (`{w.code}`)"
              for w in sr.result.warnings] or ["- None."])

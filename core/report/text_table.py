@@ -15,6 +15,7 @@ from . import band
 from .columns import COLUMNS, FLOW_TABLE, LOSS_TABLE, segment_rows, unit_text, used
 from .lines import (
     CAUTIONS,
+    assumed_lines,
     notes_of,
     record_lines,
     solved_lines,
@@ -70,6 +71,9 @@ def to_table(sr: SiteResult, reader: Units | str = "si", width: int = WIDTH) -> 
     if sr.uncertainty is not None:
         out += ["", *(line for s in band.summary_lines(sr, u) for line in wrap(s))]
         out += ["", *band.ranking_lines(sr, u)]
+    if sr.assumptions:
+        out += ["", "Assumed:",
+                *(line for a in assumed_lines(sr, u) for line in wrap(a, "  - ", "    "))]
     if sr.result.warnings:
         out += ["", "Warnings:",
                 *(line for w in warning_lines(sr, u) for line in wrap(w, "  - ", "    "))]

@@ -21,6 +21,7 @@ from ..errors import BranchwiseError
 from ..model import FindFlows, FindUnknown
 from ..numerics.results import Result
 from ..units import format_quantity
+from .assumptions import Assumption, assumptions_of
 from .build import Built, build
 from .spec import Site
 from .values import plain_number
@@ -54,6 +55,8 @@ class SiteResult:
     catalog: CatalogPick | None
     notes: tuple[str, ...] = ()
     uncertainty: UncertaintyResult | None = None
+    assumptions: tuple[Assumption, ...] = ()
+    """What was taken for granted or resolved from the site (:mod:`.assumptions`)."""
 
 
 def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
@@ -78,9 +81,10 @@ def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
             raise exc.naming([b.name for b in built.network.branches]) from None
         built = _with_fittings_of(built, result, i, find.segment)
         like = built.sizes[i][find.segment]
-        if like is not None:
+        if like is not None and result.solved is not None:
             pick = _catalog_pick(site, built, i, find, like, result.solved.value, notes)
-    return SiteResult(site, built, result, pick, tuple(notes))
+    return SiteResult(site, built, result, pick, tuple(notes),
+                      assumptions=assumptions_of(site, built))
 
 
 def _fittings_at_found_bore(site: Site, built: Built, i: int, find: FindUnknown,

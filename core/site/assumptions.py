@@ -1,0 +1,128 @@
+"""What the tool took for granted or worked out from a site, said in words.
+
+Every default taken (pressure 1 atm, elevation 0, g, the friction model, the velocity limit)
+and every value resolved from a name (a size's bore, a material's ε and its source, the
+fittings' ΣK by Crane's n·f_T, the Kv a Cv became, a Hazen–Williams C from the material, a C
+left unused by a Darcy model) becomes one :class:`Assumption`, so that an engineer can check the
+reading of the input without opening the JSON. The reports list them under *Assumed*; the JSON
+under ``assumptions``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import cached_property
+from typing import TYPE_CHECKING
+
+from ..messages import marked
+from ..model import CV_PER_KV, STANDARD_GRAVITY, Segment
+from .spec import SegmentSpec, Site, Value
+
+if TYPE_CHECKING:
+    from .build import Built
+
+
+@dataclass(frozen=True)
+class Assumption:
+    """One thing assumed or resolved. ``code`` is stable for scripts; ``branch`` the branch's
+    name (None for the site as a whole); ``marked`` the words with their quantities marked
+    (restated in the reader's units by ``Units.say``); ``message`` the words in SI."""
+
+    code: str
+    branch: str | None
+    marked: str
+
+    @cached_property
+    def message(self) -> str:
+        from ..messages import render
+
+        return render(self.marked)
+
+
+def assumptions_of(site: Site, built: Built) -> tuple[Assumption, ...]:
+    """Everything ``built`` took for granted or resolved from ``site``, site-wide first."""
+    out = _site_wide(site, built)
+    net = built.network
+    for i, (spec, branch) in enumerate(zip(site.branches, net.branches, strict=True)):
+        many = len(branch.segments) > 1
+        for j, (seg_spec, seg) in enumerate(zip(spec.segments, branch.segments, strict=True)):
+            where = f"segment {j + 1}: " if many else ""
+            for code, words in _segment(seg_spec, seg, built.sizes[i][j], built.fittings_k[i][j],
+                                        net.friction):
+                out.append(Assumption(code, branch.name, where + words))
+        if spec.valve_cv is not None and branch.valve_kv is not None:
+            out.append(Assumption(
+                "kv-from-cv", branch.name,
+                f"valve Cv {_typed(spec.valve_cv)} taken as "
+                f"Kv {branch.valve_kv:.4g} (m³/h at 1 bar; Cv = {CV_PER_KV:.5f} Kv, from the US "
+                "gallon and the psi)"))
+    return tuple(out)
+
+
+def _site_wide(site: Site, built: Built) -> list[Assumption]:
+    from ..fluids import liquid
+    from ..fluids.water import STANDARD_ATMOSPHERE_PA
+
+    c, net, out = site.conditions, built.network, []
+    kind = liquid(net.fluid.kind)
+    if kind is not None and "pressure" in kind.inputs and site.fluid.pressure is None:
+        out.append(Assumption("pressure-default", None,
+                              "the liquid's pressure taken as 1 atm ("
+                              f"{marked('pressure', STANDARD_ATMOSPHERE_PA)} absolute) for its "
+                              "properties"))
+    if c.friction is None:
+        out.append(Assumption("friction-default", None,
+                              "friction by Colebrook (Darcy–Weisbach), the default"))
+    if c.elevation_change is None:
+        out.append(Assumption("elevation-default", None,
+                              "both headers at one height (elevation change 0)"))
+    if c.gravity is None:
+        out.append(Assumption("gravity-default", None,
+                              f"g = {STANDARD_GRAVITY} m/s² (standard gravity)"))
+    if c.velocity_limit is None:
+        out.append(Assumption("velocity-limit-default", None,
+                              f"velocities above {marked('velocity~', net.velocity_limit)} are "
+                              "flagged (common practice for liquid lines)"))
+    return out
+
+
+def _segment(spec: SegmentSpec, seg: Segment, size: object, k_fittings: float,
+             friction: str) -> list[tuple[str, str]]:
+    from ..catalogs import crane_ft, crane_nominal
+    from ..storage.user_presets import material_for
+
+    out: list[tuple[str, str]] = []
+    if size is not None:
+        label = getattr(size, "label", str(size))
+        standard = getattr(size, "standard", "")
+        out.append(("bore-from-size",
+                    f"{label}: bore {marked('diameter', seg.diameter)} ({standard})"))
+    material = _typed(spec.material) or None
+    if spec.roughness is None:
+        key = material or getattr(size, "material_hint", None)
+        if key is not None:
+            mat = material_for(key, "material")
+            source = mat.source.split(";")[0].removeprefix("roughness: ")
+            how = "" if material else ", the material the size's standard is made in"
+            aged = " (aged)" if _typed(spec.condition) == "aged" else ""
+            out.append(("roughness-from-material",
+                        f"{mat.name}{aged}{how}: ε = {marked('roughness', seg.roughness)} "
+                        f"({source})"))
+            if friction == "hazen-williams" and spec.hw_c is None and seg.hw_c is not None:
+                out.append(("hw-c-from-material",
+                            f"Hazen–Williams C {seg.hw_c:g} from {mat.name}"))
+    if friction != "hazen-williams" and spec.hw_c is not None:
+        out.append(("hw-c-unused",
+                    f"hw_c {_typed(spec.hw_c)} is not used: friction is "
+                    f"{friction} (Darcy–Weisbach), which takes the roughness instead"))
+    if k_fittings:
+        nominal = crane_nominal(seg.diameter).nominal
+        out.append(("fittings-k",
+                    f"fittings ΣK {k_fittings:.3g} (Crane TP-410: K = n·f_T, f_T "
+                    f"{crane_ft(seg.diameter):.4f} at NPS {nominal})"))
+    return out
+
+
+def _typed(value: Value) -> str:
+    """A value as it was typed (built already checked it)."""
+    return "" if value is None else str(value).strip()
