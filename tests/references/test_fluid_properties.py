@@ -11,8 +11,10 @@ import iapws
 import numpy as np
 import pytest
 from CoolProp.CoolProp import PropsSI
+from iapws._iapws import _Melting_Pressure as iapws_melting_pressure
 from iapws._iapws import _Viscosity as iapws_viscosity
 from iapws.iapws97 import _TSat_P as tsat_if97
+from scipy.optimize import brentq
 
 from branchwise.core.errors import InputError
 from branchwise.core.fluids import FLUID_KINDS, fluid_from_spec
@@ -90,8 +92,9 @@ def test_viscosity_verification_values(t: float, rho: float, mu_micro: float) ->
     [
         (373.15, ATM, "boils at 99.97 °C"),  # IF97: T_sat(101325 Pa) = 373.124 K
         (400.0, 2e5, "boils at 120.21 °C"),  # IF97: T_sat(0.2 MPa) = 393.361 K
-        (273.15, ATM, "freezes below 0.01 °C"),  # triple point 273.16 K (ITS-90)
-        (268.15, 5e6, "freezes below 0.01 °C"),
+        # 0 °C: the freezing point at 1 atm (IAPWS R14-08, checked below) and IF97's lower end.
+        (273.14, ATM, "must be at least 0 °C (water freezes at 0 °C at atmospheric pressure"),
+        (268.15, 5e6, "must be at least 0 °C (water freezes at 0 °C at atmospheric pressure"),
     ],
 )
 def test_water_refuses_ice_and_steam(t: float, p: float, limit: str) -> None:
@@ -104,8 +107,23 @@ def test_water_refuses_ice_and_steam(t: float, p: float, limit: str) -> None:
         assert tsat_if97(p / 1e6) <= t
 
 
+def test_water_freezing_limit_is_0_celsius_at_one_atmosphere() -> None:
+    # Reference: the IAPWS R14-08 melting line of ice Ih in the iapws package. At 101.325 kPa
+    # ice melts at 273.1525 K, 0.0025 K above 0 °C: "0 °C" to the 0.01 °C a message shows.
+    melting_k = brentq(lambda t: iapws_melting_pressure(t) - ATM / 1e6, 252.0, 273.16)
+    assert melting_k - 273.15 == pytest.approx(0.0025, abs=0.0002)
+    assert water(273.15).name == "Water at 0.0 °C"
+    with pytest.raises(InputError) as err:
+        water(273.15 - 1e-6)
+    assert err.value.field == "fluid.temperature"
+    # Under pressure the melting point falls (iapws: 272.40 K at 10 MPa): 0 °C stays the limit
+    # there because IAPWS-IF97 region 1 starts at 273.15 K, which the message also says.
+    assert brentq(lambda t: iapws_melting_pressure(t) - 10.0, 252.0, 273.16) < 273.15
+    assert "IAPWS-IF97 starts there" in str(err.value)
+
+
 def test_water_accepts_the_edges_of_the_liquid_range() -> None:
-    for t in (273.16, tsat_if97(ATM / 1e6) - 0.01):  # triple point; just below boiling (iapws)
+    for t in (273.15, tsat_if97(ATM / 1e6) - 0.01):  # 0 °C; just below boiling (iapws)
         ref = iapws.IAPWS95(T=t, P=ATM / 1e6)  # reference: iapws package
         assert water(t).density == pytest.approx(ref.rho, rel=1e-4)
         assert water(t).viscosity == pytest.approx(ref.mu, rel=1e-3)
