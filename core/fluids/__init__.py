@@ -9,7 +9,8 @@ loader, the ``presets`` command, the Liquid screen and the reports all read this
 Models (SI: K, Pa, kg/kg, kg/m³, Pa·s):
 
 - :mod:`.water`: IAPWS-IF97 region 1 density, IAPWS 2008 viscosity.
-- :mod:`.seawater`: Sharqawy, Lienhard & Zubair (2010).
+- :mod:`.seawater`: Sharqawy, Lienhard & Zubair (2010); density under pressure by Nayar,
+  Sharqawy, Banchik & Lienhard (2016).
 - :mod:`.glycol`: ethylene/propylene glycol in water, from CoolProp tables shipped in
   ``presets/fluids/`` (read on first use).
 - :mod:`.custom`: density plus a dynamic or kinematic viscosity.

@@ -28,7 +28,7 @@ import math
 from ..errors import InputError
 from ..messages import pressure_text, temperature_text
 from ..model import Fluid, finite
-from ._format import celsius, state
+from ._format import at_pressure, celsius, state
 
 R_WATER = 461.526
 """Specific gas constant of water, J/(kg·K) (IAPWS-IF97, eq. 1)."""
@@ -114,6 +114,19 @@ def saturation_temperature_if97(pressure_pa: float) -> float:
     return (n[9] + d - math.sqrt((n[9] + d) ** 2 - 4.0 * (n[8] + n[9] * d))) / 2.0
 
 
+def saturation_pressure_if97(temperature_k: float) -> float:
+    """Saturation (vapour) pressure of water, Pa, at ``temperature_k`` (K).
+
+    IAPWS-IF97 region 4, eq. 30 (Table 34 coefficients); valid from 273.15 K to 647.096 K.
+    """
+    n = _N4
+    theta = temperature_k + n[8] / (temperature_k - n[9])
+    a = theta**2 + n[0] * theta + n[1]
+    b = n[2] * theta**2 + n[3] * theta + n[4]
+    c = n[5] * theta**2 + n[6] * theta + n[7]
+    return 1e6 * (2.0 * c / (-b + math.sqrt(b * b - 4.0 * a * c))) ** 4
+
+
 def viscosity_iapws2008(temperature_k: float, density: float) -> float:
     """Dynamic viscosity of water, Pa·s, IAPWS R12-08 with μ2 = 1 (see the module docstring).
 
@@ -185,9 +198,7 @@ def water(temperature_k: float, pressure_pa: float = STANDARD_ATMOSPHERE_PA) -> 
     t = check_liquid(temperature_k, pressure_pa)
     p = float(pressure_pa)
     rho = density_if97(t, p)
-    name = f"Water at {celsius(t)} °C"
-    if abs(p - STANDARD_ATMOSPHERE_PA) > 1.0:
-        name += f", {p / 1e3:.4g} kPa"
+    name = f"Water at {celsius(t)} °C{at_pressure(p)}"
     return Fluid(
         name=name,
         density=rho,

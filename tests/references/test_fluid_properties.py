@@ -163,7 +163,8 @@ def test_salt_free_seawater_is_water(t_celsius: float) -> None:
 def test_seawater_name_and_kind() -> None:
     fluid = seawater(283.15, 0.035)
     assert fluid.name == "Seawater 35 g/kg at 10.0 °C"
-    assert (fluid.kind, fluid.source) == ("seawater", "Sharqawy, Lienhard & Zubair (2010)")
+    assert fluid.kind == "seawater"
+    assert fluid.source == "Sharqawy, Lienhard & Zubair (2010); pressure: Nayar et al. (2016)"
 
 
 @pytest.mark.parametrize(
@@ -184,9 +185,9 @@ def test_seawater_refuses_outside_its_range(t: float, s: float, field: str, text
 
 def test_seawater_refuses_high_pressure() -> None:
     with pytest.raises(InputError) as err:
-        seawater(293.15, 0.035, 3e6)  # correlations are for 0.1 MPa (Sharqawy et al. 2010)
+        seawater(293.15, 0.035, 12e6)  # viscosity has no pressure term: 10 MPa at most
     assert err.value.field == "fluid.pressure"
-    assert seawater(393.15, 0.035, 2.5e5).name == "Seawater 35 g/kg at 120.0 °C"
+    assert seawater(393.15, 0.035, 2.5e5).name == "Seawater 35 g/kg at 120.0 °C, 250 kPa"
 
 
 # ---- custom fluids and the spec entry point ----------------------------------------------
