@@ -24,7 +24,8 @@ temperature s = (T − T_low) / (T_top − T_low) the grid is a rectangle, every
 liquid state, and the lower limit is a grid line, which keeps the spline accurate right down to
 it. Where the lower limit switches from the freezing line to the fixed lowest temperature it
 has a corner; a row is placed exactly there (``corner_fraction``), and the reader never
-interpolates across it.
+interpolates across it (across it, with rows every 5 %, viscosity was measured up to 6 % off
+next to the corner; with the corner row and rows every 2.5 %, 1.9e-4 at worst).
 """
 
 from __future__ import annotations
