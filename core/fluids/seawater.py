@@ -29,7 +29,7 @@ from __future__ import annotations
 import math
 
 from ..errors import InputError
-from ..messages import temperature_text
+from ..messages import pressure_text, temperature_text
 from ..model import Fluid, finite
 from ._format import at_pressure, celsius, state
 from .water import (
@@ -160,7 +160,7 @@ def seawater(
     if pressure_pa > PRESSURE_MAX_PA:
         raise InputError(
             "fluid.pressure",
-            f"{pressure_pa:g} Pa",
+            pressure_text(pressure_pa),
             f"must be at most {PRESSURE_MAX_PA / 1e6:g} MPa for seawater (the viscosity "
             "correlation has no pressure term)",
         )

@@ -151,12 +151,12 @@ def liquid_range_k(pressure_pa: float) -> tuple[float, float]:
     if p < TRIPLE_POINT_PA:
         raise InputError(
             "fluid.pressure",
-            f"{p:g} Pa",
+            pressure_text(p),
             f"water is not liquid below {TRIPLE_POINT_PA} Pa (the triple-point pressure)",
         )
     if p > REGION1_MAX_PA:
         raise InputError(
-            "fluid.pressure", f"{p:g} Pa", "must be at most 100 MPa (IAPWS-IF97 region 1)"
+            "fluid.pressure", pressure_text(p), "must be at most 100 MPa (IAPWS-IF97 region 1)"
         )
     top = REGION1_MAX_K if p > CRITICAL_PA else min(saturation_temperature_if97(p), REGION1_MAX_K)
     return FREEZING_K, top
