@@ -207,8 +207,8 @@ def glycol(kind: GlycolKind, temperature_k: float, fraction: float,
         raise InputError(
             "fluid.temperature",
             state(t),
-            f"must be at least {temperature_text(table.bottom_k)} (the tabulated range; "
-            f"{mixture} freezes lower, at {temperature_text(t_freeze)})",
+            f"must be at least {temperature_text(table.bottom_k)} (the tabulated range; the "
+            f"mixture freezes at {temperature_text(t_freeze)})",
         )
     if t > table.top_k:
         raise InputError(
