@@ -9,9 +9,10 @@ loader, the ``presets`` command, the Liquid screen and the reports all read this
 Models (SI: K, Pa, kg/kg, kg/m³, Pa·s):
 
 - :mod:`.water`: IAPWS-IF97 region 1 density, IAPWS 2008 viscosity.
-- :mod:`.seawater`: Sharqawy, Lienhard & Zubair (2010).
-- :mod:`.glycol`: ethylene/propylene glycol in water, from CoolProp tables shipped in
-  ``presets/fluids/`` (read on first use).
+- :mod:`.seawater`: Sharqawy, Lienhard & Zubair (2010); density under pressure by Nayar,
+  Sharqawy, Banchik & Lienhard (2016).
+- :mod:`.glycol`: ethylene/propylene glycol in water, by mass or by volume, each from its own
+  CoolProp data set, tabulated in ``presets/fluids/`` (read on first use).
 - :mod:`.custom`: density plus a dynamic or kinematic viscosity.
 
 Adding a liquid: its model module, and one entry (with its builder) here.
@@ -35,20 +36,27 @@ if TYPE_CHECKING:
 class LiquidInput:
     """One value a liquid may need. key: the site file's key under ``[fluid]``; arg: the keyword
     of :func:`fluid_from_spec` (SI, its unit in the name); quantity: the units kind of its text
-    (None: free text); label and hint: for a form."""
+    (None: free text); label and hint: for a form; alternates: other keywords that carry the same
+    input on another basis (a glycol concentration by volume), one of them at most given."""
 
     key: str
     arg: str
     quantity: str | None
     label: str
     hint: str = ""
+    alternates: tuple[str, ...] = ()
+
+    @property
+    def args(self) -> tuple[str, ...]:
+        """Every keyword that carries this input."""
+        return (self.arg, *self.alternates)
 
 
 INPUTS: dict[str, LiquidInput] = {i.key: i for i in (
     LiquidInput("temperature", "temperature_k", "temperature", "Temperature"),
     LiquidInput("pressure", "pressure_pa", "pressure", "Pressure (absolute)", "empty: 1 atm"),
     LiquidInput("concentration", "mass_fraction", "fraction", "Glycol concentration",
-                "by mass (30 %) unless vol is written (30 % vol)"),
+                "by mass (30 %) unless vol is written (30 % vol)", ("volume_fraction",)),
     LiquidInput("salinity", "salinity_kg_kg", "salinity", "Salinity"),
     LiquidInput("name", "name", None, "Name"),
     LiquidInput("density", "density", "density", "Density"),
@@ -57,7 +65,7 @@ INPUTS: dict[str, LiquidInput] = {i.key: i for i in (
                 "Kinematic viscosity"),
 )}
 """Every input a liquid can take, in the order a form shows them."""
-_BY_ARG = {i.arg: i for i in INPUTS.values()}
+_BY_ARG = {arg: i for i in INPUTS.values() for arg in i.args}
 
 
 @dataclass(frozen=True)
@@ -99,9 +107,14 @@ def _seawater(temperature_k: float, salinity_kg_kg: float,
 
 
 def _glycol(kind: GlycolKind) -> Callable[..., Fluid]:
-    def build(temperature_k: float, mass_fraction: float) -> Fluid:
+    def build(temperature_k: float, mass_fraction: float | None = None,
+              volume_fraction: float | None = None) -> Fluid:
         from .glycol import glycol
 
+        if volume_fraction is not None:
+            return glycol(kind, temperature_k, volume_fraction, "volume")
+        if mass_fraction is None:
+            raise InputError("fluid.concentration", "nothing", f"needed for {kind}")
         return glycol(kind, temperature_k, mass_fraction)
 
     return build
@@ -142,7 +155,8 @@ def liquid(kind: str) -> LiquidKind | None:
 def fluid_from_spec(kind: str, **inputs: Any) -> Fluid:
     """The :class:`Fluid` for ``kind`` (one of :data:`FLUID_KINDS`) from the inputs that kind
     takes, by their ``arg`` names in SI (``temperature_k`` K, ``pressure_pa`` Pa,
-    ``mass_fraction`` and ``salinity_kg_kg`` kg/kg, ``density`` kg/m³, ``viscosity`` Pa·s,
+    ``mass_fraction`` and ``salinity_kg_kg`` kg/kg, ``volume_fraction`` m³/m³ (a glycol by
+    volume, instead of ``mass_fraction``), ``density`` kg/m³, ``viscosity`` Pa·s,
     ``kinematic_viscosity`` m²/s, ``name``); None counts as not given.
 
     An input the kind needs but lacks, or one it does not use (a salinity for a glycol), is
@@ -162,9 +176,13 @@ def fluid_from_spec(kind: str, **inputs: Any) -> Fluid:
             shown = f"{value:.6g}" if isinstance(value, float) else describe(value)
             raise InputError(f"fluid.{item.key}", shown, f"not used for {spec.key} (it takes "
                              f"{takes})")
-    for key in spec.required:
-        if INPUTS[key].arg not in given:
+    for key in spec.inputs:
+        carried = [arg for arg in INPUTS[key].args if arg in given]
+        if not carried and key in spec.required:
             raise InputError(f"fluid.{key}", "nothing", f"needed for {spec.key}")
+        if len(carried) > 1:
+            raise InputError(f"fluid.{key}", " and ".join(f"{given[a]:.6g}" for a in carried),
+                             f"give it once ({' or '.join(carried)})")
     return spec.build(**given)
 
 

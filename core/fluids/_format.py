@@ -17,6 +17,14 @@ def percent(fraction: float) -> str:
     return f"{fraction * 100:.4g}"
 
 
+def at_pressure(pressure_pa: float) -> str:
+    """What a liquid's name adds for its pressure: nothing at 1 atm (within 1 Pa), else
+    ", 250 kPa" (up to six digits, never an exponent: ", 10000 kPa")."""
+    if abs(pressure_pa - 101325.0) <= 1.0:
+        return ""
+    return f", {pressure_pa / 1e3:.6g} kPa"
+
+
 def state(temperature_k: float) -> str:
     """A temperature as the value of an error message ("-5 °C"; "23 °F" in US units)."""
     from ..messages import temperature_text

@@ -1,27 +1,15 @@
 """A glycol concentration as the trade writes it: by mass (the default) or by volume.
 
 Suppliers and test kits quote glycol either way ("30 % by volume" on a drum, a refractometer in
-mass %). The tables are by mass, so a volume figure is converted with the densities of the pure
-liquids at 20 °C, the usual basis of such figures (volumes measured before mixing):
-
-    w = φ ρ_g / (φ ρ_g + (1 − φ) ρ_w)
-
-Mixing shrinks the volume a little, which this ignores; the result stays within the scatter
-between the published mass-based and volume-based property sets (checked in the tests against
-CoolProp's INCOMP::AEG / INCOMP::APG, which are by volume).
+mass %). Each basis is read from its own data set (:mod:`.glycol`: CoolProp's INCOMP::MEG /
+MPG by mass, INCOMP::AEG / APG by volume), never converted from the other: a conversion through
+the pure liquids' densities ignores the volume lost on mixing and carries one data set's
+properties over to another's (up to 36 % in viscosity near freezing).
 """
 
 from __future__ import annotations
 
 import re
-
-from ..errors import InputError, describe
-
-PURE_DENSITY_20C = {"ethylene-glycol": 1113.2, "propylene-glycol": 1036.1}
-"""kg/m³ of the pure glycols at 20 °C (CRC Handbook of Chemistry and Physics values, from memory:
-1.1132 and 1.0361 g/cm³)."""
-WATER_DENSITY_20C = 998.21
-"""kg/m³, water at 20 °C and 1 atm (IAPWS-IF97; the ``iapws`` package gives 998.21)."""
 
 _BASIS = re.compile(
     r"\s*(?:(?P<vol>%?\s*(?:vol(?:ume)?\.?|v/v|by\s+vol(?:ume)?))|(?P<mass>%?\s*(?:mass|wt\.?|weight|"
@@ -40,14 +28,3 @@ def split_basis(text: str) -> tuple[str, str]:
         rest += " %"
     return rest, "volume" if m.group("vol") else "mass"
 
-
-def mass_fraction_from_volume(kind: str, volume_fraction: float, field: str = "fluid.concentration"
-                              ) -> float:
-    """The mass fraction (kg/kg) of a glycol–water solution given as a volume fraction (m³/m³)
-    of the pure liquids at 20 °C before mixing."""
-    if kind not in PURE_DENSITY_20C:
-        raise InputError(field, describe(kind), "a volume fraction is read only for a glycol")
-    if not 0 <= volume_fraction <= 1:
-        raise InputError(field, f"{volume_fraction * 100:g} % by volume", "must be 0 to 100 %")
-    glycol = volume_fraction * PURE_DENSITY_20C[kind]
-    return glycol / (glycol + (1 - volume_fraction) * WATER_DENSITY_20C)

@@ -11,12 +11,14 @@ Sources:
   μ2 = 1 as its recommendation for industrial use, where an IF97 density may replace the
   IAPWS-95 one, as done here.
 
-Range accepted: 0.01 °C (the triple point, 273.16 K) up to, not including, the boiling point at
-the stated pressure, and never above 350 °C (623.15 K, the top of IF97 region 1); pressure from
-the triple-point pressure (611.657 Pa) to 100 MPa (the top of region 1). The lower limit does
-not move with pressure: ice Ih melts at about 273.1525 K at 1 atm and lower still at higher
-pressure (IAPWS R14-08; from memory), so every accepted state is liquid, and 0 °C itself is
-refused.
+Range accepted: 0 °C (273.15 K) up to, not including, the boiling point at the stated pressure,
+and never above 350 °C (623.15 K, the top of IF97 region 1); pressure from the triple-point
+pressure (611.657 Pa) to 100 MPa (the top of region 1). 0 °C is where water freezes at
+atmospheric pressure and where IF97 region 1 begins, at every pressure. The melting line of ice
+(IAPWS R14-08, checked against the ``iapws`` package in the tests) puts the melting point at
+273.1525 K at 101.325 kPa, 0.0025 K above 0 °C, rising to 273.16 K at the triple-point
+pressure; it falls with pressure (272.40 K at 10 MPa), so above about 1.35 bar some liquid
+states below 0 °C exist that IF97 does not cover and are refused as outside the model.
 """
 
 from __future__ import annotations
@@ -26,13 +28,16 @@ import math
 from ..errors import InputError
 from ..messages import pressure_text, temperature_text
 from ..model import Fluid, finite
-from ._format import celsius, state
+from ._format import at_pressure, celsius, state
 
 R_WATER = 461.526
 """Specific gas constant of water, J/(kg·K) (IAPWS-IF97, eq. 1)."""
 
 TRIPLE_POINT_K = 273.16
 TRIPLE_POINT_PA = 611.657
+FREEZING_K = 273.15
+"""K; the lowest temperature accepted: 0 °C, water's freezing point at atmospheric pressure and
+the lower end of IAPWS-IF97 region 1 (see the module docstring for the melting line)."""
 CRITICAL_PA = 22.064e6
 REGION1_MAX_K = 623.15
 REGION1_MAX_PA = 100e6
@@ -109,6 +114,19 @@ def saturation_temperature_if97(pressure_pa: float) -> float:
     return (n[9] + d - math.sqrt((n[9] + d) ** 2 - 4.0 * (n[8] + n[9] * d))) / 2.0
 
 
+def saturation_pressure_if97(temperature_k: float) -> float:
+    """Saturation (vapour) pressure of water, Pa, at ``temperature_k`` (K).
+
+    IAPWS-IF97 region 4, eq. 30 (Table 34 coefficients); valid from 273.15 K to 647.096 K.
+    """
+    n = _N4
+    theta = temperature_k + n[8] / (temperature_k - n[9])
+    a = theta**2 + n[0] * theta + n[1]
+    b = n[2] * theta**2 + n[3] * theta + n[4]
+    c = n[5] * theta**2 + n[6] * theta + n[7]
+    return 1e6 * (2.0 * c / (-b + math.sqrt(b * b - 4.0 * a * c))) ** 4
+
+
 def viscosity_iapws2008(temperature_k: float, density: float) -> float:
     """Dynamic viscosity of water, Pa·s, IAPWS R12-08 with μ2 = 1 (see the module docstring).
 
@@ -125,22 +143,23 @@ def viscosity_iapws2008(temperature_k: float, density: float) -> float:
 def liquid_range_k(pressure_pa: float) -> tuple[float, float]:
     """(lowest, highest-excluded) temperature, K, at which water is liquid here at ``pressure_pa``.
 
-    The upper end is the IF97 saturation temperature (boiling), capped at 623.15 K where IF97
-    region 1 ends. Raises InputError on ``fluid.pressure`` outside 611.657 Pa–100 MPa.
+    The lower end is 0 °C (:data:`FREEZING_K`) at every pressure; the upper end is the IF97
+    saturation temperature (boiling), capped at 623.15 K where IF97 region 1 ends. Raises
+    InputError on ``fluid.pressure`` outside 611.657 Pa–100 MPa.
     """
     p = finite("fluid.pressure", pressure_pa)
     if p < TRIPLE_POINT_PA:
         raise InputError(
             "fluid.pressure",
-            f"{p:g} Pa",
+            pressure_text(p),
             f"water is not liquid below {TRIPLE_POINT_PA} Pa (the triple-point pressure)",
         )
     if p > REGION1_MAX_PA:
         raise InputError(
-            "fluid.pressure", f"{p:g} Pa", "must be at most 100 MPa (IAPWS-IF97 region 1)"
+            "fluid.pressure", pressure_text(p), "must be at most 100 MPa (IAPWS-IF97 region 1)"
         )
     top = REGION1_MAX_K if p > CRITICAL_PA else min(saturation_temperature_if97(p), REGION1_MAX_K)
-    return TRIPLE_POINT_K, top
+    return FREEZING_K, top
 
 
 def boiling_error(temperature_k: float, top_k: float, pressure_pa: float, what: str) -> InputError:
@@ -162,7 +181,8 @@ def check_liquid(temperature_k: float, pressure_pa: float) -> float:
         raise InputError(
             "fluid.temperature",
             state(t),
-            f"water freezes below {temperature_text(low)} (the triple point, {low} K)",
+            f"must be at least {temperature_text(low)} (water freezes at "
+            f"{temperature_text(low)} at atmospheric pressure; IAPWS-IF97 starts there)",
         )
     if t >= high:
         raise boiling_error(t, high, pressure_pa, "water")
@@ -178,9 +198,7 @@ def water(temperature_k: float, pressure_pa: float = STANDARD_ATMOSPHERE_PA) -> 
     t = check_liquid(temperature_k, pressure_pa)
     p = float(pressure_pa)
     rho = density_if97(t, p)
-    name = f"Water at {celsius(t)} °C"
-    if abs(p - STANDARD_ATMOSPHERE_PA) > 1.0:
-        name += f", {p / 1e3:.4g} kPa"
+    name = f"Water at {celsius(t)} °C{at_pressure(p)}"
     return Fluid(
         name=name,
         density=rho,

@@ -53,22 +53,22 @@ def fluid_inputs(site: Site, presets: PresetSource | None = None) -> tuple[str, 
         if item.quantity is None:
             args[item.arg] = text_value(value, f"fluid.{key}")
         elif key == "concentration":
-            args[item.arg] = _mass_fraction(kind, value, unit)
+            arg, fraction = _concentration(value, unit)
+            args[arg] = fraction
         else:
             args[item.arg] = parse_quantity(value, item.quantity, f"fluid.{key}",
                                             default_unit=unit)
     return kind, args
 
 
-def _mass_fraction(kind: str, value: Value, unit: str | None) -> float:
-    """A glycol concentration, by mass unless the text says by volume (``"30 % vol"``)."""
-    from ..fluids.concentration import PURE_DENSITY_20C, mass_fraction_from_volume, split_basis
+def _concentration(value: Value, unit: str | None) -> tuple[str, float]:
+    """A glycol concentration: (``"mass_fraction"``, kg/kg) unless the text says by volume
+    (``"30 % vol"``: ``"volume_fraction"``, m³/m³), each read from its own data set."""
+    from ..fluids.concentration import split_basis
 
     text, basis = split_basis(value) if isinstance(value, str) else (value, "mass")
     fraction = parse_quantity(text, "fraction", "fluid.concentration", default_unit=unit)
-    if basis == "volume" and kind in PURE_DENSITY_20C:  # other kinds refuse it on their own
-        return mass_fraction_from_volume(kind, fraction)
-    return fraction
+    return ("volume_fraction" if basis == "volume" else "mass_fraction"), fraction
 
 
 def _fluid_preset(kind: str, presets: PresetSource | None) -> dict[str, Any]:
