@@ -59,13 +59,15 @@ class SiteResult:
     """What was taken for granted or resolved from the site (:mod:`.assumptions`)."""
 
 
-def solve_site(site: Site, presets: PresetSource | None = None) -> SiteResult:
+def solve_site(site: Site, presets: PresetSource | None = None,
+               built: Built | None = None) -> SiteResult:
     """Build and solve ``site``; for a diameter found on a catalog-sized segment, also the
     smallest catalog size (same standard and schedule) with a bore at least that large, and the
-    flow the branch then carries with the site's given condition held."""
+    flow the branch then carries with the site's given condition held. built: the site already
+    built (saves a build)."""
     from ..numerics.solve import solve
 
-    built = build(site, presets)
+    built = build(site, presets) if built is None else built
     try:
         result = solve(built.network, built.given, built.find)
     except BranchwiseError as exc:

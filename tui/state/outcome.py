@@ -17,6 +17,7 @@ from branchwise.core.errors import BranchwiseError
 
 if TYPE_CHECKING:
     from branchwise.core.model import Fluid
+    from branchwise.core.site.build import Built
     from branchwise.core.site.solve import SiteResult
     from branchwise.core.site.spec import Site
 
@@ -26,7 +27,8 @@ class Outcome:
     """The answer for one revision of the site.
 
     solved: the solved site, or None when ``error`` says why not; fluid: the liquid at its
-    state (None when its own fields are wrong); seconds: wall time of the solve.
+    state (None when its own fields are wrong); seconds: wall time of the solve; built: the
+    site as the core read it (bores, ε, K, Kv), also when only the solve failed.
     """
 
     revision: int
@@ -34,6 +36,7 @@ class Outcome:
     fluid: Fluid | None
     error: BranchwiseError | None
     seconds: float
+    built: Built | None = None
 
     @property
     def ok(self) -> bool:
@@ -61,15 +64,16 @@ def compute(site: Site, revision: int, presets: Any = None) -> Outcome:
     """Solve ``site``; every failure the user can fix comes back as ``Outcome.error``."""
     from branchwise.core import catalogs, fluids, units  # noqa: F401  (loaded, not timed)
     from branchwise.core.numerics import solve  # noqa: F401
-    from branchwise.core.site.build import build_fluid
+    from branchwise.core.site.build import build, build_fluid
     from branchwise.core.site.solve import solve_site
 
     units.registry()
     start = time.perf_counter()
-    fluid = None
+    fluid = built = None
     try:
         fluid = build_fluid(site, presets)
-        solved = solve_site(site, presets)
+        built = build(site, presets)
+        solved = solve_site(site, presets, built)
     except BranchwiseError as exc:
-        return Outcome(revision, None, fluid, exc, time.perf_counter() - start)
-    return Outcome(revision, solved, fluid, None, time.perf_counter() - start)
+        return Outcome(revision, None, fluid, exc, time.perf_counter() - start, built)
+    return Outcome(revision, solved, fluid, None, time.perf_counter() - start, solved.built)

@@ -46,6 +46,7 @@ from .cells import (
     same_pipe,
     setter,
 )
+from .understood import understood_lines
 
 WIDE = 100
 """From this many terminal columns on, the table also shows the :data:`WIDE_COLUMNS` (the tag)."""
@@ -90,6 +91,7 @@ class BranchesScreen(WorkScreen):
             table = BranchTable(id="branch-table", cursor_type="cell", zebra_stripes=True)
             table.fixed_columns = 1  # the names stay in sight as → scrolls to the valve
             yield table
+            yield Static("", id="branch-understood", markup=False)
             yield Static("", id="branch-message", classes="message", markup=False)
             with Vertical(id="cell-editor"):  # while a cell is edited: says so, marks it
                 yield Static("", id="cell-title", markup=False)
@@ -148,12 +150,24 @@ class BranchesScreen(WorkScreen):
                 rows.append((f"{i}.{j}", cells))
                 self._rows.append((i, j))
         table.show(columns, rows)
+        self._show_understood()
         message = self.query_one("#branch-message", Static)
         message.set_class(bad is None, "-hint")
         if bad is not None and outcome is not None and outcome.error is not None:
             put(message, f"✗ {app.error_words(outcome.error)}")
         else:
             put(message, reading_hint(site, given))
+
+    def _show_understood(self) -> None:
+        """The highlighted row as the core read it (bore, ε, ΣK, Kv; :mod:`.understood`)."""
+        spot = self.here()
+        outcome = self.bw.outcome
+        built = outcome.built if outcome is not None else None
+        lines = understood_lines(self.bw, self.bw.site, built, *spot[:2]) if spot else []
+        put(self.query_one("#branch-understood", Static), "\n".join(lines))
+
+    def on_data_table_cell_highlighted(self, event: DataTable.CellHighlighted) -> None:
+        self._show_understood()
 
     def on_resize(self) -> None:
         # The tag column comes and goes as the terminal crosses WIDE columns.

@@ -225,6 +225,7 @@ class ResultViews(Vertical):
         lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{app.say(w)}"
                  for w in result.warnings]
         lines += [f"• {app.say(note)}" for note in (*shown.solved.notes, *result.notes)]
+        lines += assumed_line(app, shown.solved)
         # The other readings against the answer first: on a walkdown they are the news.
         self.warning_lines = self._reading_lines(shown) + lines
         self.screen_lines = self._reading_lines(shown, short=not wide) + lines
@@ -467,6 +468,28 @@ class ResultViews(Vertical):
                             timeout=4)
 
         self.app.push_screen(TolerancesScreen(app.site, app.unit("pressure")), chosen)
+
+
+ASSUMED_WORDS = {
+    "pressure-default": "pressure 1 atm", "friction-default": "Colebrook",
+    "elevation-default": "headers level", "gravity-default": "standard g",
+    "velocity-limit-default": "velocity limit {limit}",
+}
+"""Short words for the site-wide assumptions on the Split screen (the reports say them whole)."""
+
+
+def assumed_line(app: Workspace, solved: SiteResult) -> list[str]:
+    """One line: the site-wide defaults taken, and where the rest of what was read is shown."""
+    from branchwise.core.messages import limit_text
+
+    limit = app.units.restate(limit_text("velocity", solved.result.network.velocity_limit))
+    words = [ASSUMED_WORDS[a.code].format(limit=limit) for a in solved.assumptions
+             if a.branch is None and a.code in ASSUMED_WORDS]
+    per_branch = sum(1 for a in solved.assumptions if a.branch is not None)
+    if not words and not per_branch:
+        return []
+    more = " (bores, ε, K as read: F3)"
+    return [f"ℹ assumed: {', '.join(words) or 'nothing site-wide'}{more if per_branch else ''}"]
 
 
 def _compact(number: float) -> str:
