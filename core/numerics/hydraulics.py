@@ -206,7 +206,7 @@ def flows_at_head(
     q = np.zeros(n)
     if not live.any():
         return q, RootInfo(True, 0, 0.0)
-    sub = _subset(lay, live) if not live.all() else lay
+    sub = subset(lay, live) if not live.all() else lay
     t = target[live]
     ln_t = np.log(t)
     start = None if guess is None else np.abs(np.asarray(guess, dtype=float))[live]
@@ -241,7 +241,7 @@ def flows_at_head(
     return sign * q, RootInfo(bool(worst <= 1e-11), it, worst)
 
 
-def _subset(lay: Layout, keep: NDArray[np.bool_]) -> Layout:
+def subset(lay: Layout, keep: NDArray[np.bool_]) -> Layout:
     """The layout restricted to the branches in ``keep`` (renumbered)."""
     seg_keep = keep[lay.seg_branch]
     new_index = np.cumsum(keep) - 1

@@ -67,6 +67,11 @@ def chosen(site: Site) -> tuple[Reading, list[Reading]]:
         raise InputError("conditions.given", describe(given), "must be pressure_drop, "
                          "total_flow or the name of a branch with a measured_flow")
     key = given.strip()
+    if key.casefold() == "all":  # every reading weighed (.reconcile): the first stands in
+        if len(held) < 2:
+            raise InputError("conditions.given", describe(given), "needs two readings or more "
+                             "to weigh against each other; this site holds one")
+        return held[0], held[1:]
     names = [b.name.strip() if isinstance(b.name, str) else b.name for b in site.branches]
     for r in held:
         if r.kind == key and r.branch is None:
@@ -111,7 +116,10 @@ def compare(site: Site, result: Result, band: UncertaintyResult | None = None
     """
     from ..numerics.uncertainty import PRESSURE_DROP, TOTAL_FLOW, branch_flow
 
-    _, others = chosen(site)
+    first, others = chosen(site)
+    if isinstance(site.conditions.given, str) and site.conditions.given.strip().casefold() == \
+            "all":
+        others = [first, *others]  # solved from all of them: each is compared
     out = []
     for r in others:
         kind = GIVENS[r.kind]

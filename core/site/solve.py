@@ -18,15 +18,17 @@ from dataclasses import dataclass, replace
 from typing import TYPE_CHECKING, Any
 
 from ..errors import BranchwiseError
-from ..model import FindFlows, FindUnknown
+from ..model import FindFlows, FindUnknown, PressureDrop
 from ..numerics.results import Result
 from ..units import format_quantity
 from .assumptions import Assumption, assumptions_of
 from .build import Built, build
+from .reconcile import reconcile_site, solves_from_all
 from .spec import Site
 from .values import plain_number
 
 if TYPE_CHECKING:
+    from ..numerics.reconcile import Reconciliation
     from ..numerics.uncertainty import Tolerances, UncertaintyResult
     from ..storage.presets import PresetSource
 
@@ -57,6 +59,8 @@ class SiteResult:
     uncertainty: UncertaintyResult | None = None
     assumptions: tuple[Assumption, ...] = ()
     """What was taken for granted or resolved from the site (:mod:`.assumptions`)."""
+    reconciliation: Reconciliation | None = None
+    """Every reading weighed against the others (:mod:`.reconcile`); None with fewer than two."""
 
 
 def solve_site(site: Site, presets: PresetSource | None = None,
@@ -68,6 +72,9 @@ def solve_site(site: Site, presets: PresetSource | None = None,
     from ..numerics.solve import solve
 
     built = build(site, presets) if built is None else built
+    rec = reconcile_site(site, built, presets)
+    if rec is not None and solves_from_all(site):  # the reconciled head fixes the solve
+        built = replace(built, given=PressureDrop(rec.pressure_drop_pa))
     try:
         result = solve(built.network, built.given, built.find)
     except BranchwiseError as exc:
@@ -86,7 +93,7 @@ def solve_site(site: Site, presets: PresetSource | None = None,
         if like is not None and result.solved is not None:
             pick = _catalog_pick(site, built, i, find, like, result.solved.value, notes)
     return SiteResult(site, built, result, pick, tuple(notes),
-                      assumptions=assumptions_of(site, built))
+                      assumptions=assumptions_of(site, built), reconciliation=rec)
 
 
 def _fittings_at_found_bore(site: Site, built: Built, i: int, find: FindUnknown,

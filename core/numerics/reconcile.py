@@ -1,0 +1,338 @@
+"""Weigh several readings of one header against each other: data reconciliation.
+
+A header holds one unknown state, the driving head H between its two nodes. Each reading yᵢ —
+the differential gauge's Δp, a total-flow meter, a clamp-on on a branch — is a model gᵢ(H) plus
+an error: Δp = ρ g (H + Δz), Q_total = Σ Q_b(H), Q_b(H). The reconciled head minimises the
+weighted sum of squares (Narasimhan & Jordache, *Data Reconciliation and Gross Error
+Detection*, 2000, ch. 3; Madron, 1992)
+
+    S(H) = r(H)ᵀ V⁻¹ r(H),   r = y − g(H),
+
+with V the covariance of the residuals: the instruments' variances on the diagonal plus the
+model's own uncertainty of g(H), propagated to first order (JCGM 100:2008, 5.1.2) from the same
+tolerances the bands use (roughness, bore, length, fitting K, valve Kv, temperature). The model
+terms are correlated between readings (a total flow and a clamp-on share that branch's pipe), so
+V is full. A ± bound with nothing more known is a rectangular distribution, u = a/√3 (GUM, JCGM
+100:2008, 4.3.7): gauge accuracy as % of full scale, flow meters as % of reading.
+
+The global test: at the optimum S follows χ² with m − 1 degrees of freedom (m readings, one
+unknown); the readings are called consistent when its p-value is at least 5 %. Each reading's
+normalised residual is rᵢ / √(V_r)ᵢᵢ with V_r = V − J (Jᵀ V⁻¹ J)⁻¹ Jᵀ the covariance of the
+residuals at the optimum, J = dg/dH; the largest one points at the reading most likely at fault
+(the maximum-power test of Narasimhan & Jordache, 7.2). With two readings both normalised
+residuals are equal: the test can say that they disagree, not which one is off.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, replace
+from typing import Any
+
+import numpy as np
+
+from ..errors import InputError
+from ..model import FindFlows, Network, PressureDrop
+from .hydraulics import Array, Layout, flows_at_head, head_and_slope, subset
+from .tolerances import Thermal, Tolerances
+from .uncertainty import SQRT3, build_plan
+
+ALPHA = 0.05
+"""The test's significance: readings are consistent when p ≥ 5 % (common practice)."""
+MODEL_STEP = 1e-4
+"""δ of the finite differences of the model terms, in units of each input's half-width."""
+READING_WORDS = {"pressure_drop": "differential gauge", "total_flow": "total-flow meter",
+                 "measured_flow": "clamp-on"}
+ADVICE = {
+    "pressure_drop": "check the gauge's zero, its range and the tapping points",
+    "total_flow": "check the meter's calibration and its straight run",
+    "measured_flow": "check the meter's pipe data and mounting",
+}
+
+
+@dataclass(frozen=True)
+class Observation:
+    """One reading in SI: ``kind`` pressure_drop | total_flow | measured_flow; ``branch`` the
+    index of the measured branch (else None); ``value`` Pa or m³/s."""
+
+    kind: str
+    branch: int | None
+    value: float
+
+
+@dataclass(frozen=True)
+class ReadingFit:
+    """One reading against the reconciled state (SI: Pa or m³/s): sigma_si is the standard
+    deviation of its residual before reconciliation (instrument and model together)."""
+
+    reading: str
+    branch: str | None
+    measured_si: float
+    reconciled_si: float
+    sigma_si: float
+    normalised_residual: float
+
+    @property
+    def label(self) -> str:
+        """``the clamp-on on 'AHU-3 coil'``, ``the differential gauge``."""
+        words = READING_WORDS[self.reading]
+        return f"the {words} on '{self.branch}'" if self.branch else f"the {words}"
+
+
+@dataclass(frozen=True)
+class Reconciliation:
+    """The reconciled state of a header from all its readings, and the tests of their agreement.
+
+    head_m, pressure_drop_pa, total_flow_m3_s, flows_m3_s (per branch): the reconciled state.
+    chi_square, degrees_of_freedom, p_value: the global test; consistent: p ≥ :data:`ALPHA`.
+    suspect: the reading most likely at fault when the test fails and there are three readings
+    or more (None otherwise); without_suspect: (χ², p) once it is left out. verdict: in words.
+    """
+
+    head_m: float
+    pressure_drop_pa: float
+    total_flow_m3_s: float
+    flows_m3_s: tuple[float, ...]
+    chi_square: float
+    degrees_of_freedom: int
+    p_value: float
+    consistent: bool
+    suspect: ReadingFit | None
+    without_suspect: tuple[float, float] | None
+    readings: tuple[ReadingFit, ...]
+    verdict: str
+
+    def to_json(self) -> dict[str, Any]:
+        """The JSON's ``reconciliation`` object (SI)."""
+        without = self.without_suspect
+        return {
+            "head_m": self.head_m, "pressure_drop_pa": self.pressure_drop_pa,
+            "total_flow_m3_s": self.total_flow_m3_s, "chi_square": self.chi_square,
+            "degrees_of_freedom": self.degrees_of_freedom, "p_value": self.p_value,
+            "consistent": self.consistent,
+            "suspect": None if self.suspect is None else _fit_json(self.suspect),
+            "without_suspect": None if without is None else
+            {"chi_square": without[0], "p_value": without[1]},
+            "readings": [_fit_json(f) for f in self.readings],
+        }
+
+
+def _fit_json(f: ReadingFit) -> dict[str, Any]:
+    return {"reading": f.reading, "branch": f.branch, "measured_si": f.measured_si,
+            "reconciled_si": f.reconciled_si, "sigma_si": f.sigma_si,
+            "normalised_residual": f.normalised_residual}
+
+
+def chi_square_p(chi2: float, dof: int) -> float:
+    """P(χ²_dof ≥ chi2): the upper tail (the regularised upper incomplete gamma function)."""
+    from scipy.special import gammaincc
+
+    return float(gammaincc(dof / 2.0, chi2 / 2.0)) if dof > 0 else 1.0
+
+
+class _Model:
+    """g(H), dg/dH and the model covariance of g at H for one header and its readings."""
+
+    def __init__(self, network: Network, obs: Sequence[Observation], tol: Tolerances,
+                 thermal: Thermal | None) -> None:
+        self.net, self.obs = network, list(obs)
+        self.lay = Layout.from_network(network)
+        # The model's inputs: every tolerance but the instruments' (they are the readings).
+        plan = build_plan(network, PressureDrop(1.0), FindFlows(), tol, thermal)
+        self.plan = replace(plan, inputs=tuple(i for i in plan.inputs
+                                               if i.kind not in ("gauge", "meter", "target")))
+        self.rho_g = network.fluid.density * network.gravity
+
+    def flows(self, head: float) -> Array:
+        return flows_at_head(self.lay, head)[0]
+
+    def values(self, head: float, q: Array | None = None, rho_g: float | None = None) -> Array:
+        q = self.flows(head) if q is None else q
+        rho_g = self.rho_g if rho_g is None else rho_g
+        return np.array([self._one(o, head, q, rho_g) for o in self.obs])
+
+    def _one(self, o: Observation, head: float, q: Array, rho_g: float) -> float:
+        if o.kind == "pressure_drop":
+            return rho_g * (head + self.net.elevation_change)
+        if o.kind == "total_flow":
+            return float(q.sum())
+        assert o.branch is not None
+        return float(q[o.branch])
+
+    def slope(self, head: float, q: Array) -> Array:
+        """dg/dH for every reading: ρg for Δp, dQ/dH = Q/(H · d ln h/d ln Q) for a flow."""
+        _, s = head_and_slope(self.lay, q)
+        dq = np.where(q != 0, q / (head * s), 0.0)
+        return np.array([self.rho_g if o.kind == "pressure_drop" else
+                         float(dq.sum()) if o.kind == "total_flow" else float(dq[o.branch])
+                         for o in self.obs])
+
+    def covariance(self, head: float) -> Array:
+        """The model's covariance of g at ``head`` (first order; inputs independent)."""
+        n_in = len(self.plan.inputs)
+        m = len(self.obs)
+        if n_in == 0:
+            return np.zeros((m, m))
+        z = np.zeros((2 * n_in, n_in))
+        z[np.arange(n_in), np.arange(n_in)] = MODEL_STEP
+        z[n_in + np.arange(n_in), np.arange(n_in)] = -MODEL_STEP
+        v = self.plan.variants(z)
+        tiled = v.layout(self.lay)
+        # An input moves one branch's flow (the temperature moves them all): only those are
+        # solved again; the rest keep their flow at H.
+        n = self.lay.n_branches
+        nominal = self.flows(head)
+        moved = np.zeros((2 * n_in, n), dtype=bool)
+        for j, inp in enumerate(self.plan.inputs):
+            if inp.kind == "temperature":
+                moved[[j, n_in + j], :] = True
+            else:
+                where = (list({int(b) for b in self.lay.seg_branch[list(inp.segments)]})
+                         if inp.kind != "valve Kv" else list(inp.segments))
+                moved[[j, n_in + j], where] = True  # segments hold the branch for a valve
+        q = np.tile(nominal, (2 * n_in, 1))
+        keep = moved.ravel()
+        q[moved] = flows_at_head(subset(tiled, keep), head)[0]
+        rho_g = v.density * self.net.gravity
+        g = np.array([self.values(head, q[c], float(rho_g[c])) for c in range(2 * n_in)])
+        sens = (g[:n_in] - g[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
+        return (sens / SQRT3) @ (sens / SQRT3).T  # z uniform on [−1, 1]: u(z) = 1/√3
+
+
+def instrument_sigma(o: Observation, tol: Tolerances) -> float:
+    """The instrument's standard uncertainty: a/√3 of its ± bound (GUM, 4.3.7)."""
+    if o.kind == "pressure_drop":
+        span = abs(o.value) if tol.gauge_full_scale is None else tol.gauge_full_scale
+        return tol.gauge_percent / 100 * span / SQRT3
+    return tol.flow_meter_percent / 100 * abs(o.value) / SQRT3
+
+
+def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | None = None,
+              thermal: Thermal | None = None, names: Sequence[str] | None = None
+              ) -> Reconciliation:
+    """The reconciled state of ``network`` from two or more readings ``obs`` (module docstring).
+
+    tol: the instruments' and the model's tolerances (default: common practice); thermal: how
+    the liquid moves with temperature (None: the temperature tolerance is left out).
+    """
+    tol = tol or Tolerances()
+    if len(obs) < 2:
+        raise InputError("conditions.given", "all", "needs two readings or more to weigh")
+    model = _Model(network, obs, tol, thermal)
+    y = np.array([o.value for o in obs])
+    meas = np.array([instrument_sigma(o, tol) for o in obs]) ** 2
+    if not np.all(meas > 0):
+        raise InputError("tolerances", "0", "an instrument with no tolerance cannot be weighed "
+                         "against the others; give the gauge and flow-meter accuracy")
+    head = _start(model, y, meas)
+    for _ in range(2):  # V at the start, then at the first optimum
+        cov = np.diag(meas) + model.covariance(head)
+        head = _optimum(model, y, cov, head)
+    fit = _fit(model, y, cov, head)
+    labels = _labels(network, obs, names)
+    fits = tuple(ReadingFit(o.kind, labels[k], float(y[k]), float(fit.g[k]),
+                            float(math.sqrt(cov[k, k])), float(fit.nr[k]))
+                 for k, o in enumerate(obs))
+    dof = len(obs) - 1
+    p = chi_square_p(fit.chi2, dof)
+    consistent = p >= ALPHA
+    suspect, without = None, None
+    if not consistent and len(obs) >= 3:
+        k = int(np.argmax(np.abs(fit.nr)))
+        suspect = fits[k]
+        keep = [i for i in range(len(obs)) if i != k]
+        rest = _Model(network, [obs[i] for i in keep], tol, thermal)
+        sub_cov = cov[np.ix_(keep, keep)]
+        sub_head = _optimum(rest, y[keep], sub_cov, head)
+        sub = _fit(rest, y[keep], sub_cov, sub_head)
+        without = (sub.chi2, chi_square_p(sub.chi2, dof - 1))
+    q = fit.q
+    return Reconciliation(
+        head_m=head, pressure_drop_pa=model.rho_g * (head + network.elevation_change),
+        total_flow_m3_s=float(q.sum()), flows_m3_s=tuple(float(v) for v in q),
+        chi_square=fit.chi2, degrees_of_freedom=dof, p_value=p, consistent=consistent,
+        suspect=suspect, without_suspect=without, readings=fits,
+        verdict=_verdict(fits, fit.chi2, dof, p, consistent, suspect, without),
+    )
+
+
+@dataclass(frozen=True)
+class _Fit:
+    g: Array
+    q: Array
+    chi2: float
+    nr: Array
+
+
+def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
+    q = model.flows(head)
+    g = model.values(head, q)
+    r = y - g
+    w = np.linalg.inv(cov)
+    j = model.slope(head, q)
+    info = float(j @ w @ j)
+    vr = cov - np.outer(j, j) / info
+    with np.errstate(invalid="ignore", divide="ignore"):
+        nr = np.where(np.diag(vr) > 0, r / np.sqrt(np.abs(np.diag(vr))), 0.0)
+    return _Fit(g, q, float(r @ w @ r), nr)
+
+
+def _start(model: _Model, y: Array, meas: Array) -> float:
+    """A first head: the one the most precise reading gives on its own (relative σ)."""
+    k = int(np.argmin(np.sqrt(meas) / np.maximum(np.abs(y), 1e-300)))
+    o = model.obs[k]
+    if o.kind == "pressure_drop":
+        return float(y[k] / model.rho_g - model.net.elevation_change)
+    from .hydraulics import head_for_total_flow
+    if o.kind == "total_flow":
+        return float(head_for_total_flow(model.lay, y[k])[0][0])
+    assert o.branch is not None
+    q = np.zeros(model.lay.n_branches)
+    q[o.branch] = y[k]
+    return float(head_and_slope(model.lay, q)[0][o.branch])
+
+
+def _optimum(model: _Model, y: Array, cov: Array, head: float) -> float:
+    """Gauss–Newton on H with V fixed: ΔH = Jᵀ W r / Jᵀ W J, to round-off."""
+    w = np.linalg.inv(cov)
+    for _ in range(60):
+        q = model.flows(head)
+        r = y - model.values(head, q)
+        j = model.slope(head, q)
+        step = float(j @ w @ r) / float(j @ w @ j)
+        if head != 0 and abs(step) > 0.5 * abs(head):  # keep the sign: at most halve or 1.5×
+            step = math.copysign(0.5 * abs(head), step)
+        head += step
+        if abs(step) <= 4e-16 * max(abs(head), 1e-300):
+            break
+    return head
+
+
+def _labels(network: Network, obs: Sequence[Observation],
+            names: Sequence[str] | None) -> list[str | None]:
+    names = names or [b.name for b in network.branches]
+    return [names[o.branch] if o.branch is not None else None for o in obs]
+
+
+def _verdict(fits: Sequence[ReadingFit], chi2: float, dof: int, p: float, consistent: bool,
+             suspect: ReadingFit | None, without: tuple[float, float] | None) -> str:
+    m = len(fits)
+    if consistent:
+        return (f"The {m} readings agree (χ² {chi2:.2f} on {dof} degree"
+                f"{'s' if dof != 1 else ''} of freedom, p = {p:.2f}).")
+    if suspect is None:
+        a, b = fits
+        return (f"{_first_up(a.label)} and {b.label} disagree (χ² {chi2:.2f}, p = {p:.2g}); "
+                "with two readings the test cannot tell which one is off: a third reading "
+                "would.")
+    rest_p = without[1] if without is not None else float("nan")
+    tail = (f"without it the rest agree (p = {rest_p:.2f})" if rest_p >= ALPHA else
+            f"without it the rest still disagree (p = {rest_p:.2g}): more than one reading "
+            "may be off")
+    return (f"{_first_up(suspect.label)} disagrees with the other {m - 1} readings "
+            f"({abs(suspect.normalised_residual):.1f} σ): {ADVICE[suspect.reading]}; {tail}.")
+
+
+def _first_up(text: str) -> str:
+    return text[:1].upper() + text[1:]
