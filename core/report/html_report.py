@@ -53,6 +53,7 @@ figcaption { font-size: .85rem; color: #3e4c59; }
 ul { padding-left: 1.3rem; }
 code { font-size: .85rem; }
 td code { font-size: inherit; }
+tr.flagged td { background: #fff1e6; font-weight: bold; }
 footer { margin-top: 2rem; font-size: .8rem; color: #52606d; }
 @page { margin: 14mm; }
 @media print {
@@ -145,6 +146,19 @@ def _band(sr: SiteResult, u: Units) -> str:
     return "\n".join(out)
 
 
+def _history(sr: SiteResult, u: Units) -> str:
+    """The visits and trends, for a site that keeps earlier visits ('' without)."""
+    if not sr.site.visits:
+        return ""
+    from ..history import history_of
+    from .history_report import html_section
+
+    try:
+        return html_section(history_of(sr.site), u)
+    except BranchwiseError as exc:
+        return f"<h2>Visits and trends</h2><p>Not worked out: {_e(u.say(exc))}</p>"
+
+
 def to_html(sr: SiteResult, reader: Units | str = "si", date: datetime | None = None,
             source: str | None = None, unsaved: bool = False, curve: bool = True) -> str:
     """The walkdown report as one HTML document (see the module docstring).
@@ -174,6 +188,7 @@ def to_html(sr: SiteResult, reader: Units | str = "si", date: datetime | None = 
     body.append(_band(sr, u))
     if curve:
         body += ["<h2>System curve</h2>", _curve(sr, u)]
+    body.append(_history(sr, u))
     if sr.assumptions:
         body += ["<h2>Assumed</h2>", _list(assumed_lines(sr, u))]
     body += ["<h2>Warnings</h2>", _list(warning_lines(sr, u) or ["None."])]
