@@ -18,7 +18,7 @@ def run_history(site: Site, units: str, fmt: str, output: Path | None, width: in
                 out: TextIO, err: TextIO) -> int:
     """Work out ``site``'s history and write it (see the module docstring); exit status 0."""
     from branchwise.core.history import history_of
-    from branchwise.core.report.history_report import render_history
+    from branchwise.core.report import render_history
     from branchwise.core.report.lines import CAUTIONS
     from branchwise.core.storage.atomic import atomic_write_text
 

@@ -1,6 +1,7 @@
 """A site's history for people and scripts: the visits, each branch's indicators and the
-trends, as a text table, Markdown, CSV, an HTML document (or a section of the walkdown report)
-and JSON (SI), in the reader's units.
+trends, as a text table, Markdown, CSV, an HTML section (in the walkdown report, and in the
+history's own document, :func:`.html_report.history_html`) and JSON (SI), in the reader's
+units.
 
 The resistance R = h/Q² is shown in the reader's head unit per flow unit squared (``m/(L/s)²``,
 ``ft/gpm²``); the JSON keeps it in SI, m/(m³/s)². A change is shown with its band (90 %, see
@@ -238,12 +239,15 @@ def _e(text: object) -> str:
     return escape(str(text), quote=True)
 
 
-def _html_table(titles: list[str], rows: list[list[str]], marked: list[bool] | None = None
-                ) -> str:
-    head = "".join(f'<th scope="col">{_e(t)}</th>' for t in titles)
+def _html_table(titles: list[str], rows: list[list[str]], numeric: range,
+                marked: list[bool] | None = None) -> str:
+    def cls(c: int) -> str:
+        return " class=num" if c in numeric else ""
+
+    head = "".join(f'<th scope="col"{cls(c)}>{_e(t)}</th>' for c, t in enumerate(titles))
     body = "".join(
         f"<tr{' class=flagged' if marked and marked[i] else ''}>"
-        + "".join(f"<td{' class=num' if c else ''}>{_e(x)}</td>" for c, x in enumerate(r))
+        + "".join(f"<td{cls(c)}>{_e(x)}</td>" for c, x in enumerate(r))
         + "</tr>" for i, r in enumerate(rows))
     return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
 
@@ -259,30 +263,14 @@ def html_section(h: History, reader: Units | str = "si") -> str:
                                      "<li>No change beyond its band.</li>") + "</ul>")
     if h.trends:
         out.append(_html_table(TREND_TITLES, [trend_cells(t, u) for t in h.trends],
-                               [t.flagged for t in h.trends]))
+                               range(2, len(TREND_TITLES)), [t.flagged for t in h.trends]))
     for v in h.visits:
         lines = visit_lines(v, u)
         out += [f"<h3>{_e(lines[0])}</h3>", "<ul>" + "".join(f"<li>{_e(x)}</li>"
                                                                for x in lines[1:]) + "</ul>",
-                _html_table(branch_titles(u), [branch_cells(b, u) for b in v.solved.branches])]
+                _html_table(branch_titles(u), [branch_cells(b, u) for b in v.solved.branches],
+                            range(1, 4))]
     return "\n".join(out)
-
-
-def to_html(h: History, reader: Units | str = "si") -> str:
-    """The history as one self-contained HTML document (no script, font or image fetched)."""
-    from .html_report import STYLE
-
-    title = f"History: {h.site}"
-    body = [f"<h1>{_e(title)}</h1>",
-            f"<p class=meta>Calculated with branchwise {_e(version())}; units: "
-            f"{_e(units_for(reader).system.upper())}</p>",
-            '<section class="cautions"><h2>Cautions</h2><ul>'
-            + "".join(f"<li>{_e(c)}</li>" for c in CAUTIONS) + "</ul></section>",
-            html_section(h, reader), f"<footer>{_e(' '.join(CAUTIONS))}</footer>"]
-    return ("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
-            '<meta name="viewport" content="width=device-width, initial-scale=1">\n'
-            f"<title>{_e(title)}</title>\n<style>{STYLE}</style>\n</head>\n"
-            "<body>\n" + "\n".join(body) + "\n</body>\n</html>\n")
 
 
 # ---- JSON ---------------------------------------------------------------------------------
@@ -299,17 +287,3 @@ def to_json(h: History) -> str:
 
     return json.dumps(_finite(history_document(h)), indent=2, ensure_ascii=False,
                       allow_nan=False) + "\n"
-
-
-def render_history(h: History, fmt: str = "table", reader: Units | str = "si",
-                   width: int = 80) -> str:
-    """``h`` in one of the report formats (JSON is always SI)."""
-    if fmt == "json":
-        return to_json(h)
-    if fmt == "csv":
-        return to_csv(h, reader)
-    if fmt == "markdown":
-        return to_markdown(h, reader)
-    if fmt == "html":
-        return to_html(h, reader)
-    return to_text(h, reader, width)

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 from datetime import datetime
 from html import escape
+from typing import TYPE_CHECKING
 
 from ..errors import BranchwiseError
 from ..site.solve import SiteResult
@@ -29,6 +30,9 @@ from .lines import (
     warning_lines,
 )
 from .svg import Bar, bars_svg, curve_svg
+
+if TYPE_CHECKING:
+    from ..history import History
 
 STYLE = """
 :root { color-scheme: light; }
@@ -144,6 +148,23 @@ def _band(sr: SiteResult, u: Units) -> str:
         out.append("<table><thead><tr><th>Input</th><th>Limit</th><th class=num>Share</th>"
                    f"<th></th></tr></thead><tbody>{cells}</tbody></table>")
     return "\n".join(out)
+
+
+def history_html(h: History, reader: Units | str = "si") -> str:
+    """A site's history (``branchwise history --format html``) as one self-contained HTML
+    document: the cautions, then the visits and trends (:func:`.history_report.html_section`)."""
+    from .history_report import html_section
+
+    title = f"History: {h.site}"
+    body = [f"<h1>{_e(title)}</h1>",
+            f"<p class=meta>Calculated with branchwise {_e(version())}; units: "
+            f"{_e(units_for(reader).system.upper())}</p>",
+            '<section class="cautions"><h2>Cautions</h2>' + _list(list(CAUTIONS))
+            + "</section>", html_section(h, reader), f"<footer>{_e(' '.join(CAUTIONS))}</footer>"]
+    return ("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
+            '<meta name="viewport" content="width=device-width, initial-scale=1">\n'
+            f"<title>{_e(title)}</title>\n<style>{STYLE}</style>\n</head>\n"
+            "<body>\n" + "\n".join(body) + "\n</body>\n</html>\n")
 
 
 def _history(sr: SiteResult, u: Units) -> str:

@@ -103,7 +103,8 @@ class HistoryScreen(WorkScreen):
         from branchwise.core.errors import BranchwiseError
         from branchwise.core.history import history_of
 
-        history, error = None, None
+        history: History | None = None
+        error: BaseException | None = None
         try:
             history = history_of(site)
         except BranchwiseError as exc:
