@@ -38,7 +38,7 @@ PSI_PA = 0.45359237 * STANDARD_GRAVITY / 0.0254**2
 (exact by definition; 6894.757…)."""
 KV_REFERENCE_DP_PA = 1.0e5
 """Kv is defined at a pressure drop of 1 bar (IEC 60534-1)."""
-CV_PER_KV = (PSI_PA / KV_REFERENCE_DP_PA) ** 0.5 / (60 * US_GALLON_M3)
+CV_PER_KV: float = (PSI_PA / KV_REFERENCE_DP_PA) ** 0.5 / (60 * US_GALLON_M3)
 """Cv (US gpm at 1 psi) per Kv (m³/h at 1 bar) of one valve, from the units' definitions alone:
 Cv/Kv = (m³/h per gpm) · √(bar per psi) = 1.156 099 2…; the 1.156 printed in IEC 60534-1 and
 ISA-75.01 tables is this rounded. One constant, used everywhere a Cv is read or shown."""
