@@ -83,3 +83,16 @@ def test_fluid_errors_quote_the_value_as_typed(added, field, quoted):
     assert caught.value.field == field
     assert caught.value.value == quoted
     assert str(caught.value).endswith(f"got {quoted}")
+
+
+@pytest.mark.parametrize(("old", "new", "field", "quoted"), [
+    # beyond the model's sane bounds: the value as typed, not the model's SI number
+    ('length = "64 m"', 'length = "1e9 mi"', "branches[0].length", "1e9 mi"),
+    ('diameter = "102.26 mm"', 'diameter = "500 ft"', "branches[0].diameter", "500 ft"),
+    ('pressure_drop = "68 kPa"', 'pressure_drop = "68 kPa"\nelevation_change = "1e6 ft"',
+     "conditions.elevation_change", "1e6 ft"),
+])
+def test_model_bounds_quote_the_value_as_typed(old, new, field, quoted):
+    with pytest.raises(InputError) as caught:
+        solve_site(parse_site(PUMP_ROOM.replace(old, new)))
+    assert (caught.value.field, caught.value.value) == (field, quoted)
