@@ -31,7 +31,15 @@ from .fields import FieldPath
 from .liquid import build_fluid
 from .readings import chosen
 from .spec import BranchSpec, SegmentSpec, Site, Value
-from .values import at_least, number, optional_quantity, plain_number, quantity, text_value
+from .values import (
+    at_least,
+    number,
+    optional_quantity,
+    plain_number,
+    quantity,
+    size_or_bore,
+    text_value,
+)
 from .valves import series_kv
 
 if TYPE_CHECKING:
@@ -64,7 +72,7 @@ class Built:
 # ---- branches ------------------------------------------------------------------------------
 
 def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
-    from ..catalogs import fittings_k, parse_size
+    from ..catalogs import fittings_k
     from ..storage.user_presets import material_for
 
     if seg.diameter is not None and seg.size is not None:
@@ -72,10 +80,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     size = None
     d_value: Value
     if seg.size is not None:
-        size_text = text_value(seg.size, f"{path}.size") or ""
-        size = parse_size(size_text, f"{path}.size")
-        diameter = (size.inner_diameter_m if size is not None
-                    else parse_quantity(size_text, "diameter", f"{path}.size"))
+        size, diameter = size_or_bore(text_value(seg.size, f"{path}.size") or "", f"{path}.size")
         d_path, d_value = f"{path}.size", seg.size
     else:
         diameter = quantity(seg.diameter, "diameter", f"{path}.diameter")
