@@ -248,6 +248,12 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
     given = _given(site, [b.name for b in branches])
     find = _find(site, network)
     notes = []
+    if friction != "hazen-williams":  # a C typed for another model is said, not dropped
+        typed_c = [f'"{describe(b.name, 40)}"' for b in site.branches
+                   if any(seg.hw_c is not None for seg in b.segments)]
+        if typed_c:
+            notes.append(f"hw_c (Hazen-Williams C) of {', '.join(typed_c)} is not used: "
+                         f"friction is {friction}")
     if isinstance(find, FindUnknown) and find.quantity == "diameter":
         i = network.index_of(find.branch)
         if ks[i][find.segment]:

@@ -96,3 +96,15 @@ def test_model_bounds_quote_the_value_as_typed(old, new, field, quoted):
     with pytest.raises(InputError) as caught:
         solve_site(parse_site(PUMP_ROOM.replace(old, new)))
     assert (caught.value.field, caught.value.value) == (field, quoted)
+
+
+def test_a_hazen_williams_c_under_another_model_is_said_not_dropped():
+    # common practice: C belongs to the Hazen-Williams formula alone; under Colebrook it has
+    # no part in the answer, and the outputs say so
+    text = PUMP_ROOM.replace('minor_k = 6.2', 'minor_k = 6.2\nhw_c = 120')
+    solved = solve_site(parse_site(text))
+    assert any('hw_c (Hazen-Williams C) of "Condenser A" is not used: friction is colebrook'
+               in note for note in solved.notes)
+    plain = solve_site(parse_site(PUMP_ROOM))
+    assert solved.result.flows == pytest.approx(plain.result.flows, rel=0)
+    assert not any("hw_c" in note for note in plain.notes)
