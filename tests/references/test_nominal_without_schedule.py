@@ -10,10 +10,13 @@ e_min 10.0 mm). ASME B36.10M pairs DN 80 with NPS 3 and DN 40 with NPS 1-1/2.
 
 from __future__ import annotations
 
+import math
 import re
 
 import fluids.piping as ref
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from branchwise.core.catalogs import parse_size
 from branchwise.core.errors import InputError
@@ -118,3 +121,15 @@ def test_the_demo_refuses_3_in_and_reads_nps_3_sch_40_as_before():
     bore = _ahu2(demo.replace('size = "3 in sch 40"', 'diameter = "3 in"'))
     assert bore * 1000 == pytest.approx(10.30, abs=0.005)  # the report's figure
     assert _ahu2(demo.replace('size = "3 in sch 40"', 'size = "ID 3 in"')) == bore
+
+
+@given(st.text(st.sampled_from(list("0123456789./- \"'½¾NBDPSnbdpschinmIDboreLtype")),
+               max_size=16))
+def test_any_size_text_reads_or_is_refused_naming_the_field(text):
+    # Robustness, no outside reference: never a traceback, never a bore that is not finite.
+    try:
+        size, bore = size_or_bore(text, "branches[0].size")
+    except InputError as exc:
+        assert exc.field == "branches[0].size" and "\n" not in str(exc)
+    else:
+        assert math.isfinite(bore) and (size is None or size.inner_diameter_m == bore)

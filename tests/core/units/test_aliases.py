@@ -14,8 +14,12 @@ Neither copies the program's alias table: the tests name the unit each spelling 
 
 from __future__ import annotations
 
+import math
+
 import pint
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from branchwise.core import units
 from branchwise.core.errors import InputError
@@ -187,3 +191,25 @@ def test_every_alias_means_a_unit_of_its_kinds():
                 except InputError as exc:
                     assert alias.kinds == (), (spelling, kind, exc)  # a kind-free alias
                     assert "is not a" in exc.reason
+
+
+_TRADE_TEXT = st.text(st.sampled_from(list("0123456789.,/- '\"½¾⅛″′ftinmcpPSILhdgusCF℃°²")),
+                      max_size=14)
+
+
+@given(_TRADE_TEXT, st.sampled_from(sorted(units.KINDS)))
+def test_any_trade_text_gives_a_finite_value_or_an_input_error(text, kind):
+    # Robustness, no outside reference: fractions, feet-and-inches, commas and trade
+    # spellings in any order either read or are refused naming the field, never a traceback.
+    try:
+        value = units.parse_quantity(text, kind, "f")
+    except InputError as exc:
+        assert exc.field == "f" and "\n" not in str(exc)
+    else:
+        assert math.isfinite(value)
+
+
+def test_display_units_take_the_trade_spellings_too():
+    # a unit chosen for display (F6, --units) reads as it does in a field: 1 m³/h = 1/3600 m³/s
+    assert units.check_unit("CMH", "flow") == "CMH"
+    assert units.to_unit(1 / 3600, "flow", "CMH") == pytest.approx(1.0, rel=1e-12)
