@@ -102,7 +102,8 @@ NAME_ALIASES: dict[str, str] = {
 
 
 def _key(text: str) -> str:
-    return " ".join(text.split())
+    """``text`` with inner blanks as one and none around a slash (``lb / in²`` is ``lb/in²``)."""
+    return re.sub(r"\s*/\s*", "/", " ".join(text.split()))
 
 
 def _index() -> tuple[dict[tuple[str, str], Alias], dict[tuple[str, str], Alias]]:

@@ -80,6 +80,7 @@ SPELLINGS = [
     ("11.5 lb/in²", "pressure", "pound_force / inch ** 2", 11.5 * 6.894757e3),
     ("11.5 lbs/in2", "pressure", "pound_force / inch ** 2", 11.5 * 6.894757e3),
     ("11.5 lb/sq in", "pressure", "pound_force / inch ** 2", 11.5 * 6.894757e3),
+    ("11.5 lb / in²", "pressure", "pound_force / inch ** 2", 11.5 * 6.894757e3),
     # kilopascal, megapascal: SI prefixes (NIST SP 811 table 5)
     ("68 KPA", "pressure", "kilopascal", 68e3),
     ("68 Kpa", "pressure", "kilopascal", 68e3),
