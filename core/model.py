@@ -8,10 +8,11 @@ its arrays. Every failure is an :class:`InputError` naming the field path.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, replace
 from typing import Literal, get_args
 
-from .errors import InputError
+from .errors import InputError, describe
 
 STANDARD_GRAVITY = 9.80665
 """Standard acceleration of gravity, m/s² (ISO 80000-3; CGPM 1901)."""
@@ -23,12 +24,22 @@ FRICTION_MODELS: tuple[FrictionModel, ...] = get_args(FrictionModel)
 """The friction models a network may use (see :mod:`branchwise.core.numerics.friction`)."""
 
 
+_FRICTION_NAMES = {"colebrook-white": "colebrook"}
+"""Other names of a friction model in common use: Colebrook–White is Colebrook's equation."""
+
+
 def friction_model(text: object, path: str = "conditions.friction") -> FrictionModel:
-    """``text`` as one of :data:`FRICTION_MODELS`, or an InputError on ``path`` naming them."""
-    for model in FRICTION_MODELS:
-        if text == model:
-            return model
-    raise InputError(path, text, f"must be one of {', '.join(FRICTION_MODELS)}")
+    """``text`` as one of :data:`FRICTION_MODELS` in any capitals, with spaces, underscores,
+    hyphens or dashes between the words (``Hazen Williams``, ``COLEBROOK``, ``Swamee_Jain``),
+    or an InputError on ``path`` naming them."""
+    if isinstance(text, str):
+        words = re.sub(r"[\s_\-\u2010-\u2015]+", " ", text.casefold()).split()
+        key = "-".join(words)
+        key = _FRICTION_NAMES.get(key, key)
+        for model in FRICTION_MODELS:
+            if key == model:
+                return model
+    raise InputError(path, describe(text), f"must be one of {', '.join(FRICTION_MODELS)}")
 
 
 US_GALLON_M3 = 231 * 0.0254**3
@@ -240,7 +251,7 @@ class Network:
                 finite("conditions.elevation_change", self.elevation_change), MAX_ELEVATION, "m",
                 "elevation change")
         positive("conditions.gravity", self.gravity)
-        friction_model(self.friction)
+        object.__setattr__(self, "friction", friction_model(self.friction))  # its own spelling
         if self.friction == "hazen-williams":
             for i, br in enumerate(self.branches):
                 for j, seg in enumerate(br.segments):

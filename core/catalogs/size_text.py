@@ -1,8 +1,15 @@
 """Reading a pipe size the way people write it: ``3 in sch 40``, ``DN80 sch 40``, ``110 mm SDR 11``.
 
-The text must carry a catalog keyword (sch/schedule, type, SDR/DR, NPS, DN, an S-suffix schedule
-such as 10S, or STD/XS/XXS); without one :func:`parse_size` returns None and the caller reads the
-text as a plain inner diameter with units (this module knows nothing of units beyond in and mm).
+The text must carry a catalog keyword (sch/schedule, type, SDR/DR, NPS, DN, NB, an S-suffix
+schedule such as 10S, or STD/XS/XXS); without one :func:`parse_size` returns None and the caller
+reads the text as a plain length (:mod:`.bare_size`: a bore, or a nominal size refused for want of
+a schedule; this module knows nothing of units beyond in and mm). Sizes may be written with
+fractions as drawings write them (``1-1/2``, ``1 1/2``, ``3/4``, ``1½``).
+
+``NB`` (nominal bore, common practice on line lists): ``80 NB``, ``NB 80`` and ``80 mm NB`` are
+DN 80; ``3" NB`` and ``NB 3 in`` are NPS 3. ``PN`` (``DN80 PN16``) is a pressure class, not a
+wall: it is accepted beside a schedule or SDR and never changes the bore, which follows from the
+schedule or SDR alone; without one the size is refused as any size without a schedule.
 
 Which standard a size belongs to follows from what is written:
 
@@ -27,11 +34,20 @@ from .pipes import PipeSize, _Table, dn_labelled, make, nominal_value, schedule_
 
 Fail = Callable[[str], InputError]
 
-_NUMBER = r"(?:\d+\s*[- ]\s*\d+\s*/\s*\d+|\d+\s*/\s*\d+|\d+(?:\.\d*)?|\.\d+)"
+_VULGAR = {"½": Fraction(1, 2), "¼": Fraction(1, 4), "¾": Fraction(3, 4), "⅛": Fraction(1, 8),
+           "⅜": Fraction(3, 8), "⅝": Fraction(5, 8), "⅞": Fraction(7, 8)}
+"""The vulgar fractions of Unicode that nominal sizes use (``1½"``, ``¾ in``)."""
+_NUMBER = (r"(?:\d+\s*[- ]\s*\d+\s*/\s*\d+|\d+\s*/\s*\d+|\d*\s*[½¼¾⅛⅜⅝⅞]|\d+(?:\.\d*)?"
+           r"|\.\d+)")
 
 _PATTERNS = {
     "nps": re.compile(rf"\bnps\s*(?P<v>{_NUMBER})"),
     "dn": re.compile(r"\bdn\s*(?P<v>\d+)\b"),
+    # NB (nominal bore): by itself or with mm the DN, with in or " the NPS (common practice)
+    "nb": re.compile(rf"\bnb\s*(?P<v>{_NUMBER})\s*(?P<unit>in\b|\"|mm\b)?"
+                     rf"|(?<![\w.])(?P<w>{_NUMBER})\s*(?P<wunit>in\b|\"|mm\b)?\s*nb\b"),
+    # PN (nominal pressure, bar) is a pressure class: it never gives the bore
+    "pn": re.compile(r"\bpn\s*(?P<v>\d+(?:\.\d+)?)\b"),
     "sch": re.compile(r"\bsch(?:edule)?\.?\s*(?P<v>\d+s?|std|xxs|xs)\b"),
     "type": re.compile(r"\btype\s*(?P<v>[klm])\b"),
     "dr": re.compile(r"\b(?P<kind>s?dr)\s*(?P<v>\d+(?:\.\d+)?)\b"),
@@ -45,7 +61,7 @@ _MATERIALS = {
     "pe": re.compile(r"\b(?:hdpe|pe(?:100|80)?|poly(?:ethylene)?)\b"),
     "steel": re.compile(r"\b(?:carbon\s+steel|steel|cs)\b"),
 }
-_KEYWORD = re.compile(r"\b(?:sch(?:edule)?|type|s?dr|nps|dn)\b")
+_KEYWORD = re.compile(r"\b(?:sch(?:edule)?|type|s?dr|nps|dn|nb|pn)\b")
 _SIZE = re.compile(rf"^(?P<v>{_NUMBER})\s*(?P<unit>in|\"|mm)?$")
 
 
@@ -75,6 +91,9 @@ def _number(text: str, fail: Fail) -> Fraction:
     text = re.sub(r"\s+", " ", text.strip())
     if sum(c.isdigit() for c in text) > MAX_SIZE_DIGITS:
         raise fail(f"{_shown(text)} is not a pipe size (too many digits)")
+    if text[-1:] in _VULGAR:
+        whole = text[:-1].strip()
+        return (Fraction(int(whole)) if whole else Fraction(0)) + _VULGAR[text[-1]]
     try:
         mixed = re.fullmatch(r"(\d+)\s*[- ]\s*(\d+)\s*/\s*(\d+)", text)
         if mixed:
@@ -140,6 +159,10 @@ def _resolve(
         value = _number(found["nps"]["v"], fail)
     if "dn" in found:
         dn = int(_number(found["dn"]["v"], fail))
+    if "nb" in found:
+        if value is not None or dn is not None:
+            raise fail("gives the size twice")
+        value, dn = _nominal_bore(found["nb"], fail)
     if rest:
         m = _SIZE.match(rest)
         if m is None:
@@ -194,8 +217,10 @@ def _resolve(
 
     if schedule is None:
         listed = [n for n, sc in t.schedules.items() if nominal in sc.walls_m]
+        pn = (f" (PN {found['pn']['v']} is a pressure class: it does not give the bore)"
+              if "pn" in found else "")
         raise fail(
-            f"needs a schedule; {t.standard} lists for {_show_nominal(t, nominal)}: "
+            f"needs a schedule{pn}; {t.standard} lists for {_show_nominal(t, nominal)}: "
             f"{_data.spoken_list(listed)}"
         )
     name = schedule_name(t, schedule)
@@ -215,6 +240,19 @@ def _resolve(
         )
     size = make(t, nominal, name)
     return dn_labelled(size) if dn is not None else size
+
+
+def _nominal_bore(m: re.Match[str], fail: Fail) -> tuple[Fraction | None, int | None]:
+    """(NPS, DN) of an NB size: ``NB 80``, ``80 NB``, ``80 mm NB`` are DN 80; ``3" NB``,
+    ``NB 3 in`` NPS 3 (a nominal bore without a unit is read in mm, as line lists write it)."""
+    number, unit = (m["v"], m["unit"]) if m["v"] is not None else (m["w"], m["wunit"])
+    value = _number(number, fail)
+    if unit in ("in", '"'):
+        return value, None
+    if value.denominator != 1:
+        raise fail(f"NB {_shown(number)} without a unit is a DN in mm, a whole number; "
+                   f"for inches write '{number}\" NB'")
+    return None, int(value)
 
 
 def _steel_like(

@@ -76,7 +76,9 @@ class LiquidKind:
     :data:`INPUTS`; build: makes the :class:`~branchwise.core.model.Fluid` from the inputs by
     their ``arg`` names (SI); water_based: water or a water solution (the trade's velocity rule
     of thumb applies); hazen_williams: the Hazen–Williams formula may be used (water at
-    ordinary temperatures: an empirical fit for water alone).
+    ordinary temperatures: an empirical fit for water alone); aliases: other names the trade
+    writes for it, as :func:`liquid` normalises them (``EG``, ``MEG``, ``sea water``; common
+    practice).
     """
 
     key: str
@@ -86,6 +88,7 @@ class LiquidKind:
     build: Callable[..., Fluid]
     water_based: bool = False
     hazen_williams: bool = False
+    aliases: tuple[str, ...] = ()
 
     @property
     def inputs(self) -> tuple[str, ...]:
@@ -131,25 +134,29 @@ LIQUIDS: dict[str, LiquidKind] = {k.key: k for k in (
     LiquidKind("water", "Water", ("temperature",), ("pressure",), _water,
                water_based=True, hazen_williams=True),
     LiquidKind("seawater", "Seawater", ("temperature", "salinity"), ("pressure",), _seawater,
-               water_based=True, hazen_williams=True),
+               water_based=True, hazen_williams=True, aliases=("sea-water",)),
     LiquidKind("ethylene-glycol", "Ethylene glycol in water", ("temperature", "concentration"),
-               (), _glycol("ethylene-glycol"), water_based=True),
+               (), _glycol("ethylene-glycol"), water_based=True,
+               aliases=("eg", "meg", "monoethylene-glycol")),
     LiquidKind("propylene-glycol", "Propylene glycol in water",
                ("temperature", "concentration"), (), _glycol("propylene-glycol"),
-               water_based=True),
+               water_based=True, aliases=("pg", "mpg", "monopropylene-glycol")),
     LiquidKind("custom", "Custom (density and viscosity)", ("density",),
                ("viscosity", "kinematic_viscosity", "name"), _custom),
 )}
 """Every built-in kind of liquid, by key."""
 
 FLUID_KINDS: tuple[str, ...] = tuple(LIQUIDS)
+_BY_ALIAS = {alias: k for k in LIQUIDS.values() for alias in k.aliases}
 
 
 def liquid(kind: str) -> LiquidKind | None:
-    """The built-in kind written ``kind`` in any capitals, spaces or underscores
-    (``Propylene glycol`` is ``propylene-glycol``), or None."""
-    key = "-".join(kind.lower().replace("_", " ").split()) if isinstance(kind, str) else ""
-    return LIQUIDS.get(key)
+    """The built-in kind written ``kind`` in any capitals, spaces, hyphens or underscores
+    (``Propylene glycol`` is ``propylene-glycol``), or by one of its aliases (``EG``,
+    ``sea water``), or None."""
+    key = ("-".join(kind.lower().replace("_", " ").replace("-", " ").split())
+           if isinstance(kind, str) else "")
+    return LIQUIDS.get(key) or _BY_ALIAS.get(key)
 
 
 def fluid_from_spec(kind: str, **inputs: Any) -> Fluid:

@@ -125,10 +125,26 @@ def _fit_json(f: ReadingFit) -> dict[str, Any]:
 
 
 def chi_square_p(chi2: float, dof: int) -> float:
-    """P(χ²_dof ≥ chi2): the upper tail (the regularised upper incomplete gamma function)."""
-    from scipy.special import gammaincc
-
-    return float(gammaincc(dof / 2.0, chi2 / 2.0)) if dof > 0 else 1.0
+    """P(χ²_dof ≥ chi2), the upper tail, in closed form for whole degrees of freedom
+    (Abramowitz & Stegun 26.4.4–5): even k = 2n: e^(−x/2) Σᵢ₍₀…ₙ₋₁₎ (x/2)ⁱ/i!; odd k = 2n+1:
+    erfc(√(x/2)) + e^(−x/2) Σᵢ₍₀…ₙ₋₁₎ (x/2)^(i+½)/Γ(i+3/2)."""
+    if dof <= 0:
+        return 1.0
+    half = max(chi2, 0.0) / 2.0
+    n, odd = divmod(dof, 2)
+    total, term = 0.0, 0.0
+    if odd:
+        total = math.erfc(math.sqrt(half))
+        term = math.sqrt(half) / math.gamma(1.5)  # (x/2)^(1/2) / Γ(3/2)
+        for i in range(n):
+            total += math.exp(-half) * term
+            term *= half / (i + 1.5)
+    else:
+        term = 1.0
+        for i in range(n):
+            total += math.exp(-half) * term
+            term *= half / (i + 1)
+    return min(1.0, max(0.0, total))
 
 
 class _Model:
@@ -197,7 +213,8 @@ class _Model:
         rho_g = v.density * self.net.gravity
         g = np.array([self.values(head, q[c], float(rho_g[c])) for c in range(2 * n_in)])
         sens = (g[:n_in] - g[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
-        return (sens / SQRT3) @ (sens / SQRT3).T  # z uniform on [−1, 1]: u(z) = 1/√3
+        scaled: Array = sens / SQRT3  # z uniform on [−1, 1]: u(z) = 1/√3
+        return np.asarray(scaled @ scaled.T, dtype=float)
 
 
 def instrument_sigma(o: Observation, tol: Tolerances) -> float:

@@ -31,7 +31,15 @@ from .fields import FieldPath
 from .liquid import build_fluid
 from .readings import chosen
 from .spec import BranchSpec, SegmentSpec, Site, Value
-from .values import at_least, number, optional_quantity, plain_number, quantity, text_value
+from .values import (
+    at_least,
+    number,
+    optional_quantity,
+    plain_number,
+    quantity,
+    size_or_bore,
+    text_value,
+)
 from .valves import series_kv
 
 if TYPE_CHECKING:
@@ -64,7 +72,7 @@ class Built:
 # ---- branches ------------------------------------------------------------------------------
 
 def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
-    from ..catalogs import fittings_k, parse_size
+    from ..catalogs import fittings_k
     from ..storage.user_presets import material_for
 
     if seg.diameter is not None and seg.size is not None:
@@ -72,10 +80,7 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     size = None
     d_value: Value
     if seg.size is not None:
-        size_text = text_value(seg.size, f"{path}.size") or ""
-        size = parse_size(size_text, f"{path}.size")
-        diameter = (size.inner_diameter_m if size is not None
-                    else parse_quantity(size_text, "diameter", f"{path}.size"))
+        size, diameter = size_or_bore(text_value(seg.size, f"{path}.size") or "", f"{path}.size")
         d_path, d_value = f"{path}.size", seg.size
     else:
         diameter = quantity(seg.diameter, "diameter", f"{path}.diameter")
@@ -253,11 +258,42 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
 
 
 def _as_written(exc: InputError, site: Site) -> InputError:
-    """``exc`` with a model path (``branches[1].segments[0].hw_c``) as the file writes it."""
+    """``exc`` with a model path (``branches[1].segments[0].hw_c``) as the file writes it, and
+    the value as the site typed it (``1e9 mi``, not the model's metres)."""
     path = FieldPath.parse(exc.field)
+    field, value = str(path), exc.marked_value
+    typed = _typed_at(site, path)
+    if typed is not None:
+        field, value = typed[0], describe(typed[1])
     i = path.branch
-    if i is None or i >= len(site.branches):
+    if i is not None and i < len(site.branches):
+        field = str(FieldPath.parse(field).as_written(len(site.branches[i].segments)))
+    if (field, value) == (exc.field, exc.marked_value):
         return exc
-    written = path.as_written(len(site.branches[i].segments))
-    return exc if written is path else InputError(str(written), exc.marked_value,
-                                                  exc.marked_reason)
+    return InputError(field, value, exc.marked_reason)
+
+
+def _typed_at(site: Site, path: FieldPath) -> tuple[str, Value] | None:
+    """The field path and the value the site typed for a model's field path, or None."""
+    name = path.name
+    if path.area == "conditions" and not path.key:
+        typed = getattr(site.conditions, name, None)
+        return (path.text, typed) if typed is not None else None
+    i = path.branch
+    if i is None or i >= len(site.branches) or path.key:
+        return None
+    br = site.branches[i]
+    if path.segment is None:
+        if name not in ("valve_kv", "valve_cv"):  # the model's Kv may come from a Cv
+            return None
+        key = "valve_cv" if br.valve_cv is not None else "valve_kv"
+        typed = getattr(br, key)
+        return (f"branches[{i}].{key}", typed) if typed is not None else None
+    j = path.segment
+    if j >= len(br.segments):
+        return None
+    seg = br.segments[j]
+    if name == "diameter" and seg.diameter is None and seg.size is not None:
+        return f"branches[{i}].segments[{j}].size", seg.size
+    typed = getattr(seg, name, None) if name in ("diameter", "length", "roughness") else None
+    return (path.text, typed) if typed is not None else None

@@ -10,7 +10,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from typing import TYPE_CHECKING, Any
 
-from ..errors import InputError
+from ..errors import InputError, describe
 from ..fluids import INPUTS, LIQUIDS, fluid_from_spec, liquid
 from ..model import Fluid
 from ..units import KINDS, parse_quantity
@@ -22,9 +22,17 @@ if TYPE_CHECKING:
 
 
 def build_fluid(site: Site, presets: PresetSource | None = None) -> Fluid:
-    """The site's liquid (see :func:`fluid_inputs`)."""
+    """The site's liquid (see :func:`fluid_inputs`). An error on a value the site typed quotes
+    it as typed (``44 degF``), not as the model's SI number."""
     kind, args = fluid_inputs(site, presets)
-    return fluid_from_spec(kind, **args)
+    try:
+        return fluid_from_spec(kind, **args)
+    except InputError as exc:
+        key = exc.field.removeprefix("fluid.")
+        typed = getattr(site.fluid, key, None) if key in INPUTS else None
+        if typed is None or key == "concentration":  # a % vol is not what the model read
+            raise
+        raise InputError(exc.field, describe(typed), exc.marked_reason) from None
 
 
 def fluid_inputs(site: Site, presets: PresetSource | None = None) -> tuple[str, dict[str, Any]]:
@@ -44,9 +52,15 @@ def fluid_inputs(site: Site, presets: PresetSource | None = None) -> tuple[str, 
                 values[key] = (value, KINDS[quantity].si if quantity else None)
     else:
         kind = built_in.key
+    takes = LIQUIDS[kind].inputs if kind in LIQUIDS else tuple(INPUTS)
     for key in INPUTS:
-        if getattr(spec, key) is not None:
-            values[key] = (getattr(spec, key), None)
+        typed = getattr(spec, key)
+        if typed is None:
+            continue
+        if key not in takes:  # refused before it is read, quoting it as typed
+            raise InputError(f"fluid.{key}", describe(typed),
+                             f"not used for {kind} (it takes {', '.join(takes)})")
+        values[key] = (typed, None)
     args: dict[str, Any] = {}
     for key, (value, unit) in values.items():
         item = INPUTS[key]

@@ -6,10 +6,14 @@ Every failure is an :class:`~branchwise.core.errors.InputError` naming the field
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 from ..errors import InputError, describe
 from ..units import parse_quantity
 from .spec import Value
+
+if TYPE_CHECKING:
+    from ..catalogs import PipeSize
 
 # ---- values --------------------------------------------------------------------------------
 
@@ -23,6 +27,28 @@ def quantity(value: Value, kind: str, path: str) -> float:
 def optional_quantity(value: Value, kind: str, path: str) -> float | None:
     """The SI value of a quantity typed at ``path``, or None when it is not there."""
     return None if value is None else parse_quantity(value, kind, path)
+
+
+def size_or_bore(text: str, path: str,
+                 default_unit: str | None = None) -> tuple[PipeSize | None, float]:
+    """A size field read as the site file reads it: (the catalog size, its bore in m), or
+    (None, the bore) for a bore written as one (``ID 3 in``, ``bore 77.9 mm``) or a plain length
+    that is no nominal size (``77.9 mm``). A plain length that is also a nominal size (``3 in``,
+    ``80 mm``) is refused with the choices (:mod:`~branchwise.core.catalogs.bare_size`).
+    default_unit: the unit of a bare number (the app's; a site file needs a unit)."""
+    from ..catalogs import parse_size
+    from ..catalogs.bare_size import bore_text, refusal
+
+    bore = bore_text(text)
+    if bore is not None:
+        return None, parse_quantity(bore, "diameter", path, default_unit)
+    size = parse_size(text, path)
+    if size is not None:
+        return size, size.inner_diameter_m
+    error = refusal(text, path)
+    if error is not None:
+        raise error
+    return None, parse_quantity(text, "diameter", path, default_unit)
 
 
 def plain_number(value: Value, path: str) -> float | None:

@@ -14,6 +14,7 @@ from functools import cache
 from typing import Any
 
 from ..errors import InputError, one_line
+from .aliases import resolve
 from .grammar import unit_expression
 from .kinds import KINDS, SYSTEMS, spec_of
 from .parse import wrong_dimension
@@ -26,7 +27,7 @@ def _affine(unit: str, kind: str) -> tuple[float, float]:
     """(scale, offset) such that value_in_unit = scale · value_si + offset."""
     spec = spec_of(kind)
     ureg = registry()
-    expression = unit_expression(ureg, unit, "unit", unit)
+    expression = unit_expression(ureg, resolve(unit, kind), "unit", unit)
     units = ureg.parse_units(expression) if expression else ureg.dimensionless
     if units.dimensionality != ureg.get_dimensionality(spec.dimension):
         raise InputError("unit", unit, wrong_dimension(kind, spec))

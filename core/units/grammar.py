@@ -11,6 +11,7 @@ import re
 from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
+from .aliases import NAME_ALIASES
 
 if TYPE_CHECKING:
     import pint
@@ -18,11 +19,9 @@ if TYPE_CHECKING:
 GAUGE = {"psig": "psi", "barg": "bar", "kpag": "kPa"}
 """Gauge-pressure spellings, refused in a pressure difference, with the unit to write instead."""
 
-_TOKEN = re.compile(r"\s*(?:(\*\*|\^)|([*/·()])|([^\W\d][\w°µ]*|°[CF]|%|\"|')|([+-]?\d+)|(\S))")
+_TOKEN = re.compile(
+    r"\s*(?:(\*\*|\^)|([*/·()])|([^\W\d][\w°µ]*|°[CF]|[℃℉″”′’%\"'])|([+-]?\d+)|(\S))")
 _SUPERSCRIPT = str.maketrans({"²": "^2", "³": "^3", "⁻": "^-", "¹": "1"})
-_NAME_SWAP = {
-    '"': "inch", "'": "foot", "mil": "thou", "°C": "degC", "°F": "degF", "μm": "um", "µm": "um",
-}
 _POWER_SUFFIX = re.compile(r"([A-Za-z]+)([23])\Z")
 
 
@@ -54,7 +53,7 @@ def unit_expression(ureg: pint.UnitRegistry[Any], text: str, field: str, value: 
         if junk is not None:
             raise InputError(field, value, f"{describe(junk)!r} cannot appear in a unit")
         if name is not None:
-            name = _NAME_SWAP.get(name, name)
+            name = NAME_ALIASES.get(name, name)
             if not is_unit(ureg, name):
                 stem = _POWER_SUFFIX.match(name)
                 if stem and is_unit(ureg, stem.group(1)):

@@ -2,37 +2,43 @@
 
 Offset temperatures are handled by splitting the number from the unit and building
 ``Quantity(60, "degC")``: pint refuses ``Quantity("60 degC")`` arithmetic on offset units.
-Spellings of the trade that pint cannot parse (``in wc``, ``"WC``, a bare ``C`` or ``F`` in a
-temperature field) are turned into units it can; ``mil`` is read as pint's ``thou`` (0.001 in;
-pint's own ``mil`` is an angle), ``"`` as inches and ``'`` as feet, as on drawings
-(:mod:`.grammar`).
+The number is read as people write it (:mod:`.numbers`: ``3/4``, ``1½``, ``180'-6"``,
+``2,000`` with US customary units); trade spellings pint misreads or refuses (``cp`` in a
+viscosity, ``ft hd``, ``US gpm``, ``in wc``, a bare ``C`` or ``F`` in a temperature field) are
+turned into units it can read (:mod:`.aliases`); ``mil`` is ``thou`` (0.001 in; pint's own
+``mil`` is an angle), ``"`` inches and ``'`` feet, as on drawings. A unit that reads as the wrong
+kind of quantity is refused naming what pint read it as (``'cp' reads as a cup, a volume``).
 """
 
 from __future__ import annotations
 
 import math
 import re
+from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
+from .aliases import alias_elsewhere, resolve
 from .grammar import unit_expression
-from .kinds import Kind, spec_of
+from .kinds import KINDS, Kind, spec_of
+from .numbers import leading_number
 from .registry import registry
 
-_WATER_COLUMN = re.compile(
-    r"""^(?P<len>in|inch|inches|"|ft|feet|foot|mm|cm|m)\.?\s*(?:w\.?\s*[cg]\.?|h2o|water)$""",
-    re.IGNORECASE)
-"""Water-column spellings of the trade: ``in wc``, ``inWC``, ``"WC``, ``in. w.g.``, ``ft wc``,
-``mm wc`` — heads of water at the conventional density, as ``inH2O`` and friends."""
-_WATER_COLUMN_UNIT = {"in": "inH2O", "inch": "inH2O", "inches": "inH2O", '"': "inH2O",
-                      "ft": "ftH2O", "feet": "ftH2O", "foot": "ftH2O", "mm": "mmH2O",
-                      "cm": "cmH2O", "m": "mH2O"}
-_BARE_TEMPERATURE = re.compile(r"^(?:deg(?:rees?)?\s*)?(?P<scale>[CF])$", re.IGNORECASE)
-"""``5 C``, ``41 F``, ``5 deg C``: in a temperature field C and F can only mean the scales."""
-
+if TYPE_CHECKING:
+    import pint
 
 # ---- reading ---------------------------------------------------------------------------------
 
-_NUMBER = re.compile(r"\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)(.*)\Z", re.S)
+US_CUSTOMARY = frozenset({
+    "foot", "inch", "yard", "mile", "thou", "gallon", "imperial_gallon", "US_gallon_per_minute",
+    "imperial_gallon_per_minute", "US_gallon_per_hour", "million_US_gallon_per_day",
+    "cubic_foot_per_second", "pound_force_per_square_inch", "psi_differential", "pound",
+    "pound_force", "degree_Fahrenheit", "foot_H2O", "inch_H2O", "degree_Rankine",
+    "kip_per_square_inch", "barrel", "acre_foot",
+})
+"""pint's names of the US customary units: a thousands comma is read with these only (where no
+one writes a decimal comma); ``2,000 m`` could be either and is refused."""
+
+
 def parse_quantity(
     text: object, kind: str, field: str, default_unit: str | None = None
 ) -> float:
@@ -46,10 +52,11 @@ def parse_quantity(
 
     Returns SI: Pa, m³/s, m, m/s, K, kg/m³, Pa·s, m²/s, m/s², kg/kg. Every failure (empty
     text, no number, NaN, infinity, overflow, unknown unit, wrong dimension) is an InputError
-    naming ``field`` and the text.
+    naming ``field`` and the text as typed.
     """
     spec = spec_of(kind)
     shown = describe(text)
+    grouped = False
     if isinstance(text, bool) or not isinstance(text, (str, int, float)):
         raise InputError(field, shown, "must be a number with a unit, in quotes")
     if isinstance(text, (int, float)):
@@ -61,28 +68,19 @@ def parse_quantity(
     else:
         if not text.strip():
             raise InputError(field, "''", "is empty")
-        m = _NUMBER.match(text)
-        if m is None:
+        lead = leading_number(text, field, shown)
+        if lead is None:
             raise InputError(field, shown,
                              f"must start with a number, such as '12 {spec.display_si}'")
-        number, unit = _bare(float(m.group(1)), field, shown), m.group(2).strip()
+        number, unit, grouped = _bare(lead.value, field, shown), lead.unit, lead.grouped
         if unit.startswith(",") and unit[1:2].isdigit():
-            raise InputError(field, shown, "use a decimal point, not a comma")
+            pointed = describe(text.strip().replace(",", ".", 1), 30)
+            raise InputError(field, shown, f"use a decimal point, not a comma: write {pointed}")
     if not unit:
         if default_unit is None and spec.dimension != "[]":
             raise InputError(field, shown, f"needs a unit, such as '{number:g} {spec.display_si}'")
         unit = default_unit or ""
-    unit = _trade_spelling(unit, kind)
-    return _to_si(number, unit, spec, kind, field, shown)
-
-
-def _trade_spelling(unit: str, kind: str) -> str:
-    """Spellings of the trade pint cannot parse, turned into units it can (or left as typed)."""
-    if m := _WATER_COLUMN.match(unit):
-        return _WATER_COLUMN_UNIT[m.group("len").lower()]
-    if kind == "temperature" and (m := _BARE_TEMPERATURE.match(unit)):
-        return f"deg{m.group('scale').upper()}"
-    return unit
+    return _to_si(number, resolve(unit, kind), spec, kind, field, shown, unit, grouped)
 
 
 def _bare(number: float, field: str, shown: str) -> float:
@@ -91,7 +89,8 @@ def _bare(number: float, field: str, shown: str) -> float:
     return number
 
 
-def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: str) -> float:
+def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: str,
+           typed: str = "", grouped: bool = False) -> float:
     import pint
 
     ureg = registry()
@@ -106,20 +105,73 @@ def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: s
     except (pint.errors.PintError, ValueError, OverflowError, ZeroDivisionError) as exc:
         raise InputError(field, shown, f"cannot read the unit: {exc}") from None
     if value is None:
-        raise InputError(field, shown, wrong_dimension(kind, spec))
+        raise InputError(field, shown, wrong_dimension(kind, spec, typed, units))
+    if grouped and not _us_customary(ureg, expression):
+        raise InputError(field, shown, "has a comma that may group thousands or mark decimals; "
+                         "with metric units write the number without it (2000, or 2.000)")
     value = float(value)
     if not math.isfinite(value):
         raise InputError(field, shown, "is too large to represent")
     return value
 
 
-def wrong_dimension(kind: str, spec: Kind) -> str:
+def _us_customary(ureg: pint.UnitRegistry[Any], expression: str) -> bool:
+    names = re.findall(r"[^\W\d]\w*", expression)
+    return any(ureg.get_name(name) in US_CUSTOMARY for name in names)
+
+
+_DIMENSIONS = {
+    "[length] ** 3": "a volume", "[length] ** 2": "an area", "[time]": "a time",
+    "[mass]": "a mass", "1 / [time]": "a rate per time",
+    "dimensionless": "a pure number or an angle",
+    "[mass] / [length] ** 2": "a mass per area", "[length] * [time]": "a length × time",
+    "[length] * [mass] / [time] ** 2": "a force", "[mass] / [time]": "a mass flow",
+    "[length] ** 2 * [mass] / [time] ** 2": "an energy",
+}
+_KIND_WORDS = {"viscosity": "dynamic viscosity", "diameter": "length", "roughness": "length",
+               "head": "length", "fraction": "pure number", "salinity": "pure number"}
+
+
+def dimension_words(dimensionality: object) -> str:
+    """A dimension as people name it: ``a volume``, ``a pressure``, ``a length``."""
+    ureg = registry()
+    for kind, spec in KINDS.items():
+        if spec.dimension != "[]" and ureg.get_dimensionality(spec.dimension) == dimensionality:
+            word = _KIND_WORDS.get(kind, kind.replace("_", " "))
+            return f"a {word}"
+    text = str(dimensionality)
+    return _DIMENSIONS.get(text, f"of dimension {text}")
+
+
+def wrong_dimension(kind: str, spec: Kind, typed: str = "", units: object = None) -> str:
+    """The reason for a unit of the wrong dimension: what it was read as, the unit a trade
+    spelling of it means elsewhere, and units that would do."""
     examples = ", ".join(spec.choices[:4])
     hint = {
         "pressure": " (for a water column use ftH2O, inH2O or mH2O)",
         "head": " (a head is a height of the liquid itself)",
     }.get(kind, "")
-    return f"is not a {kind.replace('_', ' ')}: use a unit such as {examples}{hint}"
+    read = ""
+    if typed and units is not None:
+        dimension = dimension_words(getattr(units, "dimensionality", ""))
+        name = str(units).replace(" * ", "·").replace(" ** ", "^").replace(" / ", "/")
+        read = f"'{describe(typed, 30)}' reads as {_article(name)}{name}, {dimension}"
+        other = alias_elsewhere(typed, kind)
+        if other is not None and other.unit.replace(" ", "") != typed.replace(" ", ""):
+            ureg = registry()
+            means = dimension_words(ureg.parse_units(other.unit).dimensionality)
+            read += f"; {other.meaning} is '{other.unit}', {means}"
+        read = f": {read};"
+    else:
+        read = ":"
+    return f"is not a {kind.replace('_', ' ')}{read} use a unit such as {examples}{hint}"
+
+
+def _article(name: str) -> str:
+    """'a '/'an ' before a single unit's name (a cup, an inch); none before a compound."""
+    if not name[:1].isalpha() or any(c in name for c in "·/^"):
+        return ""
+    return "an " if name[0] in "aeiou" or name.startswith("hour") else "a "
 
 
 def check_unit(unit: str, kind: str, field: str = "unit") -> str:

@@ -151,7 +151,8 @@ def cli_solve(folder: Path, data: bytes, fmt: str, units: str) -> int:
         # only CSV, which is data alone, says its warnings and cautions on standard error
         said = [line for line in err.getvalue().splitlines()
                 if not (fmt == "csv" and line.startswith(("branchwise: caution: ",
-                                                          "branchwise: warning: ")))]
+                                                          "branchwise: warning: ",
+                                                          "branchwise: assumed: ")))]
         assert out.getvalue().strip() and not said, err.getvalue()
     else:
         message = err.getvalue()

@@ -33,13 +33,15 @@ MOODY = [
 @pytest.mark.parametrize(("key", "attribute", "moody_name"), MOODY)
 def test_roughness_matches_moody_in_fluids(key, attribute, moody_name):
     ours = getattr(material(key), attribute)
-    assert ours == pytest.approx(material_roughness(moody_name), rel=0.02)
+    # The table rounds Moody's feet to the millimetres the trade quotes (0.00015 ft = 0.0457 mm
+    # written 0.045 mm): measured at most 1.64 % apart, the tolerance just above.
+    assert ours == pytest.approx(material_roughness(moody_name), rel=0.017)
 
 
 def test_commercial_steel():
     steel = material("commercial-steel")
     # Moody (1944): commercial steel 0.00015 ft (from memory; not in fluids' Moody table).
-    assert steel.roughness_m == pytest.approx(0.00015 * 0.3048, rel=0.02)
+    assert steel.roughness_m == pytest.approx(0.00015 * 0.3048, rel=0.016)  # 0.045 mm: 1.57 %
     # Idel'chik: new, unused seamless steel tubes 0.02-0.1 mm.
     low, high, _ = HHR_roughness["Seamless steel tubes, New and unused"]
     assert low <= steel.roughness_m <= high
@@ -69,7 +71,7 @@ def test_plastics_and_copper_are_smooth():
     for key in ("pvc", "pe"):
         assert 0.0015e-3 <= material(key).roughness_m <= 0.007e-3
     glass = material_roughness("Glass")  # Moody: drawn tubing, glass 0.000005 ft
-    assert material("copper").roughness_m == pytest.approx(glass, rel=0.02)
+    assert material("copper").roughness_m == pytest.approx(glass, rel=0.014)  # 1.5 µm: 1.32 %
 
 
 def test_hazen_williams_c_is_common_practice():

@@ -14,9 +14,13 @@ from textual.widgets import Static
 from ..modal import Dialog
 
 ABOUT = (
-    "Values: every field takes a number with any unit (250 ft, 76 m, 12 psi, 400 gpm, 65 degF);"
-    " a bare number takes the unit shown in brackets or in the column header. A size takes a "
-    "catalog size (3 in sch 40, DN80 sch 40, 1-1/2 type L, 110 mm SDR 11) or an inner diameter."
+    "Values: every field takes a number with any unit (250 ft, 76 m, 12 psi, 400 gpm, 65 degF;"
+    " 180'-6\", 1½\", 2,000 ft; cP or cp, PSI, LPS, US gpm, ℃); a bare number takes the unit "
+    "shown in brackets or in the column header. A head in a pressure (12 ft hd, 3 m head, "
+    "ftH2O) is a column of water at 4 °C (NIST SP 811), not of the liquid in the pipe. A size "
+    "takes a catalog size (3 in sch 40, DN80 sch 40, 80 NB sch 40, 1-1/2 type L, 110 mm SDR "
+    "11) or a bore (ID 3 in, 77.9 mm); a bare nominal size (3 in, 80 mm) is refused, as it "
+    "names no wall."
     "\nThe answer is worked out again after every change; while something is wrong the last "
     "good answer stays, greyed, and the message shows beside the field at fault."
     "\nCtrl+P lists every action by name."

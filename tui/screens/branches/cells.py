@@ -1,7 +1,8 @@
 """How a branch's values appear in the branch table, and how typed cell text goes back in.
 
 Each column shows the values as typed and reads a typed cell the same way the site file does:
-a size column takes a catalog size (``3 in sch 40``) or a plain inner diameter (``77.9 mm``);
+a size column takes a catalog size (``3 in sch 40``) or an inner diameter (``77.9 mm``,
+``ID 3 in``; a bare nominal size such as ``3 in`` is refused for want of a schedule);
 the wall column takes a roughness (``0.045 mm``) or a material key with an optional ``aged``;
 the valve column takes ``Kv 160`` or ``Cv 110`` (a bare number is a Kv). A bare number takes the
 column's display unit.
@@ -51,7 +52,20 @@ _VALVE = re.compile(r"\s*(kv|cv)?\s*[:=]?\s*(.+?)\s*\Z", re.I)
 
 
 def size_text(seg: SegmentSpec) -> str:
-    return text_of(seg.size) or text_of(seg.diameter)
+    """The Size/ID cell: the size as typed, or the bore — written ``ID 3 in`` where the bare
+    length would read as a nominal size (so that the cell reads back as the same bore)."""
+    if seg.size is not None:
+        return text_of(seg.size)
+    bore = text_of(seg.diameter)
+    return f"ID {bore}" if bore and _nominal(bore) else bore
+
+
+def _nominal(text: str) -> bool:
+    """True when a plain length is also a nominal size (``3 in``, ``80 mm``): a size field
+    refuses it for want of a schedule."""
+    from branchwise.core.catalogs.bare_size import refusal
+
+    return refusal(text, "size") is not None
 
 
 def wall_text(seg: SegmentSpec) -> str:
@@ -139,13 +153,22 @@ def same_pipe(seg: SegmentSpec) -> SegmentSpec:
 
 
 def set_size(seg: SegmentSpec, text: str, unit: str) -> None:
+    """A typed Size/ID cell into the segment, read as the site file reads a size: a bore
+    written as one (``ID 3 in``) or a plain length that is no nominal size (``77.9 mm``) is the
+    diameter; anything else — a catalog size, or a plain nominal size such as ``3 in``, which
+    the site then refuses with the choices beside the cell — is the size."""
+    from branchwise.core.catalogs.bare_size import bore_text
+
     text = text.strip()
+    bore = bore_text(text) if text else None
     if not text:
         seg.size = seg.diameter = None
-    elif is_plain_diameter(text):
+    elif bore is not None:
+        seg.diameter, seg.size = with_unit(bore, unit), None
+    elif is_plain_diameter(text) and not _nominal(with_unit(text, unit)):
         seg.diameter, seg.size = with_unit(text, unit), None
     else:
-        seg.size, seg.diameter = text, None
+        seg.size, seg.diameter = with_unit(text, unit), None
 
 
 def set_wall(seg: SegmentSpec, text: str, unit: str) -> None:

@@ -46,7 +46,7 @@ SEGMENT_FIELDS = (
     ("k", "Extra K", None),
     ("fittings", "Fittings", None),
 )
-PLACEHOLDERS = {"size": "e.g. 4 in sch 40, DN80, 1-1/2 type L, 77.9 mm",
+PLACEHOLDERS = {"size": "e.g. 4 in sch 40, DN80 sch 40, 1-1/2 type L, ID 77.9 mm",
                 "length": "e.g. 62 m, 180 ft",
                 "wall": "e.g. 0.045 mm, or commercial-steel aged",
                 "fittings": "e.g. elbow-90 4, gate-valve 2", "k": "e.g. 2.5 (a plain number)"}
@@ -179,7 +179,8 @@ class BranchForm(Dialog[BranchSpec | None]):
             if key == "name" and not text:
                 return "every branch needs a name"
             if key in ("size", "length") and not text:
-                return ("required: a catalog size (4 in sch 40, DN80) or the bore" if key == "size"
+                return ("required: a catalog size (4 in sch 40, DN80 sch 40) or the bore "
+                        "(ID 77.9 mm)" if key == "size"
                         else "required: the pipe's length")
             if key == "wall" and not text and self._plain_bore(field):
                 return "required for a bore: a roughness or a material"
@@ -191,16 +192,11 @@ class BranchForm(Dialog[BranchSpec | None]):
             if key in ("length",) and text:
                 if parse_quantity(text, "length", key, self.unit("length")) < 0:
                     return f"must not be negative, got {text}"
-            if key == "size" and text:
-                probe = SegmentSpec()
-                set_size(probe, text, self.unit("diameter"))
-                if probe.diameter is not None:
-                    parse_quantity(probe.diameter, "diameter", key)
-                else:
-                    from branchwise.core.catalogs import parse_size
+            if key == "size" and text:  # read as the site file reads it
+                from branchwise.core.site.values import size_or_bore
 
-                    if parse_size(text, key) is None:  # no catalog size: read it as a bore
-                        parse_quantity(text, "diameter", key, self.unit("diameter"))
+                unit = self.unit("diameter")
+                size_or_bore(with_unit(text, unit), key, unit)
             if key == "wall" and text and (text[0].isdigit() or text[0] == "."):
                 parse_quantity(text, "roughness", key, self.unit("roughness"))
             if key == "valve" and text:
