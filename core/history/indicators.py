@@ -222,6 +222,9 @@ def visit_indicators(site: Site) -> VisitIndicators:
             if ev is not None:
                 resistance = ev.indicator(_resistance(ev.sol.head, own.value), True,
                                           (replace(meter, relative=-2 * u_meter),))
+        if resistance is None:
+            notes.append(f"{br.name}: no resistance from the clamp-on at the head of the "
+                         f"{GIVENS[r.kind].words} (the readings admit no state of the line)")
         if rough_ok:
             roughness = _roughness(net, given, find, br.name, notes, spread, b)
         elif len(br.segments) > 1:
