@@ -91,9 +91,12 @@ class BranchIndicators:
     flow: Indicator | None
     resistance: Indicator | None
     effective_roughness: Indicator | None
+    solved_flow: Indicator | None = None
+    """The flow the visit's solve gives the branch, read or not (a trend of solved flows
+    compares it, never a clamp-on with a solve)."""
 
     def get(self, indicator: str) -> Indicator | None:
-        """The indicator named as in :data:`INDICATORS`."""
+        """The indicator named as in :data:`INDICATORS` (or ``solved_flow``)."""
         found: Indicator | None = getattr(self, indicator)
         return found
 
@@ -193,12 +196,11 @@ def visit_indicators(site: Site) -> VisitIndicators:
         own = next((r for r in held if r.kind == "measured_flow" and r.branch == b), None)
         heads = sorted((r for r in held if r is not own), key=lambda r: HEAD_ORDER.index(r.kind))
         meter = Part(f"flow meter on branch '{br.name}'", False, u_meter)
-        if own is not None:
-            flow: Indicator | None = Indicator(own.value, True, (meter,))
-        elif base is not None:
-            flow = base.indicator(base.sol.flows[:, b], False)
+        if base is not None:
+            solved = base.indicator(base.sol.flows[:, b], False)
         else:
-            flow = _unbanded(float(sr.result.flows[b]), False)
+            solved = _unbanded(float(sr.result.flows[b]), False)
+        flow = solved if own is None else Indicator(own.value, True, (meter,))
         if own is None or not heads:
             if base is not None:
                 resistance = base.indicator(_resistance(base.sol.head, base.sol.flows[:, b]),
@@ -206,7 +208,7 @@ def visit_indicators(site: Site) -> VisitIndicators:
             else:
                 resistance = _unbanded(float(_resistance(np.array(sr.result.driving_head),
                                                          float(sr.result.flows[b]))), False)
-            out.append(BranchIndicators(br.name, flow, resistance, None))
+            out.append(BranchIndicators(br.name, flow, resistance, None, solved))
             continue
         r = heads[0]
         given = make_given(r.kind, r.value, r.name)
@@ -229,7 +231,7 @@ def visit_indicators(site: Site) -> VisitIndicators:
             roughness = _roughness(net, given, find, br.name, notes, spread, b)
         elif len(br.segments) > 1:
             notes.append(f"{br.name}: several pipes in series, so no one effective roughness")
-        out.append(BranchIndicators(br.name, flow, resistance, roughness))
+        out.append(BranchIndicators(br.name, flow, resistance, roughness, solved))
     return VisitIndicators(sr, held, tuple(out), tuple(notes))
 
 

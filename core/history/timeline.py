@@ -91,8 +91,8 @@ def history_of(site: Site) -> History:
                          "[[visits]] and no reading today")
     visits = [_visit(site, i) for i in indices]
     dates = [v.label for v in visits]
-    rows = [[(b.name, {k: b.get(k) for k in INDICATORS}) for b in v.solved.branches]
-            for v in visits]
+    rows = [[(b.name, {k: b.get(k) for k in (*INDICATORS, "solved_flow")})
+             for b in v.solved.branches] for v in visits]
     return History(site.title, tuple(visits), tuple(trends_of(dates, rows)))
 
 

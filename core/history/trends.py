@@ -142,19 +142,22 @@ def change(a: Indicator, b: Indicator, since: str) -> Change:
 def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[str,
               Indicator | None]]]]) -> list[Trend]:
     """The trends of every branch and indicator. ``dates``: each visit's date as shown, in
-    order; ``branches``: per visit, per branch, (name, {indicator: value or None})."""
+    order; ``branches``: per visit, per branch, (name, {indicator: value or None}), with
+    ``solved_flow`` beside ``flow`` (the solve's, for a trend of solved flows)."""
     names: list[str] = []
     for visit in branches:
         names += [n for n, _ in visit if n not in names]
     out = []
     for name in names:
         for indicator in INDICATORS:
-            points = [Point(k, dates[k], ind) for k, visit in enumerate(branches)
-                      for n, values in visit if n == name
-                      if (ind := values.get(indicator)) is not None]
-            measured = [p for p in points if p.indicator.measured]
+            def points_of(key: str, name: str = name) -> list[Point]:
+                return [Point(k, dates[k], ind) for k, visit in enumerate(branches)
+                        for n, values in visit if n == name
+                        if (ind := values.get(key)) is not None]
+
+            measured = [p for p in points_of(indicator) if p.indicator.measured]
             basis = "measured" if len(measured) >= 2 else "solved"
-            use = measured if basis == "measured" else points
+            use = measured if basis == "measured" else points_of(f"solved_{indicator}")
             if len(use) < 2 or (basis == "solved" and indicator != "flow"):
                 continue
             first, previous, last = use[0], use[-2], use[-1]

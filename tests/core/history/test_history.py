@@ -224,3 +224,18 @@ def test_visits_are_taken_in_date_order():
     text = SITE.split("[[visits]]")[0] + "[[visits]]" + second + "\n[[visits]]" + first
     history = history_of(parse_site(text))
     assert [v.field for v in history.visits] == ["visits[1]", "visits[0]", "conditions"]
+
+
+def test_a_trend_of_solved_flows_never_sets_a_clamp_on_against_a_solve():
+    """Condenser A read once: its flow is trended as solved at every visit, the clamp-on's
+    visit included (its solve from the gauge, not the meter's 17.2 L/s)."""
+    text = SITE.replace('measured = { "Condenser A" = "15.0 L/s" }\n', "")
+    history = history_of(parse_site(text))
+    trend = next(t for t in history.trends if t.branch == "Condenser A" and
+                 t.indicator == "flow")
+    assert trend.basis == "solved" and len(trend.points) == 3
+    first = history.visits[0].solved
+    assert trend.first.indicator.value == pytest.approx(float(first.solved.result.flows[0]),
+                                                        rel=1e-9)
+    assert first.branches[0].flow.value == pytest.approx(17.2e-3)  # the visit shows the read
+    assert not [t for t in history.trends if t.indicator == "resistance"]
