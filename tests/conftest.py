@@ -29,3 +29,9 @@ def pytest_terminal_summary(terminalreporter):
             f"{stats['ill_conditioned']} ill-conditioned total-flow cases within their "
             f"widened tolerance (worst {stats['worst_ill_conditioned']:.2e})"
         )
+
+    calibration = sys.modules.get("test_reconcile_calibration")
+    rates = getattr(calibration, "RATES", None)
+    if rates:
+        terminalreporter.write_line("reconciliation by simulation: " + "; ".join(
+            f"{name} {rate:.1%}" for name, rate in rates.items()))

@@ -102,6 +102,8 @@ class Reconciliation:
     without_suspect: tuple[float, float] | None
     readings: tuple[ReadingFit, ...]
     verdict: str
+    covariance: tuple[tuple[float, ...], ...] = ()
+    """V, the residuals' covariance the optimum was found with (SI², readings' order)."""
 
     def to_json(self) -> dict[str, Any]:
         """The JSON's ``reconciliation`` object (SI)."""
@@ -271,6 +273,7 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         chi_square=fit.chi2, degrees_of_freedom=dof, p_value=p, consistent=consistent,
         suspect=suspect, without_suspect=without, readings=fits,
         verdict=_verdict(fits, fit.chi2, dof, p, consistent, suspect, without),
+        covariance=tuple(tuple(float(v) for v in row) for row in cov),
     )
 
 

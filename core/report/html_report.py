@@ -30,6 +30,7 @@ from .lines import (
     warning_lines,
 )
 from .svg import Bar, bars_svg, curve_svg
+from .weighed import TITLE, weighed_lines
 
 if TYPE_CHECKING:
     from ..history import History
@@ -206,6 +207,9 @@ def to_html(sr: SiteResult, reader: Units | str = "si", date: datetime | None = 
     body += ["<h2>Results</h2>", _list(summary_lines(sr, u)), _split(sr, u), _tables(sr, u)]
     if sr.result.solved:
         body += ["<h2>Solved unknown</h2>", _list(solved_lines(sr, u))]
+    weighed = weighed_lines(sr, u)
+    if weighed:
+        body += [f"<h2>{_e(TITLE)}</h2>", _list(weighed)]
     body.append(_band(sr, u))
     if curve:
         body += ["<h2>System curve</h2>", _curve(sr, u)]

@@ -5,9 +5,9 @@ The keys are a contract with scripts that read them: ``pressure_drop_pa``, ``hea
 the others under ``segments``), ``solved``, ``warnings``, ``cautions``. Keys may be added, never
 renamed (added since: ``record`` {``technician``, ``date``, ``pressure_instrument``,
 ``flow_instrument``}, each branch's ``tag``, ``given``, ``other_readings``, ``uncertainty``,
-``schema_version``, ``assumptions`` [{``code``, ``branch``, ``message``}], ``history``:
-the site's visits and trends, :meth:`branchwise.core.history.History.to_json`, null without
-``[[visits]]``). The published
+``schema_version``, ``assumptions`` [{``code``, ``branch``, ``message``}],
+``reconciliation``, ``history``: the site's visits and trends,
+:meth:`branchwise.core.history.History.to_json`, null without ``[[visits]]``). The published
 JSON Schema is ``result.schema.json`` (:mod:`.schema`): a key added here is described there too.
 """
 
@@ -20,6 +20,7 @@ from typing import Any
 from ..givens import branch_of, kind_of
 from ..numerics.results import SegmentResult
 from ..site.readings import compare
+from ..site.reconcile import solves_from_all
 from ..site.solve import SiteResult
 from ..site.spec import RECORD_KEYS, RecordSpec, Site
 from . import band
@@ -44,6 +45,8 @@ def _segment_json(seg: SegmentResult) -> dict[str, Any]:
 
 def _given_json(sr: SiteResult) -> dict[str, Any]:
     g = sr.built.given
+    if solves_from_all(sr.site):  # the reconciled pressure drop fixes the head
+        return {"quantity": "all", "branch": None, "value_si": g.value}
     return {"quantity": kind_of(g).key, "branch": branch_of(g),
             "value_si": g.value}
 
@@ -127,6 +130,8 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
         "warnings": [{"code": w.code, "branch": w.branch, "message": w.message}
                      for w in r.warnings],
         "notes": [*sr.notes, *r.notes, *history_notes],
+        "reconciliation": (sr.reconciliation.to_json() if sr.reconciliation is not None
+                           else None),
         "assumptions": [{"code": a.code, "branch": a.branch, "message": a.message}
                         for a in sr.assumptions],
         "convergence": {"converged": r.convergence.converged,

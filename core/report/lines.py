@@ -9,6 +9,7 @@ from ..errors import BranchwiseError
 from ..finds import found_kind, found_noun
 from ..givens import GIVENS, branch_of, kind_of, reading_words
 from ..site.readings import Comparison, compare
+from ..site.reconcile import solves_from_all
 from ..site.solve import SiteResult
 from ..site.spec import Site
 from ..storage.user_presets import material_for
@@ -39,6 +40,9 @@ def version() -> str:
 def given_text(sr: SiteResult, reader: Units | str = "si") -> str:
     """The reading the head is solved from: ``pressure drop 68.00 kPa``."""
     u, g = units_for(reader), sr.built.given
+    if solves_from_all(sr.site):
+        return (f"all {len(sr.reconciliation.readings) if sr.reconciliation else ''} readings "
+                f"weighed together (reconciled pressure drop {u.quantity(g.value, 'pressure')})")
     kind = kind_of(g)
     value = u.quantity(g.value, kind.quantity)
     if kind.on_branch:
@@ -49,6 +53,9 @@ def given_text(sr: SiteResult, reader: Units | str = "si") -> str:
 def held_text(sr: SiteResult, reader: Units | str = "si") -> str:
     """What stays fixed when a branch is resized: the given reading, and what follows."""
     u, g = units_for(reader), sr.built.given
+    if solves_from_all(sr.site):
+        return (f"the reconciled pressure drop of {u.quantity(g.value, 'pressure')} held (all "
+                "readings weighed)")
     kind = kind_of(g)
     value = u.quantity(g.value, kind.quantity)
     if kind.key == "total_flow":
@@ -93,7 +100,10 @@ def reading_line(c: Comparison, reader: Units | str = "si", short: bool = False)
 
 
 def readings_lines(sr: SiteResult, reader: Units | str = "si", short: bool = False) -> list[str]:
-    """Each reading kept beside the given one, against what the solve makes of it."""
+    """Each reading kept beside the given one, against what the solve makes of it (none when
+    every reading was weighed: the reconciliation lines say it, :mod:`.weighed`)."""
+    if solves_from_all(sr.site):
+        return []
     return [reading_line(c, reader, short) for c in compare(sr.site, sr.result, sr.uncertainty)]
 
 

@@ -21,6 +21,7 @@ from .lines import (
     summary_lines,
     version,
 )
+from .weighed import TITLE, weighed_lines
 
 
 def inputs_as_entered(site: Site) -> list[tuple[str, str]]:
@@ -81,6 +82,9 @@ def to_markdown(
     out += ["| " + " | ".join(_md(r.get(k, "")) for k in keys) + " |" for r in rows]
     if sr.result.solved:
         out += ["", "## Solved unknown", "", *(f"- {_md(s)}" for s in solved_lines(sr, u))]
+    weighed = weighed_lines(sr, u)
+    if weighed:
+        out += ["", f"## {TITLE}", "", *(f"- {_md(w)}" for w in weighed)]
     out += band.markdown_lines(sr, u)
     if sr.assumptions:
         out += ["", "## Assumed", "", *(f"- {_md(a)}" for a in assumed_lines(sr, u))]

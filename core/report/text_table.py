@@ -22,6 +22,7 @@ from .lines import (
     summary_lines,
     warning_lines,
 )
+from .weighed import TITLE, weighed_lines
 
 WIDTH = 80
 """Text lines are wrapped to this many columns (a terminal's usual width)."""
@@ -68,6 +69,11 @@ def to_table(sr: SiteResult, reader: Units | str = "si", width: int = WIDTH) -> 
     out += ["", "Pipes and head losses:", *grid(LOSS_TABLE, rows, u)]
     if sr.result.solved:
         out += ["", *(line for s in solved_lines(sr, u) for line in wrap(s))]
+    weighed = weighed_lines(sr, u)
+    if len(weighed) > 1:
+        out += ["", f"{TITLE}:", *(line for w in weighed for line in wrap(w, "  - ", "    "))]
+    elif weighed:
+        out += ["", *(line for w in weighed for line in wrap(w))]
     if sr.uncertainty is not None:
         out += ["", *(line for s in band.summary_lines(sr, u) for line in wrap(s))]
         out += ["", *band.ranking_lines(sr, u)]

@@ -14,6 +14,7 @@ from __future__ import annotations
 from branchwise.core.errors import InputError
 from branchwise.core.givens import GIVENS, HEADER_READINGS
 from branchwise.core.site.readings import chosen, readings
+from branchwise.core.site.reconcile import ALL, solves_from_all
 from branchwise.core.site.spec import Site
 
 from .values import branch_name, text_of
@@ -83,8 +84,23 @@ def reading_text(site: Site, kind: str, branch: int | None = None) -> str:
 
 
 def given_text(site: Site) -> str:
-    """The given reading's value as typed ('' when it has none yet)."""
-    return reading_text(site, *given_of(site))
+    """The given reading's value as typed ('' when it has none yet; '' when every reading is
+    weighed: no one reading is the given)."""
+    return "" if weighs_all(site) else reading_text(site, *given_of(site))
+
+
+ALL_WORDS = "all readings, weighed"
+"""The given in words when every reading is weighed (``conditions.given = "all"``)."""
+
+
+def weighs_all(site: Site) -> bool:
+    """Whether the site is solved from all its readings weighed together."""
+    return solves_from_all(site)
+
+
+def weigh_all(site: Site) -> None:
+    """Solve from every reading weighed together (the readings stay as they are)."""
+    site.conditions.given = ALL
 
 
 # ---- edits (on a copy of the site, as session.edit hands them) ------------------------------

@@ -14,7 +14,7 @@ from textual.widgets import Static
 
 from branchwise.core.site.fields import FieldPath
 
-from ..state.givens import given_of, given_text, given_words
+from ..state.givens import ALL_WORDS, given_of, given_text, given_words, weighs_all
 from ..state.session import find_of
 from ..state.values import text_of
 from ..theme import colour
@@ -70,8 +70,8 @@ def describe(app: Workspace, on_split: bool = False, width: int | None = None,
     the first line is cut and an error wrapped (None: one line each, uncut)."""
     site = app.session.site
     kind, index = given_of(site)
-    value = given_text(site) or "—"
-    given = given_words(site, kind, index)
+    value = given_text(site) or ("" if weighs_all(site) else "—")
+    given = ALL_WORDS if weighs_all(site) else given_words(site, kind, index)
     find = find_of(site)
     if find == "flows":
         sought = "the flow in every branch"

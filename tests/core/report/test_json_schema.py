@@ -24,6 +24,8 @@ GIVENS = {
     "total_flow": lambda s: replace(s, conditions=replace(
         s.conditions, total_flow="600 gpm", given="total_flow")),
     "measured_flow": lambda s: _measured(s),
+    "all": lambda s: replace(_measured(s), conditions=replace(
+        s.conditions, total_flow="600 gpm", given="all")),
 }
 FINDS = {
     "flows": None,

@@ -28,6 +28,7 @@ from ...state.givens import (
     given_words,
     held,
     remove_branch,
+    weighs_all,
 )
 from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
@@ -128,7 +129,7 @@ class BranchesScreen(WorkScreen):
         bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
             else None
         flows = flow_cells(app)
-        given = given_of(site)
+        given = given_of(site) if not weighs_all(site) else ("all", None)
         self._rows = []
         rows: list[tuple[str, list[object]]] = []
         for i, br in enumerate(site.branches):
@@ -275,7 +276,7 @@ class BranchesScreen(WorkScreen):
         value = with_unit(text, app.unit("flow"))
         if value:
             app.edit(f"Reading on {name}", lambda s: add_reading(s, i, value))
-            if given_of(app.site) == ("measured_flow", i):
+            if given_of(app.site) == ("measured_flow", i) and not weighs_all(app.site):
                 self.notify(f"The reading on {name} is the given condition.", timeout=4)
             else:
                 self.notify(f"Reading on {name} kept beside the given: the Split screen (F4) "
@@ -407,6 +408,9 @@ def reading_hint(site: Site, given: tuple[str, int | None]) -> str:
     if not site.measured_branches():
         return ("Enter edit · e form · a add · c copy · s segment · Del remove · bare numbers "
                 "take the header's unit")
+    if weighs_all(site):
+        return ("Given: all readings, weighed together (x on Split, F4, says which agree); g "
+                "there changes the given.")
     others = len(held(site)) - (1 if given in held(site) else 0)
     return f"Given: the {given_words(site, *given)}." + (
         " The other readings are compared with the answer on Split (F4); g there changes "

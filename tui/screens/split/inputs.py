@@ -20,10 +20,22 @@ from textual.widgets import Input, Label, Static
 from branchwise.core.finds import FINDS
 from branchwise.core.givens import GIVENS
 from branchwise.core.site.fields import FieldPath
+from branchwise.core.site.reconcile import ALL
 from branchwise.core.site.spec import Site
 
 from ...quiet import put, show_text
-from ...state.givens import given_label, given_of, given_text, make_given, reading_text, set_reading
+from ...state.givens import (
+    ALL_WORDS,
+    given_label,
+    given_of,
+    given_text,
+    held,
+    make_given,
+    reading_text,
+    set_reading,
+    weigh_all,
+    weighs_all,
+)
 from ...state.session import find_of, set_find
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.choice import Choice
@@ -80,11 +92,19 @@ class GivenFindRows(Vertical):
         """Show the site's given and find, and an error on either."""
         app, site = self.bw, self.bw.site
         kind, index = given_of(site)
+        weighing = weighs_all(site)
         options = list(HEADER_GIVENS)
         options += [(given_label(site, "measured_flow", i), f"{GIVEN_PREFIX}{i}")
                     for i in range(len(site.branches))]
-        value = kind if not GIVENS[kind].on_branch else f"{GIVEN_PREFIX}{index}"
+        if weighing or len(held(site)) >= 2:
+            options.append((ALL_WORDS[0].upper() + ALL_WORDS[1:], ALL))
+        value = ALL if weighing else (kind if not GIVENS[kind].on_branch
+                                      else f"{GIVEN_PREFIX}{index}")
         self.query_one("#given-kind", Choice).set_options(options, value)
+        for ident in ("#given-value", "#given-unit"):  # no one value when all are weighed
+            box = self.query_one(ident)
+            if box.display == weighing:
+                box.display = not weighing
         show_text(self.query_one("#given-value", Input), given_text(site))
         put(self.query_one("#given-unit", Label), f"[{app.unit_text(GIVENS[kind].quantity)}]")
         show_text(self.query_one("#lift-value", Input),
@@ -199,10 +219,14 @@ class GivenFindRows(Vertical):
     def _switch_given(self, value: str) -> None:
         app = self.bw
         site = app.site
+        if value == ALL:
+            if not weighs_all(site):
+                app.edit("Given: all readings, weighed", weigh_all)
+            return
         new_kind, new_index = ("measured_flow", int(value[len(GIVEN_PREFIX):])) \
             if value.startswith(GIVEN_PREFIX) else (value, None)
         old_kind, old_index = given_of(site)
-        if (new_kind, new_index) == (old_kind, old_index):
+        if (new_kind, new_index) == (old_kind, old_index) and not weighs_all(site):
             return
         carried = app.session.carried
         old_text = reading_text(site, old_kind, old_index)

@@ -64,6 +64,8 @@ class SplitScreen(WorkScreen):
         Binding("a", "copy('answer')", "Copy answer", id="split-copy-answer", show=False,
                 tooltip="Copy the answer line (Δp, total flow, a found value) to the "
                         "clipboard"),
+        Binding("x", "weighed", "Readings", id="split-weighed", show=False,
+                tooltip="Every reading weighed against the others: which agree, which is off"),
         Binding("w", "warnings", "Warnings", id="split-warnings", show=False,
                 tooltip="List every warning and note of the answer"),
         Binding("b", "view('band')", "Band", id="split-band",
@@ -127,7 +129,25 @@ class SplitScreen(WorkScreen):
 
         self.app.push_screen(WarningsScreen(list(self.views.warning_lines)))
 
+    def action_weighed(self) -> None:
+        from branchwise.core.report.weighed import TITLE, weighed_lines
+
+        from ..warnings import WarningsScreen
+
+        outcome = self.bw.outcome
+        if outcome is None or outcome.solved is None:
+            return
+        lines = weighed_lines(outcome.solved, self.bw.units) or [
+            "No readings to weigh: give the pressure drop, the total flow or a branch's reading."]
+        self.app.push_screen(WarningsScreen(
+            lines, title=TITLE,
+            keys="Esc closes.  g → \"all readings\" solves from them all; the report (h, r) "
+                 "lists them too."))
+
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "weighed":
+            outcome = self.bw.outcome
+            return True if outcome is not None and outcome.ok else None
         if action in ("export", "copy"):
             outcome = self.bw.outcome
             return True if outcome is not None and outcome.ok else None

@@ -141,6 +141,12 @@ class ResultViews(Vertical):
         self._draw_results()
         self.show_view()
 
+    def on_resize(self) -> None:
+        # Crossing 100 columns changes the table's columns (share bars, whole Re): draw again
+        # (the drawn key says whether anything changed).
+        if self.is_attached:
+            self.show()
+
     def show_view(self) -> None:
         if self.view == "band":
             self._schedule_band()
@@ -224,11 +230,13 @@ class ResultViews(Vertical):
             solved.display = bool(text)
         lines = [f"⚠ {w.branch + ': ' if w.branch else ''}{app.say(w)}"
                  for w in result.warnings]
+        rec = shown.solved.reconciliation
+        weighed = [f"⚖ {rec.verdict}  (x: each reading)"] if rec is not None else []
         lines += [f"• {app.say(note)}" for note in (*shown.solved.notes, *result.notes)]
         lines += assumed_line(app, shown.solved)
         # The other readings against the answer first: on a walkdown they are the news.
-        self.warning_lines = self._reading_lines(shown) + lines
-        self.screen_lines = self._reading_lines(shown, short=not wide) + lines
+        self.warning_lines = weighed + self._reading_lines(shown) + lines
+        self.screen_lines = weighed + self._reading_lines(shown, short=not wide) + lines
         self._show_warnings(self._warning_room)
         self.call_after_refresh(self._fit_warnings)
 

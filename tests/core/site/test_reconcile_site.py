@@ -1,0 +1,67 @@
+"""A site's readings weighed together, end to end: site file in, reports and JSON out.
+
+The demo header (our own) with the gauge's 10 psid, a total-flow meter and a clamp-on on
+'AHU-3 coil'. The clamp-on is set 25 % high, far beyond its 3 % meter and the model's
+uncertainty, so the test must name it (rule: the maximum normalised residual points at the
+reading at fault, Narasimhan & Jordache 2000, 7.2); at what the demo solves to it must agree.
+"""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+
+from branchwise.core.errors import InputError
+from branchwise.core.report import render
+from branchwise.core.site.read import demo_text, parse_site
+from branchwise.core.site.solve import solve_site
+
+
+def _site(clamp_gpm: float | None, given: str = "pressure_drop", total: bool = True) -> str:
+    text = demo_text().replace('friction = "colebrook"', 'friction = "colebrook"\n'
+                               f'given = "{given}"' + ('\ntotal_flow = "620 gpm"' if total
+                                                       else ""))
+    if clamp_gpm is not None:
+        text = text.replace('# measured_flow = "80 gpm"', f'measured_flow = "{clamp_gpm} gpm"')
+    return text
+
+
+def test_readings_that_agree_pass():
+    plain = solve_site(parse_site(demo_text()))
+    gpm = plain.result.branch("AHU-3 coil").flow / (231 * 0.0254**3 / 60)  # NIST SP 811
+    rec = solve_site(parse_site(_site(round(gpm, 1)))).reconciliation
+    assert rec is not None and rec.consistent and rec.suspect is None
+    assert rec.degrees_of_freedom == 2 and "agree" in rec.verdict
+
+
+def test_a_clamp_on_far_off_is_named():
+    rec = solve_site(parse_site(_site(100))).reconciliation
+    assert rec is not None and not rec.consistent
+    assert rec.suspect is not None and rec.suspect.branch == "AHU-3 coil"
+    assert rec.without_suspect is not None and rec.without_suspect[1] >= 0.05
+    assert rec.verdict.startswith("The clamp-on on 'AHU-3 coil' disagrees with the other 2")
+
+
+def test_given_all_solves_from_the_reconciled_head():
+    weighed = solve_site(parse_site(_site(100, given="all")))
+    rec = weighed.reconciliation
+    assert rec is not None
+    assert weighed.result.pressure_drop == pytest.approx(rec.pressure_drop_pa, rel=1e-12)
+    assert weighed.result.total_flow == pytest.approx(rec.total_flow_m3_s, rel=1e-9)
+    doc = json.loads(render(weighed, "json"))
+    assert doc["given"]["quantity"] == "all"
+    assert doc["reconciliation"]["suspect"]["branch"] == "AHU-3 coil"
+    assert len(doc["reconciliation"]["readings"]) == 3
+    table = render(weighed, "table", "us")
+    assert "Readings weighed together" in table and "all 3 readings weighed" in table
+
+
+def test_one_reading_is_said_to_have_nothing_to_weigh():
+    one = solve_site(parse_site(demo_text()))
+    assert one.reconciliation is None
+    assert json.loads(render(one, "json"))["reconciliation"] is None
+    assert "One reading only: nothing to weigh it against" in render(one, "table")
+    with pytest.raises(InputError) as caught:
+        solve_site(parse_site(_site(None, given="all", total=False)))
+    assert caught.value.field == "conditions.given"

@@ -1,0 +1,38 @@
+"""Several readings on the Split screen: the verdict in one line, each reading on x, and
+"All readings, weighed" as one more given (the rule: Narasimhan & Jordache 2000, 7.2 — the
+largest normalised residual names the reading at fault)."""
+
+from __future__ import annotations
+
+from branchwise.tui.state.givens import add_reading, set_reading, weigh_all
+
+
+def test_the_verdict_the_readings_and_the_all_given(ui):
+    async def scenario() -> None:
+        async with ui.started("f4", size=(120, 40)) as (app, pilot):
+            def readings(s) -> None:
+                set_reading(s, "total_flow", "620 gpm")
+                add_reading(s, 2, "100 gpm")  # AHU-3 coil, far off
+
+            app.edit("Readings", readings)
+            await ui.settle(pilot)
+            lines = app.screen.views.warning_lines
+            assert lines[0].startswith("⚖ The clamp-on on 'AHU-3 coil' disagrees"), lines
+            await pilot.press("x")
+            await pilot.pause()
+            shown = " ".join(str(w.render()) for w in app.screen.query("Static"))
+            assert "Reconciled: pressure drop" in shown, shown
+            await pilot.press("escape")
+            await pilot.pause()
+
+            app.edit("Given: all readings, weighed", weigh_all)
+            await ui.settle(pilot)
+            rows = app.screen.query_one("GivenFindRows")
+            assert rows.query_one("#given-kind").value == "all"
+            assert not rows.query_one("#given-value").display
+            rec = app.outcome.solved.reconciliation
+            assert app.outcome.solved.result.pressure_drop == rec.pressure_drop_pa
+            status = str(app.screen.query_one("StatusStrip").render())
+            assert "all readings, weighed" in status, status
+
+    ui.run(scenario)
