@@ -16,7 +16,7 @@ from pathlib import Path
 
 _STARTED = time.perf_counter()
 
-from textual import work  # noqa: E402  (the clock above starts before Textual loads)
+from textual import events, work  # noqa: E402  (the clock above starts before Textual loads)
 from textual.app import App, SystemCommand  # noqa: E402
 from textual.binding import Binding  # noqa: E402
 from textual.message import Message  # noqa: E402
@@ -30,6 +30,7 @@ from branchwise.core.storage.settings import Settings  # noqa: E402
 from branchwise.core.units import Units  # noqa: E402
 
 from .files import SiteFiles  # noqa: E402
+from .keygate import KeyGate, Release  # noqa: E402
 from .keys import key_sections, system_commands  # noqa: E402
 from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
 from .state.outcome import Band, Outcome  # noqa: E402
@@ -109,6 +110,8 @@ class BranchwiseApp(App[None]):
         self._keys_timer: Timer | None = None
         self._key_state: tuple[object, ...] | None = None
         self._palette: Screen | None = None
+        self.key_gate = KeyGate(self)
+        """Keys typed in a burst, handled one after the other (see :mod:`.keygate`)."""
         self.files = SiteFiles(self)
         """Open, save, the recovery copy, exports: everything that touches files."""
         site, note, self._remember_on_start = self.files.first_site(
@@ -116,6 +119,27 @@ class BranchwiseApp(App[None]):
         self.session = Session(site)
         problems = [f"Settings: {p}" for p in self.settings.problems]
         self._note = "\n".join(filter(None, [note, *problems]))
+
+    # ---- keys, one after the other (see :mod:`.keygate`) -----------------------------------
+
+    async def on_event(self, event: events.Event) -> None:
+        if isinstance(event, events.Key):
+            if not event.is_forwarded and self.key_gate.hold(event):
+                return  # let go in its turn
+            await super().on_event(event)
+            if event.is_forwarded:
+                self.key_gate.handled(event)
+            return
+        await super().on_event(event)
+
+    def post_message(self, message: Message) -> bool:
+        gate = getattr(self, "key_gate", None)  # None while Textual's __init__ runs
+        if gate is not None:
+            gate.arrived(message)
+        return super().post_message(message)
+
+    async def on_release(self, _: Release) -> None:
+        await self.key_gate.turn()
 
     # ---- state the screens read --------------------------------------------------------------
 
