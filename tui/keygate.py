@@ -39,14 +39,14 @@ class Release(Message):
 
 def busy(pump: MessagePump) -> bool:
     """Whether ``pump`` has messages queued or one being handled."""
-    queue = pump._message_queue
+    queue: asyncio.Queue[object] = pump._message_queue
     return bool(getattr(queue, "_unfinished_tasks", 0) or not queue.empty())
 
 
 class KeyGate:
     """The keys of one app, held in order (see the module's text)."""
 
-    def __init__(self, app: App[object]) -> None:
+    def __init__(self, app: App[None]) -> None:
         self.app = app
         self.held: deque[events.Key] = deque()
         self.flight: events.Key | None = None
