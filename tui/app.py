@@ -118,7 +118,7 @@ class BranchwiseApp(App[None]):
             Path(site_path) if site_path else None)
         self.session = Session(site)
         problems = [f"Settings: {p}" for p in self.settings.problems]
-        self._note = "\n".join(filter(None, [note, *problems]))
+        self._note = "\n".join(filter(None, [note, _data_dir_note(), *problems]))
 
     # ---- keys, one after the other (see :mod:`.keygate`) -----------------------------------
 
@@ -195,8 +195,17 @@ class BranchwiseApp(App[None]):
     # ---- start ----------------------------------------------------------------------------------
 
     def on_mount(self) -> None:
+        from . import shutdown
+
+        shutdown.install(self, self.files)  # SIGTERM, SIGHUP: keep the work, end cleanly
         self.sub_title = self._subtitle()
         self.call_after_refresh(self._first_paint)
+
+    def on_unmount(self) -> None:
+        from . import shutdown
+
+        shutdown.remove()
+        self.files.recovery.keeper.release()  # a copy left now is offered to the next start
 
     def _first_paint(self) -> None:
         self.startup_seconds = time.perf_counter() - _STARTED
@@ -419,6 +428,14 @@ class BranchwiseApp(App[None]):
             self.settings.save()
         except (InputError, OSError) as exc:
             self.notify(f"Settings not saved: {exc}", severity="warning")
+
+
+def _data_dir_note() -> str:
+    """What is wrong with the data folder (a file where it should be), to say at start."""
+    from branchwise.core.storage.paths import data_dir_problem
+
+    problem = data_dir_problem()
+    return f"Nothing can be saved: {problem}." if problem else ""
 
 
 def main(site_path: Path | str | None = None) -> None:

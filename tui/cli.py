@@ -74,7 +74,9 @@ def _parser() -> argparse.ArgumentParser:
         help="also write the system curve (pressure drop and each branch's flow against the "
              "total flow, from zero to 1.5 times the operating point) as CSV to FILE, in the "
              "--units system with the unit in each column title")
-    band.add_argument("--force", action="store_true", help="replace an existing --curve FILE")
+    band.add_argument("--force", action="store_true",
+                      help="replace an existing --curve FILE or -o FILE (the old one is kept "
+                           "as FILE.bak)")
 
     demo = sub.add_parser(
         "demo", help="write the demo site to a file to start from",
@@ -89,6 +91,8 @@ def _parser() -> argparse.ArgumentParser:
         description="Open the app on a site file (until the app is installed: solve it).")
     open_.add_argument("site", type=Path, help="site file (TOML)")
     _output_options(open_)
+    open_.add_argument("--force", action="store_true",
+                       help="replace an existing -o FILE (the old one is kept as FILE.bak)")
 
     sub.add_parser("where", help="show where user files live",
                    description="Print the folders and files branchwise keeps for the user.")
@@ -164,12 +168,10 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
         if _same_file(curve_path, site_path) or _same_file(curve_path, output):
             raise InputError("--curve", str(curve_path), "is the site file or the --output "
                              "file; give the curve a file of its own")
-        if curve_path.exists() and not getattr(args, "force", False):
-            raise InputError("--curve", str(curve_path), "already exists; choose another name "
-                             "or add --force")
     if output is not None and _same_file(output, site_path):
         raise InputError("--output", str(output), "is the site file itself; the site file is "
                          "never overwritten")
+    _may_write(args, ("--curve", curve_path), ("--output", output))
     site = demo_site() if site_path is None else load_site(site_path)
     solved = solve_site(site)
     if getattr(args, "uncertainty", False) or samples_text is not None or seed_text is not None:
@@ -177,15 +179,27 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     curve_text = None if curve_path is None else _curve_csv(solved, units)
     text = render(solved, fmt, units)
     if curve_path is not None and curve_text is not None:
-        atomic_write_text(curve_path, curve_text, backup=False)
+        atomic_write_text(curve_path, curve_text, backup=True)
         points = curve_text.count("\n") - 1
         print(f"branchwise: system curve ({points} points) written to {curve_path}",
               file=sys.stderr)
     if output is None:
         out.write(text)
     else:
-        atomic_write_text(output, text, backup=False)
+        atomic_write_text(output, text, backup=True)
     return EXIT_OK
+
+
+def _may_write(args: argparse.Namespace | None, *targets: tuple[str, Path | None]) -> None:
+    """The one rule for a file the command line writes: a new file is written; an existing
+    one is replaced only with --force (kept as ``.bak``), never a FIFO, device or read-only
+    file."""
+    from branchwise.core.storage.file_checks import check_replace
+
+    force = bool(getattr(args, "force", False))
+    for option, path in targets:
+        if path is not None:
+            check_replace(path, option, force)
 
 
 def _curve_csv(solved: SiteResult, units: str) -> str:
@@ -206,19 +220,30 @@ def _curve_csv(solved: SiteResult, units: str) -> str:
 
 
 def _demo(path: Path, force: bool, out: TextIO) -> int:
-    from branchwise.core.errors import InputError
     from branchwise.core.site.read import DEMO_NAME, demo_text
     from branchwise.core.storage.atomic import atomic_write_text
+    from branchwise.core.storage.file_checks import check_replace
 
     if path.is_dir():
         path = path / DEMO_NAME
-    if path.exists() and not force:
-        raise InputError(path.name, str(path), "already exists; choose another name or add --force")
+    check_replace(path, path.name, force)
     atomic_write_text(path, demo_text(), backup=True)
+    word = shell_word(path)
     out.write(f"wrote the demo site to {path}\n"
-              f"open it in the app: branchwise open {path}\n"
-              f"or solve it here:   branchwise solve {path}\n")
+              f"open it in the app: branchwise open {word}\n"
+              f"or solve it here:   branchwise solve {word}\n")
     return EXIT_OK
+
+
+def shell_word(path: Path) -> str:
+    """``path`` as it can be pasted into a shell command: quoted where it needs quotes, and
+    ``./`` before a name that starts with ``-`` (it would read as an option)."""
+    import shlex
+
+    text = str(path)
+    if text.startswith("-"):
+        text = f".{'/'}{text}"
+    return shlex.quote(text)
 
 
 def _where(out: TextIO) -> int:
@@ -231,7 +256,17 @@ def _where(out: TextIO) -> int:
     for key, path in places.items():
         out.write(f"{labels.get(key, key).ljust(width)}  {path}\n")
     out.write(f"(set {DATA_DIR_ENV} to use another data folder)\n")
+    _say_data_dir_problem()
     return EXIT_OK
+
+
+def _say_data_dir_problem() -> None:
+    """A data folder that is a file, said on stderr (nothing could be saved there)."""
+    from branchwise.core.storage.paths import data_dir_problem
+
+    problem = data_dir_problem()
+    if problem:
+        print(f"branchwise: {problem}", file=sys.stderr)
 
 
 # ---- the app (another module; loaded only when a terminal can show it) ---------------------
@@ -308,7 +343,7 @@ def main(argv: list[str] | None = None) -> int:
             code = _launch_app(args.site)
             if code is not None:
                 return code
-            return _solve(args.site, args.units, args.format, args.output, out)
+            return _solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "solve":
             return _solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "demo":

@@ -129,7 +129,13 @@ class BranchForm(Dialog[BranchSpec | None]):
                                     id=f"f-{j}-{key}", placeholder=PLACEHOLDERS.get(key, ""))
             yield Static("", classes="form-message", markup=False)
 
+    _typed_at_start: dict[str, str] | None = None
+    """Each field's text as the form opened (to tell whether Esc would drop anything)."""
+    _segments_changed = False
+
     def on_mount(self) -> None:
+        if self._typed_at_start is None:
+            self._typed_at_start = {f.path: f.text for f in self.query(Field)}
         for field in self.query(Field):
             if field.kind:
                 field.set_unit(self.unit(field.kind))
@@ -296,6 +302,7 @@ class BranchForm(Dialog[BranchSpec | None]):
 
     async def _rebuild(self, branch: BranchSpec, focus_segment: int) -> None:
         """Show ``branch`` (one more or one fewer segment) with the focus on a segment."""
+        self._segments_changed = True
         self._rebuilding = True
         try:
             self.branch = branch
@@ -305,5 +312,43 @@ class BranchForm(Dialog[BranchSpec | None]):
         finally:
             self._rebuilding = False
 
+    def changed_fields(self) -> list[str]:
+        """The labels of the fields typed into since the form opened (segments added or
+        removed count as a change of their own)."""
+        start = self._typed_at_start or {}
+        changed = []
+        for field in self.query(Field):
+            if start.get(field.path, "") != field.text:
+                head = field.path.split(".")[0]
+                segment = f" (segment {int(head) + 1})" if head.isdigit() and len(
+                    self.branch.segments) > 1 else ""
+                changed.append(f"{field.label}{segment}")
+        if self._segments_changed:
+            changed.append("the segments")
+        return changed
+
     def action_cancel(self) -> None:
-        self.dismiss(None)
+        """Esc: leave at once when nothing was typed; else ask first, naming what would go."""
+        from ..dialogs import ChoiceScreen
+
+        changed = self.changed_fields()
+        if not changed:
+            self.dismiss(None)
+            return
+        valid = not any(self.check(f) for f in self.query(Field))
+        choices = [("d", "drop", "Drop the changes")]
+        if valid:
+            choices.append(("k", "keep", "Keep them"))
+        choices.append(("escape", "stay", "Go on editing"))
+        names = ", ".join(changed[:6]) + (" …" if len(changed) > 6 else "")
+        question = (f"You changed {names} of “{text_of(self.branch.name)}”. Leave the branch as "
+                    "it was?" + ("" if valid else " (Some fields read wrong, so keeping needs a "
+                                                  "fix first.)"))
+
+        def answer(choice: str | None) -> None:
+            if choice == "drop":
+                self.dismiss(None)
+            elif choice == "keep":
+                self.apply()
+
+        self.app.push_screen(ChoiceScreen("Drop the changes?", question, choices), answer)
