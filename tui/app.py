@@ -20,11 +20,13 @@ from textual import events, work  # noqa: E402  (the clock above starts before T
 from textual.app import App, SystemCommand  # noqa: E402
 from textual.binding import Binding  # noqa: E402
 from textual.message import Message  # noqa: E402
+from textual.notifications import SeverityLevel  # noqa: E402
 from textual.reactive import reactive  # noqa: E402
 from textual.screen import ModalScreen, Screen  # noqa: E402
 from textual.timer import Timer  # noqa: E402
 from textual.worker import get_current_worker  # noqa: E402
 
+from branchwise.core.errors import inert  # noqa: E402
 from branchwise.core.site.spec import Site  # noqa: E402
 from branchwise.core.storage.settings import Settings  # noqa: E402
 from branchwise.core.units import Units  # noqa: E402
@@ -34,7 +36,7 @@ from .keygate import KeyGate, Release  # noqa: E402
 from .keys import key_sections, system_commands  # noqa: E402
 from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
 from .state.outcome import Band, Outcome  # noqa: E402
-from .state.session import Session  # noqa: E402
+from .state.session import Session, inert_note  # noqa: E402
 
 KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
@@ -118,7 +120,8 @@ class BranchwiseApp(App[None]):
             Path(site_path) if site_path else None)
         self.session = Session(site)
         problems = [f"Settings: {p}" for p in self.settings.problems]
-        self._note = "\n".join(filter(None, [note, _data_dir_note(), *problems]))
+        self._note = "\n".join(filter(None, [note, _data_dir_note(), *problems,
+                                              inert_note(self.session)]))
 
     # ---- keys, one after the other (see :mod:`.keygate`) -----------------------------------
 
@@ -140,6 +143,13 @@ class BranchwiseApp(App[None]):
 
     async def on_release(self, _: Release) -> None:
         await self.key_gate.turn()
+
+    def notify(self, message: str, *, title: str = "", severity: SeverityLevel = "information",
+               timeout: float | None = None, markup: bool = False) -> None:
+        """A notice, its text shown as it is: a name or path in it is neither markup nor able
+        to send the terminal a command (control characters escaped)."""
+        super().notify(inert(message), title=inert(title), severity=severity, timeout=timeout,
+                       markup=markup)
 
     # ---- state the screens read --------------------------------------------------------------
 

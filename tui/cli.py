@@ -177,7 +177,7 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     if getattr(args, "uncertainty", False) or samples_text is not None or seed_text is not None:
         solved = with_uncertainty(solved, samples, seed)
     curve_text = None if curve_path is None else _curve_csv(solved, units)
-    text = render(solved, fmt, units)
+    text = inert_output(render(solved, fmt, units), fmt)
     if curve_path is not None and curve_text is not None:
         atomic_write_text(curve_path, curve_text, backup=True)
         points = curve_text.count("\n") - 1
@@ -188,6 +188,17 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     else:
         atomic_write_text(output, text, backup=True)
     return EXIT_OK
+
+
+def inert_output(text: str, fmt: str) -> str:
+    """A report safe to print: a control character in a name, tag or record line (the escape
+    that clears a terminal or sets its title) is shown escaped, as in error messages. JSON
+    escapes its own below U+0020; the rest get JSON's ``\\u`` escapes, so it stays valid."""
+    from branchwise.core.errors import inert
+
+    if fmt != "json":
+        return inert(text)
+    return "".join(f"\\u{ord(c):04x}" if inert(c) != c else c for c in text)
 
 
 def _may_write(args: argparse.Namespace | None, *targets: tuple[str, Path | None]) -> None:

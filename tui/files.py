@@ -209,6 +209,10 @@ class SiteFiles:
         self.ws.session.replace(site)
         self.ws.good = None
         self.ws.site_changed()
+        if self.ws.session.made_inert:
+            from .state.session import inert_note
+
+            self.app.notify(inert_note(self.ws.session), severity="warning", timeout=8)
         self.offer_recovery()
 
     def leave_site(self, go: Callable[[], object], doing: str) -> None:
