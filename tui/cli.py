@@ -160,6 +160,8 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     from branchwise.core.site.solve import solve_site, with_uncertainty
     from branchwise.core.storage.atomic import atomic_write_text
 
+    from .progress import Progress
+
     samples_text, seed_text = getattr(args, "samples", None), getattr(args, "seed", None)
     samples = _whole(samples_text, "--samples", SAMPLES_MIN, SAMPLES_MAX, SAMPLES_DEFAULT)
     seed = _whole(seed_text, "--seed", 0, None, 0)
@@ -172,12 +174,18 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
         raise InputError("--output", str(output), "is the site file itself; the site file is "
                          "never overwritten")
     _may_write(args, ("--curve", curve_path), ("--output", output))
-    site = demo_site() if site_path is None else load_site(site_path)
-    solved = solve_site(site)
-    if getattr(args, "uncertainty", False) or samples_text is not None or seed_text is not None:
-        solved = with_uncertainty(solved, samples, seed)
-    curve_text = None if curve_path is None else _curve_csv(solved, units)
-    text = inert_output(render(solved, fmt, units), fmt)
+    with Progress() as progress:  # a sign of life on stderr once the work takes a second
+        progress.stage(f"reading {site_path}" if site_path is not None else "reading the demo")
+        site = demo_site() if site_path is None else load_site(site_path)
+        progress.stage(f"working out {len(site.branches):,} branches")
+        solved = solve_site(site)
+        if (getattr(args, "uncertainty", False) or samples_text is not None
+                or seed_text is not None):
+            solved = with_uncertainty(solved, samples, seed, progress=progress.draws)
+        progress.stage("working out the system curve")
+        curve_text = None if curve_path is None else _curve_csv(solved, units)
+        progress.stage(f"writing the {fmt}")
+        text = inert_output(render(solved, fmt, units), fmt)
     if curve_path is not None and curve_text is not None:
         atomic_write_text(curve_path, curve_text, backup=True)
         points = curve_text.count("\n") - 1

@@ -22,6 +22,7 @@ from .spec import Site
 from .values import plain_number
 
 if TYPE_CHECKING:
+    from ..numerics.draws import Progress
     from ..numerics.uncertainty import Tolerances, UncertaintyResult
     from ..storage.presets import PresetSource
 
@@ -100,6 +101,7 @@ def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any
 def uncertainty_for_site(
     site: Site, samples: int = 10_000, seed: int = 0, presets: PresetSource | None = None,
     tolerances: Tolerances | None = None, built: Built | None = None,
+    progress: Progress | None = None,
 ) -> UncertaintyResult:
     """Monte Carlo bands, the GUM linear estimate and the ranking for ``site``
     (:func:`branchwise.core.numerics.uncertainty.monte_carlo`), with the site's own tolerances.
@@ -109,7 +111,8 @@ def uncertainty_for_site(
     the common-practice defaults without one). built: the site already built (saves a build).
     The temperature tolerance moves ν and ρ through the site's fluid model
     (:func:`~branchwise.core.site.tolerances.site_thermal`). Errors name the site's fields
-    (``tolerances.<key>``); nothing is printed.
+    (``tolerances.<key>``); nothing is printed. progress: told (rows solved, rows in all)
+    as the run goes; what it raises ends the run.
     """
     from ..numerics.uncertainty import Tolerances, monte_carlo
     from .tolerances import site_thermal
@@ -118,15 +121,18 @@ def uncertainty_for_site(
     tol = tolerances or built.tolerances or Tolerances()
     tol, thermal, notes = site_thermal(site, tol, presets)
     try:
-        res = monte_carlo(built.network, built.given, built.find, tol, samples, seed, thermal)
+        res = monte_carlo(built.network, built.given, built.find, tol, samples, seed, thermal,
+                          progress)
     except BranchwiseError as exc:
         raise exc.naming([b.name for b in built.network.branches]) from None
     return replace(res, notes=(*notes, *res.notes))
 
 
 def with_uncertainty(sr: SiteResult, samples: int = 10_000, seed: int = 0,
-                     presets: PresetSource | None = None) -> SiteResult:
+                     presets: PresetSource | None = None,
+                     progress: Progress | None = None) -> SiteResult:
     """``sr`` with its :attr:`SiteResult.uncertainty` filled (see :func:`uncertainty_for_site`);
     the reports then show the bands and the ranking."""
-    res = uncertainty_for_site(sr.site, samples, seed, presets, built=sr.built)
+    res = uncertainty_for_site(sr.site, samples, seed, presets, built=sr.built,
+                               progress=progress)
     return replace(sr, uncertainty=res)
