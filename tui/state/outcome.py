@@ -12,6 +12,7 @@ from __future__ import annotations
 import time
 from collections.abc import Callable
 from dataclasses import dataclass
+from time import monotonic
 from typing import TYPE_CHECKING, Any
 
 from branchwise.core.errors import BranchwiseError
@@ -91,13 +92,13 @@ def band_progress(cancelled: Callable[[], bool], report: Callable[[int, int], No
     chunk once ``cancelled()`` (so that quitting never waits for a long band), and hands
     (solves done, in all) to ``report`` at most every ``every`` seconds once the run has
     taken :data:`SHOW_AFTER` seconds."""
-    started = time.monotonic()
+    started = monotonic()
     last = [0.0]
 
     def progress(done: int, total: int) -> None:
         if cancelled():
             raise BandStopped
-        now = time.monotonic()
+        now = monotonic()
         if now - started >= SHOW_AFTER and now - last[0] >= every:
             last[0] = now
             report(done, total)
