@@ -125,7 +125,23 @@ def uncertainty_for_site(
                           progress)
     except BranchwiseError as exc:
         raise exc.naming([b.name for b in built.network.branches]) from None
-    return replace(res, notes=(*notes, *res.notes))
+    return _say_cv(site, replace(res, notes=(*notes, *res.notes)))
+
+
+def _say_cv(site: Site, res: UncertaintyResult) -> UncertaintyResult:
+    """The inputs of the branches whose valve was given by Cv named by Cv (the drawn factor
+    is the same on Kv and Cv: Cv = 1.156 Kv)."""
+    by_cv = {f"branch '{b.name}' valve Kv" for b in site.branches
+             if b.valve_cv is not None and b.valve_kv is None}
+    if not by_cv:
+        return res
+
+    def say(name: str) -> str:
+        return name[:-2] + "Cv" if name in by_cv else name
+
+    inputs = tuple(replace(i, name=say(i.name)) for i in res.inputs)
+    ranking = {out: [(say(n), share) for n, share in rows] for out, rows in res.ranking.items()}
+    return replace(res, inputs=inputs, ranking=ranking)
 
 
 def with_uncertainty(sr: SiteResult, samples: int = 10_000, seed: int = 0,
