@@ -24,9 +24,9 @@ class Progress:
     """What the command is doing now (:meth:`stage`), and how far the draws are (:meth:`draws`,
     the callback of a Monte Carlo run). A context manager: the line goes at the end."""
 
-    def __init__(self, stream: TextIO | None = None, delay: float = DELAY) -> None:
+    def __init__(self, stream: TextIO | None = None, delay: float | None = None) -> None:
         self.stream = sys.stderr if stream is None else stream
-        self.delay = delay
+        self.delay = DELAY if delay is None else delay
         self.started = time.monotonic()
         try:
             self.live = bool(self.stream.isatty())
@@ -69,7 +69,7 @@ class Progress:
                 self._line = False
 
     def _tick(self) -> None:
-        while not self._stop.wait(TICK):
+        while not self._stop.wait(TICK):  # (read each time: a test may make it short)
             seconds = time.monotonic() - self.started
             with self._lock:
                 if seconds < self.delay or not self._what or self._stop.is_set():

@@ -57,3 +57,27 @@ def test_a_monte_carlo_run_reports_its_solves(monkeypatch, capsys):
     assert main(["solve", "--samples", "20000"]) == 0
     assert seen and seen[-1][0] == seen[-1][1] > 20_000
     assert capsys.readouterr().err == ""  # not a terminal: nothing written
+
+
+def test_a_large_site_says_what_stage_it_is_in(tmp_path, monkeypatch):
+    """A site of many branches (the 100,000 of the report took most of a minute with no sign
+    of life): the line names the stage, with the number of branches."""
+    import sys
+
+    from branchwise.core.site.read import demo_site
+    from branchwise.core.site.spec import BranchSpec, SegmentSpec
+    from branchwise.core.site.write import save_site
+
+    site = demo_site()
+    site.branches = [BranchSpec(name=f"B{i}", segments=[SegmentSpec(
+        size="3 in sch 40", length="20 m", material="commercial-steel")])
+        for i in range(2_000)]
+    path = save_site(site, tmp_path / "big.toml")
+    monkeypatch.setattr(progress_module, "TICK", 0.002)
+    monkeypatch.setattr(progress_module, "DELAY", 0.0)
+    screen = Terminal()
+    monkeypatch.setattr(sys, "stderr", screen)
+    assert main(["solve", str(path), "-o", str(tmp_path / "out.txt")]) == 0
+    text = screen.getvalue()
+    assert "working out 2,000 branches" in text
+    assert text.endswith("\r\x1b[K")
