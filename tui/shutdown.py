@@ -1,8 +1,9 @@
 """Ending when told to: SIGTERM (``kill``, a shutdown) or SIGHUP (the terminal closed).
 
 Either signal writes the recovery copy at once (the usual copy waits for typing to pause, so an
-edit a moment old would be lost) and ends the app the ordinary way, which gives the terminal
-back as it was: main screen, mouse reporting off, cursor shown. Should the app not have ended
+edit a moment old would be lost), once the keys already typed have reached the site (at most
+:data:`SETTLE` seconds), and ends the app the ordinary way, which gives the terminal back as it
+was: main screen, mouse reporting off, cursor shown. Should the app not have ended
 within :data:`GRACE` seconds (something stuck), the terminal is put back by hand and the
 process ends with the signal's exit status (128 + its number).
 """
@@ -56,11 +57,26 @@ def remove() -> None:
             return
 
 
+SETTLE = 1.0
+"""Seconds the keys typed before the signal may take to reach the site (a busy app handles
+them a moment late) before the copy is written without them."""
+
+
 def _ended(app: App[None], files: SiteFiles, number: int) -> None:
-    files.write_recovery_now()
     status = 128 + number
     watchdog = threading.Thread(target=_force, args=(app, status), daemon=True)
     watchdog.start()
+    asyncio.ensure_future(_end(app, files, status))
+
+
+async def _end(app: App[None], files: SiteFiles, status: int) -> None:
+    """Let the keys already typed reach the site, write the copy, end the app."""
+    gate = getattr(app, "key_gate", None)
+    waited = 0.0
+    while gate is not None and not gate.settled() and waited < SETTLE:
+        await asyncio.sleep(0.01)
+        waited += 0.01
+    files.write_recovery_now()
     app.exit(return_code=status)
 
 
