@@ -22,6 +22,7 @@ from branchwise.core.site.read import parse_site
 from branchwise.core.site.spec import Site
 from branchwise.core.storage.recovery import Copy, Keeper
 
+from .state.values import shown_path
 from .workspace import workspace
 
 RECOVERY_DELAY = 1.0
@@ -115,8 +116,8 @@ class Recovery:
 
     def offer(self) -> None:
         """If a copy of this site was left by an instance that ended without saving, offer to
-        bring it back (the newest first; the others after). Copies held by instances that
-        still run are only mentioned."""
+        bring it back (the newest; older ones stay in the recovery folder, and the question
+        says how many). Copies held by instances that still run are only mentioned."""
         path = self.ws.session.path
         busy = self.keeper.held_by_others(path)
         if busy:
@@ -126,9 +127,9 @@ class Recovery:
                             timeout=8)
         left = self.keeper.left_behind(path)
         if left:
-            self._offer(left[0], path)
+            self._offer(left[0], path, len(left) - 1)
 
-    def _offer(self, copy: Copy, site_path: Path | None) -> None:
+    def _offer(self, copy: Copy, site_path: Path | None, more: int = 0) -> None:
         from .screens.dialogs import ChoiceScreen
 
         try:
@@ -164,9 +165,11 @@ class Recovery:
             elif choice == "discard":
                 self._discard(copy)
 
+        others = (f" ({more} older cop{'y' if more == 1 else 'ies'} of this site stay in "
+                  f"{shown_path(copy.path.parent)}.)" if more else "")
         question = (f"Unsaved changes to “{inert(recovered.title)}” from {when} were kept in a "
                     f"recovery copy by a branchwise that ended without saving.{older} Bring "
-                    "them back?")
+                    f"them back?{others}")
         self.app.push_screen(ChoiceScreen("Recovered work", question,
                                           [("r", "restore", "Restore them"),
                                            ("d", "discard", "Discard them"),
