@@ -62,6 +62,31 @@ def one_line(text: str) -> str:
     return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
+_BIDI = frozenset("\u202a\u202b\u202c\u202d\u202e\u2066\u2067\u2068\u2069")
+"""Marks that reorder the text around them on screen (a name could read backwards)."""
+
+
+def inert(text: str) -> str:
+    """``text`` safe to print to a terminal: control characters other than line breaks and
+    tabs (the escape that starts a terminal command, a carriage return, a bell) and marks that
+    reorder text are shown escaped (``\\x1b``), so a name, tag or note read from a file can
+    neither clear the screen, set the window title nor hide what follows it."""
+    if text.isprintable():
+        return text
+    return "".join(repr(c)[1:-1] if (not c.isprintable() and c not in "\n\t"
+                                     and (ord(c) < 0x20 or 0x7f <= ord(c) < 0xa0))
+                   or c in _BIDI else c for c in text)
+
+
+def inert_output(text: str, fmt: str) -> str:
+    """A report in format ``fmt`` safe to print: a control character in a name, tag or record
+    line is shown escaped as :func:`inert` does. JSON escapes its own below U+0020; the rest
+    get JSON's ``\\u`` escapes, so that it stays valid JSON."""
+    if fmt != "json":
+        return inert(text)
+    return "".join(f"\\u{ord(c):04x}" if inert(c) != c else c for c in text)
+
+
 class NoSolutionError(BranchwiseError):
     """Valid inputs for which no answer exists; the message states the limit.
 

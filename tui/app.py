@@ -16,24 +16,27 @@ from pathlib import Path
 
 _STARTED = time.perf_counter()
 
-from textual import work  # noqa: E402  (the clock above starts before Textual loads)
+from textual import events, work  # noqa: E402  (the clock above starts before Textual loads)
 from textual.app import App, SystemCommand  # noqa: E402
 from textual.binding import Binding  # noqa: E402
 from textual.message import Message  # noqa: E402
+from textual.notifications import SeverityLevel  # noqa: E402
 from textual.reactive import reactive  # noqa: E402
 from textual.screen import ModalScreen, Screen  # noqa: E402
 from textual.timer import Timer  # noqa: E402
 from textual.worker import get_current_worker  # noqa: E402
 
+from branchwise.core.errors import inert  # noqa: E402
 from branchwise.core.site.spec import Site  # noqa: E402
 from branchwise.core.storage.settings import Settings  # noqa: E402
 from branchwise.core.units import Units  # noqa: E402
 
 from .files import SiteFiles  # noqa: E402
+from .keygate import KeyGate, Release  # noqa: E402
 from .keys import key_sections, system_commands  # noqa: E402
 from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
 from .state.outcome import Band, Outcome  # noqa: E402
-from .state.session import Session  # noqa: E402
+from .state.session import Session, inert_note  # noqa: E402
 
 KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
@@ -109,13 +112,44 @@ class BranchwiseApp(App[None]):
         self._keys_timer: Timer | None = None
         self._key_state: tuple[object, ...] | None = None
         self._palette: Screen | None = None
+        self.key_gate = KeyGate(self)
+        """Keys typed in a burst, handled one after the other (see :mod:`.keygate`)."""
         self.files = SiteFiles(self)
         """Open, save, the recovery copy, exports: everything that touches files."""
         site, note, self._remember_on_start = self.files.first_site(
             Path(site_path) if site_path else None)
         self.session = Session(site)
         problems = [f"Settings: {p}" for p in self.settings.problems]
-        self._note = "\n".join(filter(None, [note, *problems]))
+        self._note = "\n".join(filter(None, [note, _data_dir_note(), *problems,
+                                              inert_note(self.session)]))
+
+    # ---- keys, one after the other (see :mod:`.keygate`) -----------------------------------
+
+    async def on_event(self, event: events.Event) -> None:
+        if isinstance(event, events.Key):
+            if not event.is_forwarded and self.key_gate.hold(event):
+                return  # let go in its turn
+            await super().on_event(event)
+            if event.is_forwarded:
+                self.key_gate.handled(event)
+            return
+        await super().on_event(event)
+
+    def post_message(self, message: Message) -> bool:
+        gate = getattr(self, "key_gate", None)  # None while Textual's __init__ runs
+        if gate is not None:
+            gate.arrived(message)
+        return super().post_message(message)
+
+    async def on_release(self, _: Release) -> None:
+        await self.key_gate.turn()
+
+    def notify(self, message: str, *, title: str = "", severity: SeverityLevel = "information",
+               timeout: float | None = None, markup: bool = False) -> None:
+        """A notice, its text shown as it is: a name or path in it is neither markup nor able
+        to send the terminal a command (control characters escaped)."""
+        super().notify(inert(message), title=inert(title), severity=severity, timeout=timeout,
+                       markup=markup)
 
     # ---- state the screens read --------------------------------------------------------------
 
@@ -171,6 +205,9 @@ class BranchwiseApp(App[None]):
     # ---- start ----------------------------------------------------------------------------------
 
     def on_mount(self) -> None:
+        from . import shutdown
+
+        shutdown.install(self, self.files)  # SIGTERM, SIGHUP: keep the work, end cleanly
         theme = self.settings.theme
         if theme is not None and theme in self.available_themes:
             self.theme = theme  # the theme chosen last time (Ctrl+P, "Change theme")
@@ -179,6 +216,12 @@ class BranchwiseApp(App[None]):
                                                               "here; the default is used."]))
         self.sub_title = self._subtitle()
         self.call_after_refresh(self._first_paint)
+
+    def on_unmount(self) -> None:
+        from . import shutdown
+
+        shutdown.remove()
+        self.files.recovery.keeper.release()  # a copy left now is offered to the next start
 
     def _first_paint(self) -> None:
         self.startup_seconds = time.perf_counter() - _STARTED
@@ -417,6 +460,14 @@ class BranchwiseApp(App[None]):
             self.settings.save()
         except (InputError, OSError) as exc:
             self.notify(f"Settings not saved: {exc}", severity="warning")
+
+
+def _data_dir_note() -> str:
+    """What is wrong with the data folder (a file where it should be), to say at start."""
+    from branchwise.core.storage.paths import data_dir_problem
+
+    problem = data_dir_problem()
+    return f"Nothing can be saved: {problem}." if problem else ""
 
 
 def main(site_path: Path | str | None = None) -> None:

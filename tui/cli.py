@@ -99,7 +99,9 @@ def _parser() -> argparse.ArgumentParser:
              "total flow, from zero to 1.5 times the operating point) to FILE, in the --units "
              "system: an image when FILE ends in .svg, else CSV with the unit in each column "
              "title")
-    band.add_argument("--force", action="store_true", help="replace an existing --curve FILE")
+    band.add_argument("--force", action="store_true",
+                      help="replace an existing --curve FILE or -o FILE (the old one is kept "
+                           "as FILE.bak)")
 
     demo = sub.add_parser(
         "demo", help="write the demo site to a file to start from",
@@ -114,6 +116,8 @@ def _parser() -> argparse.ArgumentParser:
         description="Open the app on a site file (until the app is installed: solve it).")
     open_.add_argument("site", type=Path, help="site file (TOML)")
     _output_options(open_)
+    open_.add_argument("--force", action="store_true",
+                       help="replace an existing -o FILE (the old one is kept as FILE.bak)")
 
     history = sub.add_parser(
         "history", help="each visit solved, and how each branch changed between visits",
@@ -126,6 +130,8 @@ def _parser() -> argparse.ArgumentParser:
     history.add_argument("site", type=Path,
                          help="site file (TOML), or - to read it from standard input")
     _output_options(history)
+    history.add_argument("--force", action="store_true",
+                         help="replace an existing -o FILE (the old one is kept as FILE.bak)")
 
     sub.add_parser("where", help="show where user files live",
                    description="Print the folders and files branchwise keeps for the user.")
@@ -252,6 +258,8 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     from branchwise.core.site.solve import solve_site, with_uncertainty
     from branchwise.core.storage.atomic import atomic_write_text
 
+    from .progress import Progress
+
     samples_text, seed_text = getattr(args, "samples", None), getattr(args, "seed", None)
     samples = _whole(samples_text, "--samples", SAMPLES_MIN, SAMPLES_MAX, SAMPLES_DEFAULT)
     seed = _whole(seed_text, "--seed", 0, None, 0)
@@ -262,21 +270,28 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
         if _same_file(curve_path, site_path) or _same_file(curve_path, output):
             raise InputError("--curve", str(curve_path), "is the site file or the --output "
                              "file; give the curve a file of its own")
-        if curve_path.exists() and not getattr(args, "force", False):
-            raise InputError("--curve", str(curve_path), "already exists; choose another name "
-                             "or add --force")
     if output is not None and _same_file(output, site_path):
         raise InputError("--output", str(output), "is the site file itself; the site file is "
                          "never overwritten")
+    _may_write(args, ("--curve", curve_path), ("--output", output))
     width = _width(args, output)
-    site = demo_site() if site_path is None else _load(site_path)
-    solved = solve_site(site)
-    if getattr(args, "uncertainty", False) or samples_text is not None or seed_text is not None:
-        solved = with_uncertainty(solved, samples, seed)
-    curve_text = None if curve_path is None else _curve_csv(solved, units, curve_path)
-    text = render(solved, fmt, units, width) if fmt == "table" else render(solved, fmt, units)
+    with Progress() as progress:  # a sign of life on stderr once the work takes a second
+        progress.stage(f"reading {site_path}" if site_path is not None else "reading the demo")
+        site = demo_site() if site_path is None else _load(site_path)
+        progress.stage(f"working out {len(site.branches):,} branches")
+        solved = solve_site(site)
+        if (getattr(args, "uncertainty", False) or samples_text is not None
+                or seed_text is not None):
+            solved = with_uncertainty(solved, samples, seed, progress=progress.draws)
+        progress.stage("working out the system curve")
+        curve_text = None if curve_path is None else _curve_csv(solved, units, curve_path)
+        progress.stage(f"writing the {fmt}")
+        from branchwise.core.errors import inert_output
+
+        text = inert_output(render(solved, fmt, units, width) if fmt == "table"
+                            else render(solved, fmt, units), fmt)
     if curve_path is not None and curve_text is not None:
-        atomic_write_text(curve_path, curve_text, backup=False)
+        atomic_write_text(curve_path, curve_text, backup=True)
         kind = "image" if curve_path.suffix.lower() == ".svg" else (
             f"{curve_text.count(chr(10)) - 1} points")
         print(f"branchwise: system curve ({kind}) written to {curve_path}",
@@ -286,20 +301,33 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     if output is None or _is_stdio(output):
         out.write(text)
     else:
-        atomic_write_text(output, text, backup=False)
+        atomic_write_text(output, text, backup=True)
     return EXIT_OK
 
 
 def _csv_cautions(solved: SiteResult, units: str) -> None:
     """What was assumed, the warnings and the cautions of a CSV's answer, on standard error."""
+    from branchwise.core.errors import inert
     from branchwise.core.report.lines import CAUTIONS, assumed_lines, warning_lines
 
     for line in assumed_lines(solved, units):
-        print(f"branchwise: assumed: {line}", file=sys.stderr)
+        print(f"branchwise: assumed: {inert(line)}", file=sys.stderr)
     for line in warning_lines(solved, units):
-        print(f"branchwise: warning: {line}", file=sys.stderr)
+        print(f"branchwise: warning: {inert(line)}", file=sys.stderr)
     for line in CAUTIONS:
         print(f"branchwise: caution: {line}", file=sys.stderr)
+
+
+def _may_write(args: argparse.Namespace | None, *targets: tuple[str, Path | None]) -> None:
+    """The one rule for a file the command line writes: a new file is written; an existing
+    one is replaced only with --force (kept as ``.bak``), never a FIFO, device or read-only
+    file."""
+    from branchwise.core.storage.file_checks import check_replace
+
+    force = bool(getattr(args, "force", False))
+    for option, path in targets:
+        if path is not None and not _is_stdio(path):
+            check_replace(path, option, force)
 
 
 def _curve_csv(solved: SiteResult, units: str, path: Path | None = None) -> str:
@@ -326,19 +354,30 @@ def _curve_csv(solved: SiteResult, units: str, path: Path | None = None) -> str:
 
 
 def _demo(path: Path, force: bool, out: TextIO) -> int:
-    from branchwise.core.errors import InputError
     from branchwise.core.site.read import DEMO_NAME, demo_text
     from branchwise.core.storage.atomic import atomic_write_text
+    from branchwise.core.storage.file_checks import check_replace
 
     if path.is_dir():
         path = path / DEMO_NAME
-    if path.exists() and not force:
-        raise InputError(path.name, str(path), "already exists; choose another name or add --force")
+    check_replace(path, path.name, force)
     atomic_write_text(path, demo_text(), backup=True)
+    word = shell_word(path)
     out.write(f"wrote the demo site to {path}\n"
-              f"open it in the app: branchwise open {path}\n"
-              f"or solve it here:   branchwise solve {path}\n")
+              f"open it in the app: branchwise open {word}\n"
+              f"or solve it here:   branchwise solve {word}\n")
     return EXIT_OK
+
+
+def shell_word(path: Path) -> str:
+    """``path`` as it can be pasted into a shell command: quoted where it needs quotes, and
+    ``./`` before a name that starts with ``-`` (it would read as an option)."""
+    import shlex
+
+    text = str(path)
+    if text.startswith("-"):
+        text = f".{'/'}{text}"
+    return shlex.quote(text)
 
 
 def _where(out: TextIO) -> int:
@@ -351,7 +390,17 @@ def _where(out: TextIO) -> int:
     for key, path in places.items():
         out.write(f"{labels.get(key, key).ljust(width)}  {path}\n")
     out.write(f"(set {DATA_DIR_ENV} to use another data folder)\n")
+    _say_data_dir_problem()
     return EXIT_OK
+
+
+def _say_data_dir_problem() -> None:
+    """A data folder that is a file, said on stderr (nothing could be saved there)."""
+    from branchwise.core.storage.paths import data_dir_problem
+
+    problem = data_dir_problem()
+    if problem:
+        print(f"branchwise: {problem}", file=sys.stderr)
 
 
 # ---- the app (another module; loaded only when a terminal can show it) ---------------------
@@ -432,7 +481,7 @@ def main(argv: list[str] | None = None) -> int:
             code = _launch_app(args.site)
             if code is not None:
                 return code
-            return _solve(args.site, args.units, args.format, args.output, out)
+            return _solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "solve":
             return _solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "demo":
@@ -445,6 +494,7 @@ def main(argv: list[str] | None = None) -> int:
 
                 raise InputError("--output", str(args.output), "is the site file itself; the "
                                  "site file is never overwritten")
+            _may_write(args, ("--output", args.output))
             return run_history(_load(args.site), args.units, args.format, args.output,
                                _width(args, args.output), out, sys.stderr)
         if args.command == "presets":

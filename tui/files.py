@@ -14,18 +14,15 @@ from datetime import datetime
 from pathlib import Path
 
 from textual.app import App
-from textual.timer import Timer
 
-from branchwise.core.errors import InputError
-from branchwise.core.site.read import demo_site, load_site, parse_site
+from branchwise.core.errors import InputError, inert
+from branchwise.core.site.read import demo_site, load_site
 from branchwise.core.site.spec import BranchSpec, ConditionsSpec, FluidSpec, SegmentSpec, Site
-from branchwise.core.storage.paths import recovery_path, sites_dir
+from branchwise.core.storage.paths import sites_dir
 
+from .recovery import Recovery
 from .state.values import shown_path
 from .workspace import workspace
-
-RECOVERY_DELAY = 1.0
-"""Seconds of quiet after a change before the recovery copy is written."""
 
 
 def new_site() -> Site:
@@ -52,7 +49,8 @@ class SiteFiles:
         self.app = app
         self.ws = workspace(app)
         """The same app as the workspace it is: the site, the settings, the answer."""
-        self._recovery_timer: Timer | None = None
+        self.recovery = Recovery(app)
+        """This instance's recovery copy of the present site."""
 
     def first_site(self, path: Path | None) -> tuple[Site, str, bool]:
         """The site to start on, a note to show (a file that could not be opened), and whether
@@ -71,87 +69,70 @@ class SiteFiles:
         settings.remember_site(path)
         return site, "", True
 
-    # ---- recovery ---------------------------------------------------------------------------
+    # ---- recovery (see :mod:`.recovery`) ------------------------------------------------------
 
     def recovery_file(self) -> Path:
-        return recovery_path(self.ws.session.path)
+        return self.recovery.copy_path()
 
     def schedule_recovery(self) -> None:
-        if self._recovery_timer is not None:
-            self._recovery_timer.stop()
-        self._recovery_timer = self.app.set_timer(RECOVERY_DELAY, self.write_recovery)
+        self.recovery.schedule()
 
     def write_recovery(self) -> None:
-        if self.ws.session.dirty:
-            self._write_recovery(self.ws.session.site, self.recovery_file())
+        self.recovery.write()
 
-    def _write_recovery(self, site: Site, path: Path) -> None:
-        """Write the copy in a thread worker (one at a time: a newer copy replaces an older)."""
-        def write() -> None:
-            from branchwise.core.site.write import dump_site
-            from branchwise.core.storage.atomic import atomic_write_text
+    def write_recovery_now(self) -> bool:
+        return self.recovery.write_now()
 
-            try:
-                atomic_write_text(path, dump_site(site), backup=False)
-            except InputError as exc:
-                self.app.call_from_thread(self.app.notify, f"Recovery copy not written: {exc}",
-                                          severity="warning")
-
-        self.app.run_worker(write, thread=True, exclusive=True, exit_on_error=False,
-                            group="recovery")
-
-    def drop_recovery(self, path: Path | None = None) -> None:
-        if self._recovery_timer is not None:
-            self._recovery_timer.stop()
-        target = path or self.recovery_file()
-        try:
-            target.unlink(missing_ok=True)
-        except OSError as exc:
-            self.app.notify(f"Could not remove the recovery copy {target}: {exc}",
-                        severity="warning")
+    def drop_recovery(self) -> None:
+        self.recovery.drop()
 
     def offer_recovery(self) -> None:
-        """If a recovery copy of this site is lying about, offer to bring it back."""
-        from .screens.dialogs import ChoiceScreen
-
-        path = self.recovery_file()
-        try:
-            text = path.read_text(encoding="utf-8")
-            when = datetime.fromtimestamp(path.stat().st_mtime).strftime("%Y-%m-%d %H:%M")
-        except (OSError, UnicodeDecodeError):
-            return
-        try:
-            recovered = parse_site(text, path)
-        except InputError as exc:
-            self.app.notify(f"A recovery copy could not be read ({exc}); it is left at {path}.",
-                        severity="warning")
-            return
-
-        def answer(choice: str | None) -> None:
-            if choice == "restore":
-                source = self.ws.session.path
-                recovered.source, recovered.origin = source, self.ws.session.site.origin
-                self.ws.session.replace(recovered)
-                self.ws.session.mark_unsaved()  # restored work is unsaved work
-                self.ws.site_changed()
-                self.app.notify("Restored the unsaved changes.")
-            elif choice == "discard":
-                self.drop_recovery(path)
-
-        question = (f"Unsaved changes to “{recovered.title}” from {when} were kept in a "
-                    "recovery copy. Bring them back?")
-        self.app.push_screen(ChoiceScreen("Recovered work", question,
-                                      [("r", "restore", "Restore them"),
-                                       ("d", "discard", "Discard them"),
-                                       ("escape", "later", "Decide later")]), answer)
+        self.recovery.offer()
 
     # ---- save ---------------------------------------------------------------------------------
 
     def save(self) -> None:
-        if self.ws.session.path is None:
-            self.save_as()
-        else:
-            self.save_to(self.ws.session.path)
+        def go() -> None:
+            if self.ws.session.path is None:
+                self.save_as()
+            else:
+                self.save_to(self.ws.session.path)
+
+        self.unless_wrong(go)
+
+    def unless_wrong(self, go: Callable[[], object],
+                     cancel: Callable[[], object] | None = None) -> None:
+        """Run ``go`` (a save) at once when every field reads well; with a field in error,
+        first ask, saying what the file will hold."""
+        from .screens.dialogs import ChoiceScreen
+
+        error = self.input_error()
+        if error is None:
+            go()
+            return
+
+        def answer(choice: str | None) -> None:
+            if choice == "save":
+                go()
+            elif cancel is not None:
+                cancel()
+
+        typed = inert(str(error.value))
+        question = (f"{self.ws.error_words(error)}.\n\nSaved now, the file keeps “{typed}” as "
+                    "typed, and opens with this same message until it is put right.")
+        self.app.push_screen(ChoiceScreen("Save with a field in error?", question,
+                                          [("s", "save", "Save as it is"),
+                                           ("escape", "back", "Go back and fix it")]), answer)
+
+    def input_error(self) -> InputError | None:
+        """The error of a field of the present site, if one reads wrong (an answer that does
+        not exist for valid values is no such error)."""
+        outcome = self.ws.outcome
+        if outcome is None or outcome.revision != self.ws.session.revision:
+            from .state.outcome import compute
+
+            outcome = compute(self.ws.session.site, self.ws.session.revision)
+        return outcome.error if isinstance(outcome.error, InputError) else None
 
     def save_as(self, then: object = None) -> None:
         from .screens.dialogs import SaveAsScreen
@@ -173,24 +154,25 @@ class SiteFiles:
 
         from .screens.dialogs import ChoiceScreen
 
-        old_recovery = self.recovery_file()
+        old_site = self.ws.session.path
         site = self.ws.session.site
         try:
             save_site(site, path, overwrite=overwrite)
         except InputError as exc:
-            if path.exists() and not overwrite:
+            if (path.exists() or path.is_symlink()) and not overwrite:
                 def answer(choice: str | None) -> None:
                     if choice == "replace":
                         self.save_to(path, overwrite=True, then=then)
 
-                self.app.push_screen(ChoiceScreen("Replace file?", f"{exc}.",
+                title, question = replace_question(path, exc.reason)
+                self.app.push_screen(ChoiceScreen(title, question,
                                               [("y", "replace", "Replace it"),
                                                ("escape", "cancel", "Cancel")]), answer)
             else:
                 self.app.notify(str(exc), title="Not saved", severity="error", timeout=10)
             return False
         self.ws.session.mark_saved()
-        self.drop_recovery(old_recovery)
+        self.recovery.drop_copy_of(old_site)
         self.ws.settings.remember_site(path)
         self.ws.save_settings()
         self.ws.site_changed()
@@ -232,6 +214,10 @@ class SiteFiles:
         self.ws.session.replace(site)
         self.ws.good = None
         self.ws.site_changed()
+        if self.ws.session.made_inert:
+            from .state.session import inert_note
+
+            self.app.notify(inert_note(self.ws.session), severity="warning", timeout=8)
         self.offer_recovery()
 
     def leave_site(self, go: Callable[[], object], doing: str) -> None:
@@ -244,10 +230,9 @@ class SiteFiles:
 
         def answer(choice: str | None) -> None:
             if choice == "save":
-                if self.ws.session.path is None:
-                    self.save_as(then=go)
-                else:
-                    self.save_to(self.ws.session.path, then=go)
+                path = self.ws.session.path
+                self.unless_wrong(lambda: self.save_as(then=go) if path is None
+                                  else self.save_to(path, then=go))
             elif choice == "drop":
                 self.drop_recovery()
                 go()
@@ -323,6 +308,15 @@ class SiteFiles:
         title = {"markdown": "Walkdown record (Markdown)",
                  "html": "Walkdown report (HTML)"}.get(fmt, "Results (CSV)")
         self.app.push_screen(SaveAsScreen(folder, name, title=title, suffix=suffix), chosen)
+
+
+def replace_question(path: Path, reason: str) -> tuple[str, str]:
+    """The title and question before a save replaces the file at ``path``."""
+    where = file_and_folder(path)
+    if reason.startswith("is read-only"):
+        return ("Read-only file", f"{where}\nis read-only. Replace it all the same? It stays "
+                "read-only; the version replaced is kept as .bak.")
+    return "Replace file?", f"{where}\n{reason}. Replace it? (The old one is kept as .bak.)"
 
 
 def file_and_folder(path: Path) -> str:

@@ -17,20 +17,21 @@ from branchwise.core.site.spec import Site
 def run_history(site: Site, units: str, fmt: str, output: Path | None, width: int,
                 out: TextIO, err: TextIO) -> int:
     """Work out ``site``'s history and write it (see the module docstring); exit status 0."""
+    from branchwise.core.errors import inert_output
     from branchwise.core.history import history_of
     from branchwise.core.report import render_history
     from branchwise.core.report.lines import CAUTIONS
     from branchwise.core.storage.atomic import atomic_write_text
 
     history = history_of(site)
-    text = render_history(history, fmt, units, width)
+    text = inert_output(render_history(history, fmt, units, width), fmt)
     if fmt == "csv":  # the CSV is data only: what must not be lost goes to standard error
         for line in history.messages():
-            print(f"branchwise: flagged: {line}", file=err)
+            print(f"branchwise: flagged: {inert_output(line, 'csv')}", file=err)
         for line in CAUTIONS:
             print(f"branchwise: caution: {line}", file=err)
     if output is None or str(output) == "-":
         out.write(text)
     else:
-        atomic_write_text(output, text, backup=False)
+        atomic_write_text(output, text, backup=True)
     return 0

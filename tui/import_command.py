@@ -21,18 +21,15 @@ MAX_BYTES = 16 * 1024 * 1024
 def read_text(path: Path, label: str) -> str:
     """A text file, or standard input for ``-``, as UTF-8 (a byte-order mark dropped); at most
     :data:`MAX_BYTES`; every failure an InputError naming ``label``."""
-    try:
-        if str(path) == "-":
+    from branchwise.core.storage.file_checks import read_bytes
+
+    if str(path) != "-":  # a regular file only, checked before it is opened (never a FIFO)
+        data = read_bytes(path, label, MAX_BYTES)
+    else:
+        try:
             data = sys.stdin.buffer.read(MAX_BYTES + 1)
-        else:
-            with open(path, "rb") as f:
-                data = f.read(MAX_BYTES + 1)
-    except FileNotFoundError:
-        raise InputError(label, str(path), "file not found") from None
-    except IsADirectoryError:
-        raise InputError(label, str(path), "is a folder, not a file") from None
-    except OSError as exc:
-        raise InputError(label, str(path), f"cannot read: {exc.strerror or exc}") from None
+        except OSError as exc:
+            raise InputError(label, str(path), f"cannot read: {exc.strerror or exc}") from None
     if len(data) > MAX_BYTES:
         raise InputError(label, f"more than {MAX_BYTES // 2**20} MiB", "is too large")
     try:
@@ -50,6 +47,7 @@ def run_import(lines: Path, output: Path | None, template: Path | None, force: b
     from branchwise.core.site.read import load_site
     from branchwise.core.site.write import dump_site
     from branchwise.core.storage.atomic import atomic_write_text
+    from branchwise.core.storage.file_checks import check_replace
 
     label = "<stdin>" if str(lines) == "-" else lines.name
     to_stdout = output is None or str(output) == "-"
@@ -57,9 +55,7 @@ def run_import(lines: Path, output: Path | None, template: Path | None, force: b
         if str(lines) != "-" and lines.exists() and output.resolve() == lines.resolve():
             raise InputError("--output", str(output), "is the line list itself; give the site "
                              "a file of its own")
-        if output.exists() and not force:
-            raise InputError("--output", str(output), "already exists; choose another name or "
-                             "add --force")
+        check_replace(output, "--output", force)
     like = load_site(template) if template is not None else None
     try:
         listed = read_line_list(read_text(lines, label), label)

@@ -36,11 +36,44 @@ def run_presets(action: str, kind: str | None, key: str | None, values: list[str
         pairs[name.strip()] = value.strip()
     if not pairs:
         raise InputError(f"{kind}.{key}", "nothing", "give at least one NAME=VALUE")
+    if kind == "fluids" and key in LIQUIDS:
+        raise InputError(f"{kind}.{key}", key, "is a built-in liquid, which a site always takes "
+                         "over a preset; give yours another key (such as site-" + key + ")")
+    checked = check_preset(kind, key, pairs)
+    if kind == "fluids":
+        _try_liquid(key, checked)
     replaced = presets.is_user(kind, key)
-    presets.put(kind, key, check_preset(kind, key, pairs))
+    presets.put(kind, key, checked)
     print(f"{'replaced' if replaced else 'saved'} {kind} preset '{key}' in {presets.path}",
           file=out)
     return 0
+
+
+def _try_liquid(key: str, values: dict[str, object]) -> None:
+    """Work the liquid out once, as a site using it would (at the temperature it gives, or
+    20 °C), so that a value it refuses is said now, under the preset's own name."""
+    from branchwise.core.site.liquid import build_fluid
+    from branchwise.core.site.spec import FluidSpec, Site
+
+    class _Only:
+        problems: list[str] = []
+
+        def get(self, kind: str, name: str) -> dict[str, object]:
+            if kind == "fluids" and name == key:
+                return dict(values)
+            raise InputError(f"{kind}.{name}", name, "no such preset")
+
+    from branchwise.core.fluids import liquid
+
+    base = liquid(str(values.get("kind", "custom")))
+    needs_warmth = base is not None and "temperature" in base.inputs
+    site = Site(fluid=FluidSpec(kind=key, temperature="20 degC" if needs_warmth
+                                and "temperature" not in values else None))
+    try:
+        build_fluid(site, _Only())
+    except InputError as exc:
+        field = exc.field.removeprefix("fluid.")
+        raise InputError(f"fluids.{key}.{field}", exc.marked_value, exc.marked_reason) from None
 
 
 def _list(kind: str, presets, out: TextIO) -> None:

@@ -50,6 +50,8 @@ class Fitting:
     k: float | None
     source: str
     n_by_nps: tuple[tuple[float, float, float], ...] = ()
+    aliases: tuple[str, ...] = ()
+    """Other keys read as this one (keys of earlier versions)."""
 
     def n_at(self, nps: float) -> float | None:
         """n at nominal size ``nps``; the nearest row outside the tabulated range."""
@@ -91,6 +93,7 @@ def _fitting(raw: dict[str, Any]) -> Fitting:
         k=None if raw.get("k") is None else float(raw["k"]),
         source=raw["source"],
         n_by_nps=rows,
+        aliases=tuple(raw.get("aliases", ())),
     )
 
 
@@ -99,15 +102,21 @@ def _fittings() -> dict[str, Fitting]:
     return {f.key: f for f in (_fitting(raw) for raw in _data.load("fittings.toml")["fitting"])}
 
 
+@cache
+def _aliases() -> dict[str, Fitting]:
+    return {alias: f for f in _fittings().values() for alias in f.aliases}
+
+
 def fittings() -> list[Fitting]:
     """Every fitting type shipped, in file order."""
     return list(_fittings().values())
 
 
 def fitting(key: str, field: str = "fittings") -> Fitting:
-    """The fitting ``key`` (case and spaces forgiven); InputError listing close keys otherwise."""
+    """The fitting ``key`` or one of its aliases (an earlier key), case and spaces forgiven;
+    InputError listing close keys otherwise."""
     wanted = "-".join(key.strip().lower().replace("_", " ").split())
-    found = _fittings().get(wanted)
+    found = _fittings().get(wanted) or _aliases().get(wanted)
     if found is None:
         keys = list(_fittings())
         close = _data.close_matches(wanted, keys) or keys

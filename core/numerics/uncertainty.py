@@ -22,6 +22,7 @@ import math
 from dataclasses import dataclass, field
 
 import numpy as np
+import numpy.typing as npt
 
 from ..errors import InputError
 from ..model import (
@@ -34,6 +35,7 @@ from ..model import (
     PressureDrop,
 )
 from .copies import solve_copies
+from .draws import Index, LinearShares, OutputStore, Progress, chunk_rows, chunks
 from .hydraulics import Array, Layout
 from .results import Result
 from .solve import solve
@@ -256,7 +258,8 @@ class UncertaintyResult:
     the linear variance, as (input name, share 0…1), largest first.
 
     failed: draws for which the sought unknown has no solution (left out of the bands).
-    draws: the Monte Carlo values per output (for histograms), in the outputs' units.
+    draws: the Monte Carlo values per output (for histograms), in the outputs' units; empty
+    for a run too large to keep them in memory (see :mod:`.draws`).
     """
 
     samples: int
@@ -281,14 +284,23 @@ class UncertaintyResult:
                 "outputs": outputs, "ranking": ranking, "notes": list(self.notes)}
 
 
+RANKING_KEPT = 100
+"""Inputs kept in each output's ranking, the largest shares (all of them on any usual site: a
+site of 20 branches draws about 90 inputs; a network of a thousand branches thousands, whose
+every share of every output would fill memory)."""
+
+
 def monte_carlo(
     network: Network, given: Given, find: Find | None = None, tol: Tolerances | None = None,
     samples: int = 10_000, seed: int = 0, thermal: Thermal | None = None,
+    progress: Progress | None = None,
 ) -> UncertaintyResult:
     """Propagate ``tol`` through the solve of ``network`` with ``given`` and ``find``.
 
     samples: Monte Carlo draws (≥ 10); seed: for numpy's ``default_rng`` (same seed, same
-    answer); thermal: how ν and ρ move with temperature (see :meth:`Thermal.from_fluid_at`).
+    answer); thermal: how ν and ρ move with temperature (see :meth:`Thermal.from_fluid_at`);
+    progress: told (rows solved, rows in all) as the run goes (see :mod:`.draws`: the draws
+    are solved in chunks, so memory stays bounded; what it raises ends the run).
     Raises what :func:`solve` raises for the nominal inputs.
     """
     find = FindFlows() if find is None else find
@@ -296,17 +308,60 @@ def monte_carlo(
     tol.validate()
     if isinstance(samples, bool) or not isinstance(samples, int | np.integer) or samples < 10:
         raise InputError("uncertainty.samples", samples, "must be a whole number of at least 10")
+    samples = int(samples)
     nominal = solve(network, given, find)
     plan = build_plan(network, given, find, tol, thermal)
     notes, n_in = list(plan.notes), len(plan.inputs)
-    z = np.random.default_rng(seed).uniform(-1.0, 1.0, size=(samples, n_in))
-    design = np.vstack([STEP * np.eye(n_in), -STEP * np.eye(n_in)])
-    values, converged = plan.evaluate(np.vstack([z, design]))
+    size = chunk_rows(len(Layout.from_network(network).diameter), n_in)
+    total_rows = samples + 2 * n_in
+    rng = np.random.default_rng(seed)
+    store = OutputStore(samples, list(plan.outputs_of(nominal)))
+    failed_rows = np.zeros(samples, dtype=bool)
+    all_converged = True
+    try:
+        for start, stop in chunks(samples, size):
+            # Row after row from the one generator: the same draws as one (samples, n_in) call.
+            values, converged = plan.evaluate(rng.uniform(-1.0, 1.0, size=(stop - start, n_in)))
+            all_converged = all_converged and converged
+            store.add(start, stop, values)
+            for column in values.values():
+                failed_rows[start:stop] |= np.isnan(column)
+            if progress is not None:
+                progress(stop, total_rows)
+        shares, converged = _linear(plan, n_in, size, samples, total_rows, progress,
+                                    store.names)
+        return _result(plan, nominal, store, shares, failed_rows, all_converged and converged,
+                       notes, seed)
+    finally:
+        store.close()
+
+
+def _linear(plan: SamplingPlan, n_in: int, size: int, done: int, total_rows: int,
+            progress: Progress | None, names: list[str]) -> tuple[LinearShares, bool]:
+    """c_i u(x_i) of every input for every output (JCGM 100:2008, 5.1.2), from central
+    differences at ±δ, the ± steps solved in chunks of inputs."""
+    shares = LinearShares(n_in, names, RANKING_KEPT)
+    all_converged = True
+    for start, stop in chunks(n_in, max(1, size // 2)):
+        block = np.zeros((stop - start, n_in))
+        block[np.arange(stop - start), np.arange(start, stop)] = STEP
+        values, converged = plan.evaluate(np.vstack([block, -block]))
+        all_converged = all_converged and converged
+        m = stop - start
+        for name in names:
+            plus, minus = values[name][:m], values[name][m:]
+            shares.add(start, stop, name, (plus - minus) / (2 * STEP) / SQRT3)
+        if progress is not None:
+            progress(done + 2 * stop, total_rows)
+    return shares, all_converged
+
+
+def _result(plan: SamplingPlan, nominal: Result, store: OutputStore, shares: LinearShares,
+            failed_rows: npt.NDArray[np.bool_], converged: bool, notes: list[str],
+            seed: int) -> UncertaintyResult:
+    samples = store.rows
     if not converged:
         notes.append("some drawn networks did not converge to the usual tolerance")
-    failed_rows = np.zeros(samples, dtype=bool)
-    for column in values.values():
-        failed_rows |= np.isnan(column[:samples])
     failed = int(failed_rows.sum())
     if failed:
         notes.append(f"{failed} of {samples} draws have no solution for the sought unknown; "
@@ -314,17 +369,15 @@ def monte_carlo(
     outputs: dict[str, OutputBand] = {}
     ranking: dict[str, list[tuple[str, float]]] = {}
     nominal_values = plan.outputs_of(nominal)
-    for name, column in values.items():
-        plus, minus = column[samples:samples + n_in], column[samples + n_in:]
-        contrib = (plus - minus) / (2 * STEP) / SQRT3  # c_i u(x_i), in the output's unit
-        variance = float(np.sum(contrib**2))
-        mc = column[:samples][~failed_rows]
+    for name in store.names:
+        variance = shares.variance(name)
+        mc = store.column(name)[~failed_rows]
         outputs[name] = _band(name, plan.unit_of(name), nominal_values[name], mc, variance)
-        ranking[name] = _ranked(plan.inputs, contrib**2, variance)
+        ranking[name] = _ranked(plan.inputs, *shares.squares(name), variance)[:RANKING_KEPT]
+    kept = store.all_kept()
     return UncertaintyResult(
-        samples=int(samples), seed=seed, outputs=outputs, ranking=ranking, inputs=plan.inputs,
-        failed=failed, notes=tuple(notes),
-        draws={name: column[:samples] for name, column in values.items()},
+        samples=samples, seed=seed, outputs=outputs, ranking=ranking, inputs=plan.inputs,
+        failed=failed, notes=tuple(notes), draws={} if kept is None else dict(kept),
     )
 
 
@@ -338,11 +391,12 @@ def _band(name: str, unit: str, nominal: float, mc: Array, variance: float) -> O
 
 
 def _ranked(
-    inputs: tuple[InputTolerance, ...], shares: Array, variance: float
+    inputs: tuple[InputTolerance, ...], index: Index, shares: Array, variance: float
 ) -> list[tuple[str, float]]:
     if not variance > 0:
         return []
-    rows = [(inp.name, float(s / variance)) for inp, s in zip(inputs, shares, strict=True)]
+    rows = [(inputs[int(i)].name, float(s / variance))
+            for i, s in zip(index, shares, strict=True)]
     return sorted((r for r in rows if r[1] > 0), key=lambda r: -r[1])
 
 

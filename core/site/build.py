@@ -180,10 +180,8 @@ def _find(site: Site, network: Network) -> Find:
     if find not in FINDS:
         raise InputError("solve.find", find, f"must be one of {', '.join(FINDS)}")
     if find == "flows":
-        for key in ("branch", "target_flow", "segment"):
-            if getattr(s, key) is not None:
-                raise InputError(f"solve.{key}", describe(getattr(s, key)),
-                                 "is used only when find is diameter, length or roughness")
+        # A branch, target and segment kept beside find = "flows" are the sizing question
+        # set aside (the app keeps it when the person switches to the flows): not used.
         return FindFlows()
     branch = text_value(s.branch, "solve.branch")
     if branch is None:

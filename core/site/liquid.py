@@ -93,8 +93,11 @@ def _fluid_preset(kind: str, presets: PresetSource | None) -> dict[str, Any]:
     try:
         found = presets.get("fluids", kind)
     except InputError:
+        problems = getattr(presets, "problems", None)  # a presets file that did not load
+        broken = f" (your presets file could not be read: {'; '.join(problems)})" \
+            if problems else ""
         raise InputError("fluid.kind", kind, f"must be one of {', '.join(LIQUIDS)} or the key "
-                         "of a saved fluid preset") from None
+                         f"of a saved fluid preset{broken}") from None
     if not isinstance(found, Mapping):
         raise InputError("fluid.kind", kind, "the preset is not a table of values")
     return dict(found)

@@ -237,12 +237,14 @@ def parse_site(text: str, source: str | Path = "<string>") -> Site:
 
 def load_site(path: str | Path) -> Site:
     """Read the site file ``path`` (never modifies it). InputError names the file and line."""
-    from ..storage.toml_files import load_toml, migrate
+    from ..storage.file_checks import read_bytes
+    from ..storage.toml_files import decode_text, migrate, parse_toml
 
     path = Path(path)
-    doc = migrate(load_toml(path), "site", path)
+    text = decode_text(read_bytes(path), path.name)  # read once: a regular file, size capped
+    doc = migrate(parse_toml(text, path.name), "site", path)
     site = site_from_dict(doc, path)
-    site.origin = path.read_bytes().decode("utf-8").removeprefix("\ufeff")
+    site.origin = text
     return site
 
 

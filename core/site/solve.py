@@ -28,6 +28,7 @@ from .spec import Site
 from .values import plain_number
 
 if TYPE_CHECKING:
+    from ..numerics.draws import Progress
     from ..numerics.reconcile import Reconciliation
     from ..numerics.uncertainty import Tolerances, UncertaintyResult
     from ..storage.presets import PresetSource
@@ -186,6 +187,7 @@ def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any
 def uncertainty_for_site(
     site: Site, samples: int = 10_000, seed: int = 0, presets: PresetSource | None = None,
     tolerances: Tolerances | None = None, built: Built | None = None,
+    progress: Progress | None = None,
 ) -> UncertaintyResult:
     """Monte Carlo bands, the GUM linear estimate and the ranking for ``site``
     (:func:`branchwise.core.numerics.uncertainty.monte_carlo`), with the site's own tolerances.
@@ -195,7 +197,8 @@ def uncertainty_for_site(
     the common-practice defaults without one). built: the site already built (saves a build).
     The temperature tolerance moves ν and ρ through the site's fluid model
     (:func:`~branchwise.core.site.tolerances.site_thermal`). Errors name the site's fields
-    (``tolerances.<key>``); nothing is printed.
+    (``tolerances.<key>``); nothing is printed. progress: told (rows solved, rows in all)
+    as the run goes; what it raises ends the run.
     """
     from ..numerics.uncertainty import Tolerances, monte_carlo
     from .tolerances import site_thermal
@@ -204,15 +207,34 @@ def uncertainty_for_site(
     tol = tolerances or built.tolerances or Tolerances()
     tol, thermal, notes = site_thermal(site, tol, presets)
     try:
-        res = monte_carlo(built.network, built.given, built.find, tol, samples, seed, thermal)
+        res = monte_carlo(built.network, built.given, built.find, tol, samples, seed, thermal,
+                          progress)
     except BranchwiseError as exc:
         raise exc.naming([b.name for b in built.network.branches]) from None
-    return replace(res, notes=(*notes, *res.notes))
+    return _say_cv(site, replace(res, notes=(*notes, *res.notes)))
+
+
+def _say_cv(site: Site, res: UncertaintyResult) -> UncertaintyResult:
+    """The inputs of the branches whose valve was given by Cv named by Cv (the drawn factor
+    is the same on Kv and Cv: Cv = 1.156 Kv)."""
+    by_cv = {f"branch '{b.name}' valve Kv" for b in site.branches
+             if b.valve_cv is not None and b.valve_kv is None}
+    if not by_cv:
+        return res
+
+    def say(name: str) -> str:
+        return name[:-2] + "Cv" if name in by_cv else name
+
+    inputs = tuple(replace(i, name=say(i.name)) for i in res.inputs)
+    ranking = {out: [(say(n), share) for n, share in rows] for out, rows in res.ranking.items()}
+    return replace(res, inputs=inputs, ranking=ranking)
 
 
 def with_uncertainty(sr: SiteResult, samples: int = 10_000, seed: int = 0,
-                     presets: PresetSource | None = None) -> SiteResult:
+                     presets: PresetSource | None = None,
+                     progress: Progress | None = None) -> SiteResult:
     """``sr`` with its :attr:`SiteResult.uncertainty` filled (see :func:`uncertainty_for_site`);
     the reports then show the bands and the ranking."""
-    res = uncertainty_for_site(sr.site, samples, seed, presets, built=sr.built)
+    res = uncertainty_for_site(sr.site, samples, seed, presets, built=sr.built,
+                               progress=progress)
     return replace(sr, uncertainty=res)

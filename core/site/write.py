@@ -106,7 +106,15 @@ def dump_site(site: Site) -> str:
     if "kind" in doc:  # a file that says what it is keeps saying so
         values = {"format": values.pop("format"), "kind": plain(doc["kind"]), **values}
     _sync(doc, values, tomlkit, plain)
-    return tomlkit.dumps(doc)
+    return _line_endings(tomlkit.dumps(doc), site.origin)
+
+
+def _line_endings(text: str, origin: str | None) -> str:
+    """``text`` with the line endings of the file it was read from: a file written on Windows
+    (CRLF) stays CRLF throughout, the lines changed included."""
+    if origin is None or "\r\n" not in origin or origin.count("\r\n") * 2 < origin.count("\n"):
+        return text.replace("\r\n", "\n")
+    return text.replace("\r\n", "\n").replace("\n", "\r\n")
 
 
 def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None:
@@ -295,19 +303,22 @@ def save_site(site: Site, path: str | Path, overwrite: bool = False) -> Path:
     ``site.source`` is ``path`` and ``site.origin`` the text written.
     """
     from ..storage.atomic import atomic_write_text
+    from ..storage.file_checks import is_read_only, read_text
 
     path = Path(path)
     text = dump_site(site)
-    if path.exists() and not overwrite:
+    if (path.exists() or path.is_symlink()) and not overwrite:
         own = site.source is not None and _same(site.source, path)
         try:
-            on_disk = path.read_bytes().decode("utf-8").removeprefix("\ufeff")
-        except (OSError, UnicodeDecodeError):
+            on_disk: str | None = read_text(path)  # a regular file only: a FIFO never answers
+        except InputError:
             on_disk = None
         if on_disk != text and not (own and on_disk == site.origin):
             reason = ("already exists and was changed since it was read" if own
                       else "already exists; choose another name or overwrite it")
             raise InputError(path.name, str(path), reason)
+        if is_read_only(path):
+            raise InputError(path.name, str(path), "is read-only")
     atomic_write_text(path, text)
     site.source, site.origin = path, text
     return path

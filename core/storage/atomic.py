@@ -59,6 +59,16 @@ def _replace_with_bytes(path: Path, data: bytes, mode: int | None) -> None:
         raise
 
 
+def _through_links(path: Path) -> Path:
+    """The file a symbolic link ``path`` points to (through every link), else ``path``."""
+    if not path.is_symlink():
+        return path
+    try:
+        return path.resolve(strict=False)
+    except (OSError, RuntimeError):  # a loop of links: written as the name given, refused there
+        return path
+
+
 def _sweep_stale_temps(path: Path) -> None:
     """Delete temporary files of ``path`` (and of its backup) left by a killed writer."""
     cutoff = time.time() - STALE_TEMP_SECONDS
@@ -70,7 +80,8 @@ def _sweep_stale_temps(path: Path) -> None:
             continue  # another writer swept it first
 
 
-def atomic_write_text(path: Path, text: str, *, backup: bool = True) -> None:
+def atomic_write_text(path: Path, text: str, *, backup: bool = True,
+                      private: bool = False) -> None:
     """Save ``text`` (UTF-8) as ``path`` so that a crash at any instant leaves a complete file.
 
     With ``backup``, the file being replaced is first copied to ``<name>.bak``, also through
@@ -79,20 +90,34 @@ def atomic_write_text(path: Path, text: str, *, backup: bool = True) -> None:
     file keeps the permissions of the one it replaces. Missing folders are created here, and
     temporary files older than :data:`STALE_TEMP_SECONDS` left by a killed writer are removed.
 
+    A symbolic link is written through: the file it points to gets the new text (and its
+    ``.bak`` beside it), the link stays a link. Only a regular file is ever replaced. With
+    ``private``, the file is readable by its owner only (a recovery copy); otherwise a file
+    replaced keeps its own permissions and a new one gets the umask's.
+
     An operating-system failure (permissions, full disk) becomes an InputError naming the
     file; no temporary file is left behind.
     """
-    path = Path(path)
+    from .file_checks import check_folder, what_it_is
+
+    path = _through_links(Path(path))
     data = text.encode("utf-8")
+    check_folder(path, path.name)
     try:
         path.parent.mkdir(parents=True, exist_ok=True)
         try:
-            old_mode: int | None = stat.S_IMODE(path.stat().st_mode)
+            info = path.stat()
         except FileNotFoundError:
-            old_mode = None
+            old_mode: int | None = None
+        else:
+            if not stat.S_ISREG(info.st_mode):
+                raise InputError(path.name, str(path), f"is {what_it_is(info.st_mode)}, not a "
+                                 "regular file; it is not replaced")
+            old_mode = stat.S_IMODE(info.st_mode)
+        new_mode = 0o600 if private else old_mode
         if backup and old_mode is not None:
             _replace_with_bytes(backup_path(path), path.read_bytes(), old_mode)
-        _replace_with_bytes(path, data, old_mode)
+        _replace_with_bytes(path, data, new_mode)
         _fsync_dir(path.parent)
         _sweep_stale_temps(path)
     except OSError as exc:

@@ -45,6 +45,22 @@ def data_dir() -> Path:
     return Path(platformdirs.user_data_dir(APP_NAME, appauthor=False)).absolute()
 
 
+def data_dir_problem(base: Path | None = None) -> str | None:
+    """What is wrong with the data folder, in words, or None: a file where it should be (or
+    on the way to it) leaves nothing to save settings, presets or recovery copies into."""
+    from .file_checks import file_in_the_way
+
+    folder = _base(base)
+    blocker = folder if folder.exists() and not folder.is_dir() else file_in_the_way(folder)
+    if blocker is None:
+        return None
+    if blocker == folder:
+        return (f"the data folder {folder} is a file, not a folder: nothing can be saved there "
+                f"(move the file away, or set {DATA_DIR_ENV} to a folder)")
+    return (f"the data folder {folder} cannot be made: {blocker} is a file, not a folder "
+            f"(move it away, or set {DATA_DIR_ENV} to another folder)")
+
+
 def _base(base: Path | None) -> Path:
     return data_dir() if base is None else Path(base)
 
@@ -73,15 +89,17 @@ def recovery_path(site_path: Path | None, base: Path | None = None) -> Path:
     """Where the autosave copy of ``site_path`` (or of a never-saved site, ``None``) goes.
 
     The name keeps the site's stem so a person browsing the folder knows what it is, plus a
-    short hash of the site's absolute path so that two ``pump-room.toml`` files in different
-    folders do not share one recovery copy.
+    short hash of the site's resolved path so that two ``pump-room.toml`` files in different
+    folders do not share one recovery copy, and one file reached by two paths (``../plant/``,
+    a link) has one. Each running instance adds its owner to this name
+    (:mod:`.recovery`); a name without one is a copy from before owners were kept.
     """
     folder = recovery_dir(base)
     if site_path is None:
         return folder / f"{UNSAVED_NAME}.toml"
-    absolute = Path(site_path).expanduser().absolute()
-    stem = re.sub(r"[^A-Za-z0-9_-]+", "-", absolute.stem).strip("-") or "site"
-    digest = hashlib.sha256(str(absolute).encode("utf-8")).hexdigest()[:10]
+    resolved = Path(site_path).expanduser().resolve()
+    stem = re.sub(r"[^A-Za-z0-9_-]+", "-", resolved.stem).strip("-") or "site"
+    digest = hashlib.sha256(str(resolved).encode("utf-8")).hexdigest()[:10]
     return folder / f"{stem}-{digest}.toml"
 
 

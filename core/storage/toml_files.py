@@ -23,6 +23,7 @@ from typing import Any
 
 from ..errors import InputError, one_line
 from .atomic import atomic_write_text
+from .file_checks import read_bytes, read_text
 
 FORMAT = 1
 """The file format this version writes and reads. History: 0 = no ``format`` key (written by
@@ -92,15 +93,17 @@ def load_toml(path: Path, field: str = "") -> dict[str, Any]:
     InputError: a missing file, an unreadable one, bytes that are not UTF-8 text, and a parse
     error, whose field is ``"<file> line <n>"``, whose value is the offending line and whose
     reason is the parser's complaint in plain words. A UTF-8 byte-order mark is accepted.
+    Only a regular file is read, and at most :data:`~.file_checks.MAX_READ_BYTES` of it
+    (:func:`~.file_checks.read_bytes`): a FIFO or a device is refused before it is opened.
     """
     path = Path(path)
     field = field or path.name
-    try:
-        data = path.read_bytes()
-    except FileNotFoundError:
-        raise InputError(field, str(path), "file not found") from None
-    except OSError as exc:
-        raise InputError(field, str(path), f"cannot read: {exc.strerror or exc}") from None
+    return parse_toml(decode_text(read_bytes(path, field), field), field)
+
+
+def decode_text(data: bytes, field: str) -> str:
+    """UTF-8 bytes of the file named ``field`` as text (a byte-order mark dropped); an
+    InputError naming the line of the first byte that is not UTF-8."""
     try:
         text = data.decode("utf-8").removeprefix("\ufeff")
     except UnicodeDecodeError as exc:
@@ -108,7 +111,7 @@ def load_toml(path: Path, field: str = "") -> dict[str, Any]:
         bad = data[exc.start : exc.start + 8]
         reason = "is not UTF-8 text (binary data or another encoding); save it as UTF-8"
         raise InputError(f"{field} line {line}", repr(bad), reason) from None
-    return parse_toml(text, field)
+    return text
 
 
 MAX_DEPTH = 20
@@ -305,7 +308,7 @@ def editable(path: Path, kind: str, header: str) -> Any:
     except InputError as exc:
         reason = f"has an error and must be fixed first ({exc})"
         raise InputError(path.name, str(path), reason) from exc
-    return tomlkit.parse(path.read_text(encoding="utf-8-sig"))
+    return tomlkit.parse(read_text(path))
 
 
 def save_document(path: Path, doc: Any, kind: str) -> None:

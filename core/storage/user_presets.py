@@ -24,6 +24,9 @@ TEXT_FIELDS = ("name", "kind", "source")
 MATERIAL_FIELDS = {"roughness": "roughness", "aged_roughness": "roughness"}
 """Quantities a material preset may hold; plus ``hazen_williams_c`` (a plain number)."""
 
+_POSITIVE = ("density", "viscosity", "kinematic_viscosity")
+_NOT_NEGATIVE = ("roughness", "aged_roughness", "concentration", "salinity")
+
 _cache: tuple[float, PresetStore] | None = None
 
 
@@ -63,7 +66,11 @@ def check_preset(kind: str, key: str, values: Mapping[str, Any]) -> dict[str, An
     for name, value in values.items():
         path = f"{kind}.{key}.{name}"
         if name in known:
-            parse_quantity(value, known[name], path)
+            number = parse_quantity(value, known[name], path)
+            if name in _POSITIVE and not number > 0:
+                raise InputError(path, value, "must be more than zero")
+            if name in _NOT_NEGATIVE and number < 0:
+                raise InputError(path, value, "must not be negative")
         elif name == "hazen_williams_c":
             try:
                 number = float(value)
@@ -93,7 +100,13 @@ def material_for(key: str, field: str) -> Material:
 
     user = store()
     if not user.is_user("materials", key):
-        return material(key, field)
+        try:
+            return material(key, field)
+        except InputError as exc:
+            if not user.problems:
+                raise
+            raise InputError(exc.field, exc.marked_value, f"{exc.marked_reason} (your presets "
+                             f"file could not be read: {'; '.join(user.problems)})") from None
     values = user.get("materials", key)
     path = f"materials.{key}"
     aged = values.get("aged_roughness")

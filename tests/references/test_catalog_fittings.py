@@ -46,7 +46,7 @@ def _cases():
     yield "ball-valve", lambda d: ff.K_ball_valve_Crane(d, d, 0.0)
     yield "plug-valve", lambda d: ff.K_plug_valve_Crane(d, d, 0.0, style=0)
     yield "swing-check-valve", lambda d: ff.K_swing_check_valve_Crane(d, angled=True)
-    yield "swing-check-valve-clearway", lambda d: ff.K_swing_check_valve_Crane(d, angled=False)
+    yield "swing-check-valve-full-port", lambda d: ff.K_swing_check_valve_Crane(d, angled=False)
     yield "elbow-90", lambda d: ff.bend_rounded(d, 90, method="Crane standard")
     yield "elbow-45", lambda d: ff.bend_rounded(d, 45, method="Crane standard")
     yield "elbow-90-long-radius", lambda d: ff.bend_rounded_Crane(d, 90, bend_diameters=1.5)
@@ -61,6 +61,19 @@ def test_fitting_k_within_one_percent_of_fluids_crane(key, reference):
     for nps in CRANE_NPS:
         d = BORES[nps]
         assert fitting_k(key, d) == pytest.approx(reference(d), rel=0.01), nps
+
+
+def test_the_earlier_key_of_a_fitting_still_reads():
+    """``swing-check-valve-clearway`` (one publication's word) is now
+    ``swing-check-valve-full-port``; a site that still says the old key gets the same K,
+    which stays sourced to Crane TP-410 (clearway: K = 50 f_T)."""
+    from branchwise.core.catalogs.fittings import fitting
+
+    new, old = fitting("swing-check-valve-full-port"), fitting("swing-check-valve-clearway")
+    assert old is new and new.n == 50 and "Crane TP-410" in new.source
+    assert fitting_k("swing-check-valve-clearway", 0.1023) == fitting_k(
+        "swing-check-valve-full-port", 0.1023)
+    assert all("clearway" not in f.key for f in fittings())
 
 
 @pytest.mark.parametrize("nps", [n for n in CRANE_NPS if n >= 2 and n != 16])

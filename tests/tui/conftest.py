@@ -27,6 +27,24 @@ def data_dir(tmp_path, monkeypatch):
     return folder
 
 
+@pytest.fixture(autouse=True)
+def keys_handled(monkeypatch):
+    """``pilot.press`` returns once the app has dealt with every key sent: the app lets typed
+    keys go one after the other (``tui/keygate.py``), so the screen's queues alone do not say
+    that a key has been handled."""
+    original = Pilot._wait_for_screen
+
+    async def wait(self, timeout: float = 30.0) -> bool:
+        gate = getattr(self.app, "key_gate", None)
+        for _ in range(2000):
+            if gate is None or gate.settled() or not self.app.is_running:
+                break
+            await asyncio.sleep(0.001)
+        return await original(self, timeout)
+
+    monkeypatch.setattr(Pilot, "_wait_for_screen", wait)
+
+
 async def settle(pilot) -> None:
     """Wait until the answer on screen is the answer for the site as it now is."""
     app = pilot.app

@@ -146,12 +146,12 @@ class Sandbox:
         self.saved: list[Path] = []
         real_write, real_save = tomlfile.atomic_write_text, sitewrite.save_site
 
-        def guarded_write(path, text, *, backup=True):
+        def guarded_write(path, text, *, backup=True, **options):
             target = Path(path).absolute()
             if not target.resolve().is_relative_to(self.root):
                 # What atomic_write_text itself says when the folder is not writable.
                 raise InputError(target.name, str(target), "could not save: Permission denied")
-            return real_write(path, text, backup=backup)
+            return real_write(path, text, backup=backup, **options)
 
         def recorded_save(site, path, overwrite=False):
             written = real_save(site, path, overwrite=overwrite)
@@ -318,7 +318,9 @@ async def _check_alive(pilot, report: Report) -> None:
     for _ in range(12):
         if not isinstance(app.screen, ModalScreen):
             break
-        await pilot.press("escape")
+        # Esc closes a dialog; a form with edits asks first, and "d" drops them.
+        drop = getattr(app.screen, "title_text", "") == "Drop the changes?"
+        await pilot.press("d" if drop else "escape")
         await pilot.pause()
     if isinstance(app.screen, ModalScreen):
         report.problems.append(f"Esc does not close {type(app.screen).__name__}")

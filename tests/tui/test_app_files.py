@@ -9,7 +9,6 @@ import io
 import branchwise.tui.state.outcome as outcome_module
 from branchwise.core.site.read import demo_site
 from branchwise.core.site.write import save_site
-from branchwise.core.storage.paths import recovery_path
 from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.screens.dialogs import ChoiceScreen
 
@@ -22,7 +21,8 @@ def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
             await ui.settle(pilot)
             app.files.write_recovery()  # what the timer does a second after typing stops
             await app.workers.wait_for_complete()
-            assert recovery_path(None).is_file()
+            assert app.files.recovery_file().is_file()
+            assert app.files.recovery_file().name.startswith("untitled.")  # this instance's
             app.exit()  # no question asked: as if the terminal were closed
 
     async def come_back() -> None:
@@ -46,7 +46,7 @@ def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
             await pilot.pause()
             await pilot.press("n")
             await pilot.pause()
-        assert not recovery_path(None).exists()
+        assert not list((data_dir / "recovery").glob("*.toml"))  # restored, then dropped
 
     ui.run(crash)
     ui.run(come_back)

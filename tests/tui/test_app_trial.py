@@ -56,8 +56,9 @@ def test_branch_form_starts_where_the_person_was(ui):
 @pytest.mark.parametrize("row", [0, 1, 3])
 def test_find_diameter_prefilled_gives_back_the_installed_size(ui, row):
     """The demo's branches in NPS schedule 40 pipe: the flow each carries now, as the target of
-    a found diameter, gives back its own bore, so the catalog size is the installed size (the
-    ASME B36.10M bore, from the catalog), never the next size up."""
+    a found diameter (filled in as the results show it, four figures, rounded down), gives back
+    a bore a hair under its own, so the catalog size is the installed size (the ASME B36.10M
+    bore, from the catalog), never the next size up."""
 
     async def scenario() -> None:
         async with ui.started() as (app, pilot):
@@ -77,9 +78,12 @@ def test_find_diameter_prefilled_gives_back_the_installed_size(ui, row):
                 await ui.settle(pilot)
             solved = app.outcome.solved
             target = solved.result.branches[row].flow
-            assert target <= flow and target == pytest.approx(flow, rel=1e-6)
-            assert solved.result.solved.value == pytest.approx(installed.inner_diameter_m,
-                                                               rel=1e-5)
+            assert target <= flow and target == pytest.approx(flow, rel=1e-3)
+            typed = app.site.solve.target_flow.split()[0]
+            assert len(typed.replace(".", "").lstrip("0")) <= 4  # the figures on screen
+            found = solved.result.solved.value
+            assert found <= installed.inner_diameter_m
+            assert found == pytest.approx(installed.inner_diameter_m, rel=1e-2)
             assert solved.catalog.size.inner_diameter_m == installed.inner_diameter_m
 
     ui.run(scenario)

@@ -45,9 +45,13 @@ class HelpScreen(Dialog[None]):
         self.sections = sections
 
     def compose(self) -> ComposeResult:
+        from .catalog import catalog_table
+
         with VerticalScroll():
             yield Static(self.render_keys())
             yield Static(Text(ABOUT, style="dim"))
+            yield Static("")
+            yield Static(catalog_table())
 
     def render_keys(self) -> Table:
         table = Table.grid(padding=(0, 2))

@@ -28,7 +28,6 @@ from ..drawing.sparkline import sparkline
 from ..quiet import put
 from ..theme import colour
 from ..widgets.texttable import Cell, TextTable
-from .split.screen import CAUTION_LINE
 from .work_screen import WorkScreen
 
 if TYPE_CHECKING:
@@ -87,7 +86,6 @@ class HistoryScreen(WorkScreen):
         yield Static("", id="history-flags", markup=False)
         with VerticalScroll(id="history-more"):
             yield Static("", id="history-details", markup=False)
-        yield Static(CAUTION_LINE, id="caution-line", markup=False)
 
     # ---- working it out ------------------------------------------------------------------------
 

@@ -2,17 +2,26 @@
 
 from __future__ import annotations
 
+from collections import Counter
 from datetime import datetime
 from pathlib import Path
 
+from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widgets import DataTable, Input, Label, Static
 
+from branchwise.core.errors import inert
 from branchwise.core.storage.paths import list_sites, sites_dir
 
 from ..modal import Dialog
+
+
+def _cell(text: str) -> Text:
+    """A name or path as a table cell: shown as it is (brackets are not markup), control
+    characters escaped."""
+    return Text(inert(text), no_wrap=True, overflow="ellipsis")
 
 
 def _when(seconds: float) -> str:
@@ -60,9 +69,14 @@ class SitesScreen(Dialog[Path | str | None]):
         table.add_columns("Site", "Last changed", "File")
         listing = list_sites()
         seen: set[Path] = set()
+        names = Counter(entry.name.casefold() for entry in listing)
         for entry in listing:
             seen.add(entry.path.absolute())
-            table.add_row(entry.name, _when(entry.modified), entry.path.name,
+            # Two sites of one name: the file says which is which, in the name's own column
+            # (the File column may be out of sight on a narrow terminal).
+            name = (f"{entry.name} ({entry.path.name})" if names[entry.name.casefold()] > 1
+                    else entry.name)
+            table.add_row(_cell(name), _when(entry.modified), _cell(entry.path.name),
                           key=str(entry.path))
         for path in self.recent:
             if path.absolute() in seen:
@@ -72,12 +86,13 @@ class SitesScreen(Dialog[Path | str | None]):
                 changed = _when(path.stat().st_mtime)
             except OSError:
                 changed = "missing"
-            table.add_row(f"(recent) {path.stem}", changed, str(path), key=str(path))
+            table.add_row(_cell(f"(recent) {path.stem}"), changed, _cell(str(path)),
+                          key=str(path))
         table.add_row("Import a line list (CSV)…", "", "—", key="import")
         table.add_row("Demo: chilled-water header", "bundled", "—", key="demo")
         table.add_row("New empty site", "", "—", key="new")
-        note = (f"Saved sites live in {sites_dir()}.  Enter: open   /: type a path (a site, "
-                "or a line list .csv to import)   Esc: cancel")
+        note = (f"Saved sites live in {inert(str(sites_dir()))}.  Enter: open   /: type a path "
+                "(a site, or a line list .csv to import)   Esc: cancel")
         if listing.problems:
             note += "\nNot listed: " + "; ".join(listing.problems)
         self.query_one(".sites-note", Static).update(note)

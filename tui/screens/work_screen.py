@@ -12,6 +12,7 @@ from textual.screen import Screen
 from textual.widget import Widget
 from textual.widgets import Footer, Header
 
+from ..widgets.caution_line import CautionLine
 from ..widgets.status import StatusStrip
 from ..workspace import workspace
 
@@ -24,6 +25,8 @@ class WorkScreen(Screen):
 
     HELP_WIDGETS: ClassVar[tuple[type[Widget], ...]] = ()
     """Widget classes whose bindings the help screen lists for this screen."""
+    HINT_KEYS: ClassVar[tuple[tuple[str, str], ...]] = ()
+    """This screen's keys that the footer has no room for, shown on the caution line."""
 
     @property
     def bw(self) -> Workspace:
@@ -33,6 +36,8 @@ class WorkScreen(Screen):
         yield Header(icon="≡")
         yield StatusStrip()
         yield from self.body()
+        # The cautions on every screen, and the keys the footer has no room for.
+        yield CautionLine(self.HINT_KEYS, id="caution-line")
         # The keys that matter on this screen; F1 lists them all, Ctrl+P finds any by name.
         yield Footer(compact=True, show_command_palette=False)
 

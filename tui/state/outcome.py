@@ -10,7 +10,9 @@ liquid worked out on its own so the liquid screen can show it even when a branch
 from __future__ import annotations
 
 import time
+from collections.abc import Callable
 from dataclasses import dataclass
+from time import monotonic
 from typing import TYPE_CHECKING, Any
 
 from branchwise.core.errors import BranchwiseError
@@ -77,3 +79,32 @@ def compute(site: Site, revision: int, presets: Any = None) -> Outcome:
     except BranchwiseError as exc:
         return Outcome(revision, None, fluid, exc, time.perf_counter() - start, built)
     return Outcome(revision, solved, fluid, None, time.perf_counter() - start, solved.built)
+
+
+class BandStopped(Exception):
+    """A band's run was stopped: its worker was cancelled (the app closes, or a newer band
+    replaced it)."""
+
+
+SHOW_AFTER = 1.0
+"""Seconds before a band's progress is shown (a quick band just appears)."""
+
+
+def band_progress(cancelled: Callable[[], bool], report: Callable[[int, int], None],
+                  every: float = 0.25) -> Callable[[int, int], None]:
+    """The ``progress`` of a band's Monte Carlo run in a worker: stops the run at the next
+    chunk once ``cancelled()`` (so that quitting never waits for a long band), and hands
+    (solves done, in all) to ``report`` at most every ``every`` seconds once the run has
+    taken :data:`SHOW_AFTER` seconds."""
+    started = monotonic()
+    last = [0.0]
+
+    def progress(done: int, total: int) -> None:
+        if cancelled():
+            raise BandStopped
+        now = monotonic()
+        if now - started >= SHOW_AFTER and now - last[0] >= every:
+            last[0] = now
+            report(done, total)
+
+    return progress

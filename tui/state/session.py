@@ -22,7 +22,7 @@ from branchwise.core.finds import FINDS
 from branchwise.core.site.spec import BranchSpec, SegmentSpec, Site, SolveSpec
 from branchwise.core.site.visits import rename_in_visits
 
-from .values import text_of, unique_name
+from .values import make_inert, text_of, unique_name
 
 
 def find_of(site: Site) -> str:
@@ -75,6 +75,14 @@ def new_branch(site: Site, like: BranchSpec | None = None) -> BranchSpec:
     return br
 
 
+def inert_note(session: Session) -> str:
+    """Said when a site opened holds control characters in its texts (shown escaped)."""
+    if not session.made_inert:
+        return ""
+    return ("Control characters in this site's names, tags or notes are shown escaped "
+            "(such as \\x1b), so that they cannot act on the terminal; saving keeps them so.")
+
+
 # ---- the session -----------------------------------------------------------------------------
 
 @dataclass
@@ -117,7 +125,12 @@ class Session:
     """The site as last saved or opened (None: nothing on disk matches it, such as restored
     work); set with the first revision when the session starts."""
 
+    made_inert = False
+    """Control characters in the site's texts were shown escaped when it was opened (said
+    once by the app; a save keeps them so)."""
+
     def __post_init__(self) -> None:
+        self.made_inert = make_inert(self.site)
         if self.saved is None and self.revision == self.saved_revision:
             self.saved = copy.deepcopy(self.site)
 
@@ -138,6 +151,7 @@ class Session:
         """
         new = copy.deepcopy(self.site)
         change(new)
+        make_inert(new)  # a pasted control character too
         now = time.monotonic()
         top = self.undo_stack[-1] if self.undo_stack else None
         if not (key and top is not None and top.key == key and now - top.at < COALESCE_SECONDS):
@@ -175,6 +189,7 @@ class Session:
 
     def replace(self, site: Site) -> None:
         """Start over on another site (opened, or the demo): history and parked values go."""
+        self.made_inert = make_inert(site)
         self.site = site
         self.undo_stack.clear()
         self.redo_stack.clear()

@@ -7,8 +7,10 @@ Nothing here imports Textual, numpy or pint, so the first screen can be drawn be
 from __future__ import annotations
 
 import re
+from dataclasses import fields, is_dataclass
 from pathlib import Path
 
+from branchwise.core.errors import inert
 from branchwise.core.site.spec import Site
 
 _BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
@@ -45,12 +47,54 @@ def text_of(value: object) -> str:
 
 def shown_path(path: Path) -> str:
     """A path as a person reads it: absolute, with ``~`` for the home folder
-    (``./site.toml`` → ``~/plant/site.toml``)."""
+    (``./site.toml`` → ``~/plant/site.toml``), control characters in a name shown escaped."""
     full = Path(path).expanduser().absolute()
     try:
-        return str(Path("~") / full.relative_to(Path.home()))
+        return inert(str(Path("~") / full.relative_to(Path.home())))
     except ValueError:
-        return str(full)
+        return inert(str(full))
+
+
+_NOT_VALUES = ("source", "origin")
+"""Fields of a site that are not values typed (the file it came from, its text)."""
+
+
+def make_inert(spec: object) -> bool:
+    """Show every control character in the texts of a site (a dataclass tree) escaped, in
+    place: a name, tag, note or record line from a file then cannot reach the terminal as a
+    command (clear the screen, set the window title). True if anything was changed."""
+    if not is_dataclass(spec) or isinstance(spec, type):
+        return False
+    changed = False
+    for item in fields(spec):
+        if item.name in _NOT_VALUES:
+            continue
+        new, touched = _inert_value(getattr(spec, item.name))
+        if touched:
+            setattr(spec, item.name, new)
+            changed = True
+    return changed
+
+
+def _inert_value(value: object) -> tuple[object, bool]:
+    """``value`` with its texts made inert, and whether anything changed (a dataclass
+    inside is changed in place)."""
+    if isinstance(value, str):
+        safe = inert(value)
+        return safe, safe != value
+    if is_dataclass(value) and not isinstance(value, type):
+        return value, make_inert(value)
+    if isinstance(value, dict):
+        pairs = [(_inert_value(k), _inert_value(v)) for k, v in value.items()]
+        if not any(k[1] or v[1] for k, v in pairs):
+            return value, False
+        return {k[0]: v[0] for k, v in pairs}, True
+    if isinstance(value, list):
+        items = [_inert_value(v) for v in value]
+        if not any(touched for _, touched in items):
+            return value, False
+        return [v for v, _ in items], True
+    return value, False
 
 
 def branch_name(site: Site, index: int) -> str:

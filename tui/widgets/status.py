@@ -85,7 +85,7 @@ def describe(app: Workspace, on_split: bool = False, width: int | None = None,
     line.append(f"{given} {value}", style="bold")
     line.append("  Find ", style="dim")
     line.append(sought, style="bold")
-    line.append(f"  [{app.unit_system.upper()}]", style="dim")
+    line.append(f"  [{app.unit_system.upper()} ^T]", style="dim")
     if width is not None:
         line.truncate(width, overflow="ellipsis")
     line.append("\n")

@@ -25,6 +25,13 @@ from ...modal import Dialog
 from ...state.values import text_of, with_unit
 from ...widgets.field import Field
 from ...workspace import workspace
+from ..catalog import (
+    CatalogPicker,
+    fitting_choices,
+    fitting_problem,
+    material_choices,
+    material_problem,
+)
 from ..dialogs import FORM_HINT, FORM_KEYS
 from .cells import (
     same_pipe,
@@ -46,10 +53,11 @@ SEGMENT_FIELDS = (
     ("k", "Extra K", None),
     ("fittings", "Fittings", None),
 )
-PLACEHOLDERS = {"size": "e.g. 4 in sch 40, DN80 sch 40, 1-1/2 type L, ID 77.9 mm",
+PLACEHOLDERS = {"size": "4 in sch 40, DN80 sch 40, ID 77.9 mm",
                 "length": "e.g. 62 m, 180 ft",
-                "wall": "e.g. 0.045 mm, or commercial-steel aged",
-                "fittings": "e.g. elbow-90 4, gate-valve 2", "k": "e.g. 2.5 (a plain number)"}
+                "wall": "0.045 mm, or a material (Ctrl+L)",
+                "fittings": "elbow-90 4, gate-valve 2 (Ctrl+L)", "k": "e.g. 2.5 (a plain number)"}
+"""What an empty field takes; short enough to show whole in the form at 80 columns."""
 _ITEM = re.compile(r"\s*(?:(\d+(?:\.\d*)?)\s*[x×*]?\s*([a-z][a-z0-9-]*)|([a-z][a-z0-9-]*)"
                    r"\s*[=: ]?\s*(\d+(?:\.\d*)?)?)\s*\Z", re.I)
 
@@ -82,6 +90,9 @@ class BranchForm(Dialog[BranchSpec | None]):
                 tooltip="Add a series segment after the one being edited"),
         Binding("ctrl+g", "remove_segment", "Remove segment", id="form-remove-segment",
                 tooltip="Remove the segment being edited"),
+        Binding("ctrl+l", "pick", "List", id="form-pick",
+                tooltip="In the 'ε or material' field: every material, new and aged; in the "
+                        "Fittings field: every fitting. Pick one with Enter"),
     ]
     CLOSE_HINT = FORM_HINT
     DEFAULT_CSS = """
@@ -93,15 +104,19 @@ class BranchForm(Dialog[BranchSpec | None]):
     BranchForm .form-title { text-style: bold; }
     BranchForm .segment-title { margin-top: 1; color: $accent; text-style: bold; }
     BranchForm .form-keys { color: $text-muted; }
+    BranchForm .form-note { color: $warning; }
     BranchForm .form-message { color: $error; }
 
     """
 
     def __init__(self, branch: BranchSpec, unit: Callable[[str], str],
-                 title: str = "Branch", start: str = "name", segment: int = 0) -> None:
+                 title: str = "Branch", start: str = "name", segment: int = 0,
+                 note: str = "") -> None:
         """start: the field the cursor starts in (a column key of the branch table: ``name``,
-        ``size``, ``valve``…); segment: the segment of a segment's field."""
+        ``size``, ``valve``…); segment: the segment of a segment's field; note: a line under
+        the title (what a new branch was filled in from)."""
         super().__init__()
+        self.note = note
         self.branch = copy.deepcopy(branch)
         self.unit = unit
         self.title_text = title
@@ -113,14 +128,17 @@ class BranchForm(Dialog[BranchSpec | None]):
         with Vertical():
             yield Label(f"{self.title_text}: {text_of(br.name)}", classes="form-title",
                         markup=False)
-            yield Static(f"{FORM_KEYS}\nCtrl+N: add a segment   Ctrl+G: remove this segment",
-                         classes="form-keys", markup=False)
+            if self.note:
+                yield Static(self.note, classes="form-note", markup=False)
+            yield Static(f"{FORM_KEYS}\nCtrl+N: add a segment   Ctrl+G: remove this segment   "
+                         "Ctrl+L: list materials or fittings", classes="form-keys",
+                         markup=False)
             with VerticalScroll(id="form-fields"):
                 yield Field("Name", "name", value=text_of(br.name), id="f-name")
                 yield Field("Tag", "tag", value=text_of(br.tag), id="f-tag",
-                            placeholder="the plant's line or valve tag, e.g. CHW-R-104")
+                            placeholder="line or valve tag, e.g. CHW-R-104")
                 yield Field("Valve (Kv or Cv)", "valve", value=valve_text(br),
-                            placeholder="e.g. Kv 160, Cv 110; in series: Kv 160 + 40", id="f-valve")
+                            placeholder="Kv 160 or Cv 110; series: Kv 160 + 40", id="f-valve")
                 yield Field("Note", "note", value=text_of(br.note), id="f-note")
                 for j, seg in enumerate(br.segments):
                     yield Label(f"Segment {j + 1}", classes="segment-title")
@@ -129,11 +147,16 @@ class BranchForm(Dialog[BranchSpec | None]):
                                     id=f"f-{j}-{key}", placeholder=PLACEHOLDERS.get(key, ""))
             yield Static("", classes="form-message", markup=False)
 
+    _typed_at_start: dict[str, str] | None = None
+    """Each field's text as the form opened (to tell whether Esc would drop anything)."""
+    _segments_changed = False
+
     def on_mount(self) -> None:
+        if self._typed_at_start is None:
+            self._typed_at_start = {f.path: f.text for f in self.query(Field)}
         for field in self.query(Field):
             if field.kind:
                 field.set_unit(self.unit(field.kind))
-        self._fitting_keys: set[str] | None = None
         fields = {f.path: f for f in self.query(Field)}
         j = min(self._focus_segment, len(self.branch.segments) - 1)
         target = fields.get(self._start) or fields.get(f"{j}.{self._start}") or fields["name"]
@@ -185,10 +208,11 @@ class BranchForm(Dialog[BranchSpec | None]):
             if key == "wall" and not text and self._plain_bore(field):
                 return "required for a bore: a roughness or a material"
             if key == "fittings" and text:
-                known = self._known_fittings()
                 for name in parse_fittings(text, "fittings"):
-                    if known and name not in known:
-                        return (f"no fitting '{name}'; known: {', '.join(sorted(known))}")
+                    if (problem := fitting_problem(name)) is not None:
+                        return problem
+            if key == "wall" and text and (problem := material_problem(text)) is not None:
+                return problem
             if key in ("length",) and text:
                 if parse_quantity(text, "length", key, self.unit("length")) < 0:
                     return f"must not be negative, got {text}"
@@ -219,13 +243,6 @@ class BranchForm(Dialog[BranchSpec | None]):
         except InputError:
             return False
         return probe.diameter is not None
-
-    def _known_fittings(self) -> set[str]:
-        if self._fitting_keys is None:
-            from branchwise.core.catalogs import fittings
-
-            self._fitting_keys = {f.key for f in fittings()}
-        return self._fitting_keys
 
     def on_field_edited(self, event: Field.Edited) -> None:
         if not self._rebuilding:
@@ -292,6 +309,7 @@ class BranchForm(Dialog[BranchSpec | None]):
 
     async def _rebuild(self, branch: BranchSpec, focus_segment: int) -> None:
         """Show ``branch`` (one more or one fewer segment) with the focus on a segment."""
+        self._segments_changed = True
         self._rebuilding = True
         try:
             self.branch = branch
@@ -301,5 +319,72 @@ class BranchForm(Dialog[BranchSpec | None]):
         finally:
             self._rebuilding = False
 
+    def action_pick(self) -> None:
+        """Ctrl+L: every material (in the 'ε or material' field) or fitting (in Fittings)."""
+        field = next((f for f in self.query(Field) if self.focused is f.input), None)
+        what = field.path.split(".")[-1] if field is not None else ""
+        if field is None or what not in ("wall", "fittings"):
+            self.notify("Ctrl+L lists the materials in an 'ε or material' field and the "
+                        "fittings in a Fittings field.", timeout=4)
+            return
+        if what == "wall":
+            title, choices = "Materials: new, and aged where known", material_choices()
+        else:
+            title, choices = "Fittings (added to the list, one of each)", fitting_choices()
+
+        def picked(value: str | None) -> None:
+            if value is None:
+                return
+            if what == "wall":
+                text = value
+            else:
+                counts = parse_fittings(field.text) if field.text.strip() and \
+                    self.check(field) is None else {}
+                counts[value] = counts.get(value, 0.0) + 1
+                text = fittings_text(counts)
+            field.show(text, force=True)
+            field.set_error(self.check(field))
+            field.input.focus()
+
+        self.app.push_screen(CatalogPicker(title, choices, field.text.strip()), picked)
+
+    def changed_fields(self) -> list[str]:
+        """The labels of the fields typed into since the form opened (segments added or
+        removed count as a change of their own)."""
+        start = self._typed_at_start or {}
+        changed = []
+        for field in self.query(Field):
+            if start.get(field.path, "") != field.text:
+                head = field.path.split(".")[0]
+                segment = f" (segment {int(head) + 1})" if head.isdigit() and len(
+                    self.branch.segments) > 1 else ""
+                changed.append(f"{field.label}{segment}")
+        if self._segments_changed:
+            changed.append("the segments")
+        return changed
+
     def action_cancel(self) -> None:
-        self.dismiss(None)
+        """Esc: leave at once when nothing was typed; else ask first, naming what would go."""
+        from ..dialogs import ChoiceScreen
+
+        changed = self.changed_fields()
+        if not changed:
+            self.dismiss(None)
+            return
+        valid = not any(self.check(f) for f in self.query(Field))
+        choices = [("d", "drop", "Drop the changes")]
+        if valid:
+            choices.append(("k", "keep", "Keep them"))
+        choices.append(("escape", "stay", "Go on editing"))
+        names = ", ".join(changed[:6]) + (" …" if len(changed) > 6 else "")
+        question = (f"You changed {names} of “{text_of(self.branch.name)}”. Leave the branch as "
+                    "it was?" + ("" if valid else " (Some fields read wrong, so keeping needs a "
+                                                  "fix first.)"))
+
+        def answer(choice: str | None) -> None:
+            if choice == "drop":
+                self.dismiss(None)
+            elif choice == "keep":
+                self.apply()
+
+        self.app.push_screen(ChoiceScreen("Drop the changes?", question, choices), answer)

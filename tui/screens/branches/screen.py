@@ -58,6 +58,7 @@ class BranchesScreen(WorkScreen):
 
     AUTO_FOCUS = "#branch-table"
     CSS_PATH = Path(__file__).parent / "branches.tcss"
+    HINT_KEYS = (("m", "reading"), ("e", "form"))
     # Until the first draw (keys typed ahead can ask check_action before on_mount runs):
     _rows: list[tuple[int, int]] = []
     _keys: list[str] = [key for key, _ in COLUMNS if key not in WIDE_COLUMNS]
@@ -295,8 +296,11 @@ class BranchesScreen(WorkScreen):
         site = self.bw.site
         like = site.branches[spot[0]] if spot else None
         draft = new_branch(site)
-        if like is not None:  # start from the highlighted branch's pipe, not its length
+        note = ""
+        if like is not None and spot is not None:  # the highlighted pipe, not its length
             draft.segments = [same_pipe(like.segments[0])]
+            note = (f"Size and wall copied from {branch_name(site, spot[0])} (the highlighted "
+                    "branch): change them, or clear them, for another pipe.")
         at = (spot[0] + 1) if spot else len(site.branches)
 
         def added(branch: BranchSpec | None) -> None:
@@ -305,7 +309,8 @@ class BranchesScreen(WorkScreen):
             self.bw.edit(f"Add {text_of(branch.name)}", lambda s: s.branches.insert(at, branch))
             self._go(at)
 
-        self.app.push_screen(BranchForm(draft, self.bw.unit, title="New branch"), added)
+        self.app.push_screen(BranchForm(draft, self.bw.unit, title="New branch", note=note),
+                             added)
 
     def action_form(self) -> None:
         from .form import BranchForm

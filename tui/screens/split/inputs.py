@@ -266,7 +266,8 @@ class GivenFindRows(Vertical):
             value, what = result.branches[index].flow, "flow"
         else:
             return ""
-        return carried_text(value, what, self.bw.unit(what), down=down)
+        return carried_text(value, what, self.bw.unit(what), down=down,
+                            digits=TARGET_DIGITS if down else CARRIED_DIGITS)
 
     def _switch_find(self, find: str) -> None:
         app = self.bw
@@ -275,14 +276,9 @@ class GivenFindRows(Vertical):
             return
         parked = app.session.parked
         if find == "flows":
-            if site.solve is not None:
-                parked["solve.branch"] = text_of(site.solve.branch)
-                parked["solve.target_flow"] = text_of(site.solve.target_flow)
-
-            def change(s: Site) -> None:
-                s.solve = None
-
-            app.edit("Find the flows", change)
+            # The sizing question stays in the site (and its file) beside find = "flows", so
+            # that it comes back when a diameter, length or roughness is sought again.
+            app.edit("Find the flows", lambda s: set_find(s, "flows"))
             return
         solve = site.solve
         branch = text_of(solve.branch if solve else None) or parked.get("solve.branch", "")
@@ -307,8 +303,15 @@ does not move (a 4-figure flow as the target of a found diameter lands a hair of
 bore), few enough to read."""
 
 
-def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False) -> str:
-    """``value_si`` as field text in ``unit`` to :data:`CARRIED_DIGITS` figures; ``down``
+TARGET_DIGITS = 4
+"""Significant figures of a target flow filled in from the answer: those the results show (a
+target reads as the flow on screen, not 2.437927 L/s); rounded down, the installed size still
+comes back as the next catalog size."""
+
+
+def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False,
+                 digits: int = CARRIED_DIGITS) -> str:
+    """``value_si`` as field text in ``unit`` to ``digits`` significant figures; ``down``
     rounds toward zero."""
     import math
 
@@ -316,9 +319,9 @@ def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False) -
 
     value = to_unit(value_si, kind, unit)
     if down and value and math.isfinite(value):
-        step = 10.0 ** (math.floor(math.log10(abs(value))) - CARRIED_DIGITS + 1)
+        step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
         value = math.copysign(math.floor(abs(value) / step) * step, value)
-    return f"{format_number(value, CARRIED_DIGITS)} {unit}"
+    return f"{format_number(value, digits)} {unit}"
 
 
 def _park_key(site: Site, kind: str, index: int | None) -> str:

@@ -14,15 +14,13 @@ from pathlib import Path
 
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.widgets import Input, Static
+from textual.widgets import Input
 
 from ...state.session import find_of
 from ...widgets.choice import Choice
 from ..work_screen import WorkScreen
 from .inputs import GivenFindRows
 from .views import ResultViews
-
-CAUTION_LINE = "Estimates only, not design: confirm on site.  ! cautions"
 
 
 class SplitScreen(WorkScreen):
@@ -32,6 +30,8 @@ class SplitScreen(WorkScreen):
     CSS_PATH = Path(__file__).parent / "split.tcss"
     LISTS_WARNINGS = True
     """``w`` lists the warnings here (the status strip says so)."""
+    HINT_KEYS = (("o", "branch"), ("t", "target"), ("l", "tolerances"), ("p", "curve"))
+    """Find of which branch, for which target; the tolerances; the system curve."""
 
     BINDINGS = [
         Binding("escape", "field('results')", "Done typing", id="split-table",
@@ -81,7 +81,6 @@ class SplitScreen(WorkScreen):
     def body(self) -> ComposeResult:
         yield GivenFindRows(id="split-inputs")
         yield ResultViews(id="split-results")
-        yield Static(CAUTION_LINE, id="caution-line", markup=False)
 
     @property
     def views(self) -> ResultViews:

@@ -31,7 +31,7 @@ from textual.worker import get_current_worker
 
 from ...drawing.share_bar import share_bar
 from ...quiet import put
-from ...state.outcome import Band
+from ...state.outcome import Band, BandStopped, band_progress
 from ...theme import colour
 from ...theme import series as theme_series
 from ...widgets.bandview import WIDE, BandView, band_body, band_notes
@@ -61,6 +61,14 @@ MAX_WARNING_LINES = 6
 REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb."}
 MARK = "≈"
 """The mark in front of a reading's line (warnings carry ⚠, notes •)."""
+
+
+class BandProgress(Message):
+    """How far a long band has got (posted from its thread)."""
+
+    def __init__(self, revision: int, done: int, total: int) -> None:
+        super().__init__()
+        self.revision, self.done, self.total = revision, done, total
 
 
 class BandReady(Message):
@@ -93,6 +101,8 @@ class ResultViews(Vertical):
     screen_lines: list[str] = []
     _warning_room = MAX_WARNING_LINES
     _band_running: int | None = None
+    _band_share = 0.0
+    """How much of the running band is done (0 until it has run a second)."""
     _band_now = False
     _band_timer = None
     _curve_for: Outcome | None = None
@@ -309,6 +319,7 @@ class ResultViews(Vertical):
         if app.outcome is None or app.outcome.solved is None:
             return
         self._band_running = app.session.revision
+        self._band_share = 0.0
         self._compute_band(app.session.site, app.session.revision, app.outcome.solved,
                            app.unit_system, dict(app.settings.display_units))
         self._draw_band()
@@ -321,8 +332,17 @@ class ResultViews(Vertical):
         from branchwise.core.site.solve import with_uncertainty
         from branchwise.core.units import Units
 
+        worker = get_current_worker()
+
+        def report(done: int, total: int) -> None:
+            self.post_message(BandProgress(revision, done, total))
+
+        progress = band_progress(lambda: worker.is_cancelled, report)
         try:
-            band = Band(revision, with_uncertainty(solved, BAND_SAMPLES, BAND_SEED))
+            band = Band(revision, with_uncertainty(solved, BAND_SAMPLES, BAND_SEED,
+                                                   progress=progress))
+        except BandStopped:
+            return  # the app closes, or a newer band took over: nothing to show
         except BranchwiseError as exc:
             band = Band(revision, None, error_text(exc, Units(system, units),
                                            [b.name for b in site.branches]),
@@ -333,6 +353,12 @@ class ResultViews(Vertical):
                         "please report it")
         if not get_current_worker().is_cancelled:
             self.post_message(BandReady(band))
+
+    def on_band_progress(self, message: BandProgress) -> None:
+        if self._band_running == message.revision:
+            self._band_share = message.done / message.total if message.total else 0.0
+            if self.view == "band" and self.screen.is_current:
+                self._draw_band()
 
     def on_band_ready(self, message: BandReady) -> None:
         band = message.band
@@ -370,7 +396,9 @@ class ResultViews(Vertical):
         warn = f"bold {colour(self.app, 'text-warning')}".strip()
         draws = f"{BAND_SAMPLES:,} Monte Carlo draws"
         head = {
-            "computing": Text(f"computing… {draws} (seed {BAND_SEED})", style="italic"),
+            "computing": Text(f"computing… {draws} (seed {BAND_SEED})"
+                              + (f", {self._band_share:.0%} done" if self._band_share else ""),
+                              style="italic"),
             "current": Text(f"P5 … P95: the middle 90 % of {draws} (seed {BAND_SEED})",
                             style="dim"),
             "broken": Text("No band: this site has no answer now (see the message above)",
