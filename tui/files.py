@@ -17,6 +17,7 @@ from textual.app import App
 
 from branchwise.core.errors import InputError, inert
 from branchwise.core.site.read import demo_site, load_site
+from branchwise.core.site.readings import NoReading
 from branchwise.core.site.spec import BranchSpec, ConditionsSpec, FluidSpec, SegmentSpec, Site
 from branchwise.core.storage.paths import sites_dir
 
@@ -132,6 +133,8 @@ class SiteFiles:
             from .state.outcome import compute
 
             outcome = compute(self.ws.session.site, self.ws.session.revision)
+        if isinstance(outcome.error, NoReading):
+            return None  # nothing typed wrong: today's readings are still to come
         return outcome.error if isinstance(outcome.error, InputError) else None
 
     def save_as(self, then: object = None) -> None:

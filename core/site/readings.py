@@ -44,6 +44,11 @@ def readings(site: Site) -> list[Reading]:
     return out
 
 
+class NoReading(InputError):
+    """A site with no reading yet (a new site, or today's visit just closed): nothing typed
+    wrong, only nothing to solve from. Saving such a site is not saving a field in error."""
+
+
 def chosen(site: Site) -> tuple[Reading, list[Reading]]:
     """The reading the head is solved from, and the others (kept for the record).
 
@@ -52,9 +57,9 @@ def chosen(site: Site) -> tuple[Reading, list[Reading]]:
     """
     held = readings(site)
     if not held:
-        raise InputError("conditions", "nothing", "needs one reading: the pressure drop "
-                         "across the headers, the total flow, or one branch's measured flow "
-                         "(in a site file: pressure_drop, total_flow or measured_flow)")
+        raise NoReading("conditions", "nothing", "needs one reading: the pressure drop "
+                        "across the headers, the total flow, or one branch's measured flow "
+                        "(in a site file: pressure_drop, total_flow or measured_flow)")
     given = site.conditions.given
     if given is None:
         if len(held) > 1:

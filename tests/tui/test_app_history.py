@@ -81,6 +81,29 @@ def test_closing_the_visit_asks_first_and_is_one_undoable_step(ui):
     ui.run(scenario)
 
 
+def test_a_closed_visit_saves_without_asking_and_keeps_the_new_visit(ui, tmp_path):
+    """After closing the visit the site has no reading yet: that is no field typed wrong, so
+    Ctrl+S saves at once (no "field in error" question) and the file holds the new visit."""
+    path = tmp_path / "site.toml"
+    path.write_text(demo_text(), encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started("f5", site=path) as (app, pilot):
+            await pilot.press("v", "enter")
+            await ui.type(pilot, "strainer cleaned")
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            await pilot.press("ctrl+s")
+            await ui.settle(pilot)
+            assert "field in error" not in ui.text(app)
+            assert not app.session.dirty
+
+    ui.run(scenario)
+    saved = path.read_text(encoding="utf-8")
+    assert saved.count("\n[[visits]]\n") == 3 and 'notes = "strainer cleaned"' in saved
+    assert 'pressure_drop = "10 psid"' in saved.split("[[visits]]")[-1]
+
+
 def test_the_close_dialog_refuses_a_date_that_is_no_date(ui):
     async def scenario() -> None:
         async with ui.started("f5") as (app, pilot):
