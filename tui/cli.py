@@ -42,7 +42,7 @@ EXIT_INTERRUPTED = 130
 """Exit status after Ctrl+C (128 + SIGINT, the shells' convention)."""
 EXIT_STATUSES = ("exit status: 0 done; 1 an unexpected fault (a bug, please report it); "
                  "2 bad input, a site with no answer, a file that cannot be read or written, "
-                 "or a wrong command line; 130 interrupted")
+                 "a wrong command line, or a reader that went away (| head); 130 interrupted")
 WIDTH_DEFAULT, WIDTH_MIN, WIDTH_MAX = 80, 40, 1000
 """The text table's line width: the terminal's (or COLUMNS) when writing to a terminal, 80
 otherwise, --width over both; kept within WIDTH_MIN to WIDTH_MAX columns."""
