@@ -39,16 +39,21 @@ class Assumption:
         return render(self.marked)
 
 
-def assumptions_of(site: Site, built: Built) -> tuple[Assumption, ...]:
-    """Everything ``built`` took for granted or resolved from ``site``, site-wide first."""
+def assumptions_of(site: Site, built: Built,
+                   found: tuple[int, int, float] | None = None) -> tuple[Assumption, ...]:
+    """Everything ``built`` took for granted or resolved from ``site``, site-wide first.
+
+    found: (branch, segment, bore in m) of a diameter found: that segment's fittings K is the
+    found bore's (Crane's f_T by its nominal size), and is said so."""
     out = _site_wide(site, built)
     net = built.network
     for i, (spec, branch) in enumerate(zip(site.branches, net.branches, strict=True)):
         many = len(branch.segments) > 1
         for j, (seg_spec, seg) in enumerate(zip(spec.segments, branch.segments, strict=True)):
             where = f"segment {j + 1}: " if many else ""
+            bore = found[2] if found is not None and found[:2] == (i, j) else None
             for code, words in _segment(seg_spec, seg, built.sizes[i][j], built.fittings_k[i][j],
-                                        net.friction):
+                                        net.friction, bore):
                 out.append(Assumption(code, branch.name, where + words))
         if spec.valve_cv is not None and branch.valve_kv is not None:
             out.append(Assumption(
@@ -87,7 +92,7 @@ def _site_wide(site: Site, built: Built) -> list[Assumption]:
 
 
 def _segment(spec: SegmentSpec, seg: Segment, size: object, k_fittings: float,
-             friction: str) -> list[tuple[str, str]]:
+             friction: str, found_bore: float | None = None) -> list[tuple[str, str]]:
     from ..catalogs import crane_ft, crane_nominal
     from ..storage.user_presets import material_for
 
@@ -116,10 +121,12 @@ def _segment(spec: SegmentSpec, seg: Segment, size: object, k_fittings: float,
                     f"hw_c {_typed(spec.hw_c)} is not used: friction is "
                     f"{friction} (Darcy–Weisbach), which takes the roughness instead"))
     if k_fittings:
-        nominal = crane_nominal(seg.diameter).nominal
+        bore = seg.diameter if found_bore is None else found_bore
+        nominal = crane_nominal(bore).nominal
+        of = "" if found_bore is None else ", the size of the bore found"
         out.append(("fittings-k",
                     f"fittings ΣK {k_fittings:.3g} (Crane TP-410: K = n·f_T, f_T "
-                    f"{crane_ft(seg.diameter):.4f} at NPS {nominal})"))
+                    f"{crane_ft(bore):.4f} at NPS {nominal}{of})"))
     return out
 
 

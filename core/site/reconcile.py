@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
-from ..errors import InputError
+from ..errors import InputError, describe
 from ..givens import GIVENS
 from ..units import parse_quantity
 from .readings import readings
@@ -32,6 +32,19 @@ def solves_from_all(site: Site) -> bool:
     return isinstance(given, str) and given.strip().casefold() == ALL
 
 
+_NO_SPREAD = {
+    "pressure_drop": "cannot be weighed against the other readings: the gauge's tolerance is a "
+                     "share of its full scale (tolerances.gauge_full_scale, else the reading "
+                     "itself), and here that is zero; give the full scale, or take this "
+                     "reading out",
+    "total_flow": "cannot be weighed against the other readings: a flow meter's tolerance is a "
+                  "share of its reading, and here that is zero; take this reading out",
+    "measured_flow": "cannot be weighed against the other readings: a flow meter's tolerance "
+                     "is a share of its reading, and here that is zero; take this reading out",
+}
+"""Why a reading has no spread to weigh it by, per kind of reading."""
+
+
 def reconcile_site(site: Site, built: Built | None = None,
                    presets: PresetSource | None = None) -> Reconciliation | None:
     """The site's readings reconciled, or None when it holds fewer than two.
@@ -39,7 +52,7 @@ def reconcile_site(site: Site, built: Built | None = None,
     built: the site already built (saves a build). A reading that cannot be read is an
     InputError naming its field.
     """
-    from ..numerics.reconcile import Observation, reconcile
+    from ..numerics.reconcile import Observation, instrument_sigma, reconcile
     from ..numerics.tolerances import Tolerances
     from .build import build
     from .tolerances import site_thermal
@@ -51,6 +64,9 @@ def reconcile_site(site: Site, built: Built | None = None,
     obs = [Observation(r.kind, r.branch,
                        parse_quantity(r.value, GIVENS[r.kind].quantity, r.path)) for r in held]
     tol, thermal, _ = site_thermal(site, built.tolerances or Tolerances(), presets)
+    for r, o in zip(held, obs, strict=True):
+        if not instrument_sigma(o, tol) > 0:
+            raise InputError(r.path, describe(r.value), _NO_SPREAD[o.kind])
     try:
         return reconcile(built.network, obs, tol, thermal)
     except InputError as exc:

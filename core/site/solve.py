@@ -17,7 +17,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import TYPE_CHECKING, Any
 
-from ..errors import BranchwiseError
+from ..errors import BranchwiseError, InputError
 from ..model import FindFlows, FindUnknown, PressureDrop
 from ..numerics.results import Result
 from ..units import format_quantity
@@ -73,15 +73,23 @@ def solve_site(site: Site, presets: PresetSource | None = None,
     from ..numerics.solve import solve
 
     built = build(site, presets) if built is None else built
-    rec = reconcile_site(site, built, presets)
-    if rec is not None and solves_from_all(site):  # the reconciled head fixes the solve
-        built = replace(built, given=PressureDrop(rec.pressure_drop_pa))
+    notes = list(built.notes)
+    if solves_from_all(site):  # the reconciled head fixes the solve
+        rec = reconcile_site(site, built, presets)
+        if rec is not None:
+            built = replace(built, given=PressureDrop(rec.pressure_drop_pa))
+    else:  # beside the answer: a reading that cannot be weighed does not stop it
+        try:
+            rec = reconcile_site(site, built, presets)
+        except InputError as exc:
+            rec = None
+            named = exc.naming([b.name for b in built.network.branches])
+            notes.append(f"Readings not weighed against each other: {named}")
     try:
         result = solve(built.network, built.given, built.find)
     except BranchwiseError as exc:
         raise exc.naming([b.name for b in built.network.branches]) from None
     pick = None
-    notes = list(built.notes)
     find = built.find
     if isinstance(find, FindUnknown) and find.quantity == "diameter" and result.solved:
         i = built.network.index_of(find.branch)
@@ -93,8 +101,11 @@ def solve_site(site: Site, presets: PresetSource | None = None,
         like = built.sizes[i][find.segment]
         if like is not None and result.solved is not None:
             pick = _catalog_pick(site, built, i, find, like, result.solved.value, notes)
+    found = None
+    if isinstance(find, FindUnknown) and find.quantity == "diameter" and result.solved:
+        found = (built.network.index_of(find.branch), find.segment, result.solved.value)
     return SiteResult(site, built, result, pick, tuple(notes),
-                      assumptions=assumptions_of(site, built), reconciliation=rec)
+                      assumptions=assumptions_of(site, built, found), reconciliation=rec)
 
 
 def _fittings_at_found_bore(site: Site, built: Built, i: int, find: FindUnknown,

@@ -138,9 +138,10 @@ def test_switching_the_given_keeps_both_readings(ui, demo_file):
     ui.run(scenario)
 
 
-def test_a_value_carried_from_the_answer_goes_when_the_given_moves_on(ui, demo_file):
-    """Δp → total flow (filled in from the answer, untouched) → Δp: nobody read that total,
-    so the site is back to its one reading; a total typed by hand is kept."""
+def test_switching_the_given_never_writes_the_answer_in_as_a_reading(ui, demo_file):
+    """Δp → total flow → Δp: the total's field waited for a reading and nobody typed one, so
+    the site is back to its one reading (nothing made up to be weighed or saved); a total
+    typed by hand is kept."""
     original = demo_file.read_bytes()
 
     async def scenario() -> None:

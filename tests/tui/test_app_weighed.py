@@ -36,3 +36,23 @@ def test_the_verdict_the_readings_and_the_all_given(ui):
             assert "all readings, weighed" in status, status
 
     ui.run(scenario)
+
+
+def test_all_readings_weighed_stays_the_given_while_readings_change():
+    """The person chose to weigh every reading: typing, retyping or clearing one clamp-on
+    keeps that choice while two readings or more are left; with one left it is the given."""
+    from branchwise.core.site.read import demo_site
+    from branchwise.tui.state.givens import clear_reading, remove_branch, weighs_all
+
+    site = demo_site()
+    add_reading(site, 0, "335 gpm")
+    weigh_all(site)
+    add_reading(site, 2, "77 gpm")  # a new clamp-on
+    assert weighs_all(site)
+    add_reading(site, 2, "80 gpm")  # retyped
+    assert weighs_all(site)
+    clear_reading(site, "measured_flow", 2)
+    assert weighs_all(site)  # the gauge and AHU-1's clamp-on are left
+    remove_branch(site, 0)  # AHU-1 and its reading go: the gauge alone is the given
+    assert not weighs_all(site) and site.conditions.given is None
+    assert site.conditions.pressure_drop == "10 psid"

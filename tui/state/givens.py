@@ -118,6 +118,15 @@ def set_reading(site: Site, kind: str, value: str | None, branch: int | None = N
         raise ValueError(f"unknown given {kind!r}")
 
 
+def _still_all(site: Site, was_all: bool) -> bool:
+    """Keep "all readings, weighed" as the given after a reading changed, while two or more
+    readings are left to weigh (the person chose it; editing one reading does not undo that)."""
+    if was_all and len(held(site)) >= 2:
+        site.conditions.given = ALL
+        return True
+    return False
+
+
 def make_given(site: Site, kind: str, branch: int | None = None) -> None:
     """Make (kind, branch) the given: named in ``conditions.given`` while another reading is
     held beside it (or while it holds no value yet, so that it stays the one being typed);
@@ -138,15 +147,19 @@ def set_given(site: Site, kind: str, value: str, branch: int | None = None) -> N
 def clear_reading(site: Site, kind: str, branch: int | None = None) -> None:
     """Take a reading out of the site. When it was the given, the first reading left takes
     its place; ``given`` goes when only one reading is left."""
-    was = given_of(site)
+    was, was_all = given_of(site), weighs_all(site)
     set_reading(site, kind, None, branch)
-    make_given(site, *(first_held(site) if was == (kind, branch) else was))
+    if not _still_all(site, was_all):
+        make_given(site, *(first_held(site) if was == (kind, branch) or was_all else was))
 
 
 def remove_branch(site: Site, index: int) -> None:
     """Take a branch out, and its reading with it (as :func:`clear_reading` does)."""
     if site.branches[index].measured_flow is not None:
         clear_reading(site, "measured_flow", index)
+    if weighs_all(site):  # still two readings or more: weighed they stay
+        site.branches.pop(index)
+        return
     was = given_of(site)
     site.branches.pop(index)
     if was[1] == index:  # the given, still without a value: the first reading left instead
@@ -160,10 +173,11 @@ def remove_branch(site: Site, index: int) -> None:
 def add_reading(site: Site, branch: int, value: str) -> bool:
     """A branch's measured flow typed in the branch table: kept beside the given, or made
     the given when the site has no reading to solve from. True when it is the given."""
-    was = given_of(site)
-    keep = bool(reading_text(site, *was)) and was != ("measured_flow", branch)
+    was, was_all = given_of(site), weighs_all(site)
+    keep = was_all or (bool(reading_text(site, *was)) and was != ("measured_flow", branch))
     set_reading(site, "measured_flow", value, branch)
-    make_given(site, *(was if keep else ("measured_flow", branch)))
+    if not _still_all(site, was_all):
+        make_given(site, *(was if keep and not was_all else ("measured_flow", branch)))
     return not keep
 
 

@@ -118,9 +118,6 @@ class Session:
     """Values the site cannot hold after a switch (a fluid field another kind does not use,
     the branch and target of a find switched to the flows), to put back on the way back.
     Readings are never parked: the site keeps them all (``givens``)."""
-    carried: dict[str, str] = field(default_factory=dict)
-    """Readings the app filled in from the answer when they became the given, by given key:
-    one switched away from untouched is taken out again, as nobody read it."""
     saved: Site | None = None
     """The site as last saved or opened (None: nothing on disk matches it, such as restored
     work); set with the first revision when the session starts."""
@@ -194,7 +191,6 @@ class Session:
         self.undo_stack.clear()
         self.redo_stack.clear()
         self.parked.clear()
-        self.carried.clear()
         self.revision += 1
         self.mark_saved()
 

@@ -49,3 +49,20 @@ def test_the_bore_found_carries_the_target_with_its_own_fittings_k(flow: float) 
         assert back.result.flows[1] >= flow / 1000 * (1 - 1e-9)
     else:
         assert back.result.flows[1] == pytest.approx(flow / 1000, rel=1e-9)
+
+
+@pytest.mark.parametrize("flow", [3.0, 14.0, 30.0])
+def test_the_assumed_fittings_line_names_the_f_t_of_the_bore_found(flow: float) -> None:
+    """The Assumed line says the K it used: ΣK = n·f_T with the f_T it names (n counted by
+    hand from Crane TP-410's multiples, as recalled: 90° standard elbow 30, globe valve 340),
+    at the nominal size of the bore found, not of the entered size."""
+    import re
+
+    found = solve_site(parse_site(SITE.format(bore='size = "2 in sch 40"') + FIND.format(
+        flow=flow)))
+    line = next(a.message for a in found.assumptions
+                if a.branch == "B" and a.code == "fittings-k")
+    total, f_t = (float(x) for x in re.search(r"ΣK ([\d.]+) .* f_T ([\d.]+)", line).groups())
+    n = 12 * 30 + 340
+    assert total == pytest.approx(n * f_t, rel=1e-2)  # as printed: 3 figures, 4 decimals
+    assert "the size of the bore found" in line

@@ -65,3 +65,18 @@ def test_one_reading_is_said_to_have_nothing_to_weigh():
     with pytest.raises(InputError) as caught:
         solve_site(parse_site(_site(None, given="all", total=False)))
     assert caught.value.field == "conditions.given"
+
+
+def test_a_reading_with_no_spread_is_named_and_does_not_stop_the_answer():
+    """A gauge reading of 0 with no full scale given has a tolerance of zero (a share of the
+    reading): it cannot be weighed. Beside another given the answer stands and a note says
+    why the readings were not weighed; with given = "all" the reading itself is named."""
+    text = _site(77, total=False).replace('pressure_drop = "10 psid"', 'pressure_drop = "0 psid"')
+    text = text.replace('gauge_full_scale', '# gauge_full_scale')
+    beside = solve_site(parse_site(text.replace('given = "pressure_drop"',
+                                                'given = "AHU-3 coil"')))
+    assert beside.reconciliation is None
+    assert any("not weighed" in n and "conditions.pressure_drop" in n for n in beside.notes)
+    with pytest.raises(InputError) as caught:
+        solve_site(parse_site(text.replace('given = "pressure_drop"', 'given = "all"')))
+    assert caught.value.field == "conditions.pressure_drop"

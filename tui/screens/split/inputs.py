@@ -31,7 +31,6 @@ from ...state.givens import (
     given_text,
     held,
     make_given,
-    reading_text,
     set_reading,
     weigh_all,
     weighs_all,
@@ -105,7 +104,10 @@ class GivenFindRows(Vertical):
             box = self.query_one(ident)
             if box.display == weighing:
                 box.display = not weighing
-        show_text(self.query_one("#given-value", Input), given_text(site))
+        given_box = self.query_one("#given-value", Input)
+        show_text(given_box, given_text(site))
+        now = "" if weighing else self._current(kind, index, digits=4)
+        given_box.placeholder = f"type the reading (answer now {now})" if now else "reading"
         put(self.query_one("#given-unit", Label), f"[{app.unit_text(GIVENS[kind].quantity)}]")
         show_text(self.query_one("#lift-value", Input),
                   text_of(site.conditions.elevation_change))
@@ -228,29 +230,18 @@ class GivenFindRows(Vertical):
         old_kind, old_index = given_of(site)
         if (new_kind, new_index) == (old_kind, old_index) and not weighs_all(site):
             return
-        carried = app.session.carried
-        old_text = reading_text(site, old_kind, old_index)
-        # A reading the app filled in from the answer, untouched since: nobody read it.
-        untouched = bool(old_text) and carried.get(_park_key(site, old_kind, old_index)) \
-            == old_text
-        fill = "" if reading_text(site, new_kind, new_index) else self._current(new_kind,
-                                                                                 new_index)
-
+        # The new given keeps the value read for it, or waits for one: the answer is never
+        # written in as a reading (it would be weighed and saved as if someone had read it).
         def change(s: Site) -> None:
-            if untouched:
-                set_reading(s, old_kind, None, old_index)
-            if fill:
-                set_reading(s, new_kind, fill, new_index)
             make_given(s, new_kind, new_index)
 
         label = ("the reading on " + branch_name(site, new_index) if new_index is not None
                  else new_kind.replace("_", " "))
         app.edit(f"Given: {label}", change)
-        if fill:
-            carried[_park_key(site, new_kind, new_index)] = fill
         self.query_one("#given-value", Input).focus()
 
-    def _current(self, kind: str, index: int | None, *, down: bool = False) -> str:
+    def _current(self, kind: str, index: int | None, *, down: bool = False,
+                 digits: int | None = None) -> str:
         """The present answer's value of a quantity about to become the given or the target
         (or ''), to :data:`CARRIED_DIGITS` figures so the answer stays the same; ``down``
         rounds toward zero (a target flow never above what the branch carries)."""
@@ -267,7 +258,7 @@ class GivenFindRows(Vertical):
         else:
             return ""
         return carried_text(value, what, self.bw.unit(what), down=down,
-                            digits=TARGET_DIGITS if down else CARRIED_DIGITS)
+                            digits=digits or (TARGET_DIGITS if down else CARRIED_DIGITS))
 
     def _switch_find(self, find: str) -> None:
         app = self.bw
@@ -322,12 +313,6 @@ def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False,
         step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
         value = math.copysign(math.floor(abs(value) / step) * step, value)
     return f"{format_number(value, digits)} {unit}"
-
-
-def _park_key(site: Site, kind: str, index: int | None) -> str:
-    if kind == "measured_flow" and index is not None:
-        return f"measured_flow:{branch_name(site, index)}"
-    return kind
 
 
 def _hidden(widget: Static) -> Static:
