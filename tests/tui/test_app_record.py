@@ -253,3 +253,29 @@ def test_record_of_unsaved_changes_says_so(ui, site_file):
             assert any("unsaved changes" in n.message for n in app._notifications)
 
     ui.run(scenario)
+
+
+def test_the_record_date_must_be_a_day_that_exists(ui):
+    """2025-02-30 and 12/03/2025 are refused beside the date field (a report would print a
+    day that does not exist, or one read two ways); a real date is kept."""
+    async def scenario() -> None:
+        async with ui.started(None) as (app, pilot):
+            for bad in ("2025-02-30", "12/03/2025"):
+                await pilot.press("f8")
+                await pilot.pause()
+                await pilot.press("tab", "tab", "ctrl+u", *bad, "enter")
+                await pilot.pause()
+                assert "must be a date" in ui.text(app), bad
+                assert app.focused is app.screen.query_one("#details-date").input
+                await pilot.press("tab", "tab", "enter")  # Enter on the last field: refused
+                await pilot.pause()
+                assert app.focused is app.screen.query_one("#details-date").input
+                await pilot.press("escape")
+                await pilot.pause()
+            await pilot.press("f8")
+            await pilot.pause()
+            await pilot.press("tab", "tab", "ctrl+u", *"2025-02-28", "enter", "enter", "enter")
+            await ui.settle(pilot)
+            assert app.site.record is not None and app.site.record.date == "2025-02-28"
+
+    ui.run(scenario)

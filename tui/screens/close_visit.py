@@ -84,13 +84,17 @@ class CloseVisitScreen(Dialog[Closing | None]):
         super().__init__()
         self.moving = what_moves(site)
         self.day = proposed_date(site)
+        typed = text_of(site.record.date).strip() if site.record is not None else ""
+        self.why_today = (f" The record's date “{typed}” is no date (YYYY-MM-DD): today's "
+                          "is offered." if typed and typed != self.day else "")
 
     def compose(self) -> ComposeResult:
         with Vertical():
             yield Label("Close today's visit?", classes="close-title")
             yield Static(f"Moves into the site's earlier visits: {self.moving}. The readings "
                          "and the record then clear for the next visit; the branches, the "
-                         "liquid and the tolerances stay. Ctrl+Z brings it all back.",
+                         "liquid and the tolerances stay. Ctrl+Z brings it all back."
+                         + self.why_today,
                          classes="close-note", markup=False)
             yield Field("Date", "visits.date", value=self.day,
                         placeholder="YYYY-MM-DD (Ctrl+D: today)", id="close-visit-date")

@@ -39,6 +39,23 @@ Details = tuple[str, RecordSpec | None]
 """What the dialog gives back: the site's name and its record (None: no record at all)."""
 
 
+def date_problem(text: str) -> str | None:
+    """Why the record's date cannot be kept (None when it can): empty, ``today``, or a real
+    calendar date YYYY-MM-DD (a time may follow); 2025-02-30 or 12/03/2025 are refused, as a
+    visit's date is, so that what a report prints is a day that exists and reads one way."""
+    from branchwise.core.errors import InputError
+    from branchwise.core.site.visits import visit_date
+
+    text = " ".join(text.split())
+    if not text or text.casefold() == "today":
+        return None
+    try:
+        visit_date(text, "record.date")
+    except InputError as exc:
+        return f"{exc.reason} or today, got {exc.value}"
+    return None
+
+
 def today() -> str:
     """Today's date as ISO text (2025-03-12), the form a TOML date is read back as."""
     return datetime.date.today().isoformat()
@@ -117,6 +134,12 @@ class SiteDetailsScreen(Dialog[Details | None]):
         if event.field.path == "name" and not event.field.text.strip():
             event.field.set_error("type the site's name")
             return
+        date_field = self.query_one("#details-date", Field)
+        problem = date_problem(date_field.text)
+        if problem is not None and (event.field is date_field or not self._has_next(event)):
+            date_field.set_error(problem)  # said on Enter in it, and before the dialog closes
+            date_field.input.focus()
+            return
         event.field.set_error(None)
         if self.next_field(event.field):
             return
@@ -128,6 +151,10 @@ class SiteDetailsScreen(Dialog[Details | None]):
             self.query_one("#details-name", Field).input.focus()
             return
         self.dismiss((name, record))
+
+    def _has_next(self, event: Field.Done) -> bool:
+        fields = list(self.query(Field))
+        return fields.index(event.field) < len(fields) - 1
 
     def action_cancel(self) -> None:
         self.dismiss(None)
