@@ -173,3 +173,30 @@ def test_the_band_says_cv_where_cv_was_given(ui):
             assert "branch 'AHU-1 coil' valve Kv" in names  # given as Kv 160
 
     ui.run(scenario)
+
+
+def test_the_form_refuses_a_negative_k_and_shows_a_new_segment(ui):
+    """Extra K below zero is refused in the form, as typed (not after it closes); Ctrl+N at
+    80×24 scrolls to the new segment's first field, where the typing goes."""
+    async def scenario() -> None:
+        async with ui.started("f3", size=(80, 24)) as (app, pilot):
+            await pilot.press("e")
+            form = app.screen
+            k = form.query_one("#f-0-k", Field)
+            k.input.focus()
+            await pilot.press("ctrl+u", *"-1", "enter")
+            await pilot.pause()
+            assert k.has_class("-error") and app.focused is k.input
+            assert "got -1" in str(k.query_one(".field-message").render())
+            await pilot.press("ctrl+u", "ctrl+n")
+            await ui.settle(pilot)
+            size = app.screen.query_one("#f-1-size", Field)
+            assert app.focused is size.input
+            shown = app.screen.query_one("#form-fields").region  # the form's scrolled part
+            for ident in ("#f-1-size", "#f-1-length"):  # the new segment, not just its edge
+                box = app.screen.query_one(ident, Field).input.region
+                assert shown.y <= box.y and box.bottom <= shown.bottom, (ident, box, shown)
+            await pilot.press("escape")
+            await pilot.pause()
+
+    ui.run(scenario)

@@ -160,8 +160,9 @@ class BranchForm(Dialog[BranchSpec | None]):
         fields = {f.path: f for f in self.query(Field)}
         j = min(self._focus_segment, len(self.branch.segments) - 1)
         target = fields.get(self._start) or fields.get(f"{j}.{self._start}") or fields["name"]
-        if self._rebuilding:  # a segment added or removed: its first field
+        if self._rebuilding:  # a segment added or removed: its first field, scrolled to
             target = fields[f"{j}.size"]
+            self.call_after_refresh(target.scroll_visible, top=True, animate=False)
         target.input.focus()
         if target.path == "name":  # typing replaces the name at once
             target.input.selection = Selection(0, len(target.text))
@@ -226,7 +227,9 @@ class BranchForm(Dialog[BranchSpec | None]):
             if key == "valve" and text:
                 return valve_problem(text)
             if key == "k" and text:
-                float(text)
+                k = float(text)
+                if not k >= 0 or k == float("inf"):
+                    return f"must be a number of zero or more, got {text}"
         except InputError as exc:
             return workspace(self.app).reason_words(exc)
         except ValueError:
