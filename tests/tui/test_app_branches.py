@@ -115,3 +115,17 @@ def test_branch_table_by_keys(ui):
                                                                 "gate-valve": 1.0}
 
     ui.run(scenario)
+
+
+def test_a_copied_branch_leaves_the_tag_and_the_reading_behind():
+    """A plant tag names one line (two lines tagged CHW-101 would confuse every record), and a
+    reading was taken on the line copied: the copy keeps the pipe, not those."""
+    from branchwise.core.site.read import demo_site
+    from branchwise.tui.state.session import new_branch
+
+    site = demo_site()
+    like = site.branches[0]
+    like.measured_flow = "335 gpm"
+    copy = new_branch(site, like)
+    assert like.tag and copy.tag is None and copy.measured_flow is None
+    assert copy.segments == like.segments and copy.name != like.name

@@ -66,11 +66,13 @@ def rename_branch(site: Site, index: int, new: str) -> None:
 
 
 def new_branch(site: Site, like: BranchSpec | None = None) -> BranchSpec:
-    """A branch to add: a copy of ``like`` without its reading, or an empty pipe."""
+    """A branch to add: a copy of ``like`` without its reading and its tag (a plant tag
+    names one line; two lines do not share it), or an empty pipe."""
     if like is None:
         return BranchSpec(name=unique_name(site, "Branch"), segments=[SegmentSpec()])
     br = copy.deepcopy(like)
     br.measured_flow = None
+    br.tag = None
     br.name = unique_name(site, text_of(like.name) or "Branch")
     return br
 

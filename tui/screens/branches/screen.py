@@ -343,10 +343,15 @@ class BranchesScreen(WorkScreen):
         if spot is None:
             return
         i = spot[0]
-        copy = new_branch(self.bw.site, self.bw.site.branches[i])
+        like = self.bw.site.branches[i]
+        copy = new_branch(self.bw.site, like)
         self.bw.edit(f"Copy {branch_name(self.bw.site, i)}",
                      lambda s: s.branches.insert(i + 1, copy))
         self._go(i + 1)
+        left = [w for w, v in (("tag", like.tag), ("reading", like.measured_flow)) if v]
+        if left:
+            self.notify(f"Copied as '{copy.name}', without the {' and '.join(left)} (they "
+                        "belong to the line copied).", timeout=4)
 
     def action_remove(self) -> None:
         spot = self.here()
