@@ -43,6 +43,10 @@ EXIT_INTERRUPTED = 130
 EXIT_STATUSES = ("exit status: 0 done; 1 an unexpected fault (a bug, please report it); "
                  "2 bad input, a site with no answer, a file that cannot be read or written, "
                  "a wrong command line, or a reader that went away (| head); 130 interrupted")
+FORMATS = ("table", "json", "csv", "markdown", "html")
+BY_SUFFIX = {".csv": "csv", ".json": "json", ".md": "markdown", ".markdown": "markdown",
+             ".html": "html", ".htm": "html"}
+"""The format an -o FILE's name asks for when --format is not given."""
 WIDTH_DEFAULT, WIDTH_MIN, WIDTH_MAX = 80, 40, 1000
 """The text table's line width: the terminal's (or COLUMNS) when writing to a terminal, 80
 otherwise, --width over both; kept within WIDTH_MIN to WIDTH_MAX columns."""
@@ -176,9 +180,9 @@ def _output_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--units", choices=("si", "us"), default="si",
                    help="unit system of the table, CSV, Markdown and --curve file (JSON is "
                         "always SI)")
-    p.add_argument("--format", choices=("table", "json", "csv", "markdown", "html"),
-                   default="table",
-                   help="output format (default: table); csv is one row per segment (the "
+    p.add_argument("--format", choices=FORMATS, default=None,
+                   help="output format (default: the one -o FILE's name says, such as .csv, "
+                        "else table); csv is one row per segment (the "
                         "cautions then go to standard error); html a walkdown report that "
                         "opens in a browser")
     p.add_argument("-o", "--output", type=Path, metavar="FILE",
@@ -467,11 +471,26 @@ def _message(exc: Exception, label: str, system: str = "si") -> str:
     return _one_line(f"{label}: {text}")
 
 
+def _format(chosen: str | None, output: Path | None) -> str:
+    """--format as given; without it, the one an -o FILE's name asks for (r.csv: CSV), said
+    on standard error; else the text table."""
+    if chosen is not None:
+        return chosen
+    by_name = BY_SUFFIX.get(output.suffix.lower()) if output is not None else None
+    if by_name is None:
+        return "table"
+    print(f"branchwise: writing {by_name.upper() if by_name != 'markdown' else 'Markdown'}, "
+          f"as the name {output.name} says (--format to choose another)", file=sys.stderr)
+    return by_name
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit status (0 fine, 2 bad input or no answer)."""
     from branchwise.core.errors import BranchwiseError
 
     args = _parser().parse_args(argv)
+    if hasattr(args, "format"):
+        args.format = _format(args.format, getattr(args, "output", None))
     out = sys.stdout
     try:
         if args.command is None:

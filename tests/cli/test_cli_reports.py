@@ -134,3 +134,23 @@ def test_a_found_roughness_is_set_beside_the_materials_table_value(tmp_path, cap
     assert table == pytest.approx(4.5e-5)
     out = " ".join(solve(capsys, str(path)).split())
     assert f"({found / table:.2g}× the table value for new commercial-steel, 0.04500 mm)" in out
+
+
+@pytest.mark.parametrize(("name", "fmt"), [("r.csv", "csv"), ("r.JSON", "json"),
+                                           ("r.md", "markdown"), ("r.html", "html"),
+                                           ("r.txt", "table")])
+def test_without_format_the_output_name_chooses_it_and_says_so(tmp_path, capsys, name, fmt):
+    """`-o r.csv` writes CSV (it wrote the text table, which a spreadsheet then misread); the
+    choice is said on standard error; --format still wins."""
+    out = tmp_path / name
+    assert main(["solve", "-o", str(out)]) == 0
+    err = capsys.readouterr().err
+    text = out.read_text(encoding="utf-8")
+    by_option = tmp_path / f"by-option-{name}"
+    assert main(["solve", "--format", fmt, "-o", str(by_option)]) == 0
+    assert text == by_option.read_text(encoding="utf-8")
+    assert ("as the name" in err) == (fmt != "table")
+    if fmt == "table":
+        return
+    assert main(["solve", "--format", "table", "-o", str(out), "--force"]) == 0
+    assert out.read_text(encoding="utf-8") != text  # the option wins over the name
