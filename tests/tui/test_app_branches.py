@@ -129,3 +129,11 @@ def test_a_copied_branch_leaves_the_tag_and_the_reading_behind():
     copy = new_branch(site, like)
     assert like.tag and copy.tag is None and copy.measured_flow is None
     assert copy.segments == like.segments and copy.name != like.name
+
+
+def test_fittings_typed_as_a_line_list_writes_them():
+    """Semicolons between fittings, as a line list's cell has them, read as commas do."""
+    from branchwise.tui.screens.branches.form import parse_fittings
+
+    assert parse_fittings("3 elbow-90; 1 swing-check-valve") == parse_fittings(
+        "elbow-90 3, swing-check-valve 1") == {"elbow-90": 3.0, "swing-check-valve": 1.0}

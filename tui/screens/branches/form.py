@@ -63,9 +63,10 @@ _ITEM = re.compile(r"\s*(?:(\d+(?:\.\d*)?)\s*[x×*]?\s*([a-z][a-z0-9-]*)|([a-z][
 
 
 def parse_fittings(text: str, field: str = "fittings") -> dict[str, float]:
-    """``elbow-90 4, gate-valve 2`` (or ``4 elbow-90``, ``elbow-90=4``) → {key: count}."""
+    """``elbow-90 4, gate-valve 2`` (or ``4 elbow-90``, ``elbow-90=4``; items apart by commas
+    or semicolons, as a line list writes them) → {key: count}."""
     out: dict[str, float] = {}
-    for item in filter(None, (part.strip() for part in text.split(","))):
+    for item in filter(None, (part.strip() for part in re.split(r"[,;]", text))):
         m = _ITEM.match(item)
         if m is None:
             raise InputError(field, item, "write each fitting as 'key count', such as "
