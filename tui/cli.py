@@ -477,7 +477,7 @@ def _format(chosen: str | None, output: Path | None) -> str:
     if chosen is not None:
         return chosen
     by_name = BY_SUFFIX.get(output.suffix.lower()) if output is not None else None
-    if by_name is None:
+    if output is None or by_name is None:
         return "table"
     print(f"branchwise: writing {by_name.upper() if by_name != 'markdown' else 'Markdown'}, "
           f"as the name {output.name} says (--format to choose another)", file=sys.stderr)

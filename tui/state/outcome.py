@@ -16,6 +16,7 @@ from time import monotonic
 from typing import TYPE_CHECKING, Any
 
 from branchwise.core.errors import BranchwiseError
+from branchwise.core.site.readings import NoReading
 
 if TYPE_CHECKING:
     from branchwise.core.model import Fluid
@@ -108,3 +109,9 @@ def band_progress(cancelled: Callable[[], bool], report: Callable[[int, int], No
             report(done, total)
 
     return progress
+
+
+def error_mark(error: BaseException | None) -> str:
+    """The mark before an error's words: ✗ for something wrong, ○ for a site that only waits
+    for its first reading (a new site, or today's visit just closed)."""
+    return "○" if isinstance(error, NoReading) else "✗"

@@ -15,6 +15,7 @@ from textual.widgets import Static
 from branchwise.core.site.fields import FieldPath
 
 from ..state.givens import ALL_WORDS, given_of, given_text, given_words, weighs_all
+from ..state.outcome import error_mark
 from ..state.session import find_of
 from ..state.values import text_of
 from ..theme import colour
@@ -119,8 +120,10 @@ def _state(app: Workspace, on_split: bool) -> tuple[Text, Text]:
     if outcome is None:  # (a later answer replaces this line; no flicker while typing)
         line.append("… solving", style="italic dim")
     elif outcome.error is not None:
-        line.append(f"✗ {app.error_words(outcome.error)}",
-                    style=f"bold {colour(app, 'text-error')}".strip())
+        waiting = error_mark(outcome.error) == "○"
+        line.append(f"{error_mark(outcome.error)} {app.error_words(outcome.error)}",
+                    style=colour(app, "text-warning") if waiting
+                    else f"bold {colour(app, 'text-error')}".strip())
         where = Text(f"  ({AREA_KEYS[FieldPath.parse(outcome.field).area]})", style="dim")
     else:
         n = len(outcome.solved.result.branches) if outcome.solved else 0

@@ -30,6 +30,7 @@ from ...state.givens import (
     remove_branch,
     weighs_all,
 )
+from ...state.outcome import error_mark
 from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
 from ...theme import colour
@@ -156,7 +157,7 @@ class BranchesScreen(WorkScreen):
         message = self.query_one("#branch-message", Static)
         message.set_class(bad is None, "-hint")
         if bad is not None and outcome is not None and outcome.error is not None:
-            put(message, f"✗ {app.error_words(outcome.error)}")
+            put(message, f"{error_mark(outcome.error)} {app.error_words(outcome.error)}")
         else:
             put(message, reading_hint(site, given))
 

@@ -35,6 +35,7 @@ from ...state.givens import (
     weigh_all,
     weighs_all,
 )
+from ...state.outcome import error_mark
 from ...state.session import find_of, set_find
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.choice import Choice
@@ -151,7 +152,8 @@ class GivenFindRows(Vertical):
                 find_msg = text
         for ident, message in (("#given-message", given_msg), ("#find-message", find_msg)):
             box = self.query_one(ident, Static)
-            put(box, f"✗ {message}" if message else "")
+            mark = error_mark(outcome.error if outcome is not None else None)
+            put(box, f"{mark} {message}" if message else "")
             if box.display != bool(message):
                 box.display = bool(message)
 
