@@ -8,6 +8,7 @@ and checks it, naming the field as it appears in the file (``branches[1].length`
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
@@ -43,6 +44,7 @@ from .values import (
 from .valves import series_kv
 
 if TYPE_CHECKING:
+    from ..catalogs.materials import Material
     from ..numerics.uncertainty import Tolerances
     from ..storage.presets import PresetSource
 
@@ -71,9 +73,9 @@ class Built:
 
 # ---- branches ------------------------------------------------------------------------------
 
-def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
+def _segment(seg: SegmentSpec, path: str,
+             material_for: Callable[[str, str], Material]) -> tuple[Segment, Any, float]:
     from ..catalogs import fittings_k
-    from ..storage.user_presets import material_for
 
     if seg.diameter is not None and seg.size is not None:
         raise InputError(f"{path}.size", describe(seg.size), "give diameter or size, not both")
@@ -138,7 +140,8 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     return segment, size, k_fittings
 
 
-def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], list[str]]:
+def _branch(br: BranchSpec, i: int, material_for: Callable[[str, str], Material]
+            ) -> tuple[Branch, list[Any], list[float], list[str]]:
     path = f"branches[{i}]"
     name = text_value(br.name, f"{path}.name")
     if name is None:
@@ -149,7 +152,7 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
     segs, sizes, ks, paths = [], [], [], []
     for j, spec in enumerate(br.segments):
         seg_path = f"{path}.segments[{j}]" if many else path
-        seg, size, k = _segment(spec, seg_path)
+        seg, size, k = _segment(spec, seg_path, material_for)
         segs.append(seg)
         sizes.append(size)
         ks.append(k)
@@ -198,6 +201,22 @@ def _find(site: Site, network: Network) -> Find:
     return FindUnknown(find, network.branches[index].name, target, int(seg) - 1)
 
 
+def _materials() -> Callable[[str, str], Material]:
+    """The user's or the shipped material of a key, each key looked up once for one build (a
+    lookup checks whether the user's presets file has changed)."""
+    from ..storage.user_presets import material_for
+
+    found: dict[str, Material] = {}
+
+    def lookup(key: str, field: str) -> Material:
+        mat = found.get(key)
+        if mat is None:
+            mat = found[key] = material_for(key, field)
+        return mat
+
+    return lookup
+
+
 def build(site: Site, presets: PresetSource | None = None) -> Built:
     """The core objects for ``site``; every bad value is an InputError naming its field (and
     carrying the site's branch names, :attr:`InputError.names`).
@@ -217,8 +236,9 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
         raise InputError("branches", "nothing", "a site needs at least one [[branches]] table")
     branches, sizes, ks, paths = [], [], [], []
     seen: dict[str, int] = {}
+    materials = _materials()
     for i, spec in enumerate(site.branches):
-        br, s, k, p = _branch(spec, i)
+        br, s, k, p = _branch(spec, i, materials)
         key = br.name.casefold()
         if key in seen:
             raise InputError(f"branches[{i}].name", br.name,
