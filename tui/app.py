@@ -227,6 +227,12 @@ class BranchwiseApp(App[None]):
         self.startup_seconds = time.perf_counter() - _STARTED
         self.log(f"branchwise: first screen drawn {self.startup_seconds * 1000:.0f} ms after "
                  "the app module started loading")
+        from .screens.work_screen import WorkScreen
+
+        for stack in self._screen_stacks.values():
+            for screen in stack:
+                if isinstance(screen, WorkScreen):
+                    screen.add_footer()
         if self._note:
             self.notify(self._note, severity="warning", timeout=8)
         if self._remember_on_start:
