@@ -44,7 +44,16 @@ async def measure(n: int, changes: int, start_at: int = 0) -> list[tuple[float, 
     """(wall, CPU) seconds of each of ``changes`` changes on a site of ``n`` branches."""
     from branchwise.tui.app import BranchwiseApp
 
-    app = BranchwiseApp()
+    class Probe(BranchwiseApp):
+        """Says when the answer for a revision has come (no polling loop to burn CPU)."""
+
+        want: tuple[int, asyncio.Event] | None = None
+
+        def watch_outcome(self, outcome) -> None:
+            if self.want is not None and outcome is not None and outcome.revision == self.want[0]:
+                self.want[1].set()
+
+    app = Probe()
     times: list[tuple[float, float]] = []
     async with app.run_test(size=(120, 40)) as pilot:
         app.session.replace(site_with(n))
@@ -55,12 +64,11 @@ async def measure(n: int, changes: int, start_at: int = 0) -> list[tuple[float, 
         box = app.focused
         for k in range(start_at, start_at + changes + 1):
             value = f"{8 + (k % 10) * 0.5:g} psi"
-            drawn = asyncio.Event()
-            want = app.session.revision + 1
+            drawn, answered = asyncio.Event(), asyncio.Event()
+            app.want = (app.session.revision + 1, answered)
             wall, cpu = time.perf_counter(), time.process_time()
             box.value = value  # as the last keystroke of a value would leave it
-            while app.outcome is None or app.outcome.revision != want:
-                await asyncio.sleep(0.0005)
+            await answered.wait()
             app.call_after_refresh(drawn.set)
             await drawn.wait()
             if k > start_at:  # the first change after a start warms the caches: not counted

@@ -54,10 +54,13 @@ class TextTable(ScrollView, can_focus=True):
         if same_shape and self._widths == old_widths:
             # The same columns and widths: only the rows whose text changed are drawn again.
             height = self.header_lines
+            changed = False
             for r, (new, old) in enumerate(zip(plain, old_plain, strict=True)):
                 if new != old:
                     self._strips.pop(height + r, None)
-                    self.refresh_line(height + r)
+                    changed = True
+            if changed:
+                self.refresh()  # one repaint of the lines in sight (drawn again if dropped)
             return
         self._strips.clear()
         self.virtual_size = Size(sum(self._widths) + 2 * len(self._widths),

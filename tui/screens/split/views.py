@@ -209,21 +209,22 @@ class ResultViews(Vertical):
 
         result = shown.solved.result
         rows: list[list[str | Text]] = []
+        number = app.units.number  # (the reader's units, looked up once for every cell)
         bar = (colour(self.app, "text-primary"), f"bold {colour(self.app, 'text-error')}")
         for br in result.branches:
             for j, seg in enumerate(br.segments):
                 first = j == 0
                 rows.append([
                     br.name if first else f"  └ {'segment' if wide else 'seg.'} {j + 1}",
-                    app.fmt(br.flow, "flow", unit=False) if first else "",
+                    number(br.flow, "flow") if first else "",
                     (share_bar(br.share, 6, *bar) if wide else _percent(br.share)) if first else "",
-                    app.fmt(seg.velocity, "velocity", 3, unit=False),
+                    number(seg.velocity, "velocity", 3),
                     f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
                     f"{seg.friction_factor:.4f}",
                     REGIMES.get(seg.regime, seg.regime),
-                    app.fmt(seg.major_loss, "head", 3, unit=False),
-                    app.fmt(seg.minor_loss, "head", 3, unit=False),
-                    app.fmt(br.valve_loss, "head", 3, unit=False)
+                    number(seg.major_loss, "head", 3),
+                    number(seg.minor_loss, "head", 3),
+                    number(br.valve_loss, "head", 3)
                     if first and br.valve_loss else "",
                 ])
         table.show(columns, rows)
