@@ -65,7 +65,10 @@ class BranchwiseApp(App[None]):
     """
 
     TITLE = "branchwise"
-    CSS_PATH = Path(__file__).parent / "app.tcss"
+    CSS_PATH = [Path(__file__).parent / "app.tcss",
+                # The first screen's own rules, read with the app's: a screen's stylesheet read
+                # when the screen is first shown makes Textual parse every stylesheet twice more.
+                Path(__file__).parent / "screens" / "split" / "split.tcss"]
     MODES = {s.mode: s.build for s in SCREENS}
     DEFAULT_MODE = FIRST
     BINDINGS = [
