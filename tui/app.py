@@ -65,7 +65,10 @@ class BranchwiseApp(App[None]):
     """
 
     TITLE = "branchwise"
-    CSS_PATH = Path(__file__).parent / "app.tcss"
+    CSS_PATH = [Path(__file__).parent / "app.tcss",
+                # The first screen's own rules, read with the app's: a screen's stylesheet read
+                # when the screen is first shown makes Textual parse every stylesheet twice more.
+                Path(__file__).parent / "screens" / "split" / "split.tcss"]
     MODES = {s.mode: s.build for s in SCREENS}
     DEFAULT_MODE = FIRST
     BINDINGS = [
@@ -227,6 +230,12 @@ class BranchwiseApp(App[None]):
         self.startup_seconds = time.perf_counter() - _STARTED
         self.log(f"branchwise: first screen drawn {self.startup_seconds * 1000:.0f} ms after "
                  "the app module started loading")
+        from .screens.work_screen import WorkScreen
+
+        for stack in self._screen_stacks.values():
+            for screen in stack:
+                if isinstance(screen, WorkScreen):
+                    screen.add_footer()
         if self._note:
             self.notify(self._note, severity="warning", timeout=8)
         if self._remember_on_start:

@@ -22,7 +22,7 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
-from functools import cache
+from functools import cache, lru_cache
 from typing import Any
 
 from ..errors import InputError, describe
@@ -135,7 +135,13 @@ def _sch40() -> tuple[PipeSize, ...]:
 
 def crane_nominal(inner_diameter_m: float) -> PipeSize:
     """The Schedule 40 steel size whose bore is nearest ``inner_diameter_m`` (m), NPS 1/2–24."""
-    d = positive("inner_diameter", inner_diameter_m)
+    return _nearest_sch40(positive("inner_diameter", inner_diameter_m))
+
+
+@lru_cache(maxsize=1024)
+def _nearest_sch40(d: float) -> PipeSize:
+    """The nearest size to a bore, remembered (every fitting of every branch asks, on every
+    solve; a site has a few bores)."""
     return min(_sch40(), key=lambda p: abs(p.inner_diameter_m - d))
 
 

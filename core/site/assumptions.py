@@ -10,6 +10,7 @@ under ``assumptions``.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from functools import cached_property
 from typing import TYPE_CHECKING
@@ -19,6 +20,7 @@ from ..model import CV_PER_KV, STANDARD_GRAVITY, Segment
 from .spec import SegmentSpec, Site, Value
 
 if TYPE_CHECKING:
+    from ..catalogs.materials import Material
     from .build import Built
 
 
@@ -45,15 +47,24 @@ def assumptions_of(site: Site, built: Built,
 
     found: (branch, segment, bore in m) of a diameter found: that segment's fittings K is the
     found bore's (Crane's f_T by its nominal size), and is said so."""
+    from ..storage.user_presets import material_for
+
     out = _site_wide(site, built)
     net = built.network
+    materials: dict[str, Material] = {}
+
+    def material(key: str) -> Material:  # each key looked up once (a lookup checks a file)
+        if key not in materials:
+            materials[key] = material_for(key, "material")
+        return materials[key]
+
     for i, (spec, branch) in enumerate(zip(site.branches, net.branches, strict=True)):
         many = len(branch.segments) > 1
         for j, (seg_spec, seg) in enumerate(zip(spec.segments, branch.segments, strict=True)):
             where = f"segment {j + 1}: " if many else ""
             bore = found[2] if found is not None and found[:2] == (i, j) else None
             for code, words in _segment(seg_spec, seg, built.sizes[i][j], built.fittings_k[i][j],
-                                        net.friction, bore):
+                                        net.friction, material, bore):
                 out.append(Assumption(code, branch.name, where + words))
         if spec.valve_cv is not None and branch.valve_kv is not None:
             out.append(Assumption(
@@ -92,9 +103,9 @@ def _site_wide(site: Site, built: Built) -> list[Assumption]:
 
 
 def _segment(spec: SegmentSpec, seg: Segment, size: object, k_fittings: float,
-             friction: str, found_bore: float | None = None) -> list[tuple[str, str]]:
+             friction: str, material_of: Callable[[str], Material],
+             found_bore: float | None = None) -> list[tuple[str, str]]:
     from ..catalogs import crane_ft, crane_nominal
-    from ..storage.user_presets import material_for
 
     out: list[tuple[str, str]] = []
     if size is not None:
@@ -106,7 +117,7 @@ def _segment(spec: SegmentSpec, seg: Segment, size: object, k_fittings: float,
     if spec.roughness is None:
         key = material or getattr(size, "material_hint", None)
         if key is not None:
-            mat = material_for(key, "material")
+            mat = material_of(key)
             source = mat.source.split(";")[0].removeprefix("roughness: ")
             how = "" if material else ", the material the size's standard is made in"
             aged = " (aged)" if _typed(spec.condition) == "aged" else ""

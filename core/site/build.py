@@ -8,6 +8,8 @@ and checks it, naming the field as it appears in the file (``branches[1].length`
 
 from __future__ import annotations
 
+import threading
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
@@ -43,6 +45,7 @@ from .values import (
 from .valves import series_kv
 
 if TYPE_CHECKING:
+    from ..catalogs.materials import Material
     from ..numerics.uncertainty import Tolerances
     from ..storage.presets import PresetSource
 
@@ -71,9 +74,9 @@ class Built:
 
 # ---- branches ------------------------------------------------------------------------------
 
-def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
+def _segment(seg: SegmentSpec, path: str,
+             material_for: Callable[[str, str], Material]) -> tuple[Segment, Any, float]:
     from ..catalogs import fittings_k
-    from ..storage.user_presets import material_for
 
     if seg.diameter is not None and seg.size is not None:
         raise InputError(f"{path}.size", describe(seg.size), "give diameter or size, not both")
@@ -138,7 +141,8 @@ def _segment(seg: SegmentSpec, path: str) -> tuple[Segment, Any, float]:
     return segment, size, k_fittings
 
 
-def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], list[str]]:
+def _branch(br: BranchSpec, i: int, material_for: Callable[[str, str], Material]
+            ) -> tuple[Branch, list[Any], list[float], list[str]]:
     path = f"branches[{i}]"
     name = text_value(br.name, f"{path}.name")
     if name is None:
@@ -149,7 +153,7 @@ def _branch(br: BranchSpec, i: int) -> tuple[Branch, list[Any], list[float], lis
     segs, sizes, ks, paths = [], [], [], []
     for j, spec in enumerate(br.segments):
         seg_path = f"{path}.segments[{j}]" if many else path
-        seg, size, k = _segment(spec, seg_path)
+        seg, size, k = _segment(spec, seg_path, material_for)
         segs.append(seg)
         sizes.append(size)
         ks.append(k)
@@ -198,6 +202,57 @@ def _find(site: Site, network: Network) -> Find:
     return FindUnknown(find, network.branches[index].name, target, int(seg) - 1)
 
 
+BRANCH_CACHE_SIZE = 4096
+"""How many branches are kept built (see :func:`_branch_once`)."""
+
+Built_branch = tuple[Branch, tuple[Any, ...], tuple[float, ...], tuple[str, ...]]
+_built: dict[tuple[int, str], Built_branch] = {}
+_built_for: list[object] = [None]
+"""The user's presets the kept branches were built with (a material may come from them)."""
+_built_lock = threading.Lock()
+
+
+def _branch_once(br: BranchSpec, i: int, material_for: Callable[[str, str], Material],
+                 user: object) -> Built_branch:
+    """:func:`_branch`, remembered: the app builds the whole site on every keystroke, where
+    one branch (or none) has changed. A branch is kept by its place and everything typed in it
+    (its ``repr``: ``1`` and ``True`` and ``"1"`` differ), for the user's presets file as it is
+    now (a new file drops every kept branch); the model's objects are immutable, so one built
+    branch serves every build. Errors are never kept (each names its field). At most
+    :data:`BRANCH_CACHE_SIZE` branches are kept. user: the user's presets now."""
+    key = (i, repr(br))
+    with _built_lock:
+        if _built_for[0] is not user:
+            _built.clear()
+            _built_for[0] = user
+        found = _built.get(key)
+    if found is None:
+        branch, sizes, ks, paths = _branch(br, i, material_for)
+        found = (branch, tuple(sizes), tuple(ks), tuple(paths))
+        with _built_lock:
+            if len(_built) >= BRANCH_CACHE_SIZE:
+                _built.clear()
+            if _built_for[0] is user:
+                _built[key] = found
+    return found
+
+
+def _materials() -> Callable[[str, str], Material]:
+    """The user's or the shipped material of a key, each key looked up once for one build (a
+    lookup checks whether the user's presets file has changed)."""
+    from ..storage.user_presets import material_for
+
+    found: dict[str, Material] = {}
+
+    def lookup(key: str, field: str) -> Material:
+        mat = found.get(key)
+        if mat is None:
+            mat = found[key] = material_for(key, field)
+        return mat
+
+    return lookup
+
+
 def build(site: Site, presets: PresetSource | None = None) -> Built:
     """The core objects for ``site``; every bad value is an InputError naming its field (and
     carrying the site's branch names, :attr:`InputError.names`).
@@ -216,9 +271,12 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
     if not site.branches:
         raise InputError("branches", "nothing", "a site needs at least one [[branches]] table")
     branches, sizes, ks, paths = [], [], [], []
+    from ..storage.user_presets import store
+
     seen: dict[str, int] = {}
+    materials, user = _materials(), store()
     for i, spec in enumerate(site.branches):
-        br, s, k, p = _branch(spec, i)
+        br, s, k, p = _branch_once(spec, i, materials, user)
         key = br.name.casefold()
         if key in seen:
             raise InputError(f"branches[{i}].name", br.name,

@@ -6,6 +6,7 @@ Every failure is an :class:`~branchwise.core.errors.InputError` naming the field
 from __future__ import annotations
 
 import math
+import threading
 from typing import TYPE_CHECKING
 
 from ..errors import InputError, describe
@@ -29,8 +30,31 @@ def optional_quantity(value: Value, kind: str, path: str) -> float | None:
     return None if value is None else parse_quantity(value, kind, path)
 
 
+SIZE_CACHE_SIZE = 1024
+"""How many size texts are kept read (see :func:`size_or_bore`)."""
+
+_sizes: dict[tuple[str, str | None], tuple[PipeSize | None, float]] = {}
+_sizes_lock = threading.Lock()
+
+
 def size_or_bore(text: str, path: str,
                  default_unit: str | None = None) -> tuple[PipeSize | None, float]:
+    """:func:`read_size_or_bore`, remembered: a size text read once (the catalogs are shipped
+    and read once) is not read again; errors are never remembered, so that each names its own
+    field. At most :data:`SIZE_CACHE_SIZE` texts are kept."""
+    key = (text, default_unit)
+    found = _sizes.get(key)
+    if found is None:
+        found = read_size_or_bore(text, path, default_unit)
+        with _sizes_lock:
+            if len(_sizes) >= SIZE_CACHE_SIZE:
+                _sizes.clear()
+            _sizes[key] = found
+    return found
+
+
+def read_size_or_bore(text: str, path: str,
+                      default_unit: str | None = None) -> tuple[PipeSize | None, float]:
     """A size field read as the site file reads it: (the catalog size, its bore in m), or
     (None, the bore) for a bore written as one (``ID 3 in``, ``bore 77.9 mm``) or a plain length
     that is no nominal size (``77.9 mm``). A plain length that is also a nominal size (``3 in``,

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import math
 import re
+import threading
 from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
@@ -39,7 +40,37 @@ US_CUSTOMARY = frozenset({
 one writes a decimal comma); ``2,000 m`` could be either and is refused."""
 
 
+READ_CACHE_SIZE = 4096
+"""How many (text, kind, default unit) readings are kept: the app reads the whole site on
+every keystroke, and a site of a few hundred branches repeats the same few texts."""
+
+_read: dict[tuple[type, object, str, str | None], float] = {}
+_read_lock = threading.Lock()
+
+
 def parse_quantity(
+    text: object, kind: str, field: str, default_unit: str | None = None
+) -> float:
+    """The SI value of ``text`` as a ``kind`` (see :func:`read_quantity`), remembered.
+
+    A text read once is not read again: the value depends only on the text, the kind and the
+    default unit (the field path only names an error, and errors are never remembered, so that
+    each names its own field). At most :data:`READ_CACHE_SIZE` readings are kept.
+    """
+    if not isinstance(text, (str, int, float)):
+        return read_quantity(text, kind, field, default_unit)
+    key = (type(text), text, kind, default_unit)  # the type: True is 1, 1 is 1.0 to a dict
+    value = _read.get(key)
+    if value is None:
+        value = read_quantity(text, kind, field, default_unit)
+        with _read_lock:
+            if len(_read) >= READ_CACHE_SIZE:
+                _read.clear()
+            _read[key] = value
+    return value
+
+
+def read_quantity(
     text: object, kind: str, field: str, default_unit: str | None = None
 ) -> float:
     """The SI value of ``text`` (``"68 kPa"``, ``"3.068 in"``, ``"18 degC"``) as a ``kind``.

@@ -3,8 +3,10 @@
 Each run is a fresh Python process in a pseudo-terminal (80×24), so the figure includes the
 interpreter, the imports, composing the first screen and drawing it to the terminal. The child
 notes the moment its first screen has been drawn (``call_after_refresh`` after mount) and stops
-at once. Runs alternate between the two apps; medians are compared. The goal: branchwise within
-1.5× of the minimal app (heavy modules — numpy, scipy, pint — load only after that first screen).
+at once. Runs alternate between the two apps; medians are compared, the process's own CPU time
+first (less disturbed by other work on the machine). The goal: branchwise's first screen within
+1.3× of a minimal Textual app (a Static and a Footer) started the same way (heavy modules —
+numpy, scipy, pint — load only after that first screen).
 
     python tests/perf/bench_startup.py [--runs 7]
 """
@@ -35,12 +37,13 @@ def note_and_stop():
 
 if sys.argv[1] == "minimal":
     from textual.app import App
-    from textual.widgets import Footer, Header, Static
+    from textual.widgets import Footer, Static
 
     class Minimal(App):
+        BINDINGS = [("ctrl+q", "quit", "Quit")]
+
         def compose(self):
-            yield Header()
-            yield Static("A minimal Textual app: a title, a line of text, a footer.")
+            yield Static("A minimal Textual app: a line of text, a footer.")
             yield Footer()
 
         def on_mount(self):
@@ -125,8 +128,9 @@ def main(argv: list[str] | None = None) -> None:
     ratios = [statistics.median(wall["branchwise"]) / statistics.median(wall["minimal"]),
               min(wall["branchwise"]) / min(wall["minimal"]),
               statistics.median(cpu["branchwise"]) / statistics.median(cpu["minimal"])]
-    print(f"  {'ratio':<11} {ratios[0]:9.2f}× {ratios[1]:8.2f}× {ratios[2]:9.2f}×"
-          "   (goal ≤ 1.5×)")
+    print(f"  {'ratio':<11} {ratios[0]:9.2f}× {ratios[1]:8.2f}× {ratios[2]:9.2f}×")
+    print(f"  goal: CPU-time median ratio ≤ 1.3×: {ratios[2]:.2f}× "
+          f"({'met' if ratios[2] <= 1.3 else 'not met'})")
     print("  heavy modules loaded before the first screen: "
           f"{', '.join(sorted(heavy)) or 'none'}")
 

@@ -10,9 +10,10 @@ from textual.actions import parse
 from textual.app import ComposeResult
 from textual.screen import Screen
 from textual.widget import Widget
-from textual.widgets import Footer, Header
+from textual.widgets import Header
 
 from ..widgets.caution_line import CautionLine
+from ..widgets.keys_footer import KeysFooter
 from ..widgets.status import StatusStrip
 from ..workspace import workspace
 
@@ -39,7 +40,15 @@ class WorkScreen(Screen):
         # The cautions on every screen, and the keys the footer has no room for.
         yield CautionLine(self.HINT_KEYS, id="caution-line")
         # The keys that matter on this screen; F1 lists them all, Ctrl+P finds any by name.
-        yield Footer(compact=True, show_command_palette=False)
+        # The first screen gets its footer once it is drawn (:meth:`add_footer`): building the
+        # footer's keys is a good part of the start.
+        if getattr(self.app, "startup_seconds", None) is not None:
+            yield KeysFooter(compact=True, show_command_palette=False)
+
+    def add_footer(self) -> None:
+        """The footer, if this screen was built before the first screen was drawn."""
+        if self.is_attached and not self.query(KeysFooter):
+            self.mount(KeysFooter(compact=True, show_command_palette=False))
 
     def body(self) -> ComposeResult:
         raise NotImplementedError

@@ -46,13 +46,19 @@ class BandView(ScrollableContainer, can_focus=True):
     BandView.-stale > #band-body { opacity: 50%; }
     """
 
+    def __init__(self, *, id: str | None = None) -> None:
+        super().__init__(id=id)
+        # Made here, so that the band can be shown the moment this view is mounted.
+        self._head = Static("", id="band-head", markup=False)
+        self._body = Static("", id="band-body", markup=False)
+
     def compose(self) -> ComposeResult:
-        yield Static("", id="band-head", markup=False)
-        yield Static("", id="band-body", markup=False)
+        yield self._head
+        yield self._body
 
     def show(self, head: Text, body: Text, stale: bool) -> None:
-        put(self.query_one("#band-head", Static), head)
-        put(self.query_one("#band-body", Static), body)
+        put(self._head, head)
+        put(self._body, body)
         self.set_class(stale, "-stale")
 
 

@@ -34,8 +34,6 @@ from ...quiet import put
 from ...state.outcome import Band, BandStopped, band_progress
 from ...theme import colour
 from ...theme import series as theme_series
-from ...widgets.bandview import WIDE, BandView, band_body, band_notes
-from ...widgets.curveplot import CurvePlot, PlotData, Series
 from ...widgets.texttable import TextTable
 from ...workspace import workspace
 from ..warnings import fit_lines
@@ -47,6 +45,7 @@ if TYPE_CHECKING:
     from branchwise.core.site.spec import Site, TolerancesSpec
 
     from ...state.outcome import Outcome
+    from ...widgets.curveplot import PlotData
     from ...workspace import Workspace
 
 BAND_SAMPLES = 10_000
@@ -115,11 +114,8 @@ class ResultViews(Vertical):
         return workspace(self.app)
 
     def compose(self) -> ComposeResult:
+        # The band and the curve are built when first asked for (:meth:`_view`).
         yield TextTable(id="results")
-        band, curve = BandView(id="band-view"), CurvePlot(id="curve-view")
-        band.display = curve.display = False
-        yield band
-        yield curve
         yield Static("", id="totals", markup=False)
         yield Static("", id="solved", markup=False)
         warnings = Static("", id="warnings", markup=False)
@@ -128,14 +124,31 @@ class ResultViews(Vertical):
 
     def main_view(self) -> Widget | None:
         """The focusable widget of the view shown (the curve has none)."""
-        return None if self.view == "curve" else self.query_one(VIEWS[self.view])
+        return None if self.view == "curve" else self._view(self.view)
+
+    def _view(self, name: str) -> Widget:
+        """The widget of view ``name``; the band and the curve are mounted in the table's
+        place the first time they are shown (most visits never open them)."""
+        found = self.query(VIEWS[name])
+        if found:
+            return found.first()
+        from ...widgets.bandview import BandView
+        from ...widgets.curveplot import CurvePlot
+
+        widget: Widget = BandView(id="band-view") if name == "band" else CurvePlot(id="curve-view")
+        widget.display = False
+        self.mount(widget, before=self.query_one("#totals"))
+        return widget
 
     def toggle(self, name: str) -> None:
         """Show the ``name`` view (``band``, ``curve``) in the table's place, or the table
         again if it is shown already."""
         self.view = "table" if self.view == name else name
+        self._view(self.view).display = True
         for view, ident in VIEWS.items():
-            self.query_one(ident).display = view == self.view
+            if view != self.view:
+                for widget in self.query(ident):
+                    widget.display = False
         for totals in self.query("#totals"):  # the band has its own total and Δp rows:
             totals.display = self.view != "band" or self.app.size.height >= 30  # room for it
         main = self.main_view()
@@ -209,21 +222,22 @@ class ResultViews(Vertical):
 
         result = shown.solved.result
         rows: list[list[str | Text]] = []
+        number = app.units.number  # (the reader's units, looked up once for every cell)
         bar = (colour(self.app, "text-primary"), f"bold {colour(self.app, 'text-error')}")
         for br in result.branches:
             for j, seg in enumerate(br.segments):
                 first = j == 0
                 rows.append([
                     br.name if first else f"  └ {'segment' if wide else 'seg.'} {j + 1}",
-                    app.fmt(br.flow, "flow", unit=False) if first else "",
+                    number(br.flow, "flow") if first else "",
                     (share_bar(br.share, 6, *bar) if wide else _percent(br.share)) if first else "",
-                    app.fmt(seg.velocity, "velocity", 3, unit=False),
+                    number(seg.velocity, "velocity", 3),
                     f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
                     f"{seg.friction_factor:.4f}",
                     REGIMES.get(seg.regime, seg.regime),
-                    app.fmt(seg.major_loss, "head", 3, unit=False),
-                    app.fmt(seg.minor_loss, "head", 3, unit=False),
-                    app.fmt(br.valve_loss, "head", 3, unit=False)
+                    number(seg.major_loss, "head", 3),
+                    number(seg.minor_loss, "head", 3),
+                    number(br.valve_loss, "head", 3)
                     if first and br.valve_loss else "",
                 ])
         table.show(columns, rows)
@@ -392,6 +406,8 @@ class ResultViews(Vertical):
         return "none" if band is None else "stale"
 
     def _draw_band(self) -> None:
+        from ...widgets.bandview import WIDE, BandView, band_body, band_notes
+
         app, band, state = self.bw, self.band, self.band_state()
         warn = f"bold {colour(self.app, 'text-warning')}".strip()
         draws = f"{BAND_SAMPLES:,} Monte Carlo draws"
@@ -418,15 +434,20 @@ class ResultViews(Vertical):
         if band is not None and band.solved is not None:
             wide = self.app.size.width >= WIDE
             body = band_body(app, band.solved, wide) + band_notes(app, band.solved)
-        self.query_one("#band-view", BandView).show(head, body, stale=state != "current")
+        view = self._view("band")
+        assert isinstance(view, BandView)
+        view.show(head, body, stale=state != "current")
 
     # ---- the curve -----------------------------------------------------------------------------
 
     def _draw_curve(self) -> None:
+        from ...widgets.curveplot import CurvePlot
+
         app = self.bw
         outcome = app.outcome
         shown = outcome if outcome is not None and outcome.ok else app.good
-        plot = self.query_one("#curve-view", CurvePlot)
+        plot = self._view("curve")
+        assert isinstance(plot, CurvePlot)
         if shown is None or shown.solved is None:
             plot.show(None, "The system curve shows once the site solves.")
             return
@@ -472,6 +493,8 @@ class ResultViews(Vertical):
     def plot_data(self, curve: SystemCurve) -> PlotData:
         """The curve in the app's display units: each branch, then the total on top."""
         from branchwise.core.units import to_unit
+
+        from ...widgets.curveplot import PlotData, Series
 
         app = self.bw
         flow_unit, dp_unit = app.unit("flow"), app.unit("pressure")
