@@ -108,7 +108,8 @@ class GivenFindRows(Vertical):
         given_box = self.query_one("#given-value", Input)
         show_text(given_box, given_text(site))
         now = "" if weighing else self._current(kind, index, digits=4)
-        given_box.placeholder = f"type the reading (answer now {now})" if now else "reading"
+        # the answer's figure (its unit is beside the field), short enough for 80 columns
+        given_box.placeholder = f"answer now {now.split()[0]}" if now else "the reading"
         put(self.query_one("#given-unit", Label), f"[{app.unit_text(GIVENS[kind].quantity)}]")
         show_text(self.query_one("#lift-value", Input),
                   text_of(site.conditions.elevation_change))
