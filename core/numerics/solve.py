@@ -38,10 +38,11 @@ from ..model import (
     finite,
 )
 from . import friction, unknowns
-from .checks import collect_warnings
+from .checks import MAX_VELOCITY, collect_warnings
 from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, head_for_total_flow
 from .hydraulics import segment_state as _segment_state
 from .results import Arrays, Convergence, Result, Solved
+from .small import SMALL_BRANCHES, try_solve
 
 
 def solve(network: Network, given: Given, find: Find | None = None) -> Result:
@@ -52,8 +53,15 @@ def solve(network: Network, given: Given, find: Find | None = None) -> Result:
     _check_given(network, given)
     infos: list[RootInfo] = []
     solved: Solved | None = None
+    target_index = None
     if isinstance(find, FindUnknown):
         target_index = _check_find(network, given, find)
+    if len(network.branches) <= SMALL_BRANCHES:
+        fast = try_solve(network, given, find, target_index)
+        if fast is not None:
+            return fast
+    if isinstance(find, FindUnknown):
+        assert target_index is not None
         head = _head_for_unknown(network, given, find, target_index, infos)
         network, solved, info = unknowns.find(network, find, target_index, head, given)
         infos.append(info)
@@ -101,7 +109,12 @@ def _check_resistance(network: Network) -> None:
     """A branch with nothing in it (no length, no fittings, no valve) cannot carry a finite
     flow at any head: refused by name rather than solved to zero or to an overflow."""
     for i, br in enumerate(network.branches):
-        if br.valve_kv is None and all(s.length == 0 and s.minor_k == 0 for s in br.segments):
+        if br.valve_kv is not None:
+            continue
+        for s in br.segments:
+            if s.length != 0 or s.minor_k != 0:
+                break
+        else:
             raise InputError(
                 f"branches[{i}].length", "0",
                 "this branch has no resistance (no length, no fittings, no valve), so no flow "
@@ -203,11 +216,6 @@ def _head_for_unknown(
 
 
 # ---- the result ------------------------------------------------------------------------------
-
-MAX_VELOCITY = 300.0
-"""m/s. A liquid is treated as incompressible, which holds well below its speed of sound (about
-1500 m/s in water); no liquid line runs anywhere near this (common practice: 1–3 m/s)."""
-
 
 UNSETTLED = 1e-6
 """A relative residual above which an answer that did not converge is refused, not warned of."""
