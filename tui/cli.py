@@ -6,6 +6,7 @@
     branchwise open SITE            open the app on a site file
     branchwise where                show where user files live
     branchwise import LINES.csv     a line list (CSV) as a site file
+    branchwise history SITE         each visit solved, and how each branch changed since
     python -m branchwise ...        the same, where the script is not on the PATH
 
 Nothing here imports Textual at module level: ``branchwise solve`` must start fast and work
@@ -113,6 +114,18 @@ def _parser() -> argparse.ArgumentParser:
         description="Open the app on a site file (until the app is installed: solve it).")
     open_.add_argument("site", type=Path, help="site file (TOML)")
     _output_options(open_)
+
+    history = sub.add_parser(
+        "history", help="each visit solved, and how each branch changed between visits",
+        description="Solve every visit a site file keeps ([[visits]], and today's readings) "
+                    "from its own readings, and show per branch the flow, the resistance "
+                    "R = h/Q² and the effective roughness, with the change since the first and "
+                    "the previous visit and its band; a change beyond its band is flagged. "
+                    "The site file is only read, never changed.",
+        epilog=EXIT_STATUSES + ".")
+    history.add_argument("site", type=Path,
+                         help="site file (TOML), or - to read it from standard input")
+    _output_options(history)
 
     sub.add_parser("where", help="show where user files live",
                    description="Print the folders and files branchwise keeps for the user.")
@@ -424,6 +437,16 @@ def main(argv: list[str] | None = None) -> int:
             return _solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "demo":
             return _demo(args.path, args.force, out)
+        if args.command == "history":
+            from .history_command import run_history
+
+            if args.output is not None and _same_file(args.output, args.site):
+                from branchwise.core.errors import InputError
+
+                raise InputError("--output", str(args.output), "is the site file itself; the "
+                                 "site file is never overwritten")
+            return run_history(_load(args.site), args.units, args.format, args.output,
+                               _width(args, args.output), out, sys.stderr)
         if args.command == "presets":
             from .presets_command import run_presets
 

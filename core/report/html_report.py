@@ -12,6 +12,7 @@ from __future__ import annotations
 
 from datetime import datetime
 from html import escape
+from typing import TYPE_CHECKING
 
 from ..errors import BranchwiseError
 from ..site.solve import SiteResult
@@ -30,6 +31,9 @@ from .lines import (
 )
 from .svg import Bar, bars_svg, curve_svg
 from .weighed import TITLE, weighed_lines
+
+if TYPE_CHECKING:
+    from ..history import History
 
 STYLE = """
 :root { color-scheme: light; }
@@ -54,6 +58,7 @@ figcaption { font-size: .85rem; color: #3e4c59; }
 ul { padding-left: 1.3rem; }
 code { font-size: .85rem; }
 td code { font-size: inherit; }
+tr.flagged td { background: #fff1e6; font-weight: bold; }
 footer { margin-top: 2rem; font-size: .8rem; color: #52606d; }
 @page { margin: 14mm; }
 @media print {
@@ -146,6 +151,36 @@ def _band(sr: SiteResult, u: Units) -> str:
     return "\n".join(out)
 
 
+def history_html(h: History, reader: Units | str = "si") -> str:
+    """A site's history (``branchwise history --format html``) as one self-contained HTML
+    document: the cautions, then the visits and trends (:func:`.history_report.html_section`)."""
+    from .history_report import html_section
+
+    title = f"History: {h.site}"
+    body = [f"<h1>{_e(title)}</h1>",
+            f"<p class=meta>Calculated with branchwise {_e(version())}; units: "
+            f"{_e(units_for(reader).system.upper())}</p>",
+            '<section class="cautions"><h2>Cautions</h2>' + _list(list(CAUTIONS))
+            + "</section>", html_section(h, reader), f"<footer>{_e(' '.join(CAUTIONS))}</footer>"]
+    return ("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
+            '<meta name="viewport" content="width=device-width, initial-scale=1">\n'
+            f"<title>{_e(title)}</title>\n<style>{STYLE}</style>\n</head>\n"
+            "<body>\n" + "\n".join(body) + "\n</body>\n</html>\n")
+
+
+def _history(sr: SiteResult, u: Units) -> str:
+    """The visits and trends, for a site that keeps earlier visits ('' without)."""
+    if not sr.site.visits:
+        return ""
+    from ..history import history_of
+    from .history_report import html_section
+
+    try:
+        return html_section(history_of(sr.site), u)
+    except BranchwiseError as exc:
+        return f"<h2>Visits and trends</h2><p>Not worked out: {_e(u.say(exc))}</p>"
+
+
 def to_html(sr: SiteResult, reader: Units | str = "si", date: datetime | None = None,
             source: str | None = None, unsaved: bool = False, curve: bool = True) -> str:
     """The walkdown report as one HTML document (see the module docstring).
@@ -178,6 +213,7 @@ def to_html(sr: SiteResult, reader: Units | str = "si", date: datetime | None = 
     body.append(_band(sr, u))
     if curve:
         body += ["<h2>System curve</h2>", _curve(sr, u)]
+    body.append(_history(sr, u))
     if sr.assumptions:
         body += ["<h2>Assumed</h2>", _list(assumed_lines(sr, u))]
     body += ["<h2>Warnings</h2>", _list(warning_lines(sr, u) or ["None."])]

@@ -6,8 +6,9 @@ the others under ``segments``), ``solved``, ``warnings``, ``cautions``. Keys may
 renamed (added since: ``record`` {``technician``, ``date``, ``pressure_instrument``,
 ``flow_instrument``}, each branch's ``tag``, ``given``, ``other_readings``, ``uncertainty``,
 ``schema_version``, ``assumptions`` [{``code``, ``branch``, ``message``}],
-``reconciliation``). The published JSON Schema is ``result.schema.json`` (:mod:`.schema`): a
-key added here is described there too.
+``reconciliation``, ``history``: the site's visits and trends,
+:meth:`branchwise.core.history.History.to_json`, null without ``[[visits]]``). The published
+JSON Schema is ``result.schema.json`` (:mod:`.schema`): a key added here is described there too.
 """
 
 from __future__ import annotations
@@ -71,9 +72,25 @@ def _solved_json(sr: SiteResult) -> dict[str, Any] | None:
     }
 
 
+def history_json(site: Site) -> tuple[dict[str, Any] | None, list[str]]:
+    """The ``history`` object of a site with earlier visits (None without), and a note when a
+    visit cannot be solved (the answer of today stands; the note says why the history is
+    missing)."""
+    if not site.visits:
+        return None, []
+    from ..errors import BranchwiseError
+    from ..history import history_of
+
+    try:
+        return history_of(site).to_json(), []
+    except BranchwiseError as exc:
+        return None, [f"history not worked out: {exc}"]
+
+
 def to_dict(sr: SiteResult) -> dict[str, Any]:
     """The result as plain data in SI (the JSON contract; see the module docstring)."""
     r, net = sr.result, sr.result.network
+    history, history_notes = history_json(sr.site)
     branches = []
     for i, b in enumerate(r.branches):
         first, *rest = b.segments
@@ -112,7 +129,7 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
         "other_readings": _readings_json(sr),
         "warnings": [{"code": w.code, "branch": w.branch, "message": w.message}
                      for w in r.warnings],
-        "notes": [*sr.notes, *r.notes],
+        "notes": [*sr.notes, *r.notes, *history_notes],
         "reconciliation": (sr.reconciliation.to_json() if sr.reconciliation is not None
                            else None),
         "assumptions": [{"code": a.code, "branch": a.branch, "message": a.message}
@@ -122,6 +139,7 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
                         "residual": _num(r.convergence.residual)},
         "cautions": list(CAUTIONS),
         "uncertainty": band.uncertainty_json(sr),
+        "history": history,
     }
 
 

@@ -25,7 +25,8 @@ from .weighed import TITLE, weighed_lines
 
 
 def inputs_as_entered(site: Site) -> list[tuple[str, str]]:
-    """Every value of ``site`` with its field path, as typed (for the record)."""
+    """Every value of ``site`` with its field path, as typed (for the record); the earlier
+    visits are left out (they are the history's: ``branchwise history``)."""
     out: list[tuple[str, str]] = []
 
     def walk(prefix: str, value: Any) -> None:
@@ -39,7 +40,7 @@ def inputs_as_entered(site: Site) -> list[tuple[str, str]]:
             out.append((prefix, value if isinstance(value, str) else json.dumps(value)))
 
     doc = site_to_dict(site)
-    for key in ("format", "kind"):
+    for key in ("format", "kind", "visits"):
         doc.pop(key, None)
     walk("", doc)
     return out

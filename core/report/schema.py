@@ -14,7 +14,7 @@ from functools import cache
 from typing import Any
 
 SCHEMA_FILE = "result.schema.json"
-SCHEMA_VERSION = "1.1"
+SCHEMA_VERSION = "1.2"
 """``schema_version`` of the JSON: major 1 for as long as keys are only added; the minor
 number rises with each key added."""
 
@@ -30,3 +30,13 @@ def result_schema() -> dict[str, Any]:
     """The JSON Schema of :func:`~.json_report.to_json`'s output (a fresh copy)."""
     schema: dict[str, Any] = json.loads(_text())
     return schema
+
+
+def history_schema() -> dict[str, Any]:
+    """The JSON Schema of ``branchwise history --format json``: ``$defs/history_document`` of
+    the one schema file, so that the two documents can never describe a visit differently."""
+    schema = result_schema()
+    return {"$schema": schema["$schema"], "$id": "urn:branchwise:history",
+            "title": "branchwise history",
+            "description": "The JSON of 'branchwise history' (SI); keys are only ever added.",
+            "$ref": "#/$defs/history_document", "$defs": schema["$defs"]}

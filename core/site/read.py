@@ -31,6 +31,7 @@ from .spec import (
     SOLVE_KEYS,
     TOLERANCE_KEYS,
     TOP_KEYS,
+    VISIT_KEYS,
     BranchSpec,
     ConditionsSpec,
     FluidSpec,
@@ -40,6 +41,7 @@ from .spec import (
     SolveSpec,
     TolerancesSpec,
     Value,
+    VisitSpec,
 )
 
 # ---- reading ---------------------------------------------------------------------------------
@@ -155,6 +157,29 @@ def _tolerances(table: Mapping[str, Any]) -> TolerancesSpec:
     return spec
 
 
+def _visit(value: object, path: str) -> VisitSpec:
+    """One ``[[visits]]`` table: its shape, a date that is a date, and at least one reading."""
+    from .visits import has_reading, visit_date
+
+    table = _table(value, path)
+    _known(table, VISIT_KEYS, path)
+    spec = VisitSpec()
+    for key in ("technician", "pressure_instrument", "flow_instrument", "notes"):
+        if key in table:
+            setattr(spec, key, _words(table[key], f"{path}.{key}"))
+    for key in ("pressure_drop", "total_flow", "given", "temperature"):
+        if key in table:
+            setattr(spec, key, _scalar(table[key], f"{path}.{key}"))
+    measured = _table(table.get("measured"), f"{path}.measured")
+    spec.measured = {str(k): _scalar(v, f'{path}.measured."{k}"') for k, v in measured.items()}
+    spec.date = _words(table["date"], f"{path}.date", True) if "date" in table else None
+    visit_date(spec.date, f"{path}.date")
+    if not has_reading(spec):
+        raise InputError(path, "no reading", "a visit needs at least one reading: "
+                         "pressure_drop, total_flow or measured = { \"<branch>\" = ... }")
+    return spec
+
+
 def site_from_dict(doc: Mapping[str, Any], source: Path | None = None) -> Site:
     """A :class:`Site` from a parsed, migrated TOML document. Checks shape, not values; an
     error carries the names of the file's branches (:attr:`InputError.names`)."""
@@ -191,6 +216,10 @@ def _site(doc: Mapping[str, Any], source: Path | None) -> Site:
         site.solve = _fill(SolveSpec(), _table(doc["solve"], "solve"), SOLVE_KEYS, "solve")
     if "tolerances" in doc:
         site.tolerances = _tolerances(_table(doc["tolerances"], "tolerances"))
+    visits = doc.get("visits", [])
+    if not isinstance(visits, list):
+        raise InputError("visits", describe(visits), "must be [[visits]] tables")
+    site.visits = [_visit(v, f"visits[{i}]") for i, v in enumerate(visits)]
     return site
 
 

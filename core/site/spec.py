@@ -25,6 +25,10 @@ File layout (format 1; the keys are a contract)::
                    target_flow_measured, roughness_factor = [low, high],
                    roughness_range = { "<branch>" = [low, high] }, diameter, length,
                    temperature, fitting_k, valve_kv (missing keys: common-practice defaults)
+    [[visits]]     optional, earlier visits (``[conditions]`` and ``[record]`` are today's):
+                   date (YYYY-MM-DD, text or a TOML date), technician, pressure_instrument,
+                   flow_instrument, notes; that day's pressure_drop, total_flow, given,
+                   measured = { "AHU-3 coil" = "80 gpm" }; temperature (the liquid's that day)
 
 A branch is one pipe (its keys at the top of the branch) or a list of series ``segments``, each
 with its own pipe keys; mixing the two is refused as ambiguous. ``solve.segment`` counts from 1.
@@ -55,8 +59,10 @@ TOLERANCE_KEYS = ("gauge_accuracy", "gauge_full_scale", "flow_meter_accuracy",
                   "target_flow_measured", "roughness_factor", "roughness_range", "diameter",
                   "length", "temperature", "fitting_k", "valve_kv")
 RECORD_KEYS = ("technician", "date", "pressure_instrument", "flow_instrument")
+VISIT_KEYS = ("date", "technician", "pressure_instrument", "flow_instrument", "notes",
+              "pressure_drop", "total_flow", "given", "measured", "temperature")
 TOP_KEYS = ("format", "kind", "name", "notes", "record", "fluid", "conditions", "branches",
-            "solve", "tolerances")
+            "solve", "tolerances", "visits")
 
 
 @dataclass
@@ -101,6 +107,24 @@ class RecordSpec:
     date: Value = None
     pressure_instrument: Value = None
     flow_instrument: Value = None
+
+
+@dataclass
+class VisitSpec:
+    """An earlier visit as typed: its record, its readings and the liquid's temperature that
+    day (see :mod:`.visits`). ``measured`` maps a branch's name to its clamp-on reading;
+    ``date`` is ISO text (``"2025-03-12"``; a TOML date in the file is kept as that text)."""
+
+    date: Value = None
+    technician: Value = None
+    pressure_instrument: Value = None
+    flow_instrument: Value = None
+    notes: Value = None
+    pressure_drop: Value = None
+    total_flow: Value = None
+    given: Value = None
+    measured: dict[str, Value] = field(default_factory=dict)
+    temperature: Value = None
 
 
 @dataclass
@@ -178,6 +202,8 @@ class Site:
     notes: Value = None
     tolerances: TolerancesSpec | None = None
     record: RecordSpec | None = None
+    visits: list[VisitSpec] = field(default_factory=list)
+    """Earlier visits, as the file lists them; ``conditions`` and ``record`` are today's."""
     source: Path | None = field(default=None, compare=False)
     origin: str | None = field(default=None, compare=False, repr=False)
 

@@ -21,8 +21,10 @@ from .spec import (
     RECORD_KEYS,
     SOLVE_KEYS,
     TOLERANCE_KEYS,
+    VISIT_KEYS,
     SegmentSpec,
     Site,
+    VisitSpec,
 )
 
 
@@ -69,7 +71,18 @@ def site_to_dict(site: Site) -> dict[str, Any]:
         else:
             tol.pop("roughness_range", None)
         doc["tolerances"] = tol
+    if site.visits:
+        doc["visits"] = [_visit_dict(v) for v in site.visits]
     return doc
+
+
+def _visit_dict(visit: VisitSpec) -> dict[str, Any]:
+    out = _present(visit, VISIT_KEYS)
+    if visit.measured:
+        out["measured"] = dict(visit.measured)
+    else:
+        out.pop("measured", None)
+    return out
 
 
 NL = "\n"
@@ -110,6 +123,8 @@ def _sync(doc: Any, values: Mapping[str, Any], tomlkit: Any, plain: Any) -> None
             _sync_table(old, value, tomlkit, plain)  # [tolerances.roughness_range] keeps its layout
         elif name == "branches":
             _sync_branches(doc, old, value, tomlkit, plain)
+        elif name == "visits":
+            _sync_visits(doc, old, value, tomlkit, plain)
         elif old is None or not _unchanged(plain(old), value):
             doc[name] = _item(value, tomlkit)
 
@@ -228,6 +243,34 @@ def _sync_branches(doc: Any, old: Any, branches: list[dict[str, Any]], tomlkit: 
     del old[:]
     for table in new_tables:
         old.append(table)
+
+
+def _sync_visits(doc: Any, old: Any, visits: list[dict[str, Any]], tomlkit: Any,
+                 plain: Any) -> None:
+    """Keep each ``[[visits]]`` table the file holds, in place (an earlier visit is written
+    back exactly as it was), and add new visits as tables after them."""
+    if not isinstance(old, tomlkit.items.AoT):
+        aot = tomlkit.aot()
+        for visit in visits:
+            table = tomlkit.table()
+            _sync(table, visit, tomlkit, plain)
+            aot.append(table)
+        doc["visits"] = aot
+        return
+    tables = list(old)
+    for i, visit in enumerate(visits):
+        if i < len(tables):
+            _sync(tables[i], visit, tomlkit, plain)
+        else:
+            last = list(old)[-1] if len(old) else None
+            body = _body(last) if last is not None else []
+            if body and type(body[-1][1]).__name__ != "Whitespace":
+                body.append((None, tomlkit.ws(NL)))  # a blank line before the new header
+            table = tomlkit.table()
+            _sync(table, visit, tomlkit, plain)
+            old.append(table)
+    if len(tables) > len(visits):
+        del old[len(visits):]
 
 
 def _item(value: Any, tomlkit: Any) -> Any:

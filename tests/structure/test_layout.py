@@ -61,6 +61,9 @@ def test_pint_only_in_the_units_package():
     ("branchwise.core.numerics", "branchwise.core.site"),
     ("branchwise.core.numerics", "branchwise.core.report"),
     ("branchwise.core.site", "branchwise.core.report"),
+    ("branchwise.core.site", "branchwise.core.history"),
+    ("branchwise.core.numerics", "branchwise.core.history"),
+    ("branchwise.core.history", "branchwise.core.report"),
     ("branchwise.core.units", "branchwise.core.numerics"),
 ])
 def test_layers_import_downwards(lower, upper):

@@ -41,20 +41,22 @@ STARTS: dict[str, tuple[str, ...]] = {
     "branch-form": ("f3", "e"),
     "new-branch": ("f3", "a"),
     "site-details": ("f8",),
+    "history": ("f5",),
+    "close-visit": ("f5", "v"),
     # Reached in the large run only (the CI run keeps to the ones above).
     "palette": ("ctrl+p",),
     "record": ("f4", "r"),
     "find-diameter": ("f4", "f", "down", "enter"),
     "tolerances": ("f4", "l"),
 }
-CI_TOURS = (("liquid", "help"), ("branches", "sites"), ("split", "units"),
-            ("save-as", "branch-form"), ("cautions", "new-branch", "site-details"))
+CI_TOURS = (("liquid", "help"), ("branches", "sites"), ("split", "units", "history"),
+            ("save-as", "branch-form", "close-visit"), ("cautions", "new-branch", "site-details"))
 """The CI run: every start above 'palette', two to an app start."""
 
-APP_KEYS = ("f1", "question_mark", "f2", "f3", "f4", "f6", "f7", "exclamation_mark",
+APP_KEYS = ("f1", "question_mark", "f2", "f3", "f4", "f5", "f6", "f7", "exclamation_mark",
             "ctrl+s", "ctrl+r", "ctrl+o", "ctrl+t", "ctrl+z", "ctrl+y", "ctrl+q", "ctrl+p",
             "ctrl+c")
-SCREEN_KEYS = ("g", "v", "f", "t", "r", "c", "e", "a", "x", "s", "m", "k", "q", "y", "n", "d",
+SCREEN_KEYS = ("g", "v", "f", "t", "r", "c", "e", "a", "x", "s", "m", "k", "q", "y", "n", "d", "i",
                "delete", "shift+up", "shift+down", "left_square_bracket",
                "right_square_bracket", "ctrl+n", "slash")
 EDIT_KEYS = ("enter", "enter", "escape", "escape", "tab", "shift+tab", "up", "down", "left",
@@ -65,7 +67,7 @@ TEXTS = ("kPa", "psi", "gpm", "L/s", "m3/h", "bar", "ftH2O", "m", "ft", "mm", "i
          "commercial-steel aged", "elbow-90 4", "Kv 160", "Cv 110", " ", ".", "-", "e", "1e3",
          "0", "12.5", "250 ft", "76 m", "60 degC", "400 gpm", "water", "custom", "x")
 JUNK = ("ctrl+w", "ctrl+x", "ctrl+v", "ctrl+d", "ctrl+b", "ctrl+f", "ctrl+g", "ctrl+l",
-        "ctrl+h", "ctrl+j", "insert", "f5", "f8", "f9", "f10", "f11", "f12", "alt+x",
+        "ctrl+h", "ctrl+j", "insert", "f8", "f9", "f10", "f11", "f12", "alt+x",
         "shift+left", "shift+right", "ctrl+left", "ctrl+right", "µ", "°", "²", "½", "é", "€",
         "∞", "😀", "\u200b", "\t", "'", '"', "[", "]", "{", "=", "#", "\\", "~", "/", "nan",
         "inf", "-0", "1e308", "999999999999999999999", "0.0000000001", "@", "<", ">")

@@ -119,3 +119,17 @@ def test_snapshots_of_several_readings(ui):
 
     ui.run(scenario)
     assert not problems, "\n\n".join(problems)
+
+
+def test_snapshots_of_the_history(ui):
+    """The demo's two earlier visits and today's on the History screen: the AHU-3 coil's
+    resistance flagged, a braille trend per branch."""
+    problems: list[str] = []
+
+    async def scenario() -> None:
+        for size, name in (((80, 24), "history-80x24"), ((120, 40), "history-120x40")):
+            async with ui.started("f5", size) as (app, pilot):
+                await shot(pilot, ui, name, problems)
+
+    ui.run(scenario)
+    assert not problems, "\n\n".join(problems)

@@ -39,12 +39,20 @@ def _branches() -> Screen[object]:
     return BranchesScreen()
 
 
+def _history() -> Screen[object]:
+    from .history import HistoryScreen
+
+    return HistoryScreen()
+
+
 SCREENS: tuple[ScreenEntry, ...] = (
     ScreenEntry("liquid", "f2", "Liquid", "The liquid: kind, temperature, properties", _liquid),
     ScreenEntry("branches", "f3", "Branches", "The branches between the two headers",
                 _branches),
     ScreenEntry("split", "f4", "Split", "Given condition, what to find, the flow split",
                 SplitScreen),
+    ScreenEntry("history", "f5", "History", "Each visit solved, and how each branch changed "
+                "between visits; closing today's visit", _history),
 )
 """Every screen of the app, in the order of their keys."""
 FIRST = "split"

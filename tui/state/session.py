@@ -20,6 +20,7 @@ from pathlib import Path
 
 from branchwise.core.finds import FINDS
 from branchwise.core.site.spec import BranchSpec, SegmentSpec, Site, SolveSpec
+from branchwise.core.site.visits import rename_in_visits
 
 from .values import text_of, unique_name
 
@@ -52,7 +53,8 @@ def set_find(site: Site, find: str, branch: str | None = None, target: str | Non
 
 def rename_branch(site: Site, index: int, new: str) -> None:
     """Rename a branch and what refers to it by name (the [solve] table, ``conditions.given``
-    when its reading is the given), so that they stay together."""
+    when its reading is the given, its readings in the earlier visits), so that they stay
+    together."""
     old = text_of(site.branches[index].name).strip()
     site.branches[index].name = new
     if site.solve is not None and text_of(site.solve.branch).strip().casefold() == old.casefold():
@@ -60,6 +62,7 @@ def rename_branch(site: Site, index: int, new: str) -> None:
     given = site.conditions.given
     if isinstance(given, str) and given.strip() == old and old:
         site.conditions.given = new.strip()
+    rename_in_visits(site, old, new)
 
 
 def new_branch(site: Site, like: BranchSpec | None = None) -> BranchSpec:

@@ -141,6 +141,12 @@ class ResultViews(Vertical):
         self._draw_results()
         self.show_view()
 
+    def on_resize(self) -> None:
+        # Crossing 100 columns changes the table's columns (share bars, whole Re): draw again
+        # (the drawn key says whether anything changed).
+        if self.is_attached:
+            self.show()
+
     def show_view(self) -> None:
         if self.view == "band":
             self._schedule_band()

@@ -1,0 +1,263 @@
+"""One visit solved from its own readings, and per branch what a commissioning engineer trends.
+
+Per branch and visit (SI):
+
+* **flow** (m³/s): the branch's own clamp-on reading when that visit took one, else the flow
+  the visit's solve gives it (reconciled when the visit holds several readings);
+* **resistance** R = h/Q² (m of liquid per (m³/s)², i.e. s²/m⁵): h the driving head across the
+  header, Q the branch's flow. In fully turbulent flow R of a fixed line is nearly constant,
+  so its drift shows fouling, a valve moved or a strainer filling (common practice);
+* **effective roughness** (m): the ε of the branch's pipe that makes the model carry the
+  branch's own clamp-on flow at the head found from another reading (the existing ``find =
+  roughness``, :mod:`branchwise.core.numerics.unknowns.roughness`), for a branch of one pipe.
+
+An indicator is **measured** when it comes from that branch's own clamp-on with the head fixed
+by another reading of the same day — the gauge's pressure drop first, then the total-flow
+meter, then another branch's clamp-on — so that the clamp-on measures the line rather than
+being measured by it. Otherwise it is the model's (``measured`` False): a branch without its
+own reading has the flow and the R of today's line model at that day's head.
+
+Each indicator carries the signed first-order parts of its standard uncertainty, one per input
+of the uncertainty plan (:func:`branchwise.core.numerics.uncertainty.build_plan`, the same
+tolerances and rectangular distributions as the P5–P95 bands): ``cᵢ·u(xᵢ)/y`` from central
+differences, the law of propagation of the GUM (JCGM 100:2008, 5.1.2). The parts say which
+inputs belong to that day (the gauge, the meters, the temperature) and which to the line's
+record (bore, length, roughness, fittings' K, valve Kv: the same at every visit), so that a
+change between two visits can combine them (:mod:`.trends`).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from ..errors import BranchwiseError
+from ..givens import GIVENS, make_given
+from ..model import Find, FindFlows, FindUnknown, Given, Network, TotalFlow
+from ..numerics.copies import CopiesSolution, solve_copies
+from ..numerics.hydraulics import Array
+from ..numerics.tolerances import Thermal, Tolerances
+from ..numerics.uncertainty import SQRT3, STEP, InputTolerance, build_plan
+from ..site.readings import readings
+from ..site.solve import SiteResult, solve_site
+from ..site.spec import Site
+from ..site.tolerances import site_thermal
+from ..units import parse_quantity
+
+INDICATORS = ("flow", "resistance", "effective_roughness")
+"""The indicators trended per branch, by their JSON names."""
+DAY_KINDS = frozenset({"gauge", "meter", "target", "temperature"})
+"""Inputs of the uncertainty plan that belong to one day's readings; the others (bore,
+length, roughness, fitting K, valve Kv) are the line's record, the same at every visit."""
+HEAD_ORDER = ("pressure_drop", "total_flow", "measured_flow")
+"""Which other reading fixes the head for a branch's own indicators, best first."""
+
+
+@dataclass(frozen=True)
+class Part:
+    """One input's part in an indicator's standard uncertainty, relative to the indicator
+    (signed: cᵢ·u(xᵢ)/y). shared: an input of the line's record, the same at every visit."""
+
+    name: str
+    shared: bool
+    relative: float
+
+
+@dataclass(frozen=True)
+class Indicator:
+    """One indicator at one visit: its value (SI), whether it was measured on the branch, and
+    the parts of its uncertainty (None: no band could be worked out; see the visit's notes)."""
+
+    value: float
+    measured: bool
+    parts: tuple[Part, ...] | None
+
+    @property
+    def relative_uncertainty(self) -> float:
+        """The combined standard uncertainty relative to the value (NaN without a band)."""
+        if self.parts is None:
+            return math.nan
+        return math.sqrt(sum(p.relative ** 2 for p in self.parts))
+
+
+@dataclass(frozen=True)
+class BranchIndicators:
+    """A branch's indicators at one visit (None where the visit cannot give one)."""
+
+    name: str
+    flow: Indicator | None
+    resistance: Indicator | None
+    effective_roughness: Indicator | None
+    solved_flow: Indicator | None = None
+    """The flow the visit's solve gives the branch, read or not (a trend of solved flows
+    compares it, never a clamp-on with a solve)."""
+
+    def get(self, indicator: str) -> Indicator | None:
+        """The indicator named as in :data:`INDICATORS` (or ``solved_flow``)."""
+        found: Indicator | None = getattr(self, indicator)
+        return found
+
+
+@dataclass(frozen=True)
+class ReadingSI:
+    """One reading of a visit in SI: kind (a :data:`~branchwise.core.givens.GIVENS` key),
+    the branch's index and name for a clamp-on, the value in Pa or m³/s."""
+
+    kind: str
+    branch: int | None
+    name: str | None
+    value: float
+
+
+@dataclass(frozen=True)
+class VisitIndicators:
+    """A visit solved (``solved``, with its reconciliation) and its indicators per branch."""
+
+    solved: SiteResult
+    readings: tuple[ReadingSI, ...]
+    branches: tuple[BranchIndicators, ...]
+    notes: tuple[str, ...]
+
+
+# ---- spreads: the solve at the nominal inputs and at ±δ of each --------------------------
+
+@dataclass(frozen=True)
+class _Spread:
+    """Row 0 the nominal solve, rows 1…n each input at +δ, rows n+1…2n at −δ (δ in units of
+    its half-width, as :func:`~branchwise.core.numerics.uncertainty.monte_carlo` takes it)."""
+
+    inputs: tuple[InputTolerance, ...]
+    sol: CopiesSolution
+
+    def indicator(self, column: Array, measured: bool,
+                  extra: tuple[Part, ...] = ()) -> Indicator | None:
+        nominal = float(column[0])
+        if not math.isfinite(nominal) or nominal == 0:
+            return None
+        n = len(self.inputs)
+        parts = tuple(Part(inp.name, inp.kind not in DAY_KINDS,
+                           float((column[1 + k] - column[1 + n + k]) / (2 * STEP) / SQRT3
+                                 / nominal))
+                      for k, inp in enumerate(self.inputs))
+        return Indicator(nominal, measured, parts + extra)
+
+
+def _spread(network: Network, given: Given, find: Find, tol: Tolerances,
+            thermal: Thermal | None) -> _Spread:
+    plan = build_plan(network, given, find, tol, thermal)
+    n = len(plan.inputs)
+    z = np.zeros((1 + 2 * n, n))
+    z[1 + np.arange(n), np.arange(n)] = STEP
+    z[1 + n + np.arange(n), np.arange(n)] = -STEP
+    return _Spread(plan.inputs, solve_copies(network, given, find, plan.variants(z)))
+
+
+def _resistance(head: Array, flow: Array | float) -> Array:
+    """R = h/(Q|Q|): positive for reverse flow too (h and Q change sign together)."""
+    q = np.asarray(flow, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.asarray(head / (q * np.abs(q)), dtype=float)
+
+
+def _unbanded(value: float, measured: bool) -> Indicator | None:
+    return Indicator(value, measured, None) if math.isfinite(value) and value != 0 else None
+
+
+# ---- one visit ------------------------------------------------------------------------------
+
+def visit_indicators(site: Site) -> VisitIndicators:
+    """Solve ``site`` (one visit's, :func:`branchwise.core.site.visits.visit_site`) from its
+    own readings and work out every branch's indicators with their uncertainty parts."""
+    sr = solve_site(site)
+    built, net = sr.built, sr.built.network
+    notes: list[str] = []
+    tol, thermal, thermal_notes = site_thermal(site, built.tolerances or Tolerances())
+    tol = replace(tol, target_flow_measured=True)  # a clamp-on held as a target is a reading
+    notes += thermal_notes
+    held = tuple(_si(r.kind, r.branch, r.value, r.path, net) for r in readings(site))
+    spreads: dict[tuple[str, int | None], _Spread | None] = {}
+
+    def spread(given: Given, find: Find, key: tuple[str, int | None]) -> _Spread | None:
+        if key not in spreads:
+            try:
+                spreads[key] = _spread(net, given, find, tol, thermal)
+            except BranchwiseError as exc:
+                notes.append(f"no band for the visit's indicators: {exc}")
+                spreads[key] = None
+        return spreads[key]
+
+    base = spread(built.given, FindFlows(), ("base", None))
+    u_meter = tol.flow_meter_percent / 100 / SQRT3
+    out = []
+    for b, br in enumerate(net.branches):
+        own = next((r for r in held if r.kind == "measured_flow" and r.branch == b), None)
+        heads = sorted((r for r in held if r is not own), key=lambda r: HEAD_ORDER.index(r.kind))
+        meter = Part(f"flow meter on branch '{br.name}'", False, u_meter)
+        if base is not None:
+            solved = base.indicator(base.sol.flows[:, b], False)
+        else:
+            solved = _unbanded(float(sr.result.flows[b]), False)
+        flow = solved if own is None else Indicator(own.value, True, (meter,))
+        if own is None or not heads:
+            if base is not None:
+                resistance = base.indicator(_resistance(base.sol.head, base.sol.flows[:, b]),
+                                            False)
+            else:
+                resistance = _unbanded(float(_resistance(np.array(sr.result.driving_head),
+                                                         float(sr.result.flows[b]))), False)
+            out.append(BranchIndicators(br.name, flow, resistance, None, solved))
+            continue
+        r = heads[0]
+        given = make_given(r.kind, r.value, r.name)
+        find = FindUnknown("roughness", br.name, own.value, 0)
+        rough_ok = len(br.segments) == 1 and net.friction not in ("hazen-williams", "laminar")
+        resistance = roughness = None
+        if isinstance(given, TotalFlow):  # the others carry what this branch does not
+            ev = spread(given, find, ("find", b))
+            if ev is not None:
+                resistance = ev.indicator(_resistance(ev.sol.head, ev.sol.flows[:, b]), True)
+        else:
+            ev = spread(given, FindFlows(), (r.kind, r.branch))
+            if ev is not None:
+                resistance = ev.indicator(_resistance(ev.sol.head, own.value), True,
+                                          (replace(meter, relative=-2 * u_meter),))
+        if resistance is None:
+            notes.append(f"{br.name}: no resistance from the clamp-on at the head of the "
+                         f"{GIVENS[r.kind].words} (the readings admit no state of the line)")
+        if rough_ok:
+            roughness = _roughness(net, given, find, br.name, notes, spread, b)
+        elif len(br.segments) > 1:
+            notes.append(f"{br.name}: several pipes in series, so no one effective roughness")
+        out.append(BranchIndicators(br.name, flow, resistance, roughness, solved))
+    return VisitIndicators(sr, held, tuple(out), tuple(notes))
+
+
+SpreadOf = Callable[[Given, Find, tuple[str, int | None]], "_Spread | None"]
+"""A spread for a given and a find, worked out once per key."""
+
+
+def _roughness(net: Network, given: Given, find: FindUnknown, name: str, notes: list[str],
+               spread: SpreadOf, b: int) -> Indicator | None:
+    """The effective roughness found from the branch's own clamp-on (None, with a note saying
+    why, where the readings admit none)."""
+    from ..numerics.solve import solve
+
+    try:
+        solve(net, given, find)
+    except BranchwiseError as exc:
+        notes.append(f"{name}: no effective roughness from that visit's readings: {exc}")
+        return None
+    ev = spread(given, find, ("find", b))
+    if ev is None or ev.sol.found is None:
+        return None
+    found: Indicator | None = ev.indicator(ev.sol.found, True)
+    return found
+
+
+def _si(kind: str, branch: int | None, value: object, path: str, net: Network) -> ReadingSI:
+    number = parse_quantity(value, GIVENS[kind].quantity, path)
+    name = net.branches[branch].name if branch is not None else None
+    return ReadingSI(kind, branch, name, number)

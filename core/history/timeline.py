@@ -1,0 +1,177 @@
+"""A site's history: every visit solved from its own readings, in date order, and the trends.
+
+The earlier visits are the site file's ``[[visits]]`` (sorted by date; the file's order breaks
+a tie); today's visit, ``[conditions]`` and ``[record]``, comes last when it holds a reading.
+Each is solved on today's branches, liquid and tolerances with that day's readings and
+temperature (:func:`branchwise.core.site.visits.visit_site`), reconciled when it holds several
+readings; see :mod:`.indicators` for what is worked out per branch and :mod:`.trends` for the
+changes and their bands.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Any
+
+from ..errors import BranchwiseError, InputError, NoSolutionError
+from ..givens import branch_of, kind_of
+from ..site.spec import Site
+from ..site.visits import naming_visit, today_has_reading, visit_date, visit_site
+from .indicators import INDICATORS, VisitIndicators, visit_indicators
+from .trends import Trend, trends_of
+
+RESISTANCE_UNIT = "m/(m³/s)²"
+"""R = h/Q² in SI: metres of the liquid's head per (m³/s)² (= s²/m⁵)."""
+TODAY = "today"
+"""How today's visit is dated when ``[record]`` gives no date."""
+
+
+@dataclass(frozen=True)
+class Visit:
+    """One visit solved. field: ``visits[i]`` or ``conditions`` (today's); date: its ISO date
+    (None for today's visit without a dated record); label: the date as shown."""
+
+    field: str
+    date: str | None
+    label: str
+    technician: str | None
+    notes: str | None
+    solved: VisitIndicators
+
+    @property
+    def today(self) -> bool:
+        return self.field == "conditions"
+
+
+@dataclass(frozen=True)
+class History:
+    """The visits in date order and the trends of every branch."""
+
+    site: str
+    visits: tuple[Visit, ...]
+    trends: tuple[Trend, ...]
+
+    @property
+    def flagged(self) -> list[Trend]:
+        return [t for t in self.trends if t.flagged]
+
+    def messages(self) -> list[str]:
+        """Every flagged change in words."""
+        return [m for t in self.trends for m in t.messages()]
+
+    def to_json(self) -> dict[str, Any]:
+        """The JSON's ``history`` object (SI; see :mod:`branchwise.core.report.json_report`)."""
+        return {
+            "visits": [_visit_json(v) for v in self.visits],
+            "trends": [_trend_json(t) for t in self.trends],
+            "units": {"flow": "m³/s", "resistance": RESISTANCE_UNIT,
+                      "effective_roughness": "m"},
+            "flagged": self.messages(),
+        }
+
+
+def _text(value: object) -> str | None:
+    return " ".join(value.split()) if isinstance(value, str) and value.strip() else None
+
+
+def history_of(site: Site) -> History:
+    """The history of ``site`` (see the module docstring). An error in a visit names that
+    visit's field (``visits[1].date``, ``visits[0].measured."AHU-9"``); InputError when the
+    site holds no visit at all."""
+    order: list[tuple[str, int]] = []
+    for i, v in enumerate(site.visits):
+        order.append((visit_date(v.date, f"visits[{i}].date").isoformat(), i))
+    order.sort()
+    indices: list[int | None] = [i for _, i in order]
+    if today_has_reading(site):
+        indices.append(None)
+    if not indices:
+        raise InputError("visits", "nothing", "no visit to look back on: the site holds no "
+                         "[[visits]] and no reading today")
+    visits = [_visit(site, i) for i in indices]
+    dates = [v.label for v in visits]
+    rows = [[(b.name, {k: b.get(k) for k in (*INDICATORS, "solved_flow")})
+             for b in v.solved.branches] for v in visits]
+    return History(site.title, tuple(visits), tuple(trends_of(dates, rows)))
+
+
+def _visit(site: Site, index: int | None) -> Visit:
+    try:
+        own = visit_site(site, index)
+        solved = visit_indicators(own)
+    except BranchwiseError as exc:
+        named = naming_visit(exc, site, index)
+        if isinstance(named, NoSolutionError) and index is not None:
+            named = NoSolutionError(f"visit {site.visits[index].date}: {named.marked}",
+                                    named.field).naming(named.names)
+        raise named from None
+    if index is None:
+        record = site.record
+        typed = record.date if record is not None else None
+        try:
+            day: str | None = visit_date(typed, "record.date").isoformat()
+        except InputError:
+            day = None
+        who = record.technician if record is not None else None
+        return Visit("conditions", day, day or TODAY, _text(who), None, solved)
+    v = site.visits[index]
+    label = _text(v.date) or ""
+    return Visit(f"visits[{index}]", label, label, _text(v.technician), _text(v.notes), solved)
+
+
+# ---- JSON ---------------------------------------------------------------------------------
+
+def _num(value: float | None) -> float | None:
+    return float(value) if value is not None and math.isfinite(value) else None
+
+
+def _visit_json(v: Visit) -> dict[str, Any]:
+    sr = v.solved.solved
+    g = sr.built.given
+    given = sr.site.conditions.given
+    every = isinstance(given, str) and given.strip().casefold() == "all"
+    rec = sr.reconciliation
+    return {
+        "date": v.date,
+        "field": v.field,
+        "technician": v.technician,
+        "notes": v.notes,
+        "given": {"quantity": "all" if every else kind_of(g).key,
+                  "branch": None if every else branch_of(g),
+                  "value_si": g.value},
+        "readings": [{"quantity": r.kind, "branch": r.name, "value_si": r.value}
+                     for r in v.solved.readings],
+        "pressure_drop_pa": _num(sr.result.pressure_drop),
+        "total_flow_m3_s": _num(sr.result.total_flow),
+        "driving_head_m": _num(sr.result.driving_head),
+        "temperature_k": _num(getattr(sr.result.network.fluid, "temperature", None)),
+        "reconciliation": rec.to_json() if rec is not None else None,
+        "branches": [{
+            "name": b.name,
+            "flow_m3_s": _num(b.flow.value if b.flow else None),
+            "resistance": _num(b.resistance.value if b.resistance else None),
+            "effective_roughness_m": _num(b.effective_roughness.value
+                                          if b.effective_roughness else None),
+            "measured": bool(b.resistance is not None and b.resistance.measured),
+            "relative_uncertainty": {
+                k: _num(ind.relative_uncertainty) if (ind := b.get(k)) is not None else None
+                for k in INDICATORS},
+        } for b in v.solved.branches],
+        "solve_notes": list(v.solved.notes),
+    }
+
+
+def _trend_json(t: Trend) -> dict[str, Any]:
+    return {
+        "branch": t.branch, "indicator": t.indicator, "basis": t.basis,
+        "first": t.first.indicator.value, "previous": t.previous.indicator.value,
+        "last": t.last.indicator.value,
+        "dates": {"first": t.first.date, "previous": t.previous.date, "last": t.last.date},
+        "change": {"since_first": _num(t.since_first.value),
+                   "since_previous": _num(t.since_previous.value)},
+        "band": {"since_first": _num(t.since_first.band),
+                 "since_previous": _num(t.since_previous.band)},
+        "flagged": t.flagged,
+        "messages": t.messages(),
+    }

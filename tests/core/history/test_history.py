@@ -1,0 +1,241 @@
+"""A site's history checked against outside references: R = h/Q² by hand from the gauge, the
+IAPWS-IF97 density (the ``iapws`` package) and the units' definitions; the effective roughness
+fed back through the ``fluids`` library's Colebrook reproduces the clamp-on; the band of a
+change by hand from the GUM and scipy's normal quantile, and its coverage by simulating the
+instruments' stated distributions."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+
+from branchwise.core.errors import InputError
+from branchwise.core.history import history_of
+from branchwise.core.history.trends import K90
+from branchwise.core.site.read import demo_site, parse_site
+
+G = 9.80665  # standard gravity, m/s² (ISO 80000-3)
+PSI = 0.45359237 * G / 0.0254**2  # Pa: the pound-force per square inch, by definition
+GPM = 231 * 0.0254**3 / 60  # m³/s: the US gallon is 231 in³, by definition
+
+SITE = """format = 1
+name = "Cooling header"
+
+[fluid]
+kind = "water"
+temperature = "18 degC"
+
+[conditions]
+pressure_drop = "68 kPa"
+
+[[branches]]
+name = "Condenser A"
+diameter = "102.26 mm"
+length = "64 m"
+roughness = "0.045 mm"
+minor_k = 6.2
+valve_kv = 120
+
+[[branches]]
+name = "Jacket loop"
+diameter = "77.93 mm"
+length = "55 m"
+roughness = "0.045 mm"
+minor_k = 4
+
+[tolerances]
+gauge_accuracy = "1 %"
+gauge_full_scale = "200 kPa"
+flow_meter_accuracy = "3 %"
+
+[[visits]]
+date = "2024-11-05"
+pressure_drop = "68 kPa"
+measured = { "Condenser A" = "17.2 L/s" }
+given = "pressure_drop"
+
+[[visits]]
+date = "2025-02-10"
+pressure_drop = "70 kPa"
+measured = { "Condenser A" = "15.0 L/s" }
+given = "pressure_drop"
+"""
+"""Our own invented header: Condenser A's clamp-on falls from 17.2 to 15.0 L/s."""
+
+
+def _rho(t_k: float) -> float:
+    from iapws import IAPWS97
+
+    return float(IAPWS97(T=t_k, P=0.101325).rho)  # IAPWS-IF97 region 1, 1 atm
+
+
+@pytest.fixture(scope="module")
+def cooling():
+    return history_of(parse_site(SITE))
+
+
+def test_resistance_is_head_over_flow_squared_by_hand(cooling):
+    """R = h/Q², h = Δp/(ρ g) with ρ from the ``iapws`` package (IAPWS-IF97), Q as read."""
+    rho = _rho(291.15)
+    for visit, dp, q in ((0, 68e3, 17.2e-3), (1, 70e3, 15.0e-3)):
+        branch = cooling.visits[visit].solved.branches[0]
+        assert branch.resistance.measured
+        assert branch.resistance.value == pytest.approx(dp / (rho * G) / q**2, rel=1e-9)
+        assert branch.flow.value == pytest.approx(q, rel=1e-12)
+
+
+def test_the_demo_resistance_by_hand_in_us_units():
+    """The demo's AHU-3 clamp-on at 10.3 psid and 43 °F: psi and gpm from their definitions,
+    ρ from ``iapws``."""
+    history = history_of(demo_site())
+    first = history.visits[0]
+    ahu3 = next(b for b in first.solved.branches if b.name == "AHU-3 coil")
+    rho = _rho((43 - 32) / 1.8 + 273.15)
+    hand = 10.3 * PSI / (rho * G) / (77 * GPM) ** 2
+    assert ahu3.resistance.value == pytest.approx(hand, rel=1e-9)
+
+
+def test_a_solved_branch_has_the_model_s_resistance_at_that_head(cooling):
+    visit = cooling.visits[0]
+    result = visit.solved.solved.result
+    jacket = visit.solved.branches[1]
+    assert not jacket.resistance.measured and jacket.effective_roughness is None
+    assert jacket.resistance.value == pytest.approx(
+        result.driving_head / float(result.flows[1]) ** 2, rel=1e-9)
+
+
+def test_the_effective_roughness_fed_back_reproduces_the_reading(cooling):
+    """Head through Condenser A at its clamp-on flow with the roughness found, by hand:
+    Darcy–Weisbach with ``fluids.friction.Colebrook``, K·V²/2g, and the valve by IEC 60534
+    (Q[m³/h] = Kv √(Δp[bar]/(ρ/1000))); ν from ``iapws``. It equals the gauge's head."""
+    from fluids.friction import Colebrook
+    from iapws import IAPWS97
+
+    water = IAPWS97(T=291.15, P=0.101325)
+    nu = water.mu / water.rho
+    d, length, k, kv = 0.10226, 64.0, 6.2, 120.0
+    for visit, dp, q in ((0, 68e3, 17.2e-3), (1, 70e3, 15.0e-3)):
+        eps = cooling.visits[visit].solved.branches[0].effective_roughness.value
+        v = q / (math.pi * d**2 / 4)
+        f = Colebrook(v * d / nu, eps / d)
+        valve = (q * 3600 / kv) ** 2 * 1e5 / (1000 * G)
+        head = (f * length / d + k) * v**2 / (2 * G) + valve
+        assert head == pytest.approx(dp / (water.rho * G), rel=1e-7)
+
+
+def test_the_band_of_a_change_by_hand(cooling):
+    """Measured R from the gauge and the clamp-on: per visit u²(R)/R² = (u_gauge/Δp)² +
+    (2 u_meter)² + (d ln ρ/dT · u_T)², u = a/√3 for each ± bound (GUM, JCGM 100:2008, 4.3.7);
+    the two visits independent; the band ±z₀.₉₅ (scipy's normal quantile) times (1 + change)."""
+    from scipy.stats import norm
+
+    assert norm.ppf(0.95) == pytest.approx(K90, rel=1e-12)
+    drho = (math.log(_rho(292.15)) - math.log(_rho(290.15))) / 2  # per K
+    u_gauge, u_meter, u_t = 0.01 * 200e3 / math.sqrt(3), 0.03 / math.sqrt(3), 2 / math.sqrt(3)
+    var = sum((u_gauge / dp) ** 2 + (2 * u_meter) ** 2 + (drho * u_t) ** 2
+              for dp in (68e3, 70e3))
+    trend = next(t for t in cooling.trends if t.indicator == "resistance")
+    change = (70 / 68) * (17.2 / 15.0) ** 2 - 1
+    assert trend.since_first.value == pytest.approx(change, rel=1e-9)
+    assert trend.since_first.band == pytest.approx(norm.ppf(0.95) * (1 + change)
+                                                   * math.sqrt(var), rel=1e-4)
+    assert trend.flagged and trend.basis == "measured"
+
+
+def test_the_band_covers_ninety_percent_of_simulated_visits_of_an_unchanged_line():
+    """Draw the gauge and the clamp-on of two visits from their stated rectangular
+    distributions around one true state; the change stays inside its band about 90 % of the
+    time (the band's sum of rectangles is near normal: common practice; exact coverage of a
+    triangular distribution at ±1.645σ is 89.2 %)."""
+    site = parse_site(SITE.replace('"15.0 L/s"', '"17.2 L/s"').replace('"70 kPa"', '"68 kPa"'))
+    trend = next(t for t in history_of(site).trends if t.indicator == "resistance")
+    band = trend.since_first.band
+    rng = np.random.default_rng(7)
+    n = 20_000
+    a_gauge, a_meter = 0.01 * 200e3, 0.03
+
+    def r(size: int) -> np.ndarray:
+        dp = 68e3 + rng.uniform(-a_gauge, a_gauge, size)
+        q = 17.2e-3 * (1 + rng.uniform(-a_meter, a_meter, size))
+        return dp / q**2
+
+    outside = np.abs(r(n) / r(n) - 1) > band
+    assert 0.08 < outside.mean() < 0.13, outside.mean()
+    print(f"outside the band: {outside.mean():.3%}")
+
+
+def test_the_demo_flags_the_ahu_3_coil_and_nothing_else():
+    history = history_of(demo_site())
+    assert [v.label for v in history.visits] == ["2024-09-18", "2025-01-15", "2025-03-12"]
+    flagged = {(t.branch, t.indicator) for t in history.flagged}
+    assert flagged == {("AHU-3 coil", "resistance"), ("AHU-3 coil", "flow")}
+    messages = history.messages()
+    assert any(m.startswith("AHU-3 coil: resistance +46 % from 2024-09-18 to 2025-01-15 "
+                            "(band ± ") and m.endswith("fouling, a valve moved, or a strainer "
+                                                       "filling") for m in messages), messages
+    # A second reading of the same day is weighed: the fouled coil's clamp-on is named.
+    rec = history.visits[1].solved.solved.reconciliation
+    assert rec is not None and rec.suspect is not None and rec.suspect.branch == "AHU-3 coil"
+
+
+def test_only_like_is_compared_with_like():
+    """A branch measured at two visits is trended over those; solved values of today do not
+    enter its trend, and a solved resistance is not trended at all."""
+    history = history_of(demo_site())
+    ahu3 = [t for t in history.trends if t.branch == "AHU-3 coil"]
+    assert {t.basis for t in ahu3} == {"measured"}
+    assert all(t.last.date == "2025-01-15" and not t.latest for t in ahu3)
+    ahu2 = [t for t in history.trends if t.branch == "AHU-2 coil"]
+    assert [(t.indicator, t.basis) for t in ahu2] == [("flow", "solved")]
+
+
+@pytest.mark.parametrize(("old", "new", "field"), [
+    ('"Condenser A" = "17.2 L/s"', '"Condenser B" = "17.2 L/s"',
+     'visits[0].measured."Condenser B"'),
+    ('"Condenser A" = "17.2 L/s"', '"Condenser A" = "17.2 L/ss"',
+     'visits[0].measured."Condenser A"'),
+    ('pressure_drop = "68 kPa"\nmeasured', 'pressure_drop = "68 kPaa"\nmeasured',
+     "visits[0].pressure_drop"),
+    ('given = "pressure_drop"\n\n[[visits]]', 'given = "Jacket loop"\n\n[[visits]]',
+     "visits[0].given"),
+    ('date = "2024-11-05"', 'date = "2024-11-05"\ntemperature = "120 degC"',
+     "visits[0].temperature"),
+])
+def test_bad_visit_data_names_the_visit_s_field(old, new, field):
+    text = SITE.replace(old, new, 1)
+    assert text != SITE
+    with pytest.raises(InputError) as exc:
+        history_of(parse_site(text))
+    assert exc.value.field == field
+
+
+def test_a_site_with_nothing_to_look_back_on_says_so():
+    site = parse_site(SITE.split("[[visits]]")[0])
+    site.conditions.pressure_drop = None
+    with pytest.raises(InputError) as exc:
+        history_of(site)
+    assert exc.value.field == "visits"
+
+
+def test_visits_are_taken_in_date_order():
+    first, second = SITE.split("[[visits]]")[1:]
+    text = SITE.split("[[visits]]")[0] + "[[visits]]" + second + "\n[[visits]]" + first
+    history = history_of(parse_site(text))
+    assert [v.field for v in history.visits] == ["visits[1]", "visits[0]", "conditions"]
+
+
+def test_a_trend_of_solved_flows_never_sets_a_clamp_on_against_a_solve():
+    """Condenser A read once: its flow is trended as solved at every visit, the clamp-on's
+    visit included (its solve from the gauge, not the meter's 17.2 L/s)."""
+    text = SITE.replace('measured = { "Condenser A" = "15.0 L/s" }\n', "")
+    history = history_of(parse_site(text))
+    trend = next(t for t in history.trends if t.branch == "Condenser A" and
+                 t.indicator == "flow")
+    assert trend.basis == "solved" and len(trend.points) == 3
+    first = history.visits[0].solved
+    assert trend.first.indicator.value == pytest.approx(float(first.solved.result.flows[0]),
+                                                        rel=1e-9)
+    assert first.branches[0].flow.value == pytest.approx(17.2e-3)  # the visit shows the read
+    assert not [t for t in history.trends if t.indicator == "resistance"]

@@ -1,0 +1,137 @@
+"""The History screen (F5) on the demo's visits at 80×24 and 120×40, its keys, and closing a
+visit: asked first, one step for Ctrl+Z, the fields cleared for the next visit."""
+
+from __future__ import annotations
+
+import pytest
+
+from branchwise.core.site.read import demo_text
+from branchwise.tui.state.session import rename_branch
+
+BRAILLE = {chr(c) for c in range(0x2801, 0x2900)}
+
+
+def _line(text: str, start: str) -> str:
+    return next(line for line in text.splitlines() if line.strip().startswith(start))
+
+
+@pytest.mark.parametrize("size", [(80, 24), (120, 40)], ids=["80x24", "120x40"])
+def test_the_history_screen_shows_the_trends_the_flags_and_the_cautions(ui, size):
+    async def scenario() -> None:
+        async with ui.started("f5", size) as (app, pilot):
+            await ui.settle(pilot)
+            text = ui.text(app)
+            assert app.current_mode == "history"
+            assert "Visits: 2024-09-18 · 2025-01-15 · 2025-03-12 (today)" in text
+            assert "Resistance R = h/Q² (m/(L/s)²)" in text
+            row = _line(text, "AHU-3 coil")
+            assert "+46 % ± 13 % ⚑" in row and BRAILLE & set(row)  # a braille trend
+            assert "⚑ AHU-3 coil: resistance +46 % from 2024-09-18" in text
+            assert "Estimates only, not design: confirm on site." in text
+            assert "F5" in text  # the screen's key in the footer
+            for line in text.splitlines():
+                assert len(line.rstrip()) <= size[0]
+
+    ui.run(scenario)
+
+
+def test_i_steps_through_the_indicators_and_t_shows_each_visit(ui):
+    async def scenario() -> None:
+        async with ui.started("f5") as (app, pilot):
+            await pilot.press("i")
+            assert "Flow (L/s)" in ui.text(app)
+            assert "solved" in _line(ui.text(app), "AHU-2 coil")  # from the header's reading
+            await pilot.press("i")
+            assert "Effective roughness (mm)" in ui.text(app)
+            await pilot.press("t")
+            text = ui.text(app)
+            assert "at each visit" in text
+            assert _line(text, "2024-09-18").count("*") == 2  # AHU-1 and AHU-3 clamp-ons
+            await pilot.press("t", "i")
+            assert "Resistance" in ui.text(app)
+
+    ui.run(scenario)
+
+
+def test_closing_the_visit_asks_first_and_is_one_undoable_step(ui):
+    async def scenario() -> None:
+        async with ui.started("f5") as (app, pilot):
+            before = app.session.revision
+            await pilot.press("v")
+            assert "Close today's visit?" in ui.text(app)
+            assert "pressure drop 10 psid" in ui.text(app)
+            await pilot.press("escape")  # Esc: nothing changes
+            await ui.settle(pilot)
+            assert app.session.revision == before and len(app.site.visits) == 2
+            await pilot.press("v", "enter")  # Enter in the date (the record's) moves to notes
+            await ui.type(pilot, "gauge re-zeroed")
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            site = app.site
+            assert len(site.visits) == 3 and site.visits[-1].date == "2025-03-12"
+            assert site.visits[-1].notes == "gauge re-zeroed"
+            assert site.conditions.pressure_drop is None and site.record is None
+            assert "Visits: 2024-09-18 · 2025-01-15 · 2025-03-12" in ui.text(app)
+            assert app.session.dirty
+            await pilot.press("ctrl+z")
+            await ui.settle(pilot)
+            assert len(app.site.visits) == 2 and app.site.conditions.pressure_drop == "10 psid"
+            assert not app.session.dirty
+
+    ui.run(scenario)
+
+
+def test_the_close_dialog_refuses_a_date_that_is_no_date(ui):
+    async def scenario() -> None:
+        async with ui.started("f5") as (app, pilot):
+            await pilot.press("v", "ctrl+u")
+            await ui.type(pilot, "12 March")
+            await pilot.press("enter")
+            await pilot.pause()
+            assert "must be a date" in ui.text(app)
+            assert len(app.site.visits) == 2
+            await pilot.press("escape")
+
+    ui.run(scenario)
+
+
+def test_nothing_to_close_says_so(ui, tmp_path):
+    text = demo_text().replace('pressure_drop = "10 psid"', "# no reading yet")
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started(None, site=path) as (app, pilot):
+            await pilot.press("f5")
+            await ui.settle(pilot)
+            await pilot.press("v")
+            await pilot.pause()
+            assert any("Nothing to close" in n.message for n in app._notifications)
+            assert len(app.screen_stack) == 1
+            # The two earlier visits still have their history without a reading today.
+            assert "Visits: 2024-09-18 · 2025-01-15" in ui.text(app)
+
+    ui.run(scenario)
+
+
+def test_a_bad_visit_is_named_on_the_screen(ui, tmp_path):
+    text = demo_text().replace('"AHU-1 coil" = "335 gpm"', '"AHU-9" = "335 gpm"')
+    path = tmp_path / "site.toml"
+    path.write_text(text, encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started("f5", site=path) as (app, pilot):
+            await ui.settle(pilot)
+            assert 'visits[0].measured."AHU-9": no branch of that name' in ui.text(app)
+            assert app.outcome.ok  # today's answer stands
+
+    ui.run(scenario)
+
+
+def test_renaming_a_branch_keeps_its_earlier_readings():
+    from branchwise.core.site.read import demo_site
+
+    site = demo_site()
+    rename_branch(site, 2, "AHU-3 coil (new)")
+    assert "AHU-3 coil (new)" in site.visits[0].measured
+    assert "AHU-3 coil" not in site.visits[1].measured
