@@ -37,7 +37,7 @@ from ..model import (
     at_most,
     finite,
 )
-from . import friction, unknowns
+from . import unknowns
 from .checks import MAX_VELOCITY, collect_warnings
 from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, head_for_total_flow
 from .hydraulics import segment_state as _segment_state
@@ -263,7 +263,7 @@ def _result(
             f"the solve did not settle (relative residual {conv.residual:.2g}): the inputs are "
             "beyond what it can resolve; check for a branch with almost no resistance",
             "conditions")
-    warnings = collect_warnings(network, arrays, friction.regime(st.reynolds), conv)
+    warnings = collect_warnings(network, arrays, conv)
     return Result(
         network=network, given=given, find=find,
         pressure_drop=pressure_drop_for(network, head), driving_head=head,
