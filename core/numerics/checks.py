@@ -66,21 +66,22 @@ class _Rule:
     def flag(self, found: dict[str, list[Flag]], s: int, b: int, re: float, rr: float,
              speed: float) -> None:
         """Adds segment ``s`` (of branch ``b``) to ``found`` under each code it earns."""
-        if re >= RE_TURBULENT and rr <= self.rough_max and re <= self.re_max and (
-                speed <= self.limit and not self.sj):
+        rough_max, re_max, limit, sj = self.rough_max, self.re_max, self.limit, self.sj
+        if re >= RE_TURBULENT and rr <= rough_max and re <= re_max and speed <= limit and (
+                not sj):
             return  # the usual segment: nothing to say
-        row = (s, b, re, rr, speed)
         if re < RE_LAMINAR:
-            found.setdefault("laminar", []).append(("laminar", *row))
+            found.setdefault("laminar", []).append(("laminar", s, b, re, rr, speed))
         elif re < RE_TURBULENT:
-            found.setdefault("transition", []).append(("transition", *row))
-        if rr > self.rough_max:
-            found.setdefault("roughness-range", []).append(("roughness-range", *row))
-        lo, top = SWAMEE_JAIN_RANGE
-        if re >= RE_TURBULENT and (re > self.re_max or (self.sj and (re < lo or rr > top))):
-            found.setdefault("reynolds-range", []).append(("reynolds-range", *row))
-        if speed > self.limit:
-            found.setdefault("velocity-high", []).append(("velocity-high", *row))
+            found.setdefault("transition", []).append(("transition", s, b, re, rr, speed))
+        if rr > rough_max:
+            found.setdefault("roughness-range", []).append(
+                ("roughness-range", s, b, re, rr, speed))
+        if re >= RE_TURBULENT and (re > re_max or (sj and (
+                re < SWAMEE_JAIN_RANGE[0] or rr > SWAMEE_JAIN_RANGE[1]))):
+            found.setdefault("reynolds-range", []).append(("reynolds-range", s, b, re, rr, speed))
+        if speed > limit:
+            found.setdefault("velocity-high", []).append(("velocity-high", s, b, re, rr, speed))
 
 
 def collect_warnings(net: Network, a: Arrays, conv: Convergence) -> list[SolveWarning]:
@@ -126,7 +127,9 @@ def _emit(
     out: list[SolveWarning] = []
     starts: list[int] = []
     for code in CODES:
-        for _, s, b, re, rr, speed in found.get(code, ()):
+        if code not in found:
+            continue
+        for _, s, b, re, rr, speed in found[code]:
             br = branches[b]
             segment = 0
             if len(br.segments) > 1:

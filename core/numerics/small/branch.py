@@ -88,19 +88,25 @@ class Pipe:
         """h at |Q| = q > 0 (m); fills the state."""
         two_g = 2 * self.g
         colebrook = self.model == "colebrook"
+        nu = self.nu
+        area, dia, length, k = self.area, self.d, self.length, self.k
+        re_l: list[float] = []
+        f_l: list[float] = []
+        fs_l: list[float] = []
+        ma_l: list[float] = []
+        mi_l: list[float] = []
         h = dh = 0.0
-        re_l, f_l, fs_l, ma_l, mi_l = [], [], [], [], []
         for j in range(self.n):
-            d = self.d[j]
-            v = q / self.area[j]
-            re = v * d / self.nu
+            d = dia[j]
+            v = q / area[j]
+            re = v * d / nu
             if colebrook and re >= RE_TURBULENT:
                 f, fs = self._colebrook(j, re)
             else:
                 f, fs = self.friction(j, re)
             vel_head = v * v / two_g
-            major = f * self.length[j] / d * vel_head
-            minor = self.k[j] * vel_head
+            major = f * length[j] / d * vel_head
+            minor = k[j] * vel_head
             h += major + minor
             dh += major * (2 + fs) + 2 * minor
             re_l.append(re)
@@ -180,7 +186,9 @@ class Pipe:
         self.x = x
         q = speed * area
         f = x**-2.0
-        fs = fr.colebrook_slopes(x, re, self.rr[0])[0]
+        c = 2.51 / re  # d ln f / d ln Re at the root, as friction.colebrook_slopes
+        arg = a + c * x
+        fs = -2.0 * (2.0 * c * x / (LN10 * arg) / (1.0 + 2.0 * c / (LN10 * arg))) / x
         vel_head = speed * speed / (2 * g)
         major = f * length / d * vel_head
         minor = self.k[0] * vel_head
@@ -195,19 +203,22 @@ class Pipe:
 
     def _start(self, head: float) -> float:
         """Two fixed-point passes from f = 0.02, as the vectorised solver starts."""
-        g = self.g
-        f = [0.02] * self.n
+        g, n, nu = self.g, self.n, self.nu
+        area, d, length, k, rr = self.area, self.d, self.length, self.k, self.rr
+        f = [0.02] * n
         q = math.nan
-        for _ in range(2):
+        for last in (False, True):
             r = 0.0
-            for j in range(self.n):
-                a = self.area[j]
-                r += (f[j] * self.length[j] / self.d[j] + self.k[j]) / (2 * g * a * a)
+            for j in range(n):
+                a = area[j]
+                r += (f[j] * length[j] / d[j] + k[j]) / (2 * g * a * a)
             r += self.valve_r
             q = _sqrt(head / r)
-            for j in range(self.n):
-                re = max(q / self.area[j] * self.d[j] / self.nu, 1e-300)
-                f[j] = max(64 / re, fr.swamee_jain(max(re, 1.0), self.rr[j])[0])
+            if last:
+                break
+            for j in range(n):
+                re = max(q / area[j] * d[j] / nu, 1e-300)
+                f[j] = max(64 / re, fr.swamee_jain(max(re, 1.0), rr[j])[0])
         return q if math.isfinite(q) and q > 0 else 1e-6
 
     def _newton(self, head: float, guess: float) -> int:

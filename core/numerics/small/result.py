@@ -65,28 +65,35 @@ def build_result(
             raise Fallback("bounds")
         if p.n == 1:
             v = q / p.area[0]
+            if not abs(v) <= MAX_VELOCITY:
+                raise Fallback("bounds")
             seg_branch.append(b)
             velocity.append(v)
-            speed = abs(v)
+            reynolds.append(p.re[0])
+            friction.append(p.f[0])
+            rr.append(p.rr[0])
+            if q > 0:
+                major.append(p.major[0])
+                minor.append(p.minor[0])
+            else:
+                major.append(-p.major[0])
+                minor.append(-p.minor[0])
         else:
             vs = [q / a for a in p.area]
+            if not max(abs(v) for v in vs) <= MAX_VELOCITY:
+                raise Fallback("bounds")
             seg_branch += [b] * p.n
             velocity += vs
-            speed = max(abs(v) for v in vs)
-        if not speed <= MAX_VELOCITY:
-            raise Fallback("bounds")
-        reynolds += p.re
-        friction += p.f
-        rr += p.rr
-        if q > 0:
-            major += p.major
-            minor += p.minor
-        else:
-            major += [-m for m in p.major]
-            minor += [-m for m in p.minor]
+            reynolds += p.re
+            friction += p.f
+            rr += p.rr
+            if q > 0:
+                major += p.major
+                minor += p.minor
+            else:
+                major += [-m for m in p.major]
+                minor += [-m for m in p.minor]
         valve.append(p.valve_r * q * abs(q))
-    if not (_isfinite(sum(major)) and _isfinite(sum(minor))):
-        raise Fallback("bounds")
     arrays = Arrays(flow=flows, seg_branch=seg_branch, velocity=velocity, reynolds=reynolds,
                     friction_factor=friction, major=major, minor=minor, valve=valve)
     warnings = collect_warnings_small(network, flows, seg_branch, velocity, reynolds, rr, conv)
