@@ -18,11 +18,12 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 from functools import cached_property
+from operator import attrgetter
 
 import numpy as np
 from numpy.typing import NDArray
 
-from ..model import Network
+from ..model import Branch, Network, Segment
 from . import friction
 
 Array = NDArray[np.float64]
@@ -89,23 +90,36 @@ class Layout:
 
     @classmethod
     def from_network(cls, net: Network) -> Layout:
-        segs = [(i, s) for i, b in enumerate(net.branches) for s in b.segments]
-        col = np.array
-        kv = np.array([b.valve_kv or np.inf for b in net.branches], dtype=float)
-        nu = net.fluid.kinematic_viscosity
+        """The network's segments as arrays, read in one pass over existing objects: no
+        per-segment object is made, so a network of 100k branches sets off no garbage
+        collection over itself and the cost per branch stays flat."""
+        branches = net.branches
+        n_b = len(branches)
+        counts = np.fromiter(map(len, map(_segments, branches)), np.intp, n_b)
+        segs = [s for b in branches for s in b.segments]
+        n_s = len(segs)
+
+        def col(name: str) -> Array:
+            return np.fromiter(map(attrgetter(name), segs), float, n_s)
+
+        kv = np.fromiter((b.valve_kv or np.inf for b in branches), float, n_b)
         return cls(
-            seg_branch=col([i for i, _ in segs], dtype=np.intp),
-            diameter=col([s.diameter for _, s in segs], dtype=float),
-            length=col([s.length for _, s in segs], dtype=float),
-            roughness=col([s.roughness for _, s in segs], dtype=float),
-            minor_k=col([s.minor_k for _, s in segs], dtype=float),
-            hw_c=col([s.hw_c if s.hw_c is not None else np.nan for _, s in segs], dtype=float),
+            seg_branch=np.repeat(np.arange(n_b, dtype=np.intp), counts),
+            diameter=col("diameter"),
+            length=col("length"),
+            roughness=col("roughness"),
+            minor_k=col("minor_k"),
+            hw_c=np.fromiter((np.nan if s.hw_c is None else s.hw_c for s in segs), float, n_s),
             valve_r=VALVE_HEAD_FACTOR / (kv**2 * net.gravity),
-            branch_group=np.zeros(len(net.branches), dtype=np.intp),
-            nu=np.full(len(net.branches), nu),
+            branch_group=np.zeros(n_b, dtype=np.intp),
+            nu=np.full(n_b, net.fluid.kinematic_viscosity),
             gravity=net.gravity,
             model=net.friction,
         )
+
+
+def _segments(branch: Branch) -> tuple[Segment, ...]:
+    return branch.segments
 
 
 @dataclass(frozen=True)

@@ -13,6 +13,7 @@ from functools import cached_property
 import numpy as np
 
 from ..model import Find, Given, Network
+from .bulk import no_collection
 
 
 @dataclass(frozen=True)
@@ -170,7 +171,7 @@ class Arrays:
 
 @dataclass(frozen=True)
 class Result:
-    """A solved network.
+    """A solved network (its warnings, and each warning's text, are written when first read).
 
     network: the network as solved (with a found diameter, length or roughness put in);
     pressure_drop: p_in − p_out, Pa; driving_head: pressure head less the lift, m;
@@ -186,9 +187,16 @@ class Result:
     total_flow: float
     arrays: Arrays
     solved: Solved | None
-    warnings: tuple[SolveWarning, ...]
+    warning_source: Callable[[], Sequence[SolveWarning]] = field(repr=False, compare=False)
+    """Writes the warnings from the solve's codes and values (``checks``), when first read."""
     convergence: Convergence
     notes: tuple[str, ...] = field(default=())
+
+    @cached_property
+    def warnings(self) -> tuple[SolveWarning, ...]:
+        """What the engineer should know of this answer, in a stable order (``checks``)."""
+        with no_collection():
+            return tuple(self.warning_source())
 
     @property
     def head_loss(self) -> float:
@@ -200,6 +208,10 @@ class Result:
 
     @cached_property
     def branches(self) -> tuple[BranchResult, ...]:
+        with no_collection():
+            return self._branches()
+
+    def _branches(self) -> tuple[BranchResult, ...]:
         a = self.arrays
         from .friction import regime
 

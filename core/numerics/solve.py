@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import replace
+from functools import partial
 
 import numpy as np
 
@@ -224,22 +225,30 @@ UNSETTLED = 1e-6
 def _check_bounds(network: Network, lay: Layout, head: float, flows: np.ndarray,
                   velocity: np.ndarray, losses: np.ndarray) -> None:
     """The last check on every answer: no inf or NaN and no flow beyond the physical bounds
-    reaches an output; the branch that breaks them is named."""
-    bad_head = not math.isfinite(head)
-    for b in range(len(network.branches)):
-        segs = lay.seg_branch == b
-        q = float(flows[b])
-        fast = float(np.max(np.abs(velocity[segs]), initial=0.0))
-        finite_all = math.isfinite(q) and bool(np.all(np.isfinite(velocity[segs]))) and bool(
-            np.all(np.isfinite(losses[segs])))
-        if bad_head or not finite_all or abs(q) > MAX_FLOW or fast > MAX_VELOCITY:
-            shown = (f"run at {velocity_text(fast)} ({flow_text(q)})"
-                     if finite_all and not bad_head else "carry no finite flow")
-            raise NoSolutionError(
-                f"this branch would {shown}: beyond what a liquid line can carry (incompressible "
-                f"flow holds well below {velocity_text(MAX_VELOCITY)}); check its length, "
-                "fittings and valve, and the given condition",
-                f"branches[{b}].length")
+    reaches an output; the first branch that breaks them is named."""
+    if math.isfinite(head):
+        with np.errstate(invalid="ignore"):
+            bad_seg = ~(np.isfinite(velocity) & np.isfinite(losses)) | (
+                np.abs(velocity) > MAX_VELOCITY)
+            bad = ~np.isfinite(flows) | (np.abs(flows) > MAX_FLOW)
+        bad[lay.seg_branch[bad_seg]] = True
+        if not bad.any():
+            return
+        b = int(np.argmax(bad))
+    else:
+        b = 0
+    segs = lay.seg_branch == b
+    q = float(flows[b])
+    fast = float(np.max(np.abs(velocity[segs]), initial=0.0))
+    finite_all = math.isfinite(q) and bool(np.all(np.isfinite(velocity[segs]))) and bool(
+        np.all(np.isfinite(losses[segs])))
+    shown = (f"run at {velocity_text(fast)} ({flow_text(q)})"
+             if finite_all and math.isfinite(head) else "carry no finite flow")
+    raise NoSolutionError(
+        f"this branch would {shown}: beyond what a liquid line can carry (incompressible "
+        f"flow holds well below {velocity_text(MAX_VELOCITY)}); check its length, "
+        "fittings and valve, and the given condition",
+        f"branches[{b}].length")
 
 
 def _result(
@@ -263,10 +272,9 @@ def _result(
             f"the solve did not settle (relative residual {conv.residual:.2g}): the inputs are "
             "beyond what it can resolve; check for a branch with almost no resistance",
             "conditions")
-    warnings = collect_warnings(network, arrays, conv)
     return Result(
         network=network, given=given, find=find,
         pressure_drop=pressure_drop_for(network, head), driving_head=head,
         total_flow=float(flows.sum()), arrays=arrays, solved=solved,
-        warnings=tuple(warnings), convergence=conv,
+        warning_source=partial(collect_warnings, network, arrays, conv), convergence=conv,
     )

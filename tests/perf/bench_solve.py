@@ -132,7 +132,8 @@ def cases(net: Network) -> dict[str, tuple[Given, Find]]:
                                    FindFlows()),
         "diameter found": (PressureDrop(DP), FindUnknown("diameter", third, target)),
         "length found": (PressureDrop(DP), FindUnknown("length", third, target)),
-        "roughness found": (PressureDrop(DP), FindUnknown("roughness", third, float(flows[3]) * 0.9)),
+        "roughness found": (PressureDrop(DP),
+                            FindUnknown("roughness", third, float(flows[3]) * 0.9)),
     }
 
 

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
+from functools import partial
 
 from ...model import MAX_FLOW, Find, Given, Network
 from ..checks import MAX_VELOCITY, collect_warnings_small
@@ -96,11 +97,12 @@ def build_result(
         valve.append(p.valve_r * q * abs(q))
     arrays = Arrays(flow=flows, seg_branch=seg_branch, velocity=velocity, reynolds=reynolds,
                     friction_factor=friction, major=major, minor=minor, valve=valve)
-    warnings = collect_warnings_small(network, flows, seg_branch, velocity, reynolds, rr, conv)
     fl = network.fluid
     return Result(
         network=network, given=given, find=find,
         pressure_drop=fl.density * network.gravity * (head + network.elevation_change),
         driving_head=head, total_flow=numpy_sum(flows), arrays=arrays, solved=solved,
-        warnings=tuple(warnings), convergence=conv,
+        warning_source=partial(collect_warnings_small, network, flows, seg_branch, velocity,
+                               reynolds, rr, conv),
+        convergence=conv,
     )
