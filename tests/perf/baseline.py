@@ -54,12 +54,16 @@ def module(core: ModuleType, name: str) -> ModuleType:
 def interleaved(fns: dict[str, Callable[[], object]], rounds: int = 15,
                 number: int = 1) -> dict[str, float]:
     """Median CPU seconds per call of each function, the functions run in turn ``rounds``
-    times (each turn ``number`` calls), so that load on the machine falls on all alike."""
+    times (each turn ``number`` calls), so that load on the machine falls on all alike. The
+    order turns by one each round, so that none is always the first to read its data after
+    the others have filled the caches."""
     for fn in fns.values():
         fn()  # warm-up
     times: dict[str, list[float]] = {k: [] for k in fns}
-    for _ in range(rounds):
-        for key, fn in fns.items():
+    keys = list(fns)
+    for r in range(rounds):
+        for key in keys[r % len(keys):] + keys[:r % len(keys)]:
+            fn = fns[key]
             start = time.process_time()
             for _ in range(number):
                 fn()
