@@ -3,7 +3,10 @@
     python tests/perf/bench_solve.py [--rounds N]
 
 Every figure is a ratio of CPU-time medians, the functions compared run in turn in the same
-process (``baseline.interleaved``), so that load on the machine falls on all alike.
+process (``baseline.interleaved``), so that load on the machine falls on all alike; each turn is
+10 consecutive calls of one function in part 1 and 20 in part 2 (a single call right after the
+others have run pays for their use of the caches: about 1.4× a solve's time, not the by-hand
+methods').
 
 1. Ten branches (two segments every fifth branch), flows at a given Δp: the whole ``solve()``
    against the method one would write by hand — scipy's brentq on each branch's flow with a
@@ -155,7 +158,7 @@ def main() -> None:
         "fluids": lambda: by_hand(net, head, fluids_colebrook),
         "nested": lambda: by_hand(net, head, nested_colebrook),
         "fixed": lambda: by_hand(net, head, fixed_point_colebrook),
-    }, rounds=args.rounds, number=3)
+    }, rounds=args.rounds, number=10)
     print(ratio_line("(a) brentq per branch, fluids.Colebrook", times["fluids"], times["solve"],
                      20))
     print(ratio_line("(b) brentq per branch, Colebrook by nested brentq", times["nested"],
