@@ -68,27 +68,37 @@ def haaland(re: Array, rr: Array) -> tuple[Array, Array]:
     return f, -2.0 * dx / x
 
 
-def colebrook(re: Array, rr: Array) -> tuple[Array, Array]:
+def colebrook(re: Array, rr: Array, start: Array | None = None) -> tuple[Array, Array]:
     """Colebrook–White (1939), solved to machine precision.
 
-    1/√f = −2 log10(ε/(3.7 D) + 2.51/(Re √f)). Newton on x = 1/√f from the Swamee–Jain
-    estimate; stops when the step is below 1e-14 relative (the residual of the equation is then
-    at round-off level, far below the 1e-12 asked of it).
+    1/√f = −2 log10(ε/(3.7 D) + 2.51/(Re √f)). Newton on x = 1/√f from ``start`` (x of a
+    nearby flow, e.g. the solver's last pass: a step or two then suffices) or else from the
+    Swamee–Jain estimate; stops when the step is below 1e-14 relative (the residual of the
+    equation is then at round-off level, far below the 1e-12 asked of it). Newton cannot fail
+    from any x > 0: g(x) = x + 2 log10(a + c x) is increasing and concave, so a start below
+    the root steps above it and from above the steps fall to it.
     Colebrook, C.F., J. ICE 11(4), 133–156 (1939).
     """
     re = np.asarray(re, dtype=float)
     rr = np.asarray(rr, dtype=float)
     a = rr / 3.7
     c = 2.51 / re
-    x = 1.0 / np.sqrt(swamee_jain(re, rr)[0])
+    warm = start is not None and start.shape == re.shape and bool(np.all(start > 0)) and bool(
+        np.all(np.isfinite(start)))
+    if warm:
+        assert start is not None
+        x = start
+        first = 0
+    else:
+        x = 1.0 / np.sqrt(swamee_jain(re, rr)[0])
+        first = 2  # from Swamee–Jain (≲3 % off) Newton needs about three steps
     for i in range(50):
         arg = a + c * x
         g = x + 2.0 * np.log10(arg)
         dg = 1.0 + 2.0 * c / (LN10 * arg)
         step = g / dg
         x = x - step
-        # From Swamee–Jain (≲3 % off) Newton needs about three steps: check from the third on.
-        if i >= 2 and np.all(np.abs(step) <= COLEBROOK_RTOL * np.abs(x)):
+        if i >= first and np.all(np.abs(step) <= COLEBROOK_RTOL * np.abs(x)):
             break
     arg = a + c * x
     # implicit derivative: g(x, Re) = 0 → dx/dlnRe = -(∂g/∂lnRe)/(∂g/∂x)
@@ -139,12 +149,14 @@ TURBULENT = {
 }
 
 
-def darcy(re: Array, rr: Array, model: str = "colebrook") -> tuple[Array, Array]:
+def darcy(re: Array, rr: Array, model: str = "colebrook",
+          start: Array | None = None) -> tuple[Array, Array]:
     """Darcy friction factor over all regimes with the chosen turbulent correlation.
 
     ``churchill`` is used as is at every Re. The others: 64/Re below RE_LAMINAR, the model above
     RE_TURBULENT, and Churchill shifted to meet both in between (see the module docstring).
     ``laminar`` forces 64/Re at every Re. Re = 0 gives f = inf with slope −1 (no flow).
+    ``start``: 1/√f per item from a nearby flow, where Colebrook is solved (:func:`colebrook`).
     """
     re = np.asarray(re, dtype=float)
     rr = np.asarray(rr, dtype=float)
@@ -152,9 +164,10 @@ def darcy(re: Array, rr: Array, model: str = "colebrook") -> tuple[Array, Array]
         return laminar(re)
     if model == "churchill":
         return churchill(np.maximum(re, 1e-300), rr)
-    turbulent = TURBULENT[model]
+    warm = start is not None and model == "colebrook"
     if re.size and re.min() >= RE_TURBULENT:  # the usual case on a plant: skip the masks
-        return turbulent(re, rr)
+        return colebrook(re, rr, start) if warm else TURBULENT[model](re, rr)
+    turbulent = TURBULENT[model]
     f = np.empty_like(re)
     slope = np.empty_like(re)
     lam = re < RE_LAMINAR
@@ -164,7 +177,8 @@ def darcy(re: Array, rr: Array, model: str = "colebrook") -> tuple[Array, Array]
         with np.errstate(divide="ignore"):
             f[lam], slope[lam] = laminar(re[lam])
     if turb.any():
-        f[turb], slope[turb] = turbulent(re[turb], rr[turb])
+        f[turb], slope[turb] = (colebrook(re[turb], rr[turb], start[turb]) if warm and (
+            start is not None) else turbulent(re[turb], rr[turb]))
     if mid.any():
         f[mid], slope[mid] = _bridged(re[mid], rr[mid], turbulent)
     return f, slope

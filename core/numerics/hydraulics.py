@@ -18,11 +18,12 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 from functools import cached_property
+from operator import attrgetter
 
 import numpy as np
 from numpy.typing import NDArray
 
-from ..model import Network
+from ..model import Branch, Network, Segment
 from . import friction
 
 Array = NDArray[np.float64]
@@ -89,23 +90,36 @@ class Layout:
 
     @classmethod
     def from_network(cls, net: Network) -> Layout:
-        segs = [(i, s) for i, b in enumerate(net.branches) for s in b.segments]
-        col = np.array
-        kv = np.array([b.valve_kv or np.inf for b in net.branches], dtype=float)
-        nu = net.fluid.kinematic_viscosity
+        """The network's segments as arrays, read in one pass over existing objects: no
+        per-segment object is made, so a network of 100k branches sets off no garbage
+        collection over itself and the cost per branch stays flat."""
+        branches = net.branches
+        n_b = len(branches)
+        counts = np.fromiter(map(len, map(_segments, branches)), np.intp, n_b)
+        segs = [s for b in branches for s in b.segments]
+        n_s = len(segs)
+
+        def col(name: str) -> Array:
+            return np.fromiter(map(attrgetter(name), segs), float, n_s)
+
+        kv = np.fromiter((b.valve_kv or np.inf for b in branches), float, n_b)
         return cls(
-            seg_branch=col([i for i, _ in segs], dtype=np.intp),
-            diameter=col([s.diameter for _, s in segs], dtype=float),
-            length=col([s.length for _, s in segs], dtype=float),
-            roughness=col([s.roughness for _, s in segs], dtype=float),
-            minor_k=col([s.minor_k for _, s in segs], dtype=float),
-            hw_c=col([s.hw_c if s.hw_c is not None else np.nan for _, s in segs], dtype=float),
+            seg_branch=np.repeat(np.arange(n_b, dtype=np.intp), counts),
+            diameter=col("diameter"),
+            length=col("length"),
+            roughness=col("roughness"),
+            minor_k=col("minor_k"),
+            hw_c=np.fromiter((np.nan if s.hw_c is None else s.hw_c for s in segs), float, n_s),
             valve_r=VALVE_HEAD_FACTOR / (kv**2 * net.gravity),
-            branch_group=np.zeros(len(net.branches), dtype=np.intp),
-            nu=np.full(len(net.branches), nu),
+            branch_group=np.zeros(n_b, dtype=np.intp),
+            nu=np.full(n_b, net.fluid.kinematic_viscosity),
             gravity=net.gravity,
             model=net.friction,
         )
+
+
+def _segments(branch: Branch) -> tuple[Segment, ...]:
+    return branch.segments
 
 
 @dataclass(frozen=True)
@@ -120,40 +134,54 @@ class SegmentState:
     minor: Array
 
 
-def segment_state(lay: Layout, q: Array) -> SegmentState:
-    """Velocity, Re, f and the signed major and minor head losses of every segment."""
-    # A bracket being widened tries flows far past the root: heads overflow to inf there,
-    # which the solvers read as "too high" (no warning wanted). What reaches a user is checked
-    # for inf and NaN at the end (checks.final_check).
-    with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
-        qs = np.asarray(q, dtype=float)[lay.seg_branch]
-        v = qs / lay.area
-        speed = np.abs(v)
-        re = speed * lay.diameter / lay.seg_nu
-        if lay.model == "hazen-williams":
-            f, slope = friction.hazen_williams(re, lay.relative_roughness, lay.diameter,
-                                               lay.hw_c, lay.seg_nu, lay.gravity)
-        else:
-            f, slope = friction.darcy(re, lay.relative_roughness, lay.model)
-        vel_head = v * speed / (2 * lay.gravity)
-        major = np.where(speed > 0, f * lay.length / lay.diameter * vel_head, 0.0)
-        minor = lay.minor_k * vel_head
+def _quiet() -> np.errstate:
+    """A bracket being widened tries flows far past the root: heads overflow to inf there (and
+    underflow to 0 far below it), which the solvers read as "too high" or "too low" (no warning
+    wanted). What reaches a user is checked for inf and NaN at the end
+    (``solve._check_bounds``)."""
+    return np.errstate(divide="ignore", over="ignore", invalid="ignore")
+
+
+def segment_state(lay: Layout, q: Array, start: Array | None = None) -> SegmentState:
+    """Velocity, Re, f and the signed major and minor head losses of every segment.
+    ``start``: 1/√f per segment at a nearby flow (Colebrook then takes a step or two)."""
+    with _quiet():
+        return _segment_state(lay, q, start)
+
+
+def _segment_state(lay: Layout, q: Array, start: Array | None) -> SegmentState:
+    qs = np.asarray(q, dtype=float)[lay.seg_branch]
+    v = qs / lay.area
+    speed = np.abs(v)
+    re = speed * lay.diameter / lay.seg_nu
+    if lay.model == "hazen-williams":
+        f, slope = friction.hazen_williams(re, lay.relative_roughness, lay.diameter,
+                                           lay.hw_c, lay.seg_nu, lay.gravity)
+    else:
+        f, slope = friction.darcy(re, lay.relative_roughness, lay.model, start)
+    vel_head = v * speed / (2 * lay.gravity)
+    major = np.where(speed > 0, f * lay.length / lay.diameter * vel_head, 0.0)
+    minor = lay.minor_k * vel_head
     return SegmentState(v, re, f, slope, major, minor)
 
 
 def head_and_slope(lay: Layout, q: Array) -> tuple[Array, Array]:
     """Branch head loss h(Q) (m, signed) and d ln h / d ln Q (between 1 and 2) for Q ≠ 0."""
-    q = np.asarray(q, dtype=float)
-    st = segment_state(lay, q)
+    with _quiet():
+        h, s, _ = _head_and_slope(lay, np.asarray(q, dtype=float), None)
+    return h, s
+
+
+def _head_and_slope(lay: Layout, q: Array, start: Array | None) -> tuple[Array, Array, Array]:
+    """h, d ln h / d ln Q and each segment's f (with the errors quiet: the caller's block)."""
+    st = _segment_state(lay, q, start)
     n = lay.n_branches
-    with np.errstate(over="ignore", invalid="ignore"):  # inf far past the root, as above
-        valve = lay.valve_r * q * np.abs(q)
-        h = np.bincount(lay.seg_branch, st.major + st.minor, minlength=n) + valve
-        # d h/d ln Q per segment: major (2 + slope), minor and valve 2.
-        dh = np.bincount(lay.seg_branch, st.major * (2 + st.slope) + 2 * st.minor,
-                         minlength=n) + 2 * valve
-    with np.errstate(divide="ignore", invalid="ignore"):
-        return h, np.where(h != 0, dh / h, 2.0)
+    valve = lay.valve_r * q * np.abs(q)
+    h = np.bincount(lay.seg_branch, st.major + st.minor, minlength=n) + valve
+    # d h/d ln Q per segment: major (2 + slope), minor and valve 2.
+    dh = np.bincount(lay.seg_branch, st.major * (2 + st.slope) + 2 * st.minor,
+                     minlength=n) + 2 * valve
+    return h, np.where(h != 0, dh / h, 2.0), st.friction_factor
 
 
 def branch_head(lay: Layout, q: Array) -> Array:
@@ -216,26 +244,32 @@ def flows_at_head(
     lo = np.full_like(x, -np.inf)
     hi = np.full_like(x, np.inf)
     resid = np.full_like(x, np.inf)
+    # Colebrook is started from each segment's root at the last pass's flows.
+    warm: Array | None = None
+    tiny = 4 * np.finfo(float).eps
     it = 0
-    for it in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
-        h, s = head_and_slope(sub, np.exp(x))
-        with np.errstate(divide="ignore"):  # h underflows to 0 only far below the root
+    with _quiet():  # one block for the loop: see _quiet
+        for it in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
+            h, s, f = _head_and_slope(sub, np.exp(x), warm)
+            if sub.model == "colebrook":
+                warm = f**-0.5
             resid = np.log(h) - ln_t
-        done = np.abs(resid) <= HEAD_RTOL
-        lo = np.where(resid < 0, x, lo)
-        hi = np.where(resid > 0, x, hi)
-        if done.all():
-            break
-        step = np.clip(resid / np.where(s > 0, s, 1.0), -8.0, 8.0)
-        trial = x - step
-        inside = (trial > lo) & (trial < hi)
-        both = np.isfinite(lo) & np.isfinite(hi)
-        with np.errstate(invalid="ignore"):  # lo + hi is nan where a side is still open
-            fallback = np.where(both, 0.5 * (lo + hi), np.where(np.isfinite(hi), hi - 8, lo + 8))
-        x = np.where(done, x, np.where(inside, trial, fallback))
-        collapsed = both & (hi - lo <= 4 * np.finfo(float).eps * np.maximum(1, np.abs(x)))
-        if (done | collapsed).all():
-            break
+            done = np.abs(resid) <= HEAD_RTOL
+            lo = np.where(resid < 0, x, lo)
+            hi = np.where(resid > 0, x, hi)
+            if done.all():
+                break
+            step = np.clip(resid / np.where(s > 0, s, 1.0), -8.0, 8.0)
+            trial = x - step
+            inside = (trial > lo) & (trial < hi)
+            both = np.isfinite(lo) & np.isfinite(hi)
+            # lo + hi is nan where a side is still open: not taken there
+            fallback = np.where(both, 0.5 * (lo + hi),
+                                np.where(np.isfinite(hi), hi - 8, lo + 8))
+            x = np.where(done, x, np.where(inside, trial, fallback))
+            collapsed = both & (hi - lo <= tiny * np.maximum(1, np.abs(x)))
+            if (done | collapsed).all():
+                break
     q[live] = np.exp(x)
     worst = float(np.max(np.abs(np.expm1(resid)))) if resid.size else 0.0
     return sign * q, RootInfo(bool(worst <= 1e-11), it, worst)
@@ -286,39 +320,37 @@ def head_for_total_flow(lay: Layout, total: Array | float) -> tuple[Array, Array
     inner_ok = True
     slope_last: Array | None = None
     hb_last = np.ones(lay.n_branches)
-    for iters in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
-        hb = np.where(live, np.exp(u), 0.0)[gb]
-        # From the second pass on, start each branch from its last flow, moved along its own
-        # ln Q–ln H slope to the new head: the inner solve then needs a step or two.
-        guess = None
-        if slope_last is not None and np.all(q > 0):
-            guess = q * np.exp((np.log(np.maximum(hb, 1e-300)) - np.log(hb_last)) / slope_last)
-        hb_last = np.maximum(hb, 1e-300)
-        q, info = flows_at_head(lay, hb, guess)
-        inner_ok = info.converged
-        qsum = np.bincount(gb, q, minlength=groups)
-        # d ln ΣQ / d ln H = Σ Q_i / s_i / ΣQ, with s_i = d ln h_i / d ln Q_i.
-        _, s = head_and_slope(lay, np.where(q > 0, q, 1.0))
-        slope_last = s
-        dq = np.bincount(gb, np.where(q > 0, q / s, 0.0), minlength=groups)
-        with np.errstate(divide="ignore"):
+    with _quiet():  # one block for the loop: see _quiet
+        for iters in range(1, MAX_ITER + 1):  # noqa: B007 (the count is reported)
+            hb = np.where(live, np.exp(u), 0.0)[gb]
+            # From the second pass on, start each branch from its last flow, moved along its own
+            # ln Q–ln H slope to the new head: the inner solve then needs a step or two.
+            guess = None
+            if slope_last is not None and np.all(q > 0):
+                guess = q * np.exp((np.log(np.maximum(hb, 1e-300)) - np.log(hb_last)) / slope_last)
+            hb_last = np.maximum(hb, 1e-300)
+            q, info = flows_at_head(lay, hb, guess)
+            inner_ok = info.converged
+            qsum = np.bincount(gb, q, minlength=groups)
+            # d ln ΣQ / d ln H = Σ Q_i / s_i / ΣQ, with s_i = d ln h_i / d ln Q_i.
+            s = _head_and_slope(lay, np.where(q > 0, q, 1.0), None)[1]
+            slope_last = s
+            dq = np.bincount(gb, np.where(q > 0, q / s, 0.0), minlength=groups)
             resid = np.where(live, np.log(qsum) - np.log(np.where(live, target, 1.0)), 0.0)
-        done = np.abs(resid) <= HEAD_RTOL
-        lo = np.where(resid < 0, u, lo)
-        hi = np.where(resid > 0, u, hi)
-        if done.all():
-            break
-        slope = np.where(qsum > 0, dq / np.where(qsum > 0, qsum, 1.0), 0.5)
-        trial = u - np.clip(resid / np.maximum(slope, 0.25), -16.0, 16.0)
-        inside = (trial > lo) & (trial < hi)
-        both = np.isfinite(lo) & np.isfinite(hi)
-        with np.errstate(invalid="ignore"):
-            fallback = np.where(both, 0.5 * (lo + hi),
-                                np.where(np.isfinite(hi), hi - 16, lo + 16))
-        u = np.where(done, u, np.where(inside, trial, fallback))
-        collapsed = both & (hi - lo <= 4 * np.finfo(float).eps * np.maximum(1, np.abs(u)))
-        if (done | collapsed).all():
-            break
+            done = np.abs(resid) <= HEAD_RTOL
+            lo = np.where(resid < 0, u, lo)
+            hi = np.where(resid > 0, u, hi)
+            if done.all():
+                break
+            slope = np.where(qsum > 0, dq / np.where(qsum > 0, qsum, 1.0), 0.5)
+            trial = u - np.clip(resid / np.maximum(slope, 0.25), -16.0, 16.0)
+            inside = (trial > lo) & (trial < hi)
+            both = np.isfinite(lo) & np.isfinite(hi)
+            fallback = np.where(both, 0.5 * (lo + hi), np.where(np.isfinite(hi), hi - 16, lo + 16))
+            u = np.where(done, u, np.where(inside, trial, fallback))
+            collapsed = both & (hi - lo <= 4 * np.finfo(float).eps * np.maximum(1, np.abs(u)))
+            if (done | collapsed).all():
+                break
     head = np.where(live, np.exp(u), 0.0) * sign
     q = q * sign[gb]
     worst = float(np.max(np.abs(np.expm1(resid)))) if resid.size else 0.0

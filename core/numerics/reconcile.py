@@ -28,13 +28,18 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
+from functools import cached_property
 from typing import Any
 
 import numpy as np
+from numpy.typing import NDArray
 
 from ..errors import InputError
 from ..model import FindFlows, Network, PressureDrop
 from .hydraulics import Array, Layout, flows_at_head, head_and_slope, subset
+from .small import SMALL_BRANCHES
+from .small.branch import Fallback
+from .small.heads import flows_at, pipes_of
 from .tolerances import Thermal, Tolerances
 from .uncertainty import SQRT3, build_plan
 
@@ -161,9 +166,31 @@ class _Model:
         self.plan = replace(plan, inputs=tuple(i for i in plan.inputs
                                                if i.kind not in ("gauge", "meter", "target")))
         self.rho_g = network.fluid.density * network.gravity
+        small = len(network.branches) <= SMALL_BRANCHES
+        self._pipes = pipes_of(network) if small else None
+        self._states: dict[float, tuple[Array, Array]] = {}
+
+    def state(self, head: float) -> tuple[Array, Array]:
+        """The flows at ``head`` and each branch's d ln h / d ln Q there, solved once per head
+        (the optimum, fit and covariance ask for the same heads); a few branches in plain
+        floats (:mod:`.small`), Colebrook started from its root at the last head."""
+        known = self._states.get(head)
+        if known is None:
+            known = self._states[head] = self._solve(head)
+        return known
+
+    def _solve(self, head: float) -> tuple[Array, Array]:
+        if self._pipes is not None:
+            try:
+                flows, _ = flows_at(self._pipes, head)
+                return np.array(flows), np.array([p.s for p in self._pipes])
+            except (Fallback, ArithmeticError, ValueError):
+                pass  # no head, or a branch beyond the small path's test: the arrays' solver
+        q = flows_at_head(self.lay, head)[0]
+        return q, head_and_slope(self.lay, q)[1]
 
     def flows(self, head: float) -> Array:
-        return flows_at_head(self.lay, head)[0]
+        return self.state(head)[0]
 
     def values(self, head: float, q: Array | None = None, rho_g: float | None = None) -> Array:
         q = self.flows(head) if q is None else q
@@ -178,9 +205,18 @@ class _Model:
         assert o.branch is not None
         return float(q[o.branch])
 
-    def slope(self, head: float, q: Array) -> Array:
+    def _many(self, o: Observation, head: float, q: Array, rho_g: Array) -> Array:
+        """Reading ``o``'s model value for every row of flows ``q`` (as :meth:`_one`)."""
+        if o.kind == "pressure_drop":
+            return np.asarray(rho_g * (head + self.net.elevation_change), dtype=float)
+        if o.kind == "total_flow":
+            return np.asarray(q.sum(axis=1), dtype=float)
+        assert o.branch is not None
+        return np.asarray(q[:, o.branch], dtype=float)
+
+    def slope(self, head: float) -> Array:
         """dg/dH for every reading: ρg for Δp, dQ/dH = Q/(H · d ln h/d ln Q) for a flow."""
-        _, s = head_and_slope(self.lay, q)
+        q, s = self.state(head)
         dq = np.where(q != 0, q / (head * s), 0.0)
         return np.array([self.rho_g if o.kind == "pressure_drop" else
                          float(dq.sum()) if o.kind == "total_flow" else float(dq[o.branch])
@@ -192,6 +228,21 @@ class _Model:
         m = len(self.obs)
         if n_in == 0:
             return np.zeros((m, m))
+        moves, moved, rho_g = self._moves
+        q = np.tile(self.flows(head), (2 * n_in, 1))
+        # Each input moves its flows a little: Newton starts from the flows at H.
+        q[moved] = flows_at_head(moves, head, np.abs(q[moved]))[0]
+        g = np.column_stack([self._many(o, head, q, rho_g) for o in self.obs])
+        sens = (g[:n_in] - g[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
+        scaled: Array = sens / SQRT3  # z uniform on [−1, 1]: u(z) = 1/√3
+        return np.asarray(scaled @ scaled.T, dtype=float)
+
+    @cached_property
+    def _moves(self) -> tuple[Layout, NDArray[np.bool_], Array]:
+        """The branches each input moves, ± δ (rows: input j + δ, then each − δ), as one layout
+        to solve, the mask of them over (rows, branches), and ρ g per row: the same at every
+        head, so made once."""
+        n_in = len(self.plan.inputs)
         z = np.zeros((2 * n_in, n_in))
         z[np.arange(n_in), np.arange(n_in)] = MODEL_STEP
         z[n_in + np.arange(n_in), np.arange(n_in)] = -MODEL_STEP
@@ -199,9 +250,7 @@ class _Model:
         tiled = v.layout(self.lay)
         # An input moves one branch's flow (the temperature moves them all): only those are
         # solved again; the rest keep their flow at H.
-        n = self.lay.n_branches
-        nominal = self.flows(head)
-        moved = np.zeros((2 * n_in, n), dtype=bool)
+        moved = np.zeros((2 * n_in, self.lay.n_branches), dtype=bool)
         for j, inp in enumerate(self.plan.inputs):
             if inp.kind == "temperature":
                 moved[[j, n_in + j], :] = True
@@ -209,14 +258,7 @@ class _Model:
                 where = (list({int(b) for b in self.lay.seg_branch[list(inp.segments)]})
                          if inp.kind != "valve Kv" else list(inp.segments))
                 moved[[j, n_in + j], where] = True  # segments hold the branch for a valve
-        q = np.tile(nominal, (2 * n_in, 1))
-        keep = moved.ravel()
-        q[moved] = flows_at_head(subset(tiled, keep), head)[0]
-        rho_g = v.density * self.net.gravity
-        g = np.array([self.values(head, q[c], float(rho_g[c])) for c in range(2 * n_in)])
-        sens = (g[:n_in] - g[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
-        scaled: Array = sens / SQRT3  # z uniform on [−1, 1]: u(z) = 1/√3
-        return np.asarray(scaled @ scaled.T, dtype=float)
+        return subset(tiled, moved.ravel()), moved, v.density * self.net.gravity
 
 
 def instrument_sigma(o: Observation, tol: Tolerances) -> float:
@@ -290,7 +332,7 @@ def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
     g = model.values(head, q)
     r = y - g
     w = np.linalg.inv(cov)
-    j = model.slope(head, q)
+    j = model.slope(head)
     info = float(j @ w @ j)
     vr = cov - np.outer(j, j) / info
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -319,7 +361,7 @@ def _optimum(model: _Model, y: Array, cov: Array, head: float) -> float:
     for _ in range(60):
         q = model.flows(head)
         r = y - model.values(head, q)
-        j = model.slope(head, q)
+        j = model.slope(head)
         step = float(j @ w @ r) / float(j @ w @ j)
         if head != 0 and abs(step) > 0.5 * abs(head):  # keep the sign: at most halve or 1.5×
             step = math.copysign(0.5 * abs(head), step)

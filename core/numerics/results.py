@@ -6,12 +6,14 @@ only for the arrays it asked for.
 
 from __future__ import annotations
 
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from functools import cached_property
 
 import numpy as np
 
 from ..model import Find, Given, Network
+from .bulk import no_collection
 
 
 @dataclass(frozen=True)
@@ -61,24 +63,40 @@ class Solved:
     target_flow: float
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class SolveWarning:
     """Something the engineer should know. ``code`` is stable for scripts.
 
     ``marked`` is the text with its quantities marked (see ``core.messages``), for a boundary
-    that states them in the user's units; ``message`` states them in SI (worked out when first
-    read: a network of thousands of fast branches has thousands of warnings).
+    that states them in the user's units; ``message`` states them in SI. Both are worked out
+    when first read (a network of thousands of fast branches has thousands of warnings): the
+    third argument may be the text or a function that writes it.
     """
 
     code: str
     branch: str | None
-    marked: str
+    text: str | Callable[[], str] = field(repr=False)
+
+    @cached_property
+    def marked(self) -> str:
+        return self.text if isinstance(self.text, str) else self.text()
 
     @cached_property
     def message(self) -> str:
         from ..messages import render
 
         return render(self.marked)
+
+    def __eq__(self, other: object) -> bool:
+        if not isinstance(other, SolveWarning):
+            return NotImplemented
+        return (self.code, self.branch, self.marked) == (other.code, other.branch, other.marked)
+
+    def __hash__(self) -> int:
+        return hash((self.code, self.branch, self.marked))
+
+    def __repr__(self) -> str:
+        return f"SolveWarning(code={self.code!r}, branch={self.branch!r}, marked={self.marked!r})"
 
 
 @dataclass(frozen=True)
@@ -89,23 +107,71 @@ class Convergence:
     """Largest relative residual of the equations solved (head balance, flow balance)."""
 
 
-@dataclass(frozen=True)
-class Arrays:
-    """The solver's per-branch and per-segment arrays (SI)."""
+Column = Sequence[float] | np.ndarray
+"""An array of :class:`Arrays`, or the plain list it is made from."""
+_ARRAY_NAMES = ("flow", "seg_branch", "velocity", "reynolds", "friction_factor", "major",
+                "minor", "valve")
 
-    flow: np.ndarray
-    seg_branch: np.ndarray
-    velocity: np.ndarray
-    reynolds: np.ndarray
-    friction_factor: np.ndarray
-    major: np.ndarray
-    minor: np.ndarray
-    valve: np.ndarray
+
+class Arrays:
+    """The solver's per-branch and per-segment arrays (SI): flow and valve per branch, the
+    others per segment (``seg_branch`` the branch of each). Each may be handed over as a plain
+    list (a small network's solve) and becomes a numpy array when first read."""
+
+    __slots__ = ("_values",)
+
+    def __init__(self, *, flow: Column, seg_branch: Column, velocity: Column, reynolds: Column,
+                 friction_factor: Column, major: Column, minor: Column, valve: Column) -> None:
+        self._values: dict[str, object] = {
+            "flow": flow, "seg_branch": seg_branch, "velocity": velocity, "reynolds": reynolds,
+            "friction_factor": friction_factor, "major": major, "minor": minor, "valve": valve}
+
+    def _get(self, name: str) -> np.ndarray:
+        value = self._values[name]
+        if not isinstance(value, np.ndarray):
+            value = np.array(value, dtype=np.intp if name == "seg_branch" else float)
+            self._values[name] = value
+        return value
+
+    def __repr__(self) -> str:
+        return "Arrays(" + ", ".join(f"{k}={self._get(k)!r}" for k in _ARRAY_NAMES) + ")"
+
+    @property
+    def flow(self) -> np.ndarray:
+        return self._get("flow")
+
+    @property
+    def seg_branch(self) -> np.ndarray:
+        return self._get("seg_branch")
+
+    @property
+    def velocity(self) -> np.ndarray:
+        return self._get("velocity")
+
+    @property
+    def reynolds(self) -> np.ndarray:
+        return self._get("reynolds")
+
+    @property
+    def friction_factor(self) -> np.ndarray:
+        return self._get("friction_factor")
+
+    @property
+    def major(self) -> np.ndarray:
+        return self._get("major")
+
+    @property
+    def minor(self) -> np.ndarray:
+        return self._get("minor")
+
+    @property
+    def valve(self) -> np.ndarray:
+        return self._get("valve")
 
 
 @dataclass(frozen=True)
 class Result:
-    """A solved network.
+    """A solved network (its warnings, and each warning's text, are written when first read).
 
     network: the network as solved (with a found diameter, length or roughness put in);
     pressure_drop: p_in − p_out, Pa; driving_head: pressure head less the lift, m;
@@ -121,9 +187,16 @@ class Result:
     total_flow: float
     arrays: Arrays
     solved: Solved | None
-    warnings: tuple[SolveWarning, ...]
+    warning_source: Callable[[], Sequence[SolveWarning]] = field(repr=False, compare=False)
+    """Writes the warnings from the solve's codes and values (``checks``), when first read."""
     convergence: Convergence
     notes: tuple[str, ...] = field(default=())
+
+    @cached_property
+    def warnings(self) -> tuple[SolveWarning, ...]:
+        """What the engineer should know of this answer, in a stable order (``checks``)."""
+        with no_collection():
+            return tuple(self.warning_source())
 
     @property
     def head_loss(self) -> float:
@@ -135,6 +208,10 @@ class Result:
 
     @cached_property
     def branches(self) -> tuple[BranchResult, ...]:
+        with no_collection():
+            return self._branches()
+
+    def _branches(self) -> tuple[BranchResult, ...]:
         a = self.arrays
         from .friction import regime
 

@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import replace
+from functools import partial
 
 import numpy as np
 
@@ -37,11 +38,12 @@ from ..model import (
     at_most,
     finite,
 )
-from . import friction, unknowns
-from .checks import collect_warnings
+from . import unknowns
+from .checks import MAX_VELOCITY, collect_warnings
 from .hydraulics import Layout, RootInfo, branch_head, flows_at_head, head_for_total_flow
 from .hydraulics import segment_state as _segment_state
 from .results import Arrays, Convergence, Result, Solved
+from .small import SMALL_BRANCHES, try_solve
 
 
 def solve(network: Network, given: Given, find: Find | None = None) -> Result:
@@ -52,8 +54,15 @@ def solve(network: Network, given: Given, find: Find | None = None) -> Result:
     _check_given(network, given)
     infos: list[RootInfo] = []
     solved: Solved | None = None
+    target_index = None
     if isinstance(find, FindUnknown):
         target_index = _check_find(network, given, find)
+    if len(network.branches) <= SMALL_BRANCHES:
+        fast = try_solve(network, given, find, target_index)
+        if fast is not None:
+            return fast
+    if isinstance(find, FindUnknown):
+        assert target_index is not None
         head = _head_for_unknown(network, given, find, target_index, infos)
         network, solved, info = unknowns.find(network, find, target_index, head, given)
         infos.append(info)
@@ -101,7 +110,12 @@ def _check_resistance(network: Network) -> None:
     """A branch with nothing in it (no length, no fittings, no valve) cannot carry a finite
     flow at any head: refused by name rather than solved to zero or to an overflow."""
     for i, br in enumerate(network.branches):
-        if br.valve_kv is None and all(s.length == 0 and s.minor_k == 0 for s in br.segments):
+        if br.valve_kv is not None:
+            continue
+        for s in br.segments:
+            if s.length != 0 or s.minor_k != 0:
+                break
+        else:
             raise InputError(
                 f"branches[{i}].length", "0",
                 "this branch has no resistance (no length, no fittings, no valve), so no flow "
@@ -204,11 +218,6 @@ def _head_for_unknown(
 
 # ---- the result ------------------------------------------------------------------------------
 
-MAX_VELOCITY = 300.0
-"""m/s. A liquid is treated as incompressible, which holds well below its speed of sound (about
-1500 m/s in water); no liquid line runs anywhere near this (common practice: 1–3 m/s)."""
-
-
 UNSETTLED = 1e-6
 """A relative residual above which an answer that did not converge is refused, not warned of."""
 
@@ -216,22 +225,30 @@ UNSETTLED = 1e-6
 def _check_bounds(network: Network, lay: Layout, head: float, flows: np.ndarray,
                   velocity: np.ndarray, losses: np.ndarray) -> None:
     """The last check on every answer: no inf or NaN and no flow beyond the physical bounds
-    reaches an output; the branch that breaks them is named."""
-    bad_head = not math.isfinite(head)
-    for b in range(len(network.branches)):
-        segs = lay.seg_branch == b
-        q = float(flows[b])
-        fast = float(np.max(np.abs(velocity[segs]), initial=0.0))
-        finite_all = math.isfinite(q) and bool(np.all(np.isfinite(velocity[segs]))) and bool(
-            np.all(np.isfinite(losses[segs])))
-        if bad_head or not finite_all or abs(q) > MAX_FLOW or fast > MAX_VELOCITY:
-            shown = (f"run at {velocity_text(fast)} ({flow_text(q)})"
-                     if finite_all and not bad_head else "carry no finite flow")
-            raise NoSolutionError(
-                f"this branch would {shown}: beyond what a liquid line can carry (incompressible "
-                f"flow holds well below {velocity_text(MAX_VELOCITY)}); check its length, "
-                "fittings and valve, and the given condition",
-                f"branches[{b}].length")
+    reaches an output; the first branch that breaks them is named."""
+    if math.isfinite(head):
+        with np.errstate(invalid="ignore"):
+            bad_seg = ~(np.isfinite(velocity) & np.isfinite(losses)) | (
+                np.abs(velocity) > MAX_VELOCITY)
+            bad = ~np.isfinite(flows) | (np.abs(flows) > MAX_FLOW)
+        bad[lay.seg_branch[bad_seg]] = True
+        if not bad.any():
+            return
+        b = int(np.argmax(bad))
+    else:
+        b = 0
+    segs = lay.seg_branch == b
+    q = float(flows[b])
+    fast = float(np.max(np.abs(velocity[segs]), initial=0.0))
+    finite_all = math.isfinite(q) and bool(np.all(np.isfinite(velocity[segs]))) and bool(
+        np.all(np.isfinite(losses[segs])))
+    shown = (f"run at {velocity_text(fast)} ({flow_text(q)})"
+             if finite_all and math.isfinite(head) else "carry no finite flow")
+    raise NoSolutionError(
+        f"this branch would {shown}: beyond what a liquid line can carry (incompressible "
+        f"flow holds well below {velocity_text(MAX_VELOCITY)}); check its length, "
+        "fittings and valve, and the given condition",
+        f"branches[{b}].length")
 
 
 def _result(
@@ -255,10 +272,9 @@ def _result(
             f"the solve did not settle (relative residual {conv.residual:.2g}): the inputs are "
             "beyond what it can resolve; check for a branch with almost no resistance",
             "conditions")
-    warnings = collect_warnings(network, arrays, friction.regime(st.reynolds), conv)
     return Result(
         network=network, given=given, find=find,
         pressure_drop=pressure_drop_for(network, head), driving_head=head,
         total_flow=float(flows.sum()), arrays=arrays, solved=solved,
-        warnings=tuple(warnings), convergence=conv,
+        warning_source=partial(collect_warnings, network, arrays, conv), convergence=conv,
     )

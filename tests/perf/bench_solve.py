@@ -1,31 +1,63 @@
-"""Benchmark of the parallel solve (a script, not a test): prints figures, asserts nothing.
+"""Benchmark of a small solve (a script, not a test): prints ratios, asserts nothing.
 
-    python tests/perf/bench_solve.py
+    python tests/perf/bench_solve.py [--rounds N]
 
-1. A 10-branch network solved for the flows at a given Δp: branchwise's vectorised solve against
-   the scalar per-branch method one would write by hand (scipy.optimize.brentq on each branch's
-   flow, with a scalar Colebrook solved by fixed-point iteration inside) — same process, ratio.
-2. Scaling: 100 / 1k / 10k / 100k branches (two segments every fifth branch), timed both for the
-   core solve on prepared arrays (Layout → flows_at_head) and for the whole ``solve()`` call
-   (building the network objects, warnings and result arrays included).
+Every figure is a ratio of CPU-time medians, the functions compared run in turn in the same
+process (``baseline.interleaved``), so that load on the machine falls on all alike; each turn is
+10 consecutive calls of one function in part 1 and 20 in part 2 (a single call right after the
+others have run pays for their use of the caches: about 1.4× a solve's time, not the by-hand
+methods').
+
+1. Ten branches (two segments every fifth branch), flows at a given Δp: the whole ``solve()``
+   against the method one would write by hand — scipy's brentq on each branch's flow with a
+   scalar friction factor inside each step: (a) ``fluids.friction.Colebrook``, (b) Colebrook
+   itself solved by a nested brentq on f, (c) Colebrook by fixed-point iteration.
+2. The same network in every direction against the core of the tree before the speed work
+   (``baseline.BASELINE_REV``, loaded beside today's in this process).
+3. Agreement: today's answers against the baseline's and the by-hand flows.
 """
 
 from __future__ import annotations
 
+import argparse
 import math
-import os
-import platform
 import sys
-import time
+from collections.abc import Callable
+from pathlib import Path
 
 import numpy as np
 
-from branchwise.core.model import Branch, Fluid, Network, PressureDrop, Segment
-from branchwise.core.numerics.hydraulics import Layout, flows_at_head
-from branchwise.core.numerics.solve import solve
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from baseline import (  # noqa: E402
+    BASELINE_REV,
+    convert,
+    interleaved,
+    load_core,
+    machine,
+    module,
+    ratio_line,
+)
+
+from branchwise.core.model import (  # noqa: E402
+    Branch,
+    Find,
+    FindFlows,
+    FindUnknown,
+    Fluid,
+    Given,
+    MeasuredFlow,
+    Network,
+    PressureDrop,
+    Segment,
+    TotalFlow,
+)
+from branchwise.core.numerics.solve import solve  # noqa: E402
 
 G = 9.80665
 WATER = Fluid("water 20 °C", 998.2, 1.0016e-3, "water")
+"""Water near 20 °C (ρ 998.2 kg/m³, μ 1.0016 mPa·s: IAPWS values, see the field notes)."""
+DP = 68e3
 
 
 def make_network(n: int, seed: int = 1) -> Network:
@@ -40,7 +72,9 @@ def make_network(n: int, seed: int = 1) -> Network:
     return Network(WATER, tuple(branches))
 
 
-def scalar_colebrook(re: float, rr: float) -> float:
+# ---- the method written by hand ----------------------------------------------------------------
+
+def fixed_point_colebrook(re: float, rr: float) -> float:
     x = 8.0
     for _ in range(100):
         new = -2 * math.log10(rr / 3.7 + 2.51 * x / re)
@@ -57,16 +91,18 @@ def nested_colebrook(re: float, rr: float) -> float:
     def residual(f: float) -> float:
         return 1 / math.sqrt(f) + 2 * math.log10(rr / 3.7 + 2.51 / (re * math.sqrt(f)))
 
-    return brentq(residual, 1e-4, 1.0, xtol=1e-15)
+    return float(brentq(residual, 1e-4, 1.0, xtol=1e-15))
 
 
 def fluids_colebrook(re: float, rr: float) -> float:
     import fluids.friction
 
-    return fluids.friction.Colebrook(re, rr)
+    return float(fluids.friction.Colebrook(re, rr))
 
 
-def scalar_flows(net: Network, head: float, colebrook=scalar_colebrook) -> list[float]:
+def by_hand(net: Network, head: float,
+            colebrook: Callable[[float, float], float] = fluids_colebrook) -> list[float]:
+    """Each branch's flow at ``head`` by brentq, Darcy–Weisbach with the fittings' K."""
     from scipy.optimize import brentq
 
     nu = net.fluid.kinematic_viscosity
@@ -81,54 +117,79 @@ def scalar_flows(net: Network, head: float, colebrook=scalar_colebrook) -> list[
             h += (f * s.length / s.diameter + s.minor_k) * v * v / (2 * G)
         return h
 
-    return [brentq(lambda q, b=b: h_of(b, q) - head, 1e-9, 50.0, xtol=1e-15) for b in net.branches]
+    return [float(brentq(lambda q, b=b: h_of(b, q) - head, 1e-9, 50.0, xtol=1e-15))
+            for b in net.branches]
 
 
-def best_of(fn, repeat: int) -> float:
-    best = math.inf
-    for _ in range(repeat):
-        t0 = time.perf_counter()
-        fn()
-        best = min(best, time.perf_counter() - t0)
-    return best
+# ---- the cases ---------------------------------------------------------------------------------
+
+def cases(net: Network) -> dict[str, tuple[Given, Find]]:
+    """Every direction on ``net``: the targets from the flows at Δp."""
+    flows = solve(net, PressureDrop(DP)).flows
+    third = net.branches[3].name
+    target = float(flows[3]) * 1.2
+    return {
+        "flows at a given Δp": (PressureDrop(DP), FindFlows()),
+        "total flow given": (TotalFlow(float(flows.sum())), FindFlows()),
+        "a branch reading given": (MeasuredFlow(net.branches[1].name, float(flows[1])),
+                                   FindFlows()),
+        "diameter found": (PressureDrop(DP), FindUnknown("diameter", third, target)),
+        "length found": (PressureDrop(DP), FindUnknown("length", third, target)),
+        "roughness found": (PressureDrop(DP),
+                            FindUnknown("roughness", third, float(flows[3]) * 0.9)),
+    }
+
+
+GOALS = {"total flow given": 10.0, "diameter found": 10.0}
+"""Issue 15: ≥ 10× faster than the tree before the speed work."""
 
 
 def main() -> None:
-    print(f"machine: {platform.machine()}, {os.cpu_count()} cores, Python "
-          f"{platform.python_version()}, numpy {np.__version__}")
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--rounds", type=int, default=15)
+    args = parser.parse_args()
+    print(machine())
     net = make_network(10)
-    dp = 68e3
-    head = dp / (WATER.density * G)
-    solve(net, PressureDrop(dp))  # warm-up (imports)
-    scalar_flows(net, head)
-    print("\nflows at a given pressure drop: scalar per-branch method vs branchwise solve()")
-    print("  scalar Colebrook inside each brentq step: (a) brentq on f, (b) fluids.Colebrook,")
-    print("  (c) fixed-point iteration; ratio = scalar time / branchwise solve() time")
-    print(f"  {'branches':>8} {'(a) ms':>9} {'(b) ms':>9} {'(c) ms':>9} {'solve() ms':>11} "
-          f"{'ratio a':>8} {'ratio b':>8} {'ratio c':>8}  agreement")
-    for n in (10, 100, 1000):
-        small = make_network(n)
-        reps = 5 if n < 1000 else 1
-        t_vec = best_of(lambda s=small: solve(s, PressureDrop(dp)), 30 if n < 1000 else 5)
-        t_nb = best_of(lambda s=small: scalar_flows(s, head, nested_colebrook), reps)
-        t_fl = best_of(lambda s=small: scalar_flows(s, head, fluids_colebrook), reps)
-        t_fp = best_of(lambda s=small: scalar_flows(s, head), reps)
-        ours = solve(small, PressureDrop(dp)).flows
-        ref = scalar_flows(small, head, fluids_colebrook)
-        agree = max(abs(a / b - 1) for a, b in zip(ours, ref, strict=True))
-        print(f"  {n:>8} {t_nb * 1e3:9.2f} {t_fl * 1e3:9.2f} {t_fp * 1e3:9.2f} "
-              f"{t_vec * 1e3:11.2f} {t_nb / t_vec:7.1f}x {t_fl / t_vec:7.1f}x "
-              f"{t_fp / t_vec:7.1f}x  {agree:.1e}")
-    print("\nscaling (best of several runs)")
-    print(f"  {'branches':>9} {'core ms':>9} {'per 1k':>8} {'solve() ms':>11} {'per 1k':>8}")
-    for n in (100, 1_000, 10_000, 100_000):
-        big = make_network(n)
-        lay = Layout.from_network(big)
-        repeat = 20 if n <= 10_000 else 3
-        t_core = best_of(lambda lay=lay: flows_at_head(lay, head), repeat)
-        t_full = best_of(lambda big=big: solve(big, PressureDrop(dp)), max(2, repeat // 4))
-        print(f"  {n:>9} {t_core * 1e3:9.2f} {t_core * 1e6 / n:8.1f} {t_full * 1e3:11.2f} "
-              f"{t_full * 1e6 / n:8.1f}")
+    head = DP / (WATER.density * G)
+
+    print("\n1. ten branches, flows at a given Δp: by hand / branchwise solve()")
+    times = interleaved({
+        "solve": lambda: solve(net, PressureDrop(DP)),
+        "fluids": lambda: by_hand(net, head, fluids_colebrook),
+        "nested": lambda: by_hand(net, head, nested_colebrook),
+        "fixed": lambda: by_hand(net, head, fixed_point_colebrook),
+    }, rounds=args.rounds, number=10)
+    print(ratio_line("(a) brentq per branch, fluids.Colebrook", times["fluids"], times["solve"],
+                     20))
+    print(ratio_line("(b) brentq per branch, Colebrook by nested brentq", times["nested"],
+                     times["solve"], 100))
+    print(ratio_line("(c) brentq per branch, Colebrook by fixed point", times["fixed"],
+                     times["solve"]))
+
+    base = load_core()
+    base_solve = module(base, "numerics.solve").solve
+    base_net = convert(base, net)
+    print(f"\n2. ten branches, whole solve(): the tree at {BASELINE_REV} / today's")
+    worst = 0.0
+    for label, (given, find) in cases(net).items():
+        b_given, b_find = convert(base, given), convert(base, find)
+        t = interleaved({
+            "today": lambda g=given, f=find: solve(net, g, f),
+            "base": lambda g=b_given, f=b_find: base_solve(base_net, g, f),
+        }, rounds=args.rounds, number=20)
+        print(ratio_line(label, t["base"], t["today"], GOALS.get(label)))
+        ours, theirs = solve(net, given, find), base_solve(base_net, b_given, b_find)
+        worst = max(worst, float(np.max(np.abs(ours.flows / theirs.flows - 1))))
+        if ours.solved is not None:
+            worst = max(worst, abs(ours.solved.value / theirs.solved.value - 1))
+        if [w.message for w in ours.warnings] != [w.message for w in theirs.warnings]:
+            print(f"    the warnings differ from {BASELINE_REV}'s")
+
+    ref = by_hand(net, head, fluids_colebrook)
+    flows = solve(net, PressureDrop(DP)).flows
+    agree = max(abs(a / b - 1) for a, b in zip(flows, ref, strict=True))
+    print(f"\n3. agreement: with {BASELINE_REV}, worst relative difference {worst:.1e} (flows "
+          f"and found values, warnings word for word); with the flows by hand (a) {agree:.1e}")
 
 
 if __name__ == "__main__":

@@ -1,0 +1,252 @@
+"""One branch in plain floats: its head loss h(Q) and d ln h / d ln Q, and its flow at a head.
+
+The equations are those of :mod:`branchwise.core.numerics.hydraulics` (Darcy–Weisbach with the
+minor losses and the valve, the same friction models and regimes), for one branch at a time:
+
+* one segment under Colebrook in turbulent flow — the valve folded into the fittings' K, since
+  r_valve Q² = (2 g r_valve A²) V²/2g — is one equation in x = 1/√f: with
+  V² = 2 g H / (L/(D x²) + K), Colebrook reads x = −2 log10(ε/3.7D + C √(L/D + K x²)) with
+  C = 2.51 ν / (D √(2 g H)): explicit when K = 0, a few Newton steps otherwise;
+* anything else (series segments, other models, laminar or transition flow): Newton on ln h
+  against ln Q inside a bracket, as the vectorised solver does, from the same kind of start.
+
+Either way the flow is accepted on the same test as the vectorised solver's,
+|ln h(Q) − ln H| ≤ ``HEAD_RTOL``; when that is not reached the caller falls back.
+"""
+
+from __future__ import annotations
+
+import math
+
+from ...model import Branch
+from ..friction import RE_TURBULENT
+from ..hydraulics import HEAD_RTOL, MAX_ITER, VALVE_HEAD_FACTOR
+from . import friction as fr
+
+LN10 = fr.LN10
+_log = math.log
+_exp = math.exp
+_sqrt = math.sqrt
+_log10 = math.log10
+
+
+class Fallback(Exception):
+    """This network (or this case of it) is left to the vectorised path."""
+
+
+class Pipe:
+    """One branch's constants (SI) and the state of its last evaluation.
+
+    After :meth:`evaluate` at |Q| = q: ``h`` (m), ``s`` = d ln h / d ln Q, and per segment
+    ``re``, ``f``, ``fs`` (d ln f / d ln Re), ``major`` and ``minor`` (m, for the flow's
+    magnitude)."""
+
+    re: list[float]
+    f: list[float]
+    fs: list[float]
+    major: list[float]
+    minor: list[float]
+
+    __slots__ = ("d", "length", "rr", "k", "area", "c", "eps", "valve_r", "nu", "g", "model",
+                 "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs")
+
+    def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
+        segs = br.segments
+        if len(segs) == 1:
+            s = segs[0]
+            dj = s.diameter
+            self.d, self.length, self.eps, self.k = [dj], [s.length], [s.roughness], [s.minor_k]
+            self.rr, self.area = [s.roughness / dj], [math.pi * dj**2 / 4]
+            self.c = [s.hw_c if s.hw_c is not None else math.nan]
+        else:
+            self.d = [s.diameter for s in segs]
+            self.length = [s.length for s in segs]
+            self.eps = [s.roughness for s in segs]
+            self.k = [s.minor_k for s in segs]
+            self.rr = [s.roughness / s.diameter for s in segs]
+            self.area = [math.pi * s.diameter**2 / 4 for s in segs]
+            self.c = [s.hw_c if s.hw_c is not None else math.nan for s in segs]
+        kv = br.valve_kv
+        self.valve_r = VALVE_HEAD_FACTOR / (kv**2 * g) if kv is not None else 0.0
+        self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
+        self.h = self.s = self.q = math.nan
+        self.x = 0.0
+        self.xs = [0.0] * len(segs)
+
+    def set_segment(self, j: int, diameter: float, length: float, roughness: float) -> None:
+        """Change segment ``j`` (m): an unknown being sought."""
+        self.d[j], self.length[j], self.eps[j] = diameter, length, roughness
+        self.rr[j] = roughness / diameter
+        self.area[j] = math.pi * diameter**2 / 4
+
+    def friction(self, j: int, re: float) -> tuple[float, float]:
+        if self.model == "hazen-williams":
+            return fr.hazen_williams(re, self.rr[j], self.d[j], self.c[j], self.nu, self.g)
+        return fr.darcy(re, self.rr[j], self.model)
+
+    def evaluate(self, q: float) -> float:
+        """h at |Q| = q > 0 (m); fills the state."""
+        two_g = 2 * self.g
+        colebrook = self.model == "colebrook"
+        nu = self.nu
+        area, dia, length, k = self.area, self.d, self.length, self.k
+        re_l: list[float] = []
+        f_l: list[float] = []
+        fs_l: list[float] = []
+        ma_l: list[float] = []
+        mi_l: list[float] = []
+        h = dh = 0.0
+        for j in range(self.n):
+            d = dia[j]
+            v = q / area[j]
+            re = v * d / nu
+            if colebrook and re >= RE_TURBULENT:
+                f, fs = self._colebrook(j, re)
+            else:
+                f, fs = self.friction(j, re)
+            vel_head = v * v / two_g
+            major = f * length[j] / d * vel_head
+            minor = k[j] * vel_head
+            h += major + minor
+            dh += major * (2 + fs) + 2 * minor
+            re_l.append(re)
+            f_l.append(f)
+            fs_l.append(fs)
+            ma_l.append(major)
+            mi_l.append(minor)
+        valve = self.valve_r * q * q
+        h += valve
+        dh += 2 * valve
+        self.re, self.f, self.fs, self.major, self.minor = re_l, f_l, fs_l, ma_l, mi_l
+        self.q, self.h = q, h
+        self.s = dh / h if h != 0 else 2.0
+        return h
+
+    def _colebrook(self, j: int, re: float) -> tuple[float, float]:
+        """Colebrook's f and d ln f / d ln Re, Newton started from this segment's last root
+        (a nearby flow's) and run until the next step would be below round-off."""
+        x = self.xs[j]
+        a = self.rr[j] / 3.7
+        c = 2.51 / re
+        if x > 0:
+            for _ in range(50):
+                arg = a + c * x
+                step = (x + 2.0 * _log10(arg)) / (1.0 + 2.0 * c / (LN10 * arg))
+                x -= step
+                if abs(step) <= 1e-8 * x:  # the next step would be below round-off
+                    break
+        else:
+            x = fr.colebrook_x(re, self.rr[j])
+        self.xs[j] = x
+        arg = a + c * x
+        dg_dx = 1.0 + 2.0 * c / (LN10 * arg)
+        return x**-2.0, -4.0 * c / (LN10 * arg) / dg_dx
+
+    # ---- the flow at a head ------------------------------------------------------------------
+
+    def flow_at(self, head: float, guess: float = 0.0) -> int:
+        """Set the state to the flow at driving head ``head`` > 0 (m); returns the iterations.
+        ``guess``: a starting |Q| (m³/s), 0 for none. Raises :class:`Fallback` when the test
+        of the vectorised solver is not met."""
+        if self.n == 1 and self.model == "colebrook":
+            it = self._colebrook_one(head)
+            if it:
+                return it
+        return self._newton(head, guess)
+
+    def _colebrook_one(self, head: float) -> int:
+        """Colebrook with the valve and fittings folded in, as one equation in x = 1/√f;
+        0 when the flow is not turbulent (the general solver takes it)."""
+        d, length, nu, g = self.d[0], self.length[0], self.nu, self.g
+        area = self.area[0]
+        a = self.rr[0] / 3.7
+        ld = length / d
+        ke = self.k[0] + 2 * g * self.valve_r * area * area
+        c0 = 2.51 * nu / (d * _sqrt(2 * g * head))
+        it = 1
+        if ke == 0:
+            x = -2.0 * _log10(a + c0 * _sqrt(ld))
+        else:
+            # One fixed-point pass from the last root (or from f = 0.02: x ≈ 7), then Newton;
+            # Newton's error squares each step (|g''| x/2g' ≤ ½ here), so a step below 1e-8 x
+            # leaves the root to round-off.
+            x = self.x if self.x > 0 else 7.0
+            x = -2.0 * _log10(a + c0 * _sqrt(ld + ke * x * x))
+            for it in range(1, 40):  # noqa: B007 (the count is reported)
+                root = _sqrt(ld + ke * x * x)
+                arg = a + c0 * root
+                step = (x + 2.0 * _log10(arg)) / (1.0 + 2.0 * c0 * ke * x / (LN10 * arg * root))
+                x -= step
+                if abs(step) <= 1e-8 * x:
+                    break
+        speed = _sqrt(2 * g * head / (ld / (x * x) + ke))
+        re = speed * d / nu
+        if not (re >= RE_TURBULENT and x > 0):
+            return 0
+        self.x = x
+        q = speed * area
+        f = x**-2.0
+        c = 2.51 / re  # d ln f / d ln Re at the root, as friction.colebrook_slopes
+        arg = a + c * x
+        fs = -2.0 * (2.0 * c * x / (LN10 * arg) / (1.0 + 2.0 * c / (LN10 * arg))) / x
+        vel_head = speed * speed / (2 * g)
+        major = f * length / d * vel_head
+        minor = self.k[0] * vel_head
+        valve = self.valve_r * q * q
+        h = major + minor + valve
+        if abs(_log(h) - _log(head)) > HEAD_RTOL:
+            return 0
+        self.re, self.f, self.fs, self.major, self.minor = [re], [f], [fs], [major], [minor]
+        self.q, self.h = q, h
+        self.s = (major * (2 + fs) + 2 * minor + 2 * valve) / h
+        return it
+
+    def _start(self, head: float) -> float:
+        """Two fixed-point passes from f = 0.02, as the vectorised solver starts."""
+        g, n, nu = self.g, self.n, self.nu
+        area, d, length, k, rr = self.area, self.d, self.length, self.k, self.rr
+        f = [0.02] * n
+        q = math.nan
+        for last in (False, True):
+            r = 0.0
+            for j in range(n):
+                a = area[j]
+                r += (f[j] * length[j] / d[j] + k[j]) / (2 * g * a * a)
+            r += self.valve_r
+            q = _sqrt(head / r)
+            if last:
+                break
+            for j in range(n):
+                re = max(q / area[j] * d[j] / nu, 1e-300)
+                f[j] = max(64 / re, fr.swamee_jain(max(re, 1.0), rr[j])[0])
+        return q if math.isfinite(q) and q > 0 else 1e-6
+
+    def _newton(self, head: float, guess: float) -> int:
+        """Safeguarded Newton on ln h against ln Q (the vectorised ``flows_at_head``)."""
+        x = _log(guess if guess > 0 and math.isfinite(guess) else self._start(head))
+        ln_t = _log(head)
+        lo, hi = -math.inf, math.inf
+        eps4 = 4 * 2.220446049250313e-16
+        for it in range(1, MAX_ITER + 1):
+            h = self.evaluate(_exp(x))
+            resid = _log(h) - ln_t if h > 0 else -math.inf
+            if abs(resid) <= HEAD_RTOL:
+                return it
+            if resid < 0:
+                lo = x
+            elif resid > 0:
+                hi = x
+            s = self.s
+            step = resid / (s if s > 0 else 1.0)
+            step = min(max(step, -8.0), 8.0)
+            trial = x - step
+            if lo < trial < hi:
+                x = trial
+            elif math.isfinite(lo) and math.isfinite(hi):
+                x = 0.5 * (lo + hi)
+            else:
+                x = hi - 8 if math.isfinite(hi) else lo + 8
+            if hi - lo <= eps4 * max(1.0, abs(x)):
+                break
+        raise Fallback("no flow to the vectorised test")
+

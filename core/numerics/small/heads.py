@@ -1,0 +1,88 @@
+"""The branches of a small network together: every flow at a head, and the head of a total flow.
+
+The same equations and tests as :func:`..hydraulics.flows_at_head` and
+:func:`..hydraulics.head_for_total_flow`, in plain floats: Newton on ln ΣQ against ln H with
+d ln ΣQ / d ln H = Σ (Qᵢ/sᵢ) / ΣQ (sᵢ = d ln hᵢ / d ln Qᵢ), inside a bracket, each branch
+started from its last flow moved along its own slope.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+from ...model import Network
+from ..hydraulics import HEAD_RTOL, MAX_ITER
+from .branch import Fallback, Pipe
+
+_log = math.log
+_exp = math.exp
+
+
+def pipes_of(network: Network) -> list[Pipe]:
+    nu = network.fluid.kinematic_viscosity
+    g, model = network.gravity, network.friction
+    return [Pipe(b, nu, g, model) for b in network.branches]
+
+
+def flows_at(pipes: Sequence[Pipe], head: float) -> tuple[list[float], int]:
+    """Every branch's signed flow at driving head ``head`` (m, not 0), and the iterations."""
+    if not (head != 0 and math.isfinite(head)):
+        raise Fallback("no head")
+    sign = 1.0 if head > 0 else -1.0
+    t = abs(head)
+    iterations = 0
+    for p in pipes:
+        iterations = max(iterations, p.flow_at(t))
+    return [sign * p.q for p in pipes], iterations
+
+
+def head_for_total(pipes: Sequence[Pipe], total: float) -> tuple[float, int, float]:
+    """The head (m, signed) at which the flows add up to ``total`` (m³/s, not 0), the
+    iterations and the relative residual; the pipes hold the flows (magnitudes) at it."""
+    if not (total != 0 and math.isfinite(total)):
+        raise Fallback("no total flow")
+    sign = 1.0 if total > 0 else -1.0
+    target = abs(total)
+    # The start: each branch's loss taken as r Q² with r read at an equal share, the head at
+    # which those would carry the total (exact but for the change of f with the flow).
+    share = target / len(pipes)
+    conductance = 0.0
+    for p in pipes:
+        conductance += share / math.sqrt(abs(p.evaluate(share)))
+    u = 2 * _log(target / conductance)
+    ln_target = _log(target)
+    lo, hi = -math.inf, math.inf
+    eps4 = 4 * 2.220446049250313e-16
+    resid = math.inf
+    last_ln_h = math.nan
+    first = True
+    for iters in range(1, MAX_ITER + 1):
+        ln_h = u
+        head = _exp(u)
+        qsum = dq = 0.0
+        for p in pipes:
+            guess = 0.0 if first else p.q * _exp((ln_h - last_ln_h) / p.s)
+            p.flow_at(head, guess)
+            qsum += p.q
+            dq += p.q / p.s
+        first = False
+        last_ln_h = ln_h
+        resid = _log(qsum) - ln_target
+        if abs(resid) <= HEAD_RTOL:
+            return sign * head, iters, abs(math.expm1(resid))
+        if resid < 0:
+            lo = u
+        elif resid > 0:
+            hi = u
+        slope = dq / qsum if qsum > 0 else 0.5
+        trial = u - min(max(resid / max(slope, 0.25), -16.0), 16.0)
+        if lo < trial < hi:
+            u = trial
+        elif math.isfinite(lo) and math.isfinite(hi):
+            u = 0.5 * (lo + hi)
+        else:
+            u = hi - 16 if math.isfinite(hi) else lo + 16
+        if math.isfinite(lo) and math.isfinite(hi) and hi - lo <= eps4 * max(1.0, abs(u)):
+            break
+    raise Fallback("the total flow was not met to the vectorised test")
