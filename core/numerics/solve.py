@@ -223,9 +223,11 @@ UNSETTLED = 1e-6
 
 
 def _check_bounds(network: Network, lay: Layout, head: float, flows: np.ndarray,
-                  velocity: np.ndarray, losses: np.ndarray) -> None:
+                  velocity: np.ndarray, losses: np.ndarray, given: Given | None = None) -> None:
     """The last check on every answer: no inf or NaN and no flow beyond the physical bounds
-    reaches an output; the first branch that breaks them is named."""
+    reaches an output. When every branch of several breaks them, the given reading is named
+    (a pressure drop typed in the wrong unit makes every line too fast); else the first
+    branch that breaks them."""
     if math.isfinite(head):
         with np.errstate(invalid="ignore"):
             bad_seg = ~(np.isfinite(velocity) & np.isfinite(losses)) | (
@@ -235,8 +237,9 @@ def _check_bounds(network: Network, lay: Layout, head: float, flows: np.ndarray,
         if not bad.any():
             return
         b = int(np.argmax(bad))
+        everywhere = bool(bad.all()) and len(network.branches) > 1
     else:
-        b = 0
+        b, everywhere = 0, len(network.branches) > 1
     segs = lay.seg_branch == b
     q = float(flows[b])
     fast = float(np.max(np.abs(velocity[segs]), initial=0.0))
@@ -244,11 +247,27 @@ def _check_bounds(network: Network, lay: Layout, head: float, flows: np.ndarray,
         np.all(np.isfinite(losses[segs])))
     shown = (f"run at {velocity_text(fast)} ({flow_text(q)})"
              if finite_all and math.isfinite(head) else "carry no finite flow")
+    limit = (f"beyond what a liquid line can carry (incompressible flow holds well below "
+             f"{velocity_text(MAX_VELOCITY)})")
+    reading = _given_field(network, given) if everywhere else None
+    if reading is not None:
+        raise NoSolutionError(
+            f"every branch would be beyond its bounds ('{network.branches[b].name}' would "
+            f"{shown}): {limit}; check this reading's value and unit", reading)
     raise NoSolutionError(
-        f"this branch would {shown}: beyond what a liquid line can carry (incompressible "
-        f"flow holds well below {velocity_text(MAX_VELOCITY)}); check its length, "
-        "fittings and valve, and the given condition",
-        f"branches[{b}].length")
+        f"this branch would {shown}: {limit}; check its length, fittings and valve, and the "
+        "given condition", f"branches[{b}].length")
+
+
+def _given_field(network: Network, given: Given | None) -> str | None:
+    """The field of the reading that fixes the head (None when no reading does)."""
+    if isinstance(given, PressureDrop):
+        return "conditions.pressure_drop"
+    if isinstance(given, TotalFlow):
+        return "conditions.total_flow"
+    if isinstance(given, MeasuredFlow):
+        return f"branches[{network.index_of(given.branch)}].measured_flow"
+    return None
 
 
 def _result(
@@ -257,7 +276,7 @@ def _result(
 ) -> Result:
     st = _segment_state(lay, flows)
     valve = lay.valve_r * flows * np.abs(flows)
-    _check_bounds(network, lay, head, flows, st.velocity, st.major + st.minor)
+    _check_bounds(network, lay, head, flows, st.velocity, st.major + st.minor, given)
     arrays = Arrays(
         flow=flows, seg_branch=lay.seg_branch, velocity=st.velocity, reynolds=st.reynolds,
         friction_factor=st.friction_factor, major=st.major, minor=st.minor, valve=valve,

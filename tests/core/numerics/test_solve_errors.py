@@ -187,3 +187,27 @@ def test_a_flow_beyond_any_pipe_is_refused_before_it_overflows(given):
     with pytest.raises(InputError) as caught:
         solve(two(), given)
     assert "beyond any pipe flow" in caught.value.reason
+
+
+def test_every_branch_too_fast_names_the_given_reading():
+    """1e12 Pa (a pressure drop typed in the wrong unit) sends every branch past 300 m/s:
+    the field blamed is the reading, not the first branch's length."""
+    with pytest.raises(NoSolutionError) as err:
+        solve(two(), PressureDrop(1e12))
+    assert err.value.field == "conditions.pressure_drop"
+    assert "every branch would be beyond its bounds" in str(err.value)
+    with pytest.raises(NoSolutionError) as err:
+        solve(two(), TotalFlow(1e4))
+    assert err.value.field == "conditions.total_flow"
+    with pytest.raises(NoSolutionError) as err:
+        solve(two(), MeasuredFlow("B", 1e3))
+    assert err.value.field == "branches[1].measured_flow"
+
+
+def test_one_branch_too_fast_names_that_branch():
+    """A 1 mm stub with no fittings beside a real line at 1 MPa: only the stub is beyond
+    its bounds, so it is the one named."""
+    net = Network(WATER, (branch("stub", 0.1, 1e-3, 0.0), branch("B", 0.05, 30, 4.5e-5, 8)))
+    with pytest.raises(NoSolutionError) as err:
+        solve(net, PressureDrop(1e6))
+    assert err.value.field == "branches[0].length"
