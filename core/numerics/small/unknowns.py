@@ -14,7 +14,7 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 
-from ...model import MAX_LENGTH
+from ...model import MAX_LENGTH, MIN_LENGTH
 from ..friction import HW_D_EXP, RE_LAMINAR, RE_TURBULENT
 from ..roots import EXACT_TOL
 from ..unknowns.diameter import DIAMETER_MAX, DIAMETER_MIN
@@ -32,8 +32,8 @@ def length(pipe: Pipe, j: int, q: float, head: float) -> float:
     v = abs(q) / pipe.area[j]
     per_metre = pipe.f[j] / pipe.d[j] * v * v / (2 * pipe.g)
     found = (abs(head) - h) / per_metre
-    if not (found > 0 and found <= MAX_LENGTH):
-        raise Fallback("no length")
+    if not (MIN_LENGTH <= found <= MAX_LENGTH):  # none, or one the check refuses: the
+        raise Fallback("no length")             # vectorised path words it
     return found
 
 
@@ -66,6 +66,22 @@ _exp = math.exp
 _log = math.log
 
 
+ILL_CONDITIONED = 1e-3
+"""|d ln h / d ln D| of the branch below which its head hardly depends on the bore (a valve or
+other segments take nearly all of it): many bores then carry the target, and the vectorised
+path, which words that case, decides."""
+
+
+def _settled(ln_d: float, slope: float) -> float:
+    """The diameter at a root, unless it lies at an end of the search or barely moves the
+    head: those go back to the vectorised path (the same answer and wording either way)."""
+    d = _exp(ln_d)
+    if not abs(slope) >= ILL_CONDITIONED or not (
+            DIAMETER_MIN * (1 + 1e-9) < d < DIAMETER_MAX * (1 - 1e-9)):
+        raise Fallback("a diameter at an end of the search, or one the head barely feels")
+    return d
+
+
 def diameter(pipe: Pipe, j: int, q: float, head: float) -> float:
     """The diameter of segment ``j`` (m) so that ``pipe`` carries |q| at |head|."""
     q = abs(q)
@@ -77,7 +93,7 @@ def diameter(pipe: Pipe, j: int, q: float, head: float) -> float:
         ln_h, slope = _ln_h_slope(pipe, j, u, q)
         r = ln_h - ln_head
         if abs(r) <= EXACT_TOL:
-            return _exp(u)
+            return _settled(u, slope)
         if r > 0:
             lo = u
         else:
@@ -87,7 +103,7 @@ def diameter(pipe: Pipe, j: int, q: float, head: float) -> float:
             trial = 0.5 * (lo + hi)
         if abs(trial - u) <= 4 * EPS * max(1.0, abs(u)):
             if abs(r) <= 1e-14:  # at the root to round-off
-                return _exp(u)
+                return _settled(u, slope)
             break  # pressed against an end of the search: no diameter there
         u = trial
     raise Fallback("no diameter")

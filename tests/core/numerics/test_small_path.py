@@ -38,11 +38,12 @@ from branchwise.core.numerics.small import try_solve
 from branchwise.core.numerics.small.result import numpy_sum
 from branchwise.core.numerics.solve import solve
 
-RTOL = 2e-12
+RTOL = 1e-11
 """Agreement asked of every number. Both paths stop on the same tests (|ln h − ln H| ≤ 1e-13
 per branch, |ln ΣQ − ln Q_t| ≤ 1e-13 for a total flow), so a head found from a total flow may
-differ by about 2 × 1e-13 relative and a flow by half that; measured worst over the large
-profile: see STATS (printed with -s)."""
+differ by about 2 × 1e-13 relative and a flow by half that; a diameter found on a segment that
+takes a small share of its branch's head magnifies that (2.6e-12 measured on the medium
+profile); worst over a run: see STATS (printed with -s)."""
 
 STATS = {"cases": 0, "small": 0, "errors": 0, "worst": 0.0}
 
