@@ -125,12 +125,22 @@ class BranchwiseApp(App[None]):
         """Keys typed in a burst, handled one after the other (see :mod:`.keygate`)."""
         self.files = SiteFiles(self)
         """Open, save, the recovery copy, exports: everything that touches files."""
+        self._modes[FIRST] = self._first_screen
         site, note, self._remember_on_start = self.files.first_site(
             Path(site_path) if site_path else None)
         self.session = Session(site)
         problems = [f"Settings: {p}" for p in self.settings.problems]
         self._note = "\n".join(filter(None, [note, _data_dir_note(), *problems,
                                               inert_note(self.session)]))
+
+    def _first_screen(self) -> Screen:
+        """The first screen, its styles taken as current: its stylesheet was read with the
+        app's, and Textual would otherwise parse every stylesheet once more for a first screen
+        opened through the modes (its count of style updates starts behind the app's)."""
+        self.stylesheet.update(self)
+        screen = next(s.build() for s in SCREENS if s.mode == FIRST)
+        screen._css_update_count = self._css_update_count
+        return screen
 
     # ---- keys, one after the other (see :mod:`.keygate`) -----------------------------------
 
