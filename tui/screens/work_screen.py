@@ -8,6 +8,7 @@ from typing import TYPE_CHECKING, ClassVar
 from textual import events
 from textual.actions import parse
 from textual.app import ComposeResult
+from textual.message import Message
 from textual.screen import Screen
 from textual.widget import Widget
 from textual.widgets import Header
@@ -52,6 +53,18 @@ class WorkScreen(Screen):
 
     def body(self) -> ComposeResult:
         raise NotImplementedError
+
+    _resumed = False
+    """Whether this screen has been shown (resumed) before."""
+
+    def post_message(self, message: Message) -> bool:
+        # The first time a screen is shown, every widget in it was styled a moment ago, as
+        # it was mounted: Textual styles them all once more (the whole screen) unless told
+        # that nothing has changed since. Later returns to the screen restyle as usual.
+        if isinstance(message, events.ScreenResume) and not self._resumed:
+            self._resumed = True
+            message.refresh_styles = False
+        return super().post_message(message)
 
     ready = False
     """False until the widgets have settled (an input may report its first value as a change)."""
