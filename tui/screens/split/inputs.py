@@ -65,11 +65,11 @@ class GivenFindRows(Vertical):
         with Horizontal(classes="row"):
             yield Label("Given", classes="row-label")
             yield Choice(HEADER_GIVENS, id="given-kind")
-            yield Input(id="given-value", compact=True)
+            yield _field("given-value")
             yield Label("", id="given-unit", classes="unit", markup=False)
             yield Label("lift", id="lift-label")
-            yield Input(id="lift-value", compact=True, placeholder="0",
-                        tooltip="Elevation change, outlet minus inlet (z_out − z_in)")
+            yield _field("lift-value", placeholder="0",
+                         tooltip="Elevation change, outlet minus inlet (z_out − z_in)")
             yield Label("", id="lift-unit", classes="unit", markup=False)
         yield _hidden(Static("", id="given-message", classes="message", markup=False))
         with Horizontal(classes="row"):
@@ -78,8 +78,7 @@ class GivenFindRows(Vertical):
             parts = (Label(" of ", classes="find-part"),
                      Choice([], id="find-branch", prompt="branch", classes="find-part"),
                      Label(" for ", classes="find-part"),
-                     Input(id="find-target", compact=True, placeholder="flow",
-                           classes="find-part"),
+                     _field("find-target", placeholder="flow", classes="find-part"),
                      Choice([], id="find-segment", prompt="segment", classes="find-part"))
             for part in parts:
                 part.display = seeking  # as the site is, so that nothing moves at start
@@ -315,6 +314,15 @@ def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False,
         step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
         value = math.copysign(math.floor(abs(value) / step) * step, value)
     return f"{format_number(value, digits)} {unit}"
+
+
+def _field(ident: str, *, placeholder: str = "", tooltip: str | None = None,
+           classes: str = "") -> Input:
+    """A compact typing field. It starts with the class Textual gives a field that is valid
+    (it has no validators), so that setting it as the value arrives is no change: otherwise
+    that restyles the field and its four parts once more as the screen is built."""
+    return Input(id=ident, compact=True, placeholder=placeholder, tooltip=tooltip,
+                 classes=f"{classes} -valid".strip())
 
 
 def _hidden(widget: Static) -> Static:
