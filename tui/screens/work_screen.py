@@ -14,7 +14,6 @@ from textual.widget import Widget
 from textual.widgets import Header
 
 from ..widgets.caution_line import CautionLine
-from ..widgets.keys_footer import KeysFooter
 from ..widgets.status import StatusStrip
 from ..workspace import workspace
 
@@ -44,12 +43,14 @@ class WorkScreen(Screen):
         # The first screen gets its footer once it is drawn (:meth:`add_footer`): building the
         # footer's keys is a good part of the start.
         if getattr(self.app, "startup_seconds", None) is not None:
-            yield KeysFooter(compact=True, show_command_palette=False)
+            yield _footer()
 
     def add_footer(self) -> None:
         """The footer, if this screen was built before the first screen was drawn."""
+        from ..widgets.keys_footer import KeysFooter
+
         if self.is_attached and not self.query(KeysFooter):
-            self.mount(KeysFooter(compact=True, show_command_palette=False))
+            self.mount(_footer())
 
     def body(self) -> ComposeResult:
         raise NotImplementedError
@@ -126,3 +127,11 @@ class WorkScreen(Screen):
     def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
         """Why a greyed-out action of this screen cannot run now ('' to say nothing)."""
         return ""
+
+
+def _footer() -> Widget:
+    """The keys footer (its module, a Textual widget class, is loaded after the first screen
+    is drawn: the first screen gets its footer then)."""
+    from ..widgets.keys_footer import KeysFooter
+
+    return KeysFooter(compact=True, show_command_palette=False)
