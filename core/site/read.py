@@ -8,7 +8,6 @@ that field. The layout of the file is described in :mod:`.spec`.
 from __future__ import annotations
 
 import difflib
-import json
 import re
 from collections.abc import Mapping
 from dataclasses import fields
@@ -20,6 +19,8 @@ from typing import TYPE_CHECKING, Any, TypeVar
 from ..errors import InputError, describe
 
 if TYPE_CHECKING:
+    from importlib.resources.abc import Traversable
+
     from _typeshed import DataclassInstance
 
 from .spec import (
@@ -55,6 +56,8 @@ _BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")
 def _known(table: Mapping[str, Any], keys: tuple[str, ...], path: str) -> None:
     for key in table:
         if key not in keys:
+            import json  # only for the message: not loaded before the app's first screen
+
             close = difflib.get_close_matches(key, keys, n=1)
             hint = f" (did you mean '{close[0]}'?)" if close else ""
             shown = key if _BARE_KEY.fullmatch(key) else json.dumps(key)  # as TOML quotes it
@@ -256,9 +259,7 @@ DEMO_NAME = "demo-site.toml"
 @cache
 def demo_text() -> str:
     """The bundled demo site file, comments and all."""
-    from importlib.resources import files
-
-    return files("branchwise.presets").joinpath(DEMO_NAME).read_text(encoding="utf-8")
+    return _demo_file().read_text(encoding="utf-8")
 
 
 def demo_site() -> Site:
@@ -268,11 +269,18 @@ def demo_site() -> Site:
     return site
 
 
-def _demo_path() -> Path:
+def _demo_file() -> Path | Traversable:
+    """The demo's file in the shipped presets: in the package's folder when it is one (so
+    that starting the app loads none of ``importlib.resources``), else through it."""
+    import branchwise.presets as presets
+
+    beside = Path(presets.__file__).parent / DEMO_NAME if presets.__file__ else None
+    if beside is not None and beside.is_file():
+        return beside
     from importlib.resources import files
 
-    return Path(str(files("branchwise.presets").joinpath(DEMO_NAME)))
+    return files("branchwise.presets").joinpath(DEMO_NAME)
 
 
-DEMO_PATH = _demo_path()
+DEMO_PATH = Path(str(_demo_file()))
 """The bundled demo site file (read it with :func:`demo_text`; never write to it)."""

@@ -7,7 +7,6 @@ from __future__ import annotations
 
 import glob
 import os
-import secrets
 import stat
 import time
 from pathlib import Path
@@ -42,7 +41,9 @@ def _replace_with_bytes(path: Path, data: bytes, mode: int | None) -> None:
     The temporary name starts with a dot and ends in ``.tmp`` so that folder listings of
     ``*.toml`` never pick it up, even when a killed process leaves one behind.
     """
-    temp = path.with_name(f".{path.name}.{secrets.token_hex(4)}{_TEMP_SUFFIX}")
+    # os.urandom is what secrets.token_hex draws from (secrets, with hashlib, is not loaded
+    # as the app starts)
+    temp = path.with_name(f".{path.name}.{os.urandom(4).hex()}{_TEMP_SUFFIX}")
     # 0o666 lets the umask decide the permissions of a new file, as for any other save.
     fd = os.open(temp, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_BINARY", 0), 0o666)
     try:

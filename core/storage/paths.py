@@ -9,7 +9,6 @@ something is written into them (see :func:`branchwise.core.storage.toml_files.at
 
 from __future__ import annotations
 
-import hashlib
 import os
 import re
 from collections.abc import Iterator
@@ -99,6 +98,8 @@ def recovery_path(site_path: Path | None, base: Path | None = None) -> Path:
         return folder / f"{UNSAVED_NAME}.toml"
     resolved = Path(site_path).expanduser().resolve()
     stem = re.sub(r"[^A-Za-z0-9_-]+", "-", resolved.stem).strip("-") or "site"
+    import hashlib  # only for a saved site's copy: not loaded before the first screen
+
     digest = hashlib.sha256(str(resolved).encode("utf-8")).hexdigest()[:10]
     return folder / f"{stem}-{digest}.toml"
 

@@ -16,7 +16,6 @@ from __future__ import annotations
 
 import os
 import re
-import secrets
 import socket
 from dataclasses import dataclass
 from pathlib import Path
@@ -88,7 +87,9 @@ class Keeper:
 
     def __init__(self, folder: Path | None = None) -> None:
         self.folder = folder
-        self.owner = f"{os.getpid()}-{secrets.token_hex(3)}"
+        # os.urandom is what secrets.token_hex draws from (secrets, with hashlib, is not
+        # loaded as the app starts)
+        self.owner = f"{os.getpid()}-{os.urandom(3).hex()}"
         self._lock: IO[bytes] | None = None
 
     @property

@@ -8,12 +8,12 @@ from typing import TYPE_CHECKING, ClassVar
 from textual import events
 from textual.actions import parse
 from textual.app import ComposeResult
+from textual.message import Message
 from textual.screen import Screen
 from textual.widget import Widget
 from textual.widgets import Header
 
 from ..widgets.caution_line import CautionLine
-from ..widgets.keys_footer import KeysFooter
 from ..widgets.status import StatusStrip
 from ..workspace import workspace
 
@@ -43,15 +43,29 @@ class WorkScreen(Screen):
         # The first screen gets its footer once it is drawn (:meth:`add_footer`): building the
         # footer's keys is a good part of the start.
         if getattr(self.app, "startup_seconds", None) is not None:
-            yield KeysFooter(compact=True, show_command_palette=False)
+            yield _footer()
 
     def add_footer(self) -> None:
         """The footer, if this screen was built before the first screen was drawn."""
+        from ..widgets.keys_footer import KeysFooter
+
         if self.is_attached and not self.query(KeysFooter):
-            self.mount(KeysFooter(compact=True, show_command_palette=False))
+            self.mount(_footer())
 
     def body(self) -> ComposeResult:
         raise NotImplementedError
+
+    _resumed = False
+    """Whether this screen has been shown (resumed) before."""
+
+    def post_message(self, message: Message) -> bool:
+        # The first time a screen is shown, every widget in it was styled a moment ago, as
+        # it was mounted: Textual styles them all once more (the whole screen) unless told
+        # that nothing has changed since. Later returns to the screen restyle as usual.
+        if isinstance(message, events.ScreenResume) and not self._resumed:
+            self._resumed = True
+            message.refresh_styles = False
+        return super().post_message(message)
 
     ready = False
     """False until the widgets have settled (an input may report its first value as a change)."""
@@ -113,3 +127,11 @@ class WorkScreen(Screen):
     def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
         """Why a greyed-out action of this screen cannot run now ('' to say nothing)."""
         return ""
+
+
+def _footer() -> Widget:
+    """The keys footer (its module, a Textual widget class, is loaded after the first screen
+    is drawn: the first screen gets its footer then)."""
+    from ..widgets.keys_footer import KeysFooter
+
+    return KeysFooter(compact=True, show_command_palette=False)

@@ -15,6 +15,7 @@ from typing import TYPE_CHECKING
 
 from textual.app import ComposeResult
 from textual.containers import Horizontal, Vertical
+from textual.widget import Widget
 from textual.widgets import Input, Label, Static
 
 from branchwise.core.finds import FINDS
@@ -65,25 +66,18 @@ class GivenFindRows(Vertical):
         with Horizontal(classes="row"):
             yield Label("Given", classes="row-label")
             yield Choice(HEADER_GIVENS, id="given-kind")
-            yield Input(id="given-value", compact=True)
+            yield _field("given-value")
             yield Label("", id="given-unit", classes="unit", markup=False)
             yield Label("lift", id="lift-label")
-            yield Input(id="lift-value", compact=True, placeholder="0",
-                        tooltip="Elevation change, outlet minus inlet (z_out − z_in)")
+            yield _field("lift-value", placeholder="0",
+                         tooltip="Elevation change, outlet minus inlet (z_out − z_in)")
             yield Label("", id="lift-unit", classes="unit", markup=False)
         yield _hidden(Static("", id="given-message", classes="message", markup=False))
-        with Horizontal(classes="row"):
+        with Horizontal(classes="row", id="find-row"):
             yield Label("Find", classes="row-label")
             yield Choice([(f.label, f.key) for f in FINDS.values()], "flows", id="find-kind")
-            parts = (Label(" of ", classes="find-part"),
-                     Choice([], id="find-branch", prompt="branch", classes="find-part"),
-                     Label(" for ", classes="find-part"),
-                     Input(id="find-target", compact=True, placeholder="flow",
-                           classes="find-part"),
-                     Choice([], id="find-segment", prompt="segment", classes="find-part"))
-            for part in parts:
-                part.display = seeking  # as the site is, so that nothing moves at start
-                yield part
+            if seeking:  # otherwise built when first needed (:func:`_find_parts`)
+                yield from _find_parts()
         yield _hidden(Static("", id="find-message", classes="message", markup=False))
 
     # ---- drawing ---------------------------------------------------------------------------
@@ -117,6 +111,11 @@ class GivenFindRows(Vertical):
 
         find = find_of(site)
         self.query_one("#find-kind", Choice).value = find
+        if not self.query("#find-branch"):
+            if find == "flows":
+                self._show_messages()
+                return  # the row's other parts are not built until a find needs them
+            self.query_one("#find-row", Horizontal).mount(*_find_parts(), after="#find-kind")
         names = [(branch_name(site, i), branch_name(site, i)) for i in range(len(site.branches))]
         solve = site.solve
         chosen = text_of(solve.branch if solve else None)
@@ -216,7 +215,7 @@ class GivenFindRows(Vertical):
         """Enter keeps the value (it is in the site already) and goes to the next field, as
         in a form: the focus stays in a field, so that letters typed next are not keys."""
         event.stop()
-        fields = [self.query_one(f"#{ident}", Input) for ident in FIELDS]
+        fields = [box for ident in FIELDS for box in self.query(f"#{ident}").results(Input)]
         shown = [box for box in fields if box.display]
         if event.input in shown:
             shown[(shown.index(event.input) + 1) % len(shown)].focus()
@@ -316,6 +315,25 @@ def carried_text(value_si: float, kind: str, unit: str, *, down: bool = False,
         step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
         value = math.copysign(math.floor(abs(value) / step) * step, value)
     return f"{format_number(value, digits)} {unit}"
+
+
+def _find_parts() -> tuple[Widget, ...]:
+    """The find row past its choice: of which branch, for which target flow, which segment
+    (shown only while a diameter, length or roughness is found)."""
+    return (Label(" of ", classes="find-part"),
+            Choice([], id="find-branch", prompt="branch", classes="find-part"),
+            Label(" for ", classes="find-part"),
+            _field("find-target", placeholder="flow", classes="find-part"),
+            Choice([], id="find-segment", prompt="segment", classes="find-part"))
+
+
+def _field(ident: str, *, placeholder: str = "", tooltip: str | None = None,
+           classes: str = "") -> Input:
+    """A compact typing field. It starts with the class Textual gives a field that is valid
+    (it has no validators), so that setting it as the value arrives is no change: otherwise
+    that restyles the field and its four parts once more as the screen is built."""
+    return Input(id=ident, compact=True, placeholder=placeholder, tooltip=tooltip,
+                 classes=f"{classes} -valid".strip())
 
 
 def _hidden(widget: Static) -> Static:
