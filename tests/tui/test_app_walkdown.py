@@ -98,6 +98,9 @@ def test_walkdown_by_keys(ui, data_dir):
             assert app.site.conditions.given == "total_flow"
             box = app.screen.query_one("#given-value", Input)
             assert box.value == "" and "answer now" in box.placeholder
+            # Waiting for a value is not an error: marked ○ as a new site is, not ✗.
+            assert "○ given total flow: needs a value" in ui.text(app)
+            assert "✗" not in ui.text(app)
             await pilot.press("escape", "v")
             await ui.type(pilot, "150 gpm")
             await ui.settle(pilot)

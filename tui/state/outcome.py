@@ -18,6 +18,8 @@ from typing import TYPE_CHECKING, Any
 from branchwise.core.errors import BranchwiseError
 from branchwise.core.site.readings import NoReading
 
+from .givens import needs_value
+
 if TYPE_CHECKING:
     from branchwise.core.model import Fluid
     from branchwise.core.site.build import Built
@@ -111,7 +113,12 @@ def band_progress(cancelled: Callable[[], bool], report: Callable[[int, int], No
     return progress
 
 
-def error_mark(error: BaseException | None) -> str:
+def error_mark(error: BaseException | None, site: Site | None = None) -> str:
     """The mark before an error's words: ✗ for something wrong, ○ for a site that only waits
-    for its first reading (a new site, or today's visit just closed)."""
-    return "○" if isinstance(error, NoReading) else "✗"
+    for a reading (a new site, today's visit just closed, or a given just chosen whose value is
+    not typed yet: ``site`` tells that one)."""
+    if isinstance(error, NoReading):
+        return "○"
+    if error is not None and site is not None and needs_value(error, site) is not None:
+        return "○"
+    return "✗"

@@ -137,9 +137,9 @@ def _state(app: Workspace, on_split: bool) -> tuple[Text, Text]:
     if outcome is None:  # (a later answer replaces this line; no flicker while typing)
         line.append("… solving", style="italic dim")
     elif outcome.error is not None:
-        waiting = error_mark(outcome.error) == "○"
-        line.append(f"{error_mark(outcome.error)} {app.error_words(outcome.error)}",
-                    style=colour(app, "text-warning") if waiting
+        mark = error_mark(outcome.error, app.site)
+        line.append(f"{mark} {app.error_words(outcome.error)}",
+                    style=colour(app, "text-warning") if mark == "○"
                     else f"bold {colour(app, 'text-error')}".strip())
         where = Text(f"  ({AREA_KEYS[FieldPath.parse(outcome.field).area]})", style="dim")
     else:

@@ -157,7 +157,7 @@ class BranchesScreen(WorkScreen):
         message = self.query_one("#branch-message", Static)
         message.set_class(bad is None, "-hint")
         if bad is not None and outcome is not None and outcome.error is not None:
-            put(message, f"{error_mark(outcome.error)} {app.error_words(outcome.error)}")
+            put(message, f"{error_mark(outcome.error, site)} {app.error_words(outcome.error)}")
         else:
             put(message, reading_hint(site, given))
 

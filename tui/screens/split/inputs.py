@@ -152,7 +152,7 @@ class GivenFindRows(Vertical):
                 find_msg = text
         for ident, message in (("#given-message", given_msg), ("#find-message", find_msg)):
             box = self.query_one(ident, Static)
-            mark = error_mark(outcome.error if outcome is not None else None)
+            mark = error_mark(outcome.error if outcome is not None else None, self.bw.site)
             put(box, f"{mark} {message}" if message else "")
             if box.display != bool(message):
                 box.display = bool(message)
