@@ -88,7 +88,7 @@ def reading_line(c: Comparison, reader: Units | str = "si", short: bool = False)
     u = units_for(reader)
     kind = GIVENS[c.kind]
     read, solved = u.quantity(c.read, kind.quantity), u.quantity(c.solved, kind.quantity)
-    diff = f"{c.difference:+.1%}"
+    diff = _difference(c)
     if short:
         band = "" if c.within is None else ", in band" if c.within else ", OUT of band"
         what = c.branch if kind.on_branch else kind.short
@@ -97,6 +97,16 @@ def reading_line(c: Comparison, reader: Units | str = "si", short: bool = False)
             "; within the P5–P95 band" if c.within else "; outside the P5–P95 band")
     return (f"Also read: {reading_words(c.kind, c.branch)} {read}; the solve gives {solved} "
             f"({diff}{band})")
+
+
+def _difference(c: Comparison) -> str:
+    """How far the solve is from a reading: relative, except where a ratio says nothing (a
+    zero reading, or one of the other direction)."""
+    if c.read == 0:
+        return "the reading is zero"
+    if c.solved * c.read < 0:
+        return "the other direction: check the meter's mounting or the reading's sign"
+    return f"{c.difference:+.1%}"
 
 
 def readings_lines(sr: SiteResult, reader: Units | str = "si", short: bool = False) -> list[str]:

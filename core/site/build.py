@@ -31,7 +31,7 @@ from ..model import (
 from ..units import parse_quantity
 from .fields import FieldPath
 from .liquid import build_fluid
-from .readings import chosen
+from .readings import Reading, chosen
 from .spec import BranchSpec, SegmentSpec, Site, Value
 from .values import (
     at_least,
@@ -169,8 +169,17 @@ def _branch(br: BranchSpec, i: int, material_for: Callable[[str, str], Material]
 # ---- conditions and what to find -----------------------------------------------------------
 
 def _given(site: Site, names: list[str]) -> Given:
-    """The given condition from the reading :func:`.readings.chosen` picks (SI)."""
-    reading, _ = chosen(site)
+    """The given condition from the reading :func:`.readings.chosen` picks (SI). The other
+    readings are read too: one that is no reading of its kind is refused by its field, as the
+    given would be (it would otherwise drop out of the comparison and the weighing unsaid)."""
+    reading, others = chosen(site)
+    given = _reading(reading, names)
+    for other in others:
+        _reading(other, names)
+    return given
+
+
+def _reading(reading: Reading, names: list[str]) -> Given:
     kind = GIVENS[reading.kind]
     value = parse_quantity(reading.value, kind.quantity, reading.path)
     return make_given(kind.key, value, None if reading.branch is None else names[reading.branch])

@@ -77,3 +77,25 @@ def test_the_readings_and_given_survive_a_save_and_reach_the_json():
     assert other["quantity"] == "pressure_drop" and other["solved_si"] > 0
     assert set(other) == {"quantity", "branch", "value_si", "solved_si", "difference",
                           "within_band"}
+
+
+@pytest.mark.parametrize(("measured", "words"), [
+    ("80 psi", "is not a flow"), ("80", "needs a unit"), ("abc", "must start with a number"),
+    ("1e400 gpm", "finite")])
+def test_a_reading_beside_the_given_that_is_no_reading_is_refused_by_its_field(measured, words):
+    """Not the given, but still a reading: it would otherwise drop out of the comparison and
+    the weighing with no more than a note (exit 0)."""
+    with pytest.raises(InputError) as caught:
+        solve_site(site("pressure_drop", measured))
+    assert caught.value.field == "branches[2].measured_flow" and words in caught.value.reason
+
+
+@pytest.mark.parametrize(("measured", "words"), [
+    ("0 gpm", "the reading is zero"), ("-80 gpm", "the other direction")])
+def test_a_zero_or_reversed_reading_is_said_in_words_not_as_a_ratio(measured, words):
+    """(solved − read)/read is no figure for a zero reading (it was printed as +nan%), nor
+    for a reading of the other sign (−196 %)."""
+    from branchwise.core.report.lines import readings_lines
+
+    lines = " ".join(readings_lines(solve_site(site("pressure_drop", measured))))
+    assert words in lines and "nan" not in lines and "%" not in lines

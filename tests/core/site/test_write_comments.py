@@ -22,7 +22,7 @@ ASME = "# ASME B36.10M: inner diameter"
 STRAINER = "# entrance, exit and strainer, summed by hand"
 BALANCING = "# balancing valve, partly closed"
 HINT = '# measured_flow = "80 gpm"'
-HINT_MORE = "# the solve; given = \"AHU-3 coil\" in [conditions] solves from it"
+HINT_MORE = '# in [conditions] to compare it, "all" to weigh both'
 SOLVE_BLOCK = "# [solve]"
 RANGE_HINT = "# roughness_range = "
 _KEY = re.compile(r"([A-Za-z0-9_-]+)\s*=")
