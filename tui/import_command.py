@@ -80,7 +80,11 @@ def run_import(lines: Path, output: Path | None, template: Path | None, force: b
     if listed.ignored:
         print(f"branchwise: columns left out: {', '.join(listed.ignored)}", file=err)
     if like is None:
-        print("branchwise: the site has water at 20 °C and no reading yet: set the liquid and "
-              "a pressure drop or a total flow before solving (or use --template SITE)",
-              file=err)
+        read = sum(b.measured_flow is not None for b in listed.branches)
+        todo = ("no reading yet: set the liquid and a pressure drop or a total flow" if not read
+                else "one branch reading, the head solved from it: set the liquid" if read == 1
+                else f"{read} branch readings: set the liquid, and in [conditions] the reading "
+                     "to solve from (given = a branch's name, or \"all\" to weigh them together)")
+        print(f"branchwise: the site has water at 20 °C and {todo} before solving (or use "
+              "--template SITE)", file=err)
     return 0

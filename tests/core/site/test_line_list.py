@@ -107,3 +107,16 @@ def test_fittings_read_either_way():
     assert fittings_of("elbow-90=3, tee-run x 1", "f") == {"elbow-90": 3, "tee-run": 1}
     with pytest.raises(InputError, match="a count and a fitting"):
         fittings_of("lots of elbows", "f")
+
+
+def test_a_measured_flow_cell_that_is_no_flow_is_named_and_nothing_is_read():
+    """A clamp-on column with a cell a spreadsheet left as `nan` or an overflow: each is named
+    by line and column (it was written to the site as it stood)."""
+    text = ("Name,Bore (mm),Length (m),Roughness (mm),Measured flow (gpm)\n"
+            "A,100,50,0.045,nan\nB,80,40,0.045,1e400\nC,80,40,0.045,-5\nD,80,40,0.045,0\n")
+    with pytest.raises(LineListError) as caught:
+        read_line_list(text, "lines.csv")
+    named = [str(p) for p in caught.value.problems]
+    assert len(named) == 2
+    assert named[0].startswith("lines.csv line 2, column 'Measured flow (gpm)'")
+    assert named[1].startswith("lines.csv line 3, column 'Measured flow (gpm)'")
