@@ -74,8 +74,12 @@ def solve_site(site: Site, presets: PresetSource | None = None,
 
     built = build(site, presets) if built is None else built
     notes = list(built.notes)
+    names = [b.name for b in built.network.branches]
     if solves_from_all(site):  # the reconciled head fixes the solve
-        rec = reconcile_site(site, built, presets)
+        try:
+            rec = reconcile_site(site, built, presets)
+        except BranchwiseError as exc:
+            raise exc.naming(names) from None
         if rec is not None:
             built = replace(built, given=PressureDrop(rec.pressure_drop_pa))
     else:  # beside the answer: a reading that cannot be weighed does not stop it
@@ -83,7 +87,7 @@ def solve_site(site: Site, presets: PresetSource | None = None,
             rec = reconcile_site(site, built, presets)
         except InputError as exc:
             rec = None
-            named = exc.naming([b.name for b in built.network.branches])
+            named = exc.naming(names)
             notes.append(f"Readings not weighed against each other: {named}")
     try:
         result = solve(built.network, built.given, built.find)

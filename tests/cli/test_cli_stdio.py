@@ -125,3 +125,14 @@ def test_import_with_a_template_solves_in_a_pipeline(tmp_path):
     assert solved.returncode == 0, solved.stderr
     rows = solved.stdout.splitlines()
     assert [r.split(",")[0] for r in rows[1:]] == ["North", "South"]
+
+
+def test_a_reading_that_cannot_be_weighed_is_named_by_its_branch_on_the_command_line(tmp_path):
+    from branchwise.core.site.read import demo_text
+
+    text = demo_text().replace('# measured_flow = "80 gpm"', 'measured_flow = "0 gpm"').replace(
+        'friction = "colebrook"', 'friction = "colebrook"\ntotal_flow = "600 gpm"\ngiven = "all"')
+    (tmp_path / "s.toml").write_text(text, encoding="utf-8")
+    done = run("solve", str(tmp_path / "s.toml"))
+    assert done.returncode == 2
+    assert 'branch "AHU-3 coil" measured_flow' in done.stderr and "no name" not in done.stderr

@@ -99,3 +99,14 @@ def test_a_zero_or_reversed_reading_is_said_in_words_not_as_a_ratio(measured, wo
 
     lines = " ".join(readings_lines(solve_site(site("pressure_drop", measured))))
     assert words in lines and "nan" not in lines and "%" not in lines
+
+
+def test_a_reading_that_cannot_be_weighed_is_named_by_its_branch():
+    """All readings weighed, one a zero clamp-on (its tolerance, a share of the reading, is
+    zero): the error names the branch as the file does, not "branch 3 (no name)"."""
+    text = demo_text().replace(*CLAMP_ON).replace('"80 gpm"', '"0 gpm"').replace(
+        'friction = "colebrook"', 'friction = "colebrook"\ntotal_flow = "600 gpm"\ngiven = "all"')
+    with pytest.raises(InputError) as caught:
+        solve_site(parse_site(text))
+    assert caught.value.field == "branches[2].measured_flow"
+    assert caught.value.names[2] == "AHU-3 coil"  # what the command line and the app name it by
