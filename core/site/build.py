@@ -74,6 +74,10 @@ class Built:
 
 # ---- branches ------------------------------------------------------------------------------
 
+MAX_FITTINGS = 10_000
+"""The most fittings of one kind a segment may count (a sanity bound, not a standard's)."""
+
+
 def _segment(seg: SegmentSpec, path: str,
              material_for: Callable[[str, str], Material]) -> tuple[Segment, Any, float]:
     from ..catalogs import fittings_k
@@ -135,6 +139,9 @@ def _segment(seg: SegmentSpec, path: str,
     for key, count in seg.fittings.items():
         n = number(count, f"{path}.fittings.{key}")
         at_least(n, f"{path}.fittings.{key}", count, 0.0, strict=False)
+        if n > MAX_FITTINGS:  # else the sum is refused as the segment's minor_k, not typed
+            raise InputError(f"{path}.fittings.{key}", describe(count), "is more fittings of "
+                             f"one kind than a pipe holds (at most {MAX_FITTINGS:,})")
         counts[key] = n
     k_fittings = fittings_k(counts, diameter, f"{path}.fittings") if counts else 0.0
     segment = Segment(diameter, length, roughness, minor_k + k_fittings, hw_c)
