@@ -249,7 +249,7 @@ def _load(site_path: Path) -> Site:
         return load_site(site_path)
     from .import_command import read_text
 
-    site = parse_site(read_text(site_path, "<stdin>"), "<stdin>")
+    site = parse_site(read_text(site_path, "<stdin>", "UTF-8 text"), "<stdin>")
     site.source = None
     return site
 

@@ -18,9 +18,10 @@ MAX_BYTES = 16 * 1024 * 1024
 """Standard input or a line list larger than this is refused (a line list is kilobytes)."""
 
 
-def read_text(path: Path, label: str) -> str:
+def read_text(path: Path, label: str, save_as: str = "CSV UTF-8") -> str:
     """A text file, or standard input for ``-``, as UTF-8 (a byte-order mark dropped); at most
-    :data:`MAX_BYTES`; every failure an InputError naming ``label``."""
+    :data:`MAX_BYTES`; every failure an InputError naming ``label`` (a text in another encoding
+    is told to be saved as ``save_as``)."""
     from branchwise.core.storage.file_checks import read_bytes
 
     if str(path) != "-":  # a regular file only, checked before it is opened (never a FIFO)
@@ -37,7 +38,7 @@ def read_text(path: Path, label: str) -> str:
     except UnicodeDecodeError as exc:
         line = data.count(b"\n", 0, exc.start) + 1
         raise InputError(f"{label} line {line}", repr(data[exc.start:exc.start + 8]),
-                         "is not UTF-8 text; save the list as CSV UTF-8") from None
+                         f"is not UTF-8 text; save it as {save_as}") from None
 
 
 def run_import(lines: Path, output: Path | None, template: Path | None, force: bool,

@@ -203,6 +203,9 @@ def _branch_names(doc: Mapping[str, Any]) -> list[Value]:
 
 def _site(doc: Mapping[str, Any], source: Path | None) -> Site:
     _known(doc, TOP_KEYS, "")
+    if not any(key in doc for key in ("fluid", "conditions", "branches")):
+        raise InputError("fluid", "nothing", "this file holds no site: no [fluid], [conditions] "
+                         "or [[branches]] table (`branchwise demo FILE` writes one to start from)")
     site = Site(source=source)
     site.name = _scalar(doc.get("name", ""), "name")
     site.notes = _scalar(doc.get("notes"), "notes")

@@ -39,6 +39,7 @@ _TRADE_UNITS = (
     "liter_per_second = liter / second = lps",
     "psi_differential = pound_force_per_square_inch = psid",
     "cubic_foot_per_second = foot ** 3 / second = cfs",
+    "cubic_foot_per_minute = foot ** 3 / minute = cfm = CFM",
     "US_gallon_per_hour = gallon / hour = gph = GPH",
     "million_US_gallon_per_day = 1e6 * gallon / day = MGD = mgd",
 )

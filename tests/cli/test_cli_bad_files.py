@@ -79,7 +79,8 @@ BAD_FILES = [
      "solve.target_flow"),
     ("fluid not a table", edit('[fluid]\nkind = "water"\ntemperature = "18 degC"\n',
                                'fluid = "water"\n'), "fluid: must be a table"),
-    ("empty file", "", "fluid.temperature: needed for water"),
+    ("empty file", "", "fluid: this file holds no site"),
+    ("a file of comments only", "# notes\nformat = 1\n", "fluid: this file holds no site"),
 ]
 
 

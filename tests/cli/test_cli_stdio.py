@@ -136,3 +136,12 @@ def test_a_reading_that_cannot_be_weighed_is_named_by_its_branch_on_the_command_
     done = run("solve", str(tmp_path / "s.toml"))
     assert done.returncode == 2
     assert 'branch "AHU-3 coil" measured_flow' in done.stderr and "no name" not in done.stderr
+
+
+def test_a_site_on_standard_input_in_another_encoding_is_told_to_be_utf8(tmp_path):
+    done = subprocess.run([sys.executable, "-m", "branchwise", "solve", "-"],
+                          input='name = "café"\n'.encode("latin-1"), capture_output=True,
+                          timeout=120)
+    assert done.returncode == 2
+    err = done.stderr.decode()
+    assert "is not UTF-8 text" in err and "CSV" not in err  # a site, not a line list

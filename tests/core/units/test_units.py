@@ -182,6 +182,7 @@ def test_any_text_gives_a_finite_si_value_or_an_input_error(text, kind):
     ("3 in. w.g.", "pressure", 3 * 249.082),
     ("20 ft wc", "pressure", 20 * 2988.98),
     ("1.5 cfs", "flow", 1.5 * 2.831685e-2),
+    ("80.2 cfm", "flow", 80.2 * 2.831685e-2 / 60),
     ("0.5 MGD", "flow", 0.5e6 * 3.785412e-3 / 86400),
     ("30 gph", "flow", 30 * 3.785412e-3 / 3600),
     # °C and °F scales: T/K = t/°C + 273.15; t/°C = (t/°F − 32)/1.8 (NIST SP 811 §4.2.1.1)
