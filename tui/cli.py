@@ -362,6 +362,9 @@ def _demo(path: Path, force: bool, out: TextIO) -> int:
     from branchwise.core.storage.atomic import atomic_write_text
     from branchwise.core.storage.file_checks import check_replace
 
+    if str(path) == "-":  # the demo on standard output, as `-o -` writes elsewhere
+        out.write(demo_text())
+        return EXIT_OK
     if path.is_dir():
         path = path / DEMO_NAME
     check_replace(path, path.name, force)
@@ -478,6 +481,10 @@ def _format(chosen: str | None, output: Path | None) -> str:
         return chosen
     by_name = BY_SUFFIX.get(output.suffix.lower()) if output is not None else None
     if output is None or by_name is None:
+        if output is not None and output.suffix.lower() not in ("", ".txt", ".text"):
+            print(f"branchwise: writing the text table: the name {output.name} asks for no "
+                  "format known here (--format to choose csv, json, markdown or html)",
+                  file=sys.stderr)
         return "table"
     print(f"branchwise: writing {by_name.upper() if by_name != 'markdown' else 'Markdown'}, "
           f"as the name {output.name} says (--format to choose another)", file=sys.stderr)

@@ -135,11 +135,14 @@ def check_folder(path: Path, field: str) -> None:
 
 
 def check_replace(path: Path, field: str, force: bool) -> None:
-    """The command line's one rule for a file it is about to write: a missing file is fine;
-    an existing one only with ``force`` (and a ``.bak`` is then kept by the writer); never
-    something that is not a regular file, nor a read-only file."""
+    """The command line's one rule for a file it is about to write: a missing file is fine
+    (in a folder that exists: none is made); an existing one only with ``force`` (and a
+    ``.bak`` is then kept by the writer); never something that is not a regular file, nor a
+    read-only file."""
     path = Path(path)
     check_folder(path, field)
+    if not path.parent.is_dir():  # never made on the way: a typo in it would go unseen
+        raise InputError(field, str(path), f"its folder {path.parent} does not exist")
     try:
         info = os.stat(path)
     except FileNotFoundError:

@@ -145,3 +145,29 @@ def test_a_site_on_standard_input_in_another_encoding_is_told_to_be_utf8(tmp_pat
     assert done.returncode == 2
     err = done.stderr.decode()
     assert "is not UTF-8 text" in err and "CSV" not in err  # a site, not a line list
+
+
+def test_no_folder_is_made_on_the_way_to_an_output(tmp_path):
+    """`-o` into a folder that is not there (a typo in it, say) is refused by the option, and
+    nothing is made; the same for `import -o` and `demo`."""
+    site = tmp_path / "s.toml"
+    assert run("demo", str(site)).returncode == 0
+    missing = tmp_path / "no-such-folder"
+    for args in (("solve", str(site), "-o", str(missing / "r.csv")),
+                 ("history", str(site), "-o", str(missing / "h.txt")),
+                 ("demo", str(missing / "d.toml"))):
+        done = run(*args)
+        assert done.returncode == 2, args
+        assert f"its folder {missing} does not exist" in done.stderr, args
+    assert not missing.exists()
+
+
+def test_the_demo_to_standard_output_and_an_unknown_suffix_said(tmp_path):
+    done = run("demo", "-", cwd=tmp_path)
+    assert done.returncode == 0 and done.stdout.startswith("# branchwise demo site")
+    assert not (tmp_path / "-").exists()
+    (tmp_path / "s.toml").write_text(done.stdout, encoding="utf-8")
+    done = run("solve", "s.toml", "-o", "out.weird", cwd=tmp_path)
+    assert done.returncode == 0 and "writing the text table" in done.stderr
+    quiet = run("solve", "s.toml", "-o", "out.txt", cwd=tmp_path)
+    assert "writing the text table" not in quiet.stderr
