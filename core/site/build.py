@@ -269,6 +269,10 @@ def _materials() -> Callable[[str, str], Material]:
     return lookup
 
 
+_GIVEN_WORDS = frozenset(["all", *GIVENS])
+"""What ``conditions.given`` reads as a kind of reading, never as a branch's name."""
+
+
 def build(site: Site, presets: PresetSource | None = None) -> Built:
     """The core objects for ``site``; every bad value is an InputError naming its field (and
     carrying the site's branch names, :attr:`InputError.names`).
@@ -294,6 +298,9 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
     for i, spec in enumerate(site.branches):
         br, s, k, p = _branch_once(spec, i, materials, user)
         key = br.name.casefold()
+        if key in _GIVEN_WORDS:
+            raise InputError(f"branches[{i}].name", br.name, "is a word conditions.given "
+                             "keeps for a reading of its own; give the branch another name")
         if key in seen:
             raise InputError(f"branches[{i}].name", br.name,
                              f"duplicates branches[{seen[key]}].name")
