@@ -65,7 +65,7 @@ def _solve(network: Network, given: Given, find: Find, index: int | None) -> Res
         head = _head_for_unknown(network, pipes, given, find, index, measured, infos)
         SOLVERS[find.quantity].check(network, find, index)  # an InputError, as the other path
         br = network.branches[index]
-        pipe = pipes[index]
+        pipe = pipes[index].copy(own=True)  # its segment is changed while sought
         quantity, j, q = find.quantity, find.segment, find.target_flow
         value = getattr(unknowns, quantity)(pipe, j, q, head)
         new_branch = with_value(br, j, quantity, value)
