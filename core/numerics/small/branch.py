@@ -52,17 +52,22 @@ class Pipe:
 
     __slots__ = ("d", "length", "rr", "a3", "k", "area", "c", "eps", "valve_r", "nu", "g",
                  "model", "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs",
-                 "one_colebrook", "owned")
+                 "one_colebrook", "owned", "ld", "ke")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
         segs = br.segments
+        kv = br.valve_kv
+        self.valve_r = valve_r = VALVE_HEAD_FACTOR / (kv**2 * g) if kv is not None else 0.0
         if len(segs) == 1:
             s = segs[0]
             dj = s.diameter
             self.d, self.length, self.eps, self.k = [dj], [s.length], [s.roughness], [s.minor_k]
             rr = s.roughness / dj
-            self.rr, self.a3, self.area = [rr], [rr / 3.7], [math.pi * dj**2 / 4]
+            area = math.pi * dj**2 / 4
+            self.rr, self.a3, self.area = [rr], [rr / 3.7], [area]
             self.c = [s.hw_c if s.hw_c is not None else math.nan]
+            self.ld = s.length / dj  # as _fold
+            self.ke = s.minor_k + 2 * g * valve_r * area * area
         else:
             self.d = [s.diameter for s in segs]
             self.length = [s.length for s in segs]
@@ -72,8 +77,7 @@ class Pipe:
             self.a3 = [rr / 3.7 for rr in self.rr]
             self.area = [math.pi * s.diameter**2 / 4 for s in segs]
             self.c = [s.hw_c if s.hw_c is not None else math.nan for s in segs]
-        kv = br.valve_kv
-        self.valve_r = VALVE_HEAD_FACTOR / (kv**2 * g) if kv is not None else 0.0
+            self.ld = self.ke = math.nan
         self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
         self.one_colebrook = self.n == 1 and model == "colebrook"
         self.owned = True
@@ -93,7 +97,7 @@ class Pipe:
             new.rr, new.a3, new.area = self.rr, self.a3, self.area
         new.k, new.c, new.valve_r = self.k, self.c, self.valve_r
         new.nu, new.g, new.model, new.n = self.nu, self.g, self.model, self.n
-        new.one_colebrook, new.owned = self.one_colebrook, own
+        new.one_colebrook, new.owned, new.ld, new.ke = self.one_colebrook, own, self.ld, self.ke
         new.h = new.s = new.q = math.nan
         new.x = 0.0
         new.xs = [0.0] * self.n
@@ -107,6 +111,17 @@ class Pipe:
         self.rr[j] = roughness / diameter
         self.a3[j] = self.rr[j] / 3.7
         self.area[j] = math.pi * diameter**2 / 4
+        self._fold()
+
+    def _fold(self) -> None:
+        """L/D and the fittings' and valve's K together (``ke``) of a one-segment branch, for
+        :meth:`_colebrook_one` (NaN for several segments)."""
+        if self.n == 1:
+            area = self.area[0]
+            self.ld = self.length[0] / self.d[0]
+            self.ke = self.k[0] + 2 * self.g * self.valve_r * area * area
+        else:
+            self.ld = self.ke = math.nan
 
     def friction(self, j: int, re: float) -> tuple[float, float]:
         if self.model == "hazen-williams":
@@ -186,8 +201,7 @@ class Pipe:
         d, length, nu, g = self.d[0], self.length[0], self.nu, self.g
         area = self.area[0]
         a = self.a3[0]
-        ld = length / d
-        ke = self.k[0] + 2 * g * self.valve_r * area * area
+        ld, ke = self.ld, self.ke
         c0 = 2.51 * nu / (d * _sqrt(2 * g * head))
         it = 1
         if ke == 0:

@@ -48,9 +48,13 @@ def flows_at(pipes: Sequence[Pipe], head: float) -> tuple[list[float], int]:
     sign = 1.0 if head > 0 else -1.0
     t = abs(head)
     iterations = 0
+    flows: list[float] = []
     for p in pipes:
-        iterations = max(iterations, p.flow_at(t))
-    return [sign * p.q for p in pipes], iterations
+        it = p.flow_at(t)
+        if it > iterations:
+            iterations = it
+        flows.append(sign * p.q)
+    return flows, iterations
 
 
 def head_for_total(pipes: Sequence[Pipe], total: float) -> tuple[float, int, float]:

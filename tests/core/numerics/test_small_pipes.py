@@ -96,3 +96,16 @@ def test_a_copy_starts_as_a_new_pipe():
 def test_flows_are_the_default_find():
     net = network()
     same(solve(net, PressureDrop(1e4)), solve(net, PressureDrop(1e4), FindFlows()))
+
+
+def test_a_changed_segment_is_the_new_branchs():
+    """A one-segment branch's folded constants (L/D, the fittings' and valve's K) follow a
+    change of its segment."""
+    net = network()
+    nu = WATER.kinematic_viscosity
+    own = Pipe(net.branches[1], nu, net.gravity, net.friction)
+    own.set_segment(0, 0.12, 30.0, 1e-4)
+    changed = Branch("b", (Segment(0.12, 30.0, 1e-4, 6.0),), 90.0)
+    made = Pipe(changed, nu, net.gravity, net.friction)
+    assert (own.ld, own.ke) == (made.ld, made.ke)
+    assert own.flow_at(3.0) == made.flow_at(3.0) and own.q == made.q and own.h == made.h
