@@ -49,8 +49,7 @@ from .small import SMALL_BRANCHES, try_solve
 def solve(network: Network, given: Given, find: Find | None = None) -> Result:
     """Solve ``network`` for ``find`` (default: the flows) with ``given`` fixing the head."""
     find = FindFlows() if find is None else find
-    _check_friction(network)
-    _check_resistance(network)
+    _check_network(network)
     _check_given(network, given)
     infos: list[RootInfo] = []
     solved: Solved | None = None
@@ -91,6 +90,20 @@ def pressure_drop_for(network: Network, head: float) -> float:
 
 
 # ---- what the network allows ---------------------------------------------------------------
+
+_passed: Network | None = None
+"""The last network that passed :func:`_check_network`: a network is frozen, so a later solve of
+the same object need not check it again (one network kept, no more)."""
+
+
+def _check_network(network: Network) -> None:
+    global _passed
+    if network is _passed:
+        return
+    _check_friction(network)
+    _check_resistance(network)
+    _passed = network
+
 
 def _check_friction(network: Network) -> None:
     """Hazen–Williams is an empirical fit for water: refused for any other liquid."""
