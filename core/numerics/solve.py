@@ -15,6 +15,7 @@ answer exists a :class:`NoSolutionError` states the limit that was hit.
 from __future__ import annotations
 
 import math
+import weakref
 from dataclasses import replace
 from functools import partial
 
@@ -91,18 +92,18 @@ def pressure_drop_for(network: Network, head: float) -> float:
 
 # ---- what the network allows ---------------------------------------------------------------
 
-_passed: Network | None = None
-"""The last network that passed :func:`_check_network`: a network is frozen, so a later solve of
-the same object need not check it again (one network kept, no more)."""
+_passed: weakref.ref[Network] | None = None
+"""The last network that passed :func:`_check_network` (a weak reference: it is not kept
+alive): a network is frozen, so a later solve of the same object need not check it again."""
 
 
 def _check_network(network: Network) -> None:
     global _passed
-    if network is _passed:
+    if _passed is not None and _passed() is network:
         return
     _check_friction(network)
     _check_resistance(network)
-    _passed = network
+    _passed = weakref.ref(network)
 
 
 def _check_friction(network: Network) -> None:

@@ -9,6 +9,7 @@ started from its last flow moved along its own slope.
 from __future__ import annotations
 
 import math
+import weakref
 from collections.abc import Sequence
 
 from ...model import Network
@@ -19,25 +20,26 @@ _log = math.log
 _exp = math.exp
 
 
-_last: tuple[Network, tuple[Pipe, ...]] | None = None
-"""The last network given to :func:`pipes_of` and its pipes as first made: a network is frozen,
-so their constants serve every later solve of the same object (a script solving it in several
-directions, say) without being worked out again. One network is kept, no more; a network met
-anew (the app builds one for each edit) pays for its pipes as before."""
+_last: tuple[weakref.ref[Network], tuple[Pipe, ...]] | None = None
+"""The last network given to :func:`pipes_of` (a weak reference: it is not kept alive) and its
+pipes as first made: a network is frozen, so their constants serve every later solve of the
+same object (a script solving it in several directions, say) without being worked out again.
+One network's are kept, no more; a network met anew (the app builds one for each edit) pays
+for its pipes as before."""
 
 
 def pipes_of(network: Network) -> list[Pipe]:
     """A pipe for each branch, with no state; their constants are shared (``Pipe.copy``)."""
     global _last
     last = _last
-    if last is not None and last[0] is network:
+    if last is not None and last[0]() is network:
         return [p.copy() for p in last[1]]
     nu = network.fluid.kinematic_viscosity
     g, model = network.gravity, network.friction
     pipes = [Pipe(b, nu, g, model) for b in network.branches]
     for p in pipes:
         p.owned = False  # kept for the next solve of this network: never changed in place
-    _last = (network, tuple(pipes))  # the caller's list may be changed, not this
+    _last = (weakref.ref(network), tuple(pipes))  # the caller's list may be changed, not this
     return pipes
 
 

@@ -109,3 +109,16 @@ def test_a_changed_segment_is_the_new_branchs():
     made = Pipe(changed, nu, net.gravity, net.friction)
     assert (own.ld, own.ke) == (made.ld, made.ke)
     assert own.flow_at(3.0) == made.flow_at(3.0) and own.q == made.q and own.h == made.h
+
+
+def test_a_solved_network_is_not_kept_alive():
+    import gc
+    import weakref
+
+    net = network()
+    solve(net, PressureDrop(1e4))
+    solve(net, PressureDrop(1e4))
+    gone = weakref.ref(net)
+    del net
+    gc.collect()
+    assert gone() is None
