@@ -69,14 +69,19 @@ class Pipe:
             self.ld = s.length / dj  # as _fold
             self.ke = s.minor_k + 2 * g * valve_r * area * area
         else:
-            self.d = [s.diameter for s in segs]
-            self.length = [s.length for s in segs]
-            self.eps = [s.roughness for s in segs]
-            self.k = [s.minor_k for s in segs]
-            self.rr = [s.roughness / s.diameter for s in segs]
-            self.a3 = [rr / 3.7 for rr in self.rr]
-            self.area = [math.pi * s.diameter**2 / 4 for s in segs]
-            self.c = [s.hw_c if s.hw_c is not None else math.nan for s in segs]
+            self.d, self.length, self.eps, self.k = [], [], [], []
+            self.rr, self.a3, self.area, self.c = [], [], [], []
+            for s in segs:
+                dj = s.diameter
+                rr = s.roughness / dj
+                self.d.append(dj)
+                self.length.append(s.length)
+                self.eps.append(s.roughness)
+                self.k.append(s.minor_k)
+                self.rr.append(rr)
+                self.a3.append(rr / 3.7)
+                self.area.append(math.pi * dj**2 / 4)
+                self.c.append(s.hw_c if s.hw_c is not None else math.nan)
             self.ld = self.ke = math.nan
         self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
         self.one_colebrook = self.n == 1 and model == "colebrook"

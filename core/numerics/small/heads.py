@@ -33,7 +33,7 @@ def pipes_of(network: Network) -> list[Pipe]:
     global _last
     last = _last
     if last is not None and last[0]() is network:
-        return [p.copy() for p in last[1]]
+        return list(map(Pipe.copy, last[1]))
     nu = network.fluid.kinematic_viscosity
     g, model = network.gravity, network.friction
     pipes = [Pipe(b, nu, g, model) for b in network.branches]

@@ -78,11 +78,12 @@ def build_result(
                 major.append(-p.major[0])
                 minor.append(-p.minor[0])
         else:
-            vs = [q / a for a in p.area]
-            if not max(abs(v) for v in vs) <= MAX_VELOCITY:
-                raise Fallback("bounds")
+            for a in p.area:
+                v = q / a
+                if not abs(v) <= MAX_VELOCITY:
+                    raise Fallback("bounds")
+                velocity.append(v)
             seg_branch += [b] * p.n
-            velocity += vs
             reynolds += p.re
             friction += p.f
             if q > 0:
