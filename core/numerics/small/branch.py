@@ -262,12 +262,14 @@ class Pipe:
             if last:
                 break
             for j in range(n):
-                re = max(q / area[j] * d[j] / nu, 1e-300)
-                # max(64/Re, Swamee–Jain's f at max(Re, 1)), written out (its slope unused)
+                # max(64/Re, Swamee–Jain's f at max(Re, 1)) with Re ≥ 1e-300, written out (the
+                # slope unused; each max as the builtin's: the first unless the other is more)
+                re = q / area[j] * d[j] / nu
+                re = 1e-300 if 1e-300 > re else re
                 laminar = 64 / re
-                lg = _log10(a3[j] + 5.74 * max(re, 1.0)**-0.9)
+                lg = _log10(a3[j] + 5.74 * (1.0 if 1.0 > re else re)**-0.9)
                 turbulent = 0.25 / lg**2
-                f[j] = max(laminar, turbulent)
+                f[j] = turbulent if turbulent > laminar else laminar
         return q if math.isfinite(q) and q > 0 else 1e-6
 
     def _newton(self, head: float, guess: float) -> int:
@@ -289,7 +291,7 @@ class Pipe:
                 hi = x
             s = self.s
             step = resid / (s if s > 0 else 1.0)
-            step = min(max(step, -8.0), 8.0)
+            step = -8.0 if -8.0 > step else (8.0 if step > 8.0 else step)  # min(max(…, −8), 8)
             trial = x - step
             if lo < trial < hi:
                 x = trial
