@@ -104,10 +104,11 @@ def collect_warnings(net: Network, a: Arrays, conv: Convergence) -> list[SolveWa
 
 def collect_warnings_small(
     net: Network, flow: Sequence[float], seg_branch: Sequence[int], velocity: Sequence[float],
-    reynolds: Sequence[float], rr: Sequence[float], conv: Convergence,
+    reynolds: Sequence[float], conv: Convergence,
 ) -> list[SolveWarning]:
-    """The same warnings from plain lists, one entry a segment (ε/D in ``rr``) or a branch
-    (``flow``): a network of a few branches, with no numpy call."""
+    """The same warnings from plain lists, one entry a segment or a branch (``flow``): a
+    network of a few branches, with no numpy call."""
+    rr = [s.roughness / s.diameter for b in net.branches for s in b.segments]
     rule = _Rule(net)
     found: dict[str, list[Flag]] = {}
     for s, b in enumerate(seg_branch):

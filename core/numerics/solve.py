@@ -15,6 +15,7 @@ answer exists a :class:`NoSolutionError` states the limit that was hit.
 from __future__ import annotations
 
 import math
+import weakref
 from dataclasses import replace
 from functools import partial
 
@@ -49,8 +50,7 @@ from .small import SMALL_BRANCHES, try_solve
 def solve(network: Network, given: Given, find: Find | None = None) -> Result:
     """Solve ``network`` for ``find`` (default: the flows) with ``given`` fixing the head."""
     find = FindFlows() if find is None else find
-    _check_friction(network)
-    _check_resistance(network)
+    _check_network(network)
     _check_given(network, given)
     infos: list[RootInfo] = []
     solved: Solved | None = None
@@ -91,6 +91,20 @@ def pressure_drop_for(network: Network, head: float) -> float:
 
 
 # ---- what the network allows ---------------------------------------------------------------
+
+_passed: weakref.ref[Network] | None = None
+"""The last network that passed :func:`_check_network` (a weak reference: it is not kept
+alive): a network is frozen, so a later solve of the same object need not check it again."""
+
+
+def _check_network(network: Network) -> None:
+    global _passed
+    if _passed is not None and _passed() is network:
+        return
+    _check_friction(network)
+    _check_resistance(network)
+    _passed = weakref.ref(network)
+
 
 def _check_friction(network: Network) -> None:
     """Hazen–Williams is an empirical fit for water: refused for any other liquid."""

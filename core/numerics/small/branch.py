@@ -37,6 +37,9 @@ class Fallback(Exception):
 class Pipe:
     """One branch's constants (SI) and the state of its last evaluation.
 
+    The constants' lists may be shared with other pipes of the same branch (:meth:`copy`):
+    only a pipe that owns them (``owned``) changes them, by :meth:`set_segment`.
+
     After :meth:`evaluate` at |Q| = q: ``h`` (m), ``s`` = d ln h / d ln Q, and per segment
     ``re``, ``f``, ``fs`` (d ln f / d ln Re), ``major`` and ``minor`` (m, for the flow's
     magnitude)."""
@@ -47,37 +50,83 @@ class Pipe:
     major: list[float]
     minor: list[float]
 
-    __slots__ = ("d", "length", "rr", "k", "area", "c", "eps", "valve_r", "nu", "g", "model",
-                 "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs")
+    __slots__ = ("d", "length", "rr", "a3", "k", "area", "c", "eps", "valve_r", "nu", "g",
+                 "model", "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs",
+                 "one_colebrook", "owned", "ld", "ke")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
         segs = br.segments
+        kv = br.valve_kv
+        self.valve_r = valve_r = VALVE_HEAD_FACTOR / (kv**2 * g) if kv is not None else 0.0
         if len(segs) == 1:
             s = segs[0]
             dj = s.diameter
             self.d, self.length, self.eps, self.k = [dj], [s.length], [s.roughness], [s.minor_k]
-            self.rr, self.area = [s.roughness / dj], [math.pi * dj**2 / 4]
+            rr = s.roughness / dj
+            area = math.pi * dj**2 / 4
+            self.rr, self.a3, self.area = [rr], [rr / 3.7], [area]
             self.c = [s.hw_c if s.hw_c is not None else math.nan]
+            self.ld = s.length / dj  # as _fold
+            self.ke = s.minor_k + 2 * g * valve_r * area * area
         else:
-            self.d = [s.diameter for s in segs]
-            self.length = [s.length for s in segs]
-            self.eps = [s.roughness for s in segs]
-            self.k = [s.minor_k for s in segs]
-            self.rr = [s.roughness / s.diameter for s in segs]
-            self.area = [math.pi * s.diameter**2 / 4 for s in segs]
-            self.c = [s.hw_c if s.hw_c is not None else math.nan for s in segs]
-        kv = br.valve_kv
-        self.valve_r = VALVE_HEAD_FACTOR / (kv**2 * g) if kv is not None else 0.0
+            self.d, self.length, self.eps, self.k = [], [], [], []
+            self.rr, self.a3, self.area, self.c = [], [], [], []
+            for s in segs:
+                dj = s.diameter
+                rr = s.roughness / dj
+                self.d.append(dj)
+                self.length.append(s.length)
+                self.eps.append(s.roughness)
+                self.k.append(s.minor_k)
+                self.rr.append(rr)
+                self.a3.append(rr / 3.7)
+                self.area.append(math.pi * dj**2 / 4)
+                self.c.append(s.hw_c if s.hw_c is not None else math.nan)
+            self.ld = self.ke = math.nan
         self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
+        self.one_colebrook = self.n == 1 and model == "colebrook"
+        self.owned = True
         self.h = self.s = self.q = math.nan
         self.x = 0.0
         self.xs = [0.0] * len(segs)
 
+    def copy(self, own: bool = False) -> Pipe:
+        """A pipe of the same branch with no state (as new): its constants' lists shared with
+        this one, or copied with ``own`` (a pipe whose segment will be changed)."""
+        new = Pipe.__new__(Pipe)
+        if own:
+            new.d, new.length, new.eps = list(self.d), list(self.length), list(self.eps)
+            new.rr, new.a3, new.area = list(self.rr), list(self.a3), list(self.area)
+        else:
+            new.d, new.length, new.eps = self.d, self.length, self.eps
+            new.rr, new.a3, new.area = self.rr, self.a3, self.area
+        new.k, new.c, new.valve_r = self.k, self.c, self.valve_r
+        new.nu, new.g, new.model, new.n = self.nu, self.g, self.model, self.n
+        new.one_colebrook, new.owned, new.ld, new.ke = self.one_colebrook, own, self.ld, self.ke
+        new.h = new.s = new.q = math.nan
+        new.x = 0.0
+        new.xs = [0.0] * self.n
+        return new
+
     def set_segment(self, j: int, diameter: float, length: float, roughness: float) -> None:
-        """Change segment ``j`` (m): an unknown being sought."""
+        """Change segment ``j`` (m): an unknown being sought (on a pipe that owns its lists)."""
+        if not self.owned:
+            raise ValueError("a pipe that shares its constants cannot change them (copy(own=True))")
         self.d[j], self.length[j], self.eps[j] = diameter, length, roughness
         self.rr[j] = roughness / diameter
+        self.a3[j] = self.rr[j] / 3.7
         self.area[j] = math.pi * diameter**2 / 4
+        self._fold()
+
+    def _fold(self) -> None:
+        """L/D and the fittings' and valve's K together (``ke``) of a one-segment branch, for
+        :meth:`_colebrook_one` (NaN for several segments)."""
+        if self.n == 1:
+            area = self.area[0]
+            self.ld = self.length[0] / self.d[0]
+            self.ke = self.k[0] + 2 * self.g * self.valve_r * area * area
+        else:
+            self.ld = self.ke = math.nan
 
     def friction(self, j: int, re: float) -> tuple[float, float]:
         if self.model == "hazen-williams":
@@ -89,7 +138,7 @@ class Pipe:
         two_g = 2 * self.g
         colebrook = self.model == "colebrook"
         nu = self.nu
-        area, dia, length, k = self.area, self.d, self.length, self.k
+        area, dia, length, k, xs, a3 = self.area, self.d, self.length, self.k, self.xs, self.a3
         re_l: list[float] = []
         f_l: list[float] = []
         fs_l: list[float] = []
@@ -101,7 +150,24 @@ class Pipe:
             v = q / area[j]
             re = v * d / nu
             if colebrook and re >= RE_TURBULENT:
-                f, fs = self._colebrook(j, re)
+                # Colebrook's f and d ln f / d ln Re, Newton started from this segment's last
+                # root (a nearby flow's) and run until the next step would be below round-off.
+                x = xs[j]
+                a = a3[j]
+                c = 2.51 / re
+                if x > 0:
+                    for _ in range(50):
+                        arg = a + c * x
+                        step = (x + 2.0 * _log10(arg)) / (1.0 + 2.0 * c / (LN10 * arg))
+                        x -= step
+                        if abs(step) <= 1e-8 * x:  # the next step would be below round-off
+                            break
+                else:
+                    x = fr.colebrook_x(re, self.rr[j])
+                xs[j] = x
+                arg = a + c * x
+                f = x**-2.0
+                fs = -4.0 * c / (LN10 * arg) / (1.0 + 2.0 * c / (LN10 * arg))
             else:
                 f, fs = self.friction(j, re)
             vel_head = v * v / two_g
@@ -122,33 +188,13 @@ class Pipe:
         self.s = dh / h if h != 0 else 2.0
         return h
 
-    def _colebrook(self, j: int, re: float) -> tuple[float, float]:
-        """Colebrook's f and d ln f / d ln Re, Newton started from this segment's last root
-        (a nearby flow's) and run until the next step would be below round-off."""
-        x = self.xs[j]
-        a = self.rr[j] / 3.7
-        c = 2.51 / re
-        if x > 0:
-            for _ in range(50):
-                arg = a + c * x
-                step = (x + 2.0 * _log10(arg)) / (1.0 + 2.0 * c / (LN10 * arg))
-                x -= step
-                if abs(step) <= 1e-8 * x:  # the next step would be below round-off
-                    break
-        else:
-            x = fr.colebrook_x(re, self.rr[j])
-        self.xs[j] = x
-        arg = a + c * x
-        dg_dx = 1.0 + 2.0 * c / (LN10 * arg)
-        return x**-2.0, -4.0 * c / (LN10 * arg) / dg_dx
-
     # ---- the flow at a head ------------------------------------------------------------------
 
     def flow_at(self, head: float, guess: float = 0.0) -> int:
         """Set the state to the flow at driving head ``head`` > 0 (m); returns the iterations.
         ``guess``: a starting |Q| (m³/s), 0 for none. Raises :class:`Fallback` when the test
         of the vectorised solver is not met."""
-        if self.n == 1 and self.model == "colebrook":
+        if self.one_colebrook:
             it = self._colebrook_one(head)
             if it:
                 return it
@@ -159,9 +205,8 @@ class Pipe:
         0 when the flow is not turbulent (the general solver takes it)."""
         d, length, nu, g = self.d[0], self.length[0], self.nu, self.g
         area = self.area[0]
-        a = self.rr[0] / 3.7
-        ld = length / d
-        ke = self.k[0] + 2 * g * self.valve_r * area * area
+        a = self.a3[0]
+        ld, ke = self.ld, self.ke
         c0 = 2.51 * nu / (d * _sqrt(2 * g * head))
         it = 1
         if ke == 0:
@@ -204,7 +249,7 @@ class Pipe:
     def _start(self, head: float) -> float:
         """Two fixed-point passes from f = 0.02, as the vectorised solver starts."""
         g, n, nu = self.g, self.n, self.nu
-        area, d, length, k, rr = self.area, self.d, self.length, self.k, self.rr
+        area, d, length, k, a3 = self.area, self.d, self.length, self.k, self.a3
         f = [0.02] * n
         q = math.nan
         for last in (False, True):
@@ -217,19 +262,27 @@ class Pipe:
             if last:
                 break
             for j in range(n):
-                re = max(q / area[j] * d[j] / nu, 1e-300)
-                f[j] = max(64 / re, fr.swamee_jain(max(re, 1.0), rr[j])[0])
+                # max(64/Re, Swamee–Jain's f at max(Re, 1)) with Re ≥ 1e-300, written out (the
+                # slope unused; each max as the builtin's: the first unless the other is more)
+                re = q / area[j] * d[j] / nu
+                re = 1e-300 if 1e-300 > re else re
+                laminar = 64 / re
+                lg = _log10(a3[j] + 5.74 * (1.0 if 1.0 > re else re)**-0.9)
+                turbulent = 0.25 / lg**2
+                f[j] = turbulent if turbulent > laminar else laminar
         return q if math.isfinite(q) and q > 0 else 1e-6
 
     def _newton(self, head: float, guess: float) -> int:
         """Safeguarded Newton on ln h against ln Q (the vectorised ``flows_at_head``)."""
         x = _log(guess if guess > 0 and math.isfinite(guess) else self._start(head))
         ln_t = _log(head)
-        lo, hi = -math.inf, math.inf
+        inf = math.inf
+        lo, hi = -inf, inf
         eps4 = 4 * 2.220446049250313e-16
+        evaluate = self.evaluate
         for it in range(1, MAX_ITER + 1):
-            h = self.evaluate(_exp(x))
-            resid = _log(h) - ln_t if h > 0 else -math.inf
+            h = evaluate(_exp(x))
+            resid = _log(h) - ln_t if h > 0 else -inf
             if abs(resid) <= HEAD_RTOL:
                 return it
             if resid < 0:
@@ -238,7 +291,7 @@ class Pipe:
                 hi = x
             s = self.s
             step = resid / (s if s > 0 else 1.0)
-            step = min(max(step, -8.0), 8.0)
+            step = -8.0 if -8.0 > step else (8.0 if step > 8.0 else step)  # min(max(…, −8), 8)
             trial = x - step
             if lo < trial < hi:
                 x = trial
@@ -246,7 +299,8 @@ class Pipe:
                 x = 0.5 * (lo + hi)
             else:
                 x = hi - 8 if math.isfinite(hi) else lo + 8
-            if hi - lo <= eps4 * max(1.0, abs(x)):
+            span = hi - lo
+            if span != inf and span <= eps4 * max(1.0, abs(x)):  # inf: one end still open
                 break
         raise Fallback("no flow to the vectorised test")
 

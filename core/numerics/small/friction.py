@@ -48,7 +48,8 @@ def colebrook_x(re: float, rr: float) -> float:
     """1/√f by Newton from Swamee–Jain, stopped as the vectorised solver stops."""
     a = rr / 3.7
     c = 2.51 / re
-    x = 1.0 / math.sqrt(swamee_jain(re, rr)[0])
+    lg = _log10(a + 5.74 * re**-0.9)  # Swamee–Jain's f (as swamee_jain) is the start
+    x = 1.0 / math.sqrt(0.25 / lg**2)
     for i in range(50):
         arg = a + c * x
         step = (x + 2.0 * _log10(arg)) / (1.0 + 2.0 * c / (LN10 * arg))

@@ -9,6 +9,7 @@ started from its last flow moved along its own slope.
 from __future__ import annotations
 
 import math
+import weakref
 from collections.abc import Sequence
 
 from ...model import Network
@@ -19,10 +20,27 @@ _log = math.log
 _exp = math.exp
 
 
+_last: tuple[weakref.ref[Network], tuple[Pipe, ...]] | None = None
+"""The last network given to :func:`pipes_of` (a weak reference: it is not kept alive) and its
+pipes as first made: a network is frozen, so their constants serve every later solve of the
+same object (a script solving it in several directions, say) without being worked out again.
+One network's are kept, no more; a network met anew (the app builds one for each edit) pays
+for its pipes as before."""
+
+
 def pipes_of(network: Network) -> list[Pipe]:
+    """A pipe for each branch, with no state; their constants are shared (``Pipe.copy``)."""
+    global _last
+    last = _last
+    if last is not None and last[0]() is network:
+        return list(map(Pipe.copy, last[1]))
     nu = network.fluid.kinematic_viscosity
     g, model = network.gravity, network.friction
-    return [Pipe(b, nu, g, model) for b in network.branches]
+    pipes = [Pipe(b, nu, g, model) for b in network.branches]
+    for p in pipes:
+        p.owned = False  # kept for the next solve of this network: never changed in place
+    _last = (weakref.ref(network), tuple(pipes))  # the caller's list may be changed, not this
+    return pipes
 
 
 def flows_at(pipes: Sequence[Pipe], head: float) -> tuple[list[float], int]:
@@ -32,9 +50,13 @@ def flows_at(pipes: Sequence[Pipe], head: float) -> tuple[list[float], int]:
     sign = 1.0 if head > 0 else -1.0
     t = abs(head)
     iterations = 0
+    flows: list[float] = []
     for p in pipes:
-        iterations = max(iterations, p.flow_at(t))
-    return [sign * p.q for p in pipes], iterations
+        it = p.flow_at(t)
+        if it > iterations:
+            iterations = it
+        flows.append(sign * p.q)
+    return flows, iterations
 
 
 def head_for_total(pipes: Sequence[Pipe], total: float) -> tuple[float, int, float]:

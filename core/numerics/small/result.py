@@ -59,7 +59,6 @@ def build_result(
     major: list[float] = []
     minor: list[float] = []
     valve: list[float] = []
-    rr: list[float] = []
     for b, p in enumerate(pipes):
         q = flows[b]
         if not (abs(q) <= MAX_FLOW and q != 0):  # NaN fails too
@@ -72,7 +71,6 @@ def build_result(
             velocity.append(v)
             reynolds.append(p.re[0])
             friction.append(p.f[0])
-            rr.append(p.rr[0])
             if q > 0:
                 major.append(p.major[0])
                 minor.append(p.minor[0])
@@ -80,14 +78,14 @@ def build_result(
                 major.append(-p.major[0])
                 minor.append(-p.minor[0])
         else:
-            vs = [q / a for a in p.area]
-            if not max(abs(v) for v in vs) <= MAX_VELOCITY:
-                raise Fallback("bounds")
+            for a in p.area:
+                v = q / a
+                if not abs(v) <= MAX_VELOCITY:
+                    raise Fallback("bounds")
+                velocity.append(v)
             seg_branch += [b] * p.n
-            velocity += vs
             reynolds += p.re
             friction += p.f
-            rr += p.rr
             if q > 0:
                 major += p.major
                 minor += p.minor
@@ -103,6 +101,6 @@ def build_result(
         pressure_drop=fl.density * network.gravity * (head + network.elevation_change),
         driving_head=head, total_flow=numpy_sum(flows), arrays=arrays, solved=solved,
         warning_source=partial(collect_warnings_small, network, flows, seg_branch, velocity,
-                               reynolds, rr, conv),
+                               reynolds, conv),
         convergence=conv,
     )

@@ -65,7 +65,7 @@ def _solve(network: Network, given: Given, find: Find, index: int | None) -> Res
         head = _head_for_unknown(network, pipes, given, find, index, measured, infos)
         SOLVERS[find.quantity].check(network, find, index)  # an InputError, as the other path
         br = network.branches[index]
-        pipe = pipes[index]
+        pipe = pipes[index].copy(own=True)  # its segment is changed while sought
         quantity, j, q = find.quantity, find.segment, find.target_flow
         value = getattr(unknowns, quantity)(pipe, j, q, head)
         new_branch = with_value(br, j, quantity, value)
@@ -92,12 +92,21 @@ def _solve(network: Network, given: Given, find: Find, index: int | None) -> Res
     if measured is not None:
         flows[measured] = given.value
         pipes[measured].evaluate(abs(given.value))
-    conv = Convergence(converged=all(i[0] for i in infos),
-                       iterations=sum(i[1] for i in infos),
-                       residual=max((i[2] for i in infos), default=0.0))
+    conv = _convergence(infos)
     if not conv.converged:
         raise Fallback("not converged")
     return build_result(network, given, find, pipes, head, flows, solved, conv)
+
+
+def _convergence(infos: list[tuple[bool, int, float]]) -> Convergence:
+    """Every part converged, the iterations added up, the largest residual (one part, the
+    common case, as it is)."""
+    if len(infos) == 1:
+        ok, iterations, residual = infos[0]
+        return Convergence(converged=ok, iterations=iterations, residual=residual)
+    return Convergence(converged=all(i[0] for i in infos),
+                       iterations=sum(i[1] for i in infos),
+                       residual=max((i[2] for i in infos), default=0.0))
 
 
 def _head_for_unknown(network: Network, pipes: list[Pipe], given: Given, find: FindUnknown,

@@ -31,6 +31,20 @@ def test_a_branch_with_no_resistance_is_refused_by_name(given) -> None:
     assert "no resistance" in caught.value.reason
 
 
+def test_a_network_is_refused_each_time_it_is_solved() -> None:
+    """A network that failed the checks fails them again (solves of other networks between):
+    only one that passed is spared them the next time."""
+    bad = Network(WATER, (PIPE, Branch("Empty", (Segment(0.1, 0.0, 4.5e-5),))))
+    good = Network(WATER, (PIPE,))
+    for _ in range(2):
+        for given in (PressureDrop(5e4), TotalFlow(0.05)):
+            with pytest.raises(InputError) as caught:
+                solve(bad, given)
+            assert caught.value.field == "branches[1].length"
+            assert np.isfinite(solve(good, given).total_flow)
+            assert np.isfinite(solve(good, given).total_flow)
+
+
 def test_fittings_alone_or_a_valve_alone_are_resistance_enough() -> None:
     fittings = Branch("Fittings", (Segment(0.1, 0.0, 4.5e-5, 2.0),))
     valve = Branch("Valve", (Segment(0.1, 0.0, 4.5e-5),), 120.0)

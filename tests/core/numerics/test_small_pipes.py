@@ -1,0 +1,124 @@
+"""The small path's pipes: a network's constants worked out once and shared by later solves of
+the same network, never changed by one of them (a found diameter, length or roughness is sought
+on a pipe of its own).
+
+The reference is a fresh, equal network solved first: the answers of a network solved again must
+be the same to the last bit, whatever was sought on it in between.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from branchwise.core.model import (
+    Branch,
+    FindFlows,
+    FindUnknown,
+    Fluid,
+    Network,
+    PressureDrop,
+    Segment,
+    TotalFlow,
+)
+from branchwise.core.numerics.small.branch import Pipe
+from branchwise.core.numerics.small.heads import pipes_of
+from branchwise.core.numerics.solve import solve
+
+WATER = Fluid("water 20 °C", 998.2, 1.0016e-3, "water")
+"""IAPWS values near 20 °C (see the field notes)."""
+
+
+def network() -> Network:
+    return Network(WATER, (
+        Branch("a", (Segment(0.1, 40.0, 4.5e-5, 3.0), Segment(0.08, 10.0, 4.5e-5, 1.0))),
+        Branch("b", (Segment(0.15, 60.0, 4.5e-5, 6.0),), 90.0),
+        Branch("c", (Segment(0.05, 25.0, 1.5e-6, 0.0),)),
+    ))
+
+
+def same(a, b) -> None:
+    assert a.driving_head == b.driving_head and a.total_flow == b.total_flow
+    for name in ("flow", "velocity", "reynolds", "friction_factor", "major", "minor", "valve"):
+        assert np.array_equal(getattr(a.arrays, name), getattr(b.arrays, name)), name
+    assert a.convergence == b.convergence
+    assert a.solved == b.solved
+    assert [w.message for w in a.warnings] == [w.message for w in b.warnings]
+
+
+@pytest.mark.parametrize(("quantity", "factor"),
+                         [("diameter", 1.1), ("length", 0.9), ("roughness", 0.9)])
+def test_a_network_solved_again_gives_the_same_answer(quantity, factor):
+    net = network()
+    given = PressureDrop(40e3)
+    total = TotalFlow(0.04)
+    first, by_total = solve(network(), given), solve(network(), total)  # the references
+    find = FindUnknown(quantity, "a", float(first.flows[0]) * factor, 1)
+    found = solve(network(), given, find)
+    for _ in range(2):
+        # Each solve of ``net`` follows one of another network, so that ``net`` is met both
+        # as a new network (its pipes made) and as the last one (its pipes' constants reused).
+        same(solve(net, given, find), found)
+        same(solve(net, given, find), found)
+        same(solve(net, given), first)
+        same(solve(network(), total), by_total)
+        same(solve(net, total), by_total)
+    assert net == network()
+
+
+def test_a_pipe_shares_its_constants_until_it_owns_them():
+    net = network()
+    shared = pipes_of(net)
+    again = pipes_of(net)
+    assert again[0] is not shared[0] and again[0].d is shared[0].d
+    assert not again[0].owned
+    with pytest.raises(ValueError, match="shares its constants"):
+        again[0].set_segment(0, 0.2, 40.0, 4.5e-5)
+    own = again[0].copy(own=True)
+    own.set_segment(0, 0.2, 40.0, 4.5e-5)
+    assert shared[0].d == [0.1, 0.08] and own.d == [0.2, 0.08]
+    fresh = Pipe(net.branches[0], WATER.kinematic_viscosity, net.gravity, net.friction)
+    assert fresh.owned and fresh.a3 == [4.5e-5 / 0.1 / 3.7, 4.5e-5 / 0.08 / 3.7]
+
+
+def test_a_copy_starts_as_a_new_pipe():
+    net = network()
+    pipes = pipes_of(net)
+    for p in pipes:
+        p.flow_at(3.0)
+    for old, new in zip(pipes, pipes_of(net), strict=True):
+        made = Pipe(net.branches[pipes.index(old)], WATER.kinematic_viscosity, net.gravity,
+                    net.friction)
+        assert new.x == made.x == 0.0 and new.xs == made.xs
+        assert new.flow_at(3.0) == made.flow_at(3.0) and new.q == made.q
+
+
+def test_flows_are_the_default_find():
+    net = network()
+    same(solve(net, PressureDrop(1e4)), solve(net, PressureDrop(1e4), FindFlows()))
+
+
+def test_a_changed_segment_is_the_new_branchs():
+    """A one-segment branch's folded constants (L/D, the fittings' and valve's K) follow a
+    change of its segment."""
+    net = network()
+    nu = WATER.kinematic_viscosity
+    own = Pipe(net.branches[1], nu, net.gravity, net.friction)
+    own.set_segment(0, 0.12, 30.0, 1e-4)
+    changed = Branch("b", (Segment(0.12, 30.0, 1e-4, 6.0),), 90.0)
+    made = Pipe(changed, nu, net.gravity, net.friction)
+    assert (own.ld, own.ke) == (made.ld, made.ke)
+    assert own.flow_at(3.0) == made.flow_at(3.0) and own.q == made.q and own.h == made.h
+
+
+def test_a_solved_network_is_not_kept_alive():
+    import gc
+    import weakref
+
+    net = network()
+    solve(net, PressureDrop(1e4))
+    solve(net, PressureDrop(1e4))
+    gone = weakref.ref(net)
+    del net
+    gc.collect()
+    assert gone() is None
