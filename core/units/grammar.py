@@ -18,6 +18,8 @@ if TYPE_CHECKING:
 
 GAUGE = {"psig": "psi", "barg": "bar", "kpag": "kPa"}
 """Gauge-pressure spellings, refused in a pressure difference, with the unit to write instead."""
+ABSOLUTE = {"psia": "psi", "bara": "bar", "kpaa": "kPa"}
+"""Absolute-pressure spellings, likewise: the unit alone says it where a pressure is absolute."""
 
 _TOKEN = re.compile(
     r"\s*(?:(\*\*|\^)|([*/·()])|([^\W\d][\w°µ]*|°[CF]|[℃℉″”′’%\"'])|([+-]?\d+)|(\S))")
@@ -60,7 +62,7 @@ def unit_expression(ureg: pint.UnitRegistry[Any], text: str, field: str, value: 
                     name = f"{stem.group(1)}**{stem.group(2)}"
                 else:
                     raise InputError(field, value,
-                                     f"unknown unit '{describe(name, 40)}'{hint(name)}")
+                                     f"unknown unit '{describe(name, 40)}'{hint(name, field)}")
             if not expect_operand:
                 out.append("*")
             out.append(name)
@@ -123,11 +125,23 @@ def is_unit(ureg: pint.UnitRegistry[Any], name: str) -> bool:
         return False
 
 
-def hint(name: str) -> str:
-    """A short suggestion for an unknown unit name ('' when there is none)."""
-    if name.casefold() in GAUGE:
-        return (f" (a pressure difference has no gauge offset: write "
-                f"{GAUGE[name.casefold()]}; an absolute pressure needs the atmosphere added)")
+ATMOSPHERE = {"psi": "14.696 psi", "bar": "1.01325 bar", "kPa": "101.325 kPa"}
+"""The standard atmosphere (101 325 Pa, by definition) in each gauge unit's own unit."""
+
+
+def hint(name: str, field: str = "") -> str:
+    """A short suggestion for an unknown unit name ('' when there is none); ``field``: where
+    it was typed (an absolute pressure is told to add the atmosphere)."""
+    key = name.casefold()
+    if key in GAUGE or key in ABSOLUTE:
+        unit = GAUGE.get(key) or ABSOLUTE[key]
+        if field.endswith("pressure") and not field.endswith("pressure_drop"):  # absolute
+            if key in ABSOLUTE:
+                return f" (this pressure is absolute already: write {unit})"
+            return (f" (a gauge reading; this pressure is absolute: add the atmosphere, "
+                    f"{ATMOSPHERE[unit]}, and write {unit})")
+        return (f" (a pressure difference has no gauge offset: write {unit}; an absolute "
+                "pressure needs the atmosphere added)")
     from .kinds import KINDS
 
     known = {c for k in KINDS.values() for c in k.choices} | {"psid", "gpm", "degC", "degF"}

@@ -200,3 +200,16 @@ def test_gauge_units_and_bare_scales_elsewhere_are_refused_with_a_reason(text, k
     with pytest.raises(InputError) as err:
         units.parse_quantity(text, kind, "conditions.pressure_drop")
     assert err.value.field == "conditions.pressure_drop"
+
+
+@pytest.mark.parametrize(("text", "words"), [
+    ("10 psig", "add the atmosphere, 14.696 psi, and write psi"),
+    ("2 barg", "add the atmosphere, 1.01325 bar, and write bar"),
+    ("10 psia", "absolute already: write psi")])
+def test_gauge_and_absolute_spellings_in_an_absolute_pressure_say_what_to_write(text, words):
+    """The liquid's pressure is absolute: following the difference's advice ("write psi") for
+    10 psig would give a pressure 14.7 psi low. The standard atmosphere is 101 325 Pa by
+    definition (ISO 2533): 14.696 psi, 1.01325 bar (psi = 6894.757 Pa, NIST SP 811)."""
+    with pytest.raises(InputError) as err:
+        units.parse_quantity(text, "pressure", "fluid.pressure")
+    assert words in err.value.reason
