@@ -137,6 +137,9 @@ def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: s
         raise InputError(field, shown, f"cannot read the unit: {exc}") from None
     if value is None:
         raise InputError(field, shown, wrong_dimension(kind, spec, typed, units))
+    if kind == "temperature" and "delta_" in expression:  # read as kelvins above 0 K
+        raise InputError(field, shown, "is a temperature difference, not a temperature: write "
+                         "degC, degF or K")
     if grouped and not _us_customary(ureg, expression):
         raise InputError(field, shown, "has a comma that may group thousands or mark decimals; "
                          "with metric units write the number without it (2000, or 2.000)")

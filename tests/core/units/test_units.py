@@ -213,3 +213,11 @@ def test_gauge_and_absolute_spellings_in_an_absolute_pressure_say_what_to_write(
     with pytest.raises(InputError) as err:
         units.parse_quantity(text, "pressure", "fluid.pressure")
     assert words in err.value.reason
+
+
+def test_a_temperature_difference_unit_is_no_temperature():
+    """6.667 delta_degC is a difference of 6.667 K; as a temperature it was read as 6.667 K
+    above absolute zero and refused as below freezing, a reason that misled."""
+    with pytest.raises(InputError) as err:
+        units.parse_quantity("6.667 delta_degC", "temperature", "fluid.temperature")
+    assert "temperature difference, not a temperature" in err.value.reason
