@@ -41,7 +41,7 @@ def run_presets(action: str, kind: str | None, key: str | None, values: list[str
                          "over a preset; give yours another key (such as site-" + key + ")")
     checked = check_preset(kind, key, pairs)
     if kind == "fluids":
-        _try_liquid(key, checked)
+        _try_liquid(key, checked, pairs)
     replaced = presets.is_user(kind, key)
     presets.put(kind, key, checked)
     print(f"{'replaced' if replaced else 'saved'} {kind} preset '{key}' in {presets.path}",
@@ -49,9 +49,10 @@ def run_presets(action: str, kind: str | None, key: str | None, values: list[str
     return 0
 
 
-def _try_liquid(key: str, values: dict[str, object]) -> None:
+def _try_liquid(key: str, values: dict[str, object], typed: dict[str, str]) -> None:
     """Work the liquid out once, as a site using it would (at the temperature it gives, or
-    20 °C), so that a value it refuses is said now, under the preset's own name."""
+    20 °C), so that a value it refuses is said now, under the preset's own name and quoted
+    as ``typed`` (not in SI)."""
     from branchwise.core.site.liquid import build_fluid
     from branchwise.core.site.spec import FluidSpec, Site
 
@@ -73,7 +74,8 @@ def _try_liquid(key: str, values: dict[str, object]) -> None:
         build_fluid(site, _Only())
     except InputError as exc:
         field = exc.field.removeprefix("fluid.")
-        raise InputError(f"fluids.{key}.{field}", exc.marked_value, exc.marked_reason) from None
+        shown = typed[field] if field in typed else exc.marked_value
+        raise InputError(f"fluids.{key}.{field}", shown, exc.marked_reason) from None
 
 
 def _list(kind: str, presets, out: TextIO) -> None:

@@ -95,3 +95,11 @@ def test_demo_site_still_solves_with_presets_present(capsys):
     assert "AHU-1 coil" in demo_text()
     code, out, _ = run("solve", capsys=capsys)
     assert code == 0 and "AHU-1 coil" in out
+
+
+def test_a_refused_preset_value_is_quoted_as_typed(data_dir, capsys):
+    """A custom liquid takes no temperature: refused, quoting '500degC' (it quoted 773.15)."""
+    code, _, err = run("presets", "add", "fluids", "hot", "density=900 kg/m^3",
+                       "kinematic_viscosity=1 cSt", "temperature=500degC", capsys=capsys)
+    assert code == 2 and "fluids.hot.temperature" in err
+    assert "got 500degC" in err and "773" not in err
