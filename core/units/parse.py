@@ -143,7 +143,7 @@ def _to_si(number: float, unit: str, spec: Kind, kind: str, field: str, shown: s
     if grouped and not _us_customary(ureg, expression):
         raise InputError(field, shown, "has a comma that may group thousands or mark decimals; "
                          "with metric units write the number without it (2000, or 2.000)")
-    value = float(value)
+    value = float(value) + 0.0  # -0 m is 0 m (no minus sign carried to an output)
     if not math.isfinite(value):
         raise InputError(field, shown, "is too large to represent")
     return value

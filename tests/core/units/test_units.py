@@ -221,3 +221,8 @@ def test_a_temperature_difference_unit_is_no_temperature():
     with pytest.raises(InputError) as err:
         units.parse_quantity("6.667 delta_degC", "temperature", "fluid.temperature")
     assert "temperature difference, not a temperature" in err.value.reason
+
+
+def test_minus_zero_is_zero():
+    """`-0 m` reached the JSON as -0.0 (IEEE 754 keeps the sign of a zero; x + 0.0 drops it)."""
+    assert math.copysign(1.0, units.parse_quantity("-0 m", "length", "x")) == 1.0
