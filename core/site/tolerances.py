@@ -67,6 +67,7 @@ def temperature_difference(value: Value, path: str) -> float:
     2 °C, not the temperature 2 °C) or ``"3.6 degF"`` (= 2 K)."""
     if not isinstance(value, str):
         raise InputError(path, describe(value), "needs a unit, such as '2 K'")
+    value = value.replace("delta_", "")  # delta_degC: a step of degC, the same difference
     match = _NUMBER_THEN_UNIT.match(value)
     unit = match.group(1).strip() if match else ""
     if not unit:  # parse_quantity names what is wrong: no number, or no unit
