@@ -38,7 +38,7 @@ from ..errors import BranchwiseError
 from ..givens import GIVENS, make_given
 from ..model import Find, FindFlows, FindUnknown, Given, Network, TotalFlow
 from ..numerics.copies import CopiesSolution, solve_copies
-from ..numerics.hydraulics import Array
+from ..numerics.hydraulics import Array, Layout
 from ..numerics.tolerances import Thermal, Tolerances
 from ..numerics.uncertainty import SQRT3, STEP, InputTolerance, build_plan
 from ..site.readings import readings
@@ -126,7 +126,8 @@ class VisitIndicators:
 
 @dataclass(frozen=True)
 class _Spread:
-    """Row 0 the nominal solve, rows 1…n each input at +δ, rows n+1…2n at −δ (δ in units of
+    """Row 0 the nominal solve (every input at the site's own value, as ``solve`` takes it),
+    rows 1…n each input at +δ, rows n+1…2n at −δ about the centre of its range (δ in units of
     its half-width, as :func:`~branchwise.core.numerics.uncertainty.monte_carlo` takes it)."""
 
     inputs: tuple[InputTolerance, ...]
@@ -152,7 +153,16 @@ def _spread(network: Network, given: Given, find: Find, tol: Tolerances,
     z = np.zeros((1 + 2 * n, n))
     z[1 + np.arange(n), np.arange(n)] = STEP
     z[1 + n + np.arange(n), np.arange(n)] = -STEP
-    return _Spread(plan.inputs, solve_copies(network, given, find, plan.variants(z)))
+    variants = plan.variants(z)
+    # z = 0 is the centre of every input's range; for a roughness that is the log-centre of
+    # its factor or range, not the line's own ε. Row 0 is the visit's value, so it takes the
+    # site's own roughness (every other input is at its own value at z = 0): the same
+    # network as the site's solve. The ± rows stay about the centre, as the linear estimate
+    # of the uncertainty module takes them.
+    roughness = variants.roughness.copy()
+    roughness[0] = Layout.from_network(network).roughness
+    return _Spread(plan.inputs, solve_copies(network, given, find,
+                                             replace(variants, roughness=roughness)))
 
 
 def _resistance(head: Array, flow: Array | float) -> Array:
@@ -209,6 +219,9 @@ def visit_indicators(site: Site) -> VisitIndicators:
                 resistance = _unbanded(float(_resistance(np.array(sr.result.driving_head),
                                                          float(sr.result.flows[b]))), False)
             out.append(BranchIndicators(br.name, flow, resistance, None, solved))
+            continue
+        if own.value == 0:  # a line shut or a meter fault: nothing of the line to work out
+            out.append(BranchIndicators(br.name, flow, None, None, solved))
             continue
         r = heads[0]
         given = make_given(r.kind, r.value, r.name)

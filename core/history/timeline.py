@@ -11,13 +11,15 @@ changes and their bands.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
+from datetime import date
 from typing import Any
 
-from ..errors import BranchwiseError, InputError, NoSolutionError
+from ..errors import BranchwiseError, InputError, NoSolutionError, describe
 from ..givens import branch_of, kind_of
 from ..site.spec import Site
 from ..site.visits import naming_visit, today_has_reading, visit_date, visit_site
+from .guard import Row, trendable
 from .indicators import INDICATORS, VisitIndicators, visit_indicators
 from .trends import Trend, trends_of
 
@@ -79,9 +81,16 @@ def history_of(site: Site) -> History:
     """The history of ``site`` (see the module docstring). An error in a visit names that
     visit's field (``visits[1].date``, ``visits[0].measured."AHU-9"``); InputError when the
     site holds no visit at all."""
+    today = _record_date(site)
     order: list[tuple[str, int]] = []
     for i, v in enumerate(site.visits):
-        order.append((visit_date(v.date, f"visits[{i}].date").isoformat(), i))
+        day = visit_date(v.date, f"visits[{i}].date")
+        if today is not None and day > today:
+            raise InputError(f"visits[{i}].date", describe(v.date),
+                             f"after today's record date ({today.isoformat()}, record.date): "
+                             "an earlier visit must be dated on or before today's; correct "
+                             "the one that is wrong")
+        order.append((day.isoformat(), i))
     order.sort()
     indices: list[int | None] = [i for _, i in order]
     if today_has_reading(site):
@@ -89,11 +98,24 @@ def history_of(site: Site) -> History:
     if not indices:
         raise InputError("visits", "nothing", "no visit to look back on: the site holds no "
                          "[[visits]] and no reading today")
-    visits = [_visit(site, i) for i in indices]
+    visits: list[Visit] = []
+    rows: list[list[Row]] = []
+    for index in indices:
+        visit = _visit(site, index)
+        solved, row = trendable(visit.solved, visit.label)
+        visits.append(replace(visit, solved=solved))
+        rows.append(row)
     dates = [v.label for v in visits]
-    rows = [[(b.name, {k: b.get(k) for k in (*INDICATORS, "solved_flow")})
-             for b in v.solved.branches] for v in visits]
     return History(site.title, tuple(visits), tuple(trends_of(dates, rows)))
+
+
+def _record_date(site: Site) -> date | None:
+    """Today's record date, when ``[record] date`` holds one (None: absent or free text)."""
+    typed = site.record.date if site.record is not None else None
+    try:
+        return visit_date(typed, "record.date") if typed is not None else None
+    except InputError:
+        return None
 
 
 def _visit(site: Site, index: int | None) -> Visit:
@@ -101,6 +123,8 @@ def _visit(site: Site, index: int | None) -> Visit:
         own = visit_site(site, index)
         solved = visit_indicators(own)
     except BranchwiseError as exc:
+        if not exc.names:  # an error of the visit's own readings: its branches by name
+            exc.naming([b.name for b in site.branches])
         named = naming_visit(exc, site, index)
         if isinstance(named, NoSolutionError) and index is not None:
             named = NoSolutionError(f"visit {site.visits[index].date}: {named.marked}",
@@ -173,5 +197,7 @@ def _trend_json(t: Trend) -> dict[str, Any]:
         "band": {"since_first": _num(t.since_first.band),
                  "since_previous": _num(t.since_previous.band)},
         "flagged": t.flagged,
+        "reversed": {"since_first": t.since_first.reversed,
+                     "since_previous": t.since_previous.reversed},
         "messages": t.messages(),
     }

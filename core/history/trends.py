@@ -43,6 +43,13 @@ CAUSES = {
 }
 """What a flagged change may mean, by indicator and direction (common practice)."""
 SOLVED_CAUSE = "solved from the header's reading, so the head across the header changed"
+REVERSED = {"flow": "the flow reversed",
+            "resistance": "the resistance changed sign with the flow (R = h/(Q·|Q|))",
+            "effective_roughness": "the flow reversed"}
+REVERSED_CAUSE = ("check the clamp-on's direction (mounted or set the other way) and the "
+                  "header's valves and pumps before reading anything into the line itself")
+"""A change of sign said in words (common practice: a reversal is first a question of the
+meter's direction or of how the plant was run, not of the line)."""
 NOUNS = {"flow": "flow", "resistance": "resistance", "effective_roughness": "effective roughness"}
 
 
@@ -57,16 +64,26 @@ class Point:
 
 @dataclass(frozen=True)
 class Change:
-    """A relative change between two visits and its ± band (90 %; NaN: no band)."""
+    """A relative change between two visits and its ± band (90 %; NaN: no band). A change of
+    sign (the flow reversed between the visits) is no percentage: ``value`` and ``band`` are
+    NaN and ``reversed`` is set; it is flagged, as a reversal is a change by any reading."""
 
     value: float
     band: float
     since: str
     """The date of the earlier visit."""
+    reversed: bool = False
 
     @property
     def flagged(self) -> bool:
-        return math.isfinite(self.band) and abs(self.value) > self.band
+        return self.reversed or (math.isfinite(self.band) and abs(self.value) > self.band)
+
+    def words(self) -> str:
+        """As a table shows it: ``-18 % ± 3.3 % ⚑``, or ``reversed ⚑``."""
+        if self.reversed:
+            return "reversed ⚑"
+        return f"{percent(self.value, True)} ± {percent(self.band)}" + (
+            " ⚑" if self.flagged else "")
 
 
 @dataclass(frozen=True)
@@ -109,10 +126,15 @@ class Trend:
         for c in changes:
             if not c.flagged:
                 continue
-            cause = (SOLVED_CAUSE if self.basis == "solved" else
-                     CAUSES[(self.indicator, 1 if c.value > 0 else -1)])
             span = (f"since {c.since}" if self.latest else
                     f"from {c.since} to {self.last.date}")
+            if c.reversed:
+                cause = f": {REVERSED_CAUSE}" if self.indicator == "flow" else ""
+                out.append(f"{self.branch}: {REVERSED[self.indicator]} between {c.since} and "
+                           f"{self.last.date}, so no change is given as a percentage{cause}")
+                continue
+            cause = (SOLVED_CAUSE if self.basis == "solved" else
+                     CAUSES[(self.indicator, 1 if c.value > 0 else -1)])
             out.append(f"{self.branch}: {NOUNS[self.indicator]} {percent(c.value, True)} "
                        f"{span} (band ± {percent(c.band)}): {cause}")
         return out
@@ -127,7 +149,13 @@ def percent(x: float, signed: bool = False) -> str:
 
 
 def change(a: Indicator, b: Indicator, since: str) -> Change:
-    """From ``a`` (earlier) to ``b``: b/a − 1, and its band (see the module docstring)."""
+    """From ``a`` (earlier) to ``b``: b/a − 1, and its band (see the module docstring). A
+    change of sign is ``reversed``; a zero or non-finite value at either end gives no number
+    (NaN; :mod:`.guard` keeps such points out of a trend, with a note)."""
+    if not (math.isfinite(a.value) and math.isfinite(b.value)) or a.value == 0 or b.value == 0:
+        return Change(math.nan, math.nan, since)
+    if (a.value > 0) != (b.value > 0):
+        return Change(math.nan, math.nan, since, reversed=True)
     value = b.value / a.value - 1
     if a.parts is None or b.parts is None:
         return Change(value, math.nan, since)
@@ -136,7 +164,8 @@ def change(a: Indicator, b: Indicator, since: str) -> Change:
     later = {p.name: p.relative for p in b.parts if p.shared}
     for name in earlier.keys() | later.keys():
         var += (later.get(name, 0.0) - earlier.get(name, 0.0)) ** 2
-    return Change(value, K90 * abs(1 + value) * math.sqrt(var), since)
+    band = K90 * abs(1 + value) * math.sqrt(var)
+    return Change(value, band if math.isfinite(band) else math.nan, since)
 
 
 def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[str,

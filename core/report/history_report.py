@@ -19,7 +19,7 @@ from typing import Any
 
 from ..history import History, Visit
 from ..history.indicators import INDICATORS, BranchIndicators, Indicator
-from ..history.trends import NOUNS, Trend, percent
+from ..history.trends import NOUNS, Trend
 from ..units import Units, units_for
 from ..units.display import format_number
 from .csv_report import ascii_unit, full, safe_text
@@ -106,18 +106,12 @@ def _qkind(kind: str) -> str:
 
 def trend_cells(t: Trend, u: Units) -> list[str]:
     """Branch, indicator (unit), first, previous, last, since first ± band, since previous."""
-    def with_band(value: float, band: float, flagged: bool) -> str:
-        return (f"{percent(value, True)} ± {percent(band)}"
-                + (" ⚑" if flagged else ""))
-
     return [t.branch, f"{NOUNS[t.indicator]} ({unit_of(t.indicator, u)})"
             + (" solved" if t.basis == "solved" else ""),
             number(t.indicator, t.first.indicator.value, u),
             number(t.indicator, t.previous.indicator.value, u),
             number(t.indicator, t.last.indicator.value, u),
-            with_band(t.since_first.value, t.since_first.band, t.since_first.flagged),
-            with_band(t.since_previous.value, t.since_previous.band,
-                      t.since_previous.flagged)]
+            t.since_first.words(), t.since_previous.words()]
 
 
 TREND_TITLES = ["Branch", "Indicator", "First", "Previous", "Last", "Since first",

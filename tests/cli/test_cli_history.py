@@ -7,6 +7,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+import re
 
 import pytest
 from jsonschema import Draft202012Validator
@@ -140,3 +141,52 @@ def test_a_site_with_no_visit_and_no_reading_is_refused(tmp_path, capsys):
     path.write_text(text, encoding="utf-8")
     assert main(["history", str(path)]) == 2
     assert "visits" in capsys.readouterr().err
+
+
+FIRST_CLAMP_ONS = 'measured = { "AHU-1 coil" = "335 gpm", "AHU-3 coil" = "77 gpm" }'
+SECOND_CLAMP_ONS = 'measured = { "AHU-1 coil" = "332 gpm", "AHU-3 coil" = "63 gpm" }'
+
+
+def _run(tmp_path, capsys, old: str, new: str, *args: str) -> tuple[int, str, str]:
+    text = demo_text()
+    assert old in text
+    path = tmp_path / "site.toml"
+    path.write_text(text.replace(old, new), encoding="utf-8")
+    code = main(["history", str(path), "--units", "us", *args])
+    captured = capsys.readouterr()
+    return code, captured.out, captured.err
+
+
+@pytest.mark.parametrize("clamp_ons", [FIRST_CLAMP_ONS, SECOND_CLAMP_ONS], ids=["first", "last"])
+def test_a_clamp_on_reading_zero_is_a_note_not_a_crash(tmp_path, capsys, clamp_ons):
+    """A flow reading of 0 is a line shut or a meter fault (common practice): the branch's
+    figures at that visit are not trended, a note names the visit and the branch."""
+    zero = re.sub(r'"AHU-1 coil" = "\d+ gpm"', '"AHU-1 coil" = "0 gpm"', clamp_ons)
+    code, out, err = _run(tmp_path, capsys, clamp_ons, zero)
+    assert code == 0 and not err, err
+    assert "AHU-1 coil: its clamp-on reads no flow" in " ".join(out.split())
+    assert "-100 %" not in out and "± 0.0 % ⚑" not in out
+    code, out, _ = _run(tmp_path, capsys, clamp_ons, zero, "--format", "json")
+    assert code == 0 and "NaN" not in out and "Infinity" not in out
+    json.loads(out)
+
+
+def test_a_reversed_flow_is_said_as_a_reversal(tmp_path, capsys):
+    code, out, _ = _run(tmp_path, capsys, '"AHU-1 coil" = "335 gpm"', '"AHU-1 coil" = "-335 gpm"')
+    assert code == 0
+    row = next(line for line in out.splitlines() if line.startswith("AHU-1 coil  flow"))
+    assert "reversed ⚑" in row and "%" not in row  # by hand: -335 → +332 is no "-199 %"
+    assert "AHU-1 coil: the flow reversed between 2024-09-18 and 2025-01-15" in " ".join(
+        out.split())
+
+
+def test_a_visit_after_today_s_record_exits_2_naming_its_date(tmp_path, capsys):
+    code, out, err = _run(tmp_path, capsys, 'date = "2025-01-15"', 'date = "2026-01-01"')
+    assert code == 2 and not out and len(err.strip().splitlines()) == 1
+    assert "site.toml: visits[1].date: after today's record date (2025-03-12" in err, err
+
+
+def test_today_s_bad_clamp_on_names_the_branch_by_its_name(tmp_path, capsys):
+    code, _, err = _run(tmp_path, capsys, '# measured_flow = "80 gpm"', 'measured_flow = "80 psi"')
+    assert code == 2 and len(err.strip().splitlines()) == 1
+    assert 'branch "AHU-3 coil" measured_flow: is not a flow' in err and "no name" not in err

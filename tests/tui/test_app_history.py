@@ -158,3 +158,26 @@ def test_renaming_a_branch_keeps_its_earlier_readings():
     rename_branch(site, 2, "AHU-3 coil (new)")
     assert "AHU-3 coil (new)" in site.visits[0].measured
     assert "AHU-3 coil" not in site.visits[1].measured
+
+
+@pytest.mark.parametrize(("old", "new", "seen", "unseen"), [
+    ('"AHU-1 coil" = "335 gpm"', '"AHU-1 coil" = "0 gpm"', "Visits: 2024-09-18",
+     "division by zero"),
+    ('"AHU-1 coil" = "335 gpm"', '"AHU-1 coil" = "-335 gpm"', "reversed ⚑", "-199 %"),
+], ids=["zero-reading", "reversed"])
+def test_a_still_or_reversed_line_shows_plainly_at_80x24(ui, tmp_path, old, new, seen, unseen):
+    """A clamp-on reading 0 (a line shut or a meter fault) is no "✗" on the screen; a flow
+    that reversed (-335 → +332 gpm: by hand no percentage) says so."""
+    path = tmp_path / "site.toml"
+    path.write_text(demo_text().replace(old, new), encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started("f5", site=path) as (app, pilot):
+            await ui.settle(pilot)
+            if seen == "reversed ⚑":
+                await pilot.press("i")  # the flow
+            text = ui.text(app)
+            assert seen in text and unseen not in text and "✗" not in text, text
+            assert "+46 % ± 13 % ⚑" in text or "Flow" in text
+
+    ui.run(scenario)

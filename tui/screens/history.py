@@ -32,6 +32,7 @@ from .work_screen import WorkScreen
 
 if TYPE_CHECKING:
     from branchwise.core.history import History
+    from branchwise.core.history.trends import Change
     from branchwise.core.units import Units
 
 INDICATOR_ORDER = ("resistance", "flow", "effective_roughness")
@@ -173,7 +174,6 @@ class HistoryScreen(WorkScreen):
         return f"{WORDS[self.indicator]} ({unit_of(self.indicator, u)})"
 
     def _trends(self, h: History, u: Units, table: TextTable, what: Static) -> None:
-        from branchwise.core.history.trends import percent
         from branchwise.core.report.history_report import number
 
         put(what, f"{self._title(u)}; ⚑ a change beyond its band")
@@ -189,9 +189,8 @@ class HistoryScreen(WorkScreen):
                                                             style="dim")])
                 continue
 
-            def change(value: float, band: float, flagged: bool) -> Cell:
-                words = f"{percent(value, True)} ± {percent(band)}{' ⚑' if flagged else ''}"
-                return Text(words, style=f"bold {warn}") if flagged else words
+            def change(c: Change) -> Cell:
+                return Text(c.words(), style=f"bold {warn}") if c.flagged else c.words()
 
             band = t.since_first.band * abs(t.first.indicator.value)
             line = sparkline([(p.visit / last, p.indicator.value) for p in t.points],
@@ -201,9 +200,8 @@ class HistoryScreen(WorkScreen):
             solved = Text(" solved", style="dim") if t.basis == "solved" else ""
             rows.append([name, number(self.indicator, t.first.indicator.value, u),
                          number(self.indicator, t.last.indicator.value, u),
-                         change(t.since_first.value, t.since_first.band, t.since_first.flagged),
-                         change(t.since_previous.value, t.since_previous.band,
-                                t.since_previous.flagged), Text.assemble(line, solved)])
+                         change(t.since_first), change(t.since_previous),
+                         Text.assemble(line, solved)])
         table.show([("Branch", False), ("First", True), ("Last", True), ("Since first", True),
                     ("Since prev.", True), ("Trend", False)], rows)
 
