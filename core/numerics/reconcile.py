@@ -34,9 +34,10 @@ from typing import Any
 import numpy as np
 from numpy.typing import NDArray
 
-from ..errors import InputError
+from ..errors import BranchwiseError, InputError
 from ..model import FindFlows, Network, PressureDrop
-from .hydraulics import Array, Layout, flows_at_head, head_and_slope, subset
+from .hydraulics import Array, Layout, flows_at_head, head_and_slope, head_for_total_flow, subset
+from .reconcile_optimum import least_head
 from .small import SMALL_BRANCHES
 from .small.branch import Fallback
 from .small.heads import flows_at, pipes_of
@@ -343,32 +344,37 @@ def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
 def _start(model: _Model, y: Array, meas: Array) -> float:
     """A first head: the one the most precise reading gives on its own (relative σ)."""
     k = int(np.argmin(np.sqrt(meas) / np.maximum(np.abs(y), 1e-300)))
+    return _head_of(model, k, float(y[k]))
+
+
+def _head_of(model: _Model, k: int, value: float) -> float:
+    """The head at which reading ``k`` alone would read ``value``."""
     o = model.obs[k]
     if o.kind == "pressure_drop":
-        return float(y[k] / model.rho_g - model.net.elevation_change)
-    from .hydraulics import head_for_total_flow
+        return value / model.rho_g - model.net.elevation_change
     if o.kind == "total_flow":
-        return float(head_for_total_flow(model.lay, y[k])[0][0])
+        return float(head_for_total_flow(model.lay, value)[0][0])
     assert o.branch is not None
     q = np.zeros(model.lay.n_branches)
-    q[o.branch] = y[k]
+    q[o.branch] = value
     return float(head_and_slope(model.lay, q)[0][o.branch])
 
 
 def _optimum(model: _Model, y: Array, cov: Array, head: float) -> float:
-    """Gauss–Newton on H with V fixed: ΔH = Jᵀ W r / Jᵀ W J, to round-off."""
-    w = np.linalg.inv(cov)
-    for _ in range(60):
-        q = model.flows(head)
-        r = y - model.values(head, q)
-        j = model.slope(head)
-        step = float(j @ w @ r) / float(j @ w @ j)
-        if head != 0 and abs(step) > 0.5 * abs(head):  # keep the sign: at most halve or 1.5×
-            step = math.copysign(0.5 * abs(head), step)
-        head += step
-        if abs(step) <= 4e-16 * max(abs(head), 1e-300):
-            break
-    return head
+    """The head of least S with V fixed, over heads of either sign (:mod:`.reconcile_optimum`)."""
+    heads = [head]
+    for k in range(len(y)):
+        try:
+            heads.append(_head_of(model, k, float(y[k])))
+        except (ArithmeticError, ValueError, BranchwiseError):
+            continue  # a reading the model cannot reach alone: the others span the search
+    labels = [_reading_label(model, o) for o in model.obs]
+    return least_head(model.values, model.slope, y, cov, heads, labels)
+
+
+def _reading_label(model: _Model, o: Observation) -> str:
+    words = READING_WORDS[o.kind]
+    return words if o.branch is None else f"{words} on '{model.net.branches[o.branch].name}'"
 
 
 def _labels(network: Network, obs: Sequence[Observation],
