@@ -32,11 +32,11 @@ from functools import cached_property
 from typing import Any
 
 import numpy as np
-from numpy.typing import NDArray
 
 from ..errors import BranchwiseError, InputError
 from ..model import FindFlows, Network, PressureDrop
-from .hydraulics import Array, Layout, flows_at_head, head_and_slope, head_for_total_flow, subset
+from .hydraulics import Array, Layout, flows_at_head, head_and_slope, head_for_total_flow
+from .nudges import Nudges, nudges
 from .reconcile_optimum import least_head
 from .small import SMALL_BRANCHES
 from .small.branch import Fallback
@@ -206,15 +206,6 @@ class _Model:
         assert o.branch is not None
         return float(q[o.branch])
 
-    def _many(self, o: Observation, head: float, q: Array, rho_g: Array) -> Array:
-        """Reading ``o``'s model value for every row of flows ``q`` (as :meth:`_one`)."""
-        if o.kind == "pressure_drop":
-            return np.asarray(rho_g * (head + self.net.elevation_change), dtype=float)
-        if o.kind == "total_flow":
-            return np.asarray(q.sum(axis=1), dtype=float)
-        assert o.branch is not None
-        return np.asarray(q[:, o.branch], dtype=float)
-
     def slope(self, head: float) -> Array:
         """dg/dH for every reading: ρg for Δp, dQ/dH = Q/(H · d ln h/d ln Q) for a flow."""
         q, s = self.state(head)
@@ -229,37 +220,26 @@ class _Model:
         m = len(self.obs)
         if n_in == 0:
             return np.zeros((m, m))
-        moves, moved, rho_g = self._moves
-        q = np.tile(self.flows(head), (2 * n_in, 1))
-        # Each input moves its flows a little: Newton starts from the flows at H.
-        q[moved] = flows_at_head(moves, head, np.abs(q[moved]))[0]
-        g = np.column_stack([self._many(o, head, q, rho_g) for o in self.obs])
-        sens = (g[:n_in] - g[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
+        moves = self._moves
+        dq = moves.flow_changes(head, self.flows(head))
+        dg = np.zeros((2 * n_in, m))  # each row's change of every reading
+        for k, o in enumerate(self.obs):
+            if o.kind == "pressure_drop":
+                dg[:, k] = (moves.rho_g - self.rho_g) * (head + self.net.elevation_change)
+            elif o.kind == "total_flow":
+                dg[:, k] = moves.total_flow(dq)
+            else:
+                assert o.branch is not None
+                dg[:, k] = moves.branch_flow(dq, o.branch)
+        sens = (dg[:n_in] - dg[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
         scaled: Array = sens / SQRT3  # z uniform on [−1, 1]: u(z) = 1/√3
         return np.asarray(scaled @ scaled.T, dtype=float)
 
     @cached_property
-    def _moves(self) -> tuple[Layout, NDArray[np.bool_], Array]:
-        """The branches each input moves, ± δ (rows: input j + δ, then each − δ), as one layout
-        to solve, the mask of them over (rows, branches), and ρ g per row: the same at every
-        head, so made once."""
-        n_in = len(self.plan.inputs)
-        z = np.zeros((2 * n_in, n_in))
-        z[np.arange(n_in), np.arange(n_in)] = MODEL_STEP
-        z[n_in + np.arange(n_in), np.arange(n_in)] = -MODEL_STEP
-        v = self.plan.variants(z)
-        tiled = v.layout(self.lay)
-        # An input moves one branch's flow (the temperature moves them all): only those are
-        # solved again; the rest keep their flow at H.
-        moved = np.zeros((2 * n_in, self.lay.n_branches), dtype=bool)
-        for j, inp in enumerate(self.plan.inputs):
-            if inp.kind == "temperature":
-                moved[[j, n_in + j], :] = True
-            else:
-                where = (list({int(b) for b in self.lay.seg_branch[list(inp.segments)]})
-                         if inp.kind != "valve Kv" else list(inp.segments))
-                moved[[j, n_in + j], where] = True  # segments hold the branch for a valve
-        return subset(tiled, moved.ravel()), moved, v.density * self.net.gravity
+    def _moves(self) -> Nudges:
+        """Each input ± δ, only the branches it moves (:mod:`.nudges`: memory bounded); the
+        same at every head, so made once."""
+        return nudges(self.plan, self.lay, MODEL_STEP, self.net.gravity)
 
 
 def instrument_sigma(o: Observation, tol: Tolerances) -> float:

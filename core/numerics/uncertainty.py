@@ -108,10 +108,12 @@ class SamplingPlan:
     def unit_of(self, output: str) -> str:
         return {PRESSURE_DROP: "Pa", self.found_name: "m"}.get(output, "m³/s")
 
-    def variants(self, z: Array) -> Variants:
-        """The networks that the rows of ``z`` stand for, as arrays."""
+    def variants(self, z: Array, base: Layout | None = None) -> Variants:
+        """The networks that the rows of ``z`` stand for, as arrays (``base``: the network's
+        layout, when it is at hand)."""
         z = np.atleast_2d(np.asarray(z, dtype=float))
-        n, net, base = len(z), self.network, Layout.from_network(self.network)
+        base = Layout.from_network(self.network) if base is None else base
+        n, net = len(z), self.network
         seg = {k: np.tile(getattr(base, k), (n, 1)) for k in
                ("diameter", "length", "roughness", "minor_k")}
         nu, rho = np.full(n, net.fluid.kinematic_viscosity), np.full(n, net.fluid.density)
