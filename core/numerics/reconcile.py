@@ -110,13 +110,20 @@ class Reconciliation:
     verdict: str
     covariance: tuple[tuple[float, ...], ...] = ()
     """V, the residuals' covariance the optimum was found with (SI², readings' order)."""
+    head_sigma_m: float = math.nan
+    """The reconciled head's standard uncertainty, (Jᵀ V⁻¹ J)^(−½) (m): what the readings
+    weighed together and the model's uncertainty leave of it (first order)."""
+    pressure_drop_sigma_pa: float = math.nan
+    """The reconciled pressure drop's standard uncertainty (Pa): ρ g times the head's."""
 
     def to_json(self) -> dict[str, Any]:
         """The JSON's ``reconciliation`` object (SI)."""
         without = self.without_suspect
         return {
             "head_m": self.head_m, "pressure_drop_pa": self.pressure_drop_pa,
-            "total_flow_m3_s": self.total_flow_m3_s, "chi_square": self.chi_square,
+            "total_flow_m3_s": self.total_flow_m3_s, "head_sigma_m": self.head_sigma_m,
+            "pressure_drop_sigma_pa": self.pressure_drop_sigma_pa,
+            "chi_square": self.chi_square,
             "degrees_of_freedom": self.degrees_of_freedom, "p_value": self.p_value,
             "consistent": self.consistent,
             "suspect": None if self.suspect is None else _fit_json(self.suspect),
@@ -290,6 +297,7 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         sub = _fit(rest, y[keep], sub_cov, sub_head)
         without = (sub.chi2, chi_square_p(sub.chi2, dof - 1))
     q = fit.q
+    sigma = 1 / math.sqrt(fit.info) if fit.info > 0 else math.nan
     return Reconciliation(
         head_m=head, pressure_drop_pa=model.rho_g * (head + network.elevation_change),
         total_flow_m3_s=float(q.sum()), flows_m3_s=tuple(float(v) for v in q),
@@ -297,6 +305,7 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         suspect=suspect, without_suspect=without, readings=fits,
         verdict=_verdict(fits, fit.chi2, dof, p, consistent, suspect, without),
         covariance=tuple(tuple(float(v) for v in row) for row in cov),
+        head_sigma_m=sigma, pressure_drop_sigma_pa=model.rho_g * sigma,
     )
 
 
@@ -306,6 +315,7 @@ class _Fit:
     q: Array
     chi2: float
     nr: Array
+    info: float
 
 
 def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
@@ -318,7 +328,7 @@ def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
     vr = cov - np.outer(j, j) / info
     with np.errstate(invalid="ignore", divide="ignore"):
         nr = np.where(np.diag(vr) > 0, r / np.sqrt(np.abs(np.diag(vr))), 0.0)
-    return _Fit(g, q, float(r @ w @ r), nr)
+    return _Fit(g, q, float(r @ w @ r), nr, info)
 
 
 def _start(model: _Model, y: Array, meas: Array) -> float:

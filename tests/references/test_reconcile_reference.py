@@ -242,3 +242,28 @@ def test_a_two_branch_site_with_no_model_uncertainty_matches_wls_by_hand(dp, dz,
     assert rec.head_m == pytest.approx(head_by_hand, abs=1e-3)  # the review's hand WLS
     assert rec.chi_square == pytest.approx(float(ref.fun @ ref.fun), rel=1e-6)
     assert sr.result.pressure_drop == pytest.approx(rho * G * (ref.x[0] + dz_m), rel=1e-7)
+    # The head's standard uncertainty: (Jᵀ J)^(−½) of the whitened residuals at the optimum,
+    # J from least_squares' own finite-difference Jacobian (Gauss–Newton covariance).
+    sigma_ref = float(np.sqrt(1 / (ref.jac.T @ ref.jac)[0, 0]))
+    assert rec.head_sigma_m == pytest.approx(sigma_ref, rel=1e-4)
+    assert rec.pressure_drop_sigma_pa == pytest.approx(rho * G * sigma_ref, rel=1e-4)
+
+
+def test_the_band_of_a_site_solved_from_all_readings_is_the_weighing_s():
+    # No gauge at all: the band must not name one; the pressure drop's GUM linear u is the
+    # weighed head's own (Gauss–Newton covariance of least_squares, as above) times ρ g, as
+    # nothing else moves the given pressure drop.
+    from branchwise.core.site.read import parse_site
+    from branchwise.core.site.solve import solve_site, with_uncertainty
+
+    text = (R2.format(dp="0 kPa", dz="0 m").replace('pressure_drop = "0 kPa"\n', "")
+            .replace("roughness_factor = [1, 1]", "roughness_factor = [0.5, 2]")
+            .replace('diameter = "0 %"', 'diameter = "1 %"'))
+    sr = with_uncertainty(solve_site(parse_site(text)), samples=200)
+    rec, band = sr.reconciliation, sr.uncertainty
+    assert rec is not None and band is not None and len(rec.readings) == 2
+    names = [n for rows in band.ranking.values() for n, _ in rows]
+    assert "readings weighed together" in names
+    assert not any("gauge" in n for n in names)
+    assert band.outputs["pressure drop"].linear_sigma == pytest.approx(
+        rec.pressure_drop_sigma_pa, rel=1e-6)
