@@ -40,7 +40,7 @@ from .nudges import Nudges, nudges
 from .reconcile_optimum import least_head
 from .small import SMALL_BRANCHES
 from .small.branch import Fallback
-from .small.heads import flows_at, pipes_of
+from .small.heads import flows_at, head_for_total, pipes_of
 from .tolerances import Thermal, Tolerances
 from .uncertainty import SQRT3, build_plan
 
@@ -175,8 +175,10 @@ class _Model:
                                                if i.kind not in ("gauge", "meter", "target")))
         self.rho_g = network.fluid.density * network.gravity
         small = len(network.branches) <= SMALL_BRANCHES
-        self._pipes = pipes_of(network) if small else None
+        self.pipes = pipes_of(network) if small else None
         self._states: dict[float, tuple[Array, Array]] = {}
+        self.alone: dict[tuple[int, float], float] = {}
+        """The head each reading alone gives, by (reading, value)."""
 
     def state(self, head: float) -> tuple[Array, Array]:
         """The flows at ``head`` and each branch's d ln h / d ln Q there, solved once per head
@@ -188,10 +190,10 @@ class _Model:
         return known
 
     def _solve(self, head: float) -> tuple[Array, Array]:
-        if self._pipes is not None:
+        if self.pipes is not None:
             try:
-                flows, _ = flows_at(self._pipes, head)
-                return np.array(flows), np.array([p.s for p in self._pipes])
+                flows, _ = flows_at(self.pipes, head)
+                return np.array(flows), np.array([p.s for p in self.pipes])
             except (Fallback, ArithmeticError, ValueError):
                 pass  # no head, or a branch beyond the small path's test: the arrays' solver
         q = flows_at_head(self.lay, head)[0]
@@ -338,13 +340,29 @@ def _start(model: _Model, y: Array, meas: Array) -> float:
 
 
 def _head_of(model: _Model, k: int, value: float) -> float:
-    """The head at which reading ``k`` alone would read ``value``."""
-    o = model.obs[k]
+    """The head at which reading ``k`` alone would read ``value`` (asked once per reading)."""
+    key = (k, value)
+    if key not in model.alone:
+        model.alone[key] = _solve_alone(model, model.obs[k], value)
+    return model.alone[key]
+
+
+def _solve_alone(model: _Model, o: Observation, value: float) -> float:
     if o.kind == "pressure_drop":
         return value / model.rho_g - model.net.elevation_change
     if o.kind == "total_flow":
+        if model.pipes is not None and value != 0:
+            try:
+                return head_for_total(model.pipes, value)[0]
+            except (Fallback, ArithmeticError, ValueError):
+                pass  # the arrays' solver
         return float(head_for_total_flow(model.lay, value)[0][0])
     assert o.branch is not None
+    if model.pipes is not None and value != 0:
+        try:
+            return math.copysign(model.pipes[o.branch].evaluate(abs(value)), value)
+        except (Fallback, ArithmeticError, ValueError):
+            pass  # the arrays' solver
     q = np.zeros(model.lay.n_branches)
     q[o.branch] = value
     return float(head_and_slope(model.lay, q)[0][o.branch])

@@ -5,11 +5,12 @@ monotone function of H, so each one alone fixes a head, and the optimum lies nea
 those heads — on either side of zero: a gauge across a rise can read less than the rise while
 the meters read a forward flow, or readings can differ in sign. S is smooth in H except at
 H = 0, where a branch's flow goes as sign(H)·√|H|; in t = sign(H)·√|H| the flows are smooth
-through zero, so S is scanned in t over the span the readings give (widened while its lowest
-point sits at an end), the lowest point narrowed by golden sections (Kiefer 1953; Press et al.,
-*Numerical Recipes*, 3rd ed., 10.2) and polished by Gauss–Newton in H (ΔH = Jᵀ W r / Jᵀ W J,
-each step kept only while S does not grow) to round-off. When no lowest point is found the
-readings cannot be weighed: NoSolutionError, never a head that merely stopped moving.
+through zero, so the search runs in t. S is taken at those heads and a little beyond them; at
+the lowest, the sign of dS/dt says on which side the least S lies, and the neighbour there
+closes a bracket (else the span is widened, or scanned finer where S has more than one dip).
+The root of dS/dt in the bracket is found by the Illinois method (modified regula falsi;
+Dowell & Jarratt, BIT 11, 1971) to round-off. When no bracket is found the readings cannot be
+weighed: NoSolutionError, never a head that merely stopped moving.
 """
 
 from __future__ import annotations
@@ -22,11 +23,10 @@ import numpy as np
 from ..errors import NoSolutionError
 from .hydraulics import Array
 
-GRID = 41
-"""Points of each scan of S over the span of heads."""
+SCAN = 9
+"""Points of a scan of S over a span of heads where its lowest point is not yet bracketed."""
 WIDEN = 12
-"""Times the span is widened at most while its lowest point sits at an end."""
-GOLDEN = (math.sqrt(5.0) - 1) / 2
+"""Times the span is widened or scanned again at most before the readings are given up."""
 
 Values = Callable[[float], Array]
 """The model's value of every reading at a head (m): g(H)."""
@@ -41,70 +41,83 @@ def least_head(values: Values, slope: Values, y: Array, cov: Array, heads: Seque
     """
     w: Array = np.asarray(np.linalg.inv(cov), dtype=np.float64)
 
-    def s_at(head: float) -> float:
-        r = y - values(head)
+    def s_of(t: float) -> float:
+        r = y - values(math.copysign(t * t, t))
         return float(r @ w @ r)
 
-    def s_of(t: float) -> float:
-        return s_at(math.copysign(t * t, t))
+    def down(t: float) -> float:
+        """−½ dS/dt = (dg/dt)ᵀ W r, dg/dt = dg/dH · 2|t|: > 0 while S falls."""
+        t = t if t != 0 else 1e-150  # the flows' slope at H = 0 is their limit from above
+        head = math.copysign(t * t, t)
+        return float(slope(head) * (2 * abs(t)) @ w @ (y - values(head)))
 
-    ts = [math.copysign(math.sqrt(abs(h)), h) for h in heads if math.isfinite(h)]
+    ts = sorted({math.copysign(math.sqrt(abs(h)), h) for h in heads if math.isfinite(h)})
     if ts:
-        low, high = min(ts), max(ts)
-        pad = 0.5 * (high - low) + 0.05 * max(abs(low), abs(high)) + 1e-3
-        low, high = low - pad, high + pad
+        pad = 0.5 * (ts[-1] - ts[0]) + 0.05 * max(abs(ts[0]), abs(ts[-1])) + 1e-3
+        points = [ts[0] - pad, *ts, ts[-1] + pad]
         for _ in range(WIDEN):
-            grid = np.linspace(low, high, GRID)
-            scan = np.array([s_of(float(t)) for t in grid])
-            if not np.all(np.isfinite(scan)):
+            bracket = _bracket(points, [s_of(t) for t in points], down)
+            if isinstance(bracket, tuple):
+                t = _illinois(down, *bracket)
+                if math.isfinite(t):
+                    return math.copysign(t * t, t)
                 break
-            i = int(np.argmin(scan))
-            if 0 < i < GRID - 1:
-                head, s = _golden(s_of, float(grid[i - 1]), float(grid[i + 1]))
-                head = _polish(values, slope, y, w, s_at, head, s)
-                if math.isfinite(head):
-                    return head
+            if not bracket:
                 break
-            span = high - low
-            low, high = (low - span, high) if i == 0 else (low, high + span)
+            points = bracket
     raise NoSolutionError(f"the readings ({', '.join(labels)}) cannot be weighed together: no "
                           "driving head fits them best; check each reading's value, unit and "
                           "sign", "conditions.given")
 
 
-def _golden(s_of: Callable[[float], float], a: float, b: float) -> tuple[float, float]:
-    """The head of least S for t in [a, b] by golden sections, and S there."""
-    c, d = b - GOLDEN * (b - a), a + GOLDEN * (b - a)
-    fc, fd = s_of(c), s_of(d)
-    while abs(b - a) > 1e-9 * max(abs(a), abs(b), 1e-6):
-        if fc <= fd:
-            b, d, fd = d, c, fc
-            c = b - GOLDEN * (b - a)
-            fc = s_of(c)
-        else:
-            a, c, fc = c, d, fd
-            d = a + GOLDEN * (b - a)
-            fd = s_of(d)
-    t, s = (c, fc) if fc <= fd else (d, fd)
-    return math.copysign(t * t, t), s
+def _bracket(points: list[float], s: list[float], down: Callable[[float], float]
+             ) -> tuple[float, float, float, float] | list[float]:
+    """Around the lowest of ``s`` at ``points``: a bracket (a, b, down(a) > 0, down(b) < 0) of
+    the least S, or the points to scan next (none: S is not finite there)."""
+    if not all(math.isfinite(v) for v in s) or max(s) == min(s):
+        return []  # S not finite, or the same at every head: no least
+    i = min(range(len(s)), key=s.__getitem__)
+    t = points[i]
+    d = down(t)
+    span = points[-1] - points[0]
+    if d > 0:  # S falls to the right of the lowest point
+        if i == len(points) - 1:
+            return [*points, t + span]
+        b = points[i + 1]
+        db = down(b)
+        return (t, b, d, db) if db < 0 else list(np.linspace(t, b, SCAN))
+    if d < 0:
+        if i == 0:
+            return [t - span, *points]
+        a = points[i - 1]
+        da = down(a)
+        return (a, t, da, d) if da > 0 else list(np.linspace(a, t, SCAN))
+    return (t, t, d, d)
 
 
-def _polish(values: Values, slope: Values, y: Array, w: Array,
-            s_at: Callable[[float], float], head: float, s: float) -> float:
-    """Gauss–Newton in H from next to the optimum, each step kept only when S does not grow."""
-    for _ in range(30):
-        if head == 0:
-            return head
-        j = slope(head)
-        info = float(j @ w @ j)
-        if not info > 0:
-            return head
-        step = float(j @ w @ (y - values(head))) / info
-        trial = head + step
-        s_new = s_at(trial)
-        if not s_new <= s + 1e-12 * (1 + s):
-            return head  # as close as S can tell
-        head, s = trial, s_new
-        if abs(step) <= 4e-16 * abs(head):
+def _illinois(fun: Callable[[float], float], a: float, b: float, fa: float, fb: float) -> float:
+    """The root of ``fun`` in [a, b] (fa > 0 > fb, or a = b) by the Illinois method (modified
+    regula falsi; Dowell & Jarratt, BIT 11, 1971) until the bracket is at round-off."""
+    side = 0
+    for _ in range(200):
+        if abs(b - a) <= 4e-16 * max(abs(a), abs(b)) or fa == 0 or fb == 0:
             break
-    return head
+        c = (a * fb - b * fa) / (fb - fa)
+        if not a < c < b:
+            c = 0.5 * (a + b)
+        fc = fun(c)
+        if fc > 0:
+            a, fa = c, fc
+            if side == -1:
+                fb *= 0.5
+            side = -1
+        elif fc < 0:
+            b, fb = c, fc
+            if side == 1:
+                fa *= 0.5
+            side = 1
+        else:
+            return c
+    else:
+        return math.nan
+    return a if fa == 0 else b if fb == 0 else (a * fb - b * fa) / (fb - fa)
