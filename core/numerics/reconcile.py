@@ -32,14 +32,15 @@ from functools import cached_property
 from typing import Any
 
 import numpy as np
-from numpy.typing import NDArray
 
-from ..errors import InputError
+from ..errors import BranchwiseError, InputError
 from ..model import FindFlows, Network, PressureDrop
-from .hydraulics import Array, Layout, flows_at_head, head_and_slope, subset
+from .hydraulics import Array, Layout, flows_at_head, head_and_slope, head_for_total_flow
+from .nudges import Nudges, nudges
+from .reconcile_optimum import least_head
 from .small import SMALL_BRANCHES
 from .small.branch import Fallback
-from .small.heads import flows_at, pipes_of
+from .small.heads import flows_at, head_for_total, pipes_of
 from .tolerances import Thermal, Tolerances
 from .uncertainty import SQRT3, build_plan
 
@@ -109,13 +110,20 @@ class Reconciliation:
     verdict: str
     covariance: tuple[tuple[float, ...], ...] = ()
     """V, the residuals' covariance the optimum was found with (SI², readings' order)."""
+    head_sigma_m: float = math.nan
+    """The reconciled head's standard uncertainty, (Jᵀ V⁻¹ J)^(−½) (m): what the readings
+    weighed together and the model's uncertainty leave of it (first order)."""
+    pressure_drop_sigma_pa: float = math.nan
+    """The reconciled pressure drop's standard uncertainty (Pa): ρ g times the head's."""
 
     def to_json(self) -> dict[str, Any]:
         """The JSON's ``reconciliation`` object (SI)."""
         without = self.without_suspect
         return {
             "head_m": self.head_m, "pressure_drop_pa": self.pressure_drop_pa,
-            "total_flow_m3_s": self.total_flow_m3_s, "chi_square": self.chi_square,
+            "total_flow_m3_s": self.total_flow_m3_s, "head_sigma_m": self.head_sigma_m,
+            "pressure_drop_sigma_pa": self.pressure_drop_sigma_pa,
+            "chi_square": self.chi_square,
             "degrees_of_freedom": self.degrees_of_freedom, "p_value": self.p_value,
             "consistent": self.consistent,
             "suspect": None if self.suspect is None else _fit_json(self.suspect),
@@ -167,8 +175,10 @@ class _Model:
                                                if i.kind not in ("gauge", "meter", "target")))
         self.rho_g = network.fluid.density * network.gravity
         small = len(network.branches) <= SMALL_BRANCHES
-        self._pipes = pipes_of(network) if small else None
+        self.pipes = pipes_of(network) if small else None
         self._states: dict[float, tuple[Array, Array]] = {}
+        self.alone: dict[tuple[int, float], float] = {}
+        """The head each reading alone gives, by (reading, value)."""
 
     def state(self, head: float) -> tuple[Array, Array]:
         """The flows at ``head`` and each branch's d ln h / d ln Q there, solved once per head
@@ -180,10 +190,10 @@ class _Model:
         return known
 
     def _solve(self, head: float) -> tuple[Array, Array]:
-        if self._pipes is not None:
+        if self.pipes is not None:
             try:
-                flows, _ = flows_at(self._pipes, head)
-                return np.array(flows), np.array([p.s for p in self._pipes])
+                flows, _ = flows_at(self.pipes, head)
+                return np.array(flows), np.array([p.s for p in self.pipes])
             except (Fallback, ArithmeticError, ValueError):
                 pass  # no head, or a branch beyond the small path's test: the arrays' solver
         q = flows_at_head(self.lay, head)[0]
@@ -205,15 +215,6 @@ class _Model:
         assert o.branch is not None
         return float(q[o.branch])
 
-    def _many(self, o: Observation, head: float, q: Array, rho_g: Array) -> Array:
-        """Reading ``o``'s model value for every row of flows ``q`` (as :meth:`_one`)."""
-        if o.kind == "pressure_drop":
-            return np.asarray(rho_g * (head + self.net.elevation_change), dtype=float)
-        if o.kind == "total_flow":
-            return np.asarray(q.sum(axis=1), dtype=float)
-        assert o.branch is not None
-        return np.asarray(q[:, o.branch], dtype=float)
-
     def slope(self, head: float) -> Array:
         """dg/dH for every reading: ρg for Δp, dQ/dH = Q/(H · d ln h/d ln Q) for a flow."""
         q, s = self.state(head)
@@ -228,37 +229,26 @@ class _Model:
         m = len(self.obs)
         if n_in == 0:
             return np.zeros((m, m))
-        moves, moved, rho_g = self._moves
-        q = np.tile(self.flows(head), (2 * n_in, 1))
-        # Each input moves its flows a little: Newton starts from the flows at H.
-        q[moved] = flows_at_head(moves, head, np.abs(q[moved]))[0]
-        g = np.column_stack([self._many(o, head, q, rho_g) for o in self.obs])
-        sens = (g[:n_in] - g[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
+        moves = self._moves
+        dq = moves.flow_changes(head, self.flows(head))
+        dg = np.zeros((2 * n_in, m))  # each row's change of every reading
+        for k, o in enumerate(self.obs):
+            if o.kind == "pressure_drop":
+                dg[:, k] = (moves.rho_g - self.rho_g) * (head + self.net.elevation_change)
+            elif o.kind == "total_flow":
+                dg[:, k] = moves.total_flow(dq)
+            else:
+                assert o.branch is not None
+                dg[:, k] = moves.branch_flow(dq, o.branch)
+        sens = (dg[:n_in] - dg[n_in:]).T / (2 * MODEL_STEP)  # (readings, inputs), per unit z
         scaled: Array = sens / SQRT3  # z uniform on [−1, 1]: u(z) = 1/√3
         return np.asarray(scaled @ scaled.T, dtype=float)
 
     @cached_property
-    def _moves(self) -> tuple[Layout, NDArray[np.bool_], Array]:
-        """The branches each input moves, ± δ (rows: input j + δ, then each − δ), as one layout
-        to solve, the mask of them over (rows, branches), and ρ g per row: the same at every
-        head, so made once."""
-        n_in = len(self.plan.inputs)
-        z = np.zeros((2 * n_in, n_in))
-        z[np.arange(n_in), np.arange(n_in)] = MODEL_STEP
-        z[n_in + np.arange(n_in), np.arange(n_in)] = -MODEL_STEP
-        v = self.plan.variants(z)
-        tiled = v.layout(self.lay)
-        # An input moves one branch's flow (the temperature moves them all): only those are
-        # solved again; the rest keep their flow at H.
-        moved = np.zeros((2 * n_in, self.lay.n_branches), dtype=bool)
-        for j, inp in enumerate(self.plan.inputs):
-            if inp.kind == "temperature":
-                moved[[j, n_in + j], :] = True
-            else:
-                where = (list({int(b) for b in self.lay.seg_branch[list(inp.segments)]})
-                         if inp.kind != "valve Kv" else list(inp.segments))
-                moved[[j, n_in + j], where] = True  # segments hold the branch for a valve
-        return subset(tiled, moved.ravel()), moved, v.density * self.net.gravity
+    def _moves(self) -> Nudges:
+        """Each input ± δ, only the branches it moves (:mod:`.nudges`: memory bounded); the
+        same at every head, so made once."""
+        return nudges(self.plan, self.lay, MODEL_STEP, self.net.gravity)
 
 
 def instrument_sigma(o: Observation, tol: Tolerances) -> float:
@@ -309,6 +299,7 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         sub = _fit(rest, y[keep], sub_cov, sub_head)
         without = (sub.chi2, chi_square_p(sub.chi2, dof - 1))
     q = fit.q
+    sigma = 1 / math.sqrt(fit.info) if fit.info > 0 else math.nan
     return Reconciliation(
         head_m=head, pressure_drop_pa=model.rho_g * (head + network.elevation_change),
         total_flow_m3_s=float(q.sum()), flows_m3_s=tuple(float(v) for v in q),
@@ -316,6 +307,7 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         suspect=suspect, without_suspect=without, readings=fits,
         verdict=_verdict(fits, fit.chi2, dof, p, consistent, suspect, without),
         covariance=tuple(tuple(float(v) for v in row) for row in cov),
+        head_sigma_m=sigma, pressure_drop_sigma_pa=model.rho_g * sigma,
     )
 
 
@@ -325,6 +317,7 @@ class _Fit:
     q: Array
     chi2: float
     nr: Array
+    info: float
 
 
 def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
@@ -337,38 +330,59 @@ def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
     vr = cov - np.outer(j, j) / info
     with np.errstate(invalid="ignore", divide="ignore"):
         nr = np.where(np.diag(vr) > 0, r / np.sqrt(np.abs(np.diag(vr))), 0.0)
-    return _Fit(g, q, float(r @ w @ r), nr)
+    return _Fit(g, q, float(r @ w @ r), nr, info)
 
 
 def _start(model: _Model, y: Array, meas: Array) -> float:
     """A first head: the one the most precise reading gives on its own (relative σ)."""
     k = int(np.argmin(np.sqrt(meas) / np.maximum(np.abs(y), 1e-300)))
-    o = model.obs[k]
+    return _head_of(model, k, float(y[k]))
+
+
+def _head_of(model: _Model, k: int, value: float) -> float:
+    """The head at which reading ``k`` alone would read ``value`` (asked once per reading)."""
+    key = (k, value)
+    if key not in model.alone:
+        model.alone[key] = _solve_alone(model, model.obs[k], value)
+    return model.alone[key]
+
+
+def _solve_alone(model: _Model, o: Observation, value: float) -> float:
     if o.kind == "pressure_drop":
-        return float(y[k] / model.rho_g - model.net.elevation_change)
-    from .hydraulics import head_for_total_flow
+        return value / model.rho_g - model.net.elevation_change
     if o.kind == "total_flow":
-        return float(head_for_total_flow(model.lay, y[k])[0][0])
+        if model.pipes is not None and value != 0:
+            try:
+                return head_for_total(model.pipes, value)[0]
+            except (Fallback, ArithmeticError, ValueError):
+                pass  # the arrays' solver
+        return float(head_for_total_flow(model.lay, value)[0][0])
     assert o.branch is not None
+    if model.pipes is not None and value != 0:
+        try:
+            return math.copysign(model.pipes[o.branch].evaluate(abs(value)), value)
+        except (Fallback, ArithmeticError, ValueError):
+            pass  # the arrays' solver
     q = np.zeros(model.lay.n_branches)
-    q[o.branch] = y[k]
+    q[o.branch] = value
     return float(head_and_slope(model.lay, q)[0][o.branch])
 
 
 def _optimum(model: _Model, y: Array, cov: Array, head: float) -> float:
-    """Gauss–Newton on H with V fixed: ΔH = Jᵀ W r / Jᵀ W J, to round-off."""
-    w = np.linalg.inv(cov)
-    for _ in range(60):
-        q = model.flows(head)
-        r = y - model.values(head, q)
-        j = model.slope(head)
-        step = float(j @ w @ r) / float(j @ w @ j)
-        if head != 0 and abs(step) > 0.5 * abs(head):  # keep the sign: at most halve or 1.5×
-            step = math.copysign(0.5 * abs(head), step)
-        head += step
-        if abs(step) <= 4e-16 * max(abs(head), 1e-300):
-            break
-    return head
+    """The head of least S with V fixed, over heads of either sign (:mod:`.reconcile_optimum`)."""
+    heads = [head]
+    for k in range(len(y)):
+        try:
+            heads.append(_head_of(model, k, float(y[k])))
+        except (ArithmeticError, ValueError, BranchwiseError):
+            continue  # a reading the model cannot reach alone: the others span the search
+    labels = [_reading_label(model, o) for o in model.obs]
+    return least_head(model.values, model.slope, y, cov, heads, labels)
+
+
+def _reading_label(model: _Model, o: Observation) -> str:
+    words = READING_WORDS[o.kind]
+    return words if o.branch is None else f"{words} on '{model.net.branches[o.branch].name}'"
 
 
 def _labels(network: Network, obs: Sequence[Observation],

@@ -108,10 +108,12 @@ class SamplingPlan:
     def unit_of(self, output: str) -> str:
         return {PRESSURE_DROP: "Pa", self.found_name: "m"}.get(output, "m³/s")
 
-    def variants(self, z: Array) -> Variants:
-        """The networks that the rows of ``z`` stand for, as arrays."""
+    def variants(self, z: Array, base: Layout | None = None) -> Variants:
+        """The networks that the rows of ``z`` stand for, as arrays (``base``: the network's
+        layout, when it is at hand)."""
         z = np.atleast_2d(np.asarray(z, dtype=float))
-        n, net, base = len(z), self.network, Layout.from_network(self.network)
+        base = Layout.from_network(self.network) if base is None else base
+        n, net = len(z), self.network
         seg = {k: np.tile(getattr(base, k), (n, 1)) for k in
                ("diameter", "length", "roughness", "minor_k")}
         nu, rho = np.full(n, net.fluid.kinematic_viscosity), np.full(n, net.fluid.density)
@@ -167,13 +169,19 @@ class SamplingPlan:
 
 
 def build_plan(
-    network: Network, given: Given, find: Find, tol: Tolerances, thermal: Thermal | None
+    network: Network, given: Given, find: Find, tol: Tolerances, thermal: Thermal | None,
+    given_sigma: tuple[str, float] | None = None,
 ) -> SamplingPlan:
-    """The inputs that ``tol`` makes uncertain for this solve (zero-width ones left out)."""
+    """The inputs that ``tol`` makes uncertain for this solve (zero-width ones left out).
+
+    given_sigma: (name, standard uncertainty in the given's unit) when the given is not one
+    instrument's reading (several readings weighed together): drawn in its place."""
     inputs: list[InputTolerance] = []
     notes: list[str] = []
     meter = tol.flow_meter_percent / 100
-    if isinstance(given, PressureDrop):
+    if given_sigma is not None and isinstance(given, PressureDrop):
+        inputs.append(InputTolerance(given_sigma[0], "gauge", SQRT3 * given_sigma[1]))
+    elif isinstance(given, PressureDrop):
         if tol.gauge_full_scale is None:
             notes.append("pressure-gauge accuracy taken as a percent of the reading: no full "
                          "scale was given")
@@ -293,9 +301,10 @@ every share of every output would fill memory)."""
 def monte_carlo(
     network: Network, given: Given, find: Find | None = None, tol: Tolerances | None = None,
     samples: int = 10_000, seed: int = 0, thermal: Thermal | None = None,
-    progress: Progress | None = None,
+    progress: Progress | None = None, given_sigma: tuple[str, float] | None = None,
 ) -> UncertaintyResult:
-    """Propagate ``tol`` through the solve of ``network`` with ``given`` and ``find``.
+    """Propagate ``tol`` through the solve of ``network`` with ``given`` and ``find``
+    (given_sigma: the given's own spread, see :func:`build_plan`).
 
     samples: Monte Carlo draws (≥ 10); seed: for numpy's ``default_rng`` (same seed, same
     answer); thermal: how ν and ρ move with temperature (see :meth:`Thermal.from_fluid_at`);
@@ -310,7 +319,7 @@ def monte_carlo(
         raise InputError("uncertainty.samples", samples, "must be a whole number of at least 10")
     samples = int(samples)
     nominal = solve(network, given, find)
-    plan = build_plan(network, given, find, tol, thermal)
+    plan = build_plan(network, given, find, tol, thermal, given_sigma)
     notes, n_in = list(plan.notes), len(plan.inputs)
     size = chunk_rows(len(Layout.from_network(network).diameter), n_in)
     total_rows = samples + 2 * n_in

@@ -41,8 +41,10 @@ def given_text(sr: SiteResult, reader: Units | str = "si") -> str:
     """The reading the head is solved from: ``pressure drop 68.00 kPa``."""
     u, g = units_for(reader), sr.built.given
     if solves_from_all(sr.site):
-        return (f"all {len(sr.reconciliation.readings) if sr.reconciliation else ''} readings "
-                f"weighed together (reconciled pressure drop {u.quantity(g.value, 'pressure')})")
+        n = len(sr.reconciliation.readings) if sr.reconciliation else 0
+        which = "both readings" if n == 2 else f"all {n} readings" if n else "all readings"
+        return (f"{which} weighed together (reconciled pressure drop "
+                f"{u.quantity(g.value, 'pressure')})")
     kind = kind_of(g)
     value = u.quantity(g.value, kind.quantity)
     if kind.on_branch:

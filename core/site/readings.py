@@ -3,8 +3,9 @@
 On a walkdown an engineer often has more than one reading: the differential gauge across the
 headers and a clamp-on meter on one branch, say. A site may keep them all — ``pressure_drop``
 and ``total_flow`` in ``[conditions]``, ``measured_flow`` on any branch — as long as
-``conditions.given`` says which one fixes the head (``"pressure_drop"``, ``"total_flow"`` or the
-name of the branch whose measured flow it is). With a single reading ``given`` is not needed.
+``conditions.given`` says which one fixes the head (``"pressure_drop"``, ``"total_flow"``, the
+name of the branch whose measured flow it is, or ``"all"``: every reading weighed together,
+:mod:`.reconcile`). With a single reading ``given`` is not needed.
 The others are kept for the record and compared with what the solve makes of them.
 """
 
@@ -22,6 +23,9 @@ if TYPE_CHECKING:  # the solve's own modules load with numpy, after the app's fi
     from ..numerics.results import Result
     from ..numerics.uncertainty import UncertaintyResult
 
+GIVEN_WORDS = ('must be pressure_drop, total_flow, the name of a branch with a measured_flow, '
+               'or "all" (every reading weighed together)')
+"""What ``conditions.given`` may say."""
 
 
 @dataclass(frozen=True)
@@ -66,11 +70,11 @@ def chosen(site: Site) -> tuple[Reading, list[Reading]]:
             first, second = held[0], held[1]
             raise InputError(second.path, describe(second.value), f"contradicts {first.path}: "
                              "keep one reading, or say which one to solve from with "
-                             "conditions.given (pressure_drop, total_flow or a branch's name)")
+                             "conditions.given (pressure_drop, total_flow, a branch's name, or "
+                             '"all" to weigh them together)')
         return held[0], []
     if not isinstance(given, str) or not given.strip():
-        raise InputError("conditions.given", describe(given), "must be pressure_drop, "
-                         "total_flow or the name of a branch with a measured_flow")
+        raise InputError("conditions.given", describe(given), GIVEN_WORDS)
     key = given.strip()
     if key.casefold() == "all":  # every reading weighed (.reconcile): the first stands in
         if len(held) < 2:
@@ -88,8 +92,7 @@ def chosen(site: Site) -> tuple[Reading, list[Reading]]:
         return measured[0], [o for o in held if o is not measured[0]]
     what = ("that branch has no measured_flow" if key in names else
             "the site holds no such reading" if key in GIVENS
-            else "must be pressure_drop, total_flow or the name of a branch with a "
-                 "measured_flow")
+            else GIVEN_WORDS)
     raise InputError("conditions.given", describe(given), what)
 
 

@@ -34,6 +34,10 @@ if TYPE_CHECKING:
     from ..storage.presets import PresetSource
 
 
+WEIGHED = "readings weighed together"
+"""The given's uncertainty input with ``conditions.given = "all"``."""
+
+
 @dataclass(frozen=True)
 class CatalogPick:
     """The smallest catalog size at least as large as a found diameter, and what it carries.
@@ -202,7 +206,7 @@ def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any
 def uncertainty_for_site(
     site: Site, samples: int = 10_000, seed: int = 0, presets: PresetSource | None = None,
     tolerances: Tolerances | None = None, built: Built | None = None,
-    progress: Progress | None = None,
+    progress: Progress | None = None, reconciliation: Reconciliation | None = None,
 ) -> UncertaintyResult:
     """Monte Carlo bands, the GUM linear estimate and the ranking for ``site``
     (:func:`branchwise.core.numerics.uncertainty.monte_carlo`), with the site's own tolerances.
@@ -213,7 +217,10 @@ def uncertainty_for_site(
     The temperature tolerance moves ν and ρ through the site's fluid model
     (:func:`~branchwise.core.site.tolerances.site_thermal`). Errors name the site's fields
     (``tolerances.<key>``); nothing is printed. progress: told (rows solved, rows in all)
-    as the run goes; what it raises ends the run.
+    as the run goes; what it raises ends the run. With ``conditions.given = "all"`` the bands
+    start from the reconciled pressure drop and draw its own spread (:data:`WEIGHED`: the
+    head's standard uncertainty from the readings weighed together) in place of one
+    instrument's; reconciliation: the site's, when it is at hand (saves weighing again).
     """
     from ..numerics.uncertainty import Tolerances, monte_carlo
     from .tolerances import site_thermal
@@ -221,11 +228,21 @@ def uncertainty_for_site(
     built = build(site, presets) if built is None else built
     tol = tolerances or built.tolerances or Tolerances()
     tol, thermal, notes = site_thermal(site, tol, presets)
+    spread, rec = None, None
+    if solves_from_all(site):
+        rec = reconcile_site(site, built, presets) if reconciliation is None else reconciliation
+        if rec is not None:
+            built = replace(built, given=PressureDrop(rec.pressure_drop_pa))
+            spread = (WEIGHED, rec.pressure_drop_sigma_pa)
     try:
         res = monte_carlo(built.network, built.given, built.find, tol, samples, seed, thermal,
-                          progress)
+                          progress, spread)
     except BranchwiseError as exc:
         raise exc.naming([b.name for b in built.network.branches]) from None
+    if spread is not None and rec is not None and not rec.consistent:
+        notes = (*notes, f"the readings weighed together disagree (p = {rec.p_value:.2g}): the "
+                 "spread of the reconciled pressure drop takes them as agreeing, so the bands "
+                 "are too narrow until the reading at fault is found")
     return _say_cv(site, replace(res, notes=(*notes, *res.notes)))
 
 
@@ -251,5 +268,5 @@ def with_uncertainty(sr: SiteResult, samples: int = 10_000, seed: int = 0,
     """``sr`` with its :attr:`SiteResult.uncertainty` filled (see :func:`uncertainty_for_site`);
     the reports then show the bands and the ranking."""
     res = uncertainty_for_site(sr.site, samples, seed, presets, built=sr.built,
-                               progress=progress)
+                               progress=progress, reconciliation=sr.reconciliation)
     return replace(sr, uncertainty=res)

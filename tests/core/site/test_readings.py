@@ -36,6 +36,7 @@ def test_two_readings_need_to_say_which_one_is_given():
         chosen(site())
     assert caught.value.field == "branches[2].measured_flow"
     assert "conditions.given" in caught.value.reason
+    assert '"all"' in caught.value.reason  # weighing them together is one of the choices
 
 
 @pytest.mark.parametrize(("given", "kind"), [("pressure_drop", "pressure_drop"),
@@ -53,6 +54,14 @@ def test_given_naming_nothing_held_is_refused(given, words):
     with pytest.raises(InputError) as caught:
         solve_site(site(given))
     assert caught.value.field == "conditions.given" and words in caught.value.reason
+    if words.startswith("must be"):
+        assert '"all"' in caught.value.reason
+
+
+def test_two_readings_weighed_are_both_readings():
+    from branchwise.core.report.lines import given_text
+
+    assert given_text(solve_site(site("all"))).startswith("both readings weighed together")
 
 
 def test_a_reading_that_agrees_with_the_solve_shows_no_difference():

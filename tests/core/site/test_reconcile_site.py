@@ -80,3 +80,23 @@ def test_a_reading_with_no_spread_is_named_and_does_not_stop_the_answer():
     with pytest.raises(InputError) as caught:
         solve_site(parse_site(text.replace('given = "pressure_drop"', 'given = "all"')))
     assert caught.value.field == "conditions.pressure_drop"
+
+
+def test_the_band_of_all_readings_weighed_draws_the_weighing_not_the_gauge():
+    # Three readings weighed: the reconciled head is known better than from the gauge alone
+    # (the WLS variance (Jᵀ V⁻¹ J)⁻¹ is at most any single reading's, Narasimhan & Jordache
+    # 2000, ch. 3), and the band draws that spread under its own name.
+    from branchwise.core.site.solve import with_uncertainty
+
+    plain = solve_site(parse_site(demo_text()))
+    gpm = plain.result.branch("AHU-3 coil").flow / (231 * 0.0254**3 / 60)  # NIST SP 811
+    sr = with_uncertainty(solve_site(parse_site(_site(round(gpm, 1), given="all"))), 200)
+    rec, band = sr.reconciliation, sr.uncertainty
+    assert rec is not None and band is not None
+    gauge = next(f for f in rec.readings if f.reading == "pressure_drop")
+    assert rec.pressure_drop_sigma_pa < gauge.sigma_si
+    dp = band.outputs["pressure drop"]
+    assert dp.linear_sigma == pytest.approx(rec.pressure_drop_sigma_pa, rel=1e-6)
+    names = [i.name for i in band.inputs]
+    assert "readings weighed together" in names and "pressure gauge" not in names
+    assert not any("disagree" in n for n in band.notes)
