@@ -14,7 +14,7 @@ from functools import cache
 from typing import Any
 
 SCHEMA_FILE = "result.schema.json"
-SCHEMA_VERSION = "1.3"
+SCHEMA_VERSION = "1.4"
 """``schema_version`` of the JSON: major 1 for as long as keys are only added; the minor
 number rises with each key added."""
 
