@@ -10,6 +10,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from networks import test_header
+from peak_memory import ON_LINUX, peak_kb
 
 from branchwise.core.numerics import nudges as nudges_module
 from branchwise.core.numerics.reconcile import Observation, reconcile
@@ -43,23 +44,12 @@ def test_the_spread_is_the_same_in_chunks_of_one_input():
     assert chunked.head_m == pytest.approx(whole.head_m, rel=1e-12)
 
 
-@pytest.mark.skipif(not __import__("os").path.exists("/proc/self/status"),
-                    reason="VmHWM is read from Linux's /proc")
+@ON_LINUX
 def test_peak_memory_of_weighing_1000_branches_stays_under_250_mb(tmp_path):
     """1,000 branches, `given = "all"` (`branchwise solve`): 1.3 GB before (measured), about
-    90 MB now; the peak of the process that runs it (its VmHWM, as the uncertainty's memory
-    test reads it)."""
-    import subprocess
-    import sys
-
+    90 MB now; the peak of the process that runs it (its VmHWM, see tests/peak_memory.py)."""
     path = tmp_path / "big.toml"
     path.write_text(_big_site(1000), encoding="utf-8")
-    code = ("from branchwise.tui.cli import main; "
-            f"code = main(['solve', {str(path)!r}, '-o', {str(tmp_path / 'out.txt')!r}]); "
-            "hwm = [l.split()[1] for l in open('/proc/self/status') if l.startswith('VmHWM:')]; "
-            "print(code, hwm[0])")
-    run = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         timeout=600, check=True)
-    status, peak_kb = (int(x) for x in run.stdout.split())
+    status, peak = peak_kb(["solve", str(path), "-o", str(tmp_path / "out.txt")])
     assert status == 0
-    assert 10 * 1024 < peak_kb < 250 * 1024, f"peak {peak_kb / 1024:.0f} MB"
+    assert 10 * 1024 < peak < 250 * 1024, f"peak {peak / 1024:.0f} MB"

@@ -12,6 +12,7 @@ import math
 
 import numpy as np
 import pytest
+from peak_memory import ON_LINUX, peak_kb
 
 import branchwise.core.numerics.draws as draws
 import branchwise.core.numerics.uncertainty as uncertainty
@@ -159,28 +160,15 @@ def test_every_solve_call_stays_within_the_chunk(monkeypatch):
     assert sum(sizes) == 3_000 + 2 * inputs  # every draw and every ± step, once
 
 
-@pytest.mark.skipif(not __import__("os").path.exists("/proc/self/status"),
-                    reason="VmHWM is read from Linux's /proc")
+@ON_LINUX
 def test_peak_memory_of_a_large_run_stays_under_300_mb(tmp_path):
     """200 branches × 10,000 draws (`solve --uncertainty`): 1.2 GB when solved in one piece
-    (measured), under 300 MB now; the peak of the process that runs it, as the OS counts it.
-
-    The peak is the child's VmHWM, not `ru_maxrss`: Linux carries `ru_maxrss` across fork and
-    exec, so a child started by a test process of 420 MB reported 420 MB before it had done
-    anything (seen on CI; a child of a 500 MB parent reports 511 MB against a VmHWM of 11 MB)."""
-    import subprocess
-    import sys
-
+    (measured), under 300 MB now; the peak of the process that runs it (its VmHWM, see
+    tests/peak_memory.py)."""
     from branchwise.core.site.write import save_site
 
     path = save_site(_many_branches(200), tmp_path / "big.toml")
-    code = ("from branchwise.tui.cli import main; "
-            f"code = main(['solve', {str(path)!r}, '--uncertainty', '-o', "
-            f"{str(tmp_path / 'out.txt')!r}]); "
-            "hwm = [l.split()[1] for l in open('/proc/self/status') if l.startswith('VmHWM:')]; "
-            "print(code, hwm[0])")
-    run = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         timeout=600, check=True)
-    status, peak_kb = (int(x) for x in run.stdout.split())
+    status, peak = peak_kb(["solve", str(path), "--uncertainty", "-o",
+                            str(tmp_path / "out.txt")])
     assert status == 0
-    assert 10 * 1024 < peak_kb < 300 * 1024, f"peak {peak_kb / 1024:.0f} MB"
+    assert 10 * 1024 < peak < 300 * 1024, f"peak {peak / 1024:.0f} MB"
