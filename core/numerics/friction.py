@@ -200,11 +200,11 @@ def _bridged(
 
 
 def regime(re: Array) -> NDArray[np.str_]:
-    """'laminar', 'transition' or 'turbulent' for each Reynolds number."""
+    """'laminar', 'transition' or 'turbulent' for each Reynolds number; 'none' where nothing
+    flows (a zero reading given: no regime, and no friction factor either)."""
     re = np.abs(np.asarray(re, dtype=float))
-    return np.where(
-        re < RE_LAMINAR, "laminar", np.where(re < RE_TURBULENT, "transition", "turbulent")
-    )
+    return np.where(re == 0, "none", np.where(
+        re < RE_LAMINAR, "laminar", np.where(re < RE_TURBULENT, "transition", "turbulent")))
 
 
 # ---- Hazen–Williams ---------------------------------------------------------------------------

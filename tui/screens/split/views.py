@@ -17,6 +17,7 @@ the system curve; the totals, the found value and the warnings under it.
 from __future__ import annotations
 
 import copy
+import math
 from collections.abc import Iterable
 from typing import TYPE_CHECKING
 
@@ -57,7 +58,7 @@ CURVE_FACTOR = 1.5
 VIEWS = {"table": "#results", "band": "#band-view", "curve": "#curve-view"}
 MAX_WARNING_LINES = 6
 """At most this many warning lines under the table; fewer when the branch rows need the room."""
-REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb."}
+REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb.", "none": "—"}
 MARK = "≈"
 """The mark in front of a reading's line (warnings carry ⚠, notes •)."""
 
@@ -233,7 +234,8 @@ class ResultViews(Vertical):
                     (share_bar(br.share, 6, *bar) if wide else _percent(br.share)) if first else "",
                     number(seg.velocity, "velocity", 3),
                     f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
-                    f"{seg.friction_factor:.4f}",
+                    f"{seg.friction_factor:.4f}" if math.isfinite(seg.friction_factor)
+                    else "—",
                     REGIMES.get(seg.regime, seg.regime),
                     number(seg.major_loss, "head", 3),
                     number(seg.minor_loss, "head", 3),
