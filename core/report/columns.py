@@ -75,7 +75,8 @@ def segment_rows(
             first = j == 0
             cells = {
                 "velocity": q(s.velocity, "velocity"), "reynolds": f"{s.reynolds:.0f}",
-                "f": format_number(s.friction_factor, 4), "regime": "no flow" if s.regime == "none" else s.regime,
+                "f": format_number(s.friction_factor, 4),
+                "regime": "no flow" if s.regime == "none" else s.regime,
                 "diameter": q(s.diameter, "diameter"), "length": q(s.length, "length"),
                 "major": q(s.major_loss, "head"), "minor": q(s.minor_loss, "head"),
                 "seg": str(j + 1) if len(b.segments) > 1 else "",
