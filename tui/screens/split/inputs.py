@@ -240,7 +240,10 @@ class GivenFindRows(Vertical):
         label = ("the reading on " + branch_name(site, new_index) if new_index is not None
                  else new_kind.replace("_", " "))
         app.edit(f"Given: {label}", change)
-        self.query_one("#given-value", Input).focus()
+        if not given_text(app.site):  # it waits for its reading: type it now
+            self.query_one("#given-value", Input).focus()
+        # (a reading already there keeps the keys as commands: v goes in to change it, and
+        # a letter meant as a key never replaces the reading)
 
     def _current(self, kind: str, index: int | None, *, down: bool = False,
                  digits: int | None = None) -> str:
