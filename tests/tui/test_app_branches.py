@@ -137,3 +137,29 @@ def test_fittings_typed_as_a_line_list_writes_them():
 
     assert parse_fittings("3 elbow-90; 1 swing-check-valve") == parse_fittings(
         "elbow-90 3, swing-check-valve 1") == {"elbow-90": 3.0, "swing-check-valve": 1.0}
+
+
+def test_two_rows_of_one_name_show_no_flow_and_a_stale_flow_is_dimmed(ui):
+    """Renaming the bypass 'AHU-1 coil' showed AHU-1's last flow on the bypass row, at full
+    brightness (found in a trial): a flow goes only to a row whose name is its own alone, and
+    the last good answer's flows are dimmed while the site is in error."""
+    from branchwise.tui.screens.branches.cells import flow_cells
+
+    async def scenario() -> None:
+        async with ui.started(key="f3") as (app, pilot):
+            table = app.screen.query_one("DataTable")
+            table.move_cursor(row=3, column=0)  # the bypass (AHU-1..3 above it)
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            assert app.focused.id == "cell-input"
+            await pilot.press("ctrl+u")
+            await ui.type(pilot, "AHU-1 coil")
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            assert app.outcome.error is not None  # duplicate names
+            flows = flow_cells(app)
+            assert 0 not in flows and 3 not in flows and 1 in flows
+            cell = table.get_row_at(1)[1]  # AHU-2's flow, from the last good answer
+            assert "dim" in str(cell.style)
+
+    ui.run(scenario)

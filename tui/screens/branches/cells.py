@@ -11,6 +11,7 @@ column's display unit.
 from __future__ import annotations
 
 import re
+from collections import Counter
 from collections.abc import Callable
 from typing import TYPE_CHECKING
 
@@ -113,15 +114,18 @@ def cell_text(br: BranchSpec, seg: SegmentSpec, column: str) -> str:
 
 def flow_cells(app: Workspace) -> dict[int, str]:
     """The Flow column: each branch's flow in the present answer (or the last good one),
-    by branch index, in the display unit; a branch the answer does not name has none."""
+    by branch index, in the display unit; a branch the answer does not name has none, nor
+    do two rows that now share a name (the last answer's flow would be one of theirs)."""
     shown = app.outcome if app.outcome is not None and app.outcome.ok else app.good
     if shown is None or shown.solved is None:
         return {}
     names = {br.name.casefold(): br.flow for br in shown.solved.result.branches}
+    typed = [text_of(br.name).strip().casefold() for br in app.site.branches]
+    rows_named = Counter(typed)
     out = {}
-    for i, br in enumerate(app.site.branches):
-        flow = names.get(text_of(br.name).strip().casefold())
-        if flow is not None:
+    for i, name in enumerate(typed):
+        flow = names.get(name)
+        if flow is not None and rows_named[name] == 1:  # two rows of one name: whose?
             out[i] = app.fmt(flow, "flow", unit=False)
     return out
 

@@ -131,6 +131,7 @@ class BranchesScreen(WorkScreen):
         bad_column = FIELD_COLUMNS.get(bad.name, "name") if bad and bad.area == "branches" \
             else None
         flows = flow_cells(app)
+        stale = outcome is not None and outcome.error is not None  # the last good answer's
         given = given_of(site) if not weighs_all(site) else ("all", None)
         self._rows = []
         rows: list[tuple[str, list[object]]] = []
@@ -149,7 +150,8 @@ class BranchesScreen(WorkScreen):
                     wrong = (bad is not None and bad.branch == i and key == bad_column
                              and (bad.segment or 0) == j)
                     cells.append(Text(text or "?", style=wrong_style) if wrong
-                                 else Text(text, justify="right" if key == "flow" else "left"))
+                                 else Text(text, justify="right", style="dim" if stale else "")
+                                 if key == "flow" else Text(text, justify="left"))
                 rows.append((f"{i}.{j}", cells))
                 self._rows.append((i, j))
         table.show(columns, rows)
