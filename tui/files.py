@@ -216,6 +216,7 @@ class SiteFiles:
             self.ws.save_settings()
         self.ws.session.replace(site)
         self.ws.good = None
+        self.ws.latest_band = None
         self.ws.site_changed()
         if self.ws.session.made_inert:
             from .state.session import inert_note

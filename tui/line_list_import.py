@@ -38,6 +38,7 @@ def open_line_list(app: App[None], path: Path) -> bool:
     ws.session.replace(listed.site(path.stem))
     ws.session.mark_unsaved()  # an import is unsaved work until it is saved as a site
     ws.good = None
+    ws.latest_band = None
     ws.site_changed()
     left_out = f"\nColumns left out: {', '.join(listed.ignored)}" if listed.ignored else ""
     app.notify(f"Imported {len(listed.branches)} branches from {path.name}: set the liquid "

@@ -305,3 +305,27 @@ def test_band_of_a_site_without_an_answer(ui):
             assert screen.query_one("#band-view", BandView).has_class("-stale")
 
     ui.run(scenario)
+
+
+def test_a_band_of_another_site_is_not_shown_after_opening_a_line_list(ui, tmp_path):
+    """With the band open, a line list opened (Ctrl+O) showed 'No band: … below, the band
+    of earlier inputs' and under it the band of the site before, its branches and all (found in
+    a trial): a band belongs to the site it was worked out for."""
+    lines = tmp_path / "lines.csv"
+    lines.write_text("Name,Bore (mm),Length (m),Roughness (mm)\nLoop A,80,40,0.045\n"
+                     "Loop B,50,30,0.045\n", encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started() as (app, pilot):
+            screen = app.screen
+            await pilot.press("b")
+            await until(pilot, lambda: screen.views.band_state() == "current")
+            assert "AHU-1 coil" in ui.text(app)
+            app.files.open_choice(lines)
+            await ui.settle(pilot)
+            assert app.site.branches[0].name == "Loop A"
+            text = ui.text(app)
+            assert "AHU-1 coil" not in text and "earlier inputs" not in text
+            assert app.latest_band is None
+
+    ui.run(scenario)

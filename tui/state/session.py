@@ -127,6 +127,10 @@ class Session:
     """The site as last saved or opened (None: nothing on disk matches it, such as restored
     work); set with the first revision when the session starts."""
 
+    opened: int = 0
+    """The revision at which the present site was opened: what was worked out before it (a
+    band, an answer) belongs to another site."""
+
     made_inert = False
     """Control characters in the site's texts were shown escaped when it was opened (said
     once by the app; a save keeps them so)."""
@@ -197,6 +201,7 @@ class Session:
         self.redo_stack.clear()
         self.parked.clear()
         self.revision += 1
+        self.opened = self.revision
         self.mark_saved()
 
     def mark_saved(self) -> None:

@@ -398,7 +398,7 @@ class ResultViews(Vertical):
         ``broken`` (the site has no answer: bad input, or readings no flow fits), ``stale``
         or ``none``."""
         app = self.bw
-        rev, band, outcome = app.session.revision, self.band, app.outcome
+        rev, band, outcome = app.session.revision, self._own_band(), app.outcome
         if self._band_running == rev:
             return "computing"
         if band is not None and band.revision == rev:
@@ -407,10 +407,15 @@ class ResultViews(Vertical):
             return "broken"
         return "none" if band is None else "stale"
 
+    def _own_band(self) -> Band | None:
+        """The last band worked out, unless it was for a site opened before this one."""
+        band = self.band
+        return band if band is not None and band.revision >= self.bw.session.opened else None
+
     def _draw_band(self) -> None:
         from ...widgets.bandview import WIDE, BandView, band_body, band_notes
 
-        app, band, state = self.bw, self.band, self.band_state()
+        app, band, state = self.bw, self._own_band(), self.band_state()
         warn = f"bold {colour(self.app, 'text-warning')}".strip()
         draws = f"{BAND_SAMPLES:,} Monte Carlo draws"
         head = {
