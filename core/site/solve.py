@@ -51,6 +51,11 @@ class CatalogPick:
     result: Result
 
 
+UNWEIGHED = "Readings not weighed against each other"
+"""How the note begins when the readings beside the given cannot be weighed (shown on its own
+where the weighed readings would be)."""
+
+
 @dataclass(frozen=True)
 class SiteResult:
     """A solved site: the core result, the built network, the catalog size if any, and the
@@ -91,8 +96,9 @@ def solve_site(site: Site, presets: PresetSource | None = None,
             rec = reconcile_site(site, built, presets)
         except InputError as exc:
             rec = None
-            named = exc.naming(names)
-            notes.append(f"Readings not weighed against each other: {named}")
+            from .fields import error_text
+
+            notes.append(f"{UNWEIGHED}: {error_text(exc, 'si', names)}")
     try:
         result = solve(built.network, built.given, built.find)
     except BranchwiseError as exc:

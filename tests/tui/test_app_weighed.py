@@ -56,3 +56,24 @@ def test_all_readings_weighed_stays_the_given_while_readings_change():
     remove_branch(site, 0)  # AHU-1 and its reading go: the gauge alone is the given
     assert not weighs_all(site) and site.conditions.given is None
     assert site.conditions.pressure_drop == "10 psid"
+
+
+def test_readings_that_cannot_be_weighed_say_why_in_the_weighed_list(ui, tmp_path):
+    """A zero clamp-on beside the gauge cannot be weighed (its tolerance is a share of the
+    reading): x says why, naming the branch, not "No readings to weigh"."""
+    from branchwise.core.site.read import demo_text
+
+    path = tmp_path / "zero.toml"
+    path.write_text(demo_text().replace('# measured_flow = "80 gpm"', 'measured_flow = "0 gpm"')
+                    .replace('friction = "colebrook"', 'friction = "colebrook"\n'
+                             'given = "pressure_drop"'), encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started(size=(120, 40), site=path) as (app, pilot):
+            await pilot.press("x")
+            await ui.settle(pilot)
+            text = ui.text(app)
+            assert "No readings to weigh" not in text
+            assert 'branch "AHU-3 coil" measured_flow' in text
+
+    ui.run(scenario)
