@@ -163,3 +163,26 @@ def test_two_rows_of_one_name_show_no_flow_and_a_stale_flow_is_dimmed(ui):
             assert "dim" in str(cell.style)
 
     ui.run(scenario)
+
+
+def test_a_refused_reading_is_not_said_to_be_kept(ui):
+    """`inf gpm` as a clamp-on: the error beside the field, and no toast saying the reading
+    was kept beside the given (found in a trial)."""
+    async def scenario() -> None:
+        async with ui.started(key="f3") as (app, pilot):
+            said: list[str] = []
+            screen = app.screen
+            screen.notify = lambda message, **kw: said.append(str(message))
+            table = screen.query_one("DataTable")
+            for text, kept in (("inf gpm", False), ("80 gpm", True)):
+                table.move_cursor(row=2, column=0)
+                await pilot.press("m")
+                await ui.settle(pilot)
+                await pilot.press("ctrl+u")
+                await ui.type(pilot, text)
+                await pilot.press("enter")
+                await ui.settle(pilot)
+                assert any("kept beside the given" in s for s in said) == kept, text
+            assert app.outcome.error is None
+
+    ui.run(scenario)

@@ -280,6 +280,8 @@ class BranchesScreen(WorkScreen):
         value = with_unit(text, app.unit("flow"))
         if value:
             app.edit(f"Reading on {name}", lambda s: add_reading(s, i, value))
+            if not _reads_as_flow(value):
+                return  # the error is said beside the field: no word that it was kept
             if given_of(app.site) == ("measured_flow", i) and not weighs_all(app.site):
                 self.notify(f"The reading on {name} is the given condition.", timeout=4)
             else:
@@ -428,3 +430,15 @@ def reading_hint(site: Site, given: tuple[str, int | None]) -> str:
     return f"Given: the {given_words(site, *given)}." + (
         " The other readings are compared with the answer on Split (F4); g there changes "
         "the given." if others else " g on Split (F4) changes the given.")
+
+
+def _reads_as_flow(text: str) -> bool:
+    """Whether ``text`` reads as a flow (as the site's own check will read it)."""
+    from branchwise.core.errors import InputError
+    from branchwise.core.units import parse_quantity
+
+    try:
+        parse_quantity(text, "flow", "measured_flow")
+    except InputError:
+        return False
+    return True
