@@ -186,3 +186,18 @@ def test_a_refused_reading_is_not_said_to_be_kept(ui):
             assert app.outcome.error is None
 
     ui.run(scenario)
+
+
+def test_removing_a_branch_earlier_visits_read_warns_with_their_dates(ui):
+    """The demo's visits read AHU-3's clamp-on: removing AHU-3 says so, with the dates."""
+    async def scenario() -> None:
+        async with ui.started(key="f3") as (app, pilot):
+            said: list[str] = []
+            app.screen.notify = lambda message, **kw: said.append(str(message))
+            app.screen.query_one("DataTable").move_cursor(row=2, column=0)
+            await pilot.press("delete")
+            await ui.settle(pilot)
+            assert [b.name for b in app.site.branches].count("AHU-3 coil") == 0
+            assert any("Earlier visits read it (2024-09-18, 2025-01-15)" in s for s in said)
+
+    ui.run(scenario)

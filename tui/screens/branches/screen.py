@@ -379,8 +379,16 @@ class BranchesScreen(WorkScreen):
             if s.solve is not None and text_of(s.solve.branch).casefold() == name.casefold():
                 s.solve = None
 
+        read_in = [text_of(v.date) for v in site.visits
+                   if name.casefold() in {str(k).strip().casefold() for k in v.measured}]
         self.bw.edit(f"Remove {name}", change)
-        self.notify(f"Removed {name}. Ctrl+Z brings it back.", timeout=5)
+        if read_in:
+            self.notify(f"Removed {name}. Earlier visits read it ({', '.join(read_in)}): "
+                        "those readings now name no branch, and the history (F5) says so "
+                        "until it is back. Ctrl+Z brings it back.", severity="warning",
+                        timeout=10)
+        else:
+            self.notify(f"Removed {name}. Ctrl+Z brings it back.", timeout=5)
 
     def action_add_segment(self) -> None:
         spot = self.here()
