@@ -179,7 +179,8 @@ class _Text:
                     "models' (several percent): prefer colebrook here")
         if code == "reverse-flow":
             why = ("the outlet pressure is above the inlet pressure — check the sign of the "
-                   "pressure drop" if net.elevation_change <= 0 else
+                   "pressure drop, or of the reading solved from (a clamp-on mounted the other "
+                   "way reads a negative flow)" if net.elevation_change <= 0 else
                    "the pressure difference is less than the static lift")
             return f"reverse flow ({flow_text(values[0])}): {why}"
         if code == "not-converged":
