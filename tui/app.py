@@ -379,14 +379,24 @@ class BranchwiseApp(App[None]):
     def action_undo(self) -> None:
         label = self.session.undo()
         if label is not None:
+            self._leave_typing()
             self.site_changed()
             self.notify(f"Undone: {label}", timeout=3)
 
     def action_redo(self) -> None:
         label = self.session.redo()
         if label is not None:
+            self._leave_typing()
             self.site_changed()
             self.notify(f"Redone: {label}", timeout=3)
+
+    def _leave_typing(self) -> None:
+        """Out of a screen's typing field before an undo or redo is drawn: a field keeps what
+        is typed in it while it has the focus, so it would go on showing the value undone."""
+        from textual.widgets import Input
+
+        if isinstance(self.focused, Input) and self.focused.id != "cell-input":
+            self.set_focus(None)
 
     def action_toggle_units(self) -> None:
         self.unit_system = "us" if self.unit_system == "si" else "si"

@@ -35,3 +35,22 @@ def test_a_given_with_its_reading_is_not_opened_for_typing(ui):
             assert app.site.conditions.pressure_drop == "10 psid"
 
     ui.run(scenario)
+
+
+def test_undo_while_typing_shows_the_value_undone_in_the_field(ui):
+    """v, 7, Ctrl+Z: the answer went back to 10 psid but the field still showed 7 until
+    Enter or Esc (found in a trial)."""
+    async def scenario() -> None:
+        async with ui.started() as (app, pilot):
+            await pilot.press("v")
+            await pilot.press("ctrl+u")
+            await ui.type(pilot, "7 psi")
+            await ui.settle(pilot)
+            assert app.site.conditions.pressure_drop == "7 psi"
+            await pilot.press("ctrl+z")
+            await ui.settle(pilot)
+            assert app.site.conditions.pressure_drop == "10 psid"
+            box = app.screen.query_one("#given-value", Input)
+            assert box.value == "10 psid"
+
+    ui.run(scenario)
