@@ -181,3 +181,19 @@ def test_a_still_or_reversed_line_shows_plainly_at_80x24(ui, tmp_path, old, new,
             assert "+46 % ± 13 % ⚑" in text or "Flow" in text
 
     ui.run(scenario)
+
+
+def test_a_branch_read_twice_but_not_trended_says_to_see_the_notes(ui, tmp_path):
+    """AHU-1's clamp-on reads 0 at the first visit and 330 gpm at the second: two clamp-ons,
+    so not 'no 2 clamp-ons' (found in a trial) but the notes' reason."""
+    path = tmp_path / "site.toml"
+    path.write_text(demo_text().replace('"AHU-1 coil" = "335 gpm"', '"AHU-1 coil" = "0 gpm"'),
+                    encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started("f5", size=(120, 40), site=path) as (app, pilot):
+            await ui.settle(pilot)
+            line = next(x for x in ui.text(app).splitlines() if x.strip().startswith("AHU-1"))
+            assert "not trended: see the notes" in line and "no 2 clamp-ons" not in line
+
+    ui.run(scenario)

@@ -173,6 +173,15 @@ class HistoryScreen(WorkScreen):
 
         return f"{WORDS[self.indicator]} ({unit_of(self.indicator, u)})"
 
+    def _no_trend(self, h: History, name: str) -> str:
+        """Why ``name`` has no trend of the indicator shown: too few clamp-ons, or (with two
+        or more) figures a trend cannot take, which the visits' notes name."""
+        if self.indicator == "flow":
+            return NO_TREND["flow"]
+        read = sum(1 for v in h.visits for b in v.solved.branches
+                   if b.name == name and b.flow is not None and b.flow.measured)
+        return NO_TREND[self.indicator] if read < 2 else "not trended: see the notes"
+
     def _trends(self, h: History, u: Units, table: TextTable, what: Static) -> None:
         from branchwise.core.report.history_report import number
 
@@ -185,7 +194,7 @@ class HistoryScreen(WorkScreen):
         for name in names:
             t = trends.get(name)
             if t is None:
-                rows.append([name, "—", "—", "—", "—", Text(NO_TREND[self.indicator],
+                rows.append([name, "—", "—", "—", "—", Text(self._no_trend(h, name),
                                                             style="dim")])
                 continue
 
