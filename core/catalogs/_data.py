@@ -38,8 +38,12 @@ def pipe_files() -> tuple[str, ...]:
 
 
 def close_matches(word: str, choices: list[str], n: int = 4) -> list[str]:
-    """Up to ``n`` of ``choices`` that look like ``word``, best first (for error messages)."""
-    return difflib.get_close_matches(word, choices, n=n, cutoff=0.5)
+    """Up to ``n`` of ``choices`` that look like ``word``, best first (for error messages):
+    those it begins, then those difflib finds alike (at its usual cutoff, 0.6: below it a
+    strainer looked like a sharp entrance)."""
+    starts = [c for c in choices if word and c.startswith(word)]
+    alike = difflib.get_close_matches(word, choices, n=n, cutoff=0.6)
+    return list(dict.fromkeys(starts + alike))[:n]
 
 
 def spoken_list(items: list[str]) -> str:

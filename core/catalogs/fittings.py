@@ -118,8 +118,11 @@ def fitting(key: str, field: str = "fittings") -> Fitting:
     wanted = "-".join(key.strip().lower().replace("_", " ").split())
     found = _fittings().get(wanted) or _aliases().get(wanted)
     if found is None:
-        keys = list(_fittings())
-        close = _data.close_matches(wanted, keys) or keys
+        close = _data.close_matches(wanted, list(_fittings()))
+        if not close:  # a kind the list does not hold (a strainer, a coil): its K is typed
+            raise InputError(field, describe(key), "unknown fitting, and none of the list is "
+                             "close to it; give a part the list does not hold (a strainer, a "
+                             "coil) as its K, from its maker's data (minor_k)")
         raise InputError(field, describe(key),
                          f"unknown fitting; did you mean {_data.spoken_list(close)}")
     return found

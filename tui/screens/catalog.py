@@ -97,6 +97,9 @@ def fitting_problem(name: str) -> str | None:
     try:
         fitting(name, "fittings")
     except InputError as exc:
+        if "; did you mean" not in exc.reason:
+            return (f"no fitting '{name}' (Ctrl+L lists them all); a part the list does not "
+                    "hold goes in as its K (Extra K)")
         return f"no fitting '{name}'{_suggestion(exc.reason)} (Ctrl+L lists them all)"
     return None
 
