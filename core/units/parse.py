@@ -188,7 +188,8 @@ def wrong_dimension(kind: str, spec: Kind, typed: str = "", units: object = None
     read = ""
     if typed and units is not None:
         dimension = dimension_words(getattr(units, "dimensionality", ""))
-        name = str(units).replace(" * ", "·").replace(" ** ", "^").replace(" / ", "/")
+        name = (str(units).replace(" * ", "·").replace(" ** ", "^").replace(" / ", "/")
+                .replace("_", " "))  # US_gallon_per_minute: the registry's name, in words
         read = f"'{describe(typed, 30)}' reads as {_article(name)}{name}, {dimension}"
         other = alias_elsewhere(typed, kind)
         if other is not None and other.unit.replace(" ", "") != typed.replace(" ", ""):

@@ -173,6 +173,7 @@ def test_ambiguous_numbers_are_refused_clearly(text, kind, words):
     ("1 lb", "pressure", "'lb' reads as a pound, a mass"),
     ("20 hr", "flow", "'hr' reads as an hour, a time"),
     ("3 psi", "length", "'psi' reads as"),
+    ("20 gpm", "pressure", "'gpm' reads as a US gallon per minute, a flow"),  # in words
 ])
 def test_wrong_dimension_names_what_was_read(text, kind, words):
     with pytest.raises(InputError) as caught:
