@@ -8,6 +8,7 @@ restated here in those units.
 from __future__ import annotations
 
 import math
+import re
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from functools import cache
@@ -149,10 +150,19 @@ def fluid_name(fluid: Any, system: str = "si", unit: str | None = None) -> str:
 
     t = getattr(fluid, "temperature", None)
     name = str(fluid.name)
+    if system != "si":  # the pressure a model names (", 250 kPa") in the reader's system too
+        at = _KPA_AT_END.search(name)
+        if at is not None:
+            shown_p = format_quantity(float(at[1]) * 1e3, "pressure", system, digits=4)
+            name = f"{name[:at.start()]}, {shown_p}"
     if t is None or (system == "si" and unit in (None, "degC")):
         return name
     shown = format_quantity(t, "temperature", system, unit, digits=3)
     return name.replace(f" at {celsius(t)} °C", f" at {shown}", 1)
+
+
+_KPA_AT_END = re.compile(r", ([0-9.]+) kPa$")
+"""The pressure a liquid model puts at the end of its name (``fluids._format.at_pressure``)."""
 
 
 @dataclass(frozen=True)

@@ -226,3 +226,15 @@ def test_a_temperature_difference_unit_is_no_temperature():
 def test_minus_zero_is_zero():
     """`-0 m` reached the JSON as -0.0 (IEEE 754 keeps the sign of a zero; x + 0.0 drops it)."""
     assert math.copysign(1.0, units.parse_quantity("-0 m", "length", "x")) == 1.0
+
+
+def test_a_liquid_name_reads_its_pressure_in_us_units_too():
+    """'Water at 250 °F, 206.843 kPa' in US units (found in a trial): the pressure the name
+    carries follows the units as its temperature does. 206.843 kPa / 6.894757 kPa per psi
+    (NIST SP 811) = 30.00 psi; 121.11 °C = 250.0 °F."""
+    from branchwise.core.fluids import fluid_from_spec
+    from branchwise.core.units.display import fluid_name
+
+    water = fluid_from_spec("water", temperature_k=394.261, pressure_pa=206843.0)
+    assert fluid_name(water, "us") == "Water at 250 °F, 30.00 psi"
+    assert fluid_name(water, "si").endswith("206.843 kPa")
