@@ -129,7 +129,8 @@ def naming_visit(exc: BranchwiseError, site: Site, index: int | None) -> Branchw
     field = visit_path(site, index, exc.field)
     if field == exc.field:
         return exc
-    reason = exc.marked_reason.replace("conditions.given", f"visits[{index}].given")
+    reason = exc.marked_reason.replace("conditions.given", f"visits[{index}].given").replace(
+        "this site holds one", "this visit holds one")
     return InputError(field, exc.marked_value, reason).naming(exc.names)
 
 

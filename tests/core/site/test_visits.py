@@ -187,3 +187,15 @@ def test_renaming_a_branch_renames_its_readings_in_the_visits():
 @pytest.mark.parametrize("text", ["2025-03-12", "2025-03-12T08:30:00", " 2025-03-12 "])
 def test_a_visit_date_is_an_iso_date(text):
     assert visit_date(text, "visits[0].date").isoformat() == "2025-03-12"
+
+
+def test_a_visit_weighing_all_of_one_reading_is_told_it_is_a_visit():
+    """`given = "all"` in a visit with one reading: the visit's field and 'this visit'."""
+    from branchwise.core.history.timeline import history_of
+
+    text = VISIT.replace('measured = { "Condenser A" = "9.1 L/s" }\n', "").replace(
+        'given = "pressure_drop"', 'given = "all"')
+    with pytest.raises(InputError) as caught:
+        history_of(parse_site(PUMP_ROOM + text))
+    assert caught.value.field == "visits[0].given"
+    assert "this visit holds one" in caught.value.reason
