@@ -11,10 +11,16 @@ if TYPE_CHECKING:
 
 
 def show_text(box: Input, text: str) -> None:
-    """Put ``text`` in ``box`` unless the person is typing there."""
-    if box.value != text and not box.has_focus:
+    """Put ``text`` in ``box`` unless the person is typing there (but an undo or redo is
+    shown there too: the field would show a value the site no longer holds)."""
+    if box.value == text:
+        return
+    app = box.app
+    undone = getattr(app, "undone_at", -1) == getattr(app, "revision", -2)
+    if not box.has_focus or undone:
         with box.prevent(Input.Changed):
             box.value = text
+            box.cursor_position = len(text)
 
 
 def put(static: Static, content: VisualType, *, layout: bool = True) -> None:

@@ -77,7 +77,9 @@ class Field(Vertical):
     def show(self, text: str, *, force: bool = False) -> None:
         """Put ``text`` in the input, unless the person is typing there (or ``force``)."""
         box = self.input
-        if box.value == text or (box.has_focus and not force):
+        app = box.app
+        undone = getattr(app, "undone_at", -1) == getattr(app, "revision", -2)  # shown too
+        if box.value == text or (box.has_focus and not (force or undone)):
             return
         with box.prevent(Input.Changed):
             box.value = text
