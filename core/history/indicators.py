@@ -36,8 +36,9 @@ import numpy as np
 
 from ..errors import BranchwiseError
 from ..givens import GIVENS, make_given
-from ..model import Find, FindFlows, FindUnknown, Given, Network, TotalFlow
+from ..model import Find, FindFlows, FindUnknown, Given, Network, PressureDrop, TotalFlow
 from ..numerics.copies import CopiesSolution, solve_copies
+from ..numerics.draws import chunk_rows, chunks
 from ..numerics.hydraulics import Array, Layout
 from ..numerics.tolerances import Thermal, Tolerances
 from ..numerics.uncertainty import SQRT3, STEP, InputTolerance, build_plan
@@ -139,30 +140,78 @@ class _Spread:
         if not math.isfinite(nominal) or nominal == 0:
             return None
         n = len(self.inputs)
-        parts = tuple(Part(inp.name, inp.kind not in DAY_KINDS,
-                           float((column[1 + k] - column[1 + n + k]) / (2 * STEP) / SQRT3
-                                 / nominal))
-                      for k, inp in enumerate(self.inputs))
+        steps = (column[1:1 + n] - column[1 + n:]) / (2 * STEP) / SQRT3 / nominal
+        moved = np.flatnonzero(steps)  # an input that leaves it as it is adds nothing (the
+        # trends take a part missing at one visit as 0): a branch keeps its own few, not one
+        # part for every input of the site
+        parts = tuple(Part(self.inputs[k].name, self.inputs[k].kind not in DAY_KINDS,
+                           float(steps[k])) for k in moved)
         return Indicator(nominal, measured, parts + extra)
+
+
+SPREAD_BYTES = 1024 * 1024 * 1024
+"""The most the kept flows of a visit's ± steps may take (rows × branches × 8 bytes, 1 GiB):
+beyond it (about 3,500 branches) the visit's indicators are given without bands, said in a
+note. The copies themselves are solved a chunk of rows at a time (:func:`.draws.chunk_rows`)."""
+
+
+MAX_SHARED_PARTS = 1_000_000
+"""With the head from a flow reading, each branch keeps a part of every input (about 280 bytes
+each, measured): beyond this many (about 470 branches) the bands are not worked out."""
+
+
+class TooLarge(BranchwiseError):
+    """A visit's ± steps would keep more than :data:`SPREAD_BYTES`."""
 
 
 def _spread(network: Network, given: Given, find: Find, tol: Tolerances,
             thermal: Thermal | None) -> _Spread:
     plan = build_plan(network, given, find, tol, thermal)
     n = len(plan.inputs)
-    z = np.zeros((1 + 2 * n, n))
-    z[1 + np.arange(n), np.arange(n)] = STEP
-    z[1 + n + np.arange(n), np.arange(n)] = -STEP
-    variants = plan.variants(z)
+    rows = 1 + 2 * n
+    nb = len(network.branches)
+    if rows * nb * 8 > SPREAD_BYTES:
+        raise TooLarge(f"{nb:,} branches and {n:,} uncertain inputs are too many to step "
+                       f"through here (more than {SPREAD_BYTES // 2**20:,} MiB)")
+    if not isinstance(given, PressureDrop) and n * nb > MAX_SHARED_PARTS:
+        raise TooLarge(f"with the head solved from a flow reading every input moves every "
+                       f"branch, and {nb:,} branches × {n:,} inputs are too many parts to keep "
+                       f"(at most {MAX_SHARED_PARTS:,})")
     # z = 0 is the centre of every input's range; for a roughness that is the log-centre of
     # its factor or range, not the line's own ε. Row 0 is the visit's value, so it takes the
     # site's own roughness (every other input is at its own value at z = 0): the same
     # network as the site's solve. The ± rows stay about the centre, as the linear estimate
     # of the uncertainty module takes them.
-    roughness = variants.roughness.copy()
-    roughness[0] = Layout.from_network(network).roughness
-    return _Spread(plan.inputs, solve_copies(network, given, find,
-                                             replace(variants, roughness=roughness)))
+    own = Layout.from_network(network).roughness
+    size = chunk_rows(len(own), n)
+    parts: list[CopiesSolution] = []
+    for start, stop in chunks(rows, size):
+        z = np.zeros((stop - start, n))  # row r: 0 nominal, 1…n +δ, n+1…2n −δ
+        for r in range(start, stop):
+            if r > 0:
+                z[r - start, (r - 1) % n] = STEP if r <= n else -STEP
+        variants = plan.variants(z)
+        if start == 0:
+            roughness = variants.roughness.copy()
+            roughness[0] = own
+            variants = replace(variants, roughness=roughness)
+        parts.append(solve_copies(network, given, find, variants))
+    return _Spread(plan.inputs, _joined(parts))
+
+
+def _joined(parts: list[CopiesSolution]) -> CopiesSolution:
+    """The chunks' solutions as one, rows in order."""
+    if len(parts) == 1:
+        return parts[0]
+    found = [p.found for p in parts]
+    return CopiesSolution(
+        flows=np.concatenate([p.flows for p in parts]),
+        total_flow=np.concatenate([p.total_flow for p in parts]),
+        pressure_drop=np.concatenate([p.pressure_drop for p in parts]),
+        head=np.concatenate([p.head for p in parts]),
+        found=None if any(f is None for f in found) else np.concatenate(
+            [f for f in found if f is not None]),
+        converged=all(p.converged for p in parts))
 
 
 def _resistance(head: Array, flow: Array | float) -> Array:
