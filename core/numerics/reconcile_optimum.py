@@ -54,29 +54,54 @@ def least_head(values: Values, slope: Values, y: Array, cov: Array, heads: Seque
     ts = sorted({math.copysign(math.sqrt(abs(h)), h) for h in heads if math.isfinite(h)})
     if ts:
         pad = 0.5 * (ts[-1] - ts[0]) + 0.05 * max(abs(ts[0]), abs(ts[-1])) + 1e-3
-        points = [ts[0] - pad, *ts, ts[-1] + pad]
-        for _ in range(WIDEN):
-            bracket = _bracket(points, [s_of(t) for t in points], down)
-            if isinstance(bracket, tuple):
-                t = _illinois(down, *bracket)
-                if math.isfinite(t):
-                    return math.copysign(t * t, t)
-                break
-            if not bracket:
-                break
-            points = bracket
+        lo, hi = ts[0] - pad, ts[-1] + pad
+        points = sorted({*ts, *np.linspace(lo, hi, 2 * SCAN + 1).tolist(), 0.0})
+        s = [s_of(t) for t in points]
+        # Readings of either sign can leave a dip of S on each side of zero: each dip among
+        # the first points is followed down, and the lowest end wins (not merely the dip of
+        # the lowest first point).
+        ends = [t for i in _dips(s) if math.isfinite(t := _follow(points, s, i, s_of, down))]
+        if ends:
+            t = min(ends, key=s_of)
+            return math.copysign(t * t, t)
     raise NoSolutionError(f"the readings ({', '.join(labels)}) cannot be weighed together: no "
                           "driving head fits them best; check each reading's value, unit and "
                           "sign", "conditions.given")
 
 
-def _bracket(points: list[float], s: list[float], down: Callable[[float], float]
+def _dips(s: list[float]) -> list[int]:
+    """The points where S is no higher than at either neighbour (the ends count), lowest
+    first; none where S is not finite or the same everywhere."""
+    if not all(math.isfinite(v) for v in s) or max(s) == min(s):
+        return []
+    n = len(s)
+    low = [i for i in range(n) if (i == 0 or s[i] <= s[i - 1]) and (i == n - 1 or s[i] <= s[i + 1])]
+    return sorted(low, key=s.__getitem__)
+
+
+def _follow(points: list[float], s: list[float], i: int, s_of: Callable[[float], float],
+            down: Callable[[float], float]) -> float:
+    """The least S of the dip at ``points[i]`` (in t), widening or scanning finer as needed;
+    NaN when it cannot be bracketed."""
+    for _ in range(WIDEN):
+        bracket = _bracket(points, s, down, i)
+        if isinstance(bracket, tuple):
+            return _illinois(down, *bracket)
+        if not bracket:
+            return math.nan
+        points = bracket
+        s = [s_of(t) for t in points]
+        i = min(range(len(s)), key=s.__getitem__)
+    return math.nan
+
+
+def _bracket(points: list[float], s: list[float], down: Callable[[float], float], i: int
              ) -> tuple[float, float, float, float] | list[float]:
-    """Around the lowest of ``s`` at ``points``: a bracket (a, b, down(a) > 0, down(b) < 0) of
-    the least S, or the points to scan next (none: S is not finite there)."""
+    """Around ``points[i]``, a low point of ``s``: a bracket (a, b, down(a) > 0,
+    down(b) < 0) of the least S there, or the points to scan next (none: S is not finite
+    there)."""
     if not all(math.isfinite(v) for v in s) or max(s) == min(s):
         return []  # S not finite, or the same at every head: no least
-    i = min(range(len(s)), key=s.__getitem__)
     t = points[i]
     d = down(t)
     span = points[-1] - points[0]
