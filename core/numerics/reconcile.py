@@ -216,7 +216,9 @@ class _Model:
         return float(q[o.branch])
 
     def slope(self, head: float) -> Array:
-        """dg/dH for every reading: ρg for Δp, dQ/dH = Q/(H · d ln h/d ln Q) for a flow."""
+        """dg/dH for every reading: ρg for Δp, dQ/dH = Q/(H · d ln h/d ln Q) for a flow (at
+        H = 0 its limit, the laminar conductance, taken at a head of 1e-30 m)."""
+        head = head if head != 0 else 1e-30
         q, s = self.state(head)
         dq = np.where(q != 0, q / (head * s), 0.0)
         return np.array([self.rho_g if o.kind == "pressure_drop" else

@@ -63,6 +63,8 @@ def least_head(values: Values, slope: Values, y: Array, cov: Array, heads: Seque
         ends = [t for i in _dips(s) if math.isfinite(t := _follow(points, s, i, s_of, down))]
         if ends:
             t = min(ends, key=s_of)
+            if abs(t) <= 1e-9 * (hi - lo):  # zero to round-off (readings that cancel): zero,
+                return 0.0                  # not a head of 1e-56 m and flows to match
             return math.copysign(t * t, t)
     raise NoSolutionError(f"the readings ({', '.join(labels)}) cannot be weighed together: no "
                           "driving head fits them best; check each reading's value, unit and "

@@ -116,8 +116,8 @@ def solve_site(site: Site, presets: PresetSource | None = None,
         if like is not None and result.solved is not None:
             pick = _catalog_pick(site, built, i, find, like, result.solved.value, notes)
     if not any(result.flows):  # no regime, no friction factor: said, not left as zeros
-        notes.append("Nothing flows: the given reading is zero, so every branch is still "
-                     "(no Reynolds number, regime or friction factor to give)")
+        notes.append("Nothing flows: the head across the header comes out zero, so every "
+                     "branch is still (no Reynolds number, regime or friction factor to give)")
     found = None
     if isinstance(find, FindUnknown) and find.quantity == "diameter" and result.solved:
         found = (built.network.index_of(find.branch), find.segment, result.solved.value)
