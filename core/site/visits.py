@@ -19,7 +19,7 @@ import copy
 import re
 from datetime import date, datetime
 
-from ..errors import BranchwiseError, InputError, describe
+from ..errors import BranchwiseError, InputError, NoSolutionError, describe
 from .spec import RecordSpec, Site, Value, VisitSpec
 
 _ISO_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
@@ -124,7 +124,13 @@ def visit_path(site: Site, index: int | None, field: str) -> str:
 
 def naming_visit(exc: BranchwiseError, site: Site, index: int | None) -> BranchwiseError:
     """``exc`` raised for :func:`visit_site`'s site, its field moved to the visit's own keys."""
-    if not isinstance(exc, InputError) or index is None:
+    if index is None:
+        return exc
+    if isinstance(exc, NoSolutionError):  # a limit hit by that day's reading: its field
+        moved = visit_path(site, index, exc.field)
+        return exc if moved == exc.field else NoSolutionError(exc.marked, moved).naming(
+            exc.names)
+    if not isinstance(exc, InputError):
         return exc
     field = visit_path(site, index, exc.field)
     if field == exc.field:

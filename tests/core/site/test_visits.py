@@ -199,3 +199,18 @@ def test_a_visit_weighing_all_of_one_reading_is_told_it_is_a_visit():
         history_of(parse_site(PUMP_ROOM + text))
     assert caught.value.field == "visits[0].given"
     assert "this visit holds one" in caught.value.reason
+
+
+def test_a_visit_reading_beyond_every_branch_names_the_visit_field():
+    """A visit's total flow of 1e6 gpm: every branch beyond its bounds, said of
+    visits[0].total_flow (it named today's conditions.total_flow)."""
+    from branchwise.core.errors import NoSolutionError
+    from branchwise.core.history.timeline import history_of
+
+    text = VISIT.replace('pressure_drop = "70 kPa"           # the same gauge as today\n',
+                         'total_flow = "1e6 gpm"\n').replace(
+        'measured = { "Condenser A" = "9.1 L/s" }\n', "").replace(
+        'given = "pressure_drop"', 'given = "total_flow"')
+    with pytest.raises(NoSolutionError) as caught:
+        history_of(parse_site(PUMP_ROOM + text))
+    assert caught.value.field == "visits[0].total_flow"
