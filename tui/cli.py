@@ -133,7 +133,7 @@ def _parser() -> argparse.ArgumentParser:
         epilog=EXIT_STATUSES + ".")
     history.add_argument("site", type=Path,
                          help="site file (TOML), or - to read it from standard input")
-    _output_options(history)
+    _output_options(history, rows="one row per visit and branch", curve=False)
     history.add_argument("--force", action="store_true",
                          help="replace an existing -o FILE (the old one is kept as FILE.bak)")
 
@@ -176,13 +176,14 @@ def _parser() -> argparse.ArgumentParser:
     return p
 
 
-def _output_options(p: argparse.ArgumentParser) -> None:
+def _output_options(p: argparse.ArgumentParser, rows: str = "one row per segment",
+                    curve: bool = True) -> None:
     p.add_argument("--units", choices=("si", "us"), default="si",
-                   help="unit system of the table, CSV, Markdown and --curve file (JSON is "
-                        "always SI)")
+                   help="unit system of the table, CSV, Markdown"
+                        + (" and --curve file" if curve else " and HTML") + " (JSON is always SI)")
     p.add_argument("--format", choices=FORMATS, default=None,
                    help="output format (default: the one -o FILE's name says, such as .csv, "
-                        "else table); csv is one row per segment (the "
+                        f"else table); csv is {rows} (the "
                         "cautions then go to standard error); html a walkdown report that "
                         "opens in a browser")
     p.add_argument("-o", "--output", type=Path, metavar="FILE",
