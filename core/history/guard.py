@@ -47,9 +47,10 @@ def trendable(v: VisitIndicators, label: str) -> tuple[VisitIndicators, list[Row
     head = v.solved.result.driving_head
     flat = not (math.isfinite(head) and head > HEAD_FLOOR)
     if flat:
+        state = ("is reversed: the header ran backwards that day" if head < -HEAD_FLOOR
+                 else "is not clearly above zero")
         notes.append(f"visit {label}: the head across the header ({head:.3g} m of the "
-                     f"liquid) is not clearly above zero, so no figure of this visit is "
-                     f"trended")
+                     f"liquid) {state}, so no figure of this visit is trended")
     net = v.solved.built.network
     branches: list[BranchIndicators] = []
     rows: list[Row] = []

@@ -163,13 +163,25 @@ def to_text(h: History, reader: Units | str = "si", width: int = 80) -> str:
     if h.trends:
         out += ["Trends:", *_grid(TREND_TITLES, [trend_cells(t, u) for t in h.trends], 2)]
     else:
-        out.append("Trends: none yet (a trend needs two visits).")
+        out.append(f"Trends: {no_trends(h)[0].lower()}{no_trends(h)[1:]}")
     messages = h.messages()
-    out += ["", "Flagged:" if messages else "Flagged: none — every change lies within its band."]
+    out += ["", "Flagged:" if messages else f"Flagged: {no_flags(h)[0].lower()}{no_flags(h)[1:]}"]
     out += [line for m in messages for line in wrap(m, "  - ", "    ")]
     out += ["", *wrap(BAND_NOTE)]
     out += ["", "Cautions:", *(line for c in CAUTIONS for line in wrap(c, "  - ", "    "))]
     return "\n".join(out) + "\n"
+
+
+def no_trends(h: History) -> str:
+    """Why there is no trend: too few visits, or none of their figures could be trended."""
+    if len(h.visits) < 2:
+        return "None yet (a trend needs two visits)."
+    return "None (no figure could be trended: the visits' notes say why)."
+
+
+def no_flags(h: History) -> str:
+    """What no flag means: every change within its band, or no change to judge."""
+    return "None: every change lies within its band." if h.trends else "None."
 
 
 # ---- Markdown -----------------------------------------------------------------------------
@@ -198,9 +210,9 @@ def to_markdown(h: History, reader: Units | str = "si") -> str:
         out.append("")
     out += ["## Trends", ""]
     out += (_md_table(TREND_TITLES, [trend_cells(t, u) for t in h.trends]) if h.trends
-            else ["None yet (a trend needs two visits)."])
+            else [no_trends(h)])
     flagged = [f"- {_md(m)}" for m in h.messages()]
-    out += ["", "## Flagged", "", *(flagged or ["- None: every change lies within its band."])]
+    out += ["", "## Flagged", "", *(flagged or [f"- {no_flags(h)}"])]
     out += ["", BAND_NOTE, "", "## Cautions", "", *(f"- {c}" for c in CAUTIONS)]
     return "\n".join(out) + "\n"
 

@@ -207,3 +207,18 @@ def test_without_a_dated_record_a_late_visit_is_taken_in_date_order(record):
                  ('date = "2025-03-12" ', record + " "))
     history = history_of(parse_site(text))
     assert [v.field for v in history.visits] == ["visits[0]", "visits[1]", "conditions"]
+
+
+def test_no_figure_trended_is_not_called_too_few_visits():
+    """Two visits whose header heads are zero: no figure can be trended, and the report says
+    that, not "a trend needs two visits" (and claims no change within a band)."""
+    from branchwise.core.report.history_report import to_markdown, to_text
+
+    text = demo_text().replace('pressure_drop = "10 psid"', 'pressure_drop = "0 psid"')
+    text = text.replace('pressure_drop = "10.3 psid"', 'pressure_drop = "0 psid"').replace(
+        'pressure_drop = "10.1 psid"', 'pressure_drop = "0 psid"')
+    h = history_of(parse_site(text))
+    assert not h.trends
+    for out in (" ".join(to_text(h, "si").split()), to_markdown(h, "si")):
+        assert "needs two visits" not in out and "every change lies within its band" not in out
+        assert "no figure could be trended" in out
