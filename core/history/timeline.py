@@ -90,6 +90,10 @@ def history_of(site: Site) -> History:
                              f"after today's record date ({today.isoformat()}, record.date): "
                              "an earlier visit must be dated on or before today's; correct "
                              "the one that is wrong")
+        if day > (now := date.today()):  # no usable record date: the calendar's today
+            raise InputError(f"visits[{i}].date", describe(v.date),
+                             f"is after today ({now.isoformat()}): an earlier visit cannot be "
+                             "dated in the future; correct the date")
         order.append((day.isoformat(), i))
     order.sort()
     indices: list[int | None] = [i for _, i in order]

@@ -209,6 +209,17 @@ def test_without_a_dated_record_a_late_visit_is_taken_in_date_order(record):
     assert [v.field for v in history.visits] == ["visits[0]", "visits[1]", "conditions"]
 
 
+@pytest.mark.parametrize("record", ['date = "early March"', "# no date"],
+                         ids=["free-text", "absent"])
+def test_without_a_dated_record_a_visit_in_the_future_is_refused(record):
+    """No record date to compare with: the calendar's today is (a visit in 2099 is a typo)."""
+    text = _demo(('date = "2025-01-15"', 'date = "2099-01-15"'),
+                 ('date = "2025-03-12" ', record + " "))
+    with pytest.raises(InputError) as exc:
+        history_of(parse_site(text))
+    assert exc.value.field == "visits[1].date" and "is after today" in exc.value.reason
+
+
 def test_no_figure_trended_is_not_called_too_few_visits():
     """Two visits whose header heads are zero: no figure can be trended, and the report says
     that, not "a trend needs two visits" (and claims no change within a band)."""
