@@ -310,15 +310,22 @@ def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, ou
     return EXIT_OK
 
 
+STDERR_LINES = 40
+"""The most assumed (or warning) lines written on standard error beside a CSV."""
+
+
 def _csv_cautions(solved: SiteResult, units: str) -> None:
     """What was assumed, the warnings and the cautions of a CSV's answer, on standard error."""
     from branchwise.core.errors import inert
     from branchwise.core.report.lines import CAUTIONS, assumed_lines, warning_lines
 
-    for line in assumed_lines(solved, units):
-        print(f"branchwise: assumed: {inert(line)}", file=sys.stderr)
-    for line in warning_lines(solved, units):
-        print(f"branchwise: warning: {inert(line)}", file=sys.stderr)
+    for word, lines in (("assumed", assumed_lines(solved, units)),
+                        ("warning", warning_lines(solved, units))):
+        for line in lines[:STDERR_LINES]:
+            print(f"branchwise: {word}: {inert(line)}", file=sys.stderr)
+        if len(lines) > STDERR_LINES:  # a site of thousands of branches: not a line each
+            print(f"branchwise: {word}: … and {len(lines) - STDERR_LINES:,} more (every one "
+                  "is in the Markdown, HTML and JSON reports)", file=sys.stderr)
     for line in CAUTIONS:
         print(f"branchwise: caution: {line}", file=sys.stderr)
 

@@ -171,3 +171,19 @@ def test_the_demo_to_standard_output_and_an_unknown_suffix_said(tmp_path):
     assert done.returncode == 0 and "writing the text table" in done.stderr
     quiet = run("solve", "s.toml", "-o", "out.txt", cwd=tmp_path)
     assert "writing the text table" not in quiet.stderr
+
+
+def test_a_large_site_beside_a_csv_gets_a_bounded_stderr(tmp_path):
+    """300 branches, each with its bore and roughness assumed: at most 40 'assumed' lines and
+    one that counts the rest (a 3,000-branch site wrote about 6,000 lines)."""
+    lines = ['format = 1', 'name = "many"', '[fluid]', 'kind = "water"',
+             'temperature = "20 degC"', '[conditions]', 'pressure_drop = "50 kPa"']
+    for i in range(300):
+        lines += ['[[branches]]', f'name = "B{i}"', 'size = "3 in sch 40"', 'length = "40 m"',
+                  'material = "commercial-steel"']
+    (tmp_path / "many.toml").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    done = run("solve", str(tmp_path / "many.toml"), "--format", "csv")
+    assert done.returncode == 0
+    assumed = [x for x in done.stderr.splitlines() if x.startswith("branchwise: assumed:")]
+    assert len(assumed) == 41 and "more (every one is in the Markdown" in assumed[-1]
+    assert len(done.stdout.splitlines()) == 301  # the header and every branch's row
