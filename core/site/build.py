@@ -31,7 +31,7 @@ from ..model import (
 from ..units import parse_quantity
 from .fields import FieldPath
 from .liquid import build_fluid
-from .readings import Reading, chosen
+from .readings import RESERVED_NAMES, Reading, chosen
 from .spec import BranchSpec, SegmentSpec, Site, Value
 from .values import (
     at_least,
@@ -269,10 +269,6 @@ def _materials() -> Callable[[str, str], Material]:
     return lookup
 
 
-_GIVEN_WORDS = frozenset(["all", *GIVENS])
-"""What ``conditions.given`` reads as a kind of reading, never as a branch's name."""
-
-
 def build(site: Site, presets: PresetSource | None = None) -> Built:
     """The core objects for ``site``; every bad value is an InputError naming its field (and
     carrying the site's branch names, :attr:`InputError.names`).
@@ -298,7 +294,7 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
     for i, spec in enumerate(site.branches):
         br, s, k, p = _branch_once(spec, i, materials, user)
         key = br.name.casefold()
-        if key in _GIVEN_WORDS:
+        if key in RESERVED_NAMES:
             raise InputError(f"branches[{i}].name", br.name, "is a word conditions.given "
                              "keeps for a reading of its own; give the branch another name")
         if key in seen:

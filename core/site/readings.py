@@ -27,6 +27,10 @@ GIVEN_WORDS = ('must be pressure_drop, total_flow, the name of a branch with a m
                'or "all" (every reading weighed together)')
 """What ``conditions.given`` may say."""
 
+RESERVED_NAMES = frozenset(["all", *GIVENS])
+"""Words ``conditions.given`` reads as a kind of reading, never as a branch's name (a branch
+may not be called so)."""
+
 
 @dataclass(frozen=True)
 class Reading:
