@@ -10,14 +10,14 @@ if TYPE_CHECKING:
     from textual.visual import VisualType
 
 
-def show_text(box: Input, text: str) -> None:
-    """Put ``text`` in ``box`` unless the person is typing there (but an undo or redo is
-    shown there too: the field would show a value the site no longer holds)."""
+def show_text(box: Input, text: str, *, force: bool = False) -> None:
+    """Put ``text`` in ``box`` unless the person is typing there (or ``force``; an undo or
+    redo is shown there too: the field would show a value the site no longer holds)."""
     if box.value == text:
         return
     app = box.app
     undone = getattr(app, "undone_at", -1) == getattr(app, "revision", -2)
-    if not box.has_focus or undone:
+    if not box.has_focus or force or undone:
         with box.prevent(Input.Changed):
             box.value = text
             box.cursor_position = len(text)

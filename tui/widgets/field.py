@@ -9,7 +9,7 @@ from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.widgets import Input, Label, Static
 
-from ..quiet import put
+from ..quiet import put, show_text
 
 
 class Field(Vertical):
@@ -76,14 +76,7 @@ class Field(Vertical):
 
     def show(self, text: str, *, force: bool = False) -> None:
         """Put ``text`` in the input, unless the person is typing there (or ``force``)."""
-        box = self.input
-        app = box.app
-        undone = getattr(app, "undone_at", -1) == getattr(app, "revision", -2)  # shown too
-        if box.value == text or (box.has_focus and not (force or undone)):
-            return
-        with box.prevent(Input.Changed):
-            box.value = text
-            box.cursor_position = len(text)
+        show_text(self.input, text, force=force)
 
     def set_unit(self, unit: str) -> None:
         """Say which unit a bare number takes (shown after the input)."""
