@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import re
+
 ZERO_CELSIUS_K = 273.15
 """0 °C in kelvin (ITS-90 / SI definition of the Celsius scale)."""
 
@@ -23,6 +25,11 @@ def at_pressure(pressure_pa: float) -> str:
     if abs(pressure_pa - 101325.0) <= 1.0:
         return ""
     return f", {pressure_pa / 1e3:.6g} kPa"
+
+
+PRESSURE_IN_NAME = re.compile(r", ([0-9.]+) kPa$")
+"""What :func:`at_pressure` added to a name, read back (group 1: the kPa), so that a display
+in other units can restate it."""
 
 
 def state(temperature_k: float) -> str:

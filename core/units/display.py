@@ -8,7 +8,6 @@ restated here in those units.
 from __future__ import annotations
 
 import math
-import re
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from functools import cache
@@ -146,12 +145,12 @@ def reason_and_value(
 def fluid_name(fluid: Any, system: str = "si", unit: str | None = None) -> str:
     """A fluid's name with its temperature in ``system``'s unit (or ``unit``): the names the
     fluid models build say "at 6.7 °C"; in US units that reads "at 44.0 °F"."""
-    from ..fluids._format import celsius
+    from ..fluids._format import PRESSURE_IN_NAME, celsius
 
     t = getattr(fluid, "temperature", None)
     name = str(fluid.name)
     if system != "si":  # the pressure a model names (", 250 kPa") in the reader's system too
-        at = _KPA_AT_END.search(name)
+        at = PRESSURE_IN_NAME.search(name)
         if at is not None:
             shown_p = format_quantity(float(at[1]) * 1e3, "pressure", system, digits=4)
             name = f"{name[:at.start()]}, {shown_p}"
@@ -159,10 +158,6 @@ def fluid_name(fluid: Any, system: str = "si", unit: str | None = None) -> str:
         return name
     shown = format_quantity(t, "temperature", system, unit, digits=3)
     return name.replace(f" at {celsius(t)} °C", f" at {shown}", 1)
-
-
-_KPA_AT_END = re.compile(r", ([0-9.]+) kPa$")
-"""The pressure a liquid model puts at the end of its name (``fluids._format.at_pressure``)."""
 
 
 @dataclass(frozen=True)
