@@ -163,9 +163,9 @@ def to_text(h: History, reader: Units | str = "si", width: int = 80) -> str:
     if h.trends:
         out += ["Trends:", *_grid(TREND_TITLES, [trend_cells(t, u) for t in h.trends], 2)]
     else:
-        out.append(f"Trends: {no_trends(h)[0].lower()}{no_trends(h)[1:]}")
+        out.append(f"Trends: {_after_colon(no_trends(h))}")
     messages = h.messages()
-    out += ["", "Flagged:" if messages else f"Flagged: {no_flags(h)[0].lower()}{no_flags(h)[1:]}"]
+    out += ["", "Flagged:" if messages else f"Flagged: {_after_colon(no_flags(h))}"]
     out += [line for m in messages for line in wrap(m, "  - ", "    ")]
     out += ["", *wrap(BAND_NOTE)]
     out += ["", "Cautions:", *(line for c in CAUTIONS for line in wrap(c, "  - ", "    "))]
@@ -177,6 +177,11 @@ def no_trends(h: History) -> str:
     if len(h.visits) < 2:
         return "None yet (a trend needs two visits)."
     return "None (no figure could be trended: the visits' notes say why)."
+
+
+def _after_colon(sentence: str) -> str:
+    """A sentence continuing a title ("Trends: none …"): its first letter in lower case."""
+    return sentence[:1].lower() + sentence[1:]
 
 
 def no_flags(h: History) -> str:
