@@ -116,7 +116,8 @@ class BranchwiseApp(App[None]):
         self.good: Outcome | None = None
         """The last outcome without an error: shown greyed while the present one is wrong."""
         self.undone_at = -1
-        """The revision an undo or redo made: fields being typed in show it too."""
+        """The revision an undo or redo made: a field being typed in shows it too
+        (:func:`.quiet.show_text`)."""
         self.latest_band: Band | None = None
         """The last uncertainty band the Split screen worked out (exports use it if current)."""
         self.startup_seconds: float | None = None
@@ -381,22 +382,16 @@ class BranchwiseApp(App[None]):
     def action_undo(self) -> None:
         label = self.session.undo()
         if label is not None:
-            self._redrawn_while_typing(self.site_changed)
+            self.undone_at = self.session.revision  # shown in a field being typed in too
+            self.site_changed()
             self.notify(f"Undone: {label}", timeout=3)
 
     def action_redo(self) -> None:
         label = self.session.redo()
         if label is not None:
-            self._redrawn_while_typing(self.site_changed)
+            self.undone_at = self.session.revision  # shown in a field being typed in too
+            self.site_changed()
             self.notify(f"Redone: {label}", timeout=3)
-
-    def _redrawn_while_typing(self, change: Callable[[], None]) -> None:
-        """``change`` (an undo or redo) drawn into the typing field too: a field keeps what is
-        typed in it while it has the focus, except for the revision an undo or redo made
-        (:func:`..quiet.show_text`)."""
-        change()
-        self.undone_at = self.session.revision
-
 
     def action_toggle_units(self) -> None:
         self.unit_system = "us" if self.unit_system == "si" else "si"
