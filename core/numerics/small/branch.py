@@ -24,6 +24,9 @@ from ..hydraulics import HEAD_RTOL, MAX_ITER, VALVE_HEAD_FACTOR
 from . import friction as fr
 
 LN10 = fr.LN10
+TWO_LN10 = 2.0 / LN10
+RE_TURBULENT_C = 2.51 / RE_TURBULENT
+"""2.51/Re at the start of turbulent flow (Colebrook's c, which falls as Re rises)."""
 _log = math.log
 _exp = math.exp
 _sqrt = math.sqrt
@@ -49,10 +52,11 @@ class Pipe:
     fs: list[float]
     major: list[float]
     minor: list[float]
+    series: tuple[list[float], list[float], float]
 
     __slots__ = ("d", "length", "rr", "a3", "k", "area", "c", "eps", "valve_r", "nu", "g",
                  "model", "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs",
-                 "one_colebrook", "owned", "ld", "ke")
+                 "one_colebrook", "owned", "ld", "ke", "c0", "series")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
         segs = br.segments
@@ -68,6 +72,7 @@ class Pipe:
             self.c = [s.hw_c if s.hw_c is not None else math.nan]
             self.ld = s.length / dj  # as _fold
             self.ke = s.minor_k + 2 * g * valve_r * area * area
+            self.c0 = 2.51 * nu / (dj * math.sqrt(2 * g))
         else:
             self.d, self.length, self.eps, self.k = [], [], [], []
             self.rr, self.a3, self.area, self.c = [], [], [], []
@@ -82,8 +87,9 @@ class Pipe:
                 self.a3.append(rr / 3.7)
                 self.area.append(math.pi * dj**2 / 4)
                 self.c.append(s.hw_c if s.hw_c is not None else math.nan)
-            self.ld = self.ke = math.nan
+            self.ld = self.ke = self.c0 = math.nan
         self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
+        self.series = self._series_constants() if self.n > 1 else ([], [], 0.0)
         self.one_colebrook = self.n == 1 and model == "colebrook"
         self.owned = True
         self.h = self.s = self.q = math.nan
@@ -103,6 +109,8 @@ class Pipe:
         new.k, new.c, new.valve_r = self.k, self.c, self.valve_r
         new.nu, new.g, new.model, new.n = self.nu, self.g, self.model, self.n
         new.one_colebrook, new.owned, new.ld, new.ke = self.one_colebrook, own, self.ld, self.ke
+        new.c0 = self.c0
+        new.series = self.series
         new.h = new.s = new.q = math.nan
         new.x = 0.0
         new.xs = [0.0] * self.n
@@ -125,8 +133,21 @@ class Pipe:
             area = self.area[0]
             self.ld = self.length[0] / self.d[0]
             self.ke = self.k[0] + 2 * self.g * self.valve_r * area * area
+            self.c0 = 2.51 * self.nu / (self.d[0] * math.sqrt(2 * self.g))
         else:
-            self.ld = self.ke = math.nan
+            self.ld = self.ke = self.c0 = math.nan
+        self.series = self._series_constants()
+
+    def _series_constants(self) -> tuple[list[float], list[float], float]:
+        """For :meth:`_colebrook_series`: per segment 2.51 Q/Re and (L/D)/(2 g A²), and the
+        fittings' and valve's resistance together (h = Q² (Σ (L/D)/(2 g A²) f + that))."""
+        nu, g, area, d, length, k = self.nu, self.g, self.area, self.d, self.length, self.k
+        crk = [2.51 * area[j] * nu / d[j] for j in range(self.n)]  # 2.51/Re = that/Q
+        ldw = [length[j] / d[j] / (2 * g * area[j] * area[j]) for j in range(self.n)]
+        kw = self.valve_r
+        for j in range(self.n):
+            kw += k[j] / (2 * g * area[j] * area[j])
+        return crk, ldw, kw
 
     def friction(self, j: int, re: float) -> tuple[float, float]:
         if self.model == "hazen-williams":
@@ -198,16 +219,19 @@ class Pipe:
             it = self._colebrook_one(head)
             if it:
                 return it
+        elif guess <= 0 and self.model == "colebrook":
+            it = self._colebrook_series(head)
+            if it:
+                return it
+            guess = self.q if self.q > 0 and math.isfinite(self.q) else 0.0
         return self._newton(head, guess)
 
     def _colebrook_one(self, head: float) -> int:
         """Colebrook with the valve and fittings folded in, as one equation in x = 1/√f;
         0 when the flow is not turbulent (the general solver takes it)."""
-        d, length, nu, g = self.d[0], self.length[0], self.nu, self.g
-        area = self.area[0]
         a = self.a3[0]
         ld, ke = self.ld, self.ke
-        c0 = 2.51 * nu / (d * _sqrt(2 * g * head))
+        c0 = self.c0 / _sqrt(head)
         it = 1
         if ke == 0:
             x = -2.0 * _log10(a + c0 * _sqrt(ld))
@@ -217,34 +241,139 @@ class Pipe:
             # leaves the root to round-off.
             x = self.x if self.x > 0 else 7.0
             x = -2.0 * _log10(a + c0 * _sqrt(ld + ke * x * x))
+            kc = TWO_LN10 * c0 * ke
             for it in range(1, 40):  # noqa: B007 (the count is reported)
                 root = _sqrt(ld + ke * x * x)
                 arg = a + c0 * root
-                step = (x + 2.0 * _log10(arg)) / (1.0 + 2.0 * c0 * ke * x / (LN10 * arg * root))
+                step = (x + TWO_LN10 * _log(arg)) / (1.0 + kc * x / (arg * root))
                 x -= step
                 if abs(step) <= 1e-8 * x:
                     break
-        speed = _sqrt(2 * g * head / (ld / (x * x) + ke))
-        re = speed * d / nu
+        f = x**-2.0
+        vel_head = head / (ld * f + ke)  # V²/2g
+        speed = _sqrt(2 * self.g * vel_head)
+        d = self.d[0]
+        re = speed * d / self.nu
         if not (re >= RE_TURBULENT and x > 0):
             return 0
         self.x = x
-        q = speed * area
-        f = x**-2.0
+        q = speed * self.area[0]
         c = 2.51 / re  # d ln f / d ln Re at the root, as friction.colebrook_slopes
-        arg = a + c * x
-        fs = -2.0 * (2.0 * c * x / (LN10 * arg) / (1.0 + 2.0 * c / (LN10 * arg))) / x
-        vel_head = speed * speed / (2 * g)
-        major = f * length / d * vel_head
+        t = TWO_LN10 * c / (a + c * x)
+        fs = -2.0 * t / (1.0 + t)
+        major = f * self.length[0] / d * vel_head
         minor = self.k[0] * vel_head
         valve = self.valve_r * q * q
         h = major + minor + valve
-        if abs(_log(h) - _log(head)) > HEAD_RTOL:
+        if not abs(h - head) <= HEAD_RTOL * head:  # |ln h − ln H| ≤ HEAD_RTOL, to first order
             return 0
         self.re, self.f, self.fs, self.major, self.minor = [re], [f], [fs], [major], [minor]
         self.q, self.h = q, h
         self.s = (major * (2 + fs) + 2 * minor + 2 * valve) / h
         return it
+
+    def _colebrook_series(self, head: float) -> int:
+        """Series segments under Colebrook in turbulent flow: Newton on ln Q and every
+        segment's x = 1/√f together (each x's Colebrook equation solved for its step given
+        the step in ln Q), from f = 0.02 in every segment, then tested as :meth:`_newton`
+        tests a flow. 0 when a segment is not in turbulent flow or the test is not met (the
+        caller goes on from the flow reached)."""
+        n = self.n
+        crk, ldw, kw = self.series
+        a3 = self.a3
+        ln_t = _log(head)
+        r = kw
+        for j in range(n):
+            r += ldw[j] * 0.02
+        q = _sqrt(head / r)  # every f = 0.02, then each x as Swamee–Jain's at that flow
+        xs = [0.0] * n
+        r = kw
+        for j in range(n):
+            x = xs[j] = -2.0 * _log10(a3[j] + 5.74 * (q / crk[j] * 2.51) ** -0.9)
+            r += ldw[j] / (x * x)
+        u = 0.5 * (ln_t - _log(r))
+        q = _exp(u)
+        gs = [0.0] * n
+        gus = [0.0] * n
+        igxs = [0.0] * n
+        lim = RE_TURBULENT_C
+        it = 0
+        while True:
+            it += 1
+            if it > 30:
+                return 0
+            num = 2.0 * u + _log(r) - ln_t
+            den = 2.0
+            fr2 = -2.0 / r
+            qi = 1.0 / q
+            for j in range(n):
+                x = xs[j]
+                c = crk[j] * qi  # 2.51/Re
+                if not c <= lim:
+                    return 0
+                arg = a3[j] + c * x
+                t = TWO_LN10 * c / arg
+                igx = 1.0 / (1.0 + t)
+                gu = -t * x
+                gj = x + TWO_LN10 * _log(arg)
+                w = fr2 * ldw[j] / (x * x * x) * igx  # d ln h / d x over dG/dx
+                num -= w * gj
+                den -= w * gu
+                gs[j], gus[j], igxs[j] = gj, gu, igx
+            du = -num / den
+            worst = abs(du)
+            r = kw
+            for j in range(n):
+                step = (gs[j] + gus[j] * du) * igxs[j]
+                x = xs[j] = xs[j] - step
+                r += ldw[j] / (x * x)
+                if abs(step) > worst * x:
+                    worst = abs(step) / x
+            u += du
+            q = _exp(u)
+            if worst <= 1e-8:  # the errors square each step: the next would be round-off
+                break
+        self.xs = xs
+        h = self._state(q, xs)
+        if abs(_log(h) - ln_t) > HEAD_RTOL:
+            return 0
+        return it
+
+    def _state(self, q: float, xs: list[float]) -> float:
+        """Fill the state at |Q| = q from every segment's Colebrook root ``xs`` (turbulent
+        flow); returns h (m)."""
+        two_g = 2 * self.g
+        nu = self.nu
+        area, dia, length, k, a3 = self.area, self.d, self.length, self.k, self.a3
+        n = self.n
+        re_l = [0.0] * n
+        f_l = [0.0] * n
+        fs_l = [0.0] * n
+        ma_l = [0.0] * n
+        mi_l = [0.0] * n
+        h = dh = 0.0
+        for j in range(n):
+            d = dia[j]
+            v = q / area[j]
+            re = v * d / nu
+            x = xs[j]
+            c = 2.51 / re
+            arg = a3[j] + c * x
+            f = x**-2.0
+            fs = -4.0 * c / (LN10 * arg) / (1.0 + 2.0 * c / (LN10 * arg))
+            vel_head = v * v / two_g
+            major = f * length[j] / d * vel_head
+            minor = k[j] * vel_head
+            h += major + minor
+            dh += major * (2 + fs) + 2 * minor
+            re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
+        valve = self.valve_r * q * q
+        h += valve
+        dh += 2 * valve
+        self.re, self.f, self.fs, self.major, self.minor = re_l, f_l, fs_l, ma_l, mi_l
+        self.q, self.h = q, h
+        self.s = dh / h if h != 0 else 2.0
+        return h
 
     def _start(self, head: float) -> float:
         """Two fixed-point passes from f = 0.02, as the vectorised solver starts."""

@@ -59,6 +59,8 @@ def build_result(
     major: list[float] = []
     minor: list[float] = []
     valve: list[float] = []
+    add_branch, add_velocity, add_re = seg_branch.append, velocity.append, reynolds.append
+    add_f, add_major, add_minor = friction.append, major.append, minor.append
     for b, p in enumerate(pipes):
         q = flows[b]
         if not (abs(q) <= MAX_FLOW and q != 0):  # NaN fails too
@@ -67,22 +69,22 @@ def build_result(
             v = q / p.area[0]
             if not abs(v) <= MAX_VELOCITY:
                 raise Fallback("bounds")
-            seg_branch.append(b)
-            velocity.append(v)
-            reynolds.append(p.re[0])
-            friction.append(p.f[0])
+            add_branch(b)
+            add_velocity(v)
+            add_re(p.re[0])
+            add_f(p.f[0])
             if q > 0:
-                major.append(p.major[0])
-                minor.append(p.minor[0])
+                add_major(p.major[0])
+                add_minor(p.minor[0])
             else:
-                major.append(-p.major[0])
-                minor.append(-p.minor[0])
+                add_major(-p.major[0])
+                add_minor(-p.minor[0])
         else:
             for a in p.area:
                 v = q / a
                 if not abs(v) <= MAX_VELOCITY:
                     raise Fallback("bounds")
-                velocity.append(v)
+                add_velocity(v)
             seg_branch += [b] * p.n
             reynolds += p.re
             friction += p.f
