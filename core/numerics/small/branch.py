@@ -7,8 +7,10 @@ minor losses and the valve, the same friction models and regimes), for one branc
   r_valve Q² = (2 g r_valve A²) V²/2g — is one equation in x = 1/√f: with
   V² = 2 g H / (L/(D x²) + K), Colebrook reads x = −2 log10(ε/3.7D + C √(L/D + K x²)) with
   C = 2.51 ν / (D √(2 g H)): explicit when K = 0, a few Newton steps otherwise;
-* anything else (series segments, other models, laminar or transition flow): Newton on ln h
-  against ln Q inside a bracket, as the vectorised solver does, from the same kind of start.
+* series segments under Colebrook in turbulent flow: Newton on ln Q and every segment's x
+  together (each x's step from its Colebrook equation given the step in ln Q);
+* anything else (other models, laminar or transition flow): Newton on ln h against ln Q inside
+  a bracket, as the vectorised solver does, from the same kind of start.
 
 Either way the flow is accepted on the same test as the vectorised solver's,
 |ln h(Q) − ln H| ≤ ``HEAD_RTOL``; when that is not reached the caller falls back.
@@ -92,9 +94,7 @@ class Pipe:
         self.series = self._series_constants() if self.n > 1 else ([], [], 0.0)
         self.one_colebrook = self.n == 1 and model == "colebrook"
         self.owned = True
-        self.h = self.s = self.q = math.nan
-        self.x = 0.0
-        self.xs = [0.0] * len(segs)
+        self._new_state()
 
     def copy(self, own: bool = False) -> Pipe:
         """A pipe of the same branch with no state (as new): its constants' lists shared with
@@ -111,10 +111,26 @@ class Pipe:
         new.one_colebrook, new.owned, new.ld, new.ke = self.one_colebrook, own, self.ld, self.ke
         new.c0 = self.c0
         new.series = self.series
-        new.h = new.s = new.q = math.nan
-        new.x = 0.0
-        new.xs = [0.0] * self.n
+        new._new_state()
         return new
+
+    def _new_state(self) -> None:
+        """The state of a pipe never evaluated, in lists of its own."""
+        n = self.n
+        self.h = self.s = self.q = math.nan
+        self.x = 0.0
+        self.xs = [0.0] * n
+        self.re, self.f, self.fs = [math.nan] * n, [math.nan] * n, [math.nan] * n
+        self.major, self.minor = [math.nan] * n, [math.nan] * n
+
+    def reset(self) -> None:
+        """Forget the last evaluation (a pipe lent for another solve starts as new): its
+        lists are written over in place by every evaluation, not made anew."""
+        self.h = self.s = self.q = math.nan
+        self.x = 0.0
+        xs = self.xs
+        for j in range(self.n):
+            xs[j] = 0.0
 
     def set_segment(self, j: int, diameter: float, length: float, roughness: float) -> None:
         """Change segment ``j`` (m): an unknown being sought (on a pipe that owns its lists)."""
@@ -160,11 +176,7 @@ class Pipe:
         colebrook = self.model == "colebrook"
         nu = self.nu
         area, dia, length, k, xs, a3 = self.area, self.d, self.length, self.k, self.xs, self.a3
-        re_l: list[float] = []
-        f_l: list[float] = []
-        fs_l: list[float] = []
-        ma_l: list[float] = []
-        mi_l: list[float] = []
+        re_l, f_l, fs_l, ma_l, mi_l = self.re, self.f, self.fs, self.major, self.minor
         h = dh = 0.0
         for j in range(self.n):
             d = dia[j]
@@ -196,15 +208,10 @@ class Pipe:
             minor = k[j] * vel_head
             h += major + minor
             dh += major * (2 + fs) + 2 * minor
-            re_l.append(re)
-            f_l.append(f)
-            fs_l.append(fs)
-            ma_l.append(major)
-            mi_l.append(minor)
+            re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
         valve = self.valve_r * q * q
         h += valve
         dh += 2 * valve
-        self.re, self.f, self.fs, self.major, self.minor = re_l, f_l, fs_l, ma_l, mi_l
         self.q, self.h = q, h
         self.s = dh / h if h != 0 else 2.0
         return h
@@ -220,10 +227,11 @@ class Pipe:
             if it:
                 return it
         elif guess <= 0 and self.model == "colebrook":
+            self.q = math.nan
             it = self._colebrook_series(head)
             if it:
                 return it
-            guess = self.q if self.q > 0 and math.isfinite(self.q) else 0.0
+            guess = self.q if self.q > 0 and math.isfinite(self.q) else 0.0  # where it got
         return self._newton(head, guess)
 
     def _colebrook_one(self, head: float) -> int:
@@ -267,7 +275,7 @@ class Pipe:
         h = major + minor + valve
         if not abs(h - head) <= HEAD_RTOL * head:  # |ln h − ln H| ≤ HEAD_RTOL, to first order
             return 0
-        self.re, self.f, self.fs, self.major, self.minor = [re], [f], [fs], [major], [minor]
+        self.re[0], self.f[0], self.fs[0], self.major[0], self.minor[0] = re, f, fs, major, minor
         self.q, self.h = q, h
         self.s = (major * (2 + fs) + 2 * minor + 2 * valve) / h
         return it
@@ -275,9 +283,9 @@ class Pipe:
     def _colebrook_series(self, head: float) -> int:
         """Series segments under Colebrook in turbulent flow: Newton on ln Q and every
         segment's x = 1/√f together (each x's Colebrook equation solved for its step given
-        the step in ln Q), from f = 0.02 in every segment, then tested as :meth:`_newton`
-        tests a flow. 0 when a segment is not in turbulent flow or the test is not met (the
-        caller goes on from the flow reached)."""
+        the step in ln Q), from each segment's Swamee–Jain x at the flow f = 0.02 would
+        give, then tested as :meth:`_newton` tests a flow. 0 when a segment is not in
+        turbulent flow or the test is not met (the caller goes on from the flow reached)."""
         n = self.n
         crk, ldw, kw = self.series
         a3 = self.a3
@@ -286,7 +294,7 @@ class Pipe:
         for j in range(n):
             r += ldw[j] * 0.02
         q = _sqrt(head / r)  # every f = 0.02, then each x as Swamee–Jain's at that flow
-        xs = [0.0] * n
+        xs = self.xs  # written in place
         r = kw
         for j in range(n):
             x = xs[j] = -2.0 * _log10(a3[j] + 5.74 * (q / crk[j] * 2.51) ** -0.9)
@@ -333,7 +341,6 @@ class Pipe:
             q = _exp(u)
             if worst <= 1e-8:  # the errors square each step: the next would be round-off
                 break
-        self.xs = xs
         h = self._state(q, xs)
         if abs(_log(h) - ln_t) > HEAD_RTOL:
             return 0
@@ -346,11 +353,7 @@ class Pipe:
         nu = self.nu
         area, dia, length, k, a3 = self.area, self.d, self.length, self.k, self.a3
         n = self.n
-        re_l = [0.0] * n
-        f_l = [0.0] * n
-        fs_l = [0.0] * n
-        ma_l = [0.0] * n
-        mi_l = [0.0] * n
+        re_l, f_l, fs_l, ma_l, mi_l = self.re, self.f, self.fs, self.major, self.minor
         h = dh = 0.0
         for j in range(n):
             d = dia[j]
@@ -370,7 +373,6 @@ class Pipe:
         valve = self.valve_r * q * q
         h += valve
         dh += 2 * valve
-        self.re, self.f, self.fs, self.major, self.minor = re_l, f_l, fs_l, ma_l, mi_l
         self.q, self.h = q, h
         self.s = dh / h if h != 0 else 2.0
         return h

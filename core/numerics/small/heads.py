@@ -20,27 +20,58 @@ _log = math.log
 _exp = math.exp
 
 
-_last: tuple[weakref.ref[Network], tuple[Pipe, ...]] | None = None
-"""The last network given to :func:`pipes_of` (a weak reference: it is not kept alive) and its
-pipes as first made: a network is frozen, so their constants serve every later solve of the
-same object (a script solving it in several directions, say) without being worked out again.
-One network's are kept, no more; a network met anew (the app builds one for each edit) pays
-for its pipes as before."""
+Kept = tuple[Pipe, ...]
+Loan = tuple[list[Kept], Kept]
+"""Pipes lent by :func:`lend`, and the list they go back to."""
+
+_last: tuple[weakref.ref[Network], Kept, list[Kept]] | None = None
+"""The last network met (a weak reference: it is not kept alive), its pipes as first made, and
+those pipes again while no solve holds them: a network is frozen, so their constants serve
+every later solve of the same object (a script solving it in several directions, say) without
+being worked out again. One network's are kept, no more; a network met anew (the app builds one
+for each edit) pays for its pipes."""
 
 
-def pipes_of(network: Network) -> list[Pipe]:
-    """A pipe for each branch, with no state; their constants are shared (``Pipe.copy``)."""
+def _kept(network: Network) -> tuple[Kept, list[Kept]]:
     global _last
     last = _last
     if last is not None and last[0]() is network:
-        return list(map(Pipe.copy, last[1]))
+        return last[1], last[2]
     nu = network.fluid.kinematic_viscosity
     g, model = network.gravity, network.friction
-    pipes = [Pipe(b, nu, g, model) for b in network.branches]
+    kept = tuple(Pipe(b, nu, g, model) for b in network.branches)
+    for p in kept:
+        p.owned = False  # shared by later solves of this network: never changed in place
+    free = [kept]
+    _last = (weakref.ref(network), kept, free)
+    return kept, free
+
+
+def pipes_of(network: Network) -> list[Pipe]:
+    """A pipe for each branch, as new and the caller's own to keep; their constants are
+    shared (``Pipe.copy``)."""
+    return list(map(Pipe.copy, _kept(network)[0]))
+
+
+def lend(network: Network) -> tuple[Sequence[Pipe], Loan | None]:
+    """A pipe for each branch, as new, for one solve: the kept pipes themselves when no other
+    solve holds them (hand the loan to :func:`give_back` when done), else copies (no loan).
+    Lending spares a solve of a few branches much of its time (making copies, and the fresh
+    memory they touch). A list's pop and append are atomic, so two threads never hold the
+    same pipes."""
+    kept, free = _kept(network)
+    try:
+        pipes = free.pop()
+    except IndexError:  # held by a solve in another thread (or further up this one)
+        return list(map(Pipe.copy, kept)), None
     for p in pipes:
-        p.owned = False  # kept for the next solve of this network: never changed in place
-    _last = (weakref.ref(network), tuple(pipes))  # the caller's list may be changed, not this
-    return pipes
+        p.reset()
+    return pipes, (free, pipes)
+
+
+def give_back(loan: Loan | None) -> None:
+    if loan is not None:
+        loan[0].append(loan[1])
 
 
 def flows_at(pipes: Sequence[Pipe], head: float) -> tuple[list[float], int]:

@@ -10,6 +10,7 @@ network again and words the answer. The inputs have been checked by then.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from ...errors import BranchwiseError
 from ...model import Find, FindUnknown, Given, MeasuredFlow, Network, PressureDrop, TotalFlow
@@ -18,7 +19,7 @@ from ..unknowns import SOLVERS
 from ..unknowns.common import with_value
 from . import unknowns
 from .branch import Fallback, Pipe
-from .heads import flows_at, head_for_total, pipes_of
+from .heads import flows_at, give_back, head_for_total, lend
 from .result import build_result
 
 SMALL_BRANCHES = 100
@@ -55,7 +56,15 @@ def _driving_head(network: Network, pressure_drop: float) -> float:
 
 
 def _solve(network: Network, given: Given, find: Find, index: int | None) -> Result:
-    pipes = pipes_of(network)
+    pipes, loan = lend(network)
+    try:
+        return _solve_with(pipes, network, given, find, index)
+    finally:
+        give_back(loan)
+
+
+def _solve_with(pipes: Sequence[Pipe], network: Network, given: Given, find: Find,
+                index: int | None) -> Result:
     infos: list[tuple[bool, int, float]] = []
     solved = None
     measured = None
@@ -65,6 +74,7 @@ def _solve(network: Network, given: Given, find: Find, index: int | None) -> Res
         head = _head_for_unknown(network, pipes, given, find, index, measured, infos)
         SOLVERS[find.quantity].check(network, find, index)  # an InputError, as the other path
         br = network.branches[index]
+        pipes = list(pipes)  # the sought branch's pipe is replaced
         pipe = pipes[index].copy(own=True)  # its segment is changed while sought
         quantity, j, q = find.quantity, find.segment, find.target_flow
         value = getattr(unknowns, quantity)(pipe, j, q, head)
@@ -109,7 +119,7 @@ def _convergence(infos: list[tuple[bool, int, float]]) -> Convergence:
                        residual=max((i[2] for i in infos), default=0.0))
 
 
-def _head_for_unknown(network: Network, pipes: list[Pipe], given: Given, find: FindUnknown,
+def _head_for_unknown(network: Network, pipes: Sequence[Pipe], given: Given, find: FindUnknown,
                       index: int, measured: int | None,
                       infos: list[tuple[bool, int, float]]) -> float:
     """The head branch X must lose; Fallback where the vectorised path raises."""

@@ -122,3 +122,53 @@ def test_a_solved_network_is_not_kept_alive():
     del net
     gc.collect()
     assert gone() is None
+
+
+def test_pipes_held_by_one_solve_are_copied_for_another():
+    """A solve borrows the network's kept pipes; another solve of the same network meanwhile
+    (a second thread) gets copies, and the held pipes are not touched."""
+    from branchwise.core.numerics.small.heads import give_back, lend
+
+    reference = solve(network(), PressureDrop(2e4))
+    net = network()
+    solve(net, PressureDrop(1e4))  # its pipes made and kept
+    held, loan = lend(net)
+    assert loan is not None
+    assert all(p.q != p.q for p in held)  # as new (NaN)
+    same(solve(net, PressureDrop(2e4)), reference)
+    assert all(p.q != p.q for p in held)  # the other solve worked on copies
+    again, second = lend(net)
+    assert second is None and not any(a is b for a, b in zip(again, held, strict=True))
+    give_back(loan)
+    same(solve(net, PressureDrop(2e4)), reference)
+
+
+def test_threads_solving_one_network_agree():
+    import threading
+
+    net = network()
+    givens = [PressureDrop(1e4), TotalFlow(0.04), PressureDrop(3e4)]
+    references = [solve(network(), g) for g in givens]
+    failures: list[str] = []
+
+    def work(offset: int) -> None:
+        for i in range(300):
+            k = (i + offset) % len(givens)
+            try:
+                same(solve(net, givens[k]), references[k])
+            except AssertionError as e:  # pragma: no cover - reported below
+                failures.append(f"{givens[k]}: {e}")
+
+    import sys
+
+    threads = [threading.Thread(target=work, args=(k,)) for k in range(3)]
+    interval = sys.getswitchinterval()
+    sys.setswitchinterval(1e-6)  # threads switch inside solves
+    try:
+        for t in threads:
+            t.start()
+        for t in threads:
+            t.join()
+    finally:
+        sys.setswitchinterval(interval)
+    assert failures == []
