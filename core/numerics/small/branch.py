@@ -244,18 +244,21 @@ class Pipe:
         if ke == 0:
             x = -2.0 * _log10(a + c0 * _sqrt(ld))
         else:
-            # One fixed-point pass from the last root (or from f = 0.02: x ≈ 7), then Newton;
-            # Newton's error squares each step (|g''| x/2g' ≤ ½ here), so a step below 1e-8 x
-            # leaves the root to round-off.
+            # One fixed-point pass from the last root (or from f = 0.02: x ≈ 7), then Newton
+            # on g(x) = x + 2 log10(a + C R), R = √(L/D + K x²). Its error after a step s is
+            # about |g''|/(2 g') s², and |g''|/(2 g') ≤ K/(ln 10 R²) (g' ≥ 1; R''s terms
+            # bounded by K/R²): taken at 0.9 x, the next step would be below round-off once
+            # that bound times s² is below 1e-16 x.
             x = self.x if self.x > 0 else 7.0
             x = -2.0 * _log10(a + c0 * _sqrt(ld + ke * x * x))
             kc = TWO_LN10 * c0 * ke
+            curve = ke / (LN10 * (ld + 0.81 * ke * x * x))
             for it in range(1, 40):  # noqa: B007 (the count is reported)
                 root = _sqrt(ld + ke * x * x)
                 arg = a + c0 * root
                 step = (x + TWO_LN10 * _log(arg)) / (1.0 + kc * x / (arg * root))
                 x -= step
-                if abs(step) <= 1e-8 * x:
+                if curve * step * step <= 1e-16 * x:
                     break
         f = x**-2.0
         vel_head = head / (ld * f + ke)  # V²/2g
