@@ -82,11 +82,15 @@ def flows_at(pipes: Sequence[Pipe], head: float) -> tuple[list[float], int]:
     t = abs(head)
     iterations = 0
     flows: list[float] = []
+    add = flows.append
     for p in pipes:
-        it = p.flow_at(t)
+        # (a one-segment Colebrook branch asked directly: flow_at would ask it first)
+        it = p._colebrook_one(t) if p.one_colebrook else 0
+        if not it:
+            it = p.flow_at(t)
         if it > iterations:
             iterations = it
-        flows.append(sign * p.q)
+        add(sign * p.q)
     return flows, iterations
 
 

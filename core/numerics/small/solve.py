@@ -108,11 +108,17 @@ def _solve_with(pipes: Sequence[Pipe], network: Network, given: Given, find: Fin
     return build_result(network, given, find, pipes, head, flows, solved, conv)
 
 
+_EXACT = tuple(Convergence(converged=True, iterations=i, residual=0.0) for i in range(64))
+"""The common answers of :func:`_convergence`, made once (a Convergence is frozen)."""
+
+
 def _convergence(infos: list[tuple[bool, int, float]]) -> Convergence:
     """Every part converged, the iterations added up, the largest residual (one part, the
     common case, as it is)."""
     if len(infos) == 1:
         ok, iterations, residual = infos[0]
+        if ok and residual == 0.0 and iterations < len(_EXACT):
+            return _EXACT[iterations]
         return Convergence(converged=ok, iterations=iterations, residual=residual)
     return Convergence(converged=all(i[0] for i in infos),
                        iterations=sum(i[1] for i in infos),
