@@ -58,7 +58,7 @@ class Pipe:
 
     __slots__ = ("d", "length", "rr", "a3", "k", "area", "c", "eps", "valve_r", "nu", "g",
                  "model", "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs",
-                 "one_colebrook", "owned", "ld", "ke", "c0", "series")
+                 "one_colebrook", "owned", "ld", "ke", "c0", "series", "series_k")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
         segs = br.segments
@@ -91,6 +91,7 @@ class Pipe:
                 self.c.append(s.hw_c if s.hw_c is not None else math.nan)
             self.ld = self.ke = self.c0 = math.nan
         self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
+        self.series_k: list[float] = []
         self.series = self._series_constants() if self.n > 1 else ([], [], 0.0)
         self.one_colebrook = self.n == 1 and model == "colebrook"
         self.owned = True
@@ -110,7 +111,7 @@ class Pipe:
         new.nu, new.g, new.model, new.n = self.nu, self.g, self.model, self.n
         new.one_colebrook, new.owned, new.ld, new.ke = self.one_colebrook, own, self.ld, self.ke
         new.c0 = self.c0
-        new.series = self.series
+        new.series, new.series_k = self.series, self.series_k
         new._new_state()
         return new
 
@@ -129,8 +130,11 @@ class Pipe:
         self.h = self.s = self.q = math.nan
         self.x = 0.0
         xs = self.xs
-        for j in range(self.n):
-            xs[j] = 0.0
+        if self.n == 1:
+            xs[0] = 0.0
+        else:
+            for j in range(self.n):
+                xs[j] = 0.0
 
     def set_segment(self, j: int, diameter: float, length: float, roughness: float) -> None:
         """Change segment ``j`` (m): an unknown being sought (on a pipe that owns its lists)."""
@@ -163,6 +167,7 @@ class Pipe:
         kw = self.valve_r
         for j in range(self.n):
             kw += k[j] / (2 * g * area[j] * area[j])
+        self.series_k = [k[j] / (2 * g * area[j] * area[j]) for j in range(self.n)]
         return crk, ldw, kw
 
     def friction(self, j: int, re: float) -> tuple[float, float]:
@@ -352,24 +357,21 @@ class Pipe:
     def _state(self, q: float, xs: list[float]) -> float:
         """Fill the state at |Q| = q from every segment's Colebrook root ``xs`` (turbulent
         flow); returns h (m)."""
-        two_g = 2 * self.g
-        nu = self.nu
-        area, dia, length, k, a3 = self.area, self.d, self.length, self.k, self.a3
-        n = self.n
+        crk, ldw, kw = self.series
+        kws, a3 = self.series_k, self.a3
         re_l, f_l, fs_l, ma_l, mi_l = self.re, self.f, self.fs, self.major, self.minor
+        qi = 1.0 / q
+        q2 = q * q
         h = dh = 0.0
-        for j in range(n):
-            d = dia[j]
-            v = q / area[j]
-            re = v * d / nu
+        for j in range(self.n):
             x = xs[j]
-            c = 2.51 / re
-            arg = a3[j] + c * x
-            f = x**-2.0
-            fs = -4.0 * c / (LN10 * arg) / (1.0 + 2.0 * c / (LN10 * arg))
-            vel_head = v * v / two_g
-            major = f * length[j] / d * vel_head
-            minor = k[j] * vel_head
+            c = crk[j] * qi  # 2.51/Re
+            re = 2.51 / c
+            t = TWO_LN10 * c / (a3[j] + c * x)
+            f = 1.0 / (x * x)
+            fs = -2.0 * t / (1.0 + t)  # d ln f / d ln Re, as friction.colebrook_slopes
+            major = f * ldw[j] * q2
+            minor = kws[j] * q2
             h += major + minor
             dh += major * (2 + fs) + 2 * minor
             re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
