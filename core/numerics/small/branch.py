@@ -265,7 +265,7 @@ class Pipe:
                 x -= step
                 if curve * step * step <= 1e-16 * x:
                     break
-        f = x**-2.0
+        f = 1.0 / (x * x)
         vel_head = head / (ld * f + ke)  # V²/2g
         speed = _sqrt(2 * self.g * vel_head)
         d = self.d[0]
