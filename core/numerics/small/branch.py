@@ -19,6 +19,7 @@ Either way the flow is accepted on the same test as the vectorised solver's,
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from ...model import Branch
 from ..friction import RE_TURBULENT
@@ -124,17 +125,20 @@ class Pipe:
         self.re, self.f, self.fs = [math.nan] * n, [math.nan] * n, [math.nan] * n
         self.major, self.minor = [math.nan] * n, [math.nan] * n
 
-    def reset(self) -> None:
-        """Forget the last evaluation (a pipe lent for another solve starts as new): its
-        lists are written over in place by every evaluation, not made anew."""
-        self.h = self.s = self.q = math.nan
-        self.x = 0.0
-        xs = self.xs
-        if self.n == 1:
-            xs[0] = 0.0
-        else:
-            for j in range(self.n):
-                xs[j] = 0.0
+    @staticmethod
+    def reset(pipes: Sequence[Pipe]) -> None:
+        """Forget each pipe's last evaluation (pipes lent for another solve start as new):
+        their lists are written over in place by every evaluation, not made anew."""
+        nan = math.nan
+        for p in pipes:
+            p.h = p.s = p.q = nan
+            p.x = 0.0
+            xs = p.xs
+            if p.n == 1:
+                xs[0] = 0.0
+            else:
+                for j in range(p.n):
+                    xs[j] = 0.0
 
     def set_segment(self, j: int, diameter: float, length: float, roughness: float) -> None:
         """Change segment ``j`` (m): an unknown being sought (on a pipe that owns its lists)."""

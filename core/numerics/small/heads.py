@@ -64,8 +64,7 @@ def lend(network: Network) -> tuple[Sequence[Pipe], Loan | None]:
         pipes = free.pop()
     except IndexError:  # held by a solve in another thread (or further up this one)
         return list(map(Pipe.copy, kept)), None
-    for p in pipes:
-        p.reset()
+    Pipe.reset(pipes)
     return pipes, (free, pipes)
 
 
