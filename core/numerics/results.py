@@ -237,3 +237,18 @@ class Result:
 
     def branch(self, name: str) -> BranchResult:
         return self.branches[self.network.index_of(name, "branch")]
+
+    @classmethod
+    def made(cls, network: Network, given: Given, find: Find, pressure_drop: float,
+             driving_head: float, total_flow: float, arrays: Arrays, solved: Solved | None,
+             warning_source: Callable[[], Sequence[SolveWarning]], convergence: Convergence,
+             notes: tuple[str, ...] = ()) -> Result:
+        """The same Result as the constructor's, its fields set at once: a frozen dataclass's
+        constructor sets each through ``object.__setattr__``, a few per cent of a small
+        network's whole solve (a test keeps these parameters the fields)."""
+        made = object.__new__(cls)
+        made.__dict__.update(
+            network=network, given=given, find=find, pressure_drop=pressure_drop,
+            driving_head=driving_head, total_flow=total_flow, arrays=arrays, solved=solved,
+            warning_source=warning_source, convergence=convergence, notes=notes)
+        return made

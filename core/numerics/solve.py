@@ -46,10 +46,13 @@ from .hydraulics import segment_state as _segment_state
 from .results import Arrays, Convergence, Result, Solved
 from .small import SMALL_BRANCHES, try_solve
 
+_FLOWS = FindFlows()
+"""The default find (a frozen value: one serves every solve)."""
+
 
 def solve(network: Network, given: Given, find: Find | None = None) -> Result:
     """Solve ``network`` for ``find`` (default: the flows) with ``given`` fixing the head."""
-    find = FindFlows() if find is None else find
+    find = _FLOWS if find is None else find
     _check_network(network)
     _check_given(network, given)
     infos: list[RootInfo] = []

@@ -281,7 +281,7 @@ class Pipe:
         c = 2.51 / re  # d ln f / d ln Re at the root, as friction.colebrook_slopes
         t = TWO_LN10 * c / (a + c * x)
         fs = -2.0 * t / (1.0 + t)
-        major = f * self.length[0] / d * vel_head
+        major = f * ld * vel_head
         minor = self.k[0] * vel_head
         valve = self.valve_r * q * q
         h = major + minor + valve

@@ -61,8 +61,8 @@ def build_result(
     valve: list[float] = []
     add_branch, add_velocity, add_re = seg_branch.append, velocity.append, reynolds.append
     add_f, add_major, add_minor = friction.append, major.append, minor.append
-    for b, p in enumerate(pipes):
-        q = flows[b]
+    add_valve = valve.append
+    for b, (p, q) in enumerate(zip(pipes, flows, strict=True)):
         if not (abs(q) <= MAX_FLOW and q != 0):  # NaN fails too
             raise Fallback("bounds")
         if p.n == 1:
@@ -94,11 +94,11 @@ def build_result(
             else:
                 major += [-m for m in p.major]
                 minor += [-m for m in p.minor]
-        valve.append(p.valve_r * q * abs(q))
+        add_valve(p.valve_r * q * abs(q))
     arrays = Arrays(flow=flows, seg_branch=seg_branch, velocity=velocity, reynolds=reynolds,
                     friction_factor=friction, major=major, minor=minor, valve=valve)
     fl = network.fluid
-    return Result(
+    return Result.made(
         network=network, given=given, find=find,
         pressure_drop=fl.density * network.gravity * (head + network.elevation_change),
         driving_head=head, total_flow=numpy_sum(flows), arrays=arrays, solved=solved,
