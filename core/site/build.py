@@ -28,6 +28,7 @@ from ..model import (
     Segment,
     friction_model,
 )
+from ..numerics.friction import RE_TURBULENT
 from ..units import parse_quantity
 from .fields import FieldPath
 from .liquid import build_fluid
@@ -116,8 +117,11 @@ def _segment(seg: SegmentSpec, path: str,
         key = text_value(seg.material, f"{path}.material")
         if key is None:
             if size is None:
-                raise InputError(f"{path}.roughness", "nothing",
-                                 "give a roughness or a material")
+                why = ("give a roughness or a material as well: a Hazen–Williams C covers "
+                       f"turbulent flow only, and below Reynolds {RE_TURBULENT:.0f} the loss "
+                       "comes from Darcy–Weisbach, which needs the roughness"
+                       if hw_c is not None else "give a roughness or a material")
+                raise InputError(f"{path}.roughness", "nothing", why)
             key, m_path = size.material_hint, f"{path}.size"
         mat = material_for(key, m_path)
         roughness = mat.roughness_m

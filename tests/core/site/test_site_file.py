@@ -329,3 +329,28 @@ def test_aged_material_and_hazen_williams_c_come_from_the_material():
     assert seg.hw_c == steel.hazen_williams_c
     with pytest.raises(InputError, match=r"branches\[1\].condition"):
         build(parse_site(text.replace('"aged"', '"rusty"')))
+
+
+def test_a_hazen_williams_c_alone_is_told_why_a_roughness_is_still_needed():
+    """Below Re 4000 the Hazen–Williams fit does not apply (it is a fit for turbulent water
+    flow: Williams & Hazen, Hydraulic Tables, 1905/1920; common practice), so the loss there
+    comes from Darcy–Weisbach and needs ε."""
+    text = """
+format = 1
+name = "HW"
+[fluid]
+kind = "water"
+temperature = "15 degC"
+[conditions]
+pressure_drop = "50 kPa"
+friction = "hazen-williams"
+[[branches]]
+name = "A"
+diameter = "100 mm"
+length = "30 m"
+hw_c = 120
+"""
+    with pytest.raises(InputError) as err:
+        solve_site(parse_site(text))
+    assert err.value.field == "branches[0].roughness"
+    assert "Hazen–Williams C covers turbulent flow only" in str(err.value)
