@@ -21,7 +21,7 @@ def test_branch_table_by_keys(ui):
 
             # Edit in place: AHU-2's length, a bare number in the column's unit (m in SI).
             flow_180ft = app.outcome.solved.result.branches[1].flow
-            await pilot.press("down", "right", "right", "right", "enter")
+            await pilot.press("down", "right", "right", "right", "right", "enter")
             assert app.focused.id == "cell-input"
             assert app.focused.value == "180 ft"
             await ui.type(pilot, "50")

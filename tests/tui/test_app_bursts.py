@@ -59,7 +59,7 @@ def test_a_burst_after_clearing_the_given_lands_whole(ui):
 def test_a_burst_on_the_branch_table_goes_to_the_cell_editor_it_opens(ui):
     async def scenario() -> None:
         async with ui.started("f3") as (app, pilot):
-            await pilot.press("right", "right")  # the Size/ID column
+            await pilot.press("right", "right", "right")  # the Size/ID column
             assert app.screen.here()[2] == "size"
             count = len(app.site.branches)
             burst(app, ["enter", "ctrl+a", "ctrl+k", *typed("7 in sch 40"), "enter", "down",

@@ -87,7 +87,7 @@ def test_cell_editor_says_what_is_edited(ui):
             assert cursor_colour() != warning
             assert "Renaming" not in ui.text(app)
             # A length: said by its column, kept by Enter.
-            await pilot.press("right", "right", "right", "enter")
+            await pilot.press("right", "right", "right", "right", "enter")
             await pilot.pause()
             assert "✎ Editing AHU-2 coil · Length — Enter keeps · Esc cancels" in ui.text(app)
             await pilot.press("ctrl+u", *"170 ft", "enter")

@@ -18,10 +18,10 @@ INCH_M = 0.0254  # exact (NIST SP 811)
 
 
 async def _type_in_size_cell(ui, pilot, text: str) -> None:
-    """AHU-2's Size/ID cell (row 2, the third column at 80 columns), typed over."""
+    """AHU-2's Size/ID cell (row 2, the fourth column at 80 columns), typed over."""
     table = pilot.app.screen.query_one("#branch-table")
     table.move_cursor(row=1, column=0)
-    await pilot.press("right", "right", "enter")
+    await pilot.press("right", "right", "right", "enter")
     assert pilot.app.focused.id == "cell-input"
     await pilot.press("ctrl+u")
     await ui.type(pilot, text)

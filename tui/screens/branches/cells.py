@@ -28,12 +28,12 @@ COLUMNS = (
     ("name", "Branch"),
     ("tag", "Tag"),
     ("flow", "Flow"),
+    ("reading", "Reading"),  # beside the flow it is compared with, in sight at 80 columns
     ("size", "Size/ID"),
     ("length", "Length"),
     ("wall", "ε or material"),
     ("k", "K+fittings"),
     ("valve", "Valve"),
-    ("reading", "Reading"),
 )
 BRANCH_COLUMNS = ("name", "tag", "valve", "reading")
 """Columns that belong to the whole branch (blank on a further segment's row)."""
