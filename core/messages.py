@@ -24,6 +24,11 @@ def marked(kind: str, value_si: float) -> str:
     return f"{_OPEN}{kind} {float(value_si)!r}{_CLOSE}"
 
 
+def is_marked(text: str) -> bool:
+    """Whether ``text`` holds a marked quantity (to be said in its reader's units)."""
+    return _OPEN in text
+
+
 def limit_text(kind: str, value_si: float) -> str:
     """A limit of ``kind`` (a rule of thumb, a sane bound) as a marker: stated in another unit it
     is rounded as the trade quotes it (:func:`trade_round`: 3 m/s reads "10 ft/s", not 9.843)."""

@@ -28,6 +28,7 @@ from textual.timer import Timer  # noqa: E402
 from textual.worker import get_current_worker  # noqa: E402
 
 from branchwise.core.errors import inert  # noqa: E402
+from branchwise.core.messages import is_marked  # noqa: E402
 from branchwise.core.site.spec import Site  # noqa: E402
 from branchwise.core.storage.settings import Settings  # noqa: E402
 from branchwise.core.units import Units  # noqa: E402
@@ -192,7 +193,10 @@ class BranchwiseApp(App[None]):
         return self.units.label(kind)
 
     def say(self, item: object) -> str:
-        """A warning's or an error's text, its quantities in the units the person reads."""
+        """A warning's, an error's or a note's text, its quantities in the units the person
+        reads."""
+        if isinstance(item, str):  # a note: its quantities may be marked
+            return self.units.say(item) if is_marked(item) else item
         if not getattr(item, "marked", ""):  # nothing to restate: the units stay unloaded
             return str(getattr(item, "message", "") or item)
         return self.units.say(item)

@@ -23,6 +23,7 @@ from __future__ import annotations
 import math
 from dataclasses import replace
 
+from ..messages import marked
 from .indicators import INDICATORS, BranchIndicators, Indicator, VisitIndicators
 
 HEAD_FLOOR = 1e-3
@@ -49,8 +50,8 @@ def trendable(v: VisitIndicators, label: str) -> tuple[VisitIndicators, list[Row
     if flat:
         state = ("is reversed: the header ran backwards that day" if head < -HEAD_FLOOR
                  else "is not clearly above zero")
-        notes.append(f"visit {label}: the head across the header ({head:.3g} m of the "
-                     f"liquid) {state}, so no figure of this visit is trended")
+        notes.append(f"visit {label}: the head across the header ({marked('head', head)} of "
+                     f"the liquid) {state}, so no figure of this visit is trended")
     net = v.solved.built.network
     branches: list[BranchIndicators] = []
     rows: list[Row] = []

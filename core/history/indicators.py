@@ -244,7 +244,8 @@ def visit_indicators(site: Site) -> VisitIndicators:
             try:
                 spreads[key] = _spread(net, given, find, tol, thermal)
             except BranchwiseError as exc:
-                notes.append(f"no band for the visit's indicators: {exc}")
+                notes.append("no band for the visit's indicators: "
+                             f"{getattr(exc, 'marked', '') or exc}")
                 spreads[key] = None
         return spreads[key]
 
@@ -310,7 +311,8 @@ def _roughness(net: Network, given: Given, find: FindUnknown, name: str, notes: 
     try:
         solve(net, given, find)
     except BranchwiseError as exc:
-        notes.append(f"{name}: no effective roughness from that visit's readings: {exc}")
+        notes.append(f"{name}: no effective roughness from that visit's readings: "
+                     f"{getattr(exc, 'marked', '') or exc}")
         return None
     ev = spread(given, find, ("find", b))
     if ev is None or ev.sol.found is None:

@@ -17,6 +17,7 @@ from typing import Any
 
 from ..errors import BranchwiseError, InputError, NoSolutionError, describe
 from ..givens import branch_of, kind_of
+from ..messages import render
 from ..site.spec import Site
 from ..site.visits import naming_visit, today_has_reading, visit_date, visit_site
 from .guard import Row, trendable
@@ -186,7 +187,7 @@ def _visit_json(v: Visit) -> dict[str, Any]:
                 k: _num(ind.relative_uncertainty) if (ind := b.get(k)) is not None else None
                 for k in INDICATORS},
         } for b in v.solved.branches],
-        "solve_notes": list(v.solved.notes),
+        "solve_notes": [render(n) for n in v.solved.notes],
     }
 
 

@@ -94,7 +94,7 @@ def visit_lines(v: Visit, u: Units) -> list[str]:
         out.append(f"Readings weighed: {sr.reconciliation.verdict}")
     if v.notes:
         out.append(f"Notes: {v.notes}")
-    out += [f"Note: {n}" for n in v.solved.notes]
+    out += [f"Note: {u.restate(n)}" for n in v.solved.notes]
     return out
 
 

@@ -217,7 +217,7 @@ def to_html(sr: SiteResult, reader: Units | str = "si", date: datetime | None = 
     if sr.assumptions:
         body += ["<h2>Assumed</h2>", _list(assumed_lines(sr, u))]
     body += ["<h2>Warnings</h2>", _list(warning_lines(sr, u) or ["None."])]
-    notes = notes_of(sr)
+    notes = notes_of(sr, u)
     if notes:
         body += ["<h2>Notes</h2>", _list(notes)]
     inputs = "".join(f"<tr><td><code>{_e(path)}</code></td><td>{_e(value)}</td></tr>"

@@ -18,6 +18,7 @@ import math
 from typing import Any
 
 from ..givens import branch_of, kind_of
+from ..messages import render
 from ..numerics.results import SegmentResult
 from ..site.readings import compare
 from ..site.reconcile import solves_from_all
@@ -129,7 +130,7 @@ def to_dict(sr: SiteResult) -> dict[str, Any]:
         "other_readings": _readings_json(sr),
         "warnings": [{"code": w.code, "branch": w.branch, "message": w.message}
                      for w in r.warnings],
-        "notes": [*sr.notes, *r.notes, *history_notes],
+        "notes": [render(n) for n in (*sr.notes, *r.notes, *history_notes)],
         "reconciliation": (sr.reconciliation.to_json() if sr.reconciliation is not None
                            else None),
         "assumptions": [{"code": a.code, "branch": a.branch, "message": a.message}

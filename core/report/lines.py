@@ -190,9 +190,12 @@ def record_lines(site: Site) -> list[str]:
     return out
 
 
-def notes_of(sr: SiteResult) -> list[str]:
-    """Every note of the answer: the site's, the solve's and the band's."""
-    return [*sr.notes, *sr.result.notes, *(sr.uncertainty.notes if sr.uncertainty else ())]
+def notes_of(sr: SiteResult, reader: Units | str = "si") -> list[str]:
+    """Every note of the answer: the site's, the solve's and the band's, their quantities in
+    the reader's units (a note keeps them marked, see ``core.messages``)."""
+    u = units_for(reader)
+    return [u.restate(n) for n in (*sr.notes, *sr.result.notes,
+                                   *(sr.uncertainty.notes if sr.uncertainty else ()))]
 
 
 def assumed_lines(sr: SiteResult, reader: Units | str = "si") -> list[str]:

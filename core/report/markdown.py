@@ -91,7 +91,7 @@ def to_markdown(
     out += ["", "## Warnings", ""]
     out += ([f"- {_md((w.branch + ': ') if w.branch else '')}{_md(u.say(w))} (`{w.code}`)"
              for w in sr.result.warnings] or ["- None."])
-    notes = notes_of(sr)
+    notes = notes_of(sr, u)
     if notes:
         out += ["", "## Notes", "", *(f"- {_md(n)}" for n in notes)]
     out += ["", "## Cautions", "", *(f"- {c}" for c in CAUTIONS)]

@@ -83,7 +83,7 @@ def to_table(sr: SiteResult, reader: Units | str = "si", width: int = WIDTH) -> 
     if sr.result.warnings:
         out += ["", "Warnings:",
                 *(line for w in warning_lines(sr, u) for line in wrap(w, "  - ", "    "))]
-    notes = notes_of(sr)
+    notes = notes_of(sr, u)
     if notes:
         out += ["", "Notes:", *(line for n in notes for line in wrap(n, "  - ", "    "))]
     out += ["", "Cautions:", *(line for c in CAUTIONS for line in wrap(c, "  - ", "    "))]

@@ -152,4 +152,18 @@ def error_text(error: BaseException, reader: Units | str = "si",
     return f"{FieldPath.parse(field).words(names or ())}: {reason}"
 
 
-__all__ = ["AREAS", "FieldPath", "error_text", "in_words", "reason_text"]
+def marked_error_text(error: BaseException, names: Sequence[object] | None = None) -> str:
+    """:func:`error_text` with the quantities left marked, for a text kept and said later in
+    its reader's units (a note: ``Units.restate``)."""
+    names = error.names if names is None and isinstance(error, BranchwiseError) else names
+    if isinstance(error, InputError):
+        value = error.marked_value
+        reason = error.marked_reason + (f", got {value}" if value not in ("", None) else "")
+    else:
+        reason = getattr(error, "marked", "") or str(error)
+    reason = in_words(reason, names or ())
+    field = getattr(error, "field", "") or ""
+    return f"{FieldPath.parse(field).words(names or ())}: {reason}" if field else reason
+
+
+__all__ = ["AREAS", "FieldPath", "error_text", "in_words", "marked_error_text", "reason_text"]

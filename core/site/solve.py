@@ -18,9 +18,9 @@ from dataclasses import dataclass, replace
 from typing import TYPE_CHECKING, Any
 
 from ..errors import BranchwiseError, InputError
+from ..messages import marked
 from ..model import FindFlows, FindUnknown, PressureDrop
 from ..numerics.results import Result
-from ..units import format_quantity
 from .assumptions import Assumption, assumptions_of
 from .build import Built, build
 from .reconcile import reconcile_site, solves_from_all
@@ -96,9 +96,9 @@ def solve_site(site: Site, presets: PresetSource | None = None,
             rec = reconcile_site(site, built, presets)
         except InputError as exc:
             rec = None
-            from .fields import error_text
+            from .fields import marked_error_text
 
-            notes.append(f"{UNWEIGHED}: {error_text(exc, 'si', names)}")
+            notes.append(f"{UNWEIGHED}: {marked_error_text(exc, names)}")
     try:
         result = solve(built.network, built.given, built.find)
     except BranchwiseError as exc:
@@ -198,7 +198,7 @@ def _catalog_pick(site: Site, built: Built, i: int, find: FindUnknown, like: Any
     size = smallest_at_least(required, like)
     if size is None:
         notes.append(f"no {like.standard} schedule {like.schedule} size has a bore of "
-                     f"{format_quantity(required, 'diameter')} or more")
+                     f"{marked('diameter', required)} or more")
         return None
     seg = built.network.branches[i].segments[find.segment]
     counts = _fitting_counts(site, i, find.segment)

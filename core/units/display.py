@@ -127,7 +127,10 @@ def restate(text: str, system: str = "si", units: Mapping[str, str] | None = Non
 
 
 def say(item: object, system: str = "si", units: Mapping[str, str] | None = None) -> str:
-    """What to show for a warning or an error: its marked text restated, else its own text."""
+    """What to show for a warning, an error or a note (text that may hold marked quantities):
+    its marked text restated, else its own text."""
+    if isinstance(item, str):  # a note: its quantities may be marked
+        return one_line(restate(item, system, units))
     text = getattr(item, "marked", "") or (item.message if hasattr(item, "message") else "")
     return one_line(restate(text, system, units)) if text else str(item)
 

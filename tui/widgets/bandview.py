@@ -143,7 +143,7 @@ def band_notes(app: Workspace, sr: SiteResult) -> Text:
               if sr.site.tolerances is not None else "common-practice defaults")
     out = Text(f"\n\nTolerances: {source}  (l: see and change them)", style="dim")
     for note in u.notes if u is not None else ():
-        out.append(f"\n• {note}", style=colour(app, "text-warning"))
+        out.append(f"\n• {app.say(note)}", style=colour(app, "text-warning"))
     return out
 
 

@@ -137,7 +137,7 @@ class SplitScreen(WorkScreen):
         outcome = self.bw.outcome
         if outcome is None or outcome.solved is None:
             return
-        unweighed = [n for n in outcome.solved.notes
+        unweighed = [self.bw.units.restate(n) for n in outcome.solved.notes
                      if n.startswith(UNWEIGHED)]
         lines = weighed_lines(outcome.solved, self.bw.units) or unweighed or [
             "No readings to weigh: give the pressure drop, the total flow or a branch's reading."]
