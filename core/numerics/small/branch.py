@@ -218,6 +218,11 @@ class Pipe:
             h += major + minor
             dh += major * (2 + fs) + 2 * minor
             re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
+        return self._with_valve(q, h, dh)
+
+    def _with_valve(self, q: float, h: float, dh: float) -> float:
+        """The state's last step: the valve's loss added to the segments' h and to their
+        d h / d ln Q (``dh``), and the flow, head and slope kept; returns h (m)."""
         valve = self.valve_r * q * q
         h += valve
         dh += 2 * valve
@@ -379,12 +384,7 @@ class Pipe:
             h += major + minor
             dh += major * (2 + fs) + 2 * minor
             re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
-        valve = self.valve_r * q * q
-        h += valve
-        dh += 2 * valve
-        self.q, self.h = q, h
-        self.s = dh / h if h != 0 else 2.0
-        return h
+        return self._with_valve(q, h, dh)
 
     def _start(self, head: float) -> float:
         """Two fixed-point passes from f = 0.02, as the vectorised solver starts."""

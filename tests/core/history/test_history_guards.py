@@ -11,6 +11,7 @@ import math
 import re
 
 import pytest
+from site_texts import demo_with
 
 from branchwise.core.errors import InputError
 from branchwise.core.history import history_of
@@ -26,14 +27,6 @@ VISIT_1 = ('pressure_drop = "10.3 psid"\ntotal_flow = "628 gpm"             # th
            'flow meter on the common supply\ngiven = "pressure_drop"')
 FIRST_CLAMP_ONS = 'measured = { "AHU-1 coil" = "335 gpm", "AHU-3 coil" = "77 gpm" }'
 SECOND_CLAMP_ONS = 'measured = { "AHU-1 coil" = "332 gpm", "AHU-3 coil" = "63 gpm" }'
-
-
-def _demo(*changes: tuple[str, str]) -> str:
-    text = demo_text()
-    for old, new in changes:
-        assert old in text, old
-        text = text.replace(old, new)
-    return text
 
 
 def _factor(low: float, high: float) -> tuple[str, str]:
@@ -57,7 +50,7 @@ def test_today_s_flows_are_the_solve_s_whatever_the_roughness_tolerance(tmp_path
                                                                        factor):
     """Reference: ``branchwise solve`` of the same site (its JSON flows), to 1e-9; and the
     branch flows add up, by hand, to the visit's total flow."""
-    text = _demo(_factor(*factor))
+    text = demo_with(_factor(*factor))
     solved = {b["name"]: b["flow_m3_s"] for b in _solve_json(tmp_path, text, capsys)["branches"]}
     history = history_of(parse_site(text))
     today = history.visits[-1]
@@ -74,7 +67,7 @@ def test_today_s_flows_are_the_solve_s_whatever_the_roughness_tolerance(tmp_path
 
 
 def _total_flow_visit(factor: tuple[float, float] = (0.5, 3)) -> str:
-    return _demo((VISIT_1, 'total_flow = "628 gpm"\ngiven = "total_flow"'), _factor(*factor))
+    return demo_with((VISIT_1, 'total_flow = "628 gpm"\ngiven = "total_flow"'), _factor(*factor))
 
 
 def _without_ahu_3_at(flow_gpm: float) -> str:
@@ -137,7 +130,7 @@ def _numbers_are_sane(history) -> None:
 
 
 def test_a_clamp_on_reading_zero_at_the_first_visit_is_not_trended_and_said():
-    text = _demo((FIRST_CLAMP_ONS, FIRST_CLAMP_ONS.replace('"335 gpm"', '"0 gpm"')))
+    text = demo_with((FIRST_CLAMP_ONS, FIRST_CLAMP_ONS.replace('"335 gpm"', '"0 gpm"')))
     history = history_of(parse_site(text))  # no ZeroDivisionError
     notes = history.visits[0].solved.notes
     assert any("2024-09-18" in n and "AHU-1 coil" in n and "no flow" in n for n in notes), notes
@@ -147,7 +140,7 @@ def test_a_clamp_on_reading_zero_at_the_first_visit_is_not_trended_and_said():
 
 
 def test_a_clamp_on_reading_zero_at_the_last_visit_is_no_minus_100_percent():
-    text = _demo((SECOND_CLAMP_ONS, SECOND_CLAMP_ONS.replace('"332 gpm"', '"0 gpm"')))
+    text = demo_with((SECOND_CLAMP_ONS, SECOND_CLAMP_ONS.replace('"332 gpm"', '"0 gpm"')))
     history = history_of(parse_site(text))
     for t in history.trends:
         for c in (t.since_first, t.since_previous):
@@ -162,7 +155,7 @@ def test_a_head_near_zero_gives_no_trend_and_no_absurd_number(dp):
     """0.0001 psi is 0.07 mm of water (under the floor); 0.01 psi on a 0-30 psid class 1
     gauge is 3 % of its ± 0.3 psi: R's uncertainty is thousands of percent (by hand:
     0.3/√3/0.01 ≈ 17)."""
-    text = _demo(('pressure_drop = "10.1 psid"', f'pressure_drop = "{dp}"'))
+    text = demo_with(('pressure_drop = "10.1 psid"', f'pressure_drop = "{dp}"'))
     history = history_of(parse_site(text))
     assert history.visits[1].solved.notes, "the visit says why it is not trended"
     for t in history.trends:
@@ -174,7 +167,7 @@ def test_a_head_near_zero_gives_no_trend_and_no_absurd_number(dp):
 # ---- 3. a reversal ----------------------------------------------------------------------
 
 def test_a_flow_that_reverses_is_said_in_words_not_as_a_percentage():
-    text = _demo((FIRST_CLAMP_ONS, FIRST_CLAMP_ONS.replace('"335 gpm"', '"-335 gpm"')))
+    text = demo_with((FIRST_CLAMP_ONS, FIRST_CLAMP_ONS.replace('"335 gpm"', '"-335 gpm"')))
     history = history_of(parse_site(text))
     ahu1 = {t.indicator: t for t in history.trends if t.branch == "AHU-1 coil"}
     for indicator in ("flow", "resistance"):
@@ -193,7 +186,7 @@ def test_a_flow_that_reverses_is_said_in_words_not_as_a_percentage():
 # ---- 4. a visit after today ---------------------------------------------------------------
 
 def test_a_visit_dated_after_today_s_record_is_refused_naming_it():
-    text = _demo(('date = "2025-01-15"', 'date = "2026-01-01"'))
+    text = demo_with(('date = "2025-01-15"', 'date = "2026-01-01"'))
     with pytest.raises(InputError) as exc:
         history_of(parse_site(text))
     assert exc.value.field == "visits[1].date"
@@ -203,7 +196,7 @@ def test_a_visit_dated_after_today_s_record_is_refused_naming_it():
 @pytest.mark.parametrize("record", ['date = "early March"', "# no date"],
                          ids=["free-text", "absent"])
 def test_without_a_dated_record_a_late_visit_is_taken_in_date_order(record):
-    text = _demo(('date = "2025-01-15"', 'date = "2026-01-01"'),
+    text = demo_with(('date = "2025-01-15"', 'date = "2026-01-01"'),
                  ('date = "2025-03-12" ', record + " "))
     history = history_of(parse_site(text))
     assert [v.field for v in history.visits] == ["visits[0]", "visits[1]", "conditions"]
@@ -213,7 +206,7 @@ def test_without_a_dated_record_a_late_visit_is_taken_in_date_order(record):
                          ids=["free-text", "absent"])
 def test_without_a_dated_record_a_visit_in_the_future_is_refused(record):
     """No record date to compare with: the calendar's today is (a visit in 2099 is a typo)."""
-    text = _demo(('date = "2025-01-15"', 'date = "2099-01-15"'),
+    text = demo_with(('date = "2025-01-15"', 'date = "2099-01-15"'),
                  ('date = "2025-03-12" ', record + " "))
     with pytest.raises(InputError) as exc:
         history_of(parse_site(text))
