@@ -25,11 +25,10 @@ from ...model import Branch
 from ..friction import RE_TURBULENT
 from ..hydraulics import HEAD_RTOL, MAX_ITER, VALVE_HEAD_FACTOR
 from . import friction as fr
+from .series import NO_SERIES, SeriesConstants, joint_newton, series_constants, series_state
 
 LN10 = fr.LN10
-TWO_LN10 = 2.0 / LN10
-RE_TURBULENT_C = 2.51 / RE_TURBULENT
-"""2.51/Re at the start of turbulent flow (Colebrook's c, which falls as Re rises)."""
+TWO_LN10 = fr.TWO_LN10
 _log = math.log
 _exp = math.exp
 _sqrt = math.sqrt
@@ -55,11 +54,11 @@ class Pipe:
     fs: list[float]
     major: list[float]
     minor: list[float]
-    series: tuple[list[float], list[float], float]
+    series: SeriesConstants
 
     __slots__ = ("d", "length", "rr", "a3", "k", "area", "c", "eps", "valve_r", "nu", "g",
                  "model", "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs",
-                 "one_colebrook", "owned", "ld", "ke", "c0", "series", "series_k")
+                 "one_colebrook", "owned", "ld", "ke", "c0", "series")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
         segs = br.segments
@@ -92,8 +91,7 @@ class Pipe:
                 self.c.append(s.hw_c if s.hw_c is not None else math.nan)
             self.ld = self.ke = self.c0 = math.nan
         self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
-        self.series_k: list[float] = []
-        self.series = self._series_constants() if self.n > 1 else ([], [], 0.0)
+        self.series = self._series_constants() if self.n > 1 else NO_SERIES
         self.one_colebrook = self.n == 1 and model == "colebrook"
         self.owned = True
         self._new_state()
@@ -112,7 +110,7 @@ class Pipe:
         new.nu, new.g, new.model, new.n = self.nu, self.g, self.model, self.n
         new.one_colebrook, new.owned, new.ld, new.ke = self.one_colebrook, own, self.ld, self.ke
         new.c0 = self.c0
-        new.series, new.series_k = self.series, self.series_k
+        new.series = self.series
         new._new_state()
         return new
 
@@ -162,17 +160,9 @@ class Pipe:
             self.ld = self.ke = self.c0 = math.nan
         self.series = self._series_constants()
 
-    def _series_constants(self) -> tuple[list[float], list[float], float]:
-        """For :meth:`_colebrook_series`: per segment 2.51 Q/Re and (L/D)/(2 g A²), and the
-        fittings' and valve's resistance together (h = Q² (Σ (L/D)/(2 g A²) f + that))."""
-        nu, g, area, d, length, k = self.nu, self.g, self.area, self.d, self.length, self.k
-        crk = [2.51 * area[j] * nu / d[j] for j in range(self.n)]  # 2.51/Re = that/Q
-        ldw = [length[j] / d[j] / (2 * g * area[j] * area[j]) for j in range(self.n)]
-        kw = self.valve_r
-        for j in range(self.n):
-            kw += k[j] / (2 * g * area[j] * area[j])
-        self.series_k = [k[j] / (2 * g * area[j] * area[j]) for j in range(self.n)]
-        return crk, ldw, kw
+    def _series_constants(self) -> SeriesConstants:
+        return series_constants(self.nu, self.g, self.valve_r, self.area, self.d, self.length,
+                                self.k)
 
     def friction(self, j: int, re: float) -> tuple[float, float]:
         if self.model == "hazen-williams":
@@ -218,9 +208,9 @@ class Pipe:
             h += major + minor
             dh += major * (2 + fs) + 2 * minor
             re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
-        return self._with_valve(q, h, dh)
+        return self.with_valve(q, h, dh)
 
-    def _with_valve(self, q: float, h: float, dh: float) -> float:
+    def with_valve(self, q: float, h: float, dh: float) -> float:
         """The state's last step: the valve's loss added to the segments' h and to their
         d h / d ln Q (``dh``), and the flow, head and slope kept; returns h (m)."""
         valve = self.valve_r * q * q
@@ -298,93 +288,19 @@ class Pipe:
         return it
 
     def _colebrook_series(self, head: float) -> int:
-        """Series segments under Colebrook in turbulent flow: Newton on ln Q and every
-        segment's x = 1/√f together (each x's Colebrook equation solved for its step given
-        the step in ln Q), from each segment's Swamee–Jain x at the flow f = 0.02 would
-        give, then tested as :meth:`_newton` tests a flow. 0 when a segment is not in
-        turbulent flow or the test is not met (the caller goes on from the flow reached)."""
-        n = self.n
-        crk, ldw, kw = self.series
-        a3 = self.a3
-        ln_t = _log(head)
-        r = kw
-        for j in range(n):
-            r += ldw[j] * 0.02
-        q = _sqrt(head / r)  # every f = 0.02, then each x as Swamee–Jain's at that flow
-        xs = self.xs  # written in place
-        r = kw
-        for j in range(n):
-            x = xs[j] = -2.0 * _log10(a3[j] + 5.74 * (q / crk[j] * 2.51) ** -0.9)
-            r += ldw[j] / (x * x)
-        u = 0.5 * (ln_t - _log(r))
-        q = _exp(u)
-        gs = [0.0] * n
-        gus = [0.0] * n
-        igxs = [0.0] * n
-        lim = RE_TURBULENT_C
-        it = 0
-        while True:
-            it += 1
-            if it > 30:
-                return 0
-            num = 2.0 * u + _log(r) - ln_t
-            den = 2.0
-            fr2 = -2.0 / r
-            qi = 1.0 / q
-            for j in range(n):
-                x = xs[j]
-                c = crk[j] * qi  # 2.51/Re
-                if not c <= lim:
-                    return 0
-                arg = a3[j] + c * x
-                t = TWO_LN10 * c / arg
-                igx = 1.0 / (1.0 + t)
-                gu = -t * x
-                gj = x + TWO_LN10 * _log(arg)
-                w = fr2 * ldw[j] / (x * x * x) * igx  # d ln h / d x over dG/dx
-                num -= w * gj
-                den -= w * gu
-                gs[j], gus[j], igxs[j] = gj, gu, igx
-            du = -num / den
-            worst = abs(du)
-            r = kw
-            for j in range(n):
-                step = (gs[j] + gus[j] * du) * igxs[j]
-                x = xs[j] = xs[j] - step
-                r += ldw[j] / (x * x)
-                if abs(step) > worst * x:
-                    worst = abs(step) / x
-            u += du
-            q = _exp(u)
-            if worst <= 1e-8:  # the errors square each step: the next would be round-off
-                break
-        h = self._state(q, xs)
-        if abs(_log(h) - ln_t) > HEAD_RTOL:
+        """Series segments under Colebrook in turbulent flow, solved together
+        (:func:`.series.joint_newton`), then tested as :meth:`_newton` tests a flow; 0 when
+        a segment is not in turbulent flow or the test is not met (the caller goes on from
+        the flow reached, if any)."""
+        it, q = joint_newton(head, self.series, self.a3, self.xs)
+        if not it:
+            return 0
+        h, dh = series_state(q, self.xs, self.series, self.a3,
+                             (self.re, self.f, self.fs, self.major, self.minor))
+        h = self.with_valve(q, h, dh)
+        if abs(_log(h) - _log(head)) > HEAD_RTOL:
             return 0
         return it
-
-    def _state(self, q: float, xs: list[float]) -> float:
-        """Fill the state at |Q| = q from every segment's Colebrook root ``xs`` (turbulent
-        flow); returns h (m)."""
-        crk, ldw, kw = self.series
-        kws, a3 = self.series_k, self.a3
-        re_l, f_l, fs_l, ma_l, mi_l = self.re, self.f, self.fs, self.major, self.minor
-        qi = 1.0 / q
-        q2 = q * q
-        h = dh = 0.0
-        for j in range(self.n):
-            x = xs[j]
-            c = crk[j] * qi  # 2.51/Re
-            re = 2.51 / c
-            t = TWO_LN10 * c / (a3[j] + c * x)
-            f = 1.0 / (x * x)
-            fs = -2.0 * t / (1.0 + t)  # d ln f / d ln Re, as friction.colebrook_slopes
-            major = f * ldw[j] * q2
-            minor = kws[j] * q2
-            h += major + minor
-            dh += major * (2 + fs) + 2 * minor
-            re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
-        return self._with_valve(q, h, dh)
 
     def _start(self, head: float) -> float:
         """Two fixed-point passes from f = 0.02, as the vectorised solver starts."""

@@ -24,6 +24,7 @@ from ..friction import (
 )
 
 LN10 = math.log(10.0)
+TWO_LN10 = 2.0 / LN10
 _log10 = math.log10
 _log = math.log
 _exp = math.exp

@@ -1,5 +1,5 @@
 """Series segments under Colebrook on the small path: Newton on ln Q and every segment's
-x = 1/√f together (``Pipe._colebrook_series``).
+x = 1/√f together (``small.series.joint_newton``, through ``Pipe._colebrook_series``).
 
 The reference is outside the project: each segment's friction factor must be the one
 ``fluids.friction.Colebrook`` gives at that segment's Reynolds number and relative roughness, and

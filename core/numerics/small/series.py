@@ -1,0 +1,133 @@
+"""Series segments under Colebrook in turbulent flow, in plain floats: one Newton on ln Q and
+every segment's x = 1/√f together.
+
+With V_j = Q/A_j, h = Q² (Σ (L/D)_j/(2 g A_j²) / x_j² + Σ K_j/(2 g A_j²) + r_valve) and each
+segment's Colebrook equation G_j = x_j + 2 log10(ε/3.7D + 2.51 x_j/Re_j) = 0, Re_j ∝ Q: the step
+of each x_j follows from its own equation once the step in ln Q is known, so the joint Newton
+step needs one pass over the segments for the sums and one for the steps. Started from each
+segment's Swamee–Jain x at the flow f = 0.02 would give; three steps are usual.
+"""
+
+from __future__ import annotations
+
+import math
+
+from ..friction import RE_TURBULENT
+from .friction import TWO_LN10
+
+_log = math.log
+_log10 = math.log10
+_exp = math.exp
+_sqrt = math.sqrt
+
+SeriesConstants = tuple[list[float], list[float], float, list[float]]
+"""What :func:`series_constants` gives: 2.51 Q/Re and (L/D)/(2 g A²) per segment, the fittings'
+and valve's resistance together, and each segment's fittings' K/(2 g A²)."""
+NO_SERIES: SeriesConstants = ([], [], 0.0, [])
+"""The constants of a one-segment branch (the series solve never takes one)."""
+RE_TURBULENT_C = 2.51 / RE_TURBULENT
+"""2.51/Re at the start of turbulent flow (Colebrook's c, which falls as Re rises)."""
+
+
+def series_constants(nu: float, g: float, valve_r: float, area: list[float], d: list[float],
+                     length: list[float], k: list[float]) -> SeriesConstants:
+    """For :func:`joint_newton` (SI, per segment: A, D, L, K): per segment 2.51 Q/Re and
+    (L/D)/(2 g A²), the fittings' and valve's resistance together
+    (h = Q² (Σ (L/D)/(2 g A²) f + that)), and per segment the fittings' K/(2 g A²)."""
+    n = len(d)
+    crk = [2.51 * area[j] * nu / d[j] for j in range(n)]  # 2.51/Re = that/Q
+    ldw = [length[j] / d[j] / (2 * g * area[j] * area[j]) for j in range(n)]
+    kws = [k[j] / (2 * g * area[j] * area[j]) for j in range(n)]
+    kw = valve_r
+    for w in kws:
+        kw += w
+    return crk, ldw, kw, kws
+
+
+def joint_newton(head: float, consts: SeriesConstants, a3: list[float],
+                 xs: list[float]) -> tuple[int, float]:
+    """The iterations and |Q| (m³/s) at driving head ``head`` > 0 (m): Newton on ln Q and every
+    segment's x = 1/√f together (``xs``, written in place; ``a3`` each ε/3.7D), from each
+    segment's Swamee–Jain x at the flow f = 0.02 would give, until the next step would be
+    below round-off. (0, NaN) when a segment is not in turbulent flow or Newton does not
+    settle."""
+    n = len(xs)
+    crk, ldw, kw, _ = consts
+    ln_t = _log(head)
+    r = kw
+    for j in range(n):
+        r += ldw[j] * 0.02
+    q = _sqrt(head / r)  # every f = 0.02, then each x as Swamee–Jain's at that flow
+    r = kw
+    for j in range(n):
+        x = xs[j] = -2.0 * _log10(a3[j] + 5.74 * (q / crk[j] * 2.51) ** -0.9)
+        r += ldw[j] / (x * x)
+    u = 0.5 * (ln_t - _log(r))
+    q = _exp(u)
+    gs = [0.0] * n
+    gus = [0.0] * n
+    igxs = [0.0] * n
+    lim = RE_TURBULENT_C
+    it = 0
+    while True:
+        it += 1
+        if it > 30:
+            return 0, math.nan
+        num = 2.0 * u + _log(r) - ln_t
+        den = 2.0
+        fr2 = -2.0 / r
+        qi = 1.0 / q
+        for j in range(n):
+            x = xs[j]
+            c = crk[j] * qi  # 2.51/Re
+            if not c <= lim:
+                return 0, math.nan
+            arg = a3[j] + c * x
+            t = TWO_LN10 * c / arg
+            igx = 1.0 / (1.0 + t)
+            gu = -t * x
+            gj = x + TWO_LN10 * _log(arg)
+            w = fr2 * ldw[j] / (x * x * x) * igx  # d ln h / d x over dG/dx
+            num -= w * gj
+            den -= w * gu
+            gs[j], gus[j], igxs[j] = gj, gu, igx
+        du = -num / den
+        worst = abs(du)
+        r = kw
+        for j in range(n):
+            step = (gs[j] + gus[j] * du) * igxs[j]
+            x = xs[j] = xs[j] - step
+            r += ldw[j] / (x * x)
+            if abs(step) > worst * x:
+                worst = abs(step) / x
+        u += du
+        q = _exp(u)
+        if worst <= 1e-8:  # the errors square each step: the next would be round-off
+            break
+    return it, q
+
+
+def series_state(q: float, xs: list[float], consts: SeriesConstants, a3: list[float],
+                 state: tuple[list[float], list[float], list[float], list[float],
+                              list[float]]) -> tuple[float, float]:
+    """Each segment's Re, f, d ln f / d ln Re, major and minor loss (m) at |Q| = q from its
+    Colebrook root in ``xs``, written into the lists of ``state`` in that order; returns the
+    segments' h and d h / d ln Q (m; the valve's part left to the caller)."""
+    crk, ldw, _, kws = consts
+    re_l, f_l, fs_l, ma_l, mi_l = state
+    qi = 1.0 / q
+    q2 = q * q
+    h = dh = 0.0
+    for j in range(len(xs)):
+        x = xs[j]
+        c = crk[j] * qi  # 2.51/Re
+        re = 2.51 / c
+        t = TWO_LN10 * c / (a3[j] + c * x)
+        f = 1.0 / (x * x)
+        fs = -2.0 * t / (1.0 + t)  # d ln f / d ln Re, as friction.colebrook_slopes
+        major = f * ldw[j] * q2
+        minor = kws[j] * q2
+        h += major + minor
+        dh += major * (2 + fs) + 2 * minor
+        re_l[j], f_l[j], fs_l[j], ma_l[j], mi_l[j] = re, f, fs, major, minor
+    return h, dh
