@@ -234,3 +234,25 @@ def test_a_given_being_retyped_says_so(ui, demo_file):
             assert app.outcome.ok and app.site.conditions.given == "pressure_drop"
 
     ui.run(scenario)
+
+
+def test_m_brings_the_reading_cell_into_sight_from_a_table_scrolled_right(ui, demo_file):
+    """At 80 columns, moved right to the Valve column, m edits the Reading cell and the table
+    shows it (the cursor goes to the column edited)."""
+
+    async def scenario() -> None:
+        app = BranchwiseApp(demo_file)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await ui.settle(pilot)
+            await pilot.press("f3")
+            await ui.settle(pilot)
+            await pilot.press(*["right"] * 7)  # the Valve column, the table scrolled right
+            await pilot.pause()
+            assert "Reading" not in ui.text(app).splitlines()[3]
+            await pilot.press("m")
+            await pilot.pause()
+            assert app.screen.here()[2] == "reading"
+            assert "Reading" in ui.text(app).splitlines()[3]
+            await pilot.press("escape")
+
+    ui.run(scenario)

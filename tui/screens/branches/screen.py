@@ -215,6 +215,10 @@ class BranchesScreen(WorkScreen):
             return
         if j > 0 and key in BRANCH_COLUMNS:
             j = 0
+        if column is not None and column in self._keys:  # a key for a column: go there, so
+            # that the cell edited is in sight (the table may be scrolled past it)
+            self.query_one("#branch-table", DataTable).move_cursor(
+                column=self._keys.index(column))
         br = self.bw.site.branches[i]
         seg = br.segments[j]
         label = dict(COLUMNS)[key]
