@@ -66,7 +66,8 @@ def base_kind(kind: str) -> tuple[str, bool]:
 
 
 def si_text(value_si: float, kind: str) -> str:
-    """The SI words for a quantity: L/s, m, kPa, mm (m from 1 m on), m/s; km beyond 10 km; Kv."""
+    """The SI words for a quantity: L/s, m, kPa, mm (a diameter in m from 10 m on), m/s; km
+    beyond 10 km; Kv."""
     kind, _ = base_kind(kind)  # an SI limit is stated as set
     if kind == "flow":
         return f"{value_si * 1000:.4g} L/s"
@@ -74,8 +75,8 @@ def si_text(value_si: float, kind: str) -> str:
         return f"{value_si / 1000:.4g} kPa"
     if kind == "roughness":
         return f"{value_si * 1000:.4g} mm"
-    if kind == "diameter":
-        return f"{value_si * 1000:.4g} mm" if value_si < 1 else f"{value_si:.4g} m"
+    if kind == "diameter":  # in mm as the tables give bores, to the search's 10 m bound
+        return f"{value_si * 1000:.4g} mm" if value_si < 10 else f"{value_si:.4g} m"
     if kind == "length" and abs(value_si) >= 10_000:
         return f"{value_si / 1000:.4g} km"
     if kind == "velocity":
