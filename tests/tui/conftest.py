@@ -16,6 +16,7 @@ from types import SimpleNamespace
 from typing import Any
 
 import pytest
+from app_waits import workers_done
 from textual.pilot import Pilot
 
 
@@ -50,7 +51,7 @@ async def settle(pilot) -> None:
     app = pilot.app
     for _ in range(400):
         await pilot.pause()
-        await app.workers.wait_for_complete()
+        await workers_done(app)
         await pilot.pause()
         outcome = app.outcome
         if (outcome is not None and outcome.revision == app.session.revision
@@ -100,4 +101,4 @@ async def started(key: str | None = None, size: tuple[int, int] = (80, 24),
 @pytest.fixture
 def ui():
     return SimpleNamespace(settle=settle, type=type_text, text=screen_text, run=run,
-                           started=started)
+                           started=started, workers_done=workers_done)

@@ -23,6 +23,7 @@ from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from app_waits import workers_done
 from textual import events
 from textual.keys import _character_to_key, _get_unicode_name_from_key
 from textual.screen import ModalScreen
@@ -333,7 +334,7 @@ async def _check_alive(pilot, report: Report) -> None:
         report.problems.append(f"F4 did not show the Split screen ({app.screen!r})")
     for _ in range(200):
         await pilot.pause()
-        await app.workers.wait_for_complete()
+        await workers_done(app)
         await pilot.pause()
         outcome = app.outcome
         if outcome is not None and outcome.revision == app.session.revision and not app.solving:

@@ -20,7 +20,7 @@ def test_recovery_copy_after_a_crash_and_the_question_on_quitting(ui, data_dir):
             await ui.type(pilot, "7.5 psi")
             await ui.settle(pilot)
             app.files.write_recovery()  # what the timer does a second after typing stops
-            await app.workers.wait_for_complete()
+            await ui.workers_done(app)
             assert app.files.recovery_file().is_file()
             assert app.files.recovery_file().name.startswith("untitled.")  # this instance's
             app.exit()  # no question asked: as if the terminal were closed

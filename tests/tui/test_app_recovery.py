@@ -26,7 +26,7 @@ async def _type_lift(app, pilot, ui, text: str) -> None:
     await ui.type(pilot, text)
     await ui.settle(pilot)
     app.files.write_recovery()  # what the timer does a second after typing stops
-    await app.workers.wait_for_complete()
+    await ui.workers_done(app)
 
 
 def test_an_undo_back_to_the_saved_state_leaves_no_copy_to_offer(ui, data_dir, tmp_path):

@@ -12,6 +12,7 @@ import re
 import threading
 
 import pytest
+from app_waits import workers_done
 from test_app_snapshots import FixedClock, shot
 
 import branchwise.core.site.solve as sitesolve
@@ -50,7 +51,7 @@ async def until(pilot, done, seconds: float = 10.0, workers: bool = True) -> Non
         if done():
             return
         if workers:
-            await pilot.app.workers.wait_for_complete()
+            await workers_done(pilot.app)
         await pilot.pause(0.02)
     raise AssertionError("the app never reached the awaited state")
 
