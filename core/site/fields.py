@@ -144,23 +144,23 @@ def error_text(error: BaseException, reader: Units | str = "si",
     in words (:meth:`FieldPath.words`), then the reason: ``branch "AHU-2 coil" length: must
     not be negative, got -180 ft``. ``names``: the site's branch names (default: those the
     error carries, :attr:`~branchwise.core.errors.BranchwiseError.names`)."""
-    names = error.names if names is None and isinstance(error, BranchwiseError) else names
-    field = getattr(error, "field", "") or ""
-    reason = in_words(reason_text(error, reader), names or ())
-    if not field:
-        return reason
-    return f"{FieldPath.parse(field).words(names or ())}: {reason}"
+    return _with_field(error, reason_text(error, reader), names)
 
 
 def marked_error_text(error: BaseException, names: Sequence[object] | None = None) -> str:
     """:func:`error_text` with the quantities left marked, for a text kept and said later in
     its reader's units (a note: ``Units.restate``)."""
-    names = error.names if names is None and isinstance(error, BranchwiseError) else names
     if isinstance(error, InputError):
         value = error.marked_value
         reason = error.marked_reason + (f", got {value}" if value not in ("", None) else "")
     else:
         reason = getattr(error, "marked", "") or str(error)
+    return _with_field(error, reason, names)
+
+
+def _with_field(error: BaseException, reason: str, names: Sequence[object] | None) -> str:
+    """``reason`` after the error's field in words, and with any field path in it in words."""
+    names = error.names if names is None and isinstance(error, BranchwiseError) else names
     reason = in_words(reason, names or ())
     field = getattr(error, "field", "") or ""
     return f"{FieldPath.parse(field).words(names or ())}: {reason}" if field else reason
