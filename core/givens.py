@@ -11,8 +11,10 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
-from .model import Given, MeasuredFlow, PressureDrop, TotalFlow
+if TYPE_CHECKING:  # the core's model loads when a given is first made, after the app's first screen
+    from .model import Given, MeasuredFlow, PressureDrop, TotalFlow
 
 
 @dataclass(frozen=True)
@@ -23,7 +25,8 @@ class GivenKind:
     (``pressure`` or ``flow``); words: how a sentence names it; label: how the app's list of
     givens names it; short: a word for a narrow screen; instrument: ``gauge`` (accuracy as a
     percent of full scale) or ``meter`` (a percent of the reading); on_branch: read on one
-    branch rather than across the header; model: the core's class for it.
+    branch rather than across the header; model_name: the core's class for it, by name (the
+    model loads with the solver, after the app's first screen).
     """
 
     key: str
@@ -33,18 +36,30 @@ class GivenKind:
     short: str
     instrument: str
     on_branch: bool
-    model: type[PressureDrop] | type[TotalFlow] | type[MeasuredFlow]
-    build: Callable[[float, str], Given]
-    """The given condition from an SI value (and, on a branch, the branch's name)."""
+    model_name: str
+
+    @property
+    def model(self) -> type[PressureDrop] | type[TotalFlow] | type[MeasuredFlow]:
+        """The core's class for it."""
+        from . import model
+
+        found: type[PressureDrop] | type[TotalFlow] | type[MeasuredFlow] = getattr(
+            model, self.model_name)
+        return found
+
+    def build(self, value: float, branch: str) -> Given:
+        """The given condition from an SI value (and, on a branch, the branch's name)."""
+        made: Callable[..., Given] = self.model
+        return made(branch, value) if self.on_branch else made(value)
 
 
 GIVENS: dict[str, GivenKind] = {g.key: g for g in (
     GivenKind("pressure_drop", "pressure", "pressure drop", "Δp across the header", "Δp",
-              "gauge", False, PressureDrop, lambda value, _: PressureDrop(value)),
+              "gauge", False, "PressureDrop"),
     GivenKind("total_flow", "flow", "total flow", "Total flow", "total", "meter", False,
-              TotalFlow, lambda value, _: TotalFlow(value)),
+              "TotalFlow"),
     GivenKind("measured_flow", "flow", "measured flow", "Reading on a branch", "reading",
-              "meter", True, MeasuredFlow, lambda value, branch: MeasuredFlow(branch, value)),
+              "meter", True, "MeasuredFlow"),
 )}
 """Every kind of reading, by key, in the order a site file lists them."""
 
@@ -70,6 +85,8 @@ def make_given(key: str, value: float, branch: str | None = None) -> Given:
 
 def branch_of(given: Given) -> str | None:
     """The branch a given reading was taken on (None for a reading at the header)."""
+    from .model import MeasuredFlow  # loaded already: a given was made
+
     return given.branch if isinstance(given, MeasuredFlow) else None
 
 

@@ -14,6 +14,7 @@ import gc
 import time
 from collections.abc import Callable, Iterable
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 _STARTED = time.perf_counter()
 
@@ -37,8 +38,10 @@ from .files import SiteFiles  # noqa: E402
 from .keygate import KeyGate, Release  # noqa: E402
 from .keys import key_sections, system_commands  # noqa: E402
 from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
-from .state.outcome import Band, Outcome  # noqa: E402
 from .state.session import Session, inert_note  # noqa: E402
+
+if TYPE_CHECKING:  # made by the solve's worker, after the first screen is drawn
+    from .state.outcome import Band, Outcome
 
 # What is loaded by now (Textual, the app's modules) lives as long as the app: kept out of the
 # collector's full passes, which would otherwise walk it all once while the first screen is
@@ -246,6 +249,7 @@ class BranchwiseApp(App[None]):
     def on_unmount(self) -> None:
         from . import shutdown
 
+
         shutdown.remove()
         self.files.recovery.keeper.release()  # a copy left now is offered to the next start
 
@@ -295,7 +299,7 @@ class BranchwiseApp(App[None]):
     def _solve(self, site: Site, revision: int) -> None:
         from branchwise.core.errors import BranchwiseError
 
-        from .state.outcome import compute
+        from .state.outcome import Outcome, compute
 
         try:
             outcome = compute(site, revision)

@@ -9,14 +9,16 @@ nothing below the app imports the app itself.
 from __future__ import annotations
 
 from collections.abc import Callable
-from typing import Protocol, cast
+from typing import TYPE_CHECKING, Protocol, cast
 
 from branchwise.core.site.spec import Site
 from branchwise.core.storage.settings import Settings
 from branchwise.core.units import Units
 
-from .state.outcome import Band, Outcome
 from .state.session import Session
+
+if TYPE_CHECKING:  # made by the solve's worker, after the first screen is drawn
+    from .state.outcome import Band, Outcome
 
 
 class Workspace(Protocol):

@@ -16,9 +16,6 @@ from time import monotonic
 from typing import TYPE_CHECKING, Any
 
 from branchwise.core.errors import BranchwiseError
-from branchwise.core.site.readings import NoReading
-
-from .givens import needs_value
 
 if TYPE_CHECKING:
     from branchwise.core.model import Fluid
@@ -111,14 +108,3 @@ def band_progress(cancelled: Callable[[], bool], report: Callable[[int, int], No
             report(done, total)
 
     return progress
-
-
-def error_mark(error: BaseException | None, site: Site | None = None) -> str:
-    """The mark before an error's words: ✗ for something wrong, ○ for a site that only waits
-    for a reading (a new site, today's visit just closed, or a given just chosen whose value is
-    not typed yet: ``site`` tells that one)."""
-    if isinstance(error, NoReading):
-        return "○"
-    if error is not None and site is not None and needs_value(error, site) is not None:
-        return "○"
-    return "✗"

@@ -16,7 +16,7 @@ from textual.widgets import Static
 from branchwise.core.site.fields import FieldPath
 
 from ..state.givens import ALL_WORDS, given_of, given_text, given_words, weighs_all
-from ..state.outcome import error_mark
+from ..state.marks import error_mark
 from ..state.session import find_of
 from ..state.values import text_of
 from ..theme import colour

@@ -30,7 +30,7 @@ from ...state.givens import (
     remove_branch,
     weighs_all,
 )
-from ...state.outcome import error_mark
+from ...state.marks import error_mark
 from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
 from ...theme import colour

@@ -36,7 +36,7 @@ from ...state.givens import (
     weigh_all,
     weighs_all,
 )
-from ...state.outcome import error_mark
+from ...state.marks import error_mark
 from ...state.session import find_of, set_find
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.choice import Choice

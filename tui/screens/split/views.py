@@ -32,7 +32,6 @@ from textual.worker import get_current_worker
 
 from ...drawing.share_bar import share_bar
 from ...quiet import put
-from ...state.outcome import Band, BandStopped, band_progress
 from ...theme import colour
 from ...theme import series as theme_series
 from ...widgets.texttable import TextTable
@@ -45,7 +44,7 @@ if TYPE_CHECKING:
     from branchwise.core.site.solve import SiteResult
     from branchwise.core.site.spec import Site, TolerancesSpec
 
-    from ...state.outcome import Outcome
+    from ...state.outcome import Band, Outcome
     from ...widgets.curveplot import PlotData
     from ...workspace import Workspace
 
@@ -347,6 +346,8 @@ class ResultViews(Vertical):
         from branchwise.core.site.fields import error_text
         from branchwise.core.site.solve import with_uncertainty
         from branchwise.core.units import Units
+
+        from ...state.outcome import Band, BandStopped, band_progress
 
         worker = get_current_worker()
 
