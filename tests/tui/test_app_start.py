@@ -11,6 +11,8 @@ import sys
 
 FIRST_SCREEN_MODULES = r"""
 import os, sys
+from branchwise.tui.app import BranchwiseApp
+
 class Probe(BranchwiseApp):
     def _first_paint(self):
         print(" ".join(sorted(sys.modules)), flush=True)
