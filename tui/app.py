@@ -17,6 +17,10 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 _STARTED = time.perf_counter()
+# Loading Textual and the app's modules makes tens of thousands of objects that live as long as
+# the app, and hardly any garbage: the collector would walk them again and again on the way
+# (about a twentieth of the start). It rests until they are loaded.
+gc.disable()
 
 from textual import events, work  # noqa: E402  (the clock above starts before Textual loads)
 from textual.app import App, SystemCommand  # noqa: E402
@@ -47,6 +51,7 @@ if TYPE_CHECKING:  # made by the solve's worker, after the first screen is drawn
 # collector's full passes, which would otherwise walk it all once while the first screen is
 # being built (about a tenth of the start).
 gc.freeze()
+gc.enable()  # rests once more while the first screen is built (:meth:`_first_screen`)
 
 KEYS_DELAY = 0.25
 """Seconds of quiet before the footer shows which keys are available now."""
@@ -144,6 +149,7 @@ class BranchwiseApp(App[None]):
         """The first screen, its styles taken as current: its stylesheet was read with the
         app's, and Textual would otherwise parse every stylesheet once more for a first screen
         opened through the modes (its count of style updates starts behind the app's)."""
+        gc.disable()  # until the screen is drawn (:meth:`_first_paint`, or :meth:`on_unmount`)
         self.stylesheet.update(self)
         screen = next(s.build() for s in SCREENS if s.mode == FIRST)
         screen._css_update_count = self._css_update_count
@@ -249,11 +255,13 @@ class BranchwiseApp(App[None]):
     def on_unmount(self) -> None:
         from . import shutdown
 
+        gc.enable()  # if the app closes before its first screen was drawn
 
         shutdown.remove()
         self.files.recovery.keeper.release()  # a copy left now is offered to the next start
 
     def _first_paint(self) -> None:
+        gc.enable()
         self.startup_seconds = time.perf_counter() - _STARTED
         self.log(f"branchwise: first screen drawn {self.startup_seconds * 1000:.0f} ms after "
                  "the app module started loading")

@@ -1,13 +1,73 @@
 """What the app does before its first screen is drawn, and what it leaves for later.
 
 What loads before the first screen: neither the heavy modules (numpy, scipy, pint) nor the
-core's model and the solve's modules, which the worker loads after it."""
+core's model and the solve's modules, which the worker loads after it.
+
+The garbage collector rests while the app loads and while its first screen is built (a
+shorter start: tests/perf/bench_startup.py), and is always back on afterwards: once the first
+screen is drawn, when the app closes before that, and after a plain import of the app's module
+(a test or a tool may import it without running it). A collector left off would let the
+memory of a long session grow without bound."""
 
 from __future__ import annotations
 
+import gc
 import os
 import subprocess
 import sys
+
+from branchwise.tui.app import BranchwiseApp
+
+
+def test_importing_the_app_leaves_the_collector_on():
+    # A fresh interpreter, so that the module really loads here.
+    code = "import gc; import branchwise.tui.app; print(gc.isenabled(), gc.get_freeze_count() > 0)"
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         timeout=120, check=True).stdout.split()
+    assert out == ["True", "True"]
+
+
+def test_the_collector_rests_while_the_first_screen_is_built_and_is_back_once_drawn(
+        ui, monkeypatch):
+    seen: list[bool] = []
+    real = BranchwiseApp._first_screen
+
+    def spy(self):
+        screen = real(self)
+        seen.append(gc.isenabled())
+        return screen
+
+    monkeypatch.setattr(BranchwiseApp, "_first_screen", spy)
+    assert gc.isenabled()
+
+    async def scenario() -> None:
+        async with ui.started() as (app, pilot):
+            await ui.settle(pilot)
+            assert app.startup_seconds is not None  # the first screen was drawn
+            assert gc.isenabled()
+
+    ui.run(scenario)
+    assert seen == [False]
+    assert gc.isenabled()
+
+
+def test_an_app_closed_before_its_first_screen_is_drawn_turns_the_collector_back_on(
+        ui, monkeypatch):
+    # _first_paint never runs: the app is closed while the collector still rests.
+    monkeypatch.setattr(BranchwiseApp, "_first_paint", lambda self: None)
+
+    async def scenario() -> None:
+        app = BranchwiseApp()
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.pause()
+            assert app.startup_seconds is None and not gc.isenabled()
+
+    try:
+        ui.run(scenario)
+        assert gc.isenabled()
+    finally:
+        gc.enable()  # whatever happened, the rest of the suite runs with the collector on
+
 
 FIRST_SCREEN_MODULES = r"""
 import os, sys
