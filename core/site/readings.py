@@ -16,7 +16,6 @@ from typing import TYPE_CHECKING
 
 from ..errors import InputError, describe
 from ..givens import GIVENS, HEADER_READINGS
-from ..units import parse_quantity
 from .spec import Site, Value
 
 if TYPE_CHECKING:  # the solve's own modules load with numpy, after the app's first screen
@@ -127,6 +126,7 @@ def compare(site: Site, result: Result, band: UncertaintyResult | None = None
     when that reading is made the given one.
     """
     from ..numerics.uncertainty import PRESSURE_DROP, TOTAL_FLOW, branch_flow
+    from ..units import parse_quantity
 
     first, others = chosen(site)
     if isinstance(site.conditions.given, str) and site.conditions.given.strip().casefold() == \

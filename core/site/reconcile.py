@@ -13,7 +13,6 @@ from typing import TYPE_CHECKING
 
 from ..errors import InputError, describe
 from ..givens import GIVENS
-from ..units import parse_quantity
 from .readings import readings
 from .spec import Site
 
@@ -54,6 +53,7 @@ def reconcile_site(site: Site, built: Built | None = None,
     """
     from ..numerics.reconcile import Observation, instrument_sigma, reconcile
     from ..numerics.tolerances import Tolerances
+    from ..units import parse_quantity
     from .build import build
     from .tolerances import site_thermal
 

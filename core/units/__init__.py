@@ -6,6 +6,8 @@ of :mod:`.grammar`); writing values and messages for people (:mod:`.display`). p
 only when a unit is first read or written, never by a solver.
 """
 
+from typing import TYPE_CHECKING, Any
+
 from .display import (
     Units,
     display_unit,
@@ -22,8 +24,21 @@ from .display import (
     units_for,
 )
 from .kinds import KINDS, SYSTEMS, Kind, spec_of
-from .parse import check_unit, parse_quantity
 from .registry import WATER_COLUMN_DENSITY, registry
+
+if TYPE_CHECKING:
+    from .parse import check_unit, parse_quantity
+
+
+def __getattr__(name: str) -> Any:
+    """The reader of typed values (:mod:`.parse`, with the number and unit grammars) loads when
+    first asked for: the app's first screen shows text as typed and needs none of it."""
+    if name in ("check_unit", "parse_quantity"):
+        from . import parse
+
+        return getattr(parse, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 __all__ = [
     "Units",

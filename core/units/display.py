@@ -14,10 +14,7 @@ from functools import cache
 from typing import Any
 
 from ..errors import InputError, one_line
-from .aliases import resolve
-from .grammar import unit_expression
 from .kinds import KINDS, SYSTEMS, spec_of
-from .parse import wrong_dimension
 from .registry import registry
 
 # ---- writing ---------------------------------------------------------------------------------
@@ -25,6 +22,10 @@ from .registry import registry
 @cache
 def _affine(unit: str, kind: str) -> tuple[float, float]:
     """(scale, offset) such that value_in_unit = scale · value_si + offset."""
+    from .aliases import resolve  # the unit grammar loads with pint, after the first screen
+    from .grammar import unit_expression
+    from .parse import wrong_dimension
+
     spec = spec_of(kind)
     ureg = registry()
     expression = unit_expression(ureg, resolve(unit, kind), "unit", unit)

@@ -1,7 +1,8 @@
 """What the app does before its first screen is drawn, and what it leaves for later.
 
 What loads before the first screen: neither the heavy modules (numpy, scipy, pint) nor the
-core's model and the solve's modules, which the worker loads after it.
+core's model, the solve's modules and the reader of typed values, which the worker loads after
+it (the first screen shows each field's text as typed).
 
 The garbage collector rests while the app loads and while its first screen is built (a
 shorter start: tests/perf/bench_startup.py), and is always back on afterwards: once the first
@@ -89,5 +90,6 @@ def test_the_first_screen_is_drawn_before_the_model_and_the_solver_load(tmp_path
     loaded = set(out.stdout.split())
     assert "branchwise.tui.screens.split.screen" in loaded, out.stderr[-2000:]
     later = {"numpy", "scipy", "pint", "branchwise.core.model", "branchwise.core.numerics",
-             "branchwise.core.site.build", "branchwise.tui.state.outcome"}
+             "branchwise.core.site.build", "branchwise.tui.state.outcome",
+             "branchwise.core.units.parse", "branchwise.core.units.grammar"}
     assert not later & loaded
