@@ -91,5 +91,6 @@ def test_the_first_screen_is_drawn_before_the_model_and_the_solver_load(tmp_path
     assert "branchwise.tui.screens.split.screen" in loaded, out.stderr[-2000:]
     later = {"numpy", "scipy", "pint", "branchwise.core.model", "branchwise.core.numerics",
              "branchwise.core.site.build", "branchwise.tui.state.outcome",
-             "branchwise.core.units.parse", "branchwise.core.units.grammar"}
+             "branchwise.core.units.parse", "branchwise.core.units.grammar",
+             "branchwise.core.site.fields"}
     assert not later & loaded

@@ -21,7 +21,6 @@ from typing import TypeVar, cast
 
 from branchwise.core.finds import FINDS
 from branchwise.core.site.spec import BranchSpec, SegmentSpec, Site, SolveSpec
-from branchwise.core.site.visits import rename_in_visits
 
 from .values import make_inert, text_of, unique_name
 
@@ -65,6 +64,8 @@ def rename_branch(site: Site, index: int, new: str) -> None:
     given = site.conditions.given
     if isinstance(given, str) and given.strip() == old and old:
         site.conditions.given = new.strip()
+    from branchwise.core.site.visits import rename_in_visits  # on a rename only
+
     rename_in_visits(site, old, new)
 
 

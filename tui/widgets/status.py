@@ -13,8 +13,6 @@ from rich.text import Text
 from textual.timer import Timer
 from textual.widgets import Static
 
-from branchwise.core.site.fields import FieldPath
-
 from ..state.givens import ALL_WORDS, given_of, given_text, given_words, weighs_all
 from ..state.marks import error_mark
 from ..state.session import find_of
@@ -137,6 +135,8 @@ def _state(app: Workspace, on_split: bool) -> tuple[Text, Text]:
     if outcome is None:  # (a later answer replaces this line; no flicker while typing)
         line.append("… solving", style="italic dim")
     elif outcome.error is not None:
+        from branchwise.core.site.fields import FieldPath  # loaded with the first answer
+
         mark = error_mark(outcome.error, app.site)
         line.append(f"{mark} {app.error_words(outcome.error)}",
                     style=colour(app, "text-warning") if mark == "○"

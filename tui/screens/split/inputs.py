@@ -20,7 +20,6 @@ from textual.widgets import Input, Label, Static
 
 from branchwise.core.finds import FINDS
 from branchwise.core.givens import GIVENS
-from branchwise.core.site.fields import FieldPath
 from branchwise.core.site.reconcile import ALL
 from branchwise.core.site.spec import Site
 
@@ -142,6 +141,8 @@ class GivenFindRows(Vertical):
         outcome = self.bw.outcome
         given_msg = find_msg = ""
         if outcome is not None and outcome.error is not None:
+            from branchwise.core.site.fields import FieldPath  # loaded with the first answer
+
             path = FieldPath.parse(outcome.field)
             text = self.bw.error_words(outcome.error)
             if path.area == "conditions" or path.name == "measured_flow":
