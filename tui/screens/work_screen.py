@@ -11,10 +11,10 @@ from textual.app import ComposeResult
 from textual.message import Message
 from textual.screen import Screen
 from textual.widget import Widget
-from textual.widgets import Header
 
 from ..widgets.caution_line import CautionLine
 from ..widgets.status import StatusStrip
+from ..widgets.title_bar import TitleBar
 from ..workspace import workspace
 
 if TYPE_CHECKING:
@@ -34,7 +34,7 @@ class WorkScreen(Screen):
         return workspace(self.app)
 
     def compose(self) -> ComposeResult:
-        yield Header(icon="≡")
+        yield TitleBar()
         yield StatusStrip()
         yield from self.body()
         # The cautions on every screen, and the keys the footer has no room for.
