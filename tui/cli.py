@@ -315,12 +315,14 @@ STDERR_LINES = 40
 
 
 def _csv_cautions(solved: SiteResult, units: str) -> None:
-    """What was assumed, the warnings and the cautions of a CSV's answer, on standard error."""
+    """What was assumed, the warnings, the notes and the cautions of a CSV's answer, on
+    standard error."""
     from branchwise.core.errors import inert
-    from branchwise.core.report.lines import CAUTIONS, assumed_lines, warning_lines
+    from branchwise.core.report.lines import CAUTIONS, assumed_lines, notes_of, warning_lines
 
     for word, lines in (("assumed", assumed_lines(solved, units)),
-                        ("warning", warning_lines(solved, units))):
+                        ("warning", warning_lines(solved, units)),
+                        ("note", notes_of(solved, units))):
         for line in lines[:STDERR_LINES]:
             print(f"branchwise: {word}: {inert(line)}", file=sys.stderr)
         if len(lines) > STDERR_LINES:  # a site of thousands of branches: not a line each

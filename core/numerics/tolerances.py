@@ -105,6 +105,10 @@ class Thermal:
 
     dln_nu_dt: float
     dln_rho_dt: float
+    span_k: tuple[float, float] | None = None
+    """The temperatures drawn, K from the operating point (low, high), where the tolerance
+    reaches past what the liquid can be (frozen, boiling) and is cut there; None: ± the
+    tolerance."""
 
     @classmethod
     def from_fluid_at(

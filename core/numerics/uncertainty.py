@@ -25,6 +25,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..errors import InputError
+from ..messages import render
 from ..model import (
     Find,
     FindFlows,
@@ -62,9 +63,10 @@ about 1e-13 relative, so the differences carry about 1e-9 relative round-off."""
 @dataclass(frozen=True)
 class InputTolerance:
     """One drawn input. half_width: Pa (gauge), relative (meter, target, diameter, length,
-    fitting K, valve Kv), K (temperature) or ln ε (roughness, drawn log-uniform about ``centre``,
-    the ln of a factor, or of ε in m when ``explicit``). segments: the layout's segment indices
-    it moves (for a valve Kv: the branch's index)."""
+    fitting K, valve Kv), K (temperature, about ``centre`` K from the operating point: not 0
+    where the tolerance was cut at the liquid's freezing or boiling point) or ln ε (roughness,
+    drawn log-uniform about ``centre``, the ln of a factor, or of ε in m when ``explicit``).
+    segments: the layout's segment indices it moves (for a valve Kv: the branch's index)."""
 
     name: str
     kind: str
@@ -130,8 +132,9 @@ class SamplingPlan:
             elif inp.kind == "target":
                 target = target * (1 + inp.half_width * zc)
             elif inp.kind == "temperature" and self.thermal is not None:
-                nu = nu * np.exp(self.thermal.dln_nu_dt * inp.half_width * zc)
-                rho = rho * np.exp(self.thermal.dln_rho_dt * inp.half_width * zc)
+                dt = inp.centre + inp.half_width * zc  # K from the operating point
+                nu = nu * np.exp(self.thermal.dln_nu_dt * dt)
+                rho = rho * np.exp(self.thermal.dln_rho_dt * dt)
             elif inp.kind == "valve Kv":
                 valve[:, s] *= (1 + inp.half_width * zc)[:, None]
             elif inp.kind == "roughness":
@@ -200,6 +203,10 @@ def build_plan(
     if tol.temperature_k > 0 and thermal is None:
         notes.append("temperature tolerance not applied: no model of ν and ρ against "
                      "temperature was given")
+    elif thermal is not None and thermal.span_k is not None:  # cut where the liquid ends
+        low, high = thermal.span_k
+        inputs.append(InputTolerance("temperature", "temperature", (high - low) / 2,
+                                     centre=(high + low) / 2))
     elif thermal is not None:
         inputs.append(InputTolerance("temperature", "temperature", float(tol.temperature_k)))
     explicit = {network.index_of(k, path_of("roughness_m", k)): v
@@ -289,7 +296,8 @@ class UncertaintyResult:
         ranking = {name: [[inp, share] for inp, share in rows]
                    for name, rows in self.ranking.items()}
         return {"samples": self.samples, "seed": self.seed, "failed": self.failed,
-                "outputs": outputs, "ranking": ranking, "notes": list(self.notes)}
+                "outputs": outputs, "ranking": ranking,
+                "notes": [render(n) for n in self.notes]}  # quantities in SI
 
 
 RANKING_KEPT = 100

@@ -10,8 +10,8 @@ A branch's own figures (its flow, share, P5/P95 band and valve loss) are on its 
 row only, empty on its further segments, so the flow column sums to the total flow. Everything
 that is not a row of the table — the liquid, the given reading, the totals, a found unknown,
 the record, the bands of the totals, warnings, notes and cautions — is in the human-readable
-formats (table, Markdown, HTML) and in the JSON; the command line prints the cautions and the
-warnings on standard error when it writes CSV.
+formats (table, Markdown, HTML) and in the JSON; the command line prints what was assumed, the
+warnings, the notes and the cautions on standard error when it writes CSV.
 """
 
 from __future__ import annotations

@@ -25,11 +25,12 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Callable
 from dataclasses import fields, replace
 from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, describe
-from ..messages import pressure_text, render
+from ..messages import pressure_text, temperature_text
 from ..model import Fluid, Given, Network, PressureDrop
 from ..numerics.tolerances import Thermal, Tolerances
 from ..units import parse_quantity
@@ -154,9 +155,12 @@ def site_thermal(
     so the ln-linear model meets the fluid model at the band's limits).
 
     Returns the tolerances (the temperature one set to zero where it cannot apply), the model
-    (None without one) and notes saying why a temperature tolerance was left out. A fluid
-    without a temperature (a custom one) ignores it with a note; a tolerance typed in the file
-    that takes the liquid outside its model (boiling, freezing) is an InputError.
+    (None without one) and notes saying why a temperature tolerance was left out or cut. A
+    fluid without a temperature (a custom one) ignores it with a note. A tolerance that reaches
+    past where the liquid freezes or boils is cut there, with a note: a liquid flowing in the
+    pipe lies on this side of those points, so the draws are uniform over the part of T ± the
+    tolerance where it is a liquid (the rectangular distribution given that it is one), and
+    the ln-linear model is the chord over that part.
     """
     from ..fluids import fluid_from_spec
     from .liquid import fluid_inputs
@@ -173,17 +177,53 @@ def site_thermal(
     def fluid_at(t_k: float) -> Fluid:
         return fluid_from_spec(kind, **(args | {"temperature_k": t_k}))
 
+    step = tol.temperature_k
     try:
-        thermal = Thermal.from_fluid_at(fluid_at, centre, tol.temperature_k)
+        return tol, Thermal.from_fluid_at(fluid_at, centre, step), ()
     except InputError as exc:
-        typed = site.tolerances.temperature if site.tolerances is not None else None
-        reason = (f"takes the liquid outside its model ({exc.field}: {exc.marked_reason}, "
-                  f"got {exc.marked_value})")
-        if typed is not None:
-            raise InputError("tolerances.temperature", describe(typed), reason) from None
-        return replace(tol, temperature_k=0.0), None, (
-            f"temperature tolerance not applied: ± {tol.temperature_k:g} K {render(reason)}",)
-    return tol, thermal, ()
+        beyond = exc  # T ± the tolerance reaches where the liquid freezes or boils
+    low, high = _liquid_span(fluid_at, centre, step)
+    if high - low < 2 * SPAN_RESOLUTION_K:  # nothing left to draw (the operating point is at
+        return replace(tol, temperature_k=0.0), None, (  # the edge on both sides)
+            f"temperature tolerance not applied: ± {step:g} K takes the liquid outside its "
+            f"model ({beyond.field}: {beyond.marked_reason})",)
+    mid, half = (low + high) / 2, (high - low) / 2
+    thermal = Thermal.from_fluid_at(fluid_at, mid, half)
+    thermal = replace(thermal, span_k=(low - centre, high - centre))
+    return tol, thermal, (
+        f"temperature tolerance ± {step:g} K drawn over {temperature_text(low)} – "
+        f"{temperature_text(high)} only: the liquid in the pipe cannot be beyond "
+        f"({beyond.field}: {beyond.marked_reason})",)
+
+
+SPAN_RESOLUTION_K = 1e-3
+"""How closely the end of the liquid's range is found (K)."""
+
+
+def _liquid_span(fluid_at: Callable[[float], Fluid], centre: float,
+                 step: float) -> tuple[float, float]:
+    """The part of ``centre`` ± ``step`` (K) where ``fluid_at`` gives a liquid: each end that
+    fails is moved in by bisection, to within :data:`SPAN_RESOLUTION_K`, to the last
+    temperature that holds (``centre`` holds: the site's own fluid was built there)."""
+
+    def holds(t_k: float) -> bool:
+        try:
+            fluid_at(t_k)
+        except InputError:
+            return False
+        return True
+
+    ends = []
+    for far in (centre - step, centre + step):
+        good, bad = centre, far
+        if holds(far):
+            good = far
+        else:
+            while abs(bad - good) > SPAN_RESOLUTION_K:
+                mid = (good + bad) / 2
+                good, bad = (mid, bad) if holds(mid) else (good, mid)
+        ends.append(good)
+    return ends[0], ends[1]
 
 
 __all__ = ["build_tolerances", "percent", "site_thermal",

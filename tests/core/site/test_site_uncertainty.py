@@ -20,6 +20,7 @@ import tomllib
 import pytest
 
 from branchwise.core.errors import InputError
+from branchwise.core.messages import render
 from branchwise.core.numerics.uncertainty import Tolerances
 from branchwise.core.site.build import build
 from branchwise.core.site.read import DEMO_PATH, demo_text, load_site, parse_site
@@ -232,16 +233,61 @@ def test_temperature_band_comes_from_the_site_water_model_and_matches_iapws():
     assert res.ranking["total flow"][0][0] == "temperature"
 
 
-def test_a_temperature_tolerance_that_boils_the_water():
-    hot = 'kind = "water"\ntemperature = "99 degC"'  # boils at 99.97 °C at 1 atm (IAPWS-IF97)
-    typed = parse_site(one_pipe('\n[tolerances]\ntemperature = "2 K"\n', fluid=hot))
-    with pytest.raises(InputError) as err:
-        uncertainty_for_site(typed, samples=100)
-    assert err.value.field == "tolerances.temperature"
-    # the same 2 K as an unwritten default: left out with a note instead of an error
-    res = uncertainty_for_site(parse_site(one_pipe("", fluid=hot)), samples=100)
-    assert any("temperature tolerance not applied" in n for n in res.notes)
-    assert not any(i.kind == "temperature" for i in res.inputs)
+def _laminar_water(temperature: str, tolerance: str | None) -> str:
+    """One laminar pipe of water at ``temperature``; every spread but the temperature's off (a
+    ``tolerance`` of None leaves the common-practice default, unwritten)."""
+    written = f'temperature = "{tolerance}"\n' if tolerance is not None else ""
+    return one_pipe(NO_OTHER_SPREAD + 'gauge_accuracy = "0 %"\n' + written,
+                    fluid=f'kind = "water"\ntemperature = "{temperature}"',
+                    dp="1 kPa", friction="laminar", d="4 mm", length="2 m", eps="0 mm")
+
+
+@pytest.mark.parametrize("written", [True, False], ids=["typed", "default"])
+def test_a_temperature_tolerance_past_boiling_is_cut_at_the_boiling_point(written):
+    # Water at 99 °C ± 2 K at 1 atm: the liquid in the pipe is below its boiling point, so the
+    # temperature is drawn uniformly from 97 °C to the boiling point (the rectangular
+    # distribution, given that the water is liquid), typed or not. Laminar, Δp fixed: Q ∝ 1/μ,
+    # rising with T, so the P5 and P95 of Q sit at 5 % and 95 % of that range. References:
+    # the boiling point from iapws (IAPWS-IF97 saturation temperature at 101.325 kPa), μ from
+    # iapws (IAPWS 2008); the chord's curvature error over 3 K and the quantiles' sampling
+    # error are each below 2e-3.
+    iapws = pytest.importorskip("iapws")
+    t_boil = iapws.iapws97._TSat_P(0.101325)
+
+    def mu(t_k: float) -> float:
+        return iapws.IAPWS95(T=t_k, P=0.101325).mu
+
+    site = parse_site(_laminar_water("99 degC", "2 K" if written else None))
+    res = uncertainty_for_site(site, samples=4000, seed=5)
+    low, high = 372.15 - 2.0, t_boil
+    (temperature,) = [i for i in res.inputs if i.kind == "temperature"]
+    t0 = 372.15
+    assert t0 + temperature.centre - temperature.half_width == pytest.approx(low, abs=1e-9)
+    assert t0 + temperature.centre + temperature.half_width == pytest.approx(high, abs=2e-3)
+    q = res.outputs["total flow"]
+    for quantile, share in ((q.p5, 0.05), (q.p95, 0.95)):
+        assert quantile / q.nominal == pytest.approx(mu(t0) / mu(low + share * (high - low)),
+                                                     rel=2e-3)
+    (note,) = [render(n) for n in res.notes if "temperature tolerance" in n]
+    assert "97 °C – 99.97 °C only" in note and "boils at 99.97 °C" in note
+
+
+def test_a_temperature_tolerance_below_freezing_is_cut_at_the_freezing_point():
+    # Water at 1 °C ± 3 K: drawn from 0 °C (water freezes there at atmospheric pressure) to
+    # 4 °C. μ from iapws (IAPWS 2008); laminar, Q ∝ 1/μ; P5 of Q at 0.2 °C, P95 at 3.8 °C.
+    iapws = pytest.importorskip("iapws")
+
+    def mu(t_k: float) -> float:
+        return iapws.IAPWS95(T=t_k, P=0.101325).mu
+
+    res = uncertainty_for_site(parse_site(_laminar_water("1 degC", "3 K")), samples=4000,
+                               seed=5)
+    q, t0, low, high = res.outputs["total flow"], 274.15, 273.15, 277.15
+    for quantile, share in ((q.p5, 0.05), (q.p95, 0.95)):
+        assert quantile / q.nominal == pytest.approx(mu(t0) / mu(low + share * (high - low)),
+                                                     rel=2e-3)
+    (note,) = [render(n) for n in res.notes if "temperature tolerance" in n]
+    assert "0 °C – 4 °C only" in note and "freezes" in note
 
 
 def test_site_bands_are_ordered_seeded_and_hold_the_solve(capsys):
