@@ -126,12 +126,15 @@ class Trend:
         for c in changes:
             if not c.flagged:
                 continue
-            span = (f"since {c.since}" if self.latest else
+            same_day = str(c.since) == str(self.last.date)  # two visits of one date
+            between = (f"between two visits on {c.since}" if same_day else
+                       f"between {c.since} and {self.last.date}")
+            span = (between if same_day else f"since {c.since}" if self.latest else
                     f"from {c.since} to {self.last.date}")
             if c.reversed:
                 cause = f": {REVERSED_CAUSE}" if self.indicator == "flow" else ""
-                out.append(f"{self.branch}: {REVERSED[self.indicator]} between {c.since} and "
-                           f"{self.last.date}, so no change is given as a percentage{cause}")
+                out.append(f"{self.branch}: {REVERSED[self.indicator]} {between}, so no "
+                           f"change is given as a percentage{cause}")
                 continue
             cause = (SOLVED_CAUSE if self.basis == "solved" else
                      CAUSES[(self.indicator, 1 if c.value > 0 else -1)])

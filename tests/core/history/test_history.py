@@ -7,6 +7,7 @@ instruments' stated distributions."""
 from __future__ import annotations
 
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -239,3 +240,17 @@ def test_a_trend_of_solved_flows_never_sets_a_clamp_on_against_a_solve():
                                                         rel=1e-9)
     assert first.branches[0].flow.value == pytest.approx(17.2e-3)  # the visit shows the read
     assert not [t for t in history.trends if t.indicator == "resistance"]
+
+
+def test_two_visits_of_one_date_are_said_so_not_from_a_day_to_itself():
+    # The demo's middle visit moved to the first one's date: the change is between two visits
+    # of that day (taken in the file's order), not "from 2024-09-18 to 2024-09-18".
+    from branchwise.core.site.read import DEMO_PATH
+
+    text = Path(DEMO_PATH).read_text(encoding="utf-8")
+    assert text.count("2025-01-15") == 1
+    messages = history_of(parse_site(text.replace("2025-01-15", "2024-09-18"))).messages()
+    coil = [m for m in messages if m.startswith("AHU-3 coil: resistance +46 % ")]
+    assert coil and "between two visits on 2024-09-18 (band ± " in coil[0], messages
+    assert not any("from 2024-09-18 to 2024-09-18" in m or
+                   "between 2024-09-18 and 2024-09-18" in m for m in messages)
