@@ -265,7 +265,7 @@ class SiteFiles:
         stem = Path(file_name_for(self.ws.site.title)).stem
         suffix = {"markdown": ".md", "html": ".html"}.get(fmt, ".csv")
         name = _free(folder / f"{stem}-{datetime.now():%Y%m%d-%H%M}{suffix}").name
-        solved, system = outcome.solved, self.ws.unit_system
+        solved = outcome.solved
         band = self.ws.latest_band
         with_band = (band is not None and band.solved is not None
                      and band.revision == self.ws.session.revision)
@@ -288,9 +288,9 @@ class SiteFiles:
             from branchwise.core.storage.atomic import atomic_write_text
 
             source = None if saved_at is None else str(saved_at)
-            text = (to_markdown(solved, system, source=source,
+            text = (to_markdown(solved, reader, source=source,
                                 unsaved=unsaved and saved_at is not None)
-                    if fmt == "markdown" else to_csv(solved, system))
+                    if fmt == "markdown" else to_csv(solved, reader))
             if fmt == "html":
                 from branchwise.core.report.html_report import to_html
 

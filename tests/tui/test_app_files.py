@@ -6,6 +6,8 @@ from __future__ import annotations
 import csv
 import io
 
+import pytest
+
 import branchwise.tui.state.outcome as outcome_module
 from branchwise.core.site.read import demo_site
 from branchwise.core.site.write import save_site
@@ -141,3 +143,31 @@ def test_branchwise_open_site_then_plain_branchwise_comes_back_to_it(ui, data_di
     ui.run(scenario)
     again = BranchwiseApp()  # as a plain `branchwise` starts it
     assert again.site.source == path and again.site.title == "Cooling tower loop"
+
+
+def test_exports_say_each_quantity_in_the_unit_the_person_chose(ui, data_dir):
+    # SI, with the flow chosen in m³/h: the CSV and the record give the flows in m³/h, as the
+    # screen and the HTML report do (1 L/s = 3.6 m³/h: the units' definitions).
+    site = demo_site()
+    site.name = "Pump room 3"
+    path = save_site(site, data_dir / "sites" / "pump-room-3.toml")
+
+    async def scenario() -> None:
+        async with ui.started(site=path) as (app, pilot):
+            app.settings.display_units = {"flow": "m³/h"}
+            app.unit_system = "si"
+            await ui.settle(pilot)
+            litres = float(app.outcome.solved.result.total_flow) * 1000
+            await pilot.press("c", "enter")
+            await pilot.pause()
+            rows = list(csv.reader(io.StringIO(
+                next(path.parent.glob("pump-room-3-*.csv")).read_text(encoding="utf-8"))))
+            flow = rows[0].index("Flow (m3/h)")  # ASCII units in a CSV header
+            total = sum(float(r[flow]) for r in rows[1:] if r[flow])
+            assert total == pytest.approx(litres * 3.6, rel=1e-9)
+            await pilot.press("r", "enter")
+            await pilot.pause()
+            record = next(path.parent.glob("pump-room-3-*.md")).read_text(encoding="utf-8")
+            assert "m³/h" in record and "L/s" not in record.split("## Cautions")[0]
+
+    ui.run(scenario)
