@@ -71,6 +71,9 @@ class SiteResult:
     """What was taken for granted or resolved from the site (:mod:`.assumptions`)."""
     reconciliation: Reconciliation | None = None
     """Every reading weighed against the others (:mod:`.reconcile`); None with fewer than two."""
+    unweighed: str = ""
+    """Why the readings could not be weighed against each other (a note, also in ``notes``,
+    its quantities marked); '' when they were, or when there are fewer than two."""
 
 
 def solve_site(site: Site, presets: PresetSource | None = None,
@@ -84,6 +87,7 @@ def solve_site(site: Site, presets: PresetSource | None = None,
     built = build(site, presets) if built is None else built
     notes = list(built.notes)
     names = [b.name for b in built.network.branches]
+    unweighed = ""
     if solves_from_all(site):  # the reconciled head fixes the solve
         try:
             rec = reconcile_site(site, built, presets)
@@ -98,7 +102,8 @@ def solve_site(site: Site, presets: PresetSource | None = None,
             rec = None
             from .fields import marked_error_text
 
-            notes.append(f"{UNWEIGHED}: {marked_error_text(exc, names)}")
+            unweighed = f"{UNWEIGHED}: {marked_error_text(exc, names)}"
+            notes.append(unweighed)
     try:
         result = solve(built.network, built.given, built.find)
     except BranchwiseError as exc:
@@ -122,7 +127,8 @@ def solve_site(site: Site, presets: PresetSource | None = None,
     if isinstance(find, FindUnknown) and find.quantity == "diameter" and result.solved:
         found = (built.network.index_of(find.branch), find.segment, result.solved.value)
     return SiteResult(site, built, result, pick, tuple(notes),
-                      assumptions=assumptions_of(site, built, found), reconciliation=rec)
+                      assumptions=assumptions_of(site, built, found), reconciliation=rec,
+                      unweighed=unweighed)
 
 
 def _fittings_at_found_bore(site: Site, built: Built, i: int, find: FindUnknown,

@@ -77,6 +77,8 @@ def test_a_reading_with_no_spread_is_named_and_does_not_stop_the_answer():
                                                 'given = "AHU-3 coil"')))
     assert beside.reconciliation is None
     assert any("not weighed" in n and "conditions.pressure_drop" in n for n in beside.notes)
+    assert beside.unweighed in beside.notes and "conditions.pressure_drop" in beside.unweighed
+    assert one_reading_is_weighed_by_nothing(text)
     with pytest.raises(InputError) as caught:
         solve_site(parse_site(text.replace('given = "pressure_drop"', 'given = "all"')))
     assert caught.value.field == "conditions.pressure_drop"
@@ -100,3 +102,11 @@ def test_the_band_of_all_readings_weighed_draws_the_weighing_not_the_gauge():
     names = [i.name for i in band.inputs]
     assert "readings weighed together" in names and "pressure gauge" not in names
     assert not any("disagree" in n for n in band.notes)
+
+
+def one_reading_is_weighed_by_nothing(text: str) -> bool:
+    """A site whose readings could be weighed (or that has one) says nothing unweighed."""
+    fine = solve_site(parse_site(text.replace('pressure_drop = "0 psid"',
+                                              'pressure_drop = "10 psid"')
+                                 .replace('given = "pressure_drop"', 'given = "AHU-3 coil"')))
+    return fine.unweighed == "" and solve_site(parse_site(demo_text())).unweighed == ""

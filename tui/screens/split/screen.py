@@ -130,15 +130,14 @@ class SplitScreen(WorkScreen):
 
     def action_weighed(self) -> None:
         from branchwise.core.report.weighed import TITLE, weighed_lines
-        from branchwise.core.site.solve import UNWEIGHED
 
         from ..warnings import WarningsScreen
 
         outcome = self.bw.outcome
         if outcome is None or outcome.solved is None:
             return
-        unweighed = [self.bw.units.restate(n) for n in outcome.solved.notes
-                     if n.startswith(UNWEIGHED)]
+        why = outcome.solved.unweighed
+        unweighed = [self.bw.units.restate(why)] if why else []
         lines = weighed_lines(outcome.solved, self.bw.units) or unweighed or [
             "No readings to weigh: give the pressure drop, the total flow or a branch's reading."]
         self.app.push_screen(WarningsScreen(
