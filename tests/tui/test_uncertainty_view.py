@@ -330,3 +330,25 @@ def test_a_band_of_another_site_is_not_shown_after_opening_a_line_list(ui, tmp_p
             assert app.latest_band is None
 
     ui.run(scenario)
+
+
+def test_a_band_cut_at_freezing_says_so_in_full_at_80_columns(ui, tmp_path):
+    # Water at 0.5 °C with the demo's ± 2 K: the band is drawn over 0 °C – 2.5 °C
+    # (water freezes at 0 °C at atmospheric pressure), and its note is wrapped to the screen,
+    # its reason in sight without scrolling sideways.
+    path = tmp_path / "cold.toml"
+    path.write_text(demo_text().replace('temperature = "44 degF"', 'temperature = "0.5 degC"'),
+                    encoding="utf-8")
+
+    async def scenario() -> None:
+        async with ui.started(site=path, size=(80, 24)) as (app, pilot):
+            screen = app.screen
+            await pilot.press("b")
+            await until(pilot, lambda: screen.views.band_state() == "current")
+            body = str(screen.query_one("#band-body").content)
+            note = body[body.index("• temperature tolerance"):]
+            assert all(len(line) <= 76 for line in note.splitlines())
+            flat = " ".join(note.split())
+            assert "± 2 K drawn over 0 °C – 2.5 °C only" in flat and "freezes at 0 °C" in flat
+
+    ui.run(scenario)

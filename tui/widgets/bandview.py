@@ -10,6 +10,7 @@ if it were current.
 from __future__ import annotations
 
 import re
+import textwrap
 from typing import TYPE_CHECKING
 
 from rich.cells import cell_len
@@ -136,14 +137,17 @@ def _table(header: list[str], right: list[bool], rows: list[list[str]]) -> Text:
     return out
 
 
-def band_notes(app: Workspace, sr: SiteResult) -> Text:
-    """Where the tolerances come from, and the notes of the computation."""
+def band_notes(app: Workspace, sr: SiteResult, width: int = 0) -> Text:
+    """Where the tolerances come from, and the notes of the computation, each note wrapped to
+    ``width`` cells (0: one line each) so that its reason is in sight without scrolling."""
     u = sr.uncertainty
     source = ("the site's [tolerances], common practice where it is silent"
               if sr.site.tolerances is not None else "common-practice defaults")
     out = Text(f"\n\nTolerances: {source}  (l: see and change them)", style="dim")
     for note in u.notes if u is not None else ():
-        out.append(f"\n• {app.say(note)}", style=colour(app, "text-warning"))
+        said = app.say(note)
+        lines = textwrap.wrap(said, width - 2, break_on_hyphens=False) if width > 20 else [said]
+        out.append("\n• " + "\n  ".join(lines), style=colour(app, "text-warning"))
     return out
 
 

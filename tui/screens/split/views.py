@@ -441,7 +441,9 @@ class ResultViews(Vertical):
         body = Text()
         if band is not None and band.solved is not None:
             wide = self.app.size.width >= WIDE
-            body = band_body(app, band.solved, wide) + band_notes(app, band.solved)
+            # the screen's width, less the view's padding and a scroll bar
+            notes = band_notes(app, band.solved, max(self.app.size.width - 4, 0))
+            body = band_body(app, band.solved, wide) + notes
         view = self._view("band")
         assert isinstance(view, BandView)
         view.show(head, body, stale=state != "current")
