@@ -40,8 +40,8 @@ from ..model import Find, FindFlows, FindUnknown, Given, Network, PressureDrop, 
 from ..numerics.copies import CopiesSolution, solve_copies
 from ..numerics.draws import chunk_rows, chunks
 from ..numerics.hydraulics import Array, Layout
+from ..numerics.sampling import SQRT3, STEP, InputTolerance, build_plan
 from ..numerics.tolerances import Thermal, Tolerances
-from ..numerics.uncertainty import SQRT3, STEP, InputTolerance, build_plan
 from ..site.readings import readings
 from ..site.solve import SiteResult, solve_site
 from ..site.spec import Site

@@ -18,7 +18,7 @@ import numpy.typing as npt
 
 from .draws import WORK_BYTES, chunks
 from .hydraulics import Array, Layout, flows_at_head, subset
-from .uncertainty import InputTolerance, SamplingPlan
+from .sampling import InputTolerance, SamplingPlan
 
 IntArray = npt.NDArray[np.intp]
 

@@ -38,11 +38,11 @@ from ..model import FindFlows, Network, PressureDrop
 from .hydraulics import Array, Layout, flows_at_head, head_and_slope, head_for_total_flow
 from .nudges import Nudges, nudges
 from .reconcile_optimum import least_head
+from .sampling import SQRT3, build_plan
 from .small import SMALL_BRANCHES
 from .small.branch import Fallback
 from .small.heads import flows_at, head_for_total, pipes_of
 from .tolerances import Thermal, Tolerances
-from .uncertainty import SQRT3, build_plan
 
 ALPHA = 0.05
 """The test's significance: readings are consistent when p ≥ 5 % (common practice)."""

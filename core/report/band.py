@@ -19,7 +19,8 @@ from ..site.solve import SiteResult
 from ..units import Units, format_number, units_for
 
 if TYPE_CHECKING:
-    from ..numerics.uncertainty import InputTolerance, OutputBand, UncertaintyResult
+    from ..numerics.sampling import InputTolerance
+    from ..numerics.uncertainty import OutputBand, UncertaintyResult
 
 BAR_WIDTH = 20
 LINE_WIDTH = 80

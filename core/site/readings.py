@@ -125,7 +125,7 @@ def compare(site: Site, result: Result, band: UncertaintyResult | None = None
     A reading that cannot be read (a bad unit) is left out: the site's own check reports it
     when that reading is made the given one.
     """
-    from ..numerics.uncertainty import PRESSURE_DROP, TOTAL_FLOW, branch_flow
+    from ..numerics.sampling import PRESSURE_DROP, TOTAL_FLOW, branch_flow
     from ..units import parse_quantity
 
     first, others = chosen(site)

@@ -27,8 +27,9 @@ from branchwise.core.model import (
     Segment,
     TotalFlow,
 )
+from branchwise.core.numerics.sampling import build_plan
 from branchwise.core.numerics.solve import solve
-from branchwise.core.numerics.uncertainty import Thermal, Tolerances, build_plan, monte_carlo
+from branchwise.core.numerics.uncertainty import Thermal, Tolerances, monte_carlo
 
 SAMPLES = 10_000
 LOOP_SAMPLES = 300

@@ -30,8 +30,9 @@ from branchwise.core.model import (
     TotalFlow,
     branch,
 )
+from branchwise.core.numerics.sampling import build_plan
 from branchwise.core.numerics.solve import solve
-from branchwise.core.numerics.uncertainty import Thermal, Tolerances, build_plan, monte_carlo
+from branchwise.core.numerics.uncertainty import Thermal, Tolerances, monte_carlo
 
 G = 9.80665
 # ν and ρ slopes of water near 15 °C, of the right order (from memory; only used as a model)

@@ -16,7 +16,7 @@ from peak_memory import ON_LINUX, peak_kb
 
 import branchwise.core.numerics.draws as draws
 import branchwise.core.numerics.uncertainty as uncertainty
-from branchwise.core.numerics.uncertainty import SQRT3, STEP
+from branchwise.core.numerics.sampling import SQRT3, STEP
 from branchwise.core.site.read import demo_site
 from branchwise.core.site.solve import uncertainty_for_site
 from branchwise.core.site.spec import SolveSpec
