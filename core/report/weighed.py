@@ -5,7 +5,7 @@ table, the Markdown and HTML reports and the app."""
 from __future__ import annotations
 
 from ..givens import GIVENS
-from ..numerics.reconcile import ReadingFit
+from ..numerics.reconcile_result import ReadingFit
 from ..site.readings import readings
 from ..site.solve import SiteResult
 from ..units import Units, units_for

@@ -17,7 +17,7 @@ from .readings import readings
 from .spec import Site
 
 if TYPE_CHECKING:
-    from ..numerics.reconcile import Reconciliation
+    from ..numerics.reconcile_result import Reconciliation
     from ..storage.presets import PresetSource
     from .build import Built
 
@@ -51,7 +51,8 @@ def reconcile_site(site: Site, built: Built | None = None,
     built: the site already built (saves a build). A reading that cannot be read is an
     InputError naming its field.
     """
-    from ..numerics.reconcile import Observation, instrument_sigma, reconcile
+    from ..numerics.reconcile import instrument_sigma, reconcile
+    from ..numerics.reconcile_result import Observation
     from ..numerics.tolerances import Tolerances
     from ..units import parse_quantity
     from .build import build

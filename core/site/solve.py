@@ -29,7 +29,7 @@ from .values import plain_number
 
 if TYPE_CHECKING:
     from ..numerics.draws import Progress
-    from ..numerics.reconcile import Reconciliation
+    from ..numerics.reconcile_result import Reconciliation
     from ..numerics.uncertainty import Tolerances, UncertaintyResult
     from ..storage.presets import PresetSource
 

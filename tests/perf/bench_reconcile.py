@@ -30,7 +30,8 @@ from baseline import (  # noqa: E402
 from bench_solve import DP, make_network  # noqa: E402
 
 from branchwise.core.model import PressureDrop  # noqa: E402
-from branchwise.core.numerics.reconcile import Observation, reconcile  # noqa: E402
+from branchwise.core.numerics.reconcile import reconcile  # noqa: E402
+from branchwise.core.numerics.reconcile_result import Observation  # noqa: E402
 from branchwise.core.numerics.solve import solve  # noqa: E402
 
 

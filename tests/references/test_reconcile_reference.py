@@ -17,7 +17,8 @@ from scipy.optimize import least_squares
 from scipy.stats import chi2
 from test_parallel_reference import G, ref_flows
 
-from branchwise.core.numerics.reconcile import Observation, chi_square_p, reconcile
+from branchwise.core.numerics.reconcile import reconcile
+from branchwise.core.numerics.reconcile_result import Observation, chi_square_p
 from branchwise.core.numerics.tolerances import Tolerances
 
 TOL = Tolerances(gauge_percent=1.0, gauge_full_scale=100e3, flow_meter_percent=3.0)

@@ -20,7 +20,8 @@ from networks import test_header
 
 from branchwise.core.model import FindFlows, PressureDrop
 from branchwise.core.numerics.hydraulics import Layout, flows_at_head
-from branchwise.core.numerics.reconcile import Observation, _Model, instrument_sigma, reconcile
+from branchwise.core.numerics.reconcile import _Model, instrument_sigma, reconcile
+from branchwise.core.numerics.reconcile_result import Observation
 from branchwise.core.numerics.tolerances import Tolerances
 
 DRAWS = 2000

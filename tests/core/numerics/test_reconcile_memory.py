@@ -13,7 +13,8 @@ from networks import test_header
 from peak_memory import ON_LINUX, peak_kb
 
 from branchwise.core.numerics import nudges as nudges_module
-from branchwise.core.numerics.reconcile import Observation, reconcile
+from branchwise.core.numerics.reconcile import reconcile
+from branchwise.core.numerics.reconcile_result import Observation
 from branchwise.core.numerics.tolerances import Tolerances
 
 
