@@ -2,7 +2,8 @@
 
 ``InputError`` is the one error for bad input: it names the field path (``branches[2].length``)
 and the value as the user gave it, so the command line can print one line and the app can
-show it beside the field. ``NoSolutionError`` says that the inputs are valid but the physics has
+show it beside the field (:class:`PhaseLimit`, one kind of it, says that a liquid would freeze or
+boil). ``NoSolutionError`` says that the inputs are valid but the physics has
 no answer, and states the limit that was hit.
 """
 
@@ -53,6 +54,20 @@ class InputError(BranchwiseError, ValueError):
         """The same error with ``prefix`` put in front of its field path."""
         field = f"{prefix}.{self.field}" if self.field else prefix
         return InputError(field, self.marked_value, self.marked_reason)
+
+
+class PhaseLimit(InputError):
+    """A liquid's temperature beyond where it is a liquid: frozen or boiling (not merely past
+    the range a property model covers). ``phase``: the change in words, its quantities marked,
+    such as "water freezes at 0 °C at atmospheric pressure"."""
+
+    def __init__(self, field: str, value: object, reason: str, phase: str) -> None:
+        super().__init__(field, value, reason)
+        self.phase = phase
+
+    def within(self, prefix: str) -> PhaseLimit:
+        field = f"{prefix}.{self.field}" if self.field else prefix
+        return PhaseLimit(field, self.marked_value, self.marked_reason, self.phase)
 
 
 def one_line(text: str) -> str:

@@ -33,7 +33,7 @@ from typing import Literal
 
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, PhaseLimit
 from ..messages import temperature_text
 from ..model import Fluid, finite
 from . import _spline
@@ -201,8 +201,8 @@ def glycol(kind: GlycolKind, temperature_k: float, fraction: float,
     t_freeze = table.freezing_k(x)
     mixture = f"{_TITLES[kind].lower()} at {percent(x)} % by {basis}"
     if t < t_freeze:
-        raise InputError("fluid.temperature", state(t),
-                         f"{mixture} freezes at {temperature_text(t_freeze)}")
+        phase = f"{mixture} freezes at {temperature_text(t_freeze)}"
+        raise PhaseLimit("fluid.temperature", state(t), phase, phase)
     if t < table.bottom_k:
         raise InputError(
             "fluid.temperature",

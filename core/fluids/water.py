@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import math
 
-from ..errors import InputError
+from ..errors import InputError, PhaseLimit
 from ..messages import pressure_text, temperature_text
 from ..model import Fluid, finite
 from ._format import at_pressure, celsius, state
@@ -164,13 +164,13 @@ def liquid_range_k(pressure_pa: float) -> tuple[float, float]:
 
 def boiling_error(temperature_k: float, top_k: float, pressure_pa: float, what: str) -> InputError:
     """The InputError for a temperature at or above ``top_k`` from :func:`liquid_range_k`."""
-    reason = (
-        f"{what} boils at {temperature_text(top_k)} at {pressure_text(pressure_pa)} "
-        "(IAPWS-IF97); only liquid is handled"
-        if top_k < REGION1_MAX_K
-        else f"must be below {temperature_text(top_k)} (the top of IAPWS-IF97 region 1)"
-    )
-    return InputError("fluid.temperature", state(temperature_k), reason)
+    if top_k >= REGION1_MAX_K:  # the model's range ends first (a pressure above boiling)
+        return InputError("fluid.temperature", state(temperature_k),
+                          f"must be below {temperature_text(top_k)} (the top of IAPWS-IF97 "
+                          "region 1)")
+    phase = f"{what} boils at {temperature_text(top_k)} at {pressure_text(pressure_pa)}"
+    return PhaseLimit("fluid.temperature", state(temperature_k),
+                      f"{phase} (IAPWS-IF97); only liquid is handled", phase)
 
 
 def check_liquid(temperature_k: float, pressure_pa: float) -> float:
@@ -178,11 +178,12 @@ def check_liquid(temperature_k: float, pressure_pa: float) -> float:
     low, high = liquid_range_k(pressure_pa)
     t = finite("fluid.temperature", temperature_k)
     if t < low:
-        raise InputError(
+        phase = f"water freezes at {temperature_text(low)} at atmospheric pressure"
+        raise PhaseLimit(
             "fluid.temperature",
             state(t),
-            f"must be at least {temperature_text(low)} (water freezes at "
-            f"{temperature_text(low)} at atmospheric pressure; IAPWS-IF97 starts there)",
+            f"must be at least {temperature_text(low)} ({phase}; IAPWS-IF97 starts there)",
+            phase,
         )
     if t >= high:
         raise boiling_error(t, high, pressure_pa, "water")

@@ -178,9 +178,10 @@ def _spread(network: Network, given: Given, find: Find, tol: Tolerances,
                        f"branch, and {nb:,} branches × {n:,} inputs are too many parts to keep "
                        f"(at most {MAX_SHARED_PARTS:,})")
     # z = 0 is the centre of every input's range; for a roughness that is the log-centre of
-    # its factor or range, not the line's own ε. Row 0 is the visit's value, so it takes the
-    # site's own roughness (every other input is at its own value at z = 0): the same
-    # network as the site's solve. The ± rows stay about the centre, as the linear estimate
+    # its factor or range, not the line's own ε (and for a cut temperature the middle of the
+    # range left). Row 0 is the visit's value, so it takes the site's own roughness and
+    # temperature (every other input is at its own value at z = 0): the same network as the
+    # site's solve. The ± rows stay about the centre, as the linear estimate
     # of the uncertainty module takes them.
     own = Layout.from_network(network).roughness
     size = chunk_rows(len(own), n)
@@ -190,6 +191,12 @@ def _spread(network: Network, given: Given, find: Find, tol: Tolerances,
         for r in range(start, stop):
             if r > 0:
                 z[r - start, (r - 1) % n] = STEP if r <= n else -STEP
+        if start == 0:
+            # a temperature cut where the liquid freezes or boils is drawn about the middle
+            # of what is left: row 0 at the site's own temperature all the same
+            for k, inp in enumerate(plan.inputs):
+                if inp.kind == "temperature" and inp.centre:
+                    z[0, k] = -inp.centre / inp.half_width
         variants = plan.variants(z)
         if start == 0:
             roughness = variants.roughness.copy()

@@ -123,14 +123,24 @@ def tolerance_text(inp: InputTolerance, reader: Units | str = "si") -> str:
     if inp.kind == "gauge":
         return f"± {show.quantity(a, 'pressure', 3)}"
     if inp.kind == "temperature":  # a difference: 1 K = 1.8 °F (exact, by the scales' definition)
-        return f"± {format_number(a * 1.8, 3)} °F" if show.system == "us" else (
-            f"± {format_number(a, 3)} K")
+        scale, unit = (1.8, "°F") if show.system == "us" else (1.0, "K")
+        if inp.centre:  # cut where the liquid freezes or boils: the range drawn, from nominal
+            low, high = (inp.centre - a) * scale, (inp.centre + a) * scale
+            return f"{_signed(low)} … {_signed(high)} {unit}"
+        return f"± {format_number(a * scale, 3)} {unit}"
     if inp.kind == "roughness":
         low, high = math.exp(inp.centre - a), math.exp(inp.centre + a)
         if inp.explicit:
             return f"{show.quantity(low, 'roughness')} … {show.quantity(high, 'roughness')}"
         return f"× {format_number(low, 3)} … {format_number(high, 3)}"
     return f"± {format_number(a * 100, 3)} %"
+
+
+def _signed(value: float) -> str:
+    """``+30.0``, ``−1.00``, ``0``: a difference from the nominal with its sign."""
+    if value == 0:
+        return "0"
+    return ("+" if value > 0 else "−") + format_number(abs(value), 3)
 
 
 def ranked(u: UncertaintyResult, output: str, top: int = TOP) -> tuple[list[tuple[str, float]],
@@ -195,7 +205,10 @@ def uncertainty_json(sr: SiteResult) -> dict[str, Any] | None:
     """The ``uncertainty`` object of the JSON report (SI): ``samples``, ``seed``, ``failed``,
     ``outputs`` {name: {unit, nominal, p5, p50, p95, mean, std, linear_sigma}}, ``ranking``
     {name: [[input, share], ...]}, ``notes``; and ``focus`` (the output the text ranks) and
-    ``inputs`` [{name, kind, distribution, half_width, unit, standard_uncertainty}]."""
+    ``inputs`` [{name, kind, distribution, half_width, centre, unit, standard_uncertainty}]:
+    each input is drawn over centre ± half_width, in its unit, the centre counted from the
+    site's own value (0 but for a roughness, drawn about the ln of its factor's or range's
+    middle, and a temperature tolerance cut where the liquid freezes or boils)."""
     u = sr.uncertainty
     if u is None:
         return None
@@ -204,7 +217,7 @@ def uncertainty_json(sr: SiteResult) -> dict[str, Any] | None:
     doc["focus"] = focus(sr)
     doc["inputs"] = [
         {"name": i.name, "kind": i.kind, "distribution": i.distribution,
-         "half_width": i.half_width,
+         "half_width": i.half_width, "centre": i.centre,
          "unit": ("ln(m)" if i.explicit else "ln(factor)") if i.kind == "roughness"
          else units.get(i.kind, "relative"),
          "standard_uncertainty": i.standard_uncertainty}

@@ -29,7 +29,7 @@ from collections.abc import Callable
 from dataclasses import fields, replace
 from typing import TYPE_CHECKING, Any
 
-from ..errors import InputError, describe
+from ..errors import InputError, PhaseLimit, describe
 from ..messages import pressure_text, temperature_text
 from ..model import Fluid, Given, Network, PressureDrop
 from ..numerics.tolerances import Thermal, Tolerances
@@ -157,10 +157,13 @@ def site_thermal(
     Returns the tolerances (the temperature one set to zero where it cannot apply), the model
     (None without one) and notes saying why a temperature tolerance was left out or cut. A
     fluid without a temperature (a custom one) ignores it with a note. A tolerance that reaches
-    past where the liquid freezes or boils is cut there, with a note: a liquid flowing in the
-    pipe lies on this side of those points, so the draws are uniform over the part of T ± the
-    tolerance where it is a liquid (the rectangular distribution given that it is one), and
-    the ln-linear model is the chord over that part.
+    past where the liquid freezes or boils (:class:`~branchwise.core.errors.PhaseLimit`) is cut
+    there, with a note: a liquid flowing in the pipe lies on this side of those points, so the
+    draws are uniform over the part of T ± the tolerance where it is a liquid (the rectangular
+    distribution given that it is one), and the ln-linear model takes the chord over that
+    part. One that reaches past the range a property model covers (the liquid is still liquid
+    there, but its properties are not known) is an InputError when typed, and left out with a
+    note when it is the common-practice default.
     """
     from ..fluids import fluid_from_spec
     from .liquid import fluid_inputs
@@ -180,50 +183,69 @@ def site_thermal(
     step = tol.temperature_k
     try:
         return tol, Thermal.from_fluid_at(fluid_at, centre, step), ()
-    except InputError as exc:
-        beyond = exc  # T ± the tolerance reaches where the liquid freezes or boils
-    low, high = _liquid_span(fluid_at, centre, step)
-    if high - low < 2 * SPAN_RESOLUTION_K:  # nothing left to draw (the operating point is at
-        return replace(tol, temperature_k=0.0), None, (  # the edge on both sides)
-            f"temperature tolerance not applied: ± {step:g} K takes the liquid outside its "
-            f"model ({beyond.field}: {beyond.marked_reason})",)
-    mid, half = (low + high) / 2, (high - low) / 2
-    thermal = Thermal.from_fluid_at(fluid_at, mid, half)
+    except InputError:
+        pass  # T ± the tolerance leaves the liquid's model: where, and why?
+    ends = [(far, error_at(fluid_at, far)) for far in (centre - step, centre + step)]
+    (low, below), (high, above) = [(far, None) if error is None else
+                                   _liquid_end(fluid_at, centre, far) for far, error in ends]
+    beyond = [e for e in (below, above) if e is not None]
+    if any(not isinstance(e, PhaseLimit) for e in beyond):
+        # the model's range ends, not the liquid: nothing to cut at (said as at the far end)
+        outside = next((e for _, e in ends if e is not None and not isinstance(e, PhaseLimit)),
+                       None) or next(e for e in beyond if not isinstance(e, PhaseLimit))
+        typed = site.tolerances.temperature if site.tolerances is not None else None
+        reason = (f"takes the liquid outside its model ({outside.field}: "
+                  f"{outside.marked_reason}, got {outside.marked_value})")
+        if typed is not None:
+            raise InputError("tolerances.temperature", describe(typed), reason)
+        return replace(tol, temperature_k=0.0), None, (
+            f"temperature tolerance not applied: ± {step:g} K {reason}",)
+    if high - low < MIN_SPAN_K:  # at the edge on both sides: nothing left to draw
+        return replace(tol, temperature_k=0.0), None, (
+            "temperature tolerance not applied: the liquid has no room either side of its "
+            "temperature ("
+            + "; ".join(e.phase for e in beyond if isinstance(e, PhaseLimit)) + ")",)
+    thermal = Thermal.from_fluid_at(fluid_at, (low + high) / 2, (high - low) / 2)
     thermal = replace(thermal, span_k=(low - centre, high - centre))
     return tol, thermal, (
-        f"temperature tolerance ± {step:g} K drawn over {temperature_text(low)} – "
-        f"{temperature_text(high)} only: the liquid in the pipe cannot be beyond "
-        f"({beyond.field}: {beyond.marked_reason})",)
+        f"temperature drawn over {temperature_text(low)} – {temperature_text(high)} only, "
+        "the part of its tolerance where the liquid can be ("
+        + "; ".join(e.phase for e in beyond if isinstance(e, PhaseLimit)) + ")",)
 
 
-SPAN_RESOLUTION_K = 1e-3
-"""How closely the end of the liquid's range is found (K)."""
+SPAN_RESOLUTION_K = 1e-6
+"""How closely the end of the liquid's range is found (K): well inside the 0.01 K the notes
+give a temperature to."""
+MIN_SPAN_K = 1e-3
+"""A range narrower than this (K) is no range to draw from."""
 
 
-def _liquid_span(fluid_at: Callable[[float], Fluid], centre: float,
-                 step: float) -> tuple[float, float]:
-    """The part of ``centre`` ± ``step`` (K) where ``fluid_at`` gives a liquid: each end that
-    fails is moved in by bisection, to within :data:`SPAN_RESOLUTION_K`, to the last
-    temperature that holds (``centre`` holds: the site's own fluid was built there)."""
+def error_at(fluid_at: Callable[[float], Fluid], t_k: float) -> InputError | None:
+    """Why ``fluid_at(t_k)`` gives no liquid (None: it gives one)."""
+    try:
+        fluid_at(t_k)
+    except InputError as exc:
+        return exc
+    return None
 
-    def holds(t_k: float) -> bool:
-        try:
-            fluid_at(t_k)
-        except InputError:
-            return False
-        return True
 
-    ends = []
-    for far in (centre - step, centre + step):
-        good, bad = centre, far
-        if holds(far):
-            good = far
+def _liquid_end(fluid_at: Callable[[float], Fluid], centre: float,
+                far: float) -> tuple[float, InputError]:
+    """The last temperature from ``centre`` towards ``far`` (K; ``far`` gives no liquid) at
+    which ``fluid_at`` gives one, found by bisection to within :data:`SPAN_RESOLUTION_K`, and
+    the error just beyond it (a :class:`PhaseLimit` where the liquid freezes or boils there).
+    ``centre`` holds: the site's own fluid was built there."""
+    good, bad = centre, far
+    error = error_at(fluid_at, far)
+    assert error is not None
+    while abs(bad - good) > SPAN_RESOLUTION_K:
+        mid = (good + bad) / 2
+        found = error_at(fluid_at, mid)
+        if found is None:
+            good = mid
         else:
-            while abs(bad - good) > SPAN_RESOLUTION_K:
-                mid = (good + bad) / 2
-                good, bad = (mid, bad) if holds(mid) else (good, mid)
-        ends.append(good)
-    return ends[0], ends[1]
+            bad, error = mid, found
+    return good, error
 
 
 __all__ = ["build_tolerances", "percent", "site_thermal",

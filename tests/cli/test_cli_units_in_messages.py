@@ -85,4 +85,4 @@ def test_no_marker_character_reaches_any_output(tmp_path, capsys, fmt, system):
     assert "\ue000" not in text and "\ue001" not in text
     # each site did produce its marked text: a velocity warning, a fluid limit, a no-solution
     flat = " ".join(text.split())  # a text table wraps its notes
-    assert "velocity" in flat and "only: the liquid in the pipe" in flat and "cannot pass" in flat
+    assert "velocity" in flat and "where the liquid can be" in flat and "cannot pass" in flat

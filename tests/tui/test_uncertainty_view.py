@@ -346,9 +346,9 @@ def test_a_band_cut_at_freezing_says_so_in_full_at_80_columns(ui, tmp_path):
             await pilot.press("b")
             await until(pilot, lambda: screen.views.band_state() == "current")
             body = str(screen.query_one("#band-body").content)
-            note = body[body.index("• temperature tolerance"):]
+            note = body[body.index("• temperature drawn"):]
             assert all(len(line) <= 76 for line in note.splitlines())
             flat = " ".join(note.split())
-            assert "± 2 K drawn over 0 °C – 2.5 °C only" in flat and "freezes at 0 °C" in flat
+            assert "temperature drawn over 0 °C – 2.5 °C only" in flat and "freezes at 0 °C" in flat
 
     ui.run(scenario)

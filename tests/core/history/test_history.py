@@ -7,6 +7,7 @@ instruments' stated distributions."""
 from __future__ import annotations
 
 import math
+import re
 from pathlib import Path
 
 import numpy as np
@@ -254,3 +255,20 @@ def test_two_visits_of_one_date_are_said_so_not_from_a_day_to_itself():
     assert coil and "between two visits on 2024-09-18 (band ± " in coil[0], messages
     assert not any("from 2024-09-18 to 2024-09-18" in m or
                    "between 2024-09-18 and 2024-09-18" in m for m in messages)
+
+
+def test_a_visit_s_values_are_at_its_own_temperature_when_the_tolerance_is_cut():
+    # The demo near freezing, ± 10 K: the band's temperature is drawn over 0 °C – 11 °C (cut
+    # where water freezes), about its middle; the visit's flows and resistances are still
+    # those of the solve at its own 1 °C, to round-off (they were worked out at 5.5 °C).
+    from branchwise.core.site.read import DEMO_PATH
+    from branchwise.core.site.solve import solve_site
+
+    text = (Path(DEMO_PATH).read_text(encoding="utf-8")
+            .replace('temperature = "2 K"', 'temperature = "10 K"'))
+    text = re.sub(r'temperature = "4[345] degF"', 'temperature = "1 degC"', text)
+    site = parse_site(text)
+    today = history_of(site).visits[-1]
+    flows = solve_site(site).result.flows
+    for branch, q in zip(today.solved.branches, flows, strict=True):
+        assert branch.flow.value == pytest.approx(float(q), rel=1e-12)

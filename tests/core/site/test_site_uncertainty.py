@@ -22,6 +22,7 @@ import pytest
 from branchwise.core.errors import InputError
 from branchwise.core.messages import render
 from branchwise.core.numerics.uncertainty import Tolerances
+from branchwise.core.report.band import tolerance_text
 from branchwise.core.site.build import build
 from branchwise.core.site.read import DEMO_PATH, demo_text, load_site, parse_site
 from branchwise.core.site.solve import solve_site, uncertainty_for_site
@@ -268,7 +269,7 @@ def test_a_temperature_tolerance_past_boiling_is_cut_at_the_boiling_point(writte
     for quantile, share in ((q.p5, 0.05), (q.p95, 0.95)):
         assert quantile / q.nominal == pytest.approx(mu(t0) / mu(low + share * (high - low)),
                                                      rel=2e-3)
-    (note,) = [render(n) for n in res.notes if "temperature tolerance" in n]
+    (note,) = [render(n) for n in res.notes if "temperature drawn" in n]
     assert "97 °C – 99.97 °C only" in note and "boils at 99.97 °C" in note
 
 
@@ -286,8 +287,49 @@ def test_a_temperature_tolerance_below_freezing_is_cut_at_the_freezing_point():
     for quantile, share in ((q.p5, 0.05), (q.p95, 0.95)):
         assert quantile / q.nominal == pytest.approx(mu(t0) / mu(low + share * (high - low)),
                                                      rel=2e-3)
-    (note,) = [render(n) for n in res.notes if "temperature tolerance" in n]
+    (note,) = [render(n) for n in res.notes if "temperature drawn" in n]
     assert "0 °C – 4 °C only" in note and "freezes" in note
+
+
+def test_a_tolerance_past_both_ends_is_cut_at_both_and_shown_as_drawn():
+    # Water at 50 °C ± 60 K at 1 atm: drawn from 0 °C (freezing) to the boiling point, both
+    # said; the ranking shows the range drawn from the nominal, not a ± it never drew, and the
+    # JSON gives the range's centre. Boiling point from iapws (IAPWS-IF97 at 101.325 kPa).
+    iapws = pytest.importorskip("iapws")
+    t_boil = iapws.iapws97._TSat_P(0.101325)
+    res = uncertainty_for_site(parse_site(_laminar_water("50 degC", "60 K")), samples=400,
+                               seed=2)
+    (note,) = [render(n) for n in res.notes if "temperature drawn" in n]
+    assert "0 °C – 99.97 °C only" in note
+    assert "freezes at 0 °C" in note and "boils at 99.97 °C" in note
+    (temperature,) = [i for i in res.inputs if i.kind == "temperature"]
+    t0 = 323.15
+    low = t0 + temperature.centre - temperature.half_width
+    high = t0 + temperature.centre + temperature.half_width
+    assert low == pytest.approx(273.15, abs=1e-5) and high == pytest.approx(t_boil, abs=1e-5)
+    assert tolerance_text(temperature) == "−50.0 … +50.0 K"  # −50 K … +49.97 K, 3 digits
+    assert tolerance_text(temperature, "us") == "−90.0 … +90.0 °F"  # 1 K = 1.8 °F, exact
+
+
+@pytest.mark.parametrize(("fluid", "limit"), [
+    ('kind = "ethylene_glycol"\nconcentration = "30 %"\ntemperature = "95 degC"',
+     "the tabulated range"),
+    ('kind = "seawater"\nsalinity = "35 g/kg"\ntemperature = "1 degC"', "Sharqawy"),
+])
+def test_a_tolerance_past_a_property_model_s_range_is_not_cut(fluid, limit):
+    # The glycol table ends at 100 °C and the seawater correlation at 0 °C, but the liquid
+    # goes on (a 30 % glycol boils above 100 °C and seawater freezes near −1.9 °C at 35 g/kg:
+    # both recalled from memory): no draw is cut there. Typed, the tolerance is refused,
+    # naming the model's limit; as the unwritten default it is left out, with a note.
+    typed = parse_site(one_pipe('\n[tolerances]\ntemperature = "10 K"\n', fluid=fluid))
+    with pytest.raises(InputError) as err:
+        uncertainty_for_site(typed, samples=100)
+    assert err.value.field == "tolerances.temperature" and limit in str(err.value)
+    near = fluid.replace('"95 degC"', '"99 degC"').replace('"1 degC"', '"0.5 degC"')
+    res = uncertainty_for_site(parse_site(one_pipe("", fluid=near)), samples=100)
+    assert not any(i.kind == "temperature" for i in res.inputs)
+    assert any("temperature tolerance not applied" in n and limit in render(n)
+               for n in res.notes)
 
 
 def test_site_bands_are_ordered_seeded_and_hold_the_solve(capsys):
