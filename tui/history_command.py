@@ -2,8 +2,8 @@
 branch's flow, resistance and effective roughness, and how they changed between visits.
 
 The site file is only read. ``-`` as SITE reads standard input, ``-o -`` writes standard
-output; with ``--format csv`` the flagged changes and the cautions go to standard error (the
-CSV holds the rows only), as ``branchwise solve`` does.
+output; with ``--format csv`` the flagged changes, each visit's notes and the cautions go to
+standard error (the CSV holds the rows only), as ``branchwise solve`` does.
 """
 
 from __future__ import annotations
@@ -26,8 +26,15 @@ def run_history(site: Site, units: str, fmt: str, output: Path | None, width: in
     history = history_of(site)
     text = inert_output(render_history(history, fmt, units, width), fmt)
     if fmt == "csv":  # the CSV is data only: what must not be lost goes to standard error
+        from branchwise.core.units import units_for
+
         for line in history.messages():
             print(f"branchwise: flagged: {inert_output(line, 'csv')}", file=err)
+        say = units_for(units).restate
+        for visit in history.visits:
+            for note in visit.solved.notes:
+                line = inert_output(f"{visit.label}: {say(note)}", "csv")
+                print(f"branchwise: note: {line}", file=err)
         for line in CAUTIONS:
             print(f"branchwise: caution: {line}", file=err)
     if output is None or str(output) == "-":

@@ -84,6 +84,20 @@ def test_csv_is_one_row_per_visit_and_branch_with_the_flags_on_standard_error(de
     assert captured.err.count("branchwise: caution: ") == len(CAUTIONS)
 
 
+def test_beside_a_csv_each_visit_s_notes_are_on_standard_error_in_the_reader_s_units(
+        demo, capsys):
+    # The demo near freezing with a ± 10 K tolerance: each visit's band is drawn from 0 °C
+    # (water freezes there), said per visit, in °F for a US reader (32 °F: the scale's zero).
+    cold = demo.read_text(encoding="utf-8").replace('temperature = "2 K"', 'temperature = "10 K"')
+    demo.write_text(re.sub(r'temperature = "4[345] degF"', 'temperature = "1 degC"', cold),
+                    encoding="utf-8")
+    assert main(["history", str(demo), "--format", "csv", "--units", "us"]) == 0
+    notes = [line for line in capsys.readouterr().err.splitlines()
+             if line.startswith("branchwise: note: ")]
+    assert [n.split(": ")[2] for n in notes] == ["2024-09-18", "2025-01-15", "2025-03-12"]
+    assert all("drawn over 32.00 °F – " in n and "freezes at 32.00 °F" in n for n in notes)
+
+
 @pytest.mark.parametrize("fmt", ["markdown", "html"])
 def test_markdown_and_html_carry_the_trends_and_the_cautions(demo, capsys, fmt):
     assert main(["history", str(demo), "--format", fmt]) == 0
