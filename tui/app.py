@@ -22,27 +22,31 @@ _STARTED = time.perf_counter()
 # (about a twentieth of the start). It rests until they are loaded.
 gc.disable()
 
-from textual import events, work  # noqa: E402  (the clock above starts before Textual loads)
-from textual.app import App, SystemCommand  # noqa: E402
-from textual.binding import Binding  # noqa: E402
-from textual.message import Message  # noqa: E402
-from textual.notifications import SeverityLevel  # noqa: E402
-from textual.reactive import reactive  # noqa: E402
-from textual.screen import ModalScreen, Screen  # noqa: E402
-from textual.timer import Timer  # noqa: E402
-from textual.worker import get_current_worker  # noqa: E402
+try:
+    from textual import events, work  # noqa: E402  (the clock above starts before Textual loads)
+    from textual.app import App, SystemCommand  # noqa: E402
+    from textual.binding import Binding  # noqa: E402
+    from textual.message import Message  # noqa: E402
+    from textual.notifications import SeverityLevel  # noqa: E402
+    from textual.reactive import reactive  # noqa: E402
+    from textual.screen import ModalScreen, Screen  # noqa: E402
+    from textual.timer import Timer  # noqa: E402
+    from textual.worker import get_current_worker  # noqa: E402
 
-from branchwise.core.errors import inert  # noqa: E402
-from branchwise.core.messages import is_marked  # noqa: E402
-from branchwise.core.site.spec import Site  # noqa: E402
-from branchwise.core.storage.settings import Settings  # noqa: E402
-from branchwise.core.units import Units  # noqa: E402
+    from branchwise.core.errors import inert  # noqa: E402
+    from branchwise.core.messages import is_marked  # noqa: E402
+    from branchwise.core.site.spec import Site  # noqa: E402
+    from branchwise.core.storage.settings import Settings  # noqa: E402
+    from branchwise.core.units import Units  # noqa: E402
 
-from .files import SiteFiles  # noqa: E402
-from .keygate import KeyGate, Release  # noqa: E402
-from .keys import key_sections, system_commands  # noqa: E402
-from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
-from .state.session import Session, inert_note  # noqa: E402
+    from .files import SiteFiles  # noqa: E402
+    from .keygate import KeyGate, Release  # noqa: E402
+    from .keys import key_sections, system_commands  # noqa: E402
+    from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
+    from .state.session import Session, inert_note  # noqa: E402
+except BaseException:  # the app cannot load; the process goes on with its collector
+    gc.enable()
+    raise
 
 if TYPE_CHECKING:  # made by the solve's worker, after the first screen is drawn
     from .state.outcome import Band, Outcome
@@ -62,6 +66,17 @@ SCREEN_KEYS = [Binding(s.key, f"show('{s.mode}')", s.title, id=f"show-{s.mode}",
                        key_display=s.key.upper(), group=SCREENS_GROUP, tooltip=s.tooltip)
                for s in SCREENS]
 """A key for each screen of the registry (F2 Liquid, F3 Branches, F4 Split)."""
+
+
+def _load_shared_core() -> None:
+    """Load, here in the app's own thread, the core's plain-Python modules that the screens
+    import when first drawn and the first solve imports in its worker (the catalogs, the
+    liquids, the reader of typed values; about 25 ms, after the first screen is drawn). A
+    screen opened while that solve is loading would otherwise import them in another thread
+    in another order, and Python (3.11) can then fail one of the two imports."""
+    import branchwise.core.catalogs.bare_size  # noqa: F401
+    import branchwise.core.fluids  # noqa: F401
+    import branchwise.core.units.parse  # noqa: F401
 
 
 class Solved(Message):
@@ -275,6 +290,7 @@ class BranchwiseApp(App[None]):
             self.notify(self._note, severity="warning", timeout=8)
         if self._remember_on_start:
             self.save_settings()  # so that a plain `branchwise` comes back to this site
+        _load_shared_core()
         self.request_solve()
         self.files.offer_recovery()
 

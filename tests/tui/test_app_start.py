@@ -17,6 +17,8 @@ import os
 import subprocess
 import sys
 
+import pytest
+
 from branchwise.tui.app import BranchwiseApp
 
 
@@ -94,3 +96,49 @@ def test_the_first_screen_is_drawn_before_the_model_and_the_solver_load(tmp_path
              "branchwise.core.units.parse", "branchwise.core.units.grammar",
              "branchwise.core.site.fields"}
     assert not later & loaded
+
+
+EARLY_KEY = r"""
+import asyncio, sys
+from branchwise.tui.app import BranchwiseApp
+
+async def main():
+    app = BranchwiseApp()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press(sys.argv[1])  # at once: the first solve is loading the core
+        for _ in range(100):
+            await pilot.pause(0.01)
+            if app.outcome is not None:
+                break
+        print("shown", type(app.screen).__name__, app.outcome is not None)
+
+asyncio.run(main())
+"""
+
+
+@pytest.mark.parametrize("key", ["f3", "f2"])
+def test_a_screen_opened_while_the_first_solve_loads_the_core_opens(tmp_path, key):
+    # The Branches screen reads the pipe catalogs as it is drawn, the Liquid screen the
+    # liquids, while the first solve imports the same modules in its worker: imported in
+    # crossed orders by two threads, one import failed (a traceback, the app gone; about one
+    # start in two with F3 pressed at once). Each run is a fresh interpreter.
+    env = {**os.environ, "BRANCHWISE_DATA_DIR": str(tmp_path)}
+    for _ in range(4):
+        out = subprocess.run([sys.executable, "-c", EARLY_KEY, key], capture_output=True,
+                             text=True, timeout=120, env=env)
+        assert out.returncode == 0 and "Error" not in out.stdout + out.stderr, out.stdout[-3000:]
+        assert "shown" in out.stdout and out.stdout.split()[-1] == "True"
+
+
+def test_an_app_that_fails_to_load_leaves_the_collector_on(tmp_path):
+    # A module of the app that cannot be imported (simulated): the import fails, and the
+    # process that tried goes on with its collector.
+    code = ("import gc, sys\n"
+            "sys.modules['branchwise.tui.keygate'] = None  # makes its import fail\n"
+            "try:\n"
+            "    import branchwise.tui.app\n"
+            "except ImportError:\n"
+            "    print(gc.isenabled())\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         timeout=120, check=True).stdout.split()
+    assert out == ["True"]
