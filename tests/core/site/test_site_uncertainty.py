@@ -243,6 +243,24 @@ def _laminar_water(temperature: str, tolerance: str | None) -> str:
                     dp="1 kPa", friction="laminar", d="4 mm", length="2 m", eps="0 mm")
 
 
+def _laminar_band_by_viscosity(res, t0: float, low: float, high: float) -> str:
+    """Check a laminar pipe's band (Δp fixed: Q ∝ 1/μ, rising with T) drawn uniformly over
+    ``low``–``high`` K: its P5 and P95 at 5 % and 95 % of that range, μ from iapws (IAPWS
+    2008; the chord's curvature error and the quantiles' sampling error each below 2e-3).
+    Returns the note of the cut."""
+    iapws = pytest.importorskip("iapws")
+
+    def mu(t_k: float) -> float:
+        return iapws.IAPWS95(T=t_k, P=0.101325).mu
+
+    q = res.outputs["total flow"]
+    for quantile, share in ((q.p5, 0.05), (q.p95, 0.95)):
+        assert quantile / q.nominal == pytest.approx(mu(t0) / mu(low + share * (high - low)),
+                                                     rel=2e-3)
+    (note,) = [render(n) for n in res.notes if "temperature drawn" in n]
+    return note
+
+
 @pytest.mark.parametrize("written", [True, False], ids=["typed", "default"])
 def test_a_temperature_tolerance_past_boiling_is_cut_at_the_boiling_point(written):
     # Water at 99 °C ± 2 K at 1 atm: the liquid in the pipe is below its boiling point, so the
@@ -254,10 +272,6 @@ def test_a_temperature_tolerance_past_boiling_is_cut_at_the_boiling_point(writte
     # error are each below 2e-3.
     iapws = pytest.importorskip("iapws")
     t_boil = iapws.iapws97._TSat_P(0.101325)
-
-    def mu(t_k: float) -> float:
-        return iapws.IAPWS95(T=t_k, P=0.101325).mu
-
     site = parse_site(_laminar_water("99 degC", "2 K" if written else None))
     res = uncertainty_for_site(site, samples=4000, seed=5)
     low, high = 372.15 - 2.0, t_boil
@@ -265,29 +279,16 @@ def test_a_temperature_tolerance_past_boiling_is_cut_at_the_boiling_point(writte
     t0 = 372.15
     assert t0 + temperature.centre - temperature.half_width == pytest.approx(low, abs=1e-9)
     assert t0 + temperature.centre + temperature.half_width == pytest.approx(high, abs=2e-3)
-    q = res.outputs["total flow"]
-    for quantile, share in ((q.p5, 0.05), (q.p95, 0.95)):
-        assert quantile / q.nominal == pytest.approx(mu(t0) / mu(low + share * (high - low)),
-                                                     rel=2e-3)
-    (note,) = [render(n) for n in res.notes if "temperature drawn" in n]
+    note = _laminar_band_by_viscosity(res, t0, low, high)
     assert "97 °C – 99.97 °C only" in note and "boils at 99.97 °C" in note
 
 
 def test_a_temperature_tolerance_below_freezing_is_cut_at_the_freezing_point():
     # Water at 1 °C ± 3 K: drawn from 0 °C (water freezes there at atmospheric pressure) to
     # 4 °C. μ from iapws (IAPWS 2008); laminar, Q ∝ 1/μ; P5 of Q at 0.2 °C, P95 at 3.8 °C.
-    iapws = pytest.importorskip("iapws")
-
-    def mu(t_k: float) -> float:
-        return iapws.IAPWS95(T=t_k, P=0.101325).mu
-
     res = uncertainty_for_site(parse_site(_laminar_water("1 degC", "3 K")), samples=4000,
                                seed=5)
-    q, t0, low, high = res.outputs["total flow"], 274.15, 273.15, 277.15
-    for quantile, share in ((q.p5, 0.05), (q.p95, 0.95)):
-        assert quantile / q.nominal == pytest.approx(mu(t0) / mu(low + share * (high - low)),
-                                                     rel=2e-3)
-    (note,) = [render(n) for n in res.notes if "temperature drawn" in n]
+    note = _laminar_band_by_viscosity(res, 274.15, 273.15, 277.15)
     assert "0 °C – 4 °C only" in note and "freezes" in note
 
 
