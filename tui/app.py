@@ -11,6 +11,7 @@ Heavy modules (numpy, scipy, pint) load in a worker after the first screen is dr
 from __future__ import annotations
 
 import gc
+import threading
 import time
 from collections.abc import Callable, Iterable
 from pathlib import Path
@@ -68,15 +69,25 @@ SCREEN_KEYS = [Binding(s.key, f"show('{s.mode}')", s.title, id=f"show-{s.mode}",
 """A key for each screen of the registry (F2 Liquid, F3 Branches, F4 Split)."""
 
 
-def _load_shared_core() -> None:
-    """Load, here in the app's own thread, the core's plain-Python modules that the screens
-    import when first drawn and the first solve imports in its worker (the catalogs, the
-    liquids, the reader of typed values; about 25 ms, after the first screen is drawn). A
-    screen opened while that solve is loading would otherwise import them in another thread
-    in another order, and Python (3.11) can then fail one of the two imports."""
-    import branchwise.core.catalogs.bare_size  # noqa: F401
-    import branchwise.core.fluids  # noqa: F401
-    import branchwise.core.units.parse  # noqa: F401
+_CORE_LOCK = threading.Lock()
+
+
+def _load_core(solver: bool) -> None:
+    """Load the core's plain-Python modules that the screens import when first drawn (the
+    catalogs, the liquids, the reader of typed values; about 25 ms), and with ``solver`` the
+    solve's own (numpy and the rest). The app's thread does the first part once its first
+    screen is drawn, the solve's worker both; one at a time and in this order: two threads
+    importing the same modules in crossed orders can make one of the imports fail (Python
+    3.11), as a screen opened while the first solve loaded once did."""
+    with _CORE_LOCK:
+        import branchwise.core.catalogs.bare_size  # noqa: F401
+        import branchwise.core.fluids  # noqa: F401
+        import branchwise.core.units.parse  # noqa: F401
+
+        if solver:
+            import branchwise.core.site.build  # noqa: F401
+            import branchwise.core.site.solve  # noqa: F401
+            import branchwise.tui.state.outcome  # noqa: F401
 
 
 class Solved(Message):
@@ -290,7 +301,7 @@ class BranchwiseApp(App[None]):
             self.notify(self._note, severity="warning", timeout=8)
         if self._remember_on_start:
             self.save_settings()  # so that a plain `branchwise` comes back to this site
-        _load_shared_core()
+        _load_core(solver=False)
         self.request_solve()
         self.files.offer_recovery()
 
@@ -323,6 +334,7 @@ class BranchwiseApp(App[None]):
     def _solve(self, site: Site, revision: int) -> None:
         from branchwise.core.errors import BranchwiseError
 
+        _load_core(solver=True)
         from .state.outcome import Outcome, compute
 
         try:
