@@ -42,12 +42,8 @@ def test_switching_the_given_keeps_both_readings(ui, demo_file):
     original = demo_file.read_bytes()
 
     async def scenario() -> None:
-        app = BranchwiseApp(demo_file)
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
-            # A clamp-on reading on AHU-3 in the branch table: kept beside the gauge's Δp.
-            await pilot.press("f3")
-            await ui.settle(pilot)
+        # A clamp-on reading on AHU-3 in the branch table: kept beside the gauge's Δp.
+        async with ui.started("f3", (120, 40), demo_file) as (app, pilot):
             app.screen.query_one("#branch-table", DataTable).move_cursor(row=2, column=0)
             await pilot.press("m")
             await ui.type(pilot, "80 gpm")
@@ -241,11 +237,7 @@ def test_m_brings_the_reading_cell_into_sight_from_a_table_scrolled_right(ui, de
     shows it (the cursor goes to the column edited)."""
 
     async def scenario() -> None:
-        app = BranchwiseApp(demo_file)
-        async with app.run_test(size=(80, 24)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f3")
-            await ui.settle(pilot)
+        async with ui.started("f3", site=demo_file) as (app, pilot):
             await pilot.press(*["right"] * 7)  # the Valve column, the table scrolled right
             await pilot.pause()
             assert "Reading" not in ui.text(app).splitlines()[3]

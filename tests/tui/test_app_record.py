@@ -116,11 +116,7 @@ def test_site_and_readings_dialog(ui, site_file):
 
 def test_branch_tag_in_the_form_and_the_wide_table(ui, site_file):
     async def scenario() -> None:
-        app = BranchwiseApp(site_file)
-        async with app.run_test(size=(120, 40)) as pilot:
-            await ui.settle(pilot)
-            await pilot.press("f3")
-            await ui.settle(pilot)
+        async with ui.started("f3", (120, 40), site_file) as (app, pilot):
             table = app.screen.query_one("#branch-table", DataTable)
             labels = [str(c.label) for c in table.ordered_columns]
             assert labels[:2] == ["Branch", "Tag"]
