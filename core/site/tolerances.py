@@ -185,14 +185,14 @@ def site_thermal(
         return tol, Thermal.from_fluid_at(fluid_at, centre, step), ()
     except InputError:
         pass  # T ± the tolerance leaves the liquid's model: where, and why?
-    ends = [(far, error_at(fluid_at, far)) for far in (centre - step, centre + step)]
-    (low, below), (high, above) = [(far, None) if error is None else
-                                   _liquid_end(fluid_at, centre, far) for far, error in ends]
+    (low, below, low_far), (high, above, high_far) = (
+        _liquid_end(fluid_at, centre, far) for far in (centre - step, centre + step))
     beyond = [e for e in (below, above) if e is not None]
+    phases = "; ".join(e.phase for e in beyond if isinstance(e, PhaseLimit))
     if any(not isinstance(e, PhaseLimit) for e in beyond):
         # the model's range ends, not the liquid: nothing to cut at (said as at the far end)
-        outside = next((e for _, e in ends if e is not None and not isinstance(e, PhaseLimit)),
-                       None) or next(e for e in beyond if not isinstance(e, PhaseLimit))
+        outside = next(e for e in (low_far, high_far, *beyond)
+                       if e is not None and not isinstance(e, PhaseLimit))
         typed = site.tolerances.temperature if site.tolerances is not None else None
         reason = (f"takes the liquid outside its model ({outside.field}: "
                   f"{outside.marked_reason}, got {outside.marked_value})")
@@ -203,14 +203,12 @@ def site_thermal(
     if high - low < MIN_SPAN_K:  # at the edge on both sides: nothing left to draw
         return replace(tol, temperature_k=0.0), None, (
             "temperature tolerance not applied: the liquid has no room either side of its "
-            "temperature ("
-            + "; ".join(e.phase for e in beyond if isinstance(e, PhaseLimit)) + ")",)
+            f"temperature ({phases})",)
     thermal = Thermal.from_fluid_at(fluid_at, (low + high) / 2, (high - low) / 2)
     thermal = replace(thermal, span_k=(low - centre, high - centre))
     return tol, thermal, (
         f"temperature drawn over {temperature_text(low)} – {temperature_text(high)} only, "
-        "the part of its tolerance where the liquid can be ("
-        + "; ".join(e.phase for e in beyond if isinstance(e, PhaseLimit)) + ")",)
+        f"the part of its tolerance where the liquid can be ({phases})",)
 
 
 SPAN_RESOLUTION_K = 1e-6
@@ -220,7 +218,7 @@ MIN_SPAN_K = 1e-3
 """A range narrower than this (K) is no range to draw from."""
 
 
-def error_at(fluid_at: Callable[[float], Fluid], t_k: float) -> InputError | None:
+def _error_at(fluid_at: Callable[[float], Fluid], t_k: float) -> InputError | None:
     """Why ``fluid_at(t_k)`` gives no liquid (None: it gives one)."""
     try:
         fluid_at(t_k)
@@ -229,23 +227,25 @@ def error_at(fluid_at: Callable[[float], Fluid], t_k: float) -> InputError | Non
     return None
 
 
-def _liquid_end(fluid_at: Callable[[float], Fluid], centre: float,
-                far: float) -> tuple[float, InputError]:
-    """The last temperature from ``centre`` towards ``far`` (K; ``far`` gives no liquid) at
-    which ``fluid_at`` gives one, found by bisection to within :data:`SPAN_RESOLUTION_K`, and
-    the error just beyond it (a :class:`PhaseLimit` where the liquid freezes or boils there).
-    ``centre`` holds: the site's own fluid was built there."""
+def _liquid_end(fluid_at: Callable[[float], Fluid], centre: float, far: float
+                ) -> tuple[float, InputError | None, InputError | None]:
+    """How far from ``centre`` towards ``far`` (K) ``fluid_at`` gives a liquid: ``far`` itself
+    when it does (and None, None); else the last temperature that does, found by bisection to
+    within :data:`SPAN_RESOLUTION_K`, the error just beyond it (a :class:`PhaseLimit` where the
+    liquid freezes or boils there) and the error at ``far``. ``centre`` holds: the site's own
+    fluid was built there."""
+    at_far = error = _error_at(fluid_at, far)
+    if at_far is None:
+        return far, None, None
     good, bad = centre, far
-    error = error_at(fluid_at, far)
-    assert error is not None
     while abs(bad - good) > SPAN_RESOLUTION_K:
         mid = (good + bad) / 2
-        found = error_at(fluid_at, mid)
+        found = _error_at(fluid_at, mid)
         if found is None:
             good = mid
         else:
             bad, error = mid, found
-    return good, error
+    return good, error, at_far
 
 
 __all__ = ["build_tolerances", "percent", "site_thermal",
