@@ -85,6 +85,8 @@ def si_text(value_si: float, kind: str) -> str:
         return f"{value_si:.4g} m"
     if kind == "valve":
         return f"Kv {value_si:.3g}"
+    if kind == "temperature_difference":  # a difference of temperatures: kelvins
+        return f"{value_si:.3g} K"
     if kind == "temperature":  # K in, °C out, to 0.01 K without trailing zeros
         text = f"{value_si - 273.15:.2f}".rstrip("0").rstrip(".")
         return f"{'0' if text == '-0' else text} °C"
@@ -123,3 +125,9 @@ def kv_text(kv_m3_h: float) -> str:
 def temperature_text(t_k: float) -> str:
     """A temperature, K (said in °C, or °F in US units)."""
     return marked("temperature", t_k)
+
+
+def temperature_difference_text(dt_k: float) -> str:
+    """A difference of temperatures, K (said in K, or °F where temperatures are in °F:
+    1 K = 1.8 °F, by the scales' definitions)."""
+    return marked("temperature_difference", dt_k)

@@ -30,7 +30,7 @@ from dataclasses import fields, replace
 from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError, PhaseLimit, describe
-from ..messages import pressure_text, temperature_text
+from ..messages import pressure_text, temperature_difference_text, temperature_text
 from ..model import Fluid, Given, Network, PressureDrop
 from ..numerics.tolerances import Thermal, Tolerances
 from ..units import parse_quantity
@@ -199,7 +199,8 @@ def site_thermal(
         if typed is not None:
             raise InputError("tolerances.temperature", describe(typed), reason)
         return replace(tol, temperature_k=0.0), None, (
-            f"temperature tolerance not applied: ± {step:g} K {reason}",)
+            f"temperature tolerance not applied: ± {temperature_difference_text(step)} "
+            f"{reason}",)
     if high - low < MIN_SPAN_K:  # at the edge on both sides: nothing left to draw
         return replace(tol, temperature_k=0.0), None, (
             "temperature tolerance not applied: the liquid has no room either side of its "

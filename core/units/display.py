@@ -116,6 +116,9 @@ def restate(text: str, system: str = "si", units: Mapping[str, str] | None = Non
             from ..model import CV_PER_KV
 
             return f"Cv {value_si * CV_PER_KV:.3g}"
+        if kind == "temperature_difference":  # in °F where temperatures are: 1 K = 1.8 °F
+            in_f = (chosen.get("temperature") or display_unit("temperature", system)) == "degF"
+            return f"{value_si * 1.8:.3g} °F" if in_f else si_text(value_si, kind)
         if kind not in KINDS or (system == "si" and unit is None):
             return si_text(value_si, kind)
         if limit:  # a limit in another unit: rounded as the trade quotes it

@@ -27,6 +27,7 @@ from branchwise.core.site.build import build
 from branchwise.core.site.read import DEMO_PATH, demo_text, load_site, parse_site
 from branchwise.core.site.solve import solve_site, uncertainty_for_site
 from branchwise.core.site.write import dump_site
+from branchwise.core.units.display import restate
 
 PSI = 6894.757  # Pa, NIST SP 811
 INCH = 0.0254  # m, NIST SP 811 (exact)
@@ -331,6 +332,14 @@ def test_a_tolerance_past_a_property_model_s_range_is_not_cut(fluid, limit):
     assert not any(i.kind == "temperature" for i in res.inputs)
     assert any("temperature tolerance not applied" in n and limit in render(n)
                for n in res.notes)
+    # The ± of the default (2 K, common practice: Tolerances) is a difference of
+    # temperatures: 2 K, or 3.6 °F where temperatures are in °F (1 K = 1.8 °F, exact).
+    note = next(n for n in res.notes if "not applied" in n)
+    assert render(note).startswith("temperature tolerance not applied: ± 2 K ")
+    assert restate(note, "us").startswith("temperature tolerance not applied: ± 3.6 °F ")
+    assert restate(note, "si", {"temperature": "degF"}).startswith(
+        "temperature tolerance not applied: ± 3.6 °F ")
+    assert "± 2 K" in restate(note, "us", {"temperature": "K"})
 
 
 def test_site_bands_are_ordered_seeded_and_hold_the_solve(capsys):
