@@ -22,7 +22,7 @@ from branchwise.core.storage.paths import sites_dir
 from branchwise.core.units import format_number
 from branchwise.tui.app import BranchwiseApp
 from branchwise.tui.drawing.braille import BrailleCanvas
-from branchwise.tui.screens.split.views import BAND_SAMPLES, BAND_SEED
+from branchwise.tui.screens.split.band import BAND_SAMPLES, BAND_SEED
 from branchwise.tui.screens.tolerances import TolerancesScreen
 from branchwise.tui.widgets.bandview import BandView
 from branchwise.tui.widgets.curveplot import CurvePlot

@@ -1,0 +1,196 @@
+"""The band of the Split screen's results area (``b``): Monte Carlo P5–P95 of every flow, the
+pressure drop and a found unknown, and what dominates the spread, worked out in a thread worker
+(10,000 draws, a fixed seed: the same site always shows the same band). A band belongs to one
+revision of the site: after an edit it is greyed and marked stale at once, and worked out again
+once typing pauses while the view is open (or when it is opened again). A site with an error
+shows no current band.
+"""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING
+
+from rich.text import Text
+from textual import work
+from textual.message import Message
+from textual.worker import get_current_worker
+
+from ...theme import colour
+from .part import ViewsPart
+
+if TYPE_CHECKING:
+    from branchwise.core.site.solve import SiteResult
+    from branchwise.core.site.spec import Site
+
+    from ...state.outcome import Band
+
+BAND_SAMPLES = 10_000
+BAND_SEED = 0
+"""A fixed seed (the CLI's default too): the app and ``branchwise solve --uncertainty`` agree."""
+BAND_PAUSE = 0.6
+"""Seconds of quiet after an edit before an open band is worked out again."""
+
+
+class BandProgress(Message):
+    """How far a long band has got (posted from its thread)."""
+
+    def __init__(self, revision: int, done: int, total: int) -> None:
+        super().__init__()
+        self.revision, self.done, self.total = revision, done, total
+
+
+class BandReady(Message):
+    """A band worker finished (posted from its thread)."""
+
+    def __init__(self, band: Band) -> None:
+        super().__init__()
+        self.band = band
+
+
+class BandPart(ViewsPart):
+    """The band's state, worker and drawing, for :class:`~.views.ResultViews`."""
+
+    band: Band | None = None
+    """The newest band worked out (maybe for an earlier revision: then it is shown as stale)."""
+    band_pause = BAND_PAUSE
+    _band_running: int | None = None
+    _band_share = 0.0
+    """How much of the running band is done (0 until it has run a second)."""
+    _band_now = False
+    """Work the band out at once (the view was just opened), not after a pause."""
+    _band_timer = None
+
+    def _band_wanted(self) -> bool:
+        app = self.bw
+        rev, outcome = app.session.revision, app.outcome
+        return (self.view == "band" and self._band_running != rev
+                and (self.band is None or self.band.revision != rev)
+                and outcome is not None and outcome.revision == rev and outcome.ok)
+
+    def _schedule_band(self) -> None:
+        if self._band_timer is not None:
+            self._band_timer.stop()
+            self._band_timer = None
+        if not self._band_wanted():
+            return
+        if self._band_now:
+            self._start_band()
+        else:
+            self._band_timer = self.set_timer(self.band_pause, self._start_band)
+
+    def _start_band(self) -> None:
+        self._band_timer = None
+        if not self._band_wanted():
+            return
+        self._band_now = False
+        app = self.bw
+        if app.outcome is None or app.outcome.solved is None:
+            return
+        self._band_running = app.session.revision
+        self._band_share = 0.0
+        self._compute_band(app.session.site, app.session.revision, app.outcome.solved,
+                           app.unit_system, dict(app.settings.display_units))
+        self._draw_band()
+
+    @work(thread=True, exclusive=True, exit_on_error=False, group="band")
+    def _compute_band(self, site: Site, revision: int, solved: SiteResult, system: str,
+                      units: dict[str, str]) -> None:
+        from branchwise.core.errors import BranchwiseError
+        from branchwise.core.site.fields import error_text
+        from branchwise.core.site.solve import with_uncertainty
+        from branchwise.core.units import Units
+
+        from ...state.outcome import Band, BandStopped, band_progress
+
+        worker = get_current_worker()
+
+        def report(done: int, total: int) -> None:
+            self.post_message(BandProgress(revision, done, total))
+
+        progress = band_progress(lambda: worker.is_cancelled, report)
+        try:
+            band = Band(revision, with_uncertainty(solved, BAND_SAMPLES, BAND_SEED,
+                                                   progress=progress))
+        except BandStopped:
+            return  # the app closes, or a newer band took over: nothing to show
+        except BranchwiseError as exc:
+            band = Band(revision, None, error_text(exc, Units(system, units),
+                                           [b.name for b in site.branches]),
+                        getattr(exc, "field", "") or "")
+        except Exception as exc:  # a bug, not bad input: shown, and the app carries on
+            self.log.error(f"band failed: {exc!r}")
+            band = Band(revision, None, f"internal error ({type(exc).__name__}: {exc}); "
+                        "please report it")
+        if not get_current_worker().is_cancelled:
+            self.post_message(BandReady(band))
+
+    def on_band_progress(self, message: BandProgress) -> None:
+        if self._band_running == message.revision:
+            self._band_share = message.done / message.total if message.total else 0.0
+            if self.view == "band" and self.screen.is_current:
+                self._draw_band()
+
+    def on_band_ready(self, message: BandReady) -> None:
+        band = message.band
+        if self._band_running == band.revision:
+            self._band_running = None
+        if self.band is None or band.revision >= self.band.revision:
+            self.band = band
+            self.bw.latest_band = band  # the exports include it while it is current
+        self._panel_changed()
+
+
+    def band_state(self) -> str:
+        """``current``, ``computing``, ``error`` (no band for these inputs, see its message),
+        ``broken`` (the site has no answer: bad input, or readings no flow fits), ``stale``
+        or ``none``."""
+        app = self.bw
+        rev, band, outcome = app.session.revision, self._own_band(), app.outcome
+        if self._band_running == rev:
+            return "computing"
+        if band is not None and band.revision == rev:
+            return "error" if band.solved is None else "current"
+        if outcome is not None and outcome.revision == rev and not outcome.ok:
+            return "broken"
+        return "none" if band is None else "stale"
+
+    def _own_band(self) -> Band | None:
+        """The last band worked out, unless it was for a site opened before this one."""
+        band = self.band
+        return band if band is not None and band.revision >= self.bw.session.opened else None
+
+    def _draw_band(self) -> None:
+        from ...widgets.bandview import WIDE, BandView, band_body, band_notes
+
+        app, band, state = self.bw, self._own_band(), self.band_state()
+        warn = f"bold {colour(self.app, 'text-warning')}".strip()
+        draws = f"{BAND_SAMPLES:,} Monte Carlo draws"
+        head = {
+            "computing": Text(f"computing… {draws} (seed {BAND_SEED})"
+                              + (f", {self._band_share:.0%} done" if self._band_share else ""),
+                              style="italic"),
+            "current": Text(f"P5 … P95: the middle 90 % of {draws} (seed {BAND_SEED})",
+                            style="dim"),
+            "broken": Text("No band: this site has no answer now (see the message above)",
+                           style=warn),
+            "stale": Text("STALE: the inputs changed since this band; it is worked out "
+                          "again when typing pauses", style=warn),
+            "none": Text("No band yet: it is worked out once the site solves", style="dim"),
+        }.get(state)
+        if head is None:  # error: the band of these inputs says why it has no figures
+            head = Text(f"✗ No band: {band.error if band else ''}",
+                        style=f"bold {colour(self.app, 'text-error')}".strip())
+            if band is not None and band.field.startswith("tolerances"):
+                head.append("  (l: tolerances)", style="dim")
+        elif state in ("computing", "broken") and band is not None and band.solved is not None:
+            head.append("; below, the band of earlier inputs", style="dim")
+        body = Text()
+        if band is not None and band.solved is not None:
+            wide = self.app.size.width >= WIDE
+            # the screen's width, less the view's padding and a scroll bar
+            notes = band_notes(app, band.solved, max(self.app.size.width - 4, 0))
+            body = band_body(app, band.solved, wide) + notes
+        view = self._view("band")
+        assert isinstance(view, BandView)
+        view.show(head, body, stale=state != "current")
+

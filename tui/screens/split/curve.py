@@ -1,0 +1,116 @@
+"""The system curve of the Split screen's results area (``p``): Δp against the total flow and
+each branch's flow from zero to 1.5 × the operating point, the operating point marked, worked
+out in a thread worker for each new answer.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+from typing import TYPE_CHECKING
+
+from textual import work
+from textual.message import Message
+from textual.worker import get_current_worker
+
+from ...theme import series as theme_series
+from .part import ViewsPart
+
+if TYPE_CHECKING:
+    from branchwise.core.numerics.curve import SystemCurve
+
+    from ...state.outcome import Outcome
+    from ...widgets.curveplot import PlotData
+
+CURVE_FACTOR = 1.5
+"""The curve runs to this many times the operating point's flow."""
+
+
+class CurveReady(Message):
+    """A curve worker finished: the curve of ``outcome``'s answer, or why there is none."""
+
+    def __init__(self, outcome: Outcome, curve: SystemCurve | None, error: str) -> None:
+        super().__init__()
+        self.outcome, self.curve, self.error = outcome, curve, error
+
+
+class CurvePart(ViewsPart):
+    """The curve's state, worker and drawing, for :class:`~.views.ResultViews`."""
+
+    _curve_for: Outcome | None = None
+    _curve: tuple[Outcome, SystemCurve | None, str] | None = None
+    _plot_key: tuple[object, ...] | None = None
+
+    def _draw_curve(self) -> None:
+        from ...widgets.curveplot import CurvePlot
+
+        app = self.bw
+        outcome = app.outcome
+        shown = outcome if outcome is not None and outcome.ok else app.good
+        plot = self._view("curve")
+        assert isinstance(plot, CurvePlot)
+        if shown is None or shown.solved is None:
+            plot.show(None, "The system curve shows once the site solves.")
+            return
+        if self._curve_for is not shown:
+            self._curve_for = shown
+            self._compute_curve(shown)
+        ready = self._curve
+        if ready is None:
+            plot.show(None, "computing the system curve…")
+            return
+        owner, curve, error = ready
+        key = (owner, app.unit("flow"), app.unit("pressure"),  # an Outcome compares by identity
+               self.app.theme)
+        if key != self._plot_key:
+            self._plot_key = key
+            plot.show(self.plot_data(curve) if curve is not None else None,
+                      f"No system curve: {error}")
+
+    @work(thread=True, exclusive=True, exit_on_error=False, group="curve")
+    def _compute_curve(self, outcome: Outcome) -> None:
+        from branchwise.core.errors import BranchwiseError
+        from branchwise.core.numerics.curve import system_curve
+
+        sr = outcome.solved
+        curve, error = None, ""
+        try:
+            if sr is not None:  # only an answer is drawn
+                curve = system_curve(sr.built.network, max_factor=CURVE_FACTOR,
+                                     operating=sr.result)
+        except BranchwiseError as exc:
+            error = getattr(exc, "reason", "") or str(exc)
+        except Exception as exc:  # a bug, not bad input: shown, and the app carries on
+            self.log.error(f"curve failed: {exc!r}")
+            error = f"internal error ({type(exc).__name__}: {exc}); please report it"
+        if not get_current_worker().is_cancelled:
+            self.post_message(CurveReady(outcome, curve, error))
+
+    def on_curve_ready(self, message: CurveReady) -> None:
+        if message.outcome is self._curve_for:
+            self._curve = (message.outcome, message.curve, message.error)
+            self._panel_changed()
+
+    def plot_data(self, curve: SystemCurve) -> PlotData:
+        """The curve in the app's display units: each branch, then the total on top."""
+        from branchwise.core.units import to_unit
+
+        from ...widgets.curveplot import PlotData, Series
+
+        app = self.bw
+        flow_unit, dp_unit = app.unit("flow"), app.unit("pressure")
+
+        def flows(values: Iterable[float]) -> tuple[float, ...]:
+            return tuple(to_unit(float(v), "flow", flow_unit) for v in values)
+
+        dp = tuple(to_unit(float(v), "pressure", dp_unit) for v in curve.pressure_drop)
+        series = [Series(name, flows(curve.branch_flows[:, i]), dp, theme_series(self.app, i))
+                  for i, name in enumerate(curve.branch_names)]
+        series.append(Series("total flow", flows(curve.total_flow), dp, "bold"))
+        point, label = None, ""
+        if curve.operating_point is not None:
+            q, p = curve.operating_point
+            point = (to_unit(q, "flow", flow_unit), to_unit(p, "pressure", dp_unit))
+            label = (f"Operating point: total {app.fmt(q, 'flow')} at Δp "
+                     f"{app.fmt(p, 'pressure')}   (curve to {CURVE_FACTOR:g} × the flow)")
+        return PlotData(tuple(series), f"flow {app.unit_text('flow')}",
+                        f"Δp {app.unit_text('pressure')}", point, label)
