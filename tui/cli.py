@@ -27,11 +27,18 @@ from __future__ import annotations
 import argparse
 import sys
 from pathlib import Path
-from typing import TYPE_CHECKING, TextIO
+from typing import TextIO
 
-if TYPE_CHECKING:
-    from branchwise.core.site.solve import SiteResult
-    from branchwise.core.site.spec import Site
+from .command_args import (
+    WIDTH_DEFAULT,
+    WIDTH_MAX,
+    WIDTH_MIN,
+    load_site_arg,
+    may_write,
+    same_file,
+    text_width,
+)
+from .solve_command import SAMPLES_DEFAULT, SAMPLES_MAX, SAMPLES_MIN, run_solve
 
 EXIT_OK = 0
 EXIT_INPUT = 2
@@ -47,13 +54,7 @@ FORMATS = ("table", "json", "csv", "markdown", "html")
 BY_SUFFIX = {".csv": "csv", ".json": "json", ".md": "markdown", ".markdown": "markdown",
              ".html": "html", ".htm": "html"}
 """The format an -o FILE's name asks for when --format is not given."""
-WIDTH_DEFAULT, WIDTH_MIN, WIDTH_MAX = 80, 40, 1000
-"""The text table's line width: the terminal's (or COLUMNS) when writing to a terminal, 80
-otherwise, --width over both; kept within WIDTH_MIN to WIDTH_MAX columns."""
-SAMPLES_DEFAULT = 10_000
-SAMPLES_MIN, SAMPLES_MAX = 10, 1_000_000
-"""Monte Carlo draws: fewer than 10 give no percentiles worth the name; a million already takes
-about 12 s and 2 GB of memory on the demo site (measured), so more is refused."""
+
 
 
 def _version() -> str:
@@ -195,177 +196,6 @@ def _output_options(p: argparse.ArgumentParser, rows: str = "one row per segment
 
 
 # ---- commands ------------------------------------------------------------------------------
-
-def _whole(text: str | None, option: str, low: int, high: int | None, default: int) -> int:
-    """The whole number typed for ``option`` (``10000``, ``10_000``, ``1e4``), in range."""
-    from branchwise.core.errors import InputError
-
-    if text is None:
-        return default
-    number: int | None
-    try:
-        number = int(text)
-    except ValueError:
-        try:
-            value = float(text)
-        except ValueError:
-            value = float("nan")
-        number = int(value) if value.is_integer() else None
-    if number is None or number < low or (high is not None and number > high):
-        span = f"from {low:,} to {high:,}" if high is not None else f"of at least {low}"
-        raise InputError(option, text, f"must be a whole number {span}")
-    return number
-
-
-def _same_file(a: Path, b: Path | None) -> bool:
-    if _is_stdio(a) or _is_stdio(b):
-        return False
-    return b is not None and a.resolve() == b.resolve()
-
-
-def _is_stdio(path: Path | None) -> bool:
-    """``-``: standard input for a site, standard output for ``-o``."""
-    return path is not None and str(path) == "-"
-
-
-def _width(args: argparse.Namespace | None, output: Path | None) -> int:
-    """The text table's line width: --width; else, writing to standard output, COLUMNS or the
-    terminal's width (80 when it is not a terminal); else (a file) 80."""
-    import shutil
-
-    text = getattr(args, "width", None)
-    if text is not None:
-        return _whole(text, "--width", WIDTH_MIN, WIDTH_MAX, WIDTH_DEFAULT)
-    if output is not None and not _is_stdio(output):
-        return WIDTH_DEFAULT
-    columns = shutil.get_terminal_size((WIDTH_DEFAULT, 24)).columns
-    return max(WIDTH_MIN, min(WIDTH_MAX, columns)) if columns > 0 else WIDTH_DEFAULT
-
-
-def _load(site_path: Path) -> Site:
-    """The site file, or for ``-`` the site read from standard input."""
-    from branchwise.core.site.read import load_site, parse_site
-
-    if not _is_stdio(site_path):
-        return load_site(site_path)
-    from .import_command import read_text
-
-    site = parse_site(read_text(site_path, "<stdin>", "UTF-8 text"), "<stdin>")
-    site.source = None
-    return site
-
-
-def _solve(site_path: Path | None, units: str, fmt: str, output: Path | None, out: TextIO,
-           args: argparse.Namespace | None = None) -> int:
-    from branchwise.core.errors import InputError
-    from branchwise.core.report import render
-    from branchwise.core.site.read import demo_site
-    from branchwise.core.site.solve import solve_site, with_uncertainty
-    from branchwise.core.storage.atomic import atomic_write_text
-
-    from .progress import Progress
-
-    samples_text, seed_text = getattr(args, "samples", None), getattr(args, "seed", None)
-    samples = _whole(samples_text, "--samples", SAMPLES_MIN, SAMPLES_MAX, SAMPLES_DEFAULT)
-    seed = _whole(seed_text, "--seed", 0, None, 0)
-    curve_path: Path | None = getattr(args, "curve", None)
-    if _is_stdio(curve_path):
-        raise InputError("--curve", "-", "needs a file name (.svg for an image, else CSV)")
-    if curve_path is not None:
-        if _same_file(curve_path, site_path) or _same_file(curve_path, output):
-            raise InputError("--curve", str(curve_path), "is the site file or the --output "
-                             "file; give the curve a file of its own")
-    if output is not None and _same_file(output, site_path):
-        raise InputError("--output", str(output), "is the site file itself; the site file is "
-                         "never overwritten")
-    _may_write(args, ("--curve", curve_path), ("--output", output))
-    width = _width(args, output)
-    with Progress() as progress:  # a sign of life on stderr once the work takes a second
-        progress.stage(f"reading {site_path}" if site_path is not None else "reading the demo")
-        site = demo_site() if site_path is None else _load(site_path)
-        progress.stage(f"working out {len(site.branches):,} branches")
-        solved = solve_site(site)
-        if (getattr(args, "uncertainty", False) or samples_text is not None
-                or seed_text is not None):
-            solved = with_uncertainty(solved, samples, seed, progress=progress.draws)
-        progress.stage("working out the system curve")
-        curve_text = None if curve_path is None else _curve_csv(solved, units, curve_path)
-        progress.stage(f"writing the {fmt}")
-        from branchwise.core.errors import inert_output
-
-        text = inert_output(render(solved, fmt, units, width) if fmt == "table"
-                            else render(solved, fmt, units), fmt)
-    if curve_path is not None and curve_text is not None:
-        atomic_write_text(curve_path, curve_text, backup=True)
-        kind = "image" if curve_path.suffix.lower() == ".svg" else (
-            f"{curve_text.count(chr(10)) - 1} points")
-        print(f"branchwise: system curve ({kind}) written to {curve_path}",
-              file=sys.stderr)
-    if fmt == "csv":  # the CSV is data only: what must not be lost goes to standard error
-        _csv_cautions(solved, units)
-    if output is None or _is_stdio(output):
-        out.write(text)
-    else:
-        atomic_write_text(output, text, backup=True)
-    return EXIT_OK
-
-
-STDERR_LINES = 40
-"""The most assumed (or warning) lines written on standard error beside a CSV."""
-
-
-def _csv_cautions(solved: SiteResult, units: str) -> None:
-    """What was assumed, the warnings, the notes and the cautions of a CSV's answer, on
-    standard error."""
-    from branchwise.core.errors import inert
-    from branchwise.core.report.lines import CAUTIONS, assumed_lines, notes_of, warning_lines
-
-    for word, lines in (("assumed", assumed_lines(solved, units)),
-                        ("warning", warning_lines(solved, units)),
-                        ("note", notes_of(solved, units))):
-        for line in lines[:STDERR_LINES]:
-            print(f"branchwise: {word}: {inert(line)}", file=sys.stderr)
-        if len(lines) > STDERR_LINES:  # a site of thousands of branches: not a line each
-            print(f"branchwise: {word}: … and {len(lines) - STDERR_LINES:,} more (every one "
-                  "is in the Markdown, HTML and JSON reports)", file=sys.stderr)
-    for line in CAUTIONS:
-        print(f"branchwise: caution: {line}", file=sys.stderr)
-
-
-def _may_write(args: argparse.Namespace | None, *targets: tuple[str, Path | None]) -> None:
-    """The one rule for a file the command line writes: a new file is written; an existing
-    one is replaced only with --force (kept as ``.bak``), never a FIFO, device or read-only
-    file."""
-    from branchwise.core.storage.file_checks import check_replace
-
-    force = bool(getattr(args, "force", False))
-    for option, path in targets:
-        if path is not None and not _is_stdio(path):
-            check_replace(path, option, force)
-
-
-def _curve_csv(solved: SiteResult, units: str, path: Path | None = None) -> str:
-    """The system curve of a solved site through its operating point, as CSV (or, for a
-    ``path`` ending in .svg, an SVG image) in the display units of ``units`` (``si`` or
-    ``us``)."""
-    from branchwise.core.errors import InputError
-    from branchwise.core.numerics.curve import system_curve
-    from branchwise.core.report.curve_csv import to_csv
-    from branchwise.core.report.svg import curve_svg
-
-    result = solved.result
-    try:
-        curve = system_curve(result.network, operating=result)
-        if path is not None and path.suffix.lower() == ".svg":
-            return curve_svg(curve, units, title=f"System curve: {solved.site.title}",
-                             standalone=True)
-        return to_csv(curve, units)
-    except InputError as exc:
-        if not exc.field.startswith("curve."):
-            raise
-        raise InputError("--curve", "no flow", "the operating point carries no flow, so the "
-                         "curve has no range to span") from None
-
 
 def _demo(path: Path, force: bool, out: TextIO) -> int:
     from branchwise.core.site.read import DEMO_NAME, demo_text
@@ -512,27 +342,27 @@ def main(argv: list[str] | None = None) -> int:
     try:
         if args.command is None:
             code = _launch_app(None)
-            return code if code is not None else _solve(None, "si", "table", None, out)
+            return code if code is not None else run_solve(None, "si", "table", None, out)
         if args.command == "open":
             code = _launch_app(args.site)
             if code is not None:
                 return code
-            return _solve(args.site, args.units, args.format, args.output, out, args)
+            return run_solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "solve":
-            return _solve(args.site, args.units, args.format, args.output, out, args)
+            return run_solve(args.site, args.units, args.format, args.output, out, args)
         if args.command == "demo":
             return _demo(args.path, args.force, out)
         if args.command == "history":
             from .history_command import run_history
 
-            if args.output is not None and _same_file(args.output, args.site):
+            if args.output is not None and same_file(args.output, args.site):
                 from branchwise.core.errors import InputError
 
                 raise InputError("--output", str(args.output), "is the site file itself; the "
                                  "site file is never overwritten")
-            _may_write(args, ("--output", args.output))
-            return run_history(_load(args.site), args.units, args.format, args.output,
-                               _width(args, args.output), out, sys.stderr)
+            may_write(args, ("--output", args.output))
+            return run_history(load_site_arg(args.site), args.units, args.format, args.output,
+                               text_width(args, args.output), out, sys.stderr)
         if args.command == "presets":
             from .presets_command import run_presets
 
