@@ -85,22 +85,22 @@ def test_band_by_keys(ui, monkeypatch):
         async with ui.started() as (app, pilot):
             screen = app.screen
             await pilot.press("b")
-            await until(pilot, lambda: screen.views.band_state() == "current")
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "current")
             view = screen.query_one("#band-view", BandView)
             assert view.display and not screen.query_one("#results").display
             assert "P5 … P95" in ui.text(app) and not view.has_class("-stale")
             check_band(app, ui)
 
             # An edit greys the band at once and says so (the refresh waits for a pause).
-            screen.views.band_pause = 60.0
+            screen.views.band_panel.band_pause = 60.0
             await pilot.press("v")
             await ui.type(pilot, "12 psi")
             await ui.settle(pilot)
-            assert screen.views.band_state() == "stale" and view.has_class("-stale")
+            assert screen.views.band_panel.band_state() == "stale" and view.has_class("-stale")
             assert "STALE" in ui.text(app)
             # b twice: back to the table, and to a band worked out at once.
             await pilot.press("escape", "b", "b")
-            await until(pilot, lambda: screen.views.band_state() == "current")
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "current")
             check_band(app, ui)
 
             # While the band is worked out, typing goes on: hold the worker and type.
@@ -112,18 +112,19 @@ def test_band_by_keys(ui, monkeypatch):
                 return real(*args, **kwargs)
 
             monkeypatch.setattr(sitesolve, "with_uncertainty", held)
-            screen.views.band_pause = 0.05
+            screen.views.band_panel.band_pause = 0.05
             await pilot.press("v")
             await ui.type(pilot, "11 psi")
-            await until(pilot, lambda: screen.views.band_state() == "computing", workers=False)
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "computing",
+                        workers=False)
             assert "computing…" in ui.text(app)
             await ui.type(pilot, "d")  # "11 psid": the solve answers while the band waits
             await until(pilot, lambda: app.outcome.revision == app.session.revision
                         and app.outcome.ok, workers=False)
             assert app.site.conditions.pressure_drop == "11 psid"
-            assert screen.views.band_state() in ("stale", "computing")
+            assert screen.views.band_panel.band_state() in ("stale", "computing")
             gate.set()
-            await until(pilot, lambda: screen.views.band_state() == "current")
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "current")
             assert screen.views.band.revision == app.session.revision
             check_band(app, ui)
 
@@ -133,7 +134,7 @@ def test_band_by_keys(ui, monkeypatch):
             record = next(sites_dir().glob("*.md"))
             assert "## Uncertainty" in record.read_text(encoding="utf-8")
             record.unlink()
-            screen.views.band_pause = 60.0
+            screen.views.band_panel.band_pause = 60.0
             await pilot.press("v")
             await ui.type(pilot, "13 psi")
             await ui.settle(pilot)
@@ -293,13 +294,13 @@ def test_band_of_a_site_without_an_answer(ui):
         async with ui.started() as (app, pilot):
             screen = app.screen
             await pilot.press("b")
-            await until(pilot, lambda: screen.views.band_state() == "current")
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "current")
             # 1000 L/s through a 4 in coil branch: a velocity near 120 m/s, far past what 69 kPa
             # drives even with no pipe at all (Bernoulli: v = √(2Δp/ρ) ≈ 12 m/s, common practice).
             app.edit("Find", lambda s: set_find(s, "length", "AHU-1 coil", "1000 L/s"))
             await ui.settle(pilot)
             assert isinstance(app.outcome.error, NoSolutionError)
-            assert screen.views.band_state() == "broken"
+            assert screen.views.band_panel.band_state() == "broken"
             text = ui.text(app)
             assert "No band: this site has no answer now" in text
             assert "STALE" not in text and "has an error" not in text
@@ -320,7 +321,7 @@ def test_a_band_of_another_site_is_not_shown_after_opening_a_line_list(ui, tmp_p
         async with ui.started() as (app, pilot):
             screen = app.screen
             await pilot.press("b")
-            await until(pilot, lambda: screen.views.band_state() == "current")
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "current")
             assert "AHU-1 coil" in ui.text(app)
             app.files.open_choice(lines)
             await ui.settle(pilot)
@@ -344,7 +345,7 @@ def test_a_band_cut_at_freezing_says_so_in_full_at_80_columns(ui, tmp_path):
         async with ui.started(site=path, size=(80, 24)) as (app, pilot):
             screen = app.screen
             await pilot.press("b")
-            await until(pilot, lambda: screen.views.band_state() == "current")
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "current")
             body = str(screen.query_one("#band-body").content)
             note = body[body.index("• temperature drawn"):]
             assert all(len(line) <= 76 for line in note.splitlines())

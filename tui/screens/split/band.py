@@ -2,12 +2,16 @@
 pressure drop and a found unknown, and what dominates the spread, worked out in a thread worker
 (10,000 draws, a fixed seed: the same site always shows the same band). A band belongs to one
 revision of the site: after an edit it is greyed and marked stale at once, and worked out again
-once typing pauses while the view is open (or when it is opened again). A site with an error
-shows no current band.
+once typing pauses while the view is open (or at once when it is opened again). A site with an
+error shows no current band.
+
+Loaded when the band is first shown (the view it draws in, and the band's own modules, wait
+until then).
 """
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from rich.text import Text
@@ -16,13 +20,17 @@ from textual.message import Message
 from textual.worker import get_current_worker
 
 from ...theme import colour
-from .part import ViewsPart
+from ...widgets.bandview import WIDE, BandView, band_body, band_notes
+from ...workspace import workspace
 
 if TYPE_CHECKING:
+    from textual.timer import Timer
+
     from branchwise.core.site.solve import SiteResult
     from branchwise.core.site.spec import Site
 
     from ...state.outcome import Band
+    from ...workspace import Workspace
 
 BAND_SAMPLES = 10_000
 BAND_SEED = 0
@@ -31,70 +39,80 @@ BAND_PAUSE = 0.6
 """Seconds of quiet after an edit before an open band is worked out again."""
 
 
-class BandProgress(Message):
-    """How far a long band has got (posted from its thread)."""
+class BandPanel(BandView):
+    """The band view with the band it shows: the newest band worked out, the worker working
+    one out, and when to start one. Tells its parent when a band has come in
+    (:class:`Changed`): the table's reading lines weigh the readings against it."""
 
-    def __init__(self, revision: int, done: int, total: int) -> None:
-        super().__init__()
-        self.revision, self.done, self.total = revision, done, total
+    @dataclass
+    class Progress(Message):
+        """How far a long band has got (posted from its thread)."""
 
+        revision: int
+        done: int
+        total: int
 
-class BandReady(Message):
-    """A band worker finished (posted from its thread)."""
+    @dataclass
+    class Ready(Message):
+        """A band worker finished (posted from its thread)."""
 
-    def __init__(self, band: Band) -> None:
-        super().__init__()
-        self.band = band
+        band: Band
 
-
-class BandPart(ViewsPart):
-    """The band's state, worker and drawing, for :class:`~.views.ResultViews`."""
+    class Changed(Message):
+        """A band came in: what shows it may need drawing again."""
 
     band: Band | None = None
     """The newest band worked out (maybe for an earlier revision: then it is shown as stale)."""
     band_pause = BAND_PAUSE
+    now = False
+    """Work the band out at once (the view was just opened), not after a pause."""
     _band_running: int | None = None
+    """The revision the worker is working a band out for."""
     _band_share = 0.0
     """How much of the running band is done (0 until it has run a second)."""
-    _band_now = False
-    """Work the band out at once (the view was just opened), not after a pause."""
-    _band_timer = None
+    _band_timer: Timer | None = None
 
-    def _band_wanted(self) -> bool:
+    @property
+    def bw(self) -> Workspace:
+        return workspace(self.app)
+
+    def _wanted(self) -> bool:
         app = self.bw
         rev, outcome = app.session.revision, app.outcome
-        return (self.view == "band" and self._band_running != rev
+        return (self.display and self._band_running != rev
                 and (self.band is None or self.band.revision != rev)
                 and outcome is not None and outcome.revision == rev and outcome.ok)
 
-    def _schedule_band(self) -> None:
+    def schedule(self) -> None:
+        """Start a band for the site as it is now if none is current: at once after
+        :attr:`now` was set, else once typing has paused for :attr:`band_pause`."""
         if self._band_timer is not None:
             self._band_timer.stop()
             self._band_timer = None
-        if not self._band_wanted():
+        if not self._wanted():
             return
-        if self._band_now:
-            self._start_band()
+        if self.now:
+            self._start()
         else:
-            self._band_timer = self.set_timer(self.band_pause, self._start_band)
+            self._band_timer = self.set_timer(self.band_pause, self._start)
 
-    def _start_band(self) -> None:
+    def _start(self) -> None:
         self._band_timer = None
-        if not self._band_wanted():
+        if not self._wanted():
             return
-        self._band_now = False
+        self.now = False
         app = self.bw
         if app.outcome is None or app.outcome.solved is None:
             return
         self._band_running = app.session.revision
         self._band_share = 0.0
-        self._compute_band(app.session.site, app.session.revision, app.outcome.solved,
-                           app.unit_system, dict(app.settings.display_units))
-        self._draw_band()
+        self._compute(app.session.site, app.session.revision, app.outcome.solved,
+                      app.unit_system, dict(app.settings.display_units))
+        self.draw()
 
     @work(thread=True, exclusive=True, exit_on_error=False, group="band")
-    def _compute_band(self, site: Site, revision: int, solved: SiteResult, system: str,
-                      units: dict[str, str]) -> None:
+    def _compute(self, site: Site, revision: int, solved: SiteResult, system: str,
+                 units: dict[str, str]) -> None:
         from branchwise.core.errors import BranchwiseError
         from branchwise.core.site.fields import error_text
         from branchwise.core.site.solve import with_uncertainty
@@ -105,7 +123,7 @@ class BandPart(ViewsPart):
         worker = get_current_worker()
 
         def report(done: int, total: int) -> None:
-            self.post_message(BandProgress(revision, done, total))
+            self.post_message(self.Progress(revision, done, total))
 
         progress = band_progress(lambda: worker.is_cancelled, report)
         try:
@@ -122,23 +140,22 @@ class BandPart(ViewsPart):
             band = Band(revision, None, f"internal error ({type(exc).__name__}: {exc}); "
                         "please report it")
         if not get_current_worker().is_cancelled:
-            self.post_message(BandReady(band))
+            self.post_message(self.Ready(band))
 
-    def on_band_progress(self, message: BandProgress) -> None:
+    def on_band_panel_progress(self, message: Progress) -> None:
         if self._band_running == message.revision:
             self._band_share = message.done / message.total if message.total else 0.0
-            if self.view == "band" and self.screen.is_current:
-                self._draw_band()
+            if self.display and self.screen.is_current:
+                self.draw()
 
-    def on_band_ready(self, message: BandReady) -> None:
+    def on_band_panel_ready(self, message: Ready) -> None:
         band = message.band
         if self._band_running == band.revision:
             self._band_running = None
         if self.band is None or band.revision >= self.band.revision:
             self.band = band
             self.bw.latest_band = band  # the exports include it while it is current
-        self._panel_changed()
-
+        self.post_message(self.Changed())
 
     def band_state(self) -> str:
         """``current``, ``computing``, ``error`` (no band for these inputs, see its message),
@@ -159,9 +176,8 @@ class BandPart(ViewsPart):
         band = self.band
         return band if band is not None and band.revision >= self.bw.session.opened else None
 
-    def _draw_band(self) -> None:
-        from ...widgets.bandview import WIDE, BandView, band_body, band_notes
-
+    def draw(self) -> None:
+        """The state line and the band (greyed unless it is the current one)."""
         app, band, state = self.bw, self._own_band(), self.band_state()
         warn = f"bold {colour(self.app, 'text-warning')}".strip()
         draws = f"{BAND_SAMPLES:,} Monte Carlo draws"
@@ -190,7 +206,4 @@ class BandPart(ViewsPart):
             # the screen's width, less the view's padding and a scroll bar
             notes = band_notes(app, band.solved, max(self.app.size.width - 4, 0))
             body = band_body(app, band.solved, wide) + notes
-        view = self._view("band")
-        assert isinstance(view, BandView)
-        view.show(head, body, stale=state != "current")
-
+        self.show(head, body, stale=state != "current")

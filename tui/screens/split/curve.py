@@ -1,11 +1,14 @@
 """The system curve of the Split screen's results area (``p``): Δp against the total flow and
 each branch's flow from zero to 1.5 × the operating point, the operating point marked, worked
 out in a thread worker for each new answer.
+
+Loaded when the curve is first shown.
 """
 
 from __future__ import annotations
 
 from collections.abc import Iterable
+from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from textual import work
@@ -13,61 +16,69 @@ from textual.message import Message
 from textual.worker import get_current_worker
 
 from ...theme import series as theme_series
-from .part import ViewsPart
+from ...widgets.curveplot import CurvePlot, PlotData, Series
+from ...workspace import workspace
 
 if TYPE_CHECKING:
     from branchwise.core.numerics.curve import SystemCurve
 
     from ...state.outcome import Outcome
-    from ...widgets.curveplot import PlotData
+    from ...workspace import Workspace
 
 CURVE_FACTOR = 1.5
 """The curve runs to this many times the operating point's flow."""
 
 
-class CurveReady(Message):
-    """A curve worker finished: the curve of ``outcome``'s answer, or why there is none."""
+class CurvePanel(CurvePlot):
+    """The plot with the curve it shows: the curve of the answer on screen (the last good one
+    while the site has an error), worked out once per answer. Tells its parent when a curve
+    has come in (:class:`Changed`)."""
 
-    def __init__(self, outcome: Outcome, curve: SystemCurve | None, error: str) -> None:
-        super().__init__()
-        self.outcome, self.curve, self.error = outcome, curve, error
+    @dataclass
+    class Ready(Message):
+        """A curve worker finished: the curve of ``outcome``'s answer, or why there is none."""
 
+        outcome: Outcome
+        curve: SystemCurve | None
+        error: str
 
-class CurvePart(ViewsPart):
-    """The curve's state, worker and drawing, for :class:`~.views.ResultViews`."""
+    class Changed(Message):
+        """A curve came in: what shows it may need drawing again."""
 
     _curve_for: Outcome | None = None
     _curve: tuple[Outcome, SystemCurve | None, str] | None = None
     _plot_key: tuple[object, ...] | None = None
 
-    def _draw_curve(self) -> None:
-        from ...widgets.curveplot import CurvePlot
+    @property
+    def bw(self) -> Workspace:
+        return workspace(self.app)
 
+    def draw(self) -> None:
+        """The curve of the answer on screen, once worked out (asked for here the first
+        time)."""
         app = self.bw
         outcome = app.outcome
         shown = outcome if outcome is not None and outcome.ok else app.good
-        plot = self._view("curve")
-        assert isinstance(plot, CurvePlot)
         if shown is None or shown.solved is None:
-            plot.show(None, "The system curve shows once the site solves.")
+            self.show(None, "The system curve shows once the site solves.")
             return
         if self._curve_for is not shown:
             self._curve_for = shown
-            self._compute_curve(shown)
+            self._compute(shown)
         ready = self._curve
         if ready is None:
-            plot.show(None, "computing the system curve…")
+            self.show(None, "computing the system curve…")
             return
         owner, curve, error = ready
         key = (owner, app.unit("flow"), app.unit("pressure"),  # an Outcome compares by identity
                self.app.theme)
         if key != self._plot_key:
             self._plot_key = key
-            plot.show(self.plot_data(curve) if curve is not None else None,
+            self.show(self.plot_data(curve) if curve is not None else None,
                       f"No system curve: {error}")
 
     @work(thread=True, exclusive=True, exit_on_error=False, group="curve")
-    def _compute_curve(self, outcome: Outcome) -> None:
+    def _compute(self, outcome: Outcome) -> None:
         from branchwise.core.errors import BranchwiseError
         from branchwise.core.numerics.curve import system_curve
 
@@ -83,18 +94,16 @@ class CurvePart(ViewsPart):
             self.log.error(f"curve failed: {exc!r}")
             error = f"internal error ({type(exc).__name__}: {exc}); please report it"
         if not get_current_worker().is_cancelled:
-            self.post_message(CurveReady(outcome, curve, error))
+            self.post_message(self.Ready(outcome, curve, error))
 
-    def on_curve_ready(self, message: CurveReady) -> None:
+    def on_curve_panel_ready(self, message: Ready) -> None:
         if message.outcome is self._curve_for:
             self._curve = (message.outcome, message.curve, message.error)
-            self._panel_changed()
+            self.post_message(self.Changed())
 
     def plot_data(self, curve: SystemCurve) -> PlotData:
         """The curve in the app's display units: each branch, then the total on top."""
         from branchwise.core.units import to_unit
-
-        from ...widgets.curveplot import PlotData, Series
 
         app = self.bw
         flow_unit, dp_unit = app.unit("flow"), app.unit("pressure")

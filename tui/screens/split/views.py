@@ -25,18 +25,20 @@ from ...drawing.share_bar import share_bar
 from ...quiet import put
 from ...theme import colour
 from ...widgets.texttable import TextTable
+from ...workspace import workspace
 from ..warnings import fit_lines
-from .band import BandPart
-from .curve import CurvePart
-from .part import VIEWS
+from ..work_screen import WorkScreen
 
 if TYPE_CHECKING:
     from branchwise.core.site.solve import SiteResult
     from branchwise.core.site.spec import TolerancesSpec
 
-    from ...state.outcome import Outcome
+    from ...state.outcome import Band, Outcome
     from ...workspace import Workspace
+    from .band import BandPanel
 
+VIEWS = {"table": "#results", "band": "#band-view", "curve": "#curve-view"}
+"""Each view of the results area and its widget's id."""
 MAX_WARNING_LINES = 6
 """At most this many warning lines under the table; fewer when the branch rows need the room."""
 REGIMES = {"laminar": "lam.", "transition": "trans.", "turbulent": "turb.", "none": "—"}
@@ -44,10 +46,12 @@ MARK = "≈"
 """The mark in front of a reading's line (warnings carry ⚠, notes •)."""
 
 
-class ResultViews(BandPart, CurvePart, Vertical):
+class ResultViews(Vertical):
     """The results area of the Split screen: the table, the band (:mod:`.band`) or the curve
     (:mod:`.curve`), and the lines under it."""
 
+    view = "table"
+    """The view shown: ``table``, ``band`` or ``curve``."""
     warning_lines: list[str] = []
     """The other readings against the answer, every warning and note of it (``w`` lists
     them); :attr:`screen_lines` the same, shorter below 100 columns, as many as fit."""
@@ -64,9 +68,48 @@ class ResultViews(BandPart, CurvePart, Vertical):
         warnings.display = False
         yield warnings
 
+    @property
+    def bw(self) -> Workspace:
+        return workspace(self.app)
+
     def main_view(self) -> Widget | None:
         """The focusable widget of the view shown (the curve has none)."""
         return None if self.view == "curve" else self._view(self.view)
+
+    def _view(self, name: str) -> Widget:
+        """The widget of view ``name``; the band and the curve are mounted in the table's
+        place the first time they are shown (most visits never open them)."""
+        found = self.query(VIEWS[name])
+        if found:
+            return found.first()
+        if name == "band":
+            from .band import BandPanel
+
+            widget: Widget = BandPanel(id="band-view")
+        else:
+            from .curve import CurvePanel
+
+            widget = CurvePanel(id="curve-view")
+        widget.display = False
+        self.mount(widget, before=self.query_one("#totals"))
+        return widget
+
+    @property
+    def band_panel(self) -> BandPanel:
+        """The band's view, with its band (mounted if it was not yet)."""
+        from .band import BandPanel
+
+        panel = self._view("band")
+        assert isinstance(panel, BandPanel)
+        return panel
+
+    @property
+    def band(self) -> Band | None:
+        """The newest band worked out here (None before the band was first shown)."""
+        from .band import BandPanel
+
+        found = self.query(BandPanel)
+        return found.first().band if found else None
 
     def toggle(self, name: str) -> None:
         """Show the ``name`` view (``band``, ``curve``) in the table's place, or the table
@@ -84,7 +127,8 @@ class ResultViews(BandPart, CurvePart, Vertical):
             main.focus()
         else:
             self.screen.set_focus(None)
-        self._band_now = self.view == "band"
+        if self.view == "band":
+            self.band_panel.now = True  # just opened: worked out at once, not after a pause
         self.show_view()
 
     def show(self) -> None:
@@ -100,11 +144,31 @@ class ResultViews(BandPart, CurvePart, Vertical):
 
     def show_view(self) -> None:
         if self.view == "band":
-            self._schedule_band()
-            self._draw_band()
+            band = self.band_panel
+            band.schedule()
+            band.draw()
         elif self.view == "curve":
-            self._draw_curve()
+            from .curve import CurvePanel
+
+            curve = self._view("curve")
+            assert isinstance(curve, CurvePanel)
+            curve.draw()
         self._draw_results()  # a band come in says whether each reading lies inside it
+
+    def on_band_panel_changed(self) -> None:
+        self._panel_changed()
+
+    def on_curve_panel_changed(self) -> None:
+        self._panel_changed()
+
+    def _panel_changed(self) -> None:
+        """A worker's answer came in: draw it now, or when the screen is shown again."""
+        if self.screen.is_current:
+            self.show_view()
+        else:
+            screen = self.screen
+            if isinstance(screen, WorkScreen):
+                screen.redraw_on_return()
 
     # ---- the table ---------------------------------------------------------------------------
 
