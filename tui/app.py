@@ -11,7 +11,6 @@ Heavy modules (numpy, scipy, pint) load in a worker after the first screen is dr
 from __future__ import annotations
 
 import gc
-import threading
 import time
 from collections.abc import Callable, Iterable
 from pathlib import Path
@@ -24,15 +23,13 @@ _STARTED = time.perf_counter()
 gc.disable()
 
 try:
-    from textual import events, work  # noqa: E402  (the clock above starts before Textual loads)
+    from textual import events  # noqa: E402  (the clock above starts before Textual loads)
     from textual.app import App, SystemCommand  # noqa: E402
     from textual.binding import Binding  # noqa: E402
     from textual.message import Message  # noqa: E402
     from textual.notifications import SeverityLevel  # noqa: E402
     from textual.reactive import reactive  # noqa: E402
     from textual.screen import ModalScreen, Screen  # noqa: E402
-    from textual.timer import Timer  # noqa: E402
-    from textual.worker import get_current_worker  # noqa: E402
 
     from branchwise.core.errors import inert  # noqa: E402
     from branchwise.core.messages import is_marked  # noqa: E402
@@ -41,9 +38,11 @@ try:
     from branchwise.core.units import Units  # noqa: E402
 
     from .files import SiteFiles  # noqa: E402
+    from .key_rules import KeyRules  # noqa: E402
     from .keygate import KeyGate, Release  # noqa: E402
-    from .keys import key_sections, system_commands  # noqa: E402
-    from .screens.registry import FIRST, SCREENS, TITLES  # noqa: E402
+    from .keys import APP_KEYS, key_sections, system_commands  # noqa: E402
+    from .screens.registry import FIRST, SCREENS  # noqa: E402
+    from .solving import Solved, SolveRunner, load_core  # noqa: E402
     from .state.session import Session, inert_note  # noqa: E402
 except BaseException:  # the app cannot load; the process goes on with its collector
     gc.enable()
@@ -57,46 +56,6 @@ if TYPE_CHECKING:  # made by the solve's worker, after the first screen is drawn
 # being built (about a tenth of the start).
 gc.freeze()
 gc.enable()  # rests once more while the first screen is built (:meth:`_first_screen`)
-
-KEYS_DELAY = 0.25
-"""Seconds of quiet before the footer shows which keys are available now."""
-
-
-SCREENS_GROUP = Binding.Group("Screens")
-SCREEN_KEYS = [Binding(s.key, f"show('{s.mode}')", s.title, id=f"show-{s.mode}",
-                       key_display=s.key.upper(), group=SCREENS_GROUP, tooltip=s.tooltip)
-               for s in SCREENS]
-"""A key for each screen of the registry (F2 Liquid, F3 Branches, F4 Split)."""
-
-
-_CORE_LOCK = threading.Lock()
-
-
-def _load_core(solver: bool) -> None:
-    """Load the core's plain-Python modules that the screens import when first drawn (the
-    catalogs, the liquids, the reader of typed values; about 25 ms), and with ``solver`` the
-    solve's own (numpy and the rest). The app's thread does the first part once its first
-    screen is drawn, the solve's worker both; one at a time and in this order: two threads
-    importing the same modules in crossed orders can make one of the imports fail (Python
-    3.11), as a screen opened while the first solve loaded once did."""
-    with _CORE_LOCK:
-        import branchwise.core.catalogs.bare_size  # noqa: F401
-        import branchwise.core.fluids  # noqa: F401
-        import branchwise.core.units.parse  # noqa: F401
-
-        if solver:
-            import branchwise.core.site.build  # noqa: F401
-            import branchwise.core.site.solve  # noqa: F401
-            import branchwise.tui.state.outcome  # noqa: F401
-
-
-class Solved(Message):
-    """A solve finished (posted from the worker thread)."""
-
-    def __init__(self, outcome: Outcome) -> None:
-        super().__init__()
-        self.outcome = outcome
-
 
 class BranchwiseApp(App[None]):
     """Parallel-branch pipe hydraulics for a walkdown, on the keyboard.
@@ -112,31 +71,7 @@ class BranchwiseApp(App[None]):
                 Path(__file__).parent / "screens" / "split" / "split.tcss"]
     MODES = {s.mode: s.build for s in SCREENS}
     DEFAULT_MODE = FIRST
-    BINDINGS = [
-        Binding("f1,question_mark", "help", "Help", id="help", key_display="F1",
-                tooltip="Every key of this screen, and where things are"),
-        *SCREEN_KEYS,
-        Binding("ctrl+s", "save", "Save", id="save", priority=True,
-                tooltip="Save the site to its file (asks for a name the first time)"),
-        Binding("ctrl+r", "save_as", "Save as", id="save-as", priority=True, show=False,
-                tooltip="Save the site under another name"),
-        Binding("f8", "rename", "Site, readings", id="rename", show=False, key_display="F8",
-                tooltip="The site's name; who took the readings, when, with which instruments "
-                        "(the walkdown record)"),
-        Binding("ctrl+o", "open_sites", "Sites", id="open", priority=True, show=False,
-                tooltip="Open a saved or recent site, the demo, or a new one"),
-        Binding("ctrl+t", "toggle_units", "SI/US", id="units", priority=True, show=False,
-                tooltip="Show results in SI or US customary units"),
-        Binding("f6", "unit_choices", "Units", id="unit-choices", show=False, key_display="F6",
-                tooltip="Choose the display unit of each quantity"),
-        Binding("ctrl+z", "undo", "Undo", id="undo", tooltip="Undo the last change"),
-        Binding("ctrl+y", "redo", "Redo", id="redo", show=False, tooltip="Redo"),
-        Binding("ctrl+q", "quit", "Quit", id="quit", priority=True,
-                tooltip="Quit (asks first if there are unsaved changes)"),
-        Binding("exclamation_mark,f7", "cautions", "Cautions", id="cautions", key_display="!",
-                show=False,
-                tooltip="What these numbers are and are not good for"),
-    ]
+    BINDINGS = APP_KEYS
 
     revision: reactive[int] = reactive(0, init=False)
     outcome: reactive[Outcome | None] = reactive(None, init=False, always_update=True)
@@ -156,13 +91,15 @@ class BranchwiseApp(App[None]):
         self.latest_band: Band | None = None
         """The last uncertainty band the Split screen worked out (exports use it if current)."""
         self.startup_seconds: float | None = None
-        self._keys_timer: Timer | None = None
-        self._key_state: tuple[object, ...] | None = None
         self._palette: Screen | None = None
         self.key_gate = KeyGate(self)
         """Keys typed in a burst, handled one after the other (see :mod:`.keygate`)."""
         self.files = SiteFiles(self)
         """Open, save, the recovery copy, exports: everything that touches files."""
+        self.key_rules = KeyRules(self)
+        """What the app's keys can do now, and the footer redrawn when that changes."""
+        self.solver = SolveRunner(self)
+        """The solve of each revision, in a worker."""
         self._modes[FIRST] = self._first_screen
         site, note, self._remember_on_start = self.files.first_site(
             Path(site_path) if site_path else None)
@@ -301,7 +238,7 @@ class BranchwiseApp(App[None]):
             self.notify(self._note, severity="warning", timeout=8)
         if self._remember_on_start:
             self.save_settings()  # so that a plain `branchwise` comes back to this site
-        _load_core(solver=False)
+        load_core(solver=False)
         self.request_solve()
         self.files.offer_recovery()
 
@@ -328,24 +265,7 @@ class BranchwiseApp(App[None]):
 
     def request_solve(self) -> None:
         self.solving = True
-        self._solve(self.session.site, self.session.revision)
-
-    @work(thread=True, exclusive=True, exit_on_error=False, group="solve")
-    def _solve(self, site: Site, revision: int) -> None:
-        from branchwise.core.errors import BranchwiseError
-
-        _load_core(solver=True)
-        from .state.outcome import Outcome, compute
-
-        try:
-            outcome = compute(site, revision)
-        except Exception as exc:  # a bug, not bad input: say so on screen, keep the app alive
-            self.log.error(f"solve failed: {exc!r}")
-            outcome = Outcome(revision, None, None, BranchwiseError(
-                f"internal error while solving ({type(exc).__name__}: {exc}); the inputs are "
-                "kept — please report it"), 0.0)
-        if not get_current_worker().is_cancelled:
-            self.post_message(Solved(outcome))
+        self.solver.start(self.session.site, self.session.revision)
 
     def on_solved(self, message: Solved) -> None:
         outcome = message.outcome
@@ -360,22 +280,8 @@ class BranchwiseApp(App[None]):
     # ---- screens and keys -----------------------------------------------------------------------
 
     def refresh_keys(self) -> None:
-        """Redraw the footer's keys once typing pauses, and only when what is available has
-        changed (the footer rebuilds itself on a refresh: too slow for every keystroke)."""
-        if self._keys_timer is not None:
-            self._keys_timer.stop()
-        self._keys_timer = self.set_timer(KEYS_DELAY, self._refresh_keys_now)
-
-    def _refresh_keys_now(self) -> None:
-        if not self.is_running or not self.screen_stack:
-            return  # the app is closing
-        outcome = self.outcome
-        state = (bool(self.session.undo_stack), bool(self.session.redo_stack),
-                 self.session.dirty, self.session.path, outcome is not None and outcome.ok,
-                 self.current_mode, len(self.screen_stack))
-        if state != self._key_state:
-            self._key_state = state
-            self.refresh_bindings()
+        """Redraw the footer's keys once typing pauses (:class:`~.key_rules.KeyRules`)."""
+        self.key_rules.refresh()
 
     async def action_show(self, mode: str) -> None:
         if not self.is_running:  # a switch asked for as the app shuts down (a key that closed
@@ -397,27 +303,11 @@ class BranchwiseApp(App[None]):
 
     def available(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         """Whether an app action can run on the screen below any dialog (None: greyed)."""
-        if action == "show" and parameters and parameters[0] == self.current_mode:
-            return None
-        if action == "undo" and not self.session.undo_stack:
-            return None
-        if action == "redo" and not self.session.redo_stack:
-            return None
-        if action == "save" and not self.session.dirty and self.session.path is not None:
-            return None
-        return True
+        return self.key_rules.available(action, parameters)
 
     def unavailable_reason(self, action: str, parameters: tuple[object, ...]) -> str:
         """Why a greyed-out app action cannot run now (shown when its key is pressed)."""
-        if action == "undo":
-            return "Nothing to undo."
-        if action == "redo":
-            return "Nothing to redo."
-        if action == "save" and self.session.path is not None:
-            return f"Nothing to save: no changes since it was saved to {self.session.path.name}."
-        if action == "show":
-            return f"This is the {TITLES.get(str(parameters[0]), '')} screen."
-        return ""
+        return self.key_rules.reason(action, parameters)
 
     @classmethod
     def _own_actions(cls) -> set[str]:

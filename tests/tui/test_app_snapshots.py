@@ -42,7 +42,7 @@ async def shot(pilot, ui, name: str, problems: list[str]) -> None:
     """Settle, let the footer catch up with what is available, and compare the screen."""
     app = pilot.app
     await ui.settle(pilot)
-    app._refresh_keys_now()  # the footer otherwise waits for a pause in typing
+    app.key_rules.refresh_now()  # the footer otherwise waits for a pause in typing
     await pilot.pause()
     await pilot.pause()
     check(name, app.export_screenshot(), ui.text(app), problems)

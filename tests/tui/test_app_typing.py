@@ -47,7 +47,7 @@ def test_enter_in_a_value_moves_to_the_next_field_and_letters_stay_in_fields(ui)
             await ui.settle(pilot)
             assert app.focused.id == "given-value"  # round to the first field
             # The footer says how typing ends while in a field, and not once out of it.
-            app._refresh_keys_now()
+            app.key_rules.refresh_now()
             await pilot.pause()
             assert "Enter next · Esc" in footer_text(app)
             await pilot.press("escape")
