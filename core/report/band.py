@@ -16,7 +16,7 @@ from typing import TYPE_CHECKING, Any
 from ..finds import found_kind, found_noun
 from ..model import TotalFlow
 from ..site.solve import SiteResult
-from ..units import Units, format_number, units_for
+from ..units import Units, format_number, temperature_step, units_for
 
 if TYPE_CHECKING:
     from ..numerics.sampling import InputTolerance
@@ -122,8 +122,8 @@ def tolerance_text(inp: InputTolerance, reader: Units | str = "si") -> str:
     a, show = inp.half_width, units_for(reader)
     if inp.kind == "gauge":
         return f"± {show.quantity(a, 'pressure', 3)}"
-    if inp.kind == "temperature":  # a difference: 1 K = 1.8 °F (exact, by the scales' definition)
-        scale, unit = (1.8, "°F") if show.system == "us" else (1.0, "K")
+    if inp.kind == "temperature":  # a difference, in the degrees temperatures are shown in
+        scale, unit = temperature_step(show.unit("temperature"))
         if inp.centre:  # cut where the liquid freezes or boils: the range drawn, from nominal
             low, high = (inp.centre - a) * scale, (inp.centre + a) * scale
             return f"{_signed(low)} … {_signed(high)} {unit}"

@@ -19,6 +19,7 @@ from .registry import registry
 
 # ---- writing ---------------------------------------------------------------------------------
 
+
 @cache
 def _affine(unit: str, kind: str) -> tuple[float, float]:
     """(scale, offset) such that value_in_unit = scale · value_si + offset."""
@@ -73,6 +74,18 @@ def unit_label(unit: str) -> str:
     return unit
 
 
+def temperature_step(unit: str) -> tuple[float, str]:
+    """How a difference of temperatures is shown beside temperatures shown in ``unit``: the
+    size of one kelvin in that unit's degrees, and the label — kelvins for kelvins and degrees
+    Celsius (a degree Celsius is a kelvin), else the unit's own (1 K = 1.8 °F, by the scales'
+    definitions)."""
+    try:
+        scale, _ = _affine(unit, "temperature")
+    except (InputError, ValueError):  # a unit that does not read: the SI words
+        return 1.0, "K"
+    return (1.0, "K") if math.isclose(scale, 1.0) else (scale, unit_label(unit))
+
+
 def format_number(value: float, digits: int = 4) -> str:
     """``value`` with ``digits`` significant figures, without an exponent for everyday sizes."""
     if not math.isfinite(value):
@@ -116,9 +129,10 @@ def restate(text: str, system: str = "si", units: Mapping[str, str] | None = Non
             from ..model import CV_PER_KV
 
             return f"Cv {value_si * CV_PER_KV:.3g}"
-        if kind == "temperature_difference":  # in °F where temperatures are: 1 K = 1.8 °F
-            in_f = (chosen.get("temperature") or display_unit("temperature", system)) == "degF"
-            return f"{value_si * 1.8:.3g} °F" if in_f else si_text(value_si, kind)
+        if kind == "temperature_difference":  # in the degrees temperatures are shown in
+            scale, label = temperature_step(chosen.get("temperature")
+                                            or display_unit("temperature", system))
+            return f"{value_si * scale:.3g} {label}"
         if kind not in KINDS or (system == "si" and unit is None):
             return si_text(value_si, kind)
         if limit:  # a limit in another unit: rounded as the trade quotes it

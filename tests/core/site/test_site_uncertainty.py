@@ -342,6 +342,29 @@ def test_a_tolerance_past_a_property_model_s_range_is_not_cut(fluid, limit):
     assert "± 2 K" in restate(note, "us", {"temperature": "K"})
 
 
+@pytest.mark.parametrize(("system", "chosen", "note", "row"), [
+    ("si", None, "± 2 K", "± 2.00 K"),
+    ("us", None, "± 3.6 °F", "± 3.60 °F"),
+    ("si", "degF", "± 3.6 °F", "± 3.60 °F"),
+    ("si", "°F", "± 3.6 °F", "± 3.60 °F"),  # as a settings file may spell it
+    ("us", "K", "± 2 K", "± 2.00 K"),
+    ("us", "degC", "± 2 K", "± 2.00 K"),  # a degree Celsius is a kelvin
+    ("si", "degR", "± 3.6 degR", "± 3.60 degR"),  # a degree Rankine is a degree Fahrenheit
+])
+def test_a_temperature_difference_is_in_the_degrees_temperatures_are_shown_in(
+        system, chosen, note, row):
+    # The note of a tolerance left out and the band's row of a tolerance drawn read the same
+    # difference in the same unit: 1 K = 1.8 °F = 1.8 °R, by the scales' definitions.
+    from branchwise.core.messages import temperature_difference_text
+    from branchwise.core.numerics.sampling import InputTolerance
+    from branchwise.core.units import Units
+
+    chosen_units = {"temperature": chosen} if chosen else {}
+    assert restate(f"± {temperature_difference_text(2.0)}", system, chosen_units) == note
+    drawn = InputTolerance("temperature", "temperature", 2.0)
+    assert tolerance_text(drawn, Units(system, chosen_units)) == row
+
+
 def test_site_bands_are_ordered_seeded_and_hold_the_solve(capsys):
     site = load_site(DEMO_PATH)
     sr = solve_site(site)
