@@ -146,6 +146,30 @@ def test_band_by_keys(ui, monkeypatch):
     ui.run(scenario)
 
 
+def test_a_band_reopened_while_current_waits_for_a_pause_after_the_next_edit(ui):
+    # Opening the view works a band out at once; opened again on a band that is still
+    # current there is nothing to work out, and the next edit waits for typing to pause, as
+    # every edit does (it once started at once).
+    async def scenario() -> None:
+        async with ui.started() as (app, pilot):
+            screen = app.screen
+            await pilot.press("b")
+            await until(pilot, lambda: screen.views.band_panel.band_state() == "current")
+            await pilot.press("b", "b")
+            await ui.settle(pilot)
+            panel = screen.views.band_panel
+            assert panel.band_state() == "current"
+            shown = panel.band.revision
+            panel.band_pause = 60.0
+            await pilot.press("v")
+            await ui.type(pilot, "12 psi")
+            await ui.settle(pilot)
+            assert panel.band_state() == "stale"
+            assert panel.band.revision == shown  # no band was started for any keystroke
+
+    ui.run(scenario)
+
+
 def test_curve_and_tolerances(ui, tmp_path):
     site_file = tmp_path / "plant-b.toml"
     text = demo_text()

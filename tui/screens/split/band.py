@@ -90,6 +90,9 @@ class BandPanel(BandView):
             self._band_timer.stop()
             self._band_timer = None
         if not self._wanted():
+            band = self.band
+            if band is not None and band.revision == self.bw.session.revision:
+                self.now = False  # opened on a current band: the next edit waits for a pause
             return
         if self.now:
             self._start()
