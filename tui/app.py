@@ -57,6 +57,7 @@ if TYPE_CHECKING:  # made by the solve's worker, after the first screen is drawn
 gc.freeze()
 gc.enable()  # rests once more while the first screen is built (:meth:`_first_screen`)
 
+
 class BranchwiseApp(App[None]):
     """Parallel-branch pipe hydraulics for a walkdown, on the keyboard.
 

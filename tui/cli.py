@@ -56,7 +56,6 @@ BY_SUFFIX = {".csv": "csv", ".json": "json", ".md": "markdown", ".markdown": "ma
 """The format an -o FILE's name asks for when --format is not given."""
 
 
-
 def _version() -> str:
     from branchwise.core.report.lines import version
 

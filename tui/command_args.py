@@ -14,6 +14,7 @@ WIDTH_DEFAULT, WIDTH_MIN, WIDTH_MAX = 80, 40, 1000
 """The text table's line width: the terminal's (or COLUMNS) when writing to a terminal, 80
 otherwise, --width over both; kept within WIDTH_MIN to WIDTH_MAX columns."""
 
+
 def whole(text: str | None, option: str, low: int, high: int | None, default: int) -> int:
     """The whole number typed for ``option`` (``10000``, ``10_000``, ``1e4``), in range."""
     from branchwise.core.errors import InputError

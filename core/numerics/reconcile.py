@@ -55,6 +55,7 @@ from .tolerances import Thermal, Tolerances
 MODEL_STEP = 1e-4
 """δ of the finite differences of the model terms, in units of each input's half-width."""
 
+
 class _Model:
     """g(H), dg/dH and the model covariance of g at H for one header and its readings."""
 

@@ -52,7 +52,6 @@ def _wrap(text: str, first: str = "", rest: str = "  ", width: int = WIDTH) -> l
     return [line.replace("\u00a0", " ") for line in lines] or [first.rstrip()]
 
 
-
 def to_table(sr: SiteResult, reader: Units | str = "si", width: int = WIDTH) -> str:
     """A readable plain-text report in the reader's units: the record header, the flows and
     the losses as two tables, then the solved unknown, the bands, the warnings, the notes and

@@ -18,6 +18,7 @@ if TYPE_CHECKING:
 
 # ---- values --------------------------------------------------------------------------------
 
+
 def quantity(value: Value, kind: str, path: str) -> float:
     """The SI value of a quantity typed at ``path``, which must be there."""
     if value is None:

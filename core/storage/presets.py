@@ -41,6 +41,7 @@ GRAVITY_RANGE = (9.7, 9.9)
 """Accepted local gravity, m/s². WGS 84 normal gravity runs from about 9.780 at the equator to
 9.832 m/s² at the poles (from memory — verify), less about 0.003 m/s² per km of height."""
 
+
 class PresetSource(Protocol):
     """Where saved presets come from when a site is built: a :class:`PresetStore`, or a test's
     dict-backed stand-in."""

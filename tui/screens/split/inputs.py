@@ -235,6 +235,7 @@ class GivenFindRows(Vertical):
             return
         # The new given keeps the value read for it, or waits for one: the answer is never
         # written in as a reading (it would be weighed and saved as if someone had read it).
+
         def change(s: Site) -> None:
             make_given(s, new_kind, new_index)
 
@@ -291,7 +292,6 @@ class GivenFindRows(Vertical):
                                                       if branch in names else None, down=True)
         app.edit(f"Find the {find}", lambda s: set_find(s, find, branch, target))
         self.query_one("#find-target", Input).focus()
-
 
 
 CARRIED_DIGITS = 7

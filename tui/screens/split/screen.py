@@ -100,7 +100,6 @@ class SplitScreen(WorkScreen):
     def action_tolerances(self) -> None:
         self.views.edit_tolerances()
 
-
     def action_field(self, ident: str) -> None:
         """Put the cursor in a field (or, for ``results``, on the table, band or curve)."""
         widget = self.views.main_view() if ident == "results" else self.query_one(f"#{ident}")
