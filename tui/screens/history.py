@@ -97,7 +97,8 @@ class HistoryScreen(WorkScreen):
             self._work(self.bw.site, revision)
         self._draw()
 
-    @work(thread=True, exclusive=True, exit_on_error=False, group="history")
+    @work(thread=True, exclusive=True, exit_on_error=False, group="history",
+          description="history")  # not the repr of its arguments (the whole site)
     def _work(self, site: Site, revision: int) -> None:
         from branchwise.core.errors import BranchwiseError
         from branchwise.core.history import history_of

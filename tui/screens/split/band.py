@@ -113,7 +113,8 @@ class BandPanel(BandView):
                       app.unit_system, dict(app.settings.display_units))
         self.draw()
 
-    @work(thread=True, exclusive=True, exit_on_error=False, group="band")
+    @work(thread=True, exclusive=True, exit_on_error=False, group="band",
+          description="band")  # not the repr of its arguments (the whole site)
     def _compute(self, site: Site, revision: int, solved: SiteResult, system: str,
                  units: dict[str, str]) -> None:
         from branchwise.core.errors import BranchwiseError

@@ -77,7 +77,8 @@ class CurvePanel(CurvePlot):
             self.show(self.plot_data(curve) if curve is not None else None,
                       f"No system curve: {error}")
 
-    @work(thread=True, exclusive=True, exit_on_error=False, group="curve")
+    @work(thread=True, exclusive=True, exit_on_error=False, group="curve",
+          description="curve")  # not the repr of its arguments (the whole site)
     def _compute(self, outcome: Outcome) -> None:
         from branchwise.core.errors import BranchwiseError
         from branchwise.core.numerics.curve import system_curve
