@@ -10,6 +10,7 @@ from textual.message import Message
 from textual.widgets import Input, Label, Static
 
 from ..quiet import put, show_text
+from .value_input import ValueInput
 
 
 class Field(Vertical):
@@ -62,7 +63,7 @@ class Field(Vertical):
     def compose(self) -> ComposeResult:
         with Horizontal():
             yield Label(self.label, classes="field-label")
-            yield Input(self._value, placeholder=self._placeholder, compact=True)
+            yield ValueInput(self._value, placeholder=self._placeholder, compact=True)
             yield Label("", classes="field-unit", markup=False)
         yield Static("", classes="field-message", markup=False)
 

@@ -35,6 +35,7 @@ from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
 from ...theme import colour
 from ...widgets.branchtable import BranchTable
+from ...widgets.value_input import ValueInput
 from ..work_screen import WorkScreen
 from .cells import (
     BRANCH_COLUMNS,
@@ -100,7 +101,7 @@ class BranchesScreen(WorkScreen):
                 yield Static("", id="cell-title", markup=False)
                 with Horizontal():
                     yield Label("", id="cell-label", markup=False)
-                    yield Input(id="cell-input", compact=True)
+                    yield ValueInput(id="cell-input", compact=True)
 
     def on_mount(self) -> None:
         self._rows = []

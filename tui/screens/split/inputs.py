@@ -39,6 +39,7 @@ from ...state.marks import error_mark
 from ...state.session import find_of, set_find
 from ...state.values import branch_name, text_of, with_unit
 from ...widgets.choice import Choice
+from ...widgets.value_input import ValueInput
 from ...workspace import workspace
 
 if TYPE_CHECKING:
@@ -336,8 +337,8 @@ def _field(ident: str, *, placeholder: str = "", tooltip: str | None = None,
     """A compact typing field. It starts with the class Textual gives a field that is valid
     (it has no validators), so that setting it as the value arrives is no change: otherwise
     that restyles the field and its four parts once more as the screen is built."""
-    return Input(id=ident, compact=True, placeholder=placeholder, tooltip=tooltip,
-                 classes=f"{classes} -valid".strip())
+    return ValueInput(id=ident, compact=True, placeholder=placeholder, tooltip=tooltip,
+                      classes=f"{classes} -valid".strip())
 
 
 def _hidden(widget: Static) -> Static:
