@@ -15,6 +15,7 @@ from dataclasses import dataclass
 from functools import cached_property
 from typing import TYPE_CHECKING
 
+from ..catalogs import crane_ft, crane_nominal
 from ..messages import marked
 from ..model import CV_PER_KV, STANDARD_GRAVITY, Segment
 from .spec import SegmentSpec, Site, Value
@@ -105,8 +106,6 @@ def _site_wide(site: Site, built: Built) -> list[Assumption]:
 def _segment(spec: SegmentSpec, seg: Segment, size: object, k_fittings: float,
              friction: str, material_of: Callable[[str], Material],
              found_bore: float | None = None) -> list[tuple[str, str]]:
-    from ..catalogs import crane_ft, crane_nominal
-
     out: list[tuple[str, str]] = []
     if size is not None:
         label = getattr(size, "label", str(size))

@@ -15,14 +15,14 @@ from __future__ import annotations
 import copy
 import time
 from collections.abc import Callable
-from dataclasses import dataclass, field, fields, is_dataclass
+from dataclasses import dataclass, field
 from pathlib import Path, PosixPath, WindowsPath
 from typing import TypeVar, cast
 
 from branchwise.core.finds import FINDS
 from branchwise.core.site.spec import BranchSpec, SegmentSpec, Site, SolveSpec
 
-from .values import make_inert, text_of, unique_name
+from .values import field_names, make_inert, text_of, unique_name
 
 T = TypeVar("T")
 
@@ -219,6 +219,21 @@ _ATOMS = frozenset({str, int, float, bool, type(None)})
 """Values a copy may share with the original (immutable, of exactly these types)."""
 
 
+_COPIED_FIELDS: dict[type, tuple[str, ...] | None] = {}
+
+
+def _copied_fields(kind: type) -> tuple[str, ...] | None:
+    """The fields :func:`copied` copies one by one: those of a dataclass without slots
+    (worked out once per type)."""
+    try:
+        return _COPIED_FIELDS[kind]
+    except KeyError:
+        names = field_names(kind)
+        plan = None if names is None or hasattr(kind, "__slots__") else names
+        _COPIED_FIELDS[kind] = plan
+        return plan
+
+
 def copied(value: T) -> T:
     """A deep copy of a site (a tree of dataclasses, lists and dicts holding text and numbers),
     the same as :func:`copy.deepcopy` makes of it, several times faster: an edit copies the
@@ -230,9 +245,10 @@ def copied(value: T) -> T:
         return cast(T, [copied(v) for v in cast(list[object], value)])
     if kind is dict:
         return cast(T, {k: copied(v) for k, v in cast(dict[object, object], value).items()})
-    if is_dataclass(value) and not isinstance(value, type) and not hasattr(value, "__slots__"):
+    names = _copied_fields(kind)
+    if names is not None:
         new = copy.copy(value)
-        for item in fields(value):
-            object.__setattr__(new, item.name, copied(getattr(value, item.name)))
+        for name in names:
+            object.__setattr__(new, name, copied(getattr(value, name)))
         return new
     return copy.deepcopy(value)

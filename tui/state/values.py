@@ -9,6 +9,7 @@ from __future__ import annotations
 import re
 from dataclasses import fields, is_dataclass
 from pathlib import Path
+from typing import cast
 
 from branchwise.core.errors import inert
 from branchwise.core.site.spec import Site
@@ -59,19 +60,34 @@ _NOT_VALUES = ("source", "origin")
 """Fields of a site that are not values typed (the file it came from, its text)."""
 
 
+_FIELD_NAMES: dict[type, tuple[str, ...] | None] = {}
+
+
+def field_names(kind: type) -> tuple[str, ...] | None:
+    """The field names of a dataclass type, worked out once per type (an edit walks every
+    object of a site, on every keystroke); None for any other type."""
+    try:
+        return _FIELD_NAMES[kind]
+    except KeyError:
+        names = tuple(item.name for item in fields(kind)) if is_dataclass(kind) else None
+        _FIELD_NAMES[kind] = names
+        return names
+
+
 def make_inert(spec: object) -> bool:
     """Show every control character in the texts of a site (a dataclass tree) escaped, in
     place: a name, tag, note or record line from a file then cannot reach the terminal as a
     command (clear the screen, set the window title). True if anything was changed."""
-    if not is_dataclass(spec) or isinstance(spec, type):
+    names = field_names(type(spec))
+    if names is None:
         return False
     changed = False
-    for item in fields(spec):
-        if item.name in _NOT_VALUES:
+    for name in names:
+        if name in _NOT_VALUES:
             continue
-        new, touched = _inert_value(getattr(spec, item.name))
+        new, touched = _inert_value(getattr(spec, name))
         if touched:
-            setattr(spec, item.name, new)
+            setattr(spec, name, new)
             changed = True
     return changed
 
@@ -79,10 +95,16 @@ def make_inert(spec: object) -> bool:
 def _inert_value(value: object) -> tuple[object, bool]:
     """``value`` with its texts made inert, and whether anything changed (a dataclass
     inside is changed in place)."""
-    if isinstance(value, str):
+    kind = type(value)
+    if kind is str:
+        safe = inert(cast(str, value))
+        return safe, safe != value
+    if kind in _PLAIN:
+        return value, False
+    if isinstance(value, str):  # a kind of text
         safe = inert(value)
         return safe, safe != value
-    if is_dataclass(value) and not isinstance(value, type):
+    if field_names(kind) is not None:
         return value, make_inert(value)
     if isinstance(value, dict):
         pairs = [(_inert_value(k), _inert_value(v)) for k, v in value.items()]
@@ -95,6 +117,10 @@ def _inert_value(value: object) -> tuple[object, bool]:
             return value, False
         return [v for v, _ in items], True
     return value, False
+
+
+_PLAIN = frozenset({int, float, bool, type(None)})
+"""Values with no text in them."""
 
 
 def branch_name(site: Site, index: int) -> str:
