@@ -58,6 +58,10 @@ gc.freeze()
 gc.enable()  # rests once more while the first screen is built (:meth:`_first_screen`)
 
 
+NOTICE_GONE = 0.3
+"""Seconds after a notice's time is up by which it has been taken away (it slides out)."""
+
+
 class BranchwiseApp(App[None]):
     """Parallel-branch pipe hydraulics for a walkdown, on the keyboard.
 
@@ -147,9 +151,13 @@ class BranchwiseApp(App[None]):
     def notify(self, message: str, *, title: str = "", severity: SeverityLevel = "information",
                timeout: float | None = None, markup: bool = False) -> None:
         """A notice, its text shown as it is: a name or path in it is neither markup nor able
-        to send the terminal a command (control characters escaped)."""
+        to send the terminal a command (control characters escaped). Once it has gone the
+        screen is drawn whole again: Textual takes the notice away but leaves it on the
+        terminal until something else covers it."""
         super().notify(inert(message), title=inert(title), severity=severity, timeout=timeout,
                        markup=markup)
+        shown = self.NOTIFICATION_TIMEOUT if timeout is None else timeout
+        self.set_timer(shown + NOTICE_GONE, self.refresh)
 
     # ---- state the screens read --------------------------------------------------------------
 
