@@ -25,4 +25,8 @@ class ValueInput(Input):
                 self.set_reactive(Widget.virtual_size, size)
                 self.scroll_x = self.validate_scroll_x(self.scroll_x)
                 self.refresh()
-        super()._watch_value(value)
+        # Input's own watcher, by the name Textual 6 to 8 give it (a release that renamed it
+        # would call its own and this one both: nothing is lost, the layout comes back)
+        own = getattr(super(), "_watch_value", None)
+        if own is not None:
+            own(value)
