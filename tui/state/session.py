@@ -219,21 +219,6 @@ _ATOMS = frozenset({str, int, float, bool, type(None)})
 """Values a copy may share with the original (immutable, of exactly these types)."""
 
 
-_COPIED_FIELDS: dict[type, tuple[str, ...] | None] = {}
-
-
-def _copied_fields(kind: type) -> tuple[str, ...] | None:
-    """The fields :func:`copied` copies one by one: those of a dataclass without slots
-    (worked out once per type)."""
-    try:
-        return _COPIED_FIELDS[kind]
-    except KeyError:
-        names = field_names(kind)
-        plan = None if names is None or hasattr(kind, "__slots__") else names
-        _COPIED_FIELDS[kind] = plan
-        return plan
-
-
 def copied(value: T) -> T:
     """A deep copy of a site (a tree of dataclasses, lists and dicts holding text and numbers),
     the same as :func:`copy.deepcopy` makes of it, several times faster: an edit copies the
@@ -245,8 +230,8 @@ def copied(value: T) -> T:
         return cast(T, [copied(v) for v in cast(list[object], value)])
     if kind is dict:
         return cast(T, {k: copied(v) for k, v in cast(dict[object, object], value).items()})
-    names = _copied_fields(kind)
-    if names is not None:
+    names = field_names(kind)  # (worked out once per type)
+    if names is not None and not hasattr(kind, "__slots__"):
         new = copy.copy(value)
         for name in names:
             object.__setattr__(new, name, copied(getattr(value, name)))

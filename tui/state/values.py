@@ -9,7 +9,6 @@ from __future__ import annotations
 import re
 from dataclasses import fields, is_dataclass
 from pathlib import Path
-from typing import cast
 
 from branchwise.core.errors import inert
 from branchwise.core.site.spec import Site
@@ -96,12 +95,9 @@ def _inert_value(value: object) -> tuple[object, bool]:
     """``value`` with its texts made inert, and whether anything changed (a dataclass
     inside is changed in place)."""
     kind = type(value)
-    if kind is str:
-        safe = inert(cast(str, value))
-        return safe, safe != value
     if kind in _PLAIN:
         return value, False
-    if isinstance(value, str):  # a kind of text
+    if isinstance(value, str):
         safe = inert(value)
         return safe, safe != value
     if field_names(kind) is not None:
