@@ -37,12 +37,13 @@ try:
     from branchwise.core.storage.settings import Settings  # noqa: E402
     from branchwise.core.units import Units  # noqa: E402
 
+    from .core_loading import load_core  # noqa: E402
     from .files import SiteFiles  # noqa: E402
     from .key_rules import KeyRules  # noqa: E402
     from .keygate import KeyGate, Release  # noqa: E402
     from .keys import APP_KEYS, key_sections, system_commands  # noqa: E402
     from .screens.registry import FIRST, SCREENS  # noqa: E402
-    from .solving import Solved, SolveRunner, load_core  # noqa: E402
+    from .solving import Solved, SolveRunner  # noqa: E402
     from .state.session import Session, inert_note  # noqa: E402
 except BaseException:  # the app cannot load; the process goes on with its collector
     gc.enable()

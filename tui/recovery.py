@@ -22,6 +22,7 @@ from branchwise.core.site.read import parse_site
 from branchwise.core.site.spec import Site
 from branchwise.core.storage.recovery import Copy, Keeper
 
+from .core_loading import core_imports
 from .state.values import shown_path
 from .workspace import workspace
 
@@ -68,7 +69,8 @@ class Recovery:
         """Write the copy in a thread worker (one at a time: a newer copy replaces an older);
         a copy dropped meanwhile (saved, undone) is not written again."""
         def write() -> None:
-            from branchwise.core.site.write import dump_site
+            with core_imports():
+                from branchwise.core.site.write import dump_site
 
             text = dump_site(site)
             try:

@@ -8,12 +8,13 @@ error); a fault in the core is said on screen as an internal error, and the app 
 
 from __future__ import annotations
 
-import threading
 from functools import partial
 from typing import TYPE_CHECKING, Any
 
 from textual.message import Message
 from textual.worker import get_current_worker
+
+from .core_loading import load_core
 
 if TYPE_CHECKING:
     from textual.app import App
@@ -21,26 +22,6 @@ if TYPE_CHECKING:
     from branchwise.core.site.spec import Site
 
     from .state.outcome import Outcome
-
-_CORE_LOCK = threading.Lock()
-
-
-def load_core(solver: bool) -> None:
-    """Load the core's plain-Python modules that the screens import when first drawn (the
-    catalogs, the liquids, the reader of typed values; about 25 ms), and with ``solver`` the
-    solve's own (numpy and the rest). The app's thread does the first part once its first
-    screen is drawn, the solve's worker both; one at a time and in this order: two threads
-    importing the same modules in crossed orders can make one of the imports fail (Python
-    3.11), as a screen opened while the first solve loaded once did."""
-    with _CORE_LOCK:
-        import branchwise.core.catalogs.bare_size  # noqa: F401
-        import branchwise.core.fluids  # noqa: F401
-        import branchwise.core.units.parse  # noqa: F401
-
-        if solver:
-            import branchwise.core.site.build  # noqa: F401
-            import branchwise.core.site.solve  # noqa: F401
-            import branchwise.tui.state.outcome  # noqa: F401
 
 
 class Solved(Message):
@@ -66,9 +47,9 @@ class SolveRunner:
                             exclusive=True, exit_on_error=False)
 
     def _run(self, site: Site, revision: int) -> None:
+        load_core(solver=True)
         from branchwise.core.errors import BranchwiseError
 
-        load_core(solver=True)
         from .state.outcome import Outcome, compute
 
         try:

@@ -24,6 +24,7 @@ from textual.worker import get_current_worker
 
 from branchwise.core.site.spec import Site
 
+from ..core_loading import core_imports
 from ..drawing.sparkline import sparkline
 from ..quiet import put
 from ..theme import colour
@@ -100,8 +101,9 @@ class HistoryScreen(WorkScreen):
     @work(thread=True, exclusive=True, exit_on_error=False, group="history",
           description="history")  # not the repr of its arguments (the whole site)
     def _work(self, site: Site, revision: int) -> None:
-        from branchwise.core.errors import BranchwiseError
-        from branchwise.core.history import history_of
+        with core_imports():
+            from branchwise.core.errors import BranchwiseError
+            from branchwise.core.history import history_of
 
         history: History | None = None
         error: BaseException | None = None

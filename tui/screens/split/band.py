@@ -19,6 +19,7 @@ from textual import work
 from textual.message import Message
 from textual.worker import get_current_worker
 
+from ...core_loading import core_imports
 from ...theme import colour
 from ...widgets.bandview import WIDE, BandView, band_body, band_notes
 from ...workspace import workspace
@@ -117,12 +118,13 @@ class BandPanel(BandView):
           description="band")  # not the repr of its arguments (the whole site)
     def _compute(self, site: Site, revision: int, solved: SiteResult, system: str,
                  units: dict[str, str]) -> None:
-        from branchwise.core.errors import BranchwiseError
-        from branchwise.core.site.fields import error_text
-        from branchwise.core.site.solve import with_uncertainty
-        from branchwise.core.units import Units
+        with core_imports():
+            from branchwise.core.errors import BranchwiseError
+            from branchwise.core.site.fields import error_text
+            from branchwise.core.site.solve import with_uncertainty
+            from branchwise.core.units import Units
 
-        from ...state.outcome import Band, BandStopped, band_progress
+            from ...state.outcome import Band, BandStopped, band_progress
 
         worker = get_current_worker()
 

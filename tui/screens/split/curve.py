@@ -15,6 +15,7 @@ from textual import work
 from textual.message import Message
 from textual.worker import get_current_worker
 
+from ...core_loading import core_imports
 from ...theme import series as theme_series
 from ...widgets.curveplot import CurvePlot, PlotData, Series
 from ...workspace import workspace
@@ -80,8 +81,9 @@ class CurvePanel(CurvePlot):
     @work(thread=True, exclusive=True, exit_on_error=False, group="curve",
           description="curve")  # not the repr of its arguments (the whole site)
     def _compute(self, outcome: Outcome) -> None:
-        from branchwise.core.errors import BranchwiseError
-        from branchwise.core.numerics.curve import system_curve
+        with core_imports():
+            from branchwise.core.errors import BranchwiseError
+            from branchwise.core.numerics.curve import system_curve
 
         sr = outcome.solved
         curve, error = None, ""
