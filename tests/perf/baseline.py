@@ -52,22 +52,35 @@ def module(core: ModuleType, name: str) -> ModuleType:
 
 
 def interleaved(fns: dict[str, Callable[[], object]], rounds: int = 15,
-                number: int = 1) -> dict[str, float]:
+                number: int = 1, span: float | None = None) -> dict[str, float]:
     """Median CPU seconds per call of each function, the functions run in turn ``rounds``
     times (each turn ``number`` calls), so that load on the machine falls on all alike. The
     order turns by one each round, so that none is always the first to read its data after
-    the others have filled the caches."""
-    for fn in fns.values():
+    the others have filled the caches.
+
+    ``span`` (s): instead of ``number``, each turn of each function lasts about that long (the
+    count per turn worked out from the warm-up). The first call of a turn pays for the caches
+    the others have used; in turns of equal length every function pays that in the same
+    proportion, where in turns of equal count a fast function pays it over far less time
+    than a slow one."""
+    counts = dict.fromkeys(fns, number)
+    for key, fn in fns.items():
         fn()  # warm-up
+        if span is not None:  # calls for about a fifth of the span give the count
+            calls, start = 0, time.process_time()
+            while (spent := time.process_time() - start) < span / 5:
+                fn()
+                calls += 1
+            counts[key] = max(1, round(span * calls / spent))
     times: dict[str, list[float]] = {k: [] for k in fns}
     keys = list(fns)
     for r in range(rounds):
         for key in keys[r % len(keys):] + keys[:r % len(keys)]:
-            fn = fns[key]
+            fn, n = fns[key], counts[key]
             start = time.process_time()
-            for _ in range(number):
+            for _ in range(n):
                 fn()
-            times[key].append((time.process_time() - start) / number)
+            times[key].append((time.process_time() - start) / n)
     return {k: statistics.median(v) for k, v in times.items()}
 
 

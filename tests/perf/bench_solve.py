@@ -3,10 +3,12 @@
     python tests/perf/bench_solve.py [--rounds N]
 
 Every figure is a ratio of CPU-time medians, the functions compared run in turn in the same
-process (``baseline.interleaved``), so that load on the machine falls on all alike; each turn is
-10 consecutive calls of one function in part 1 and 20 in part 2 (a single call right after the
-others have run pays for their use of the caches: about 1.4× a solve's time, not the by-hand
-methods').
+process (``baseline.interleaved``), so that load on the machine falls on all alike. Each turn
+lasts about 5 ms, one call of the slowest by-hand method: the first call of a turn pays for the
+caches the other functions have used (for the solve, 2–3× its time), and in turns of equal
+length every function pays that in the same proportion. Part 1 also prints that first call
+alone, and the figure in turns of 10 calls each (the method of earlier rounds, which charged
+the solve's first call over 10 calls and a by-hand method's over one).
 
 1. Ten branches (two segments every fifth branch), flows at a given Δp: the whole ``solve()``
    against the method one would write by hand — scipy's brentq on each branch's flow with a
@@ -21,7 +23,9 @@ from __future__ import annotations
 
 import argparse
 import math
+import statistics
 import sys
+import time
 from collections.abc import Callable
 from pathlib import Path
 
@@ -140,6 +144,21 @@ def cases(net: Network) -> dict[str, tuple[Given, Find]]:
     }
 
 
+SPAN = 0.005
+"""Seconds a turn of each function lasts (about one call of the slowest by-hand method)."""
+
+
+def first_call(fn: Callable[[], object], before: Callable[[], object], rounds: int) -> float:
+    """Median CPU seconds of one call of ``fn`` right after one of ``before``."""
+    times = []
+    for _ in range(rounds):
+        before()
+        start = time.process_time()
+        fn()
+        times.append(time.process_time() - start)
+    return statistics.median(times)
+
+
 GOALS = {"total flow given": 10.0, "diameter found": 10.0}
 """Issue 15: ≥ 10× faster than the tree before the speed work."""
 
@@ -153,18 +172,26 @@ def main() -> None:
     head = DP / (WATER.density * G)
 
     print("\n1. ten branches, flows at a given Δp: by hand / branchwise solve()")
-    times = interleaved({
+    fns = {
         "solve": lambda: solve(net, PressureDrop(DP)),
         "fluids": lambda: by_hand(net, head, fluids_colebrook),
         "nested": lambda: by_hand(net, head, nested_colebrook),
         "fixed": lambda: by_hand(net, head, fixed_point_colebrook),
-    }, rounds=args.rounds, number=10)
+    }
+    times = interleaved(fns, rounds=args.rounds, span=SPAN)
     print(ratio_line("(a) brentq per branch, fluids.Colebrook", times["fluids"], times["solve"],
                      20))
     print(ratio_line("(b) brentq per branch, Colebrook by nested brentq", times["nested"],
                      times["solve"], 100))
     print(ratio_line("(c) brentq per branch, Colebrook by fixed point", times["fixed"],
                      times["solve"]))
+    first = first_call(fns["solve"], fns["nested"], args.rounds * 4)
+    print(f"  the first solve right after a by-hand run: {first * 1e6:.1f} µs, "
+          f"{first / times['solve']:.1f}× a solve in a turn")
+    tens = interleaved(fns, rounds=args.rounds, number=10)
+    print("  in turns of 10 calls (each function's first call charged over 10): "
+          f"(a) {tens['fluids'] / tens['solve']:.1f}×, (b) {tens['nested'] / tens['solve']:.1f}×, "
+          f"(c) {tens['fixed'] / tens['solve']:.1f}×")
 
     base = load_core()
     base_solve = module(base, "numerics.solve").solve
@@ -176,7 +203,7 @@ def main() -> None:
         t = interleaved({
             "today": lambda g=given, f=find: solve(net, g, f),
             "base": lambda g=b_given, f=b_find: base_solve(base_net, g, f),
-        }, rounds=args.rounds, number=20)
+        }, rounds=args.rounds, span=SPAN)
         print(ratio_line(label, t["base"], t["today"], GOALS.get(label)))
         ours, theirs = solve(net, given, find), base_solve(base_net, b_given, b_find)
         worst = max(worst, float(np.max(np.abs(ours.flows / theirs.flows - 1))))
