@@ -14,8 +14,8 @@ from pathlib import Path
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Horizontal, Vertical
-from textual.widgets import DataTable, Input, Label, Static
+from textual.containers import Vertical
+from textual.widgets import DataTable, Input, Static
 
 from branchwise.core.site.fields import FieldPath
 from branchwise.core.site.spec import BranchSpec, Site
@@ -25,8 +25,6 @@ from ...state.givens import (
     add_reading,
     clear_reading,
     given_of,
-    given_words,
-    held,
     remove_branch,
     weighs_all,
 )
@@ -35,8 +33,8 @@ from ...state.session import new_branch, rename_branch
 from ...state.values import branch_name, text_of, with_unit
 from ...theme import colour
 from ...widgets.branchtable import BranchTable
-from ...widgets.value_input import ValueInput
 from ..work_screen import WorkScreen
+from .cell_editor import CellEditor
 from .cells import (
     BRANCH_COLUMNS,
     COLUMNS,
@@ -49,6 +47,7 @@ from .cells import (
     same_pipe,
     setter,
 )
+from .hints import reading_hint, reads_as_flow
 from .understood import understood_lines
 
 WIDE = 100
@@ -97,11 +96,7 @@ class BranchesScreen(WorkScreen):
             yield table
             yield Static("", id="branch-understood", markup=False)
             yield Static("", id="branch-message", classes="message", markup=False)
-            with Vertical(id="cell-editor"):  # while a cell is edited: says so, marks it
-                yield Static("", id="cell-title", markup=False)
-                with Horizontal():
-                    yield Label("", id="cell-label", markup=False)
-                    yield ValueInput(id="cell-input", compact=True)
+            yield CellEditor(id="cell-editor")  # while a cell is edited: says so
 
     def on_mount(self) -> None:
         self._rows = []
@@ -229,15 +224,10 @@ class BranchesScreen(WorkScreen):
         self._editing = (i, j, key)
         self._editing_revision = self.bw.session.revision
         doing = f"Renaming {where}" if key == "name" else f"Editing {where} · {label}"
-        self.query_one("#cell-title", Static).update(f"✎ {doing} — Enter keeps · Esc cancels")
-        self.query_one("#cell-label", Label).update(f"{'Name' if key == 'name' else label}"
-                                                    f"{unit}: ")
-        self.query_one("#cell-editor").display = True
         self.query_one("#branches").add_class("-editing")  # marks the cell, hides the key hint
-        box = self.query_one("#cell-input", Input)
-        box.value = edit_text(br, seg, key) if key != "name" else text_of(br.name)
-        box.cursor_position = len(box.value)
-        box.focus()
+        self.query_one(CellEditor).open(
+            doing, f"{'Name' if key == 'name' else label}{unit}",
+            edit_text(br, seg, key) if key != "name" else text_of(br.name))
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         if event.input.id != "cell-input" or self._editing is None:
@@ -252,7 +242,7 @@ class BranchesScreen(WorkScreen):
 
     def _close_editor(self) -> None:
         self._editing = None
-        self.query_one("#cell-editor").display = False
+        self.query_one(CellEditor).close()
         self.query_one("#branches").remove_class("-editing")
         self.query_one("#branch-table", DataTable).focus()
 
@@ -285,7 +275,7 @@ class BranchesScreen(WorkScreen):
         value = with_unit(text, app.unit("flow"))
         if value:
             app.edit(f"Reading on {name}", lambda s: add_reading(s, i, value))
-            if not _reads_as_flow(value):
+            if not reads_as_flow(value):
                 return  # the error is said beside the field: no word that it was kept
             if given_of(app.site) == ("measured_flow", i) and not weighs_all(app.site):
                 self.notify(f"The reading on {name} is the given condition.", timeout=4)
@@ -429,29 +419,3 @@ class BranchesScreen(WorkScreen):
             return True if self.bw.site.branches else None
         return True
 
-
-def reading_hint(site: Site, given: tuple[str, int | None]) -> str:
-    """The line under the table: the keys, or, once a branch holds a reading, which reading
-    is the given and where the others are compared."""
-    if not site.measured_branches():
-        return ("Enter edit · e form · a add · c copy · s segment · Del remove · bare numbers "
-                "take the header's unit")
-    if weighs_all(site):
-        return ("Given: all readings, weighed together (x on Split, F4, says which agree); g "
-                "there changes the given.")
-    others = len(held(site)) - (1 if given in held(site) else 0)
-    return f"Given: the {given_words(site, *given)}." + (
-        " The other readings are compared with the answer on Split (F4); g there changes "
-        "the given." if others else " g on Split (F4) changes the given.")
-
-
-def _reads_as_flow(text: str) -> bool:
-    """Whether ``text`` reads as a flow (as the site's own check will read it)."""
-    from branchwise.core.errors import InputError
-    from branchwise.core.units import parse_quantity
-
-    try:
-        parse_quantity(text, "flow", "measured_flow")
-    except InputError:
-        return False
-    return True
