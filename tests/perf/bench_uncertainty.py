@@ -1,27 +1,38 @@
-"""Monte Carlo uncertainty: one vectorised solve of 10,000 drawn networks of 10 branches, against a
-per-sample Python loop of the deterministic ``solve``.
+"""Monte Carlo uncertainty, ten branches (a script, not a test): prints figures, asserts nothing.
 
-Run: /tmp/venv/bin/python tests/perf/bench_uncertainty.py  (prints figures; not a test)
+    python tests/perf/bench_uncertainty.py [--rounds N] [--no-memory]
 
-The loop is timed on a subset (LOOP_SAMPLES draws) and scaled to the full count; each of its
-steps builds the drawn network as model objects and calls ``solve`` (what a caller without the
-vectorised path would do). The vectorised figure is the whole ``monte_carlo`` call: the nominal
-solve, the draws, the GUM finite-difference rows and the percentiles. Best of REPEATS runs.
+1. Time: one ``monte_carlo`` call of 10,000 draws (the nominal solve, the draws, the GUM
+   finite-difference rows and the percentiles) against a loop of the deterministic ``solve`` over
+   the same drawn networks — what a caller without the vectorised path would write — in every
+   direction. The two run in turn in one process (``baseline.interleaved``, turns of about 0.3 s
+   each), CPU-time medians; the loop is timed on LOOP_SAMPLES draws a turn and scaled to 10,000.
+   The goal (issue 15) is on the wall-clock time of one call: the median of the same turns' wall
+   times is printed beside it.
+2. Memory: 100,000 draws in a fresh process for each direction; the process's peak resident
+   memory (``getrusage``'s ru_maxrss) once the call is done, and its rise over the same
+   process's peak before the call (imports and a small run done). Goal: ≤ 300 MB.
 """
 
 from __future__ import annotations
 
-import os
-import platform
+import argparse
+import resource
+import statistics
+import subprocess
+import sys
 import time
+from pathlib import Path
 
 import numpy as np
 
 from branchwise.core.model import (
     Branch,
+    Find,
     FindFlows,
     FindUnknown,
     Fluid,
+    Given,
     Network,
     PressureDrop,
     Segment,
@@ -31,9 +42,17 @@ from branchwise.core.numerics.sampling import build_plan
 from branchwise.core.numerics.solve import solve
 from branchwise.core.numerics.uncertainty import Thermal, Tolerances, monte_carlo
 
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from baseline import interleaved, machine  # noqa: E402
+
 SAMPLES = 10_000
 LOOP_SAMPLES = 300
-REPEATS = 3
+MEMORY_SAMPLES = 100_000
+WALL_GOAL = 0.5
+"""Seconds, one call of 10,000 draws × 10 branches (issue 15)."""
+MEMORY_GOAL = 300.0
+"""MB, the peak of a call of 100,000 draws × 10 branches (issue 15)."""
 
 
 def network() -> Network:
@@ -50,52 +69,90 @@ def network() -> Network:
     return Network(Fluid("water", 998.2, 1.002e-3, "water"), tuple(branches), elevation_change=2.0)
 
 
-def best(fn, repeats: int = REPEATS) -> float:
-    times = []
-    for _ in range(repeats):
-        t0 = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - t0)
-    return min(times)
+TOLERANCES = Tolerances(gauge_full_scale=400e3)
+THERMAL = Thermal(dln_nu_dt=-0.0245, dln_rho_dt=-2.1e-4)
+"""How ν and ρ of water near 20 °C move with temperature (from memory)."""
 
 
-def run(label: str, net: Network, given, find=None) -> None:
-    tol = Tolerances(gauge_full_scale=400e3)
-    thermal = Thermal(dln_nu_dt=-0.0245, dln_rho_dt=-2.1e-4)  # water near 20 °C (from memory)
-    monte_carlo(net, given, find, tol, samples=200, thermal=thermal)  # warm-up
-    vec = best(lambda: monte_carlo(net, given, find, tol, samples=SAMPLES, thermal=thermal))
-    plan = build_plan(net, given, find or FindFlows(), tol, thermal)
+def cases(net: Network) -> dict[str, tuple[Given, Find | None]]:
+    op = solve(net, PressureDrop(120e3))
+    target = 0.97 * float(op.flows[4])
+    return {
+        "flows from a pressure drop (120 kPa, gauge 1 % of 400 kPa)": (PressureDrop(120e3), None),
+        "flows from a total flow (clamp-on 3 %)": (TotalFlow(op.total_flow), None),
+        "roughness of 'Loop 5' from a pressure drop and its flow": (
+            PressureDrop(120e3), FindUnknown("roughness", "Loop 5", target)),
+        "diameter of 'Loop 5' from a pressure drop and its flow": (
+            PressureDrop(120e3), FindUnknown("diameter", "Loop 5", target)),
+    }
+
+
+def timed(label: str, net: Network, given: Given, find: Find | None, rounds: int) -> None:
+    plan = build_plan(net, given, find or FindFlows(), TOLERANCES, THERMAL)
     z = np.random.default_rng(1).uniform(-1, 1, size=(LOOP_SAMPLES, len(plan.inputs)))
+    walls: list[float] = []
+
+    def vectorised() -> None:
+        start = time.perf_counter()
+        monte_carlo(net, given, find, TOLERANCES, samples=SAMPLES, thermal=THERMAL)
+        walls.append(time.perf_counter() - start)
 
     def loop() -> None:
         for row in z:
             solve(*plan.network_for(row))
 
-    per_sample = best(loop, 1) / LOOP_SAMPLES
-    scaled = per_sample * SAMPLES
-    print(f"{label}")
-    print(f"  inputs drawn            {len(plan.inputs)}")
-    print(f"  vectorised, {SAMPLES} draws  {vec * 1000:8.1f} ms  (whole monte_carlo call)")
-    print(f"  per-sample loop          {per_sample * 1e3:8.3f} ms per draw, timed on "
-          f"{LOOP_SAMPLES} draws, scaled to {SAMPLES}: {scaled:6.2f} s")
-    print(f"  ratio loop / vectorised  {scaled / vec:8.0f} x   (goal: vectorised <= 0.5 s: "
-          f"{'met' if vec <= 0.5 else 'NOT met'})")
+    t = interleaved({"vectorised": vectorised, "loop": loop}, rounds=rounds, span=0.3)
+    wall = statistics.median(walls)
+    scaled = t["loop"] / LOOP_SAMPLES * SAMPLES
+    print(label)
+    print(f"  inputs drawn {len(plan.inputs)}; {SAMPLES} draws: one call "
+          f"{t['vectorised'] * 1e3:.1f} ms CPU, {wall * 1e3:.1f} ms wall (goal ≤ {WALL_GOAL:g} s: "
+          f"{'met' if wall <= WALL_GOAL else 'NOT met'})")
+    print(f"  a loop of solve(): {t['loop'] / LOOP_SAMPLES * 1e3:.3f} ms a draw, "
+          f"{scaled:.2f} s for {SAMPLES}: {scaled / t['vectorised']:.0f}× the call")
+
+
+def peak_mb() -> float:
+    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024  # KiB on Linux
+
+
+def memory_child(index: int) -> None:
+    """In a fresh process: the peak before and after one call of MEMORY_SAMPLES draws."""
+    net = network()
+    given, find = list(cases(net).values())[index]
+    monte_carlo(net, given, find, TOLERANCES, samples=200, thermal=THERMAL)
+    before = peak_mb()
+    monte_carlo(net, given, find, TOLERANCES, samples=MEMORY_SAMPLES, thermal=THERMAL)
+    print(f"{before:.1f} {peak_mb():.1f}")
+
+
+def memory(net: Network) -> None:
+    print(f"\n2. memory: {MEMORY_SAMPLES} draws, each direction in a fresh process")
+    for index, label in enumerate(cases(net)):
+        out = subprocess.run([sys.executable, __file__, "--memory-child", str(index)],
+                             capture_output=True, text=True, check=True).stdout.split()
+        before, after = float(out[0]), float(out[1])
+        print(f"  {label:<60} peak {after:6.1f} MB (rise {after - before:6.1f} MB; goal ≤ "
+              f"{MEMORY_GOAL:g} MB: {'met' if after <= MEMORY_GOAL else 'NOT met'})")
 
 
 def main() -> None:
-    print(f"machine: {platform.platform()}, {platform.processor() or platform.machine()}, "
-          f"{os.cpu_count()} CPUs, python {platform.python_version()}, numpy {np.__version__}")
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--rounds", type=int, default=7)
+    parser.add_argument("--no-memory", action="store_true")
+    parser.add_argument("--memory-child", type=int, default=None, help=argparse.SUPPRESS)
+    args = parser.parse_args()
+    if args.memory_child is not None:
+        memory_child(args.memory_child)
+        return
+    print(machine())
     net = network()
-    op = solve(net, PressureDrop(120e3))
-    print(f"network: 10 branches, 13 segments; nominal total flow {op.total_flow * 1000:.2f} L/s "
-          f"at 120 kPa\n")
-    run("flows from a pressure drop (120 kPa, gauge 1 % of 400 kPa)", net, PressureDrop(120e3))
-    run("flows from a total flow (clamp-on 3 %)", net, TotalFlow(op.total_flow))
-    target = 0.97 * float(op.flows[4])
-    run("roughness of 'Loop 5' from a pressure drop and its flow", net, PressureDrop(120e3),
-        FindUnknown("roughness", "Loop 5", target))
-    run("diameter of 'Loop 5' from a pressure drop and its flow", net, PressureDrop(120e3),
-        FindUnknown("diameter", "Loop 5", target))
+    print("network: 10 branches, 13 segments, three valves, 2 m of lift; water near 20 °C\n")
+    print(f"1. time: {SAMPLES} draws")
+    for label, (given, find) in cases(net).items():
+        timed(label, net, given, find, args.rounds)
+    if not args.no_memory:
+        memory(net)
 
 
 if __name__ == "__main__":
