@@ -165,7 +165,7 @@ GOALS = {"total flow given": 10.0, "diameter found": 10.0}
 
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--rounds", type=int, default=15)
+    parser.add_argument("--rounds", type=int, default=31)
     args = parser.parse_args()
     print(machine())
     net = make_network(10)
