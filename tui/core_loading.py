@@ -2,10 +2,17 @@
 
 Two threads importing the same modules in crossed orders can make one of the imports fail
 (Python 3.11: a KeyError from the import machinery, the app gone), as a screen opened while the
-first solve loaded the core once did. So every thread of the app that may be the first to import
-a part of the core — the app's own thread after the first paint, the solve's worker, and the
-band's, curve's and history's workers — imports it under one lock (:func:`core_imports`), and
-the common part in one order (:func:`load_core`). Once a module is loaded, the lock costs a
+first solve loaded the core once did. So the worker threads — the solve's, the band's, the
+curve's, the history's and the recovery copy's — import the core (and numpy's, scipy's and
+tomlkit's parts) under one lock (:func:`core_imports`), and the app's thread loads the part its
+screens read first under it too, once its first screen is drawn (:func:`load_core`). A solve,
+a curve and a recovery copy (milliseconds each) run under the lock throughout, so whatever
+their path loads on first use loads under it; a band (longer) loads first what its draws use
+(:func:`load_sampling`), the history its module, then each works without the lock.
+tests/tui/test_core_loading.py records every first import of a worker thread and checks that it
+held the lock. Not covered: the app's own thread imports some modules of the core's reports
+when a screen first needs them, without the lock, so it may import one while a worker holds
+the lock importing another (not seen to fail). Once a module is loaded, the lock costs a
 fraction of a microsecond.
 """
 
@@ -41,3 +48,13 @@ def load_core(solver: bool) -> None:
             import branchwise.core.site.build  # noqa: F401
             import branchwise.core.site.solve  # noqa: F401
             import branchwise.tui.state.outcome  # noqa: F401
+
+
+def load_sampling() -> None:
+    """What the draws of a band load on first use (the Monte Carlo, numpy's random numbers and
+    masked arrays), under the lock."""
+    with core_imports():
+        import numpy.ma  # noqa: F401
+        import numpy.random  # noqa: F401
+
+        import branchwise.core.numerics.uncertainty  # noqa: F401

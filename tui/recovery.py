@@ -69,10 +69,10 @@ class Recovery:
         """Write the copy in a thread worker (one at a time: a newer copy replaces an older);
         a copy dropped meanwhile (saved, undone) is not written again."""
         def write() -> None:
-            with core_imports():
+            with core_imports():  # throughout the text's making (tomlkit loads on first use)
                 from branchwise.core.site.write import dump_site
 
-            text = dump_site(site)
+                text = dump_site(site)
             try:
                 with self._copy_lock:
                     if generation == self._generation:

@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING, Any
 from textual.message import Message
 from textual.worker import get_current_worker
 
-from .core_loading import load_core
+from .core_loading import core_imports, load_core
 
 if TYPE_CHECKING:
     from textual.app import App
@@ -47,17 +47,20 @@ class SolveRunner:
                             exclusive=True, exit_on_error=False)
 
     def _run(self, site: Site, revision: int) -> None:
-        load_core(solver=True)
-        from branchwise.core.errors import BranchwiseError
+        # Under the core's lock throughout: a solve imports what its site needs (a reading
+        # weighed, a diameter sought…) on first use; a solve takes milliseconds.
+        with core_imports():
+            load_core(solver=True)
+            from branchwise.core.errors import BranchwiseError
 
-        from .state.outcome import Outcome, compute
+            from .state.outcome import Outcome, compute
 
-        try:
-            outcome = compute(site, revision)
-        except Exception as exc:  # a bug, not bad input: say so on screen, keep the app alive
-            self.app.log.error(f"solve failed: {exc!r}")
-            outcome = Outcome(revision, None, None, BranchwiseError(
-                f"internal error while solving ({type(exc).__name__}: {exc}); the inputs are "
-                "kept — please report it"), 0.0)
+            try:
+                outcome = compute(site, revision)
+            except Exception as exc:  # a bug, not bad input: said on screen, the app goes on
+                self.app.log.error(f"solve failed: {exc!r}")
+                outcome = Outcome(revision, None, None, BranchwiseError(
+                    f"internal error while solving ({type(exc).__name__}: {exc}); the inputs "
+                    "are kept — please report it"), 0.0)
         if not get_current_worker().is_cancelled:
             self.app.post_message(Solved(outcome))

@@ -1,51 +1,75 @@
 """Every worker of the app imports the core under one lock (tui/core_loading.py): two threads
 importing the same modules in crossed orders can make one import fail (Python 3.11), as a
 screen opened while the first solve loaded the core once did. A race cannot be made to happen
-on demand, so this checks what prevents it: each kind of worker takes the lock."""
+on demand, so this checks what prevents it: in a fresh interpreter, every module of the core,
+numpy, scipy and tomlkit that a worker thread imports first, it imports holding the lock —
+through the solve (flows, a reading weighed, a diameter sought), the band, the curve, an edit,
+the recovery copy and the history, the history's draws or the band's first."""
 
 from __future__ import annotations
 
-import threading
+import os
+import subprocess
+import sys
 
-from textual.worker import NoActiveWorker, get_current_worker
+import pytest
 
-from branchwise.tui import core_loading
+WORKERS_IMPORTING = r"""
+import asyncio, sys, threading
 
-
-class RecordingLock:
-    """The core's lock, noting the worker (by group) of each thread that takes it."""
-
-    def __init__(self) -> None:
-        self.lock = threading.RLock()
-        self.takers: set[str] = set()
-
-    def __enter__(self) -> bool:
-        self.lock.acquire()
-        try:
-            self.takers.add(get_current_worker().group)
-        except NoActiveWorker:
-            self.takers.add("app")
-        return True
-
-    def __exit__(self, *exc: object) -> None:
-        self.lock.release()
+WATCHED = ("branchwise.core", "numpy", "scipy", "tomlkit")
+outside: list[str] = []
 
 
-def test_every_worker_imports_the_core_under_the_one_lock(ui, monkeypatch):
-    lock = RecordingLock()
-    monkeypatch.setattr(core_loading, "_CORE_LOCK", lock)
+class Recorder:
+    '''Notes a watched module imported first by a thread other than the app's, without the
+    core's lock.'''
 
-    async def scenario() -> None:
-        async with ui.started() as (app, pilot):
-            await pilot.press("v")
-            await ui.type(pilot, "12 psi")  # the solve's worker
-            await ui.settle(pilot)
-            await pilot.press("escape", "b")  # the band's
-            await ui.settle(pilot)
-            await pilot.press("p")  # the curve's
-            await ui.settle(pilot)
-            await pilot.press("f5")  # the history's
-            await ui.settle(pilot)
-        assert {"solve", "band", "curve", "history"} <= lock.takers, lock.takers
+    def find_spec(self, name, path=None, target=None):
+        if (name.startswith(WATCHED) and threading.current_thread() is not threading.main_thread()
+                and not core_loading._CORE_LOCK._is_owned()):
+            outside.append(f"{threading.current_thread().name}: {name}")
+        return None
 
-    ui.run(scenario)
+
+from branchwise.tui import core_loading, recovery
+
+sys.meta_path.insert(0, Recorder())
+recovery.RECOVERY_DELAY = 0.05  # the recovery copy soon after an edit
+from branchwise.core.site.spec import SolveSpec
+from branchwise.tui.app import BranchwiseApp
+
+sys.path.insert(0, sys.argv[1])
+from conftest import settle
+
+
+async def main():
+    app = BranchwiseApp()
+    async with app.run_test(size=(100, 30)) as pilot:
+        await settle(pilot)
+        first = ("f5",) if sys.argv[2] == "history" else ("b",)
+        for keys in (first, ("f4", "b"), ("p",), ("f5",), ("f3", "enter", "3", "enter")):
+            await pilot.press(*keys)
+            await settle(pilot)
+        await asyncio.sleep(0.3)  # the recovery copy
+        app.edit("find a diameter", lambda s: setattr(s, "solve", SolveSpec(
+            "diameter", app.site.branches[0].name, "30 L/s")))
+        await settle(pilot)
+        await pilot.press("f4", "b")
+        await settle(pilot)
+        assert app.outcome.solved is not None and app.outcome.solved.result.solved is not None
+    print("OUTSIDE", len(outside))
+    print("\n".join(outside))
+
+asyncio.run(main())
+"""
+
+
+@pytest.mark.parametrize("first", ["history", "band"])
+def test_no_worker_imports_a_module_of_the_core_without_the_lock(tmp_path, first):
+    env = {**os.environ, "BRANCHWISE_DATA_DIR": str(tmp_path)}
+    here = os.path.dirname(__file__)
+    out = subprocess.run([sys.executable, "-c", WORKERS_IMPORTING, here, first],
+                         capture_output=True, text=True, timeout=300, env=env)
+    assert out.returncode == 0, out.stderr[-3000:]
+    assert "OUTSIDE 0" in out.stdout, out.stdout[-3000:]

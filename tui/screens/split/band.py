@@ -19,7 +19,7 @@ from textual import work
 from textual.message import Message
 from textual.worker import get_current_worker
 
-from ...core_loading import core_imports
+from ...core_loading import core_imports, load_sampling
 from ...theme import colour
 from ...widgets.bandview import WIDE, BandView, band_body, band_notes
 from ...workspace import workspace
@@ -118,6 +118,7 @@ class BandPanel(BandView):
           description="band")  # not the repr of its arguments (the whole site)
     def _compute(self, site: Site, revision: int, solved: SiteResult, system: str,
                  units: dict[str, str]) -> None:
+        load_sampling()
         with core_imports():
             from branchwise.core.errors import BranchwiseError
             from branchwise.core.site.fields import error_text

@@ -81,21 +81,21 @@ class CurvePanel(CurvePlot):
     @work(thread=True, exclusive=True, exit_on_error=False, group="curve",
           description="curve")  # not the repr of its arguments (the whole site)
     def _compute(self, outcome: Outcome) -> None:
-        with core_imports():
+        with core_imports():  # throughout: a curve takes milliseconds
             from branchwise.core.errors import BranchwiseError
             from branchwise.core.numerics.curve import system_curve
 
-        sr = outcome.solved
-        curve, error = None, ""
-        try:
-            if sr is not None:  # only an answer is drawn
-                curve = system_curve(sr.built.network, max_factor=CURVE_FACTOR,
-                                     operating=sr.result)
-        except BranchwiseError as exc:
-            error = getattr(exc, "reason", "") or str(exc)
-        except Exception as exc:  # a bug, not bad input: shown, and the app carries on
-            self.log.error(f"curve failed: {exc!r}")
-            error = f"internal error ({type(exc).__name__}: {exc}); please report it"
+            sr = outcome.solved
+            curve, error = None, ""
+            try:
+                if sr is not None:  # only an answer is drawn
+                    curve = system_curve(sr.built.network, max_factor=CURVE_FACTOR,
+                                         operating=sr.result)
+            except BranchwiseError as exc:
+                error = getattr(exc, "reason", "") or str(exc)
+            except Exception as exc:  # a bug, not bad input: shown, and the app carries on
+                self.log.error(f"curve failed: {exc!r}")
+                error = f"internal error ({type(exc).__name__}: {exc}); please report it"
         if not get_current_worker().is_cancelled:
             self.post_message(self.Ready(outcome, curve, error))
 
