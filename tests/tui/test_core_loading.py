@@ -3,8 +3,8 @@ importing the same modules in crossed orders can make one import fail (Python 3.
 screen opened while the first solve loaded the core once did. A race cannot be made to happen
 on demand, so this checks what prevents it: in a fresh interpreter, every module of the core,
 numpy, scipy and tomlkit that a worker thread imports first, it imports holding the lock —
-through the solve (flows, a reading weighed, a diameter sought), the band, the curve, an edit,
-the recovery copy and the history, the history's draws or the band's first."""
+through the solve (the flows, then a diameter sought), the band, the curve, an edit, the
+recovery copy and the history (the history first, or the band first)."""
 
 from __future__ import annotations
 
