@@ -52,7 +52,8 @@ def module(core: ModuleType, name: str) -> ModuleType:
 
 
 def interleaved(fns: dict[str, Callable[[], object]], rounds: int = 15,
-                number: int = 1, span: float | None = None) -> dict[str, float]:
+                number: int = 1, span: float | None = None,
+                wall: dict[str, float] | None = None) -> dict[str, float]:
     """Median CPU seconds per call of each function, the functions run in turn ``rounds``
     times (each turn ``number`` calls), so that load on the machine falls on all alike. The
     order turns by one each round, so that none is always the first to read its data after
@@ -62,7 +63,8 @@ def interleaved(fns: dict[str, Callable[[], object]], rounds: int = 15,
     count per turn worked out from the warm-up). The first call of a turn pays for the caches
     the others have used; in turns of equal length every function pays that in the same
     proportion, where in turns of equal count a fast function pays it over far less time
-    than a slow one."""
+    than a slow one. ``wall``: filled with the median wall-clock seconds per call of the same
+    turns."""
     counts = dict.fromkeys(fns, number)
     for key, fn in fns.items():
         fn()  # warm-up
@@ -73,14 +75,18 @@ def interleaved(fns: dict[str, Callable[[], object]], rounds: int = 15,
                 calls += 1
             counts[key] = max(1, round(span * calls / spent))
     times: dict[str, list[float]] = {k: [] for k in fns}
+    walls: dict[str, list[float]] = {k: [] for k in fns}
     keys = list(fns)
     for r in range(rounds):
         for key in keys[r % len(keys):] + keys[:r % len(keys)]:
             fn, n = fns[key], counts[key]
-            start = time.process_time()
+            start, start_wall = time.process_time(), time.perf_counter()
             for _ in range(n):
                 fn()
             times[key].append((time.process_time() - start) / n)
+            walls[key].append((time.perf_counter() - start_wall) / n)
+    if wall is not None:
+        wall.update({k: statistics.median(v) for k, v in walls.items()})
     return {k: statistics.median(v) for k, v in times.items()}
 
 

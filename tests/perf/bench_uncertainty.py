@@ -9,20 +9,18 @@
    each), CPU-time medians; the loop is timed on LOOP_SAMPLES draws a turn and scaled to 10,000.
    The goal (issue 15) is on the wall-clock time of one call: the median of the same turns' wall
    times is printed beside it.
-2. Memory: 100,000 draws in a fresh process for each direction; the process's peak resident
-   memory (``getrusage``'s ru_maxrss) once the call is done, its rise over the same process's
-   peak before the call (imports and a small run done), and the call's own allocations at their
-   peak (``tracemalloc``, numpy's arrays included; a second call). Goal: ≤ 300 MB.
+2. Memory: 100,000 draws in a fresh process for each direction: the process's peak resident
+   memory during the call (``/proc/self/status`` VmHWM, reset just before it), its rise over
+   the process's memory just before (imports and a small run done), and the call's own
+   allocations at their peak (``tracemalloc``, numpy's arrays included; a second call). Goal:
+   ≤ 300 MB. Linux only.
 """
 
 from __future__ import annotations
 
 import argparse
-import resource
-import statistics
 import subprocess
 import sys
-import time
 import tracemalloc
 from pathlib import Path
 
@@ -92,19 +90,18 @@ def cases(net: Network) -> dict[str, tuple[Given, Find | None]]:
 def timed(label: str, net: Network, given: Given, find: Find | None, rounds: int) -> None:
     plan = build_plan(net, given, find or FindFlows(), TOLERANCES, THERMAL)
     z = np.random.default_rng(1).uniform(-1, 1, size=(LOOP_SAMPLES, len(plan.inputs)))
-    walls: list[float] = []
 
     def vectorised() -> None:
-        start = time.perf_counter()
         monte_carlo(net, given, find, TOLERANCES, samples=SAMPLES, thermal=THERMAL)
-        walls.append(time.perf_counter() - start)
 
     def loop() -> None:
         for row in z:
             solve(*plan.network_for(row))
 
-    t = interleaved({"vectorised": vectorised, "loop": loop}, rounds=rounds, span=0.3)
-    wall = statistics.median(walls)
+    walls: dict[str, float] = {}
+    t = interleaved({"vectorised": vectorised, "loop": loop}, rounds=rounds, span=0.3,
+                    wall=walls)
+    wall = walls["vectorised"]
     scaled = t["loop"] / LOOP_SAMPLES * SAMPLES
     print(label)
     print(f"  inputs drawn {len(plan.inputs)}; {SAMPLES} draws: one call "
@@ -114,18 +111,33 @@ def timed(label: str, net: Network, given: Given, find: Find | None, rounds: int
           f"{scaled:.2f} s for {SAMPLES}: {scaled / t['vectorised']:.0f}× the call")
 
 
-def peak_mb() -> float:
-    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024  # KiB on Linux
+def status_mb(key: str) -> float:
+    """A figure of this process's /proc/self/status (Linux), MB: VmHWM, the peak resident
+    memory since it started or was last reset (:func:`reset_peak`), or VmRSS, the present.
+    (``getrusage``'s ru_maxrss would not do: a child process starts with its parent's.)"""
+    with open("/proc/self/status") as status:
+        for line in status:
+            if line.startswith(key + ":"):
+                return int(line.split()[1]) / 1024  # kB
+    raise RuntimeError(f"no {key} in /proc/self/status")
+
+
+def reset_peak() -> None:
+    """Start this process's peak resident memory again from the present (Linux ≥ 4.0)."""
+    with open("/proc/self/clear_refs", "w") as refs:
+        refs.write("5")
 
 
 def memory_child(index: int) -> None:
-    """In a fresh process: the peak before and after one call of MEMORY_SAMPLES draws."""
+    """In a fresh process: the peak of one call of MEMORY_SAMPLES draws, the process's memory
+    just before it, and the call's own allocations at their peak (a second call)."""
     net = network()
     given, find = list(cases(net).values())[index]
     monte_carlo(net, given, find, TOLERANCES, samples=200, thermal=THERMAL)
-    before = peak_mb()
+    reset_peak()
+    before = status_mb("VmRSS")
     monte_carlo(net, given, find, TOLERANCES, samples=MEMORY_SAMPLES, thermal=THERMAL)
-    after = peak_mb()
+    after = status_mb("VmHWM")
     tracemalloc.start()  # the call's own allocations at their peak (numpy's are traced too)
     monte_carlo(net, given, find, TOLERANCES, samples=MEMORY_SAMPLES, thermal=THERMAL)
     traced = tracemalloc.get_traced_memory()[1] / 2**20
