@@ -36,7 +36,8 @@ MAX_VELOCITY = 300.0
 it the last check on every answer refuses the branch (:func:`.solve.solve`)."""
 
 
-CODES = ("laminar", "transition", "roughness-range", "reynolds-range", "velocity-high")
+CODES = ("laminar-law-beyond", "laminar", "transition", "roughness-range", "reynolds-range",
+         "velocity-high")
 """The warnings on a segment, in the order they are listed."""
 
 Flag = tuple[str, int, int, float, float, float]
@@ -46,7 +47,7 @@ Flag = tuple[str, int, int, float, float, float]
 class _Rule:
     """Which warnings a flowing segment earns under a network's model and velocity limit."""
 
-    __slots__ = ("rough_max", "re_max", "sj", "limit")
+    __slots__ = ("rough_max", "re_max", "sj", "limit", "laminar_law")
 
     def __init__(self, net: Network) -> None:
         model = net.friction
@@ -54,11 +55,12 @@ class _Rule:
         self.re_max = (RE_RANGE_MAX if model in ("colebrook", "haaland", "swamee-jain")
                        else math.inf)
         self.sj = model == "swamee-jain"
+        self.laminar_law = model == "laminar"  # f = 64/Re whatever Re: said wherever Re ≥ 2000
         self.limit = net.velocity_limit
 
     def usual(self, re: np.ndarray, rr: np.ndarray, speed: np.ndarray) -> np.ndarray:
         """True where a segment earns no warning (the sieve of a large network)."""
-        if self.sj:
+        if self.sj or self.laminar_law:
             return np.zeros(re.shape, dtype=bool)
         return ((re >= RE_TURBULENT) & (rr <= self.rough_max) & (re <= self.re_max)
                 & (speed <= self.limit))
@@ -68,8 +70,11 @@ class _Rule:
         """Adds segment ``s`` (of branch ``b``) to ``found`` under each code it earns."""
         rough_max, re_max, limit, sj = self.rough_max, self.re_max, self.limit, self.sj
         if re >= RE_TURBULENT and rr <= rough_max and re <= re_max and speed <= limit and (
-                not sj):
+                not sj) and not self.laminar_law:
             return  # the usual segment: nothing to say
+        if self.laminar_law and re >= RE_LAMINAR:
+            found.setdefault("laminar-law-beyond", []).append(
+                ("laminar-law-beyond", s, b, re, rr, speed))
         if re < RE_LAMINAR:
             found.setdefault("laminar", []).append(("laminar", s, b, re, rr, speed))
         elif re < RE_TURBULENT:
@@ -190,6 +195,10 @@ class _Text:
 
 def _segment_text(code: str, net: Network, re: float, rr: float, speed: float) -> str:
     hw = net.friction == "hazen-williams"
+    if code == "laminar-law-beyond":
+        return (f"Re {re:.0f} is above {RE_LAMINAR:.0f}, yet the friction model is the laminar "
+                "law (f = 64/Re): the flow here is not laminar, so its friction is too low and "
+                "this branch's figures are wrong — choose colebrook")
     if code == "laminar":
         head = f"laminar flow (Re {re:.0f}): f = 64/Re, roughness has no effect"
         return head + ("; Hazen–Williams holds for turbulent flow only, so the laminar law was "

@@ -5,13 +5,15 @@
 Every figure is a ratio of CPU-time medians, the functions compared run in turn in the same
 process (``baseline.interleaved``), so that load on the machine falls on all alike. Each turn
 lasts about 5 ms, one call of the slowest by-hand method: the first call of a turn pays for the
-caches the other functions have used (for the solve, 2–3× its time), and in turns of equal
-length every function pays that in the same proportion. Part 1 also prints that first call
-alone, and the figure in turns of 10 calls each (the method of earlier rounds, which charged
-the solve's first call over 10 calls and a by-hand method's over one).
+caches the other functions have used — about the same time for every function, a few per cent
+of a by-hand call but 2–5× a solve — and in turns of equal length every function pays it in the
+same proportion. Part 1 also prints that first call alone, and the figures in turns of 10 calls
+each (the method of earlier rounds, which weighed that cost 10 calls of a solve against 10 of a
+by-hand method, about a hundred times longer).
 
 1. Ten branches (two segments every fifth branch), flows at a given Δp: the whole ``solve()``
-   against the method one would write by hand — scipy's brentq on each branch's flow with a
+   — of the same network object again, and of a network met anew each call — against the
+   method one would write by hand — scipy's brentq on each branch's flow with a
    scalar friction factor inside each step: (a) ``fluids.friction.Colebrook``, (b) Colebrook
    itself solved by a nested brentq on f, (c) Colebrook by fixed-point iteration.
 2. The same network in every direction against the core of the tree before the speed work
@@ -22,6 +24,7 @@ the solve's first call over 10 calls and a by-hand method's over one).
 from __future__ import annotations
 
 import argparse
+import itertools
 import math
 import statistics
 import sys
@@ -159,6 +162,11 @@ def first_call(fn: Callable[[], object], before: Callable[[], object], rounds: i
     return statistics.median(times)
 
 
+FRESH = 50
+"""Networks of equal values but objects of their own, solved in turn: each solve meets its
+network anew (the solve keeps the last network's branch objects and checks; the app builds a
+new network for each edit)."""
+
 GOALS = {"total flow given": 10.0, "diameter found": 10.0}
 """Issue 15: ≥ 10× faster than the tree before the speed work."""
 
@@ -172,26 +180,32 @@ def main() -> None:
     head = DP / (WATER.density * G)
 
     print("\n1. ten branches, flows at a given Δp: by hand / branchwise solve()")
+    fresh = itertools.cycle([make_network(10) for _ in range(FRESH)])
     fns = {
         "solve": lambda: solve(net, PressureDrop(DP)),
+        "anew": lambda: solve(next(fresh), PressureDrop(DP)),
         "fluids": lambda: by_hand(net, head, fluids_colebrook),
         "nested": lambda: by_hand(net, head, nested_colebrook),
         "fixed": lambda: by_hand(net, head, fixed_point_colebrook),
     }
     times = interleaved(fns, rounds=args.rounds, span=SPAN)
-    print(ratio_line("(a) brentq per branch, fluids.Colebrook", times["fluids"], times["solve"],
-                     20))
-    print(ratio_line("(b) brentq per branch, Colebrook by nested brentq", times["nested"],
-                     times["solve"], 100))
-    print(ratio_line("(c) brentq per branch, Colebrook by fixed point", times["fixed"],
-                     times["solve"]))
+    for key, words in (("solve", "the same network solved again"),
+                       ("anew", "a network met anew each call (as the app's, after an edit)")):
+        print(f"  {words}:")
+        print(ratio_line("(a) brentq per branch, fluids.Colebrook", times["fluids"],
+                         times[key], 20))
+        print(ratio_line("(b) brentq per branch, Colebrook by nested brentq", times["nested"],
+                         times[key], 100))
+        print(ratio_line("(c) brentq per branch, Colebrook by fixed point", times["fixed"],
+                         times[key]))
     first = first_call(fns["solve"], fns["nested"], args.rounds * 4)
     print(f"  the first solve right after a by-hand run: {first * 1e6:.1f} µs, "
           f"{first / times['solve']:.1f}× a solve in a turn")
     tens = interleaved(fns, rounds=args.rounds, number=10)
-    print("  in turns of 10 calls (each function's first call charged over 10): "
-          f"(a) {tens['fluids'] / tens['solve']:.1f}×, (b) {tens['nested'] / tens['solve']:.1f}×, "
-          f"(c) {tens['fixed'] / tens['solve']:.1f}×")
+    for key, words in (("solve", "again"), ("anew", "anew")):
+        print(f"  in turns of 10 calls, a network {words}: "
+              f"(a) {tens['fluids'] / tens[key]:.1f}×, (b) {tens['nested'] / tens[key]:.1f}×, "
+              f"(c) {tens['fixed'] / tens[key]:.1f}×")
 
     base = load_core()
     base_solve = module(base, "numerics.solve").solve

@@ -89,3 +89,27 @@ def test_swamee_jain_outside_its_roughness_range_is_said() -> None:
                   friction="swamee-jain")
     codes = {w.code for w in solve(net, PressureDrop(2e4)).warnings}
     assert "reynolds-range" in codes
+
+
+@pytest.mark.parametrize("branches", [1, 2, 150])  # the plain-float path and the numpy one
+def test_the_laminar_law_beyond_laminar_flow_is_said_on_every_branch(branches: int) -> None:
+    # Laminar pipe flow ends at about Re 2000 (any fluid-mechanics text; field notes): the law
+    # f = 64/Re chosen for a line whose Re is far above it gives far too little friction —
+    # here 4.6× the Colebrook flow — and must not pass unsaid.
+    water = _water(20.0)
+    line = (Segment(0.0525, 30.0, 4.5e-5, 0.0),)
+    net = Network(water, tuple(Branch(f"L{i}", line) for i in range(branches)),
+                  friction="laminar")
+    res = solve(net, PressureDrop(500.0))
+    beyond = [w for w in res.warnings if w.code == "laminar-law-beyond"]
+    assert {w.branch for w in beyond} == {f"L{i}" for i in range(branches)}
+    assert "not laminar" in beyond[0].message and "colebrook" in beyond[0].message
+    darcy = solve(Network(water, net.branches, friction="colebrook"), PressureDrop(500.0))
+    assert not any(w.code == "laminar-law-beyond" for w in darcy.warnings)
+    # Where the flow is laminar, the law holds: Hagen–Poiseuille by hand, no such warning.
+    d, length, dp = 0.004, 2.0, 500.0
+    slow = solve(Network(water, (Branch("S", (Segment(d, length, 0.0, 0.0),)),),
+                         friction="laminar"), PressureDrop(dp))
+    assert slow.flows[0] == pytest.approx(math.pi * d**4 * dp / (128 * water.viscosity * length),
+                                          rel=1e-12)
+    assert not any(w.code == "laminar-law-beyond" for w in slow.warnings)
