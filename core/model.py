@@ -13,6 +13,7 @@ from dataclasses import dataclass, replace
 from typing import Literal, get_args
 
 from .errors import InputError, describe
+from .names import name_key
 
 STANDARD_GRAVITY = 9.80665
 """Standard acceleration of gravity, m/s² (ISO 80000-3; CGPM 1901)."""
@@ -241,7 +242,7 @@ class Network:
         seen: dict[str, int] = {}
         for i, br in enumerate(self.branches):
             br.validate(f"branches[{i}]")
-            key = br.name.strip().casefold()
+            key = name_key(br.name)
             if key in seen:
                 raise InputError(
                     f"branches[{i}].name", repr(br.name), f"duplicates branches[{seen[key]}].name"
@@ -263,10 +264,11 @@ class Network:
                         )
 
     def index_of(self, name: str, path: str = "solve.branch") -> int:
-        """Index of the branch called ``name`` (case-insensitive), or an InputError."""
-        key = name.strip().casefold()
+        """Index of the branch called ``name`` (as :func:`name_key` tells names apart), or an
+        InputError."""
+        key = name_key(name)
         for i, br in enumerate(self.branches):
-            if br.name.strip().casefold() == key:
+            if name_key(br.name) == key:
                 return i
         names = ", ".join(repr(b.name) for b in self.branches)
         raise InputError(path, repr(name), f"no such branch (have {names})")

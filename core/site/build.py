@@ -28,6 +28,7 @@ from ..model import (
     Segment,
     friction_model,
 )
+from ..names import name_key
 from ..numerics.friction import RE_TURBULENT
 from ..units import parse_quantity
 from .fields import FieldPath
@@ -297,7 +298,7 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
     materials, user = _materials(), store()
     for i, spec in enumerate(site.branches):
         br, s, k, p = _branch_once(spec, i, materials, user)
-        key = br.name.casefold()
+        key = name_key(br.name)
         if key in RESERVED_NAMES:
             raise InputError(f"branches[{i}].name", br.name, "is a word conditions.given "
                              "keeps for a reading of its own; give the branch another name")

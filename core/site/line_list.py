@@ -37,6 +37,7 @@ import re
 from dataclasses import dataclass, field, replace
 
 from ..errors import InputError, describe
+from ..names import name_key
 from .spec import BranchSpec, ConditionsSpec, FluidSpec, SegmentSpec, Site
 
 MAX_ROWS = 10_000
@@ -271,7 +272,7 @@ def read_line_list(text: str, source: str = "lines.csv") -> LineList:
     problems: list[InputError] = []
     branches: list[BranchSpec] = []
     by_key = {c.key: c for c in cols}
-    first_line: dict[str, int] = {}
+    first_line: dict[str, tuple[int, str]] = {}
     for line, row in rows:
         cells = {c.key: _cell_value(c, row[c.index].strip()) for c in cols
                  if c.index < len(row) and row[c.index].strip()}
@@ -286,12 +287,17 @@ def read_line_list(text: str, source: str = "lines.csv") -> LineList:
             _check(branches[-1], len(branches[-1].segments) - 1, line, by_key, source,
                    problems)
             continue
-        if name in first_line:
+        key = name_key(name)  # as a site tells its branches apart
+        if key in first_line:
+            first, spelt = first_line[key]
+            again = (f"is used again (first on line {first})" if spelt == name else
+                     f"is '{spelt}' of line {first} again (names are told apart by more than "
+                     "letter case and spaces)")
             problems.append(InputError(_at(source, line, by_key, "name"), describe(name),
-                                       f"is used again (first on line {first_line[name]}); "
-                                       "the rows of one branch go one after another"))
+                                       f"{again}; the rows of one branch go one after "
+                                       "another"))
             continue
-        first_line[name] = line
+        first_line[key] = (line, name)
         branches.append(branch)
         _check(branch, 0, line, by_key, source, problems)
     if problems:

@@ -20,6 +20,7 @@ import re
 from datetime import date, datetime
 
 from ..errors import BranchwiseError, InputError, NoSolutionError, describe
+from ..names import name_key
 from .spec import RecordSpec, Site, Value, VisitSpec
 
 _ISO_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
@@ -58,7 +59,7 @@ def today_has_reading(site: Site) -> bool:
 
 
 def _key(name: object) -> str:
-    return name.strip().casefold() if isinstance(name, str) else ""
+    return name_key(name) if isinstance(name, str) else ""
 
 
 def _branch_index(site: Site, name: str) -> int | None:

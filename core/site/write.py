@@ -13,6 +13,7 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import InputError
+from ..names import name_key
 from .spec import (
     CONDITION_KEYS,
     FLUID_KEYS,
@@ -194,7 +195,7 @@ def _table_before(doc: Any, aot: Any) -> Any:
 
 
 def _branch_key(name: Any) -> str:
-    return str(name).strip().casefold()
+    return name_key(str(name))
 
 
 def _sync_branches(doc: Any, old: Any, branches: list[dict[str, Any]], tomlkit: Any,

@@ -20,6 +20,7 @@ from pathlib import Path, PosixPath, WindowsPath
 from typing import TypeVar, cast
 
 from branchwise.core.finds import FINDS
+from branchwise.core.names import name_key
 from branchwise.core.site.spec import BranchSpec, SegmentSpec, Site, SolveSpec
 
 from .values import field_names, make_inert, text_of, unique_name
@@ -59,7 +60,7 @@ def rename_branch(site: Site, index: int, new: str) -> None:
     together."""
     old = text_of(site.branches[index].name).strip()
     site.branches[index].name = new
-    if site.solve is not None and text_of(site.solve.branch).strip().casefold() == old.casefold():
+    if site.solve is not None and name_key(text_of(site.solve.branch)) == name_key(old):
         site.solve.branch = new
     given = site.conditions.given
     if isinstance(given, str) and given.strip() == old and old:

@@ -11,6 +11,7 @@ from dataclasses import fields, is_dataclass
 from pathlib import Path
 
 from branchwise.core.errors import inert
+from branchwise.core.names import name_key
 from branchwise.core.site.spec import Site
 
 _BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
@@ -127,12 +128,12 @@ def branch_name(site: Site, index: int) -> str:
 
 def unique_name(site: Site, stem: str) -> str:
     """``stem``, or ``stem 2``, ``stem 3``… whichever no branch uses yet."""
-    taken = {text_of(b.name).strip().casefold() for b in site.branches}
+    taken = {name_key(text_of(b.name)) for b in site.branches}
     stem = stem.strip() or "Branch"
-    if stem.casefold() not in taken:
+    if name_key(stem) not in taken:
         return stem
     base = re.sub(r"\s+\d+\Z", "", stem) or stem
     n = 2
-    while f"{base} {n}".casefold() in taken:
+    while name_key(f"{base} {n}") in taken:
         n += 1
     return f"{base} {n}"

@@ -211,3 +211,14 @@ def test_one_branch_too_fast_names_that_branch():
     with pytest.raises(NoSolutionError) as err:
         solve(net, PressureDrop(1e6))
     assert err.value.field == "branches[0].length"
+
+
+def test_branch_names_are_told_apart_by_more_than_case_and_spaces() -> None:
+    # Two lines named "AHU 1" and "ahu  1" on one header are one name mistyped, not two lines.
+    water = Fluid("water", 998.2, 1.0016e-3, "water")  # near 20 °C (IAPWS, field notes)
+    pipe = (Segment(0.05, 10.0, 4.5e-5),)
+    with pytest.raises(InputError) as caught:
+        Network(water, (Branch("AHU 1", pipe), Branch("ahu  1", pipe)))
+    assert caught.value.field == "branches[1].name"
+    net = Network(water, (Branch("AHU 1", pipe), Branch("AHU 2", pipe)))
+    assert net.index_of(" ahu   2") == 1

@@ -120,3 +120,14 @@ def test_a_measured_flow_cell_that_is_no_flow_is_named_and_nothing_is_read():
     assert len(named) == 2
     assert named[0].startswith("lines.csv line 2, column 'Measured flow (gpm)'")
     assert named[1].startswith("lines.csv line 3, column 'Measured flow (gpm)'")
+
+
+@pytest.mark.parametrize(("first", "again"), [("A", "a"), ("AHU 1", "ahu  1 ")])
+def test_names_a_site_would_take_for_one_are_refused_by_the_import_too(first, again):
+    # A site tells branches apart by more than letter case and spaces; a list that names two
+    # rows so was imported, and the site written then refused to load.
+    text = (f"Name,Bore (mm),Length (m),Material\n{first},52.5,30,pvc\nB,40,20,pvc\n"
+            f"{again},40,5,pvc\n")
+    with pytest.raises(LineListError) as caught:
+        read_line_list(text, "x.csv")
+    assert f"is '{first}' of line 2 again" in str(caught.value.problems[0])

@@ -16,6 +16,7 @@ from collections.abc import Callable
 from typing import TYPE_CHECKING
 
 from branchwise.core.errors import InputError
+from branchwise.core.names import name_key
 from branchwise.core.site.spec import BranchSpec, SegmentSpec
 from branchwise.core.site.valves import series_kv
 
@@ -119,8 +120,8 @@ def flow_cells(app: Workspace) -> dict[int, str]:
     shown = app.outcome if app.outcome is not None and app.outcome.ok else app.good
     if shown is None or shown.solved is None:
         return {}
-    names = {br.name.casefold(): br.flow for br in shown.solved.result.branches}
-    typed = [text_of(br.name).strip().casefold() for br in app.site.branches]
+    names = {name_key(br.name): br.flow for br in shown.solved.result.branches}
+    typed = [name_key(text_of(br.name)) for br in app.site.branches]
     rows_named = Counter(typed)
     out = {}
     for i, name in enumerate(typed):

@@ -17,6 +17,7 @@ from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widgets import DataTable, Input, Static
 
+from branchwise.core.names import name_key
 from branchwise.core.site.fields import FieldPath
 from branchwise.core.site.spec import BranchSpec, Site
 
@@ -371,11 +372,11 @@ class BranchesScreen(WorkScreen):
 
         def change(s: Site) -> None:
             remove_branch(s, i)  # its reading too: the given moves on if it was that one
-            if s.solve is not None and text_of(s.solve.branch).casefold() == name.casefold():
+            if s.solve is not None and name_key(text_of(s.solve.branch)) == name_key(name):
                 s.solve = None
 
         read_in = [text_of(v.date) for v in site.visits
-                   if name.casefold() in {str(k).strip().casefold() for k in v.measured}]
+                   if name_key(name) in {name_key(str(k)) for k in v.measured}]
         self.bw.edit(f"Remove {name}", change)
         if read_in:
             self.notify(f"Removed {name}. Earlier visits read it ({', '.join(read_in)}): "

@@ -20,6 +20,7 @@ from textual.widgets import Input, Label, Static
 
 from branchwise.core.finds import FINDS
 from branchwise.core.givens import GIVENS
+from branchwise.core.names import name_key
 from branchwise.core.site.reconcile import ALL
 from branchwise.core.site.spec import Site
 
@@ -134,7 +135,7 @@ class GivenFindRows(Vertical):
 
     def _segments_of(self, name: str) -> int:
         for br in self.bw.site.branches:
-            if text_of(br.name).strip().casefold() == name.strip().casefold():
+            if name_key(text_of(br.name)) == name_key(name):
                 return len(br.segments)
         return 1
 
