@@ -69,7 +69,10 @@ SEGMENT_KEYS = ("size", "diameter", "length", "material", "condition", "roughnes
 BRANCH_KEYS = ("tag", "valve_kv", "valve_cv", "measured_flow", "note")
 
 _UNIT = re.compile(r"^(?P<word>.*?)\s*(?:\((?P<p>[^)]*)\)|\[(?P<b>[^\]]*)\]|,\s*(?P<c>.+))\s*$")
-_BARE = re.compile(r"^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$")
+_BARE = re.compile(r"^[+-]?(?:\d{1,3}(?:,\d{3})+(?:\.\d*)?|\d+(?:\.\d*)?|\.\d+)"
+                   r"(?:[eE][+-]?\d+)?$")
+"""A number alone in a cell (a thousands comma too: the unit's reader then takes it with US
+customary units only, as typed in a site)."""
 _FITTING = re.compile(r"^(?:(?P<n1>\d+(?:\.\d+)?)\s*(?:x|×)?\s*(?P<k1>[^=]+?)|"
                       r"(?P<k2>[^=]+?)\s*(?:=|x|×)\s*(?P<n2>\d+(?:\.\d+)?))$", re.IGNORECASE)
 

@@ -131,3 +131,13 @@ def test_names_a_site_would_take_for_one_are_refused_by_the_import_too(first, ag
     with pytest.raises(LineListError) as caught:
         read_line_list(text, "x.csv")
     assert f"is '{first}' of line 2 again" in str(caught.value.problems[0])
+
+
+def test_a_thousands_comma_in_a_column_of_us_units_is_read_as_typed_in_a_site():
+    # The README's rule for a typed value: a thousands comma with US customary units only.
+    # A bare "2,000" under 'Length (ft)' was refused, with a fix ("2000 m") 3.28× off.
+    listed = read_line_list('Name,Bore (in),Length (ft),Material\nA,2.067,"2,000",pvc\n', "x.csv")
+    assert listed.branches[0].segments[0].length == "2,000 ft"
+    with pytest.raises(LineListError) as caught:
+        read_line_list('Name,Bore (mm),Length (m),Material\nA,52.5,"2,000",pvc\n', "x.csv")
+    assert "may group thousands or mark decimals" in str(caught.value.problems[0])
