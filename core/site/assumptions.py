@@ -25,6 +25,10 @@ if TYPE_CHECKING:
     from .build import Built
 
 
+EARTH_GRAVITY = (9.76, 9.84)
+"""m/s²: about the least and the most gravity on the Earth's surface (a mountain summit near the
+equator, a pole at sea level; from memory, rounded outward)."""
+
 @dataclass(frozen=True)
 class Assumption:
     """One thing assumed or resolved. ``code`` is stable for scripts; ``branch`` the branch's
@@ -96,6 +100,14 @@ def _site_wide(site: Site, built: Built) -> list[Assumption]:
     if c.gravity is None:
         out.append(Assumption("gravity-default", None,
                               f"g = {STANDARD_GRAVITY} m/s² (standard gravity)"))
+    else:
+        g = net.gravity
+        low, high = EARTH_GRAVITY
+        words = (f"g = {g:.6g} m/s² as typed (standard gravity {STANDARD_GRAVITY} m/s²)")
+        if not low <= g <= high:
+            words += (f": not Earth's — about {low:g} to {high:g} m/s² anywhere on its surface "
+                      "(from memory); check conditions.gravity")
+        out.append(Assumption("gravity-typed", None, words))
     if c.velocity_limit is None:
         out.append(Assumption("velocity-limit-default", None,
                               f"velocities above {marked('velocity~', net.velocity_limit)} are "

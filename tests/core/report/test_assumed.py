@@ -58,3 +58,18 @@ def test_a_c_value_under_a_darcy_model_is_said_to_be_unused() -> None:
 def test_us_readers_get_the_list_in_their_units(demo) -> None:
     text = render(demo, "table", "us")
     assert "bore 4.026 in" in text  # ASME B36.10M: NPS 4 sch 40, 4.026 in
+
+
+@pytest.mark.parametrize(("typed", "earth"), [("9.79 m/s^2", True), ("9.18 m/s^2", False),
+                                              ("100 m/s^2", False), ("32.2 ft/s^2", True)])
+def test_a_typed_gravity_is_said_and_one_no_place_on_earth_has_is_questioned(typed, earth):
+    # Surface gravity is about 9.76–9.84 m/s² anywhere on the Earth (from memory); a typed g
+    # changes every flow with a lift (two digits swapped, 9.18, moved them 5 %) and was said
+    # nowhere but in the JSON.
+    site = parse_site(demo_text())
+    site.conditions.gravity = typed
+    said = _by(json.loads(render(solve_site(site), "json")), "gravity-typed", None)
+    assert len(said) == 1 and "as typed" in said[0]
+    assert ("not Earth's" in said[0]) is not earth
+    text = render(solve_site(site), "text")
+    assert "as typed (standard gravity 9.80665" in " ".join(text.split())
