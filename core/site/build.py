@@ -18,6 +18,7 @@ from ..finds import FINDS
 from ..givens import GIVENS, make_given
 from ..messages import marked
 from ..model import (
+    MIN_DIAMETER,
     STANDARD_GRAVITY,
     Branch,
     Find,
@@ -95,6 +96,9 @@ def _segment(seg: SegmentSpec, path: str,
         diameter = quantity(seg.diameter, "diameter", f"{path}.diameter")
         d_path, d_value = f"{path}.diameter", seg.diameter
     at_least(diameter, d_path, d_value, 0.0, strict=True)
+    if diameter < MIN_DIAMETER:  # said of the bore here, before a roughness is held to it
+        raise InputError(d_path, describe(d_value), "is narrower than any pipe (at least "
+                         f"{marked('diameter', MIN_DIAMETER)})")
 
     length = quantity(seg.length, "length", f"{path}.length")
     at_least(length, f"{path}.length", seg.length, 0.0, strict=False)
