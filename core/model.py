@@ -91,7 +91,8 @@ def at_most(path: str, value: float, limit: float, unit: str, what: str) -> floa
     """``value`` unless its size exceeds ``limit`` — a bound far beyond any real plant, which
     catches a slipped unit (mm typed as m) before it turns into inf or nonsense."""
     if abs(value) > limit:
-        raise InputError(path, value, f"is beyond any {what} (limit {limit:g} {unit})")
+        raise InputError(path, value, f"is beyond any {what} (limit {limit:g}"
+                         f"{' ' + unit if unit else ''})")
     return value
 
 

@@ -199,7 +199,8 @@ def wrong_dimension(kind: str, spec: Kind, typed: str = "", units: object = None
         read = f": {read};"
     else:
         read = ":"
-    return f"is not a {kind.replace('_', ' ')}{read} use a unit such as {examples}{hint}"
+    what = kind.replace("_", " ")
+    return f"is not {_article(what)}{what}{read} use a unit such as {examples}{hint}"
 
 
 def _article(name: str) -> str:
