@@ -292,9 +292,9 @@ def read_line_list(text: str, source: str = "lines.csv") -> LineList:
             continue
         key = name_key(name)  # as a site tells its branches apart
         if key in first_line:
-            first, spelt = first_line[key]
-            again = (f"is used again (first on line {first})" if spelt == name else
-                     f"is '{spelt}' of line {first} again (names are told apart by more than "
+            at_line, spelt = first_line[key]
+            again = (f"is used again (first on line {at_line})" if spelt == name else
+                     f"is '{spelt}' of line {at_line} again (names are told apart by more than "
                      "letter case and spaces)")
             problems.append(InputError(_at(source, line, by_key, "name"), describe(name),
                                        f"{again}; the rows of one branch go one after "
