@@ -75,6 +75,9 @@ def test_a_glycol_written_eg_is_the_same_liquid():
     ('kind = "EG"\nconcentration = "30 %"\ntemperature = "-40 degF"', "fluid.temperature",
      "-40 degF"),
     ('kind = "water"\ntemperature = "250 degF"', "fluid.temperature", "250 degF"),
+    # a bare 30 read as a fraction of one (3000 %): said so, quoting the 30 typed
+    ('kind = "EG"\nconcentration = 30\ntemperature = "5 degC"', "fluid.concentration", "30"),
+    ('kind = "EG"\nconcentration = "30"\ntemperature = "5 degC"', "fluid.concentration", "30"),
 ])
 def test_fluid_errors_quote_the_value_as_typed(added, field, quoted):
     text = PUMP_ROOM.replace('kind = "water"\ntemperature = "18 degC"', added)
@@ -83,6 +86,9 @@ def test_fluid_errors_quote_the_value_as_typed(added, field, quoted):
     assert caught.value.field == field
     assert caught.value.value == quoted
     assert str(caught.value).endswith(f"got {quoted}")
+    if field == "fluid.concentration":
+        assert "fraction of one here (3000 %)" in str(caught.value) and "'30 %'" in str(
+            caught.value)
 
 
 @pytest.mark.parametrize(("old", "new", "field", "quoted"), [
