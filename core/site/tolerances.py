@@ -143,7 +143,14 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
     if (value := spec.temperature) is not None:
         kw["temperature_k"] = temperature_difference(value, f"{path}.temperature")
     tol = Tolerances(**kw)
-    tol.validate()
+    try:
+        tol.validate()
+    except InputError as exc:  # the value as typed ("-1 %"), not as the core read it (-1.0)
+        key = exc.field.removeprefix(f"{path}.")
+        typed = getattr(spec, key, None) if key.isidentifier() else None
+        if typed is None or isinstance(typed, list | dict):
+            raise
+        raise InputError(exc.field, describe(typed), exc.marked_reason) from None
     return tol
 
 

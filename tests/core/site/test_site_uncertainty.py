@@ -179,6 +179,16 @@ def test_bad_tolerance_names_its_field(line, field, reason):
     assert reason in err.value.reason
 
 
+@pytest.mark.parametrize(("line", "quoted"), [('gauge_accuracy = "-1 %"', "-1 %"),
+                                             ('length = "200 %"', "200 %"),
+                                             ('temperature = "-2 K"', "-2 K")])
+def test_a_tolerance_out_of_bounds_is_quoted_as_typed(line, quoted):
+    # It was quoted as the core read it ("got -1.0", "got 200.0").
+    with pytest.raises(InputError) as err:
+        build(parse_site(one_pipe(f"\n[tolerances]\n{line}\n")))
+    assert str(err.value).endswith(f"got {quoted}")
+
+
 def test_a_roughness_factor_reaching_half_the_bore_is_named_as_typed():
     # Colebrook is meaningless at ε ≥ D/2; the check runs when the bands are asked for.
     site = parse_site(one_pipe("\n[tolerances]\nroughness_factor = [1, 2000]\n"))
