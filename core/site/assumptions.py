@@ -29,6 +29,7 @@ EARTH_GRAVITY = (9.76, 9.84)
 """m/s²: about the least and the most gravity on the Earth's surface (a mountain summit near the
 equator, a pole at sea level; from memory, rounded outward)."""
 
+
 @dataclass(frozen=True)
 class Assumption:
     """One thing assumed or resolved. ``code`` is stable for scripts; ``branch`` the branch's

@@ -15,7 +15,7 @@ from ..fluids import INPUTS, LIQUIDS, fluid_from_spec, liquid
 from ..model import Fluid
 from ..units import KINDS, parse_quantity
 from .spec import Site, Value
-from .values import text_value
+from .values import is_bare_number, text_value
 
 if TYPE_CHECKING:
     from ..storage.presets import PresetSource
@@ -82,22 +82,12 @@ def _concentration(value: Value, unit: str | None) -> tuple[str, float]:
 
     text, basis = split_basis(value) if isinstance(value, str) else (value, "mass")
     fraction = parse_quantity(text, "fraction", "fluid.concentration", default_unit=unit)
-    if unit is None and fraction > 1 and _bare(text):  # "30" meant as a percent, read as 3000 %
+    # "30" meant as a percent, read as a fraction of one (3000 %)
+    if unit is None and fraction > 1 and is_bare_number(text):
         raise InputError("fluid.concentration", describe(value),
                          f"a number alone is a fraction of one here ({fraction * 100:g} %); "
                          f"for a percent write it: '{text} %'")
     return ("volume_fraction" if basis == "volume" else "mass_fraction"), fraction
-
-
-def _bare(value: Value) -> bool:
-    """A number with no unit: a TOML number, or a text of one."""
-    if isinstance(value, int | float) and not isinstance(value, bool):
-        return True
-    try:
-        float(str(value))
-    except ValueError:
-        return False
-    return True
 
 
 def _fluid_preset(kind: str, presets: PresetSource | None) -> dict[str, Any]:

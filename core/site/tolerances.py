@@ -35,7 +35,7 @@ from ..model import Fluid, Given, Network, PressureDrop
 from ..numerics.tolerances import Thermal, Tolerances
 from ..units import parse_quantity
 from .spec import Site, TolerancesSpec, Value
-from .values import number
+from .values import is_bare_number, number
 
 if TYPE_CHECKING:
     from ..storage.presets import PresetSource
@@ -44,7 +44,6 @@ PERCENT_KEYS = {f.metadata["key"]: f.name for f in fields(Tolerances)
                 if f.name.endswith("_percent")}
 """Site key → :class:`Tolerances` field, for the keys given as percentages."""
 
-_BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
 _NUMBER_THEN_UNIT = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?(.*)\Z", re.S)
 
 
@@ -58,7 +57,7 @@ def percent(value: Value, path: str) -> float:
     refused: 3 could mean 3 % or 300 %."""
     if value is None or isinstance(value, bool):
         raise InputError(path, describe(value), "must be a percentage such as '3 %'")
-    if isinstance(value, int | float) or (isinstance(value, str) and _BARE.match(value)):
+    if is_bare_number(value):
         raise InputError(path, describe(value), f"give the percent sign, such as '{value} %'")
     return _tidy(parse_quantity(value, "fraction", path) * 100)
 

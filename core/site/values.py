@@ -6,6 +6,7 @@ Every failure is an :class:`~branchwise.core.errors.InputError` naming the field
 from __future__ import annotations
 
 import math
+import re
 import threading
 from typing import TYPE_CHECKING
 
@@ -17,6 +18,16 @@ if TYPE_CHECKING:
     from ..catalogs import PipeSize
 
 # ---- values --------------------------------------------------------------------------------
+
+_BARE = re.compile(r"\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?\s*\Z")
+
+
+def is_bare_number(value: Value) -> bool:
+    """A number with no unit: a TOML number, or a text of one (``3``, ``"0.3"``)."""
+    if isinstance(value, bool):
+        return False
+    return isinstance(value, int | float) or (isinstance(value, str)
+                                              and _BARE.match(value) is not None)
 
 
 def quantity(value: Value, kind: str, path: str) -> float:
