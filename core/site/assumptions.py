@@ -30,6 +30,12 @@ EARTH_GRAVITY = (9.76, 9.84)
 equator, a pole at sea level; from memory, rounded outward)."""
 
 
+def on_earth(gravity: float) -> bool:
+    """Whether ``gravity`` (m/s²) is one found somewhere on the Earth's surface."""
+    low, high = EARTH_GRAVITY
+    return low <= gravity <= high
+
+
 @dataclass(frozen=True)
 class Assumption:
     """One thing assumed or resolved. ``code`` is stable for scripts; ``branch`` the branch's
@@ -103,9 +109,9 @@ def _site_wide(site: Site, built: Built) -> list[Assumption]:
                               f"g = {STANDARD_GRAVITY} m/s² (standard gravity)"))
     else:
         g = net.gravity
-        low, high = EARTH_GRAVITY
         words = (f"g = {g:.6g} m/s² as typed (standard gravity {STANDARD_GRAVITY} m/s²)")
-        if not low <= g <= high:
+        if not on_earth(g):
+            low, high = EARTH_GRAVITY
             words += (f": not Earth's — about {low:g} to {high:g} m/s² anywhere on its surface "
                       "(from memory); check conditions.gravity")
         out.append(Assumption("gravity-typed", None, words))

@@ -44,3 +44,18 @@ def test_in_us_units_the_bore_reads_in_inches(ui):
             assert "bore 3.068 in" in text, text  # ASME B36.10M: NPS 3 sch 40, 3.068 in
 
     ui.run(scenario)
+
+
+def test_a_typed_gravity_is_said_on_the_split_screen(ui):
+    # Surface gravity is about 9.76–9.84 m/s² anywhere on the Earth (from memory): a g typed
+    # outside it (two digits swapped, 9.18) is questioned where the answer is read.
+    async def scenario() -> None:
+        async with ui.started("f4", size=(120, 40)) as (app, pilot):
+            for typed, said in (("9.79 m/s^2", "g 9.79 m/s² as typed ("),
+                                ("9.18 m/s^2", "g 9.18 m/s² as typed (not Earth's: check it)")):
+                app.edit("gravity", lambda s, g=typed: setattr(s.conditions, "gravity", g))
+                await ui.settle(pilot)
+                text = " ".join(ui.text(app).split())
+                assert said in text, text
+
+    ui.run(scenario)

@@ -323,16 +323,15 @@ a typed gravity is said beside them."""
 def assumed_line(app: Workspace, solved: SiteResult) -> list[str]:
     """One line: the site-wide defaults taken, and where the rest of what was read is shown."""
     from branchwise.core.messages import limit_text
-    from branchwise.core.site.assumptions import EARTH_GRAVITY
+    from branchwise.core.site.assumptions import on_earth
 
     net = solved.result.network
     limit = app.units.restate(limit_text("velocity", net.velocity_limit))
     words = [ASSUMED_WORDS[a.code].format(limit=limit) for a in solved.assumptions
              if a.branch is None and a.code in ASSUMED_WORDS]
     if any(a.code == "gravity-typed" for a in solved.assumptions):  # a typed g is said too
-        low, high = EARTH_GRAVITY
         words.append(f"g {net.gravity:.5g} m/s² as typed"
-                     + ("" if low <= net.gravity <= high else " (not Earth's: check it)"))
+                     + ("" if on_earth(net.gravity) else " (not Earth's: check it)"))
     per_branch = sum(1 for a in solved.assumptions if a.branch is not None)
     if not words and not per_branch:
         return []
