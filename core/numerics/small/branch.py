@@ -33,6 +33,7 @@ _log = math.log
 _exp = math.exp
 _sqrt = math.sqrt
 _log10 = math.log10
+_NAN = math.nan
 
 
 class Fallback(Exception):
@@ -61,39 +62,57 @@ class Pipe:
                  "one_colebrook", "owned", "ld", "ke", "c0", "series")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
+        # Written for speed (a network met anew builds one pipe a branch, each solve): every
+        # attribute set once, the lists made whole, the state's too (as :meth:`_new_state`).
         segs = br.segments
         kv = br.valve_kv
         self.valve_r = valve_r = VALVE_HEAD_FACTOR / (kv**2 * g) if kv is not None else 0.0
+        self.nu, self.g, self.model = nu, g, model
+        self.h = self.s = self.q = _NAN
+        self.x = 0.0
+        self.owned = True
         if len(segs) == 1:
             s = segs[0]
-            dj = s.diameter
-            self.d, self.length, self.eps, self.k = [dj], [s.length], [s.roughness], [s.minor_k]
-            rr = s.roughness / dj
+            dj, length, eps, k, hw_c = s.diameter, s.length, s.roughness, s.minor_k, s.hw_c
+            rr = eps / dj
             area = math.pi * dj**2 / 4
+            self.n = 1
+            self.d, self.length, self.eps, self.k = [dj], [length], [eps], [k]
             self.rr, self.a3, self.area = [rr], [rr / 3.7], [area]
-            self.c = [s.hw_c if s.hw_c is not None else math.nan]
-            self.ld = s.length / dj  # as _fold
-            self.ke = s.minor_k + 2 * g * valve_r * area * area
+            self.c = [hw_c if hw_c is not None else _NAN]
+            self.ld = length / dj  # as _fold
+            self.ke = k + 2 * g * valve_r * area * area
             self.c0 = 2.51 * nu / (dj * math.sqrt(2 * g))
-        else:
-            self.d, self.length, self.eps, self.k = [], [], [], []
-            self.rr, self.a3, self.area, self.c = [], [], [], []
-            for s in segs:
-                dj = s.diameter
-                rr = s.roughness / dj
-                self.d.append(dj)
-                self.length.append(s.length)
-                self.eps.append(s.roughness)
-                self.k.append(s.minor_k)
-                self.rr.append(rr)
-                self.a3.append(rr / 3.7)
-                self.area.append(math.pi * dj**2 / 4)
-                self.c.append(s.hw_c if s.hw_c is not None else math.nan)
-            self.ld = self.ke = self.c0 = math.nan
-        self.nu, self.g, self.model, self.n = nu, g, model, len(segs)
-        self.series = self._series_constants() if self.n > 1 else NO_SERIES
-        self.one_colebrook = self.n == 1 and model == "colebrook"
-        self.owned = True
+            self.series = NO_SERIES
+            self.one_colebrook = model == "colebrook"
+            self.xs = [0.0]
+            self.re, self.f, self.fs = [_NAN], [_NAN], [_NAN]
+            self.major, self.minor = [_NAN], [_NAN]
+            return
+        n = len(segs)
+        self.n = n
+        self.d = d = []
+        self.length = lengths = []
+        self.eps = eps = []
+        self.k = ks = []
+        self.rr = rrs = []
+        self.a3 = a3 = []
+        self.area = areas = []
+        self.c = cs = []
+        for s in segs:
+            dj = s.diameter
+            rr = s.roughness / dj
+            d.append(dj)
+            lengths.append(s.length)
+            eps.append(s.roughness)
+            ks.append(s.minor_k)
+            rrs.append(rr)
+            a3.append(rr / 3.7)
+            areas.append(math.pi * dj**2 / 4)
+            cs.append(s.hw_c if s.hw_c is not None else _NAN)
+        self.ld = self.ke = self.c0 = _NAN
+        self.series = series_constants(nu, g, valve_r, areas, d, lengths, ks)
+        self.one_colebrook = False
         self._new_state()
 
     def copy(self, own: bool = False) -> Pipe:

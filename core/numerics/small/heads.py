@@ -32,19 +32,21 @@ being worked out again. One network's are kept, no more; a network met anew (the
 for each edit) pays for its pipes."""
 
 
-def _kept(network: Network) -> tuple[Kept, list[Kept]]:
+def _kept(network: Network) -> tuple[Kept, list[Kept], bool]:
+    """The network's kept pipes, the list of those free, and whether they were made just now
+    (as new: no solve has used them)."""
     global _last
     last = _last
     if last is not None and last[0]() is network:
-        return last[1], last[2]
+        return last[1], last[2], False
     nu = network.fluid.kinematic_viscosity
     g, model = network.gravity, network.friction
-    kept = tuple(Pipe(b, nu, g, model) for b in network.branches)
+    kept = tuple([Pipe(b, nu, g, model) for b in network.branches])
     for p in kept:
         p.owned = False  # shared by later solves of this network: never changed in place
     free = [kept]
     _last = (weakref.ref(network), kept, free)
-    return kept, free
+    return kept, free, True
 
 
 def pipes_of(network: Network) -> list[Pipe]:
@@ -59,12 +61,13 @@ def lend(network: Network) -> tuple[Sequence[Pipe], Loan | None]:
     Lending spares a solve of a few branches much of its time (making copies, and the fresh
     memory they touch). A list's pop and append are atomic, so two threads never hold the
     same pipes."""
-    kept, free = _kept(network)
+    kept, free, new = _kept(network)
     try:
         pipes = free.pop()
     except IndexError:  # held by a solve in another thread (or further up this one)
         return list(map(Pipe.copy, kept)), None
-    Pipe.reset(pipes)
+    if not new:
+        Pipe.reset(pipes)
     return pipes, (free, pipes)
 
 

@@ -34,12 +34,15 @@ def series_constants(nu: float, g: float, valve_r: float, area: list[float], d: 
     """For :func:`joint_newton` (SI, per segment: A, D, L, K): per segment 2.51 Q/Re and
     (L/D)/(2 g A²), the fittings' and valve's resistance together
     (h = Q² (Σ (L/D)/(2 g A²) f + that)), and per segment the fittings' K/(2 g A²)."""
-    n = len(d)
-    crk = [2.51 * area[j] * nu / d[j] for j in range(n)]  # 2.51/Re = that/Q
-    ldw = [length[j] / d[j] / (2 * g * area[j] * area[j]) for j in range(n)]
-    kws = [k[j] / (2 * g * area[j] * area[j]) for j in range(n)]
+    crk: list[float] = []
+    ldw: list[float] = []
+    kws: list[float] = []
     kw = valve_r
-    for w in kws:
+    for a, dj, lj, kj in zip(area, d, length, k, strict=True):
+        crk.append(2.51 * a * nu / dj)  # 2.51/Re = that/Q
+        ldw.append(lj / dj / (2 * g * a * a))
+        w = kj / (2 * g * a * a)
+        kws.append(w)
         kw += w
     return crk, ldw, kw, kws
 
