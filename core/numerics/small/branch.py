@@ -44,7 +44,8 @@ class Pipe:
     """One branch's constants (SI) and the state of its last evaluation.
 
     The constants' lists may be shared with other pipes of the same branch (:meth:`copy`):
-    only a pipe that owns them (``owned``) changes them, by :meth:`set_segment`.
+    only a pipe that owns them (``owned``; a pipe built to be shared is made with
+    ``owned=False``) changes them, by :meth:`set_segment`.
 
     After :meth:`evaluate` at |Q| = q: ``h`` (m), ``s`` = d ln h / d ln Q, and per segment
     ``re``, ``f``, ``fs`` (d ln f / d ln Re), ``major`` and ``minor`` (m, for the flow's
@@ -61,7 +62,7 @@ class Pipe:
                  "model", "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs",
                  "one_colebrook", "owned", "ld", "ke", "c0", "series")
 
-    def __init__(self, br: Branch, nu: float, g: float, model: str) -> None:
+    def __init__(self, br: Branch, nu: float, g: float, model: str, owned: bool = True) -> None:
         # Written for speed (a network met anew builds one pipe a branch, each solve): every
         # attribute set once, the lists made whole, the state's too (as :meth:`_new_state`).
         segs = br.segments
@@ -70,7 +71,7 @@ class Pipe:
         self.nu, self.g, self.model = nu, g, model
         self.h = self.s = self.q = _NAN
         self.x = 0.0
-        self.owned = True
+        self.owned = owned
         if len(segs) == 1:
             s = segs[0]
             dj, length, eps, k, hw_c = s.diameter, s.length, s.roughness, s.minor_k, s.hw_c

@@ -41,9 +41,8 @@ def _kept(network: Network) -> tuple[Kept, list[Kept], bool]:
         return last[1], last[2], False
     nu = network.fluid.kinematic_viscosity
     g, model = network.gravity, network.friction
-    kept = tuple([Pipe(b, nu, g, model) for b in network.branches])
-    for p in kept:
-        p.owned = False  # shared by later solves of this network: never changed in place
+    # not owned: shared by later solves of this network, never changed in place
+    kept = tuple([Pipe(b, nu, g, model, owned=False) for b in network.branches])
     free = [kept]
     _last = (weakref.ref(network), kept, free)
     return kept, free, True
