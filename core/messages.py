@@ -131,3 +131,13 @@ def temperature_difference_text(dt_k: float) -> str:
     """A difference of temperatures, K (said in K, or °F where temperatures are in °F:
     1 K = 1.8 °F, by the scales' definitions)."""
     return marked("temperature_difference", dt_k)
+
+
+def reynolds_text(re: float, grouped: bool = False) -> str:
+    """A Reynolds number as a whole number (``grouped``: with thousands commas), or to two
+    significant figures below 10: a creeping flow's Re of 3.7e-28 is not 0, nor is 0.52."""
+    if not re == re:  # NaN
+        return "—"
+    if abs(re) >= 10:
+        return f"{re:,.0f}" if grouped else f"{re:.0f}"
+    return "0" if re == 0 else f"{re:.2g}"

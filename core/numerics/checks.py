@@ -16,7 +16,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..messages import flow_text, limit_text, marked, velocity_text
+from ..messages import flow_text, limit_text, marked, reynolds_text, velocity_text
 from ..model import Network
 from .friction import RE_LAMINAR, RE_TURBULENT
 from .results import Arrays, Convergence, SolveWarning
@@ -196,25 +196,26 @@ class _Text:
 def _segment_text(code: str, net: Network, re: float, rr: float, speed: float) -> str:
     hw = net.friction == "hazen-williams"
     if code == "laminar-law-beyond":
-        return (f"Re {re:.0f} is above {RE_LAMINAR:.0f}, yet the friction model is the laminar "
-                "law (f = 64/Re): the flow here is not laminar, so its friction is too low and "
-                "this branch's figures are wrong — choose colebrook")
+        return (f"Re {reynolds_text(re)} is above {RE_LAMINAR:.0f}, yet the friction model is "
+                "the laminar law (f = 64/Re): the flow here is not laminar, so its friction is "
+                "too low and this branch's figures are wrong — choose colebrook")
     if code == "laminar":
-        head = f"laminar flow (Re {re:.0f}): f = 64/Re, roughness has no effect"
+        head = f"laminar flow (Re {reynolds_text(re)}): f = 64/Re, roughness has no effect"
         return head + ("; Hazen–Williams holds for turbulent flow only, so the laminar law was "
                        "used here" if hw else "")
     if code == "transition":
         used = ("a bridge from the laminar law to Hazen–Williams (Churchill's shape) was used"
                 if hw else "no correlation is reliable there")
-        return (f"Re {re:.0f} is in the transition zone ({RE_LAMINAR:.0f}–{RE_TURBULENT:.0f}): "
-                f"{used}; treat this branch's figures as rough")
+        return (f"Re {reynolds_text(re)} is in the transition zone "
+                f"({RE_LAMINAR:.0f}–{RE_TURBULENT:.0f}): {used}; treat this branch's figures "
+                "as rough")
     if code == "roughness-range":
         return f"ε/D = {rr:.3g} is above {ROUGHNESS_RANGE}, beyond the correlation's range"
     if code == "reynolds-range":
         if net.friction == "swamee-jain" and re <= RE_RANGE_MAX:
             lo, top = SWAMEE_JAIN_RANGE
-            return (f"Re {re:.0f}, ε/D {rr:.3g}: Swamee–Jain was fitted for Re ≥ {lo:.0f} and "
-                    f"ε/D ≤ {top:g}; colebrook holds here")
+            return (f"Re {reynolds_text(re)}, ε/D {rr:.3g}: Swamee–Jain was fitted for "
+                    f"Re ≥ {lo:.0f} and ε/D ≤ {top:g}; colebrook holds here")
         return (f"Re {re:.3g} is above {RE_RANGE_MAX:.0e}, beyond the range the {net.friction} "
                 "correlation was fitted to; the answer is extrapolated")
     if code == "velocity-high":

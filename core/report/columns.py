@@ -6,6 +6,7 @@ import math
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
 
+from ..messages import reynolds_text
 from ..numerics.results import BranchResult
 from ..site.solve import SiteResult
 from ..site.spec import Site
@@ -74,7 +75,7 @@ def segment_rows(
         for j, s in enumerate(b.segments):
             first = j == 0
             cells = {
-                "velocity": q(s.velocity, "velocity"), "reynolds": f"{s.reynolds:.0f}",
+                "velocity": q(s.velocity, "velocity"), "reynolds": reynolds_text(s.reynolds),
                 "f": format_number(s.friction_factor, 4),
                 "regime": "no flow" if s.regime == "none" else s.regime,
                 "diameter": q(s.diameter, "diameter"), "length": q(s.length, "length"),

@@ -17,7 +17,7 @@ import math
 import numpy as np
 
 from ...errors import InputError, NoSolutionError
-from ...messages import flow_text
+from ...messages import flow_text, reynolds_text
 from ...model import FindUnknown, Given, Network
 from .. import friction
 from ..hydraulics import Array, branch_head, segment_state
@@ -91,8 +91,9 @@ def why_not(s: Sought, given: Given) -> NoSolutionError:
     re, f_needed = float(re_a[0]), float(f_a[0])
     if re < friction.RE_LAMINAR:
         return NoSolutionError(
-            f"branch '{br.name}' is laminar at {flow_text(q)} (Re {re:.0f}): roughness has no "
-            "effect on its loss, so it cannot be found from a flow", "solve.target_flow")
+            f"branch '{br.name}' is laminar at {flow_text(q)} (Re {reynolds_text(re)}): "
+            "roughness has no effect on its loss, so it cannot be found from a flow",
+            "solve.target_flow")
     if not f_needed > 0:
         zero = with_value(br, s.segment, "length", 0.0)
         return NoSolutionError(

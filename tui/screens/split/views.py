@@ -21,6 +21,8 @@ from textual.containers import Vertical
 from textual.widget import Widget
 from textual.widgets import Static
 
+from branchwise.core.messages import reynolds_text
+
 from ...drawing.share_bar import share_bar
 from ...quiet import put
 from ...theme import colour
@@ -224,9 +226,8 @@ class ResultViews(Vertical):
                     number(br.flow, "flow") if first else "",
                     (share_bar(br.share, 6, *bar) if wide else _percent(br.share)) if first else "",
                     number(seg.velocity, "velocity", 3),
-                    f"{seg.reynolds:,.0f}" if wide else _compact(seg.reynolds),
-                    f"{seg.friction_factor:.4f}" if math.isfinite(seg.friction_factor)
-                    else "—",
+                    reynolds_text(seg.reynolds, grouped=True) if wide else _compact(seg.reynolds),
+                    _friction(seg.friction_factor),
                     REGIMES.get(seg.regime, seg.regime),
                     number(seg.major_loss, "head", 3),
                     number(seg.minor_loss, "head", 3),
@@ -346,7 +347,19 @@ def _compact(number: float) -> str:
     for scale, suffix in ((1e6, "M"), (1e3, "k")):
         if abs(number) >= scale:
             return f"{number / scale:.3g}{suffix}"
-    return f"{number:.0f}"
+    return reynolds_text(number)
+
+
+def _friction(f: float) -> str:
+    """A friction factor to four decimals (``0.0189``); a creeping flow's f of 64/Re, up to
+    1e29 and more, to four significant figures rather than thirty digits."""
+    if not math.isfinite(f):
+        return "—"
+    if abs(f) < 10:
+        return f"{f:.4f}"
+    from branchwise.core.units import format_number
+
+    return format_number(f, 4)
 
 
 def _percent(share: float) -> str:
