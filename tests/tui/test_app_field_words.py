@@ -63,6 +63,20 @@ def test_valve_check_agrees_with_the_site_file():
     assert "term 2" in valve_problem("Kv 160 + 0")
 
 
+def test_a_typed_number_is_quoted_back_as_typed():
+    # "Cv 0" was kept as 0.0 and refused as "got 0.0": the person typed 0.
+    app_site = BranchwiseApp().site
+    set_valve(app_site.branches[0], "Cv 0")
+    with pytest.raises(InputError) as caught:
+        build(app_site)
+    assert str(caught.value.value) == "0", caught.value
+    assert "0.0" not in str(caught.value)
+    set_valve(app_site.branches[0], "Cv 110")
+    assert app_site.branches[0].valve_cv == 110  # still a number, saved as TOML's 110
+    set_valve(app_site.branches[0], "Kv 95.5")
+    assert app_site.branches[0].valve_kv == 95.5
+
+
 def test_split_losses_named_as_in_the_exports(ui):
     """The Split table's Major, Minor and Valve columns hold what the exports' "Major loss",
     "Minor loss" and "Valve loss" hold (the minor loss without the valve's)."""

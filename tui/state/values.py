@@ -25,6 +25,14 @@ def is_bare_number(text: str) -> bool:
     return bool(_BARE.match(text))
 
 
+def bare_number(text: str) -> int | float:
+    """A text :func:`is_bare_number` accepts, as a site file's TOML would hold it: an integer
+    for digits alone (``0`` is kept, and quoted back in an error, as 0, not 0.0), else a
+    float."""
+    text = text.strip()
+    return int(text) if text.lstrip("+-").isdigit() else float(text)
+
+
 def with_unit(text: str, unit: str) -> str:
     """``text`` as it should be kept: a bare number gets ``unit`` (the field's display unit)."""
     text = text.strip()

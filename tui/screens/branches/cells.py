@@ -20,7 +20,13 @@ from branchwise.core.names import name_key
 from branchwise.core.site.spec import BranchSpec, SegmentSpec
 from branchwise.core.site.valves import series_kv
 
-from ...state.values import is_bare_number, is_plain_diameter, text_of, with_unit
+from ...state.values import (
+    bare_number,
+    is_bare_number,
+    is_plain_diameter,
+    text_of,
+    with_unit,
+)
 
 if TYPE_CHECKING:
     from ...workspace import Workspace
@@ -193,7 +199,7 @@ def set_wall(seg: SegmentSpec, text: str, unit: str) -> None:
 
 def set_k(seg: SegmentSpec, text: str) -> None:
     text = text.strip()
-    seg.minor_k = (float(text) if is_bare_number(text) else text) if text else None
+    seg.minor_k = (bare_number(text) if is_bare_number(text) else text) if text else None
 
 
 def set_valve(br: BranchSpec, text: str) -> None:
@@ -204,7 +210,7 @@ def set_valve(br: BranchSpec, text: str) -> None:
     kind, value = (m.group(1) or "kv").lower(), m.group(2)
     # Several valves in series: "Kv 160 + Kv 40" is kept as the site file's "160 + 40".
     value = re.sub(rf"\+\s*{kind}\b\s*[:=]?\s*", "+ ", value, flags=re.I)
-    number: float | str = float(value) if is_bare_number(value) else value
+    number: float | str = bare_number(value) if is_bare_number(value) else value
     if kind == "cv":
         br.valve_cv = number
     else:
