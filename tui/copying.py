@@ -12,6 +12,7 @@ from datetime import datetime
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from .core_loading import core_imports
 from .workspace import workspace
 
 if TYPE_CHECKING:
@@ -27,7 +28,8 @@ def _answer(app: App[None]) -> SiteResult | None:
 
 def table_text(app: App[None]) -> str | None:
     """The results table as TSV in the person's units, or None without an answer."""
-    from branchwise.core.report.csv_report import to_tsv
+    with core_imports():
+        from branchwise.core.report.csv_report import to_tsv
 
     solved = _answer(app)
     return None if solved is None else to_tsv(solved, workspace(app).units)
@@ -36,7 +38,8 @@ def table_text(app: App[None]) -> str | None:
 def answer_text(app: App[None]) -> str | None:
     """The answer on one line: Δp, head loss and total flow, and a found unknown with its
     catalog size (the reports' own words), or None without an answer."""
-    from branchwise.core.report.lines import solved_lines, summary_lines
+    with core_imports():
+        from branchwise.core.report.lines import solved_lines, summary_lines
 
     solved = _answer(app)
     if solved is None:

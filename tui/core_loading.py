@@ -9,11 +9,12 @@ screens read first under it too, once its first screen is drawn (:func:`load_cor
 a curve and a recovery copy (milliseconds each) run under the lock throughout, so whatever
 their path loads on first use loads under it; a band (longer) loads first what its draws use
 (:func:`load_sampling`), the history its module, then each works without the lock.
-tests/tui/test_core_loading.py records every first import of a worker thread and checks that it
-held the lock. Not covered: the app's own thread imports some modules of the core's reports
-when a screen first needs them, without the lock, so it may import one while a worker holds
-the lock importing another (not seen to fail). Once a module is loaded, the lock costs a
-fraction of a microsecond.
+The app's own thread, once its first screen is drawn, imports under the lock too: the reports'
+modules a copy or an export needs when first asked (the band's and the history's words are
+loaded by their workers, before the view draws with them).
+tests/tui/test_core_loading.py records every first import of a worker thread, and of the app's
+thread after its first screen, and checks that it held the lock. Once a module is loaded, the
+lock costs a fraction of a microsecond.
 """
 
 from __future__ import annotations
@@ -52,9 +53,10 @@ def load_core(solver: bool) -> None:
 
 def load_sampling() -> None:
     """What the draws of a band load on first use (the Monte Carlo, numpy's random numbers and
-    masked arrays), under the lock."""
+    masked arrays), and the band's words the view then draws with, under the lock."""
     with core_imports():
         import numpy.ma  # noqa: F401
         import numpy.random  # noqa: F401
 
         import branchwise.core.numerics.uncertainty  # noqa: F401
+        import branchwise.core.report.band  # noqa: F401

@@ -21,6 +21,7 @@ from branchwise.core.site.readings import NoReading
 from branchwise.core.site.spec import BranchSpec, ConditionsSpec, FluidSpec, SegmentSpec, Site
 from branchwise.core.storage.paths import sites_dir
 
+from .core_loading import core_imports
 from .recovery import Recovery
 from .state.values import shown_path
 from .workspace import workspace
@@ -283,16 +284,18 @@ class SiteFiles:
         def chosen(path: Path | None) -> None:
             if path is None:
                 return
-            from branchwise.core.report.csv_report import to_csv
-            from branchwise.core.report.markdown import to_markdown
-            from branchwise.core.storage.atomic import atomic_write_text
+            with core_imports():
+                from branchwise.core.report.csv_report import to_csv
+                from branchwise.core.report.markdown import to_markdown
+                from branchwise.core.storage.atomic import atomic_write_text
 
             source = None if saved_at is None else str(saved_at)
             text = (to_markdown(solved, reader, source=source,
                                 unsaved=unsaved and saved_at is not None)
                     if fmt == "markdown" else to_csv(solved, reader))
             if fmt == "html":
-                from branchwise.core.report.html_report import to_html
+                with core_imports():
+                    from branchwise.core.report.html_report import to_html
 
                 text = to_html(solved, reader, source=source,
                                unsaved=unsaved and saved_at is not None)

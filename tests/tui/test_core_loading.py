@@ -4,7 +4,9 @@ screen opened while the first solve loaded the core once did. A race cannot be m
 on demand, so this checks what prevents it: in a fresh interpreter, every module of the core,
 numpy, scipy and tomlkit that a worker thread imports first, it imports holding the lock —
 through the solve (the flows, then a diameter sought), the band, the curve, an edit, the
-recovery copy and the history (the history first, or the band first)."""
+recovery copy and the history (the history first, or the band first). Once its first screen
+is drawn, the app's own thread too: the band's and the history's words, the table and the
+answer copied."""
 
 from __future__ import annotations
 
@@ -19,14 +21,16 @@ import asyncio, sys, threading
 
 WATCHED = ("branchwise.core", "numpy", "scipy", "tomlkit")
 outside: list[str] = []
+started = [False]  # the app's first screen drawn
 
 
 class Recorder:
-    '''Notes a watched module imported first by a thread other than the app's, without the
-    core's lock.'''
+    '''Notes a watched module imported first without the core's lock by a worker thread, or
+    by the app's once its first screen is drawn.'''
 
     def find_spec(self, name, path=None, target=None):
-        if (name.startswith(WATCHED) and threading.current_thread() is not threading.main_thread()
+        worker = threading.current_thread() is not threading.main_thread()
+        if (name.startswith(WATCHED) and (worker or started[0])
                 and not core_loading._CORE_LOCK._is_owned()):
             outside.append(f"{threading.current_thread().name}: {name}")
         return None
@@ -47,6 +51,7 @@ async def main():
     app = BranchwiseApp()
     async with app.run_test(size=(100, 30)) as pilot:
         await settle(pilot)
+        started[0] = True
         first = ("f5",) if sys.argv[2] == "history" else ("b",)
         for keys in (first, ("f4", "b"), ("p",), ("f5",), ("f3", "enter", "3", "enter")):
             await pilot.press(*keys)
@@ -57,6 +62,9 @@ async def main():
         await settle(pilot)
         await pilot.press("f4", "b")
         await settle(pilot)
+        from branchwise.tui.copying import answer_text, table_text
+
+        assert table_text(app) and answer_text(app)
         assert app.outcome.solved is not None and app.outcome.solved.result.solved is not None
     print("OUTSIDE", len(outside))
     print("\n".join(outside))

@@ -101,7 +101,8 @@ class HistoryScreen(WorkScreen):
     @work(thread=True, exclusive=True, exit_on_error=False, group="history",
           description="history")  # not the repr of its arguments (the whole site)
     def _work(self, site: Site, revision: int) -> None:
-        with core_imports():
+        with core_imports():  # (and the words the screen then draws with, loaded here)
+            import branchwise.core.report.history_report  # noqa: F401
             from branchwise.core.errors import BranchwiseError
             from branchwise.core.history import history_of
 
