@@ -92,27 +92,29 @@ class Pipe:
             return
         n = len(segs)
         self.n = n
-        self.d = d = []
-        self.length = lengths = []
-        self.eps = eps = []
-        self.k = ks = []
-        self.rr = rrs = []
-        self.a3 = a3 = []
-        self.area = areas = []
-        self.c = cs = []
+        ds: list[float] = []
+        lengths: list[float] = []
+        roughs: list[float] = []
+        ks: list[float] = []
+        rrs: list[float] = []
+        a3s: list[float] = []
+        areas: list[float] = []
+        cs: list[float] = []
+        self.d, self.length, self.eps, self.k = ds, lengths, roughs, ks
+        self.rr, self.a3, self.area, self.c = rrs, a3s, areas, cs
         for s in segs:
             dj = s.diameter
             rr = s.roughness / dj
-            d.append(dj)
+            ds.append(dj)
             lengths.append(s.length)
-            eps.append(s.roughness)
+            roughs.append(s.roughness)
             ks.append(s.minor_k)
             rrs.append(rr)
-            a3.append(rr / 3.7)
+            a3s.append(rr / 3.7)
             areas.append(math.pi * dj**2 / 4)
             cs.append(s.hw_c if s.hw_c is not None else _NAN)
         self.ld = self.ke = self.c0 = _NAN
-        self.series = series_constants(nu, g, valve_r, areas, d, lengths, ks)
+        self.series = series_constants(nu, g, valve_r, areas, ds, lengths, ks)
         self.one_colebrook = False
         self._new_state()
 
