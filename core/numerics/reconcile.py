@@ -152,7 +152,8 @@ def instrument_sigma(o: Observation, tol: Tolerances) -> float:
     if o.kind == "pressure_drop":
         span = abs(o.value) if tol.gauge_full_scale is None else tol.gauge_full_scale
         return tol.gauge_percent / 100 * span / SQRT3
-    return tol.flow_meter_percent / 100 * abs(o.value) / SQRT3
+    percent = tol.total_flow_percent if o.kind == "total_flow" else tol.flow_meter_percent
+    return percent / 100 * abs(o.value) / SQRT3
 
 
 def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | None = None,

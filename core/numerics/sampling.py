@@ -181,7 +181,8 @@ def build_plan(
         name = network.branches[network.index_of(given.branch)].name
         inputs.append(InputTolerance(f"flow meter on branch '{name}'", "meter", meter))
     else:
-        inputs.append(InputTolerance("flow meter (total flow)", "meter", meter))
+        inputs.append(InputTolerance("flow meter (total flow)", "meter",
+                                     tol.total_flow_percent / 100))
     want = find if isinstance(find, FindUnknown) else None
     x = network.index_of(want.branch) if want is not None else -1
     if want is not None and tol.target_flow_measured:

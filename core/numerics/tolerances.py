@@ -23,7 +23,11 @@ class Tolerances:
     ±1 %). gauge_full_scale: the gauge's full scale, Pa; None takes the percent of the reading
     instead (optimistic for a small reading on a big gauge; the result notes it).
     flow_meter_percent: flow reading accuracy, % of reading (common practice: clamp-on ultrasonic
-    meters ±2–5 %; 3). target_flow_measured: the sought unknown's target flow is a reading (True)
+    meters ±2–5 %; 3): a branch's reading and the sought unknown's target flow.
+    total_flow_meter_percent: the total-flow reading's accuracy, % of reading, when the header
+    has a meter of its own (common practice: a full-bore magnetic meter ±0.5 %, from memory);
+    None takes flow_meter_percent (the same kind of meter, clamped on the header).
+    target_flow_measured: the sought unknown's target flow is a reading (True)
     or a design figure with no tolerance (False).
     roughness_factor: (low, high) multiplying the entered ε, drawn log-uniform (common practice
     for a table value: 0.5 to 2; for an aged line entered as new, e.g. (1, 10)).
@@ -45,6 +49,8 @@ class Tolerances:
     gauge_percent: float = field(default=1.0, metadata={"key": "gauge_accuracy"})
     gauge_full_scale: float | None = field(default=None, metadata={"key": "gauge_full_scale"})
     flow_meter_percent: float = field(default=3.0, metadata={"key": "flow_meter_accuracy"})
+    total_flow_meter_percent: float | None = field(
+        default=None, metadata={"key": "total_flow_meter_accuracy"})
     target_flow_measured: bool = field(default=True, metadata={"key": "target_flow_measured"})
     roughness_factor: tuple[float, float] = field(default=(0.5, 2.0),
                                                   metadata={"key": "roughness_factor"})
@@ -62,6 +68,9 @@ class Tolerances:
             _limit(name, getattr(self, name), None)
         for name in ("flow_meter_percent", "diameter_percent", "length_percent"):
             _limit(name, getattr(self, name), 100.0, closed=False)
+        if self.total_flow_meter_percent is not None:
+            _limit("total_flow_meter_percent", self.total_flow_meter_percent, 100.0,
+                   closed=False)
         _limit("fitting_k_percent", self.fitting_k_percent, 100.0)
         _limit("valve_kv_percent", self.valve_kv_percent, 100.0, closed=False)
         if self.gauge_full_scale is not None:
@@ -69,6 +78,14 @@ class Tolerances:
         _range(path_of("roughness_factor"), self.roughness_factor)
         for name, pair in self.roughness_m.items():
             _range(path_of("roughness_m", name), pair)
+
+
+    @property
+    def total_flow_percent(self) -> float:
+        """The total-flow reading's accuracy in use, % of reading: its own meter's, else the
+        flow meters'."""
+        own = self.total_flow_meter_percent
+        return self.flow_meter_percent if own is None else own
 
 
 def path_of(name: str, branch: str | None = None) -> str:

@@ -22,7 +22,7 @@ File layout (format 1; the keys are a contract)::
                    or segments = [ {diameter.., length.., ...}, ... ]
     [solve]        find = flows | diameter | length | roughness; branch; target_flow; segment
     [tolerances]   optional: gauge_accuracy, gauge_full_scale, flow_meter_accuracy,
-                   target_flow_measured, roughness_factor = [low, high],
+                   total_flow_meter_accuracy, target_flow_measured, roughness_factor = [low, high],
                    roughness_range = { "<branch>" = [low, high] }, diameter, length,
                    temperature, fitting_k, valve_kv (missing keys: common-practice defaults)
     [[visits]]     optional, earlier visits (``[conditions]`` and ``[record]`` are today's):
@@ -56,8 +56,9 @@ CONDITION_KEYS = ("pressure_drop", "total_flow", "elevation_change", "friction",
                   "velocity_limit", "given")
 SOLVE_KEYS = ("find", "branch", "target_flow", "segment")
 TOLERANCE_KEYS = ("gauge_accuracy", "gauge_full_scale", "flow_meter_accuracy",
-                  "target_flow_measured", "roughness_factor", "roughness_range", "diameter",
-                  "length", "temperature", "fitting_k", "valve_kv")
+                  "total_flow_meter_accuracy", "target_flow_measured", "roughness_factor",
+                  "roughness_range", "diameter", "length", "temperature", "fitting_k",
+                  "valve_kv")
 RECORD_KEYS = ("technician", "date", "pressure_instrument", "flow_instrument")
 VISIT_KEYS = ("date", "technician", "pressure_instrument", "flow_instrument", "notes",
               "pressure_drop", "total_flow", "given", "measured", "temperature")
@@ -179,6 +180,8 @@ class TolerancesSpec:
     gauge_accuracy: Value = None
     gauge_full_scale: Value = None
     flow_meter_accuracy: Value = None
+    total_flow_meter_accuracy: Value = None
+    """The header's own total-flow meter, when it has one (None: as flow_meter_accuracy)."""
     target_flow_measured: Value = None
     roughness_factor: list[Value] | None = None
     roughness_range: dict[str, list[Value]] = field(default_factory=dict)

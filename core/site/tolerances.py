@@ -7,7 +7,8 @@ have a dimension, so the file says what it means::
     [tolerances]
     gauge_accuracy = "1 %"          # of the gauge's full scale (of the reading without one)
     gauge_full_scale = "250 kPa"
-    flow_meter_accuracy = "3 %"     # of the reading
+    flow_meter_accuracy = "3 %"     # of the reading: a branch's (a clamp-on), the target flow's
+    total_flow_meter_accuracy = "0.5 %"   # the header's own meter (absent: flow_meter_accuracy)
     target_flow_measured = true     # the target flow of [solve] is a reading, not a design figure
     roughness_factor = [0.5, 3]     # the entered roughness times 0.5 … 3 (log-uniform)
     roughness_range = { "Bypass" = ["0.05 mm", "0.5 mm"] }   # replaces the factor there

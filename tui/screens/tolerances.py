@@ -30,13 +30,14 @@ from .dialogs import FORM_HINT, FORM_KEYS
 if TYPE_CHECKING:
     from branchwise.core.site.spec import Site
 
-PERCENT = ("gauge_accuracy", "flow_meter_accuracy", "diameter", "length", "fitting_k",
-           "valve_kv")
+PERCENT = ("gauge_accuracy", "flow_meter_accuracy", "total_flow_meter_accuracy", "diameter",
+           "length", "fitting_k", "valve_kv")
 ROWS = (
     # site key, label, what a bare number means
     ("gauge_accuracy", "Gauge accuracy", "% of full scale"),
     ("gauge_full_scale", "Gauge full scale", ""),
     ("flow_meter_accuracy", "Flow meter", "% of reading"),
+    ("total_flow_meter_accuracy", "Total-flow meter", "% of reading"),
     ("roughness_low", "Roughness × from", "× table ε"),
     ("roughness_high", "Roughness × to", "× table ε"),
     ("diameter", "Bore diameter ±", "%"),
@@ -58,6 +59,7 @@ def defaults() -> dict[str, str]:
         "gauge_accuracy": f"{d.gauge_percent:g} %",
         "gauge_full_scale": "none: % of the reading",
         "flow_meter_accuracy": f"{d.flow_meter_percent:g} %",
+        "total_flow_meter_accuracy": "as the flow meter",
         "roughness_low": f"{d.roughness_factor[0]:g}",
         "roughness_high": f"{d.roughness_factor[1]:g}",
         "diameter": f"{d.diameter_percent:g} %",
