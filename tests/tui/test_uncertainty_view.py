@@ -227,6 +227,12 @@ def test_curve_and_tolerances(ui, tmp_path):
             # Enter goes field by field (a form); the last, the valve's Kv/Cv, keeps it.
             await pilot.press("enter")
             assert isinstance(app.screen, TolerancesScreen)
+            # The header's own meter: as the flow meter unless typed (a magmeter's 0.5 %).
+            total = dialog.query_one("#tol-total_flow_meter_accuracy", Field)
+            assert app.focused is total.input and total.text == ""
+            assert total.input.placeholder == "as the flow meter"
+            await ui.type(pilot, "0.5")
+            await pilot.press("enter")
             valve = dialog.query_one("#tol-valve_kv", Field)
             assert "10 % · common practice" in valve.input.placeholder  # core's default
             await pilot.press(*["enter"] * 6)
@@ -235,6 +241,7 @@ def test_curve_and_tolerances(ui, tmp_path):
             await ui.settle(pilot)
             assert not isinstance(app.screen, TolerancesScreen)
             assert app.site.tolerances.flow_meter_accuracy == "5 %"
+            assert app.site.tolerances.total_flow_meter_accuracy == "0.5 %"
             assert app.session.undo_stack[-1].label == "Tolerances"
 
             # Nonsense is refused beside its field, and the site keeps its values.

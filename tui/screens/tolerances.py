@@ -46,6 +46,8 @@ ROWS = (
     ("fitting_k", "Fitting K ±", "%"),
     ("valve_kv", "Valve Kv/Cv ±", "%"),
 )
+FOLLOWS = frozenset({"total_flow_meter_accuracy"})
+"""Rows whose default is another row's value, not a common-practice figure of their own."""
 INTRO = ("± limits on the readings and the records, used by the band (b). Grey values are "
          "common practice, not a standard: type the site's own to replace them.")
 
@@ -116,8 +118,9 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
             yield Static(INTRO, classes="tol-intro", markup=False)
             with Vertical(classes="tol-rows"):
                 for key, label, meaning in ROWS:
+                    hint = base[key] if key in FOLLOWS else f"{base[key]} · common practice"
                     field = Field(label, f"tolerances.{key}", value=typed[key],
-                                  placeholder=f"{base[key]} · common practice", id=f"tol-{key}")
+                                  placeholder=hint, id=f"tol-{key}")
                     field.meaning = (unit_label(self.pressure_unit) if key == "gauge_full_scale"
                                      else meaning)
                     yield field
