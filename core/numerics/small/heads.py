@@ -33,8 +33,9 @@ for each edit) pays for its pipes."""
 
 
 def _kept(network: Network) -> tuple[Kept, list[Kept], bool]:
-    """The network's kept pipes, the list of those free, and whether they were made just now
-    (as new: no solve has used them)."""
+    """The network's kept pipes, the list of those free, and whether they were made just now:
+    then they are in no list yet, the caller's alone (as new: no solve has used them), and
+    the caller puts them in the free list or lends them itself."""
     global _last
     last = _last
     if last is not None and last[0]() is network:
@@ -43,7 +44,7 @@ def _kept(network: Network) -> tuple[Kept, list[Kept], bool]:
     g, model = network.gravity, network.friction
     # not owned: shared by later solves of this network, never changed in place
     kept = tuple([Pipe(b, nu, g, model, owned=False) for b in network.branches])
-    free = [kept]
+    free: list[Kept] = []
     _last = (weakref.ref(network), kept, free)
     return kept, free, True
 
@@ -51,7 +52,10 @@ def _kept(network: Network) -> tuple[Kept, list[Kept], bool]:
 def pipes_of(network: Network) -> list[Pipe]:
     """A pipe for each branch, as new and the caller's own to keep; their constants are
     shared (``Pipe.copy``)."""
-    return list(map(Pipe.copy, _kept(network)[0]))
+    kept, free, new = _kept(network)
+    if new:
+        free.append(kept)  # not used: free for the next solve
+    return list(map(Pipe.copy, kept))
 
 
 def lend(network: Network) -> tuple[Sequence[Pipe], Loan | None]:
@@ -59,14 +63,17 @@ def lend(network: Network) -> tuple[Sequence[Pipe], Loan | None]:
     solve holds them (hand the loan to :func:`give_back` when done), else copies (no loan).
     Lending spares a solve of a few branches much of its time (making copies, and the fresh
     memory they touch). A list's pop and append are atomic, so two threads never hold the
-    same pipes."""
+    same pipes. Pipes made just now are lent as they are: no other thread has seen them (had
+    they been put in the free list first, another solve of the same network could have used
+    them, given them back and left its state in them)."""
     kept, free, new = _kept(network)
+    if new:
+        return kept, (free, kept)
     try:
         pipes = free.pop()
     except IndexError:  # held by a solve in another thread (or further up this one)
         return list(map(Pipe.copy, kept)), None
-    if not new:
-        Pipe.reset(pipes)
+    Pipe.reset(pipes)
     return pipes, (free, pipes)
 
 
