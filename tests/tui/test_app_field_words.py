@@ -75,6 +75,13 @@ def test_a_typed_number_is_quoted_back_as_typed():
     assert app_site.branches[0].valve_cv == 110  # still a number, saved as TOML's 110
     set_valve(app_site.branches[0], "Kv 95.5")
     assert app_site.branches[0].valve_kv == 95.5
+    # A pasted run of digits stays a float (a 5,000-digit int raised in the app; a 25-digit
+    # one was saved as an integer TOML's 64 bits cannot hold).
+    set_valve(app_site.branches[0], "Kv " + "1" * 5000)
+    assert app_site.branches[0].valve_kv == float("inf")
+    assert valve_problem("Kv " + "1" * 5000) is not None
+    set_valve(app_site.branches[0], "Kv " + "9" * 25)
+    assert isinstance(app_site.branches[0].valve_kv, float)
 
 
 def test_split_losses_named_as_in_the_exports(ui):

@@ -30,7 +30,10 @@ def bare_number(text: str) -> int | float:
     for digits alone (``0`` is kept, and quoted back in an error, as 0, not 0.0), else a
     float."""
     text = text.strip()
-    return int(text) if text.lstrip("+-").isdigit() else float(text)
+    digits = text.lstrip("+-")
+    # an integer only while a float holds it exactly (and TOML's 64-bit integers do): a pasted
+    # run of digits stays a float, refused as too large where it is, not a 4,000-digit int
+    return int(text) if digits.isdigit() and len(digits) <= 15 else float(text)
 
 
 def with_unit(text: str, unit: str) -> str:
