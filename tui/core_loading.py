@@ -9,9 +9,11 @@ screens read first under it too, once its first screen is drawn (:func:`load_cor
 a curve and a recovery copy (milliseconds each) run under the lock throughout, so whatever
 their path loads on first use loads under it; a band (longer) loads first what its draws use
 (:func:`load_sampling`), the history its module, then each works without the lock.
-The app's own thread, once its first screen is drawn, imports under the lock too: the reports'
-modules a copy or an export needs when first asked (the band's and the history's words are
-loaded by their workers, before the view draws with them).
+The app's own thread, once its first screen is drawn, imports under the lock too the reports'
+modules a copy, an export or the list of readings weighed needs when first asked (the band's
+and the history's words are loaded by their workers, before the view draws with them). Other
+modules of the core its screens import on first use are, in practice, loaded before (the test
+below finds none outside the lock), but nothing enforces it.
 tests/tui/test_core_loading.py records every first import of a worker thread, and of the app's
 thread after its first screen, and checks that it held the lock. Once a module is loaded, the
 lock costs a fraction of a microsecond.

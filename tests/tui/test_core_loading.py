@@ -6,7 +6,7 @@ numpy, scipy and tomlkit that a worker thread imports first, it imports holding 
 through the solve (the flows, then a diameter sought), the band, the curve, an edit, the
 recovery copy and the history (the history first, or the band first). Once its first screen
 is drawn, the app's own thread too: the band's and the history's words, the table and the
-answer copied."""
+answer copied, the list of readings weighed."""
 
 from __future__ import annotations
 
@@ -53,7 +53,8 @@ async def main():
         await settle(pilot)
         started[0] = True
         first = ("f5",) if sys.argv[2] == "history" else ("b",)
-        for keys in (first, ("f4", "b"), ("p",), ("f5",), ("f3", "enter", "3", "enter")):
+        for keys in (first, ("f4", "b"), ("p",), ("x",), ("escape",), ("f5",),
+                     ("f3", "enter", "3", "enter")):
             await pilot.press(*keys)
             await settle(pilot)
         await asyncio.sleep(0.3)  # the recovery copy

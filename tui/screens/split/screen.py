@@ -128,9 +128,11 @@ class SplitScreen(WorkScreen):
         self.app.push_screen(WarningsScreen(list(self.views.warning_lines)))
 
     def action_weighed(self) -> None:
-        from branchwise.core.report.weighed import TITLE, weighed_lines
-
+        from ...core_loading import core_imports
         from ..warnings import WarningsScreen
+
+        with core_imports():
+            from branchwise.core.report.weighed import TITLE, weighed_lines
 
         outcome = self.bw.outcome
         if outcome is None or outcome.solved is None:

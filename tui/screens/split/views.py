@@ -22,6 +22,7 @@ from textual.widget import Widget
 from textual.widgets import Static
 
 from branchwise.core.messages import reynolds_text
+from branchwise.core.units import format_number
 
 from ...drawing.share_bar import share_bar
 from ...quiet import put
@@ -357,8 +358,6 @@ def _friction(f: float) -> str:
         return "—"
     if abs(f) < 10:
         return f"{f:.4f}"
-    from branchwise.core.units import format_number
-
     return format_number(f, 4)
 
 
