@@ -37,7 +37,9 @@ _NO_SPREAD = {
                      "itself), and here that is zero; give the full scale, or take this "
                      "reading out",
     "total_flow": "cannot be weighed against the other readings: a flow meter's tolerance is a "
-                  "share of its reading, and here that is zero; take this reading out",
+                  "share of its reading, and here that is zero (a reading of 0, or "
+                  "tolerances.total_flow_meter_accuracy — else flow_meter_accuracy — of 0 %); "
+                  "take this reading out",
     "measured_flow": "cannot be weighed against the other readings: a flow meter's tolerance "
                      "is a share of its reading, and here that is zero; take this reading out",
 }

@@ -22,7 +22,7 @@ from branchwise.core.numerics.reconcile_result import ReadingFit
 from branchwise.core.numerics.sampling import build_plan
 from branchwise.core.site.build import build
 from branchwise.core.site.read import parse_site
-from branchwise.core.site.solve import solve_site
+from branchwise.core.site.solve import solve_site, uncertainty_for_site
 from branchwise.core.site.write import dump_site
 
 sys.path.insert(0, str(Path(__file__).parent))
@@ -95,3 +95,46 @@ def test_it_survives_a_round_trip():
     assert again.tolerances is not None
     assert again.tolerances.total_flow_meter_accuracy == "0.5 %"
     assert math.isclose(build(again).tolerances.total_flow_percent, 0.5)
+
+
+BAND_SITE = """format = 1
+name = "Two lines off a header with its own meter"
+[fluid]
+kind = "water"
+temperature = "20 degC"
+[conditions]
+total_flow = "30 L/s"
+[[branches]]
+name = "A"
+diameter = "100 mm"
+length = "40 m"
+roughness = "0.045 mm"
+[[branches]]
+name = "B"
+diameter = "80 mm"
+length = "30 m"
+roughness = "0.045 mm"
+[tolerances]
+flow_meter_accuracy = "3 %"
+{total}roughness_factor = [1, 1]
+diameter = "0 %"
+length = "0 %"
+fitting_k = "0 %"
+valve_kv = "0 %"
+temperature = "0 K"
+"""
+
+
+@pytest.mark.parametrize(("line", "a"), [('total_flow_meter_accuracy = "0.5 %"\n', 0.005),
+                                         ("", 0.03)], ids=["own meter", "as the clamp-ons"])
+def test_the_total_flows_band_is_its_meters_rectangle(line, a):
+    # Only the total-flow reading is uncertain: the total drawn is the reading, uniform on
+    # Q (1 ± a), whose P5 and P95 are Q (1 ∓ 0.9 a) (GUM 4.3.7: rectangular). Quantile
+    # sampling sd ≈ √(0.05·0.95/4000) · 2a: 4 sd allowed.
+    res = uncertainty_for_site(parse_site(BAND_SITE.format(total=line)), samples=4000, seed=7)
+    q = res.outputs["total flow"]
+    assert q.nominal == pytest.approx(0.030, rel=1e-12)
+    allowed = 4 * math.sqrt(0.05 * 0.95 / 4000) * 2 * a
+    assert q.p95 / q.nominal == pytest.approx(1 + 0.9 * a, abs=allowed)
+    assert q.p5 / q.nominal == pytest.approx(1 - 0.9 * a, abs=allowed)
+    assert res.ranking["total flow"] == [("flow meter (total flow)", pytest.approx(1.0))]
