@@ -43,7 +43,8 @@ from ..numerics.hydraulics import Array, Layout
 from ..numerics.sampling import SQRT3, STEP, InputTolerance, build_plan
 from ..numerics.tolerances import Thermal, Tolerances
 from ..site.readings import readings
-from ..site.solve import SiteResult, solve_site
+from ..site.reconcile import solves_from_all
+from ..site.solve import WEIGHED, SiteResult, solve_site
 from ..site.spec import Site
 from ..site.tolerances import site_thermal
 from ..units import parse_quantity
@@ -165,8 +166,10 @@ class TooLarge(BranchwiseError):
 
 
 def _spread(network: Network, given: Given, find: Find, tol: Tolerances,
-            thermal: Thermal | None) -> _Spread:
-    plan = build_plan(network, given, find, tol, thermal)
+            thermal: Thermal | None, given_sigma: tuple[str, float] | None = None) -> _Spread:
+    """given_sigma: the given's own spread when it is no one instrument's reading (the
+    readings weighed together), as :func:`..numerics.sampling.build_plan` takes it."""
+    plan = build_plan(network, given, find, tol, thermal, given_sigma)
     n = len(plan.inputs)
     rows = 1 + 2 * n
     nb = len(network.branches)
@@ -245,11 +248,13 @@ def visit_indicators(site: Site) -> VisitIndicators:
     notes += thermal_notes
     held = tuple(_si(r.kind, r.branch, r.value, r.path, net) for r in readings(site))
     spreads: dict[tuple[str, int | None], _Spread | None] = {}
+    weighed = _weighed_spread(site, sr, notes)
 
     def spread(given: Given, find: Find, key: tuple[str, int | None]) -> _Spread | None:
         if key not in spreads:
             try:
-                spreads[key] = _spread(net, given, find, tol, thermal)
+                spreads[key] = _spread(net, given, find, tol, thermal,
+                                       weighed if key == ("base", None) else None)
             except BranchwiseError as exc:
                 notes.append("no band for the visit's indicators: "
                              f"{getattr(exc, 'marked', '') or exc}")
@@ -303,6 +308,20 @@ def visit_indicators(site: Site) -> VisitIndicators:
             notes.append(f"{br.name}: several pipes in series, so no one effective roughness")
         out.append(BranchIndicators(br.name, flow, resistance, roughness, solved))
     return VisitIndicators(sr, held, tuple(out), tuple(notes))
+
+
+def _weighed_spread(site: Site, sr: SiteResult, notes: list[str]) -> tuple[str, float] | None:
+    """For a visit solved from all its readings weighed together, the spread of that head (the
+    visit's pressure drop is then no gauge's reading: drawing the gauge's tolerance on it gave
+    bands of an instrument that was maybe never read), and a note when they disagree."""
+    rec = sr.reconciliation
+    if rec is None or not solves_from_all(site):
+        return None
+    if not rec.consistent:
+        notes.append(f"the visit's readings weighed together disagree (p = {rec.p_value:.2g}): "
+                     "its bands take them as agreeing, so they are too narrow, and a change "
+                     "against this visit may be the reading at fault, not the line")
+    return WEIGHED, rec.pressure_drop_sigma_pa
 
 
 SpreadOf = Callable[[Given, Find, tuple[str, int | None]], "_Spread | None"]

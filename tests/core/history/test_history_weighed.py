@@ -1,0 +1,89 @@
+"""Visits solved from all their readings weighed together: the bands of their indicators come
+from that weighing, not from a gauge that may never have been read, and a visit whose readings
+disagree says so.
+
+References: the GUM (JCGM 100:2008) 4.3.7 — a ± a bound is rectangular, u = a/√3 — and
+scipy's normal quantile for the 90 % band of a change between two independent visits,
+± z₀.₉₅ √(u₁² + u₂²).
+"""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+from branchwise.core.history import history_of
+from branchwise.core.site.read import parse_site
+
+SITE = """format = 1
+name = "Header with a plant meter and a clamp-on"
+
+[fluid]
+kind = "water"
+temperature = "18 degC"
+
+[conditions]
+total_flow = "40 L/s"
+given = "all"
+
+[[branches]]
+name = "Condenser A"
+diameter = "102.26 mm"
+length = "64 m"
+roughness = "0.045 mm"
+minor_k = 6.2
+valve_kv = 120
+measured_flow = "24.6 L/s"
+
+[[branches]]
+name = "Jacket loop"
+diameter = "77.93 mm"
+length = "55 m"
+roughness = "0.045 mm"
+minor_k = 4
+
+[tolerances]
+gauge_accuracy = "{gauge}"
+flow_meter_accuracy = "3 %"
+
+[[visits]]
+date = "2025-02-10"
+total_flow = "39 L/s"
+measured = {{ "Condenser A" = "24.0 L/s" }}
+given = "all"
+"""
+"""Our own invented header: no gauge is read on either day."""
+
+
+def _solved_flow_trend(gauge: str):
+    history = history_of(parse_site(SITE.format(gauge=gauge)))
+    return next(t for t in history.trends
+                if t.branch == "Jacket loop" and t.indicator == "flow")
+
+
+def test_a_gauge_never_read_does_not_set_the_band():
+    # The band of a solved flow between two visits weighed from a meter and a clamp-on: the
+    # gauge's accuracy (1 % or 20 %) must not move it; it was drawn on the weighed pressure
+    # drop as if a gauge had read it.
+    one, twenty = _solved_flow_trend("1 %"), _solved_flow_trend("20 %")
+    assert one.since_first.band == pytest.approx(twenty.since_first.band, rel=1e-9)
+    # At least the meters' own part: each visit's head rests on two 3 % meters weighed
+    # together, at best u = (0.03/√3)/√2 of the flow (GUM 4.3.7; two equal readings), and two
+    # visits' independent changes add: × √2. The model's part only widens it. (It was about
+    # ±0.7 %.)
+    from scipy.stats import norm
+
+    per_visit = 0.03 / math.sqrt(3) / math.sqrt(2)
+    floor = norm.ppf(0.95) * math.sqrt(2) * per_visit
+    assert one.since_first.band >= floor, one.since_first.band
+
+
+def test_a_visit_whose_readings_disagree_says_its_bands_are_too_narrow():
+    text = SITE.format(gauge="1 %").replace('measured = { "Condenser A" = "24.0 L/s" }',
+                                            'measured = { "Condenser A" = "2.0 L/s" }')
+    history = history_of(parse_site(text))
+    old = next(v for v in history.visits if v.date == "2025-02-10")
+    assert old.solved.solved.reconciliation is not None
+    assert not old.solved.solved.reconciliation.consistent
+    assert any("disagree" in n and "too narrow" in n for n in old.solved.notes)
