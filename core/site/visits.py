@@ -73,7 +73,11 @@ def visit_site(site: Site, index: int | None) -> Site:
     """The site as it stood at visit ``index`` (None: today's visit): that day's readings,
     record and temperature on today's branches, liquid and tolerances; nothing to find but the
     flows, and no visits of its own. Several readings without ``given`` are all weighed
-    (``given = "all"``). InputError for a reading of a branch the site does not have."""
+    (``given = "all"``) — unless one of them is a flow of exactly 0 (a line shut, a meter
+    fault): a tolerance that is a share of the reading gives it no spread to weigh by, so the
+    visit is solved from its first other reading (the gauge's, the total flow's, a clamp-on's)
+    and the zero is kept as that branch's reading (not trended, with a note). InputError for a
+    reading of a branch the site does not have."""
     out = copy.deepcopy(site)
     out.visits, out.solve, out.origin = [], None, None
     if index is not None:
@@ -96,8 +100,33 @@ def visit_site(site: Site, index: int | None) -> Site:
     held = ((out.conditions.pressure_drop is not None) + (out.conditions.total_flow is not None)
             + len(out.measured_branches()))
     if out.conditions.given is None and held > 1:
-        out.conditions.given = "all"
+        out.conditions.given = _given_beside_zero(out) or "all"
     return out
+
+
+def _given_beside_zero(site: Site) -> str | None:
+    """The first reading that is not a flow of exactly 0, when one of the site's flow readings
+    is (None when none is, or a reading cannot be read: the weighing then says what is
+    wrong)."""
+    from ..units import parse_quantity
+
+    def zero(value: Value, path: str) -> bool | None:
+        try:
+            return parse_quantity(value, "flow", path) == 0
+        except InputError:
+            return None
+
+    c = site.conditions
+    flows = [(c.total_flow, "total_flow", "conditions.total_flow")] + [
+        (b.measured_flow, str(b.name), f"branches[{i}].measured_flow")
+        for i, b in enumerate(site.branches) if b.measured_flow is not None]
+    read = [(value, given, zero(value, path)) for value, given, path in flows
+            if value is not None]
+    if any(z is None for _, _, z in read) or not any(z for _, _, z in read):
+        return None
+    if c.pressure_drop is not None:
+        return "pressure_drop"
+    return next((given for _, given, z in read if z is False), None)
 
 
 def visit_path(site: Site, index: int | None, field: str) -> str:

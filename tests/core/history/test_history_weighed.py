@@ -87,3 +87,22 @@ def test_a_visit_whose_readings_disagree_says_its_bands_are_too_narrow():
     assert old.solved.solved.reconciliation is not None
     assert not old.solved.solved.reconciliation.consistent
     assert any("disagree" in n and "too narrow" in n for n in old.solved.notes)
+
+
+def test_a_visit_with_a_clamp_on_reading_zero_is_solved_from_its_other_reading():
+    # A line shut at a visit (0 L/s on its clamp-on) beside the gauge, no given written: the
+    # zero has no spread to weigh by (a share of 0), so the visit is solved from the gauge and
+    # the zero noted, not the whole history refused.
+    text = SITE.format(gauge="1 %") + '''
+[[visits]]
+date = "2025-03-01"
+pressure_drop = "60 kPa"
+measured = { "Condenser A" = "0 L/s" }
+'''
+    history = history_of(parse_site(text))
+    shut = next(v for v in history.visits if v.date == "2025-03-01")
+    sr = shut.solved.solved
+    assert sr.result.pressure_drop == pytest.approx(60e3, rel=1e-12)  # from the gauge
+    assert sr.reconciliation is None
+    assert "cannot be weighed" in sr.unweighed  # said beside the answer
+    assert any("reads no flow" in n for n in shut.solved.notes)
