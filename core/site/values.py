@@ -12,6 +12,7 @@ from typing import TYPE_CHECKING
 
 from ..errors import InputError, describe
 from ..units import parse_quantity
+from ..units.numbers import plain_float
 from .spec import Value
 
 if TYPE_CHECKING:
@@ -103,7 +104,7 @@ def number(value: Value, path: str) -> float:
         raise InputError(path, describe(value), "must be a number")
     if isinstance(value, str):
         try:
-            value = float(value.strip())
+            value = plain_float(value.strip())
         except ValueError:
             raise InputError(path, describe(value), "must be a plain number") from None
     try:

@@ -12,6 +12,7 @@ import re
 
 from ..errors import InputError, describe
 from ..model import MAX_KV, MIN_KV, kv_from_cv
+from ..units.numbers import plain_float
 
 SERIES = re.compile(r"(?<=[\d.\s])\+")
 """A plus sign between two numbers (not the one of an exponent, 1e+3)."""
@@ -46,7 +47,7 @@ def series_kv(value: object, path: str, unit: str = "kv") -> float | None:
                 raise InputError(path, shown, f"{which}has no number; {_HOW}")
             text = written.strip()
         try:
-            number = float(text)
+            number = plain_float(text) if isinstance(text, str) else float(text)
         except (ValueError, OverflowError):
             raise InputError(path, shown, f"{which}is not a plain number; {_HOW}") from None
         if not (math.isfinite(number) and number > 0):

@@ -13,6 +13,7 @@ from typing import TYPE_CHECKING, Any
 from ..errors import InputError
 from ..fluids import INPUTS
 from ..units import parse_quantity
+from ..units.numbers import plain_float
 
 if TYPE_CHECKING:
     from ..catalogs.materials import Material
@@ -73,7 +74,7 @@ def check_preset(kind: str, key: str, values: Mapping[str, Any]) -> dict[str, An
                 raise InputError(path, value, "must not be negative")
         elif name == "hazen_williams_c":
             try:
-                number = float(value)
+                number = plain_float(value) if isinstance(value, str) else float(value)
             except (TypeError, ValueError):
                 raise InputError(path, value, "must be a plain number") from None
             if not 0 < number < 1000:

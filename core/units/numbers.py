@@ -48,6 +48,15 @@ class Leading:
     feet_inches: bool = False
 
 
+def plain_float(text: str) -> float:
+    """``float(text)`` for a number as a person writes it. Python also reads its own digit
+    separator, the underscore, which no one writes in a measurement: ``6_5`` would be 65. Such
+    a text is refused (a ValueError, as any text that is no number), not read."""
+    if "_" in text:
+        raise ValueError(f"not a plain number: {text!r}")
+    return float(text)
+
+
 def leading_number(text: str, field: str, shown: str) -> Leading | None:
     """The number ``text`` starts with (None: it starts with none). InputError for a fraction
     over zero, or inches of 12 or more in a feet-and-inches length."""

@@ -115,3 +115,23 @@ def test_a_hazen_williams_c_under_another_model_is_said_not_dropped():
     plain = solve_site(parse_site(PUMP_ROOM))
     assert solved.result.flows == pytest.approx(plain.result.flows, rel=0)
     assert not any(a.code == "hw-c-unused" for a in plain.assumptions)
+
+
+@pytest.mark.parametrize(("old", "new", "field"), [
+    ("minor_k = 6.5", 'minor_k = "6_5"', "branches[1].minor_k"),
+    ("valve_kv = 160", 'valve_kv = "1_60"', "branches[0].valve_kv"),
+    ("valve_cv = 110", 'valve_cv = "1_10 + 40"', "branches[1].valve_cv"),
+])
+def test_an_underscore_in_a_number_is_refused_not_read_as_a_digit_separator(old, new, field):
+    # Python reads "6_5" as 65; no one writes a measurement so (common practice: digits are
+    # grouped with a comma or a thin space, ISO 80000-1, 7.3.1 — from memory). A K of 65
+    # instead of 6.5 moved the branch's flow by 44 % with no word.
+    from branchwise.core.site.build import build
+    from branchwise.core.site.read import demo_text
+
+    text = demo_text()
+    assert old in text
+    with pytest.raises(InputError) as caught:
+        build(parse_site(text.replace(old, new, 1)))
+    assert caught.value.field == field
+    assert "_" in str(caught.value.value)

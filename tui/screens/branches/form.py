@@ -228,7 +228,9 @@ class BranchForm(Dialog[BranchSpec | None]):
             if key == "valve" and text:
                 return valve_problem(text)
             if key == "k" and text:
-                k = float(text)
+                from branchwise.core.units.numbers import plain_float
+
+                k = plain_float(text)
                 if not k >= 0 or k == float("inf"):
                     return f"must be a number of zero or more, got {text}"
         except InputError as exc:
