@@ -336,9 +336,21 @@ def _build(site: Site, presets: PresetSource | None) -> Built:
     if site.tolerances is not None:
         from .tolerances import build_tolerances
 
-        tolerances = build_tolerances(site.tolerances, network, given)
+        tolerances = build_tolerances(site.tolerances, network, given, _gauge_reading(site))
     return Built(network, given, find, tuple(sizes), tuple(ks), tuple(paths), tuple(notes),
                  tolerances)
+
+
+def _gauge_reading(site: Site) -> float | None:
+    """The site's pressure drop reading, Pa (None without one, or where it cannot be read:
+    the reading's own check says why)."""
+    typed = site.conditions.pressure_drop
+    if typed is None:
+        return None
+    try:
+        return parse_quantity(typed, "pressure", "conditions.pressure_drop")
+    except InputError:
+        return None
 
 
 def _as_written(exc: InputError, site: Site) -> InputError:

@@ -100,11 +100,13 @@ def _ordered(low: float, high: float, pair: list[Value], path: str) -> tuple[flo
     return low, high
 
 
-def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> Tolerances:
+def build_tolerances(spec: TolerancesSpec, network: Network, given: Given,
+                     gauge_reading: float | None = None) -> Tolerances:
     """The :class:`Tolerances` of a ``[tolerances]`` table; missing keys keep the defaults.
 
-    network: to resolve the branch names of ``roughness_range``; given: a gauge's full scale
-    below the pressure drop read on it is refused.
+    network: to resolve the branch names of ``roughness_range``; given, gauge_reading (Pa, the
+    site's pressure drop when it holds one, given or not: it is weighed against the other
+    readings all the same): a gauge's full scale below the pressure drop read on it is refused.
     """
     path = "tolerances"
     kw: dict[str, Any] = {}
@@ -118,8 +120,9 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given) -> To
         full = parse_quantity(value, "pressure", f"{path}.gauge_full_scale")
         if not full > 0:
             raise InputError(f"{path}.gauge_full_scale", describe(value), "must be positive")
-        if isinstance(given, PressureDrop) and abs(given.value) > full * (1 + 1e-9):
-            read = pressure_text(abs(given.value))
+        read_pa = abs(given.value) if isinstance(given, PressureDrop) else gauge_reading
+        if read_pa is not None and abs(read_pa) > full * (1 + 1e-9):
+            read = pressure_text(abs(read_pa))
             raise InputError(f"{path}.gauge_full_scale", describe(value),
                              f"is below the pressure drop read on the gauge ({read})")
         kw["gauge_full_scale"] = full

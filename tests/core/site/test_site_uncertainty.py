@@ -401,3 +401,18 @@ def test_a_band_with_negative_ends_reads_without_a_double_dash(monkeypatch):
     assert bandtext.flow_band_cell(None, "A") == "-6.273 to -4.139"
     monkeypatch.setattr(bandtext, "band_range", lambda sr, name, system: (4.139, 6.273))
     assert bandtext.flow_band_cell(None, "A") == "4.139–6.273"
+
+
+@pytest.mark.parametrize("given", ["pressure_drop", "total_flow", "AHU-3 coil", "all"])
+def test_a_full_scale_below_the_gauges_reading_is_refused_whatever_the_given(given):
+    # A gauge cannot read past its full scale (common practice); "30 kPa" for a 0–30 psid
+    # dial is a unit slip. Beside another given the gauge is still weighed, and a full scale
+    # of 30 kPa (for 206.8 kPa) made it about 7× too precise.
+    text = demo_text().replace('gauge_full_scale = "30 psid"', 'gauge_full_scale = "30 kPa"')
+    text = text.replace('friction = "colebrook"', 'friction = "colebrook"\n'
+                        f'total_flow = "620 gpm"\ngiven = "{given}"')
+    text = text.replace('# measured_flow = "80 gpm"', 'measured_flow = "77 gpm"')
+    with pytest.raises(InputError) as err:
+        build(parse_site(text))
+    assert err.value.field == "tolerances.gauge_full_scale"
+    assert "below the pressure drop read on the gauge" in err.value.reason
