@@ -16,6 +16,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import InputError
+from ..messages import marked
 from ..model import (
     Find,
     FindUnknown,
@@ -202,6 +203,10 @@ def build_plan(
     base = Layout.from_network(network)
     sought = int(np.flatnonzero(base.seg_branch == x)[want.segment]) if want is not None else -1
     rough_model = network.friction not in ("hazen-williams", "laminar")
+    if network.friction == "hazen-williams":
+        notes.append("the pipes' condition is not drawn: under Hazen–Williams it is each "
+                     "line's C, which has no tolerance here (the roughness tolerance does not "
+                     "apply), so the bands leave out how far the lines have aged")
     for b, br in enumerate(network.branches):
         segs = [int(s) for s in np.flatnonzero(base.seg_branch == b)]
 
@@ -212,6 +217,13 @@ def build_plan(
         label = f"branch '{br.name}'"
         low, high = explicit.get(b, tol.roughness_factor)
         rough = free("roughness")
+        if rough_model and b in explicit and any(
+                not low <= base.roughness[s] <= high for s in rough):
+            entered = ", ".join(marked("roughness", float(base.roughness[s])) for s in rough)
+            notes.append(f"{label}: the roughness range drawn ({marked('roughness', low)} … "
+                         f"{marked('roughness', high)}) does not hold the roughness entered "
+                         f"({entered}): the band is of a line in that range, the answer of "
+                         "the line as entered")
         if rough_model and rough and (b in explicit or base.roughness[list(rough)].max() > 0):
             top = high if b in explicit else high * base.roughness[list(rough)].max()
             narrowest = base.diameter[segs].min() * (1 - tol.diameter_percent / 100)

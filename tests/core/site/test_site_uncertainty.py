@@ -416,3 +416,32 @@ def test_a_full_scale_below_the_gauges_reading_is_refused_whatever_the_given(giv
         build(parse_site(text))
     assert err.value.field == "tolerances.gauge_full_scale"
     assert "below the pressure drop read on the gauge" in err.value.reason
+
+
+def test_under_hazen_williams_the_band_says_the_pipes_condition_is_not_drawn():
+    # Under Hazen–Williams a line's condition is its C; no tolerance draws C, and the roughness
+    # factor does not apply: the band must say it leaves the ageing out (it said nothing, and
+    # a roughness factor of [0.1, 10] gave the same band as [0.5, 3]).
+    text = demo_text().replace('friction = "colebrook"', 'friction = "hazen-williams"')
+    text = text.replace('roughness = "0.0018 in"', 'roughness = "0.0018 in"\nhw_c = 120')
+    res = uncertainty_for_site(parse_site(text), samples=200, seed=1)
+    assert not any(i.kind == "roughness" for i in res.inputs)
+    assert any("condition is not drawn" in n and "Hazen–Williams" in n for n in res.notes)
+
+
+def test_a_roughness_range_that_leaves_out_the_entered_roughness_is_said():
+    # The band is then of another line than the answer (a band of 3.36–3.80 L/s beside an
+    # answer of 4.85 L/s, with no word).
+    text = demo_text().replace(
+        '# roughness_range = { "AHU-3 coil" = ["0.0018 in", "0.02 in"] }',
+        'roughness_range = { "AHU-3 coil" = ["1 mm", "2 mm"] }')
+    assert 'roughness_range = { "AHU-3 coil" = ["1 mm", "2 mm"] }' in text
+    res = uncertainty_for_site(parse_site(text), samples=200, seed=1)
+    said = [render(n) for n in res.notes if "does not hold the roughness entered" in n]
+    assert len(said) == 1 and "AHU-3 coil" in said[0] and "1 mm … 2 mm" in said[0]
+    assert "0.04572 mm" in said[0]  # 0.0018 in = 0.04572 mm (NIST SP 811: 1 in = 25.4 mm)
+    inside = demo_text().replace(
+        '# roughness_range = { "AHU-3 coil" = ["0.0018 in", "0.02 in"] }',
+        'roughness_range = { "AHU-3 coil" = ["0.0018 in", "0.02 in"] }')
+    notes = uncertainty_for_site(parse_site(inside), samples=200, seed=1).notes
+    assert not any("does not hold" in n for n in notes)
