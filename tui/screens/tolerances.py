@@ -48,8 +48,9 @@ ROWS = (
 )
 FOLLOWS = frozenset({"total_flow_meter_accuracy"})
 """Rows whose default is another row's value, not a common-practice figure of their own."""
-INTRO = ("± limits on the readings and the records, used by the band (b). Grey values are "
-         "common practice, not a standard: type the site's own to replace them.")
+INTRO = ("± limits on the readings and the records: they set the band (b) and weigh the "
+         "readings against each other. Grey values are common practice, not a standard: type "
+         "the site's own to replace them.")
 
 
 def defaults() -> dict[str, str]:

@@ -80,3 +80,10 @@ def test_reynolds_text(re: float, plain: str, grouped: str) -> None:
     # dimensionless group near or below one).
     assert reynolds_text(re) == plain
     assert reynolds_text(re, grouped=True) == grouped
+
+
+def test_a_huge_reynolds_number_keeps_its_scale_in_the_narrow_table():
+    from branchwise.tui.screens.split.views import _compact
+
+    assert _compact(1.39128908258e11) == "139G"  # it read "1.39e+05M"
+    assert _compact(180266.0) == "180k" and _compact(1234567.0) == "1.23M"

@@ -342,10 +342,11 @@ def assumed_line(app: Workspace, solved: SiteResult) -> list[str]:
 
 
 def _compact(number: float) -> str:
-    """``180266`` → ``180k``, ``1234567`` → ``1.23M``: a Reynolds number in four cells or so."""
+    """``180266`` → ``180k``, ``1234567`` → ``1.23M``, ``1.39e11`` → ``139G``: a Reynolds
+    number in four cells or so."""
     if not number == number:  # NaN
         return "—"
-    for scale, suffix in ((1e6, "M"), (1e3, "k")):
+    for scale, suffix in ((1e9, "G"), (1e6, "M"), (1e3, "k")):
         if abs(number) >= scale:
             return f"{number / scale:.3g}{suffix}"
     return reynolds_text(number)
