@@ -41,7 +41,8 @@ _NO_SPREAD = {
                   "tolerances.total_flow_meter_accuracy — else flow_meter_accuracy — of 0 %); "
                   "take this reading out",
     "measured_flow": "cannot be weighed against the other readings: a flow meter's tolerance "
-                     "is a share of its reading, and here that is zero; take this reading out",
+                     "is a share of its reading, and here that is zero (a reading of 0, or "
+                     "tolerances.flow_meter_accuracy of 0 %); take this reading out",
 }
 """Why a reading has no spread to weigh it by, per kind of reading."""
 
@@ -68,7 +69,7 @@ def reconcile_site(site: Site, built: Built | None = None,
                        parse_quantity(r.value, GIVENS[r.kind].quantity, r.path)) for r in held]
     tol, thermal, _ = site_thermal(site, built.tolerances or Tolerances(), presets)
     for r, o in zip(held, obs, strict=True):
-        if not instrument_sigma(o, tol) > 0:
+        if not instrument_sigma(o, tol) ** 2 > 0:  # (a spread so small its square is 0 too)
             raise InputError(r.path, describe(r.value), _NO_SPREAD[o.kind])
     try:
         return reconcile(built.network, obs, tol, thermal)

@@ -78,8 +78,13 @@ def test_a_typed_number_is_quoted_back_as_typed():
     # A pasted run of digits stays a float (a 5,000-digit int raised in the app; a 25-digit
     # one was saved as an integer TOML's 64 bits cannot hold).
     set_valve(app_site.branches[0], "Kv " + "1" * 5000)
-    assert app_site.branches[0].valve_kv == float("inf")
+    assert app_site.branches[0].valve_kv == "1" * 5000  # kept as typed: no float holds it
     assert valve_problem("Kv " + "1" * 5000) is not None
+    # Beyond a float: kept as typed, and refused quoting it (it said "got inf").
+    set_valve(app_site.branches[0], "Kv 1e400")
+    with pytest.raises(InputError) as caught:
+        build(app_site)
+    assert str(caught.value).endswith("got 1e400")
     set_valve(app_site.branches[0], "Kv " + "9" * 25)
     assert isinstance(app_site.branches[0].valve_kv, float)
 

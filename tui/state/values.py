@@ -6,6 +6,7 @@ Nothing here imports Textual, numpy or pint, so the first screen can be drawn be
 
 from __future__ import annotations
 
+import math
 import re
 from dataclasses import fields, is_dataclass
 from pathlib import Path
@@ -25,15 +26,19 @@ def is_bare_number(text: str) -> bool:
     return bool(_BARE.match(text))
 
 
-def bare_number(text: str) -> int | float:
+def bare_number(text: str) -> int | float | str:
     """A text :func:`is_bare_number` accepts, as a site file's TOML would hold it: an integer
     for digits alone (``0`` is kept, and quoted back in an error, as 0, not 0.0), else a
-    float."""
+    float; one too large for a float (``1e400``) stays the text typed, so that its refusal
+    quotes it (not "inf")."""
     text = text.strip()
     digits = text.lstrip("+-")
     # an integer only while a float holds it exactly (and TOML's 64-bit integers do): a pasted
     # run of digits stays a float, refused as too large where it is, not a 4,000-digit int
-    return int(text) if digits.isdigit() and len(digits) <= 15 else float(text)
+    if digits.isdigit() and len(digits) <= 15:
+        return int(text)
+    number = float(text)
+    return number if number not in (math.inf, -math.inf) else text
 
 
 def with_unit(text: str, unit: str) -> str:

@@ -210,7 +210,7 @@ def set_valve(br: BranchSpec, text: str) -> None:
     kind, value = (m.group(1) or "kv").lower(), m.group(2)
     # Several valves in series: "Kv 160 + Kv 40" is kept as the site file's "160 + 40".
     value = re.sub(rf"\+\s*{kind}\b\s*[:=]?\s*", "+ ", value, flags=re.I)
-    number: float | str = bare_number(value) if is_bare_number(value) else value
+    number: int | float | str = bare_number(value) if is_bare_number(value) else value
     if kind == "cv":
         br.valve_cv = number
     else:
