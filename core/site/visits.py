@@ -75,9 +75,11 @@ def visit_site(site: Site, index: int | None) -> Site:
     flows, and no visits of its own. Several readings without ``given`` are all weighed
     (``given = "all"``) — unless one of them is a flow of exactly 0 (a line shut, a meter
     fault): a tolerance that is a share of the reading gives it no spread to weigh by, so the
-    visit is solved from its first other reading (the gauge's, the total flow's, a clamp-on's)
-    and the zero is kept as that branch's reading (not trended, with a note). InputError for a
-    reading of a branch the site does not have."""
+    visit is solved from the gauge's reading, else from another branch's clamp-on (a head
+    across the header that a shut line does not change), and the zero is kept as that
+    branch's reading (not trended, with a note). Not from the total flow: the model would
+    share it with the shut line. InputError for a reading of a branch the site does not
+    have."""
     out = copy.deepcopy(site)
     out.visits, out.solve, out.origin = [], None, None
     if index is not None:
@@ -105,9 +107,9 @@ def visit_site(site: Site, index: int | None) -> Site:
 
 
 def _given_beside_zero(site: Site) -> str | None:
-    """The first reading that is not a flow of exactly 0, when one of the site's flow readings
-    is (None when none is, or a reading cannot be read: the weighing then says what is
-    wrong)."""
+    """The reading to solve from when one of the site's flow readings is exactly 0: the gauge's,
+    else a clamp-on that is not 0 (None when no reading is 0, when only the total flow is left,
+    or when a reading cannot be read: the weighing then says what is wrong)."""
     from ..units import parse_quantity
 
     def zero(value: Value, path: str) -> bool | None:
@@ -120,13 +122,12 @@ def _given_beside_zero(site: Site) -> str | None:
     flows = [(c.total_flow, "total_flow", "conditions.total_flow")] + [
         (b.measured_flow, str(b.name), f"branches[{i}].measured_flow")
         for i, b in enumerate(site.branches) if b.measured_flow is not None]
-    read = [(value, given, zero(value, path)) for value, given, path in flows
-            if value is not None]
-    if any(z is None for _, _, z in read) or not any(z for _, _, z in read):
+    read = [(given, zero(value, path)) for value, given, path in flows if value is not None]
+    if any(z is None for _, z in read) or not any(z for _, z in read):
         return None
     if c.pressure_drop is not None:
         return "pressure_drop"
-    return next((given for _, given, z in read if z is False), None)
+    return next((given for given, z in read if z is False and given != "total_flow"), None)
 
 
 def visit_path(site: Site, index: int | None, field: str) -> str:

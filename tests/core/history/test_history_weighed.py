@@ -106,3 +106,26 @@ measured = { "Condenser A" = "0 L/s" }
     assert sr.reconciliation is None
     assert "cannot be weighed" in sr.unweighed  # said beside the answer
     assert any("reads no flow" in n for n in shut.solved.notes)
+
+
+def test_a_shut_line_beside_a_total_flow_is_not_solved_from_that_total():
+    # The model would share the total with the shut line: the other lines' solved flows would
+    # be wrong (the reviewer's 10.76 L/s for a line carrying all 25). Beside another clamp-on,
+    # the visit is solved from that clamp-on's head; with only the total, it is refused naming
+    # the zero reading.
+    visit = '''
+[[visits]]
+date = "2025-03-01"
+total_flow = "25 L/s"
+measured = {{ "Condenser A" = "0 L/s"{other} }}
+'''
+    text = SITE.format(gauge="1 %") + visit.format(other=', "Jacket loop" = "25 L/s"')
+    history = history_of(parse_site(text))
+    shut = next(v for v in history.visits if v.date == "2025-03-01")
+    jacket = shut.solved.solved.result.branch("Jacket loop")
+    assert jacket.flow == pytest.approx(0.025, rel=1e-9)  # from its own clamp-on's head
+    from branchwise.core.errors import InputError
+
+    with pytest.raises(InputError) as caught:
+        history_of(parse_site(SITE.format(gauge="1 %") + visit.format(other="")))
+    assert caught.value.field == 'visits[1].measured."Condenser A"'
