@@ -102,17 +102,18 @@ def number(value: Value, path: str) -> float:
         raise InputError(path, "nothing", "is required")
     if isinstance(value, bool):
         raise InputError(path, describe(value), "must be a number")
+    typed = value
     if isinstance(value, str):
         try:
             value = plain_float(value.strip())
         except ValueError:
-            raise InputError(path, describe(value), "must be a plain number") from None
+            raise InputError(path, describe(typed), "must be a plain number") from None
     try:
         number = float(value)
     except OverflowError:  # a TOML integer has no size limit; a float stops near 1.8e308
-        raise InputError(path, describe(value), "must be a finite number") from None
-    if not math.isfinite(number):
-        raise InputError(path, describe(value), "must be a finite number")
+        raise InputError(path, describe(typed), "must be a finite number") from None
+    if not math.isfinite(number):  # quoted as typed ("1e400"), not as read ("inf")
+        raise InputError(path, describe(typed), "must be a finite number")
     return number
 
 

@@ -135,3 +135,12 @@ def test_an_underscore_in_a_number_is_refused_not_read_as_a_digit_separator(old,
         build(parse_site(text.replace(old, new, 1)))
     assert caught.value.field == field
     assert "_" in str(caught.value.value)
+
+
+def test_a_number_beyond_a_float_is_quoted_as_typed():
+    from branchwise.core.site.build import build
+    from branchwise.core.site.read import demo_text
+
+    with pytest.raises(InputError) as caught:
+        build(parse_site(demo_text().replace("minor_k = 6.5", 'minor_k = "1e400"', 1)))
+    assert str(caught.value).endswith("got 1e400")  # it said "got inf"
