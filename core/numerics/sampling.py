@@ -217,8 +217,8 @@ def build_plan(
         label = f"branch '{br.name}'"
         low, high = explicit.get(b, tol.roughness_factor)
         rough = free("roughness")
-        if rough_model and b in explicit and any(
-                not low <= base.roughness[s] <= high for s in rough):
+        if rough_model and b in explicit and any(  # (round-off of a unit's conversion kept in)
+                not low * (1 - 1e-9) <= base.roughness[s] <= high * (1 + 1e-9) for s in rough):
             entered = ", ".join(marked("roughness", float(base.roughness[s])) for s in rough)
             notes.append(f"{label}: the roughness range drawn ({marked('roughness', low)} … "
                          f"{marked('roughness', high)}) does not hold the roughness entered "

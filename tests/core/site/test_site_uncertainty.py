@@ -445,3 +445,13 @@ def test_a_roughness_range_that_leaves_out_the_entered_roughness_is_said():
         'roughness_range = { "AHU-3 coil" = ["0.0018 in", "0.02 in"] }')
     notes = uncertainty_for_site(parse_site(inside), samples=200, seed=1).notes
     assert not any("does not hold" in n for n in notes)
+
+
+def test_a_roughness_range_ending_at_the_entered_roughness_in_another_unit_holds_it():
+    # 0.045 mm = 0.000045 m (SI prefixes, exact): no note from the round-off of a conversion.
+    text = demo_text().replace(
+        '# roughness_range = { "AHU-3 coil" = ["0.0018 in", "0.02 in"] }',
+        'roughness_range = { "AHU-3 coil" = ["0.000045 m", "0.0002 m"] }')
+    text = text.replace('roughness = "0.0018 in"', 'roughness = "0.045 mm"')
+    notes = uncertainty_for_site(parse_site(text), samples=200, seed=1).notes
+    assert not any("does not hold" in n for n in notes)
