@@ -242,8 +242,8 @@ def _row(cells: dict[str, str], by_key: dict[str, Column],
 def _plain(text: str) -> str | int | float:
     """A bare number as a number (``3`` → 3, ``6.5`` → 6.5), so the site file holds K and Kv
     as TOML numbers; other text as it is."""
-    if not _BARE.match(text):
-        return text
+    if not _BARE.match(text) or "," in text:  # "1,000": a K or Kv is no length of US
+        return text  # units: the site reads it as typed and refuses it, naming its field
     value = float(text)
     return int(value) if value.is_integer() and "e" not in text.lower() else value
 

@@ -141,3 +141,14 @@ def test_a_thousands_comma_in_a_column_of_us_units_is_read_as_typed_in_a_site():
     with pytest.raises(LineListError) as caught:
         read_line_list('Name,Bore (mm),Length (m),Material\nA,52.5,"2,000",pvc\n', "x.csv")
     assert "may group thousands or mark decimals" in str(caught.value.problems[0])
+
+
+@pytest.mark.parametrize(("column", "cell"), [("K", '"1,000"'), ("Kv", '"1,200"')])
+def test_a_comma_in_a_k_or_kv_cell_is_refused_by_line_not_a_crash(column, cell):
+    # It ended the import in an internal error (float("1,000")). A K or Kv has no unit to say
+    # whether the comma groups thousands or marks decimals: kept as typed and refused, by line.
+    with pytest.raises(LineListError) as caught:
+        read_line_list(f"Name,Bore (mm),Length (m),Material,{column}\nA,52.5,20,pvc,{cell}\n",
+                       "x.csv")
+    said = str(caught.value.problems[0])
+    assert "line 2" in said and cell.strip('"') in said, said
