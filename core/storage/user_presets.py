@@ -73,13 +73,7 @@ def check_preset(kind: str, key: str, values: Mapping[str, Any]) -> dict[str, An
             if name in _NOT_NEGATIVE and number < 0:
                 raise InputError(path, value, "must not be negative")
         elif name == "hazen_williams_c":
-            try:
-                number = plain_float(value) if isinstance(value, str) else float(value)
-            except (TypeError, ValueError):
-                raise InputError(path, value, "must be a plain number") from None
-            if not 0 < number < 1000:
-                raise InputError(path, value, "must be between 0 and 1000")
-            value = number
+            value = _hazen_williams_c(value, path)
         elif name not in extra:
             allowed = ", ".join((*known, *extra))
             raise InputError(path, value, f"unknown value; known: {allowed}")
@@ -92,6 +86,19 @@ def check_preset(kind: str, key: str, values: Mapping[str, Any]) -> dict[str, An
     if kind == "materials" and "roughness" not in out:
         raise InputError(f"materials.{key}.roughness", "nothing", "a material needs a roughness")
     return out
+
+
+def _hazen_williams_c(value: Any, path: str) -> float:
+    """A preset's Hazen–Williams C: a plain number between 0 and 1000 (not true, not "1_20")."""
+    try:
+        if isinstance(value, bool):
+            raise TypeError
+        number = plain_float(value) if isinstance(value, str) else float(value)
+    except (TypeError, ValueError, OverflowError):
+        raise InputError(path, value, "must be a plain number") from None
+    if not 0 < number < 1000:
+        raise InputError(path, value, "must be between 0 and 1000")
+    return number
 
 
 def material_for(key: str, field: str) -> Material:
@@ -118,6 +125,6 @@ def material_for(key: str, field: str) -> Material:
         roughness_m=parse_quantity(values.get("roughness"), "roughness", f"{path}.roughness"),
         aged_roughness_m=(None if aged is None
                           else parse_quantity(aged, "roughness", f"{path}.aged_roughness")),
-        hazen_williams_c=None if c is None else float(c),
+        hazen_williams_c=None if c is None else _hazen_williams_c(c, f"{path}.hazen_williams_c"),
         source=str(values.get("source", "your own preset")),
     )

@@ -355,3 +355,18 @@ def test_shipped_provider_is_asked_once(data: Path) -> None:
     store.list("fluids")
     store.get("fluids", "water-20c")
     assert len(calls) == 1
+
+
+@pytest.mark.parametrize("c", ['"1_20"', "true", "1" * 400])
+def test_a_hand_written_hazen_williams_c_is_checked_where_it_is_used(data: Path, c: str) -> None:
+    # A presets file written by hand is not checked when read: "1_20" was used as C 120,
+    # true as C 1, a 400-digit integer ended in an internal error. Where the material is used,
+    # it is refused naming the preset's field.
+    from branchwise.core.storage.user_presets import material_for
+
+    data.mkdir()
+    (data / "presets.toml").write_text(
+        f'format = 1\n[materials.m6]\nroughness = "0.05 mm"\nhazen_williams_c = {c}\n')
+    with pytest.raises(InputError) as caught:
+        material_for("m6", "branches[0].material")
+    assert caught.value.field == "materials.m6.hazen_williams_c"
