@@ -311,9 +311,11 @@ def visit_indicators(site: Site) -> VisitIndicators:
 
 
 def _weighed_spread(site: Site, sr: SiteResult, notes: list[str]) -> tuple[str, float] | None:
-    """For a visit solved from all its readings weighed together, the spread of that head (the
-    visit's pressure drop is then no gauge's reading: drawing the gauge's tolerance on it gave
-    bands of an instrument that was maybe never read), and a note when they disagree."""
+    """For a visit solved from all its readings weighed together, the spread the instruments
+    leave of that head (the visit's pressure drop is then no gauge's reading: drawing the
+    gauge's tolerance on it gave bands of an instrument that was maybe never read; the model's
+    part is drawn by the visit's own inputs, shared between visits), and a note when they
+    disagree."""
     rec = sr.reconciliation
     if rec is None or not solves_from_all(site):
         return None
@@ -321,7 +323,8 @@ def _weighed_spread(site: Site, sr: SiteResult, notes: list[str]) -> tuple[str, 
         notes.append(f"the visit's readings weighed together disagree (p = {rec.p_value:.2g}): "
                      "its bands take them as agreeing, so they are too narrow, and a change "
                      "against this visit may be the reading at fault, not the line")
-    return WEIGHED, rec.pressure_drop_sigma_pa
+    sigma = rec.pressure_drop_sigma_instruments_pa
+    return WEIGHED, sigma if math.isfinite(sigma) else rec.pressure_drop_sigma_pa
 
 
 SpreadOf = Callable[[Given, Find, tuple[str, int | None]], "_Spread | None"]

@@ -197,6 +197,10 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         without = (sub.chi2, chi_square_p(sub.chi2, dof - 1))
     q = fit.q
     sigma = 1 / math.sqrt(fit.info) if fit.info > 0 else math.nan
+    inst = math.nan
+    if fit.info > 0:
+        gain = np.linalg.solve(cov, model.slope(head)) / fit.info  # d head / d reading
+        inst = math.sqrt(float(np.sum(gain**2 * meas)))
     return Reconciliation(
         head_m=head, pressure_drop_pa=model.rho_g * (head + network.elevation_change),
         total_flow_m3_s=float(q.sum()), flows_m3_s=tuple(float(v) for v in q),
@@ -205,6 +209,7 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         verdict=verdict_words(fits, fit.chi2, dof, p, consistent, suspect, without),
         covariance=tuple(tuple(float(v) for v in row) for row in cov),
         head_sigma_m=sigma, pressure_drop_sigma_pa=model.rho_g * sigma,
+        pressure_drop_sigma_instruments_pa=model.rho_g * inst,
     )
 
 

@@ -79,6 +79,12 @@ class Reconciliation:
     weighed together and the model's uncertainty leave of it (first order)."""
     pressure_drop_sigma_pa: float = math.nan
     """The reconciled pressure drop's standard uncertainty (Pa): ρ g times the head's."""
+    pressure_drop_sigma_instruments_pa: float = math.nan
+    """The part of it the instruments alone leave (Pa): to first order the estimate is
+    ρ g Σ aₖ yₖ with a = V⁻¹J / (Jᵀ V⁻¹ J), so this is ρ g (Σ aₖ² uₖ²)^½, uₖ each
+    instrument's standard uncertainty. Where the model's inputs are drawn on their own (the
+    bands of a change between visits, where they are shared), this is the head's own spread
+    to draw; the whole σ would count the model's part twice."""
 
     def to_json(self) -> dict[str, Any]:
         """The JSON's ``reconciliation`` object (SI)."""
