@@ -134,6 +134,12 @@ def _visit(site: Site, index: int | None) -> Visit:
         if isinstance(named, NoSolutionError) and index is not None:
             named = NoSolutionError(f"visit {site.visits[index].date}: {named.marked}",
                                     named.field).naming(named.names)
+        elif (isinstance(named, InputError) and index is not None
+              and not named.field.startswith("visits[")):
+            # a field of today's (a tolerance) refused for that visit's reading: say which
+            named = InputError(named.field, named.marked_value,
+                               f"at the visit of {site.visits[index].date} (visits[{index}]): "
+                               f"{named.marked_reason}").naming(named.names)
         raise named from None
     if index is None:
         record = site.record

@@ -133,3 +133,16 @@ measured = {{ "Condenser A" = "0 L/s"{other} }}
     with pytest.raises(InputError) as caught:
         history_of(parse_site(SITE.format(gauge="1 %") + visit.format(other="")))
     assert caught.value.field == 'visits[1].measured."Condenser A"'
+
+
+def test_a_tolerance_refused_for_one_visits_reading_names_that_visit():
+    # A visit's gauge read past today's full scale: the whole history is refused, and the
+    # message said nothing of which visit (the site's own solve passes).
+    from branchwise.core.errors import InputError
+    from branchwise.core.site.read import demo_text
+
+    text = demo_text() + '\n[[visits]]\ndate = "2025-02-10"\npressure_drop = "35 psid"\n'
+    with pytest.raises(InputError) as caught:
+        history_of(parse_site(text))
+    assert caught.value.field == "tolerances.gauge_full_scale"
+    assert "at the visit of 2025-02-10 (visits[2])" in str(caught.value)
