@@ -40,6 +40,7 @@ from ..model import Find, FindFlows, FindUnknown, Given, Network, PressureDrop, 
 from ..numerics.copies import CopiesSolution, solve_copies
 from ..numerics.draws import chunk_rows, chunks
 from ..numerics.hydraulics import Array, Layout
+from ..numerics.reconcile_result import p_said
 from ..numerics.sampling import SQRT3, STEP, InputTolerance, build_plan
 from ..numerics.tolerances import Thermal, Tolerances
 from ..site.readings import readings
@@ -320,7 +321,7 @@ def _weighed_spread(site: Site, sr: SiteResult, notes: list[str]) -> tuple[str, 
     if rec is None or not solves_from_all(site):
         return None
     if not rec.consistent:
-        notes.append(f"the visit's readings weighed together disagree (p = {rec.p_value:.2g}): "
+        notes.append(f"the visit's readings weighed together disagree (p {p_said(rec.p_value)}): "
                      "its bands take them as agreeing, so they are too narrow, and a change "
                      "against this visit may be the reading at fault, not the line")
     sigma = rec.pressure_drop_sigma_instruments_pa

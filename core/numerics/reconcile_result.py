@@ -143,15 +143,21 @@ def verdict_words(fits: Sequence[ReadingFit], chi2: float, dof: int, p: float,
                 f"{'s' if dof != 1 else ''} of freedom, p = {p:.2f}).")
     if suspect is None:
         a, b = fits
-        return (f"{_first_up(a.label)} and {b.label} disagree (χ² {chi2:.2f}, p = {p:.2g}); "
+        return (f"{_first_up(a.label)} and {b.label} disagree (χ² {chi2:.2f}, p {p_said(p)}); "
                 "with two readings the test cannot tell which one is off: a third reading "
                 "would.")
     rest_p = without[1] if without is not None else float("nan")
     tail = (f"without it the rest agree (p = {rest_p:.2f})" if rest_p >= ALPHA else
-            f"without it the rest still disagree (p = {rest_p:.2g}): more than one reading "
+            f"without it the rest still disagree (p {p_said(rest_p)}): more than one reading "
             "may be off")
     return (f"{_first_up(suspect.label)} disagrees with the other {m - 1} readings "
             f"({abs(suspect.normalised_residual):.1f} σ): {ADVICE[suspect.reading]}; {tail}.")
+
+
+def p_said(p: float) -> str:
+    """A small p-value said with its sign, ``= 3.3e-224``; one below what a float holds (χ² in
+    the thousands) as a bound, ``< 1e-300``, not "= 0"."""
+    return f"= {p:.2g}" if p > 0 else "< 1e-300"
 
 
 def _first_up(text: str) -> str:

@@ -237,6 +237,7 @@ def uncertainty_for_site(
     head's standard uncertainty from the readings weighed together) in place of one
     instrument's; reconciliation: the site's, when it is at hand (saves weighing again).
     """
+    from ..numerics.reconcile_result import p_said
     from ..numerics.uncertainty import Tolerances, monte_carlo
     from .tolerances import site_thermal
 
@@ -255,7 +256,7 @@ def uncertainty_for_site(
     except BranchwiseError as exc:
         raise exc.naming([b.name for b in built.network.branches]) from None
     if spread is not None and rec is not None and not rec.consistent:
-        notes = (*notes, f"the readings weighed together disagree (p = {rec.p_value:.2g}): the "
+        notes = (*notes, f"the readings weighed together disagree (p {p_said(rec.p_value)}): the "
                  "spread of the reconciled pressure drop takes them as agreeing, so the bands "
                  "are too narrow until the reading at fault is found")
     return _say_cv(site, replace(res, notes=(*notes, *res.notes)))

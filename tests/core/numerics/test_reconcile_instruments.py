@@ -52,3 +52,13 @@ def test_the_model_part_is_left_out_of_the_instruments_part():
     # uncertainty moves the weights away from them, so that part can only grow.
     assert with_model.pressure_drop_sigma_instruments_pa >= bare.pressure_drop_sigma_pa * (
         1 - 1e-9)
+
+
+def test_a_p_value_that_underflows_is_said_as_a_bound():
+    from branchwise.core.numerics.reconcile_result import p_said
+
+    # χ² of 3,000 on 1 degree of freedom: p ≈ 1e-650 (scipy's chi2.sf gives 0.0 in floats)
+    from scipy.stats import chi2
+
+    assert chi2.sf(3000.0, 1) == 0.0
+    assert p_said(0.0) == "< 1e-300" and p_said(3.3e-224) == "= 3.3e-224"
