@@ -79,7 +79,6 @@ class Tolerances:
         for name, pair in self.roughness_m.items():
             _range(path_of("roughness_m", name), pair)
 
-
     @property
     def total_flow_percent(self) -> float:
         """The total-flow reading's accuracy in use, % of reading: its own meter's, else the

@@ -85,6 +85,10 @@ def test_a_typed_number_is_quoted_back_as_typed():
     with pytest.raises(InputError) as caught:
         build(app_site)
     assert str(caught.value).endswith("got 1e400")
+    set_valve(app_site.branches[0], "Kv 1e-400")  # below a float's least: not read as 0
+    with pytest.raises(InputError) as caught:
+        build(app_site)
+    assert str(caught.value).endswith("got 1e-400")
     set_valve(app_site.branches[0], "Kv " + "9" * 25)
     assert isinstance(app_site.branches[0].valve_kv, float)
 
@@ -121,3 +125,13 @@ def test_split_losses_named_as_in_the_exports(ui):
             app = BranchwiseApp()
 
     ui.run(scenario)
+
+
+def test_a_fitting_count_with_an_underscore_is_not_added_up_in_its_cell():
+    from branchwise.core.site.spec import SegmentSpec
+    from branchwise.tui.screens.branches.cells import k_text
+
+    # "1_0" is no count (the site refuses it); the cell said "10 fittings"
+    assert k_text(SegmentSpec(minor_k=2, fittings={"elbow-90": "1_0"})) == "2 + fittings"
+    assert k_text(SegmentSpec(minor_k=2, fittings={"elbow-90": 4, "tee-run": "1"})) == (
+        "2 + 5 fittings")

@@ -29,8 +29,8 @@ def is_bare_number(text: str) -> bool:
 def bare_number(text: str) -> int | float | str:
     """A text :func:`is_bare_number` accepts, as a site file's TOML would hold it: an integer
     for digits alone (``0`` is kept, and quoted back in an error, as 0, not 0.0), else a
-    float; one too large for a float (``1e400``) stays the text typed, so that its refusal
-    quotes it (not "inf")."""
+    float; one beyond a float (``1e400``, ``1e-400``) stays the text typed, so that its
+    refusal quotes it (not "inf", not 0)."""
     text = text.strip()
     digits = text.lstrip("+-")
     # an integer only while a float holds it exactly (and TOML's 64-bit integers do): a pasted
@@ -38,7 +38,11 @@ def bare_number(text: str) -> int | float | str:
     if digits.isdigit() and len(digits) <= 15:
         return int(text)
     number = float(text)
-    return number if number not in (math.inf, -math.inf) else text
+    if number in (math.inf, -math.inf):
+        return text
+    if number == 0 and any(c in "123456789" for c in digits.lower().split("e")[0]):
+        return text  # below a float's least (1e-400): kept as typed, not read as 0
+    return number
 
 
 def with_unit(text: str, unit: str) -> str:

@@ -55,10 +55,10 @@ def test_the_model_part_is_left_out_of_the_instruments_part():
 
 
 def test_a_p_value_that_underflows_is_said_as_a_bound():
-    from branchwise.core.numerics.reconcile_result import p_said
-
     # χ² of 3,000 on 1 degree of freedom: p ≈ 1e-650 (scipy's chi2.sf gives 0.0 in floats)
     from scipy.stats import chi2
+
+    from branchwise.core.numerics.reconcile_result import p_said
 
     assert chi2.sf(3000.0, 1) == 0.0
     assert p_said(0.0) == "< 1e-300" and p_said(3.3e-224) == "= 3.3e-224"

@@ -19,6 +19,7 @@ from branchwise.core.errors import InputError
 from branchwise.core.names import name_key
 from branchwise.core.site.spec import BranchSpec, SegmentSpec
 from branchwise.core.site.valves import series_kv
+from branchwise.core.units.numbers import plain_float
 
 from ...state.values import (
     bare_number,
@@ -87,9 +88,10 @@ def k_text(seg: SegmentSpec) -> str:
     k = text_of(seg.minor_k)
     count = 0.0
     for value in seg.fittings.values():
-        try:
-            count += float(value) if isinstance(value, int | float | str) else float("nan")
-        except ValueError:
+        try:  # (a count typed "1_0" is no count: the site refuses it, the cell does not add it)
+            count += (plain_float(value) if isinstance(value, str) else float(value)
+                      if isinstance(value, int | float) else float("nan"))
+        except (ValueError, OverflowError):
             count = float("nan")
     if not seg.fittings:
         return k
