@@ -171,3 +171,29 @@ def test_exports_say_each_quantity_in_the_unit_the_person_chose(ui, data_dir):
             assert "m³/h" in record and "L/s" not in record.split("## Cautions")[0]
 
     ui.run(scenario)
+
+
+def test_a_name_typed_with_its_extension_is_not_given_a_second_one(ui, data_dir, tmp_path):
+    # The dialog selects the name's stem; typing "bldg7.toml" over it left ".toml" after the
+    # selection, and the site was saved as bldg7.toml.toml.
+    from branchwise.tui.screens.dialogs import SaveAsScreen
+
+    box = SaveAsScreen(tmp_path, "site.toml")
+    assert box.target("bldg7.toml.toml") == tmp_path / "bldg7.toml"
+    assert box.target(f"{tmp_path}/b.TOML.toml") == tmp_path / "b.TOML"
+    assert box.target("bldg7") == tmp_path / "bldg7.toml"
+    assert SaveAsScreen(tmp_path, "r.md", suffix=".md").target("rec.md.md") == tmp_path / "rec.md"
+
+    async def scenario() -> None:
+        async with ui.started() as (app, pilot):
+            await ui.settle(pilot)
+            await pilot.press("ctrl+r")
+            await pilot.pause()
+            assert app.screen.__class__.__name__ == "SaveAsScreen"
+            await ui.type(pilot, str(tmp_path / "bldg7.toml"))
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            assert (tmp_path / "bldg7.toml").is_file()
+            assert not (tmp_path / "bldg7.toml.toml").exists()
+
+    ui.run(scenario)

@@ -114,6 +114,10 @@ class SaveAsScreen(Dialog[Path | None]):
         text = text.strip()
         if not text:
             return None
+        double = self.suffix * 2
+        if self.suffix and text.lower().endswith(double.lower()):
+            # a name typed with its extension over the selected stem ("bldg7.toml" + ".toml")
+            text = text[: -len(self.suffix)]
         path = Path(text).expanduser()
         if not path.is_absolute() and len(path.parts) == 1:
             path = self.folder.expanduser().absolute() / path
