@@ -154,3 +154,23 @@ def test_without_format_the_output_name_chooses_it_and_says_so(tmp_path, capsys,
         return
     assert main(["solve", "--format", "table", "-o", str(out), "--force"]) == 0
     assert out.read_text(encoding="utf-8") != text  # the option wins over the name
+
+
+def test_a_diameter_band_with_draws_that_have_no_pipe_prints_no_python_warning(tmp_path, capsys):
+    # A quarter of the draws had no diameter; the search stepped those far out and numpy's
+    # "RuntimeWarning: overflow encountered in exp" reached the person's terminal.
+    import warnings
+
+    text = demo_text().replace(
+        '# [solve]                          # find one unknown instead of the flows\n'
+        '# find = "diameter"                # flows | diameter | length | roughness\n'
+        '# branch = "AHU-2 coil"\n# target_flow = "220 gpm"',
+        '[solve]\nfind = "diameter"\nbranch = "AHU-2 coil"\ntarget_flow = "330 gpm"')
+    assert 'target_flow = "330 gpm"' in text
+    site = tmp_path / "d.toml"
+    site.write_text(text, encoding="utf-8")
+    with warnings.catch_warnings(record=True) as seen:
+        warnings.simplefilter("always")
+        assert main(["solve", str(site), "--uncertainty", "--samples", "3000"]) == 0
+    assert not [w for w in seen if issubclass(w.category, RuntimeWarning)], seen
+    assert "have no solution" in capsys.readouterr().out  # the draws left out are said

@@ -35,7 +35,8 @@ def _excess(s: Sought) -> Callable[[Array], Array]:
 
     def excess(ln_d: Array) -> Array:
         diameter = s.variants.diameter.copy()
-        diameter[:, s.index] = np.exp(ln_d)
+        with np.errstate(over="ignore"):  # a copy with no root may step far out (its inf is
+            diameter[:, s.index] = np.exp(ln_d)  # dropped with it; no warning to the person)
         lay, _ = s.layout(diameter=diameter)
         with np.errstate(divide="ignore", over="ignore"):
             return np.log(np.abs(branch_head(lay, s.target))) - ln_head
