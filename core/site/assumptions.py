@@ -136,9 +136,13 @@ def _segment(spec: SegmentSpec, seg: Segment, size: object, k_fittings: float,
         key = material or getattr(size, "material_hint", None)
         if key is not None:
             mat = material_of(key)
-            source = mat.source.split(";")[0].removeprefix("roughness: ")
+            is_aged = _typed(spec.condition) == "aged"
+            parts = mat.source.split("; ")  # "roughness: …; aged: …; Hazen-Williams C: …"
+            part = "aged: " if is_aged else "roughness: "
+            source = next((p.removeprefix(part) for p in parts if p.startswith(part)),
+                          parts[0].removeprefix("roughness: "))
             how = "" if material else ", the material the size's standard is made in"
-            aged = " (aged)" if _typed(spec.condition) == "aged" else ""
+            aged = " (aged)" if is_aged else ""
             out.append(("roughness-from-material",
                         f"{mat.name}{aged}{how}: ε = {marked('roughness', seg.roughness)} "
                         f"({source})"))

@@ -73,3 +73,17 @@ def test_a_typed_gravity_is_said_and_one_no_place_on_earth_has_is_questioned(typ
     assert ("not Earth's" in said[0]) is not earth
     text = render(solve_site(site), "text")
     assert "as typed (standard gravity 9.80665" in " ".join(text.split())
+
+
+def test_an_aged_material_cites_the_aged_figure_not_the_new_pipes():
+    # "commercial-steel aged": ε 0.4 mm was said with Moody's new-pipe source (0.046 mm).
+    site = demo_text().replace('material = "commercial-steel"', 'material = "commercial-steel"\n'
+                               'condition = "aged"', 1)
+    doc = json.loads(render(solve_site(parse_site(site)), "json"))
+    said = _by(doc, "roughness-from-material", "AHU-1 coil")
+    # the value and the figure its cited source gives agree (the catalog's aged entry)
+    assert said and "(aged)" in said[0] and "Moody" not in said[0]
+    value = said[0].split("ε = ")[1].split(" (")[0]
+    assert value in said[0].split(" (", 2)[2], said[0]
+    new = _by(doc, "roughness-from-material", "AHU-2 coil")
+    assert new and "Moody (1944)" in new[0]
