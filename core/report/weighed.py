@@ -14,14 +14,20 @@ TITLE = "Readings weighed together"
 
 
 def reading_fit_line(f: ReadingFit, reader: Units | str = "si") -> str:
-    """``the clamp-on on 'AHU-3 coil': read 80.00 gpm, reconciled 76.95 gpm (σ 2.86 gpm),
-    normalised residual +1.10``."""
+    """``the clamp-on on 'AHU-3 coil': read 80.00 gpm, reconciled 76.95 gpm (σ 2.86 gpm before
+    weighing), normalised residual +1.10 (the residual over its own σ after weighing)``.
+
+    The σ is the spread of the reading against the model before the weighing (its instrument's
+    and the model's); the normalised residual divides by the smaller spread of the residual
+    left after it, so the two do not divide into each other (a reader did the sum and was
+    puzzled)."""
     u = units_for(reader)
     kind = GIVENS[f.reading].quantity
     label = f.label[:1].upper() + f.label[1:]
     return (f"{label}: read {u.quantity(f.measured_si, kind)}, reconciled "
-            f"{u.quantity(f.reconciled_si, kind)} (σ {u.quantity(f.sigma_si, kind)}), "
-            f"normalised residual {f.normalised_residual:+.2f}")
+            f"{u.quantity(f.reconciled_si, kind)} (σ {u.quantity(f.sigma_si, kind)} before "
+            f"weighing), normalised residual {f.normalised_residual:+.2f} (the residual over "
+            "its own σ after weighing)")
 
 
 def weighed_lines(sr: SiteResult, reader: Units | str = "si") -> list[str]:

@@ -110,3 +110,12 @@ def one_reading_is_weighed_by_nothing(text: str) -> bool:
                                               'pressure_drop = "10 psid"')
                                  .replace('given = "pressure_drop"', 'given = "AHU-3 coil"')))
     return fine.unweighed == "" and solve_site(parse_site(demo_text())).unweighed == ""
+
+
+def test_each_readings_sigma_says_which_spread_it_is():
+    # The σ shown is the reading's spread before the weighing; the normalised residual divides
+    # by the residual's own, smaller, spread after it: a reader divided the one by the other.
+    table = render(solve_site(parse_site(_site(90))), "table")
+    line = next(x for x in table.splitlines() if "clamp-on on 'AHU-3 coil': read" in x)
+    assert "before" in line or "before weighing" in table
+    assert "after weighing" in table
