@@ -197,3 +197,32 @@ def test_a_branch_read_twice_but_not_trended_says_to_see_the_notes(ui, tmp_path)
             assert "not trended: see the notes" in line and "no 2 clamp-ons" not in line
 
     ui.run(scenario)
+
+
+def test_every_flag_can_be_read_at_80x24(ui, monkeypatch):
+    # Six flags showed four at 80×24 (the area was cut at 8 lines, with no sign of more): the
+    # flags now scroll with the visits' lines.
+    from textual.containers import VerticalScroll
+    from textual.widgets import Static
+
+    from branchwise.core.history.timeline import History
+
+    many = [f"Branch {i}: flow +{i + 5} % since 2024-09-18 (band ± 3 %): the head across the "
+            "header changed" for i in range(12)]
+    monkeypatch.setattr(History, "messages", lambda self: many)
+
+    async def scenario() -> None:
+        async with ui.started("f5", (80, 24)) as (app, pilot):
+            await ui.settle(pilot)
+            flags = app.screen.query_one("#history-flags", Static)
+            assert flags.size.height >= 24  # twelve flags of two lines each, none cut
+            more = app.screen.query_one("#history-more", VerticalScroll)
+            assert flags in more.children and more.max_scroll_y > 0  # scrolled to, not lost
+            seen = set()
+            for _ in range(40):  # scrolled down line by line, every flag comes into view
+                seen |= {i for i in range(12) if f"Branch {i}: flow" in ui.text(app)}
+                more.scroll_down(animate=False)
+                await pilot.pause()
+            assert seen == set(range(12))
+
+    ui.run(scenario)

@@ -85,8 +85,8 @@ class HistoryScreen(WorkScreen):
         yield Static("", id="history-visits", markup=False)
         yield Static("", id="history-what", markup=False)
         yield TextTable(id="history-table")
-        yield Static("", id="history-flags", markup=False)
-        with VerticalScroll(id="history-more"):
+        with VerticalScroll(id="history-more"):  # the flags scroll too: all of them are read
+            yield Static("", id="history-flags", markup=False)
             yield Static("", id="history-details", markup=False)
 
     # ---- working it out ------------------------------------------------------------------------
