@@ -59,3 +59,14 @@ def test_a_typed_gravity_is_said_on_the_split_screen(ui):
                 assert said in text, text
 
     ui.run(scenario)
+
+
+def test_a_branch_not_worked_out_does_not_say_not_read():
+    # "not read yet" read as "no clamp-on reading on this branch" to a newcomer: the app
+    # means the bore, ε, ΣK and valve it could not work out.
+    from branchwise.core.site.read import demo_site
+    from branchwise.tui.screens.branches.understood import understood_lines
+
+    lines = understood_lines(None, demo_site(), None, 0, 0)  # type: ignore[arg-type]
+    assert lines == ["AHU-1 coil: bore, ε, ΣK and valve not worked out yet (see the message "
+                     "below)"]

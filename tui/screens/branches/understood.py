@@ -33,7 +33,7 @@ def understood_lines(app: Workspace, site: Site, built: Built | None, i: int,
     where = f"{name}{f' segment {j + 1}' if many else ''}"
     if built is None or i >= len(built.network.branches) or j >= len(
             built.network.branches[i].segments):
-        return [f"{where}: not read yet (see the message below)"]
+        return [f"{where}: bore, ε, ΣK and valve not worked out yet (see the message below)"]
     branch = built.network.branches[i]
     seg = branch.segments[j]
     size = built.sizes[i][j]
