@@ -67,6 +67,6 @@ def test_a_branch_not_worked_out_does_not_say_not_read():
     from branchwise.core.site.read import demo_site
     from branchwise.tui.screens.branches.understood import understood_lines
 
-    lines = understood_lines(None, demo_site(), None, 0, 0)  # type: ignore[arg-type]
+    lines = understood_lines(None, demo_site(), None, 0, 0)  # (no app needed for this line)
     assert lines == ["AHU-1 coil: bore, ε, ΣK and valve not worked out yet (see the message "
                      "below)"]
