@@ -108,8 +108,10 @@ def visit_site(site: Site, index: int | None) -> Site:
 
 def _given_beside_zero(site: Site) -> str | None:
     """The reading to solve from when one of the site's flow readings is exactly 0: the gauge's,
-    else a clamp-on that is not 0 (None when no reading is 0, when only the total flow is left,
-    or when a reading cannot be read: the weighing then says what is wrong)."""
+    else a clamp-on that is not 0, else — every flow reading 0, a header off that day — the
+    first of them (a head of 0, which the history notes and does not trend). None when no
+    reading is 0, when only a total flow that is not 0 is left, or when a reading cannot be
+    read: the weighing then says what is wrong."""
     from ..units import parse_quantity
 
     def zero(value: Value, path: str) -> bool | None:
@@ -127,6 +129,8 @@ def _given_beside_zero(site: Site) -> str | None:
         return None
     if c.pressure_drop is not None:
         return "pressure_drop"
+    if all(z for _, z in read):  # every line shut (a header off that day): a head of 0
+        return read[0][0]
     return next((given for given, z in read if z is False and given != "total_flow"), None)
 
 

@@ -146,3 +146,21 @@ def test_a_tolerance_refused_for_one_visits_reading_names_that_visit():
         history_of(parse_site(text))
     assert caught.value.field == "tolerances.gauge_full_scale"
     assert "at the visit of 2025-02-10 (visits[2])" in str(caught.value)
+
+
+def test_a_visit_with_every_flow_reading_zero_is_a_header_off_not_a_refusal():
+    # The whole header off that day (a total of 0, a clamp-on of 0): it refused the history.
+    # A head of 0: the visit is noted and not trended (the guard of a head not above zero).
+    text = SITE.format(gauge="1 %") + '''
+[[visits]]
+date = "2025-03-01"
+total_flow = "0 L/s"
+measured = { "Condenser A" = "0 L/s" }
+'''
+    history = history_of(parse_site(text))
+    off = next(v for v in history.visits if v.date == "2025-03-01")
+    assert off.solved.solved.result.driving_head == 0
+    from branchwise.core.messages import render
+
+    notes = [render(n) for n in off.solved.notes]
+    assert any("not clearly above zero" in n and "no figure" in n for n in notes), notes
