@@ -41,6 +41,8 @@ class Visit:
     technician: str | None
     notes: str | None
     solved: VisitIndicators
+    own_temperature: bool = False
+    """The visit gave the liquid's temperature of that day (its values are at it)."""
 
     @property
     def today(self) -> bool:
@@ -152,7 +154,8 @@ def _visit(site: Site, index: int | None) -> Visit:
         return Visit("conditions", day, day or TODAY, _text(who), None, solved)
     v = site.visits[index]
     label = _text(v.date) or ""
-    return Visit(f"visits[{index}]", label, label, _text(v.technician), _text(v.notes), solved)
+    return Visit(f"visits[{index}]", label, label, _text(v.technician), _text(v.notes), solved,
+                 v.temperature is not None)
 
 
 # ---- JSON ---------------------------------------------------------------------------------

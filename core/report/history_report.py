@@ -90,6 +90,8 @@ def visit_lines(v: Visit, u: Units) -> list[str]:
     read = [f"{reading_words(r.kind, r.name)} {u.quantity(r.value, _qkind(r.kind))}"
             for r in v.solved.readings]
     out.append("Read: " + "; ".join(read))
+    if v.own_temperature:  # (said in the JSON as temperature_k; here in the reader's unit)
+        out.append(f"Liquid that day: {u.fluid_name(sr.result.network.fluid)}")
     if sr.reconciliation is not None:
         out.append(f"Readings weighed: {sr.reconciliation.verdict}")
     if v.notes:

@@ -164,3 +164,19 @@ measured = { "Condenser A" = "0 L/s" }
 
     notes = [render(n) for n in off.solved.notes]
     assert any("not clearly above zero" in n and "no figure" in n for n in notes), notes
+
+
+def test_a_visits_own_temperature_is_said_in_the_text_too():
+    # It was said only in the JSON (temperature_k); 50 °F = 10 °C (NIST SP 811, exact).
+    from branchwise.core.report.history_report import visit_lines
+    from branchwise.core.site.read import demo_text
+    from branchwise.core.units import Units
+
+    text = demo_text() + '\n[[visits]]\ndate = "2025-02-10"\npressure_drop = "10 psid"\n' \
+        'temperature = "50 degF"\n'
+    history = history_of(parse_site(text))
+    visit = next(v for v in history.visits if v.date == "2025-02-10")
+    lines = visit_lines(visit, Units("si"))
+    assert any(line.startswith("Liquid that day:") and "10.0 °C" in line for line in lines), lines
+    today = next(v for v in history.visits if v.today)
+    assert not any(line.startswith("Liquid that day:") for line in visit_lines(today, Units("si")))
