@@ -220,7 +220,10 @@ def test_curve_and_tolerances(ui, tmp_path):
             meter = dialog.query_one("#tol-flow_meter_accuracy", Field)
             assert meter.text == "" and "common practice" in meter.input.placeholder
             assert "3 % · common practice" in ui.text(app)
-            assert dialog.query_one("#tol-gauge_full_scale", Field).text == "30 psid"
+            full = dialog.query_one("#tol-gauge_full_scale", Field)
+            assert full.text == "30 psid"
+            # no figure of common practice there: the hint says so, and fits at 80 columns
+            assert full.input.placeholder == "none: % of the reading"
             await pilot.press("tab", "tab")
             assert app.focused is meter.input
             await ui.type(pilot, "5")

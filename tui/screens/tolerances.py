@@ -46,8 +46,9 @@ ROWS = (
     ("fitting_k", "Fitting K ±", "%"),
     ("valve_kv", "Valve Kv/Cv ±", "%"),
 )
-FOLLOWS = frozenset({"total_flow_meter_accuracy"})
-"""Rows whose default is another row's value, not a common-practice figure of their own."""
+NO_FIGURE = frozenset({"gauge_full_scale", "total_flow_meter_accuracy"})
+"""Rows whose default is no common-practice figure: none at all (the gauge's full scale), or
+another row's value (the total-flow meter's): their hint says only that, and fits at 80×24."""
 INTRO = ("± limits on the readings and the records: they set the band (b) and weigh the "
          "readings against each other. Grey values are common practice, not a standard: type "
          "the site's own to replace them.")
@@ -119,7 +120,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
             yield Static(INTRO, classes="tol-intro", markup=False)
             with Vertical(classes="tol-rows"):
                 for key, label, meaning in ROWS:
-                    hint = base[key] if key in FOLLOWS else f"{base[key]} · common practice"
+                    hint = base[key] if key in NO_FIGURE else f"{base[key]} · common practice"
                     field = Field(label, f"tolerances.{key}", value=typed[key],
                                   placeholder=hint, id=f"tol-{key}")
                     field.meaning = (unit_label(self.pressure_unit) if key == "gauge_full_scale"
