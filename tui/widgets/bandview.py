@@ -143,7 +143,9 @@ def band_notes(app: Workspace, sr: SiteResult, width: int = 0) -> Text:
     u = sr.uncertainty
     source = ("the site's [tolerances], common practice where it is silent"
               if sr.site.tolerances is not None else "common-practice defaults")
-    out = Text(f"\n\nTolerances: {source}  (l: see and change them)", style="dim")
+    head = f"Tolerances: {source}  (l: see and change them)"
+    lines = textwrap.wrap(head, width - 2, break_on_hyphens=False) if width > 20 else [head]
+    out = Text("\n\n" + "\n  ".join(lines), style="dim")  # (it was cut at 80 columns)
     for note in u.notes if u is not None else ():
         said = app.say(note)
         lines = textwrap.wrap(said, width - 2, break_on_hyphens=False) if width > 20 else [said]
