@@ -56,6 +56,14 @@ given = "all"
 """Our own invented header: no gauge is read on either day."""
 
 
+def _visit_of_march(readings: str):
+    """The history of SITE with a visit on 2025-03-01 holding ``readings`` (TOML lines), and
+    that visit."""
+    history = history_of(parse_site(SITE.format(gauge="1 %")
+                                    + f'\n[[visits]]\ndate = "2025-03-01"\n{readings}\n'))
+    return history, next(v for v in history.visits if v.date == "2025-03-01")
+
+
 def _solved_flow_trend(gauge: str):
     history = history_of(parse_site(SITE.format(gauge=gauge)))
     return next(t for t in history.trends
@@ -97,14 +105,7 @@ def test_a_visit_with_a_clamp_on_reading_zero_is_solved_from_its_other_reading()
     # A line shut at a visit (0 L/s on its clamp-on) beside the gauge, no given written: the
     # zero has no spread to weigh by (a share of 0), so the visit is solved from the gauge and
     # the zero noted, not the whole history refused.
-    text = SITE.format(gauge="1 %") + '''
-[[visits]]
-date = "2025-03-01"
-pressure_drop = "60 kPa"
-measured = { "Condenser A" = "0 L/s" }
-'''
-    history = history_of(parse_site(text))
-    shut = next(v for v in history.visits if v.date == "2025-03-01")
+    _, shut = _visit_of_march('pressure_drop = "60 kPa"\nmeasured = { "Condenser A" = "0 L/s" }')
     sr = shut.solved.solved
     assert sr.result.pressure_drop == pytest.approx(60e3, rel=1e-12)  # from the gauge
     assert sr.reconciliation is None
@@ -114,7 +115,7 @@ measured = { "Condenser A" = "0 L/s" }
 
 def test_a_shut_line_beside_a_total_flow_is_not_solved_from_that_total():
     # The model would share the total with the shut line: the other lines' solved flows would
-    # be wrong (the reviewer's 10.76 L/s for a line carrying all 25). Beside another clamp-on,
+    # be wrong (10.76 L/s for a line carrying all 25). Beside another clamp-on,
     # the visit is solved from that clamp-on's head; with only the total, it is refused naming
     # the zero reading.
     visit = '''
@@ -151,14 +152,7 @@ def test_a_tolerance_refused_for_one_visits_reading_names_that_visit():
 def test_a_visit_with_every_flow_reading_zero_is_a_header_off_not_a_refusal():
     # The whole header off that day (a total of 0, a clamp-on of 0): it refused the history.
     # A head of 0: the visit is noted and not trended (the guard of a head not above zero).
-    text = SITE.format(gauge="1 %") + '''
-[[visits]]
-date = "2025-03-01"
-total_flow = "0 L/s"
-measured = { "Condenser A" = "0 L/s" }
-'''
-    history = history_of(parse_site(text))
-    off = next(v for v in history.visits if v.date == "2025-03-01")
+    _, off = _visit_of_march('total_flow = "0 L/s"\nmeasured = { "Condenser A" = "0 L/s" }')
     assert off.solved.solved.result.driving_head == 0
     from branchwise.core.messages import render
 
