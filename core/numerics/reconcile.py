@@ -197,10 +197,7 @@ def reconcile(network: Network, obs: Sequence[Observation], tol: Tolerances | No
         without = (sub.chi2, chi_square_p(sub.chi2, dof - 1))
     q = fit.q
     sigma = 1 / math.sqrt(fit.info) if fit.info > 0 else math.nan
-    inst = math.nan
-    if fit.info > 0:
-        gain = np.linalg.solve(cov, model.slope(head)) / fit.info  # d head / d reading
-        inst = math.sqrt(float(np.sum(gain**2 * meas)))
+    inst = math.sqrt(float(np.sum(fit.gain**2 * meas))) if fit.info > 0 else math.nan
     return Reconciliation(
         head_m=head, pressure_drop_pa=model.rho_g * (head + network.elevation_change),
         total_flow_m3_s=float(q.sum()), flows_m3_s=tuple(float(v) for v in q),
@@ -220,6 +217,8 @@ class _Fit:
     chi2: float
     nr: Array
     info: float
+    gain: Array
+    """d head / d reading at the optimum: V⁻¹J / (Jᵀ V⁻¹ J)."""
 
 
 def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
@@ -232,7 +231,8 @@ def _fit(model: _Model, y: Array, cov: Array, head: float) -> _Fit:
     vr = cov - np.outer(j, j) / info
     with np.errstate(invalid="ignore", divide="ignore"):
         nr = np.where(np.diag(vr) > 0, r / np.sqrt(np.abs(np.diag(vr))), 0.0)
-    return _Fit(g, q, float(r @ w @ r), nr, info)
+        gain = w @ j / info
+    return _Fit(g, q, float(r @ w @ r), nr, info, gain)
 
 
 def _start(model: _Model, y: Array, meas: Array) -> float:
