@@ -47,7 +47,7 @@ def series_kv(value: object, path: str, unit: str = "kv") -> float | None:
                 raise InputError(path, shown, f"{which}has no number; {_HOW}")
             text = written.strip()
         try:
-            number = plain_float(text) if isinstance(text, str) else float(text)
+            number = plain_float(text)
         except (ValueError, OverflowError):
             raise InputError(path, shown, f"{which}is not a plain number; {_HOW}") from None
         if not (math.isfinite(number) and number > 0):

@@ -93,7 +93,7 @@ def _hazen_williams_c(value: Any, path: str) -> float:
     try:
         if isinstance(value, bool):
             raise TypeError
-        number = plain_float(value) if isinstance(value, str) else float(value)
+        number = plain_float(value)
     except (TypeError, ValueError, OverflowError):
         raise InputError(path, value, "must be a plain number") from None
     if not 0 < number < 1000:

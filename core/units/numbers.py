@@ -48,13 +48,14 @@ class Leading:
     feet_inches: bool = False
 
 
-def plain_float(text: str) -> float:
-    """``float(text)`` for a number as a person writes it. Python also reads its own digit
-    separator, the underscore, which no one writes in a measurement: ``6_5`` would be 65. Such
-    a text is refused (a ValueError, as any text that is no number), not read."""
-    if "_" in text:
-        raise ValueError(f"not a plain number: {text!r}")
-    return float(text)
+def plain_float(value: str | float) -> float:
+    """``float(value)`` for a number as a person writes it (a number, as it is). Python also
+    reads its own digit separator in a text, the underscore, which no one writes in a
+    measurement: ``6_5`` would be 65. Such a text is refused (a ValueError, as any text that is
+    no number), not read."""
+    if isinstance(value, str) and "_" in value:
+        raise ValueError(f"not a plain number: {value!r}")
+    return float(value)
 
 
 def leading_number(text: str, field: str, shown: str) -> Leading | None:

@@ -89,8 +89,8 @@ def k_text(seg: SegmentSpec) -> str:
     count = 0.0
     for value in seg.fittings.values():
         try:  # (a count typed "1_0" is no count: the site refuses it, the cell does not add it)
-            count += (plain_float(value) if isinstance(value, str) else float(value)
-                      if isinstance(value, int | float) else float("nan"))
+            count += (plain_float(value) if isinstance(value, int | float | str)
+                      else float("nan"))
         except (ValueError, OverflowError):
             count = float("nan")
     if not seg.fittings:
