@@ -143,13 +143,16 @@ def band_notes(app: Workspace, sr: SiteResult, width: int = 0) -> Text:
     u = sr.uncertainty
     source = ("the site's [tolerances], common practice where it is silent"
               if sr.site.tolerances is not None else "common-practice defaults")
-    head = f"Tolerances: {source}  (l: see and change them)"
-    lines = textwrap.wrap(head, width - 2, break_on_hyphens=False) if width > 20 else [head]
-    out = Text("\n\n" + "\n  ".join(lines), style="dim")  # (it was cut at 80 columns)
+
+    def wrapped(text: str) -> str:
+        lines = textwrap.wrap(text, width - 2, break_on_hyphens=False) if width > 20 else [text]
+        return "\n  ".join(lines)
+
+    # (the head line too: unwrapped, it ran off the screen at 80 columns)
+    out = Text("\n\n" + wrapped(f"Tolerances: {source}  (l: see and change them)"),
+               style="dim")
     for note in u.notes if u is not None else ():
-        said = app.say(note)
-        lines = textwrap.wrap(said, width - 2, break_on_hyphens=False) if width > 20 else [said]
-        out.append("\n• " + "\n  ".join(lines), style=colour(app, "text-warning"))
+        out.append("\n• " + wrapped(app.say(note)), style=colour(app, "text-warning"))
     return out
 
 
