@@ -3,10 +3,8 @@
 The equations are those of :mod:`branchwise.core.numerics.hydraulics` (Darcy–Weisbach with the
 minor losses and the valve, the same friction models and regimes), for one branch at a time:
 
-* one segment under Colebrook in turbulent flow — the valve folded into the fittings' K, since
-  r_valve Q² = (2 g r_valve A²) V²/2g — is one equation in x = 1/√f: with
-  V² = 2 g H / (L/(D x²) + K), Colebrook reads x = −2 log10(ε/3.7D + C √(L/D + K x²)) with
-  C = 2.51 ν / (D √(2 g H)): explicit when K = 0, a few Newton steps otherwise;
+* one segment under Colebrook in turbulent flow — the valve folded into the fittings' K — is
+  one equation in x = 1/√f (:mod:`.one`);
 * series segments under Colebrook in turbulent flow: Newton on ln Q and every segment's x
   together (each x's step from its Colebrook equation given the step in ln Q);
 * anything else (other models, laminar or transition flow): Newton on ln h against ln Q inside
@@ -21,14 +19,14 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
-from ...model import Branch
+from ...model import Branch, Segment
 from ..friction import RE_TURBULENT
-from ..hydraulics import HEAD_RTOL, MAX_ITER, VALVE_HEAD_FACTOR
+from ..hydraulics import HEAD_RTOL, MAX_ITER
 from . import friction as fr
-from .series import NO_SERIES, SeriesConstants, joint_newton, series_constants, series_state
+from .one import NO_ONE, colebrook_one, one_row, valve_resistance
+from .series import NO_SERIES, SeriesConstants, series_constants, series_flow
 
 LN10 = fr.LN10
-TWO_LN10 = fr.TWO_LN10
 _log = math.log
 _exp = math.exp
 _sqrt = math.sqrt
@@ -60,14 +58,13 @@ class Pipe:
 
     __slots__ = ("d", "length", "rr", "a3", "k", "area", "c", "eps", "valve_r", "nu", "g",
                  "model", "n", "h", "s", "re", "f", "fs", "major", "minor", "q", "x", "xs",
-                 "one_colebrook", "owned", "ld", "ke", "c0", "series")
+                 "one_colebrook", "owned", "one", "series")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str, owned: bool = True) -> None:
         # Written for speed (a network met anew builds one pipe a branch, each solve): every
         # attribute set once, the lists made whole, the state's too (as :meth:`_new_state`).
         segs = br.segments
-        kv = br.valve_kv
-        self.valve_r = valve_r = VALVE_HEAD_FACTOR / (kv**2 * g) if kv is not None else 0.0
+        self.valve_r = valve_r = valve_resistance(br.valve_kv, g)
         self.nu, self.g, self.model = nu, g, model
         self.h = self.s = self.q = _NAN
         self.x = 0.0
@@ -75,15 +72,12 @@ class Pipe:
         if len(segs) == 1:
             s = segs[0]
             dj, length, eps, k, hw_c = s.diameter, s.length, s.roughness, s.minor_k, s.hw_c
-            rr = eps / dj
-            area = math.pi * dj**2 / 4
+            self.one = one = one_row(s, valve_r, nu, g)
+            rr, a3, area = one[0], one[1], one[2]
             self.n = 1
             self.d, self.length, self.eps, self.k = [dj], [length], [eps], [k]
-            self.rr, self.a3, self.area = [rr], [rr / 3.7], [area]
+            self.rr, self.a3, self.area = [rr], [a3], [area]
             self.c = [hw_c if hw_c is not None else _NAN]
-            self.ld = length / dj  # as _fold
-            self.ke = k + 2 * g * valve_r * area * area
-            self.c0 = 2.51 * nu / (dj * math.sqrt(2 * g))
             self.series = NO_SERIES
             self.one_colebrook = model == "colebrook"
             self.xs = [0.0]
@@ -92,29 +86,23 @@ class Pipe:
             return
         n = len(segs)
         self.n = n
+        self.series, a3s, areas = series_constants(segs, valve_r, nu, g)
         ds: list[float] = []
         lengths: list[float] = []
         roughs: list[float] = []
         ks: list[float] = []
         rrs: list[float] = []
-        a3s: list[float] = []
-        areas: list[float] = []
         cs: list[float] = []
         self.d, self.length, self.eps, self.k = ds, lengths, roughs, ks
         self.rr, self.a3, self.area, self.c = rrs, a3s, areas, cs
         for s in segs:
-            dj = s.diameter
-            rr = s.roughness / dj
-            ds.append(dj)
+            ds.append(s.diameter)
             lengths.append(s.length)
             roughs.append(s.roughness)
             ks.append(s.minor_k)
-            rrs.append(rr)
-            a3s.append(rr / 3.7)
-            areas.append(math.pi * dj**2 / 4)
+            rrs.append(s.roughness / s.diameter)
             cs.append(s.hw_c if s.hw_c is not None else _NAN)
-        self.ld = self.ke = self.c0 = _NAN
-        self.series = series_constants(nu, g, valve_r, areas, ds, lengths, ks)
+        self.one = NO_ONE
         self.one_colebrook = False
         self._new_state()
 
@@ -130,8 +118,7 @@ class Pipe:
             new.rr, new.a3, new.area = self.rr, self.a3, self.area
         new.k, new.c, new.valve_r = self.k, self.c, self.valve_r
         new.nu, new.g, new.model, new.n = self.nu, self.g, self.model, self.n
-        new.one_colebrook, new.owned, new.ld, new.ke = self.one_colebrook, own, self.ld, self.ke
-        new.c0 = self.c0
+        new.one_colebrook, new.owned, new.one = self.one_colebrook, own, self.one
         new.series = self.series
         new._new_state()
         return new
@@ -171,20 +158,16 @@ class Pipe:
         self._fold()
 
     def _fold(self) -> None:
-        """L/D and the fittings' and valve's K together (``ke``) of a one-segment branch, for
-        :meth:`_colebrook_one` (NaN for several segments)."""
+        """The constants worked out again from the segments' numbers, once one has changed:
+        a one-segment branch's row for :meth:`colebrook_one_flow`, or the series constants."""
+        segs = [Segment(d, length, eps, k)
+                for d, length, eps, k in zip(self.d, self.length, self.eps, self.k, strict=True)]
         if self.n == 1:
-            area = self.area[0]
-            self.ld = self.length[0] / self.d[0]
-            self.ke = self.k[0] + 2 * self.g * self.valve_r * area * area
-            self.c0 = 2.51 * self.nu / (self.d[0] * math.sqrt(2 * self.g))
+            self.one = one_row(segs[0], self.valve_r, self.nu, self.g)
+            self.series = NO_SERIES
         else:
-            self.ld = self.ke = self.c0 = math.nan
-        self.series = self._series_constants()
-
-    def _series_constants(self) -> SeriesConstants:
-        return series_constants(self.nu, self.g, self.valve_r, self.area, self.d, self.length,
-                                self.k)
+            self.one = NO_ONE
+            self.series = series_constants(segs, self.valve_r, self.nu, self.g)[0]
 
     def friction(self, j: int, re: float) -> tuple[float, float]:
         if self.model == "hazen-williams":
@@ -249,79 +232,39 @@ class Pipe:
         ``guess``: a starting |Q| (m³/s), 0 for none. Raises :class:`Fallback` when the test
         of the vectorised solver is not met."""
         if self.one_colebrook:
-            it = self._colebrook_one(head)
+            it = self.colebrook_one_flow(head)
             if it:
                 return it
         elif guess <= 0 and self.model == "colebrook":
             self.q = math.nan
-            it = self._colebrook_series(head)
+            it = self.colebrook_series_flow(head)
             if it:
                 return it
             guess = self.q if self.q > 0 and math.isfinite(self.q) else 0.0  # where it got
         return self._newton(head, guess)
 
-    def _colebrook_one(self, head: float) -> int:
-        """Colebrook with the valve and fittings folded in, as one equation in x = 1/√f;
-        0 when the flow is not turbulent (the general solver takes it)."""
-        a = self.a3[0]
-        ld, ke = self.ld, self.ke
-        c0 = self.c0 / _sqrt(head)
-        it = 1
-        if ke == 0:
-            x = -2.0 * _log10(a + c0 * _sqrt(ld))
-        else:
-            # One fixed-point pass from the last root (or from f = 0.02: x ≈ 7), then Newton
-            # on g(x) = x + 2 log10(a + C R), R = √(L/D + K x²). Its error after a step s is
-            # about |g''|/(2 g') s², and |g''|/(2 g') ≤ K/(ln 10 R²) (g' ≥ 1; R''s terms
-            # bounded by K/R²): taken at 0.9 x, the next step would be below round-off once
-            # that bound times s² is below 1e-16 x.
-            x = self.x if self.x > 0 else 7.0
-            x = -2.0 * _log10(a + c0 * _sqrt(ld + ke * x * x))
-            kc = TWO_LN10 * c0 * ke
-            curve = ke / (LN10 * (ld + 0.81 * ke * x * x))
-            for it in range(1, 40):  # noqa: B007 (the count is reported)
-                root = _sqrt(ld + ke * x * x)
-                arg = a + c0 * root
-                step = (x + TWO_LN10 * _log(arg)) / (1.0 + kc * x / (arg * root))
-                x -= step
-                if curve * step * step <= 1e-16 * x:
-                    break
-        f = 1.0 / (x * x)
-        vel_head = head / (ld * f + ke)  # V²/2g
-        speed = _sqrt(2 * self.g * vel_head)
-        d = self.d[0]
-        re = speed * d / self.nu
-        if not (re >= RE_TURBULENT and x > 0):
-            return 0
-        self.x = x
-        q = speed * self.area[0]
-        c = 2.51 / re  # d ln f / d ln Re at the root, as friction.colebrook_slopes
-        t = TWO_LN10 * c / (a + c * x)
-        fs = -2.0 * t / (1.0 + t)
-        major = f * ld * vel_head
-        minor = self.k[0] * vel_head
-        valve = self.valve_r * q * q
-        h = major + minor + valve
-        if not abs(h - head) <= HEAD_RTOL * head:  # |ln h − ln H| ≤ HEAD_RTOL, to first order
+    def colebrook_one_flow(self, head: float) -> int:
+        """A one-segment branch under Colebrook (:func:`.one.colebrook_one`): the state at the
+        flow at ``head`` > 0 (m), from the last root; 0 when the flow is not turbulent or the
+        test is not met (the general solver takes it)."""
+        it, self.x, q, h, s, re, f, fs, major, minor = colebrook_one(head, self.x, self.one,
+                                                                     self.nu, self.g)
+        if not it:
             return 0
         self.re[0], self.f[0], self.fs[0], self.major[0], self.minor[0] = re, f, fs, major, minor
-        self.q, self.h = q, h
-        self.s = (major * (2 + fs) + 2 * minor + 2 * valve) / h
+        self.q, self.h, self.s = q, h, s
         return it
 
-    def _colebrook_series(self, head: float) -> int:
+    def colebrook_series_flow(self, head: float) -> int:
         """Series segments under Colebrook in turbulent flow, solved together
         (:func:`.series.joint_newton`), then tested as :meth:`_newton` tests a flow; 0 when
         a segment is not in turbulent flow or the test is not met (the caller goes on from
         the flow reached, if any)."""
-        it, q = joint_newton(head, self.series, self.a3, self.xs)
-        if not it:
-            return 0
-        h, dh = series_state(q, self.xs, self.series, self.a3,
-                             (self.re, self.f, self.fs, self.major, self.minor))
-        h = self.with_valve(q, h, dh)
-        if abs(_log(h) - _log(head)) > HEAD_RTOL:
-            return 0
+        it, q, h, s = series_flow(head, self.series, self.a3, self.xs,
+                                  (self.re, self.f, self.fs, self.major, self.minor),
+                                  self.valve_r)
+        if q == q:  # reached (not NaN)
+            self.q, self.h, self.s = q, h, s
         return it
 
     def _start(self, head: float) -> float:

@@ -93,7 +93,7 @@ def flows_at(pipes: Sequence[Pipe], head: float) -> tuple[list[float], int]:
     add = flows.append
     for p in pipes:
         # (a one-segment Colebrook branch asked directly: flow_at would ask it first)
-        it = p._colebrook_one(t) if p.one_colebrook else 0
+        it = p.colebrook_one_flow(t) if p.one_colebrook else 0
         if not it:
             it = p.flow_at(t)
         if it > iterations:

@@ -11,8 +11,11 @@ segment's Swamee–Jain x at the flow f = 0.02 would give; three steps are usual
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
+from ...model import Segment
 from ..friction import RE_TURBULENT
+from ..hydraulics import HEAD_RTOL
 from .friction import TWO_LN10
 
 _log = math.log
@@ -29,22 +32,30 @@ RE_TURBULENT_C = 2.51 / RE_TURBULENT
 """2.51/Re at the start of turbulent flow (Colebrook's c, which falls as Re rises)."""
 
 
-def series_constants(nu: float, g: float, valve_r: float, area: list[float], d: list[float],
-                     length: list[float], k: list[float]) -> SeriesConstants:
-    """For :func:`joint_newton` (SI, per segment: A, D, L, K): per segment 2.51 Q/Re and
-    (L/D)/(2 g A²), the fittings' and valve's resistance together
-    (h = Q² (Σ (L/D)/(2 g A²) f + that)), and per segment the fittings' K/(2 g A²)."""
+def series_constants(segs: Sequence[Segment], valve_r: float, nu: float,
+                     g: float) -> tuple[SeriesConstants, list[float], list[float]]:
+    """For :func:`joint_newton`, from the segments and the valve's r (SI): per segment
+    2.51 Q/Re and (L/D)/(2 g A²), the fittings' and valve's resistance together
+    (h = Q² (Σ (L/D)/(2 g A²) f + that)), and per segment the fittings' K/(2 g A²); then each
+    segment's ε/3.7D and bore area (m²)."""
     crk: list[float] = []
     ldw: list[float] = []
     kws: list[float] = []
+    a3: list[float] = []
+    areas: list[float] = []
     kw = valve_r
-    for a, dj, lj, kj in zip(area, d, length, k, strict=True):
+    two_g = 2 * g
+    for s in segs:
+        dj = s.diameter
+        a = math.pi * dj**2 / 4
+        areas.append(a)
+        a3.append(s.roughness / dj / 3.7)
         crk.append(2.51 * a * nu / dj)  # 2.51/Re = that/Q
-        ldw.append(lj / dj / (2 * g * a * a))
-        w = kj / (2 * g * a * a)
+        ldw.append(s.length / dj / (two_g * a * a))
+        w = s.minor_k / (two_g * a * a)
         kws.append(w)
         kw += w
-    return crk, ldw, kw, kws
+    return (crk, ldw, kw, kws), a3, areas
 
 
 def joint_newton(head: float, consts: SeriesConstants, a3: list[float],
@@ -119,9 +130,32 @@ def joint_newton_any(head: float, consts: SeriesConstants, a3: list[float],
     return it, q
 
 
+State = tuple[list[float], list[float], list[float], list[float], list[float]]
+"""Per segment: Re, f, d ln f / d ln Re, the major and the minor loss (m)."""
+
+
+def series_flow(head: float, consts: SeriesConstants, a3: list[float], xs: list[float],
+                state: State, valve_r: float) -> tuple[int, float, float, float]:
+    """The iterations, |Q| (m³/s), h (m) and d ln h / d ln Q of series segments at driving head
+    ``head`` > 0 (m) (:func:`joint_newton`, then :func:`series_state` into ``state``, the
+    valve's r added), tested as the vectorised solver tests a flow. The iterations are 0 when
+    that test is not met (the rest as reached) or a segment is not in turbulent flow (the
+    rest NaN)."""
+    it, q = joint_newton(head, consts, a3, xs)
+    if not it:
+        return 0, math.nan, math.nan, math.nan
+    h, dh = series_state(q, xs, consts, a3, state)
+    valve = valve_r * q * q
+    h += valve
+    dh += 2 * valve
+    s = dh / h if h != 0 else 2.0
+    if abs(_log(h) - _log(head)) > HEAD_RTOL:
+        return 0, q, h, s
+    return it, q, h, s
+
+
 def series_state(q: float, xs: list[float], consts: SeriesConstants, a3: list[float],
-                 state: tuple[list[float], list[float], list[float], list[float],
-                              list[float]]) -> tuple[float, float]:
+                 state: State) -> tuple[float, float]:
     """Each segment's Re, f, d ln f / d ln Re, major and minor loss (m) at |Q| = q from its
     Colebrook root in ``xs``, written into the lists of ``state`` in that order; returns the
     segments' h and d h / d ln Q (m; the valve's part left to the caller)."""

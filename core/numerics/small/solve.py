@@ -14,13 +14,13 @@ from collections.abc import Sequence
 
 from ...errors import BranchwiseError
 from ...model import Find, FindUnknown, Given, MeasuredFlow, Network, PressureDrop, TotalFlow
-from ..results import Convergence, Result, Solved
+from ..results import Result, Solved
 from ..unknowns import SOLVERS
 from ..unknowns.common import with_value
 from . import unknowns
 from .branch import Fallback, Pipe
 from .heads import flows_at, give_back, head_for_total, lend
-from .result import build_result
+from .result import build_result, convergence
 
 SMALL_BRANCHES = 100
 """Up to this many branches a network is solved in plain floats (measured by
@@ -102,27 +102,10 @@ def _solve_with(pipes: Sequence[Pipe], network: Network, given: Given, find: Fin
     if measured is not None:
         flows[measured] = given.value
         pipes[measured].evaluate(abs(given.value))
-    conv = _convergence(infos)
+    conv = convergence(infos)
     if not conv.converged:
         raise Fallback("not converged")
     return build_result(network, given, find, pipes, head, flows, solved, conv)
-
-
-_EXACT = tuple(Convergence(converged=True, iterations=i, residual=0.0) for i in range(64))
-"""The common answers of :func:`_convergence`, made once (a Convergence is frozen)."""
-
-
-def _convergence(infos: list[tuple[bool, int, float]]) -> Convergence:
-    """Every part converged, the iterations added up, the largest residual (one part, the
-    common case, as it is)."""
-    if len(infos) == 1:
-        ok, iterations, residual = infos[0]
-        if ok and residual == 0.0 and iterations < len(_EXACT):
-            return _EXACT[iterations]
-        return Convergence(converged=ok, iterations=iterations, residual=residual)
-    return Convergence(converged=all(i[0] for i in infos),
-                       iterations=sum(i[1] for i in infos),
-                       residual=max((i[2] for i in infos), default=0.0))
 
 
 def _head_for_unknown(network: Network, pipes: Sequence[Pipe], given: Given, find: FindUnknown,

@@ -1,5 +1,5 @@
 """Series segments under Colebrook on the small path: Newton on ln Q and every segment's
-x = 1/√f together (``small.series.joint_newton``, through ``Pipe._colebrook_series``).
+x = 1/√f together (``small.series.joint_newton``, through ``Pipe.colebrook_series_flow``).
 
 The reference is outside the project: each segment's friction factor must be the one
 ``fluids.friction.Colebrook`` gives at that segment's Reynolds number and relative roughness, and
@@ -37,7 +37,7 @@ CASES = [
 @pytest.mark.parametrize(("p", "head"), CASES)
 def test_series_segments_meet_colebrook_in_every_segment(p: Pipe, head: float):
     p = p.copy()
-    assert p._colebrook_series(head) > 0  # the joint Newton took it
+    assert p.colebrook_series_flow(head) > 0  # the joint Newton took it
     q = p.q
     h = 0.0
     for j in range(p.n):
@@ -54,7 +54,7 @@ def test_series_segments_meet_colebrook_in_every_segment(p: Pipe, head: float):
 @pytest.mark.parametrize(("p", "head"), CASES)
 def test_the_joint_newton_and_the_flow_newton_agree(p: Pipe, head: float):
     joint, by_flow = p.copy(), p.copy()
-    joint._colebrook_series(head)
+    joint.colebrook_series_flow(head)
     by_flow._newton(head, 0.0)
     assert joint.q == pytest.approx(by_flow.q, rel=1e-13)
     assert joint.s == pytest.approx(by_flow.s, rel=1e-12)
@@ -63,7 +63,7 @@ def test_the_joint_newton_and_the_flow_newton_agree(p: Pipe, head: float):
 def test_laminar_flow_is_left_to_the_flow_newton():
     p = pipe(Segment(0.01, 50.0, 4.5e-5, 0.0), Segment(0.008, 5.0, 4.5e-5, 0.0))
     tiny = 1e-4  # m: Re of a few tens
-    assert p.copy()._colebrook_series(tiny) == 0
+    assert p.copy().colebrook_series_flow(tiny) == 0
     q = p.copy()
     assert q.flow_at(tiny) > 0
     assert q.h == pytest.approx(tiny, rel=1e-12)
