@@ -4,8 +4,8 @@ in x = 1/√f for the flow at a head.
 With V² = 2 g H / (L/(D x²) + K) — the valve folded into the fittings' K, since
 r_valve Q² = (2 g r_valve A²) V²/2g — Colebrook reads x = −2 log10(ε/3.7D + C √(L/D + K x²))
 with C = 2.51 ν / (D √(2 g H)): explicit when K = 0, a few Newton steps otherwise. Used by a
-branch object (:class:`.branch.Pipe`) and by a network's flows worked out straight from its
-branches (:mod:`.at_head`), so both give the same numbers to the bit.
+branch object (:class:`.branch.Pipe`); a network's flows worked out straight from its branches
+(:mod:`.at_head`) write it out, to the same numbers to the bit.
 """
 
 from __future__ import annotations

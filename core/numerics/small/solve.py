@@ -18,6 +18,7 @@ from ..results import Result, Solved
 from ..unknowns import SOLVERS
 from ..unknowns.common import with_value
 from . import unknowns
+from .at_head import flows_at_given_head
 from .branch import Fallback, Pipe
 from .heads import flows_at, give_back, head_for_total, lend
 from .result import build_result, convergence
@@ -56,6 +57,12 @@ def _driving_head(network: Network, pressure_drop: float) -> float:
 
 
 def _solve(network: Network, given: Given, find: Find, index: int | None) -> Result:
+    """The flows at a given Δp straight from the branches' numbers where that lane takes the
+    network (:mod:`.at_head`), else through an object per branch."""
+    if type(given) is PressureDrop and index is None:
+        result = flows_at_given_head(network, given, find, _driving_head(network, given.value))
+        if result is not None:
+            return result
     pipes, loan = lend(network)
     try:
         return _solve_with(pipes, network, given, find, index)
