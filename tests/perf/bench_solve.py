@@ -164,8 +164,8 @@ def first_call(fn: Callable[[], object], before: Callable[[], object], rounds: i
 
 FRESH = 50
 """Networks of equal values but objects of their own, solved in turn: each solve meets its
-network anew (the solve keeps the last network's branch objects and checks; the app builds a
-new network for each edit)."""
+network anew (the solve keeps the last network's rows of constants, or branch objects, and
+checks; the app builds a new network for each edit)."""
 
 GOALS = {"total flow given": 10.0, "diameter found": 10.0}
 """Issue 15: ≥ 10× faster than the tree before the speed work."""
