@@ -7,7 +7,8 @@ Numbers are written at full precision (the shortest text that reads back as the 
 a text cell that a spreadsheet would run as a formula is neutralised (OWASP, "CSV Injection").
 
 A branch's own figures (its flow, share, P5/P95 band and valve loss) are on its first segment's
-row only, empty on its further segments, so the flow column sums to the total flow. Everything
+row only, empty on its further segments, so the flow column sums to the total flow (the valve
+loss is empty too for a branch with no valve). Everything
 that is not a row of the table — the liquid, the given reading, the totals, a found unknown,
 the record, the bands of the totals, warnings, notes and cautions — is in the human-readable
 formats (table, Markdown, HTML) and in the JSON; the command line prints what was assumed, the
@@ -70,6 +71,17 @@ class CsvColumn:
     branch_level: bool = False
 
 
+def _valve_loss(sr: SiteResult) -> Callable[[int, BranchResult, int, SegmentResult],
+                                            float | None]:
+    """A branch's valve loss, blank for a branch with no valve (as the other reports: a 0 would
+    read as a valve that loses nothing)."""
+    branches = sr.result.network.branches
+
+    def get(i: int, b: BranchResult, j: int, s: SegmentResult) -> float | None:
+        return b.valve_loss if branches[i].valve_kv is not None else None
+    return get
+
+
 def _columns(sr: SiteResult) -> list[CsvColumn]:
     tags = [b.tag if isinstance(b.tag, str) else "" for b in sr.site.branches]
 
@@ -105,7 +117,7 @@ def _columns(sr: SiteResult) -> list[CsvColumn]:
         CsvColumn("K", None, lambda i, b, j, s: s.minor_k),
         CsvColumn("Major loss", "head", lambda i, b, j, s: s.major_loss),
         CsvColumn("Minor loss", "head", lambda i, b, j, s: s.minor_loss),
-        CsvColumn("Valve loss", "head", lambda i, b, j, s: b.valve_loss, branch_level=True),
+        CsvColumn("Valve loss", "head", _valve_loss(sr), branch_level=True),
     ]
     return cols
 

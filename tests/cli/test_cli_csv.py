@@ -128,3 +128,21 @@ def test_the_app_export_and_the_command_line_write_the_same_csv(capsys):
     banded = with_uncertainty(sr, 500, 0)
     out, _ = solve(capsys, "--format", "csv", "--uncertainty", *FAST)
     assert to_csv(banded, "si") == out
+
+
+def test_a_branch_with_no_valve_has_no_valve_loss(tmp_path, capsys):
+    """Blank, as in the table, Markdown and HTML: a 0 would read as a valve that loses nothing
+    (the demo's bypass without its balancing valve; each coil keeps its control valve)."""
+    site = tmp_path / "site.toml"
+    text = demo_text()
+    assert "valve_kv = 12 " in text
+    site.write_text(text.replace("valve_kv = 12 ", "# valve_kv = 12 "), encoding="utf-8")
+    doc = json.loads(solve(capsys, str(site), "--format", "json")[0])
+    data = records(solve(capsys, str(site), "--format", "csv")[0])
+    firsts = [r for r in data if r["Segment"] == "1"]
+    assert [b["valve_kv"] is None for b in doc["branches"]] == [False, False, False, True]
+    for row, branch in zip(firsts, doc["branches"], strict=True):
+        if branch["valve_kv"] is None:
+            assert row["Valve loss (m)"] == ""
+        else:
+            assert float(row["Valve loss (m)"]) == branch["valve_loss_m"] > 0
