@@ -300,6 +300,11 @@ def visit_indicators(site: Site) -> VisitIndicators:
             if ev is not None:
                 resistance = ev.indicator(_resistance(ev.sol.head, own.value), True,
                                           (replace(meter, relative=-2 * u_meter),))
+                if float(ev.sol.head[0]) * own.value < 0:
+                    notes.append(f"{br.name}: the clamp-on reads a flow against the head the "
+                                 f"{GIVENS[r.kind].words} gives: a meter mounted or set the "
+                                 "other way round? Its R is given with that sign "
+                                 "(R = h/(Q·|Q|))")
         if resistance is None:
             notes.append(f"{br.name}: no resistance from the clamp-on at the head of the "
                          f"{GIVENS[r.kind].words} (the readings admit no state of the line)")

@@ -181,6 +181,11 @@ def test_a_flow_that_reverses_is_said_in_words_not_as_a_percentage():
                if t["branch"] == "AHU-1 coil" and t["indicator"] == "flow")
     assert doc["reversed"]["since_first"] and doc["change"]["since_first"] is None
     _numbers_are_sane(history)
+    # the visit itself says why its R is negative (a passive line cannot flow against the head)
+    first, second = (v.solved.notes for v in history.visits[:2])
+    assert any(n.startswith("AHU-1 coil: the clamp-on reads a flow against the head the "
+                            "pressure drop gives") for n in first), first
+    assert not any("against the head" in n for n in second), second
 
 
 # ---- 4. a visit after today ---------------------------------------------------------------
