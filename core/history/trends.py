@@ -24,6 +24,7 @@ band**:
 from __future__ import annotations
 
 import math
+from collections import Counter
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -55,11 +56,18 @@ NOUNS = {"flow": "flow", "resistance": "resistance", "effective_roughness": "eff
 
 @dataclass(frozen=True)
 class Point:
-    """An indicator at one visit: the visit's place in the history, its date as shown."""
+    """An indicator at one visit: the visit's place in the history, its date as shown, and
+    that date in words (``said``: with the visit's place among that day's visits when a day
+    holds several; else the date)."""
 
     visit: int
     date: str
     indicator: Indicator
+    said: str = ""
+
+    @property
+    def words(self) -> str:
+        return self.said or self.date
 
 
 @dataclass(frozen=True)
@@ -71,7 +79,7 @@ class Change:
     value: float
     band: float
     since: str
-    """The date of the earlier visit."""
+    """The earlier visit's date in words (:attr:`Point.words`)."""
     reversed: bool = False
 
     @property
@@ -120,17 +128,17 @@ class Trend:
         """The flagged changes in words: ``AHU-3 coil: resistance +38 % since 2025-03-12
         (band ± 12 %): fouling, a valve moved, or a strainer filling``."""
         out = []
-        changes = [self.since_first]
+        changes = [(self.since_first, self.first)]
         if len(self.points) > 2:
-            changes.append(self.since_previous)
-        for c in changes:
+            changes.append((self.since_previous, self.previous))
+        for c, earlier in changes:
             if not c.flagged:
                 continue
-            same_day = str(c.since) == str(self.last.date)  # two visits of one date
-            between = (f"between two visits on {c.since}" if same_day else
-                       f"between {c.since} and {self.last.date}")
+            same_day = earlier.date == self.last.date  # two visits of one date
+            between = (f"between two visits on {earlier.date}" if same_day else
+                       f"between {c.since} and {self.last.words}")
             span = (between if same_day else f"since {c.since}" if self.latest else
-                    f"from {c.since} to {self.last.date}")
+                    f"from {c.since} to {self.last.words}")
             if c.reversed:
                 cause = f": {REVERSED_CAUSE}" if self.indicator == "flow" else ""
                 out.append(f"{self.branch}: {REVERSED[self.indicator]} {between}, so no "
@@ -176,6 +184,7 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
     """The trends of every branch and indicator. ``dates``: each visit's date as shown, in
     order; ``branches``: per visit, per branch, (name, {indicator: value or None}), with
     ``solved_flow`` beside ``flow`` (the solve's, for a trend of solved flows)."""
+    said = _said(dates)
     names: list[str] = []
     for visit in branches:
         names += [n for n, _ in visit if n not in names]
@@ -183,7 +192,7 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
     for name in names:
         for indicator in INDICATORS:
             def points_of(key: str, name: str = name) -> list[Point]:
-                return [Point(k, dates[k], ind) for k, visit in enumerate(branches)
+                return [Point(k, dates[k], ind, said[k]) for k, visit in enumerate(branches)
                         for n, values in visit if n == name
                         if (ind := values.get(key)) is not None]
 
@@ -195,7 +204,19 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
             first, previous, last = use[0], use[-2], use[-1]
             out.append(Trend(
                 name, indicator, basis, tuple(use),
-                change(first.indicator, last.indicator, first.date),
-                change(previous.indicator, last.indicator, previous.date),
+                change(first.indicator, last.indicator, first.words),
+                change(previous.indicator, last.indicator, previous.words),
                 last.visit == len(dates) - 1))
+    return out
+
+
+def _said(dates: Sequence[str]) -> list[str]:
+    """Each visit's date in words: a day of several visits says which of them (in the order
+    taken), so that two changes from that day are not both "from 2024-09-18"."""
+    counts = Counter(dates)
+    seen: Counter[str] = Counter()
+    out = []
+    for d in dates:
+        seen[d] += 1
+        out.append(d if counts[d] == 1 else f"{d} (visit {seen[d]} of {counts[d]} that day)")
     return out

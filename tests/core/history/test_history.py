@@ -257,6 +257,25 @@ def test_two_visits_of_one_date_are_said_so_not_from_a_day_to_itself():
                    "between 2024-09-18 and 2024-09-18" in m for m in messages)
 
 
+def test_two_changes_from_visits_of_one_date_say_which_visit():
+    # A second visit on the demo's first date (the AHU-3 coil read at 70 gpm): the changes
+    # since the first and since the previous both start on 2024-09-18, with different
+    # figures; each says which visit of that day it starts from.
+    from branchwise.core.site.read import DEMO_PATH
+
+    text = Path(DEMO_PATH).read_text(encoding="utf-8")
+    second = ('[[visits]]\ndate = "2024-09-18"\npressure_drop = "10.2 psid"\n'
+              'given = "pressure_drop"\nmeasured = { "AHU-3 coil" = "70 gpm" }\n\n')
+    assert text.count('[[visits]]\ndate = "2025-01-15"') == 1
+    text = text.replace('[[visits]]\ndate = "2025-01-15"',
+                        second + '[[visits]]\ndate = "2025-01-15"')
+    messages = [m for m in history_of(parse_site(text)).messages()
+                if m.startswith("AHU-3 coil: resistance")]
+    assert len(messages) == 2, messages
+    assert "from 2024-09-18 (visit 1 of 2 that day) to 2025-01-15" in messages[0]
+    assert "from 2024-09-18 (visit 2 of 2 that day) to 2025-01-15" in messages[1]
+
+
 def test_a_visit_s_values_are_at_its_own_temperature_when_the_tolerance_is_cut():
     # The demo near freezing, ± 10 K: the band's temperature is drawn over 0 °C – 11 °C (cut
     # where water freezes), about its middle; the visit's flows and resistances are still
