@@ -189,6 +189,9 @@ def build_plan(
     if want is not None and tol.target_flow_measured:
         name = network.branches[x].name
         inputs.append(InputTolerance(f"flow meter on branch '{name}' (target)", "target", meter))
+        notes.append(f"the target flow of '{name}' is drawn as a meter's reading "
+                     f"(± {tol.flow_meter_percent:g} %); for a design figure set [tolerances] "
+                     "target_flow_measured = false")
     if tol.temperature_k > 0 and thermal is None:
         notes.append("temperature tolerance not applied: no model of ν and ρ against "
                      "temperature was given")

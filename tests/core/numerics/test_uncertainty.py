@@ -265,3 +265,17 @@ def test_valve_kv_tolerance_is_drawn_for_branches_with_a_valve_only():
     net, _, _ = plan.network_for(z)
     b = next(i for i, (n, _, _) in enumerate(BRANCHES) if f"'{n}'" in valves[0].name)
     assert net.branches[b].valve_kv == pytest.approx(BRANCHES[b][2] * 1.1, rel=1e-12)
+
+
+def test_a_target_drawn_as_a_meter_s_reading_is_said_and_a_design_figure_is_not_drawn():
+    """A target flow is drawn with the flow meter's tolerance unless the site says it is a
+    design figure (``target_flow_measured = false``); either way the plan says which."""
+    find = FindUnknown("diameter", "Coil 2", 0.006)
+    read = build_plan(network(), PressureDrop(60e3), find, Tolerances(), WATER_NEAR_15C)
+    assert [i.kind for i in read.inputs].count("target") == 1
+    assert any("target flow of 'Coil 2' is drawn as a meter's reading (± 3 %)" in n
+               and "target_flow_measured = false" in n for n in read.notes), read.notes
+    design = build_plan(network(), PressureDrop(60e3), find,
+                        Tolerances(target_flow_measured=False), WATER_NEAR_15C)
+    assert "target" not in [i.kind for i in design.inputs]
+    assert not any("target flow" in n for n in design.notes), design.notes
