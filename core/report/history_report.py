@@ -106,14 +106,20 @@ def _qkind(kind: str) -> str:
     return GIVENS[kind].quantity
 
 
+AS_FIRST = "as first"
+"""The previous visit's cells of a trend of two visits: the previous one is the first."""
+
+
 def trend_cells(t: Trend, u: Units) -> list[str]:
-    """Branch, indicator (unit), first, previous, last, since first ± band, since previous."""
+    """Branch, indicator (unit), first, previous, last, since first ± band, since previous
+    (:data:`AS_FIRST` for a trend of two visits)."""
+    two = len(t.points) == 2
     return [t.branch, f"{NOUNS[t.indicator]} ({unit_of(t.indicator, u)})"
             + (" solved" if t.basis == "solved" else ""),
             number(t.indicator, t.first.indicator.value, u),
-            number(t.indicator, t.previous.indicator.value, u),
+            AS_FIRST if two else number(t.indicator, t.previous.indicator.value, u),
             number(t.indicator, t.last.indicator.value, u),
-            t.since_first.words(), t.since_previous.words()]
+            t.since_first.words(), AS_FIRST if two else t.since_previous.words()]
 
 
 TREND_TITLES = ["Branch", "Indicator", "First", "Previous", "Last", "Since first",

@@ -187,7 +187,7 @@ class HistoryScreen(WorkScreen):
         return NO_TREND[self.indicator] if read < 2 else "not trended: see the notes"
 
     def _trends(self, h: History, u: Units, table: TextTable, what: Static) -> None:
-        from branchwise.core.report.history_report import number
+        from branchwise.core.report.history_report import AS_FIRST, number
 
         put(what, f"{self._title(u)}; ⚑ a change beyond its band")
         warn = colour(self.app, "text-warning")
@@ -213,7 +213,9 @@ class HistoryScreen(WorkScreen):
             solved = Text(" solved", style="dim") if t.basis == "solved" else ""
             rows.append([name, number(self.indicator, t.first.indicator.value, u),
                          number(self.indicator, t.last.indicator.value, u),
-                         change(t.since_first), change(t.since_previous),
+                         change(t.since_first),
+                         change(t.since_previous) if len(t.points) > 2 else Text(
+                             AS_FIRST, style="dim"),
                          Text.assemble(line, solved)])
         table.show([("Branch", False), ("First", True), ("Last", True), ("Since first", True),
                     ("Since prev.", True), ("Trend", False)], rows)

@@ -291,3 +291,22 @@ def test_a_visit_s_values_are_at_its_own_temperature_when_the_tolerance_is_cut()
     flows = solve_site(site).result.flows
     for branch, q in zip(today.solved.branches, flows, strict=True):
         assert branch.flow.value == pytest.approx(float(q), rel=1e-12)
+
+
+def test_a_trend_of_two_visits_shows_no_previous_visit_of_its_own():
+    # The demo: the AHU-3 coil's clamp-on read at two visits. The previous visit is the
+    # first: its cells say so instead of repeating the first's figure and change (which
+    # read as two earlier visits, and as a change flagged twice).
+    from branchwise.core.report.history_report import AS_FIRST, TREND_TITLES, trend_cells
+    from branchwise.core.units import units_for
+
+    history = history_of(demo_site())
+    two = next(t for t in history.trends
+               if t.branch == "AHU-3 coil" and t.indicator == "resistance")
+    assert len(two.points) == 2
+    cells = dict(zip(TREND_TITLES, trend_cells(two, units_for("si")), strict=True))
+    assert cells["Previous"] == cells["Since previous"] == AS_FIRST
+    assert cells["Since first"].endswith("⚑")
+    three = next(t for t in history.trends if len(t.points) == 3)  # a solved flow, every visit
+    cells = dict(zip(TREND_TITLES, trend_cells(three, units_for("si")), strict=True))
+    assert AS_FIRST not in cells.values()
