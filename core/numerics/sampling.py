@@ -189,9 +189,6 @@ def build_plan(
     if want is not None and tol.target_flow_measured:
         name = network.branches[x].name
         inputs.append(InputTolerance(f"flow meter on branch '{name}' (target)", "target", meter))
-        notes.append(f"the target flow of '{name}' is drawn as a meter's reading "
-                     f"(± {tol.flow_meter_percent:g} %); for a design figure set [tolerances] "
-                     "target_flow_measured = false")
     if tol.temperature_k > 0 and thermal is None:
         notes.append("temperature tolerance not applied: no model of ν and ρ against "
                      "temperature was given")
@@ -252,6 +249,17 @@ def build_plan(
                                          tol.valve_kv_percent / 100, (b,)))
     kept = tuple(i for i in inputs if i.half_width > 0)
     return SamplingPlan(network, given, find, kept, thermal, tuple(notes))
+
+
+def target_note(network: Network, find: Find, tol: Tolerances) -> str | None:
+    """What a band of a found unknown says of its target flow when it is drawn as a meter's
+    reading (the default), for a reader who sizes a line to a design figure."""
+    if not isinstance(find, FindUnknown) or not tol.target_flow_measured:
+        return None
+    name = network.branches[network.index_of(find.branch)].name
+    return (f"the target flow of '{name}' is drawn as a meter's reading "
+            f"(± {tol.flow_meter_percent:g} %); for a design figure set [tolerances] "
+            "target_flow_measured = false")
 
 
 __all__ = ["PRESSURE_DROP", "SQRT3", "STEP", "TOTAL_FLOW", "InputTolerance", "SamplingPlan",
