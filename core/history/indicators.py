@@ -135,6 +135,8 @@ class _Spread:
 
     inputs: tuple[InputTolerance, ...]
     sol: CopiesSolution
+    notes: tuple[str, ...] = ()
+    """What the draws leave out or take as assumed (the plan's notes)."""
 
     def indicator(self, column: Array, measured: bool,
                   extra: tuple[Part, ...] = ()) -> Indicator | None:
@@ -207,7 +209,7 @@ def _spread(network: Network, given: Given, find: Find, tol: Tolerances,
             roughness[0] = own
             variants = replace(variants, roughness=roughness)
         parts.append(solve_copies(network, given, find, variants))
-    return _Spread(plan.inputs, _joined(parts))
+    return _Spread(plan.inputs, _joined(parts), plan.notes)
 
 
 def _joined(parts: list[CopiesSolution]) -> CopiesSolution:
@@ -254,8 +256,9 @@ def visit_indicators(site: Site) -> VisitIndicators:
     def spread(given: Given, find: Find, key: tuple[str, int | None]) -> _Spread | None:
         if key not in spreads:
             try:
-                spreads[key] = _spread(net, given, find, tol, thermal,
-                                       weighed if key == ("base", None) else None)
+                spreads[key] = made = _spread(net, given, find, tol, thermal,
+                                              weighed if key == ("base", None) else None)
+                notes.extend(f"bands: {n}" for n in made.notes if f"bands: {n}" not in notes)
             except BranchwiseError as exc:
                 notes.append("no band for the visit's indicators: "
                              f"{getattr(exc, 'marked', '') or exc}")

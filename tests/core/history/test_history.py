@@ -310,3 +310,20 @@ def test_a_trend_of_two_visits_shows_no_previous_visit_of_its_own():
     three = next(t for t in history.trends if len(t.points) == 3)  # a solved flow, every visit
     cells = dict(zip(TREND_TITLES, trend_cells(three, units_for("si")), strict=True))
     assert AS_FIRST not in cells.values()
+
+
+def test_what_the_bands_leave_out_is_said_at_each_visit():
+    # The demo's gauge without its full scale: each visit's bands take the gauge's accuracy
+    # as a percent of the reading (optimistic for a small reading on a big gauge), as
+    # today's bands say; the history says it too, at each visit and in its reports.
+    from branchwise.core.report.history_report import to_text
+    from branchwise.core.site.read import DEMO_PATH
+
+    text = Path(DEMO_PATH).read_text(encoding="utf-8")
+    assert text.count('gauge_full_scale = "30 psid"') == 1
+    said = "bands: pressure-gauge accuracy taken as a percent of the reading"
+    assert not any(said in n for v in history_of(demo_site()).visits for n in v.solved.notes)
+    history = history_of(parse_site(text.replace('gauge_full_scale = "30 psid"', "")))
+    for v in history.visits:
+        assert sum(said in n for n in v.solved.notes) == 1, v.solved.notes
+    assert " ".join(to_text(history, "si").split()).count(f"Note: {said}") == 3
