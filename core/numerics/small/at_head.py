@@ -2,11 +2,12 @@
 
 The commonest question — the flows at a given Δp, under the default friction model — needs no
 object per branch: a branch's constants are a row worked out once from its numbers (kept for
-the last network met, which is frozen), a one-segment branch is one equation in 1/√f
-(:func:`.one.colebrook_one`, written out here), a branch of several segments is solved as
-:class:`.branch.Pipe` solves it (:func:`.series.series_flow`), and each answer goes into the
-result's columns at once. This spares a network met for the first time (the app builds one for
-each edit) the making of an object for every branch, and every solve the calls per branch.
+the last network met, which is frozen); a one-segment branch is one equation in 1/√f
+(:mod:`.one`), its steps those of :meth:`.branch.Pipe.colebrook_one_flow` written out here; a
+branch of several segments is solved as :class:`.branch.Pipe` solves it
+(:func:`.series.series_flow`); each answer goes into the result's columns at once. This spares
+a network met for the first time (the app builds one for each edit) the making of an object for
+every branch, and every solve the calls per branch.
 
 The numbers are those of :func:`.heads.flows_at` through the branch objects to the bit: the
 same steps on the same inputs, each branch from no earlier root (a test holds the two
@@ -57,7 +58,8 @@ def _row(br: Branch, nu: float, g: float) -> Row:
     valve_r = 0.0 if kv is None else valve_resistance(kv, g)
     segs = br.segments
     if len(segs) == 1:
-        return one_row(segs[0], valve_r, nu, g)
+        s = segs[0]
+        return one_row(s.diameter, s.length, s.roughness, s.minor_k, valve_r, nu, g)
     return SeriesRow(*series_constants(segs, valve_r, nu, g), valve_r)
 
 
@@ -98,8 +100,8 @@ def flows_at_given_head(network: Network, given: PressureDrop, find: Find,
             re_l, f_l, _, major_l, minor_l = state
             columns.add_series(sign * q, row.areas, re_l, f_l, major_l, minor_l, row.valve_r)
         else:
-            # colebrook_one(t, 0.0, row, nu, g) written out — its call and tuples cost a
-            # tenth of a one-segment branch's solve — the same steps in the same order
+            # Pipe.colebrook_one_flow from no earlier root, written out (a call per branch
+            # costs a tenth of its solve here): the same steps in the same order
             # (tests/core/numerics/test_small_at_head.py holds the two to the bit)
             _, a, area, ld, ke, c0, minor_k, valve_r, d = row
             c0 = c0 / root_t

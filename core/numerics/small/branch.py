@@ -23,10 +23,11 @@ from ...model import Branch, Segment
 from ..friction import RE_TURBULENT
 from ..hydraulics import HEAD_RTOL, MAX_ITER
 from . import friction as fr
-from .one import NO_ONE, colebrook_one, one_row, valve_resistance
+from .one import NO_ONE, one_row, valve_resistance
 from .series import NO_SERIES, SeriesConstants, series_constants, series_flow
 
 LN10 = fr.LN10
+TWO_LN10 = fr.TWO_LN10
 _log = math.log
 _exp = math.exp
 _sqrt = math.sqrt
@@ -61,8 +62,9 @@ class Pipe:
                  "one_colebrook", "owned", "one", "series")
 
     def __init__(self, br: Branch, nu: float, g: float, model: str, owned: bool = True) -> None:
-        # Written for speed (a network met anew builds one pipe a branch, each solve): every
-        # attribute set once, the lists made whole, the state's too (as :meth:`_new_state`).
+        # Written for speed (a network met anew in a direction other than the flows at a given
+        # Δp builds one pipe a branch): every attribute set once, the lists made whole, the
+        # state's too (as :meth:`_new_state`).
         segs = br.segments
         self.valve_r = valve_r = valve_resistance(br.valve_kv, g)
         self.nu, self.g, self.model = nu, g, model
@@ -72,7 +74,7 @@ class Pipe:
         if len(segs) == 1:
             s = segs[0]
             dj, length, eps, k, hw_c = s.diameter, s.length, s.roughness, s.minor_k, s.hw_c
-            self.one = one = one_row(s, valve_r, nu, g)
+            self.one = one = one_row(dj, length, eps, k, valve_r, nu, g)
             rr, a3, area = one[0], one[1], one[2]
             self.n = 1
             self.d, self.length, self.eps, self.k = [dj], [length], [eps], [k]
@@ -160,13 +162,15 @@ class Pipe:
     def _fold(self) -> None:
         """The constants worked out again from the segments' numbers, once one has changed:
         a one-segment branch's row for :meth:`colebrook_one_flow`, or the series constants."""
-        segs = [Segment(d, length, eps, k)
-                for d, length, eps, k in zip(self.d, self.length, self.eps, self.k, strict=True)]
         if self.n == 1:
-            self.one = one_row(segs[0], self.valve_r, self.nu, self.g)
+            self.one = one_row(self.d[0], self.length[0], self.eps[0], self.k[0], self.valve_r,
+                               self.nu, self.g)
             self.series = NO_SERIES
         else:
             self.one = NO_ONE
+            segs = [Segment(d, length, eps, k)
+                    for d, length, eps, k in zip(self.d, self.length, self.eps, self.k,
+                                                 strict=True)]
             self.series = series_constants(segs, self.valve_r, self.nu, self.g)[0]
 
     def friction(self, j: int, re: float) -> tuple[float, float]:
@@ -244,15 +248,52 @@ class Pipe:
         return self._newton(head, guess)
 
     def colebrook_one_flow(self, head: float) -> int:
-        """A one-segment branch under Colebrook (:func:`.one.colebrook_one`): the state at the
-        flow at ``head`` > 0 (m), from the last root; 0 when the flow is not turbulent or the
-        test is not met (the general solver takes it)."""
-        it, self.x, q, h, s, re, f, fs, major, minor = colebrook_one(head, self.x, self.one,
-                                                                     self.nu, self.g)
-        if not it:
+        """A one-segment branch under Colebrook, its valve and fittings folded in, as one
+        equation in x = 1/√f (:mod:`.one`): the state at the flow at ``head`` > 0 (m), from
+        the last root; 0 when the flow is not turbulent or the test is not met (the general
+        solver takes it). :mod:`.at_head` writes the same steps out in its loop."""
+        _, a, area, ld, ke, c0, minor_k, valve_r, d = self.one
+        c0 = c0 / _sqrt(head)
+        it = 1
+        if ke == 0:
+            x = -2.0 * _log10(a + c0 * _sqrt(ld))
+        else:
+            # One fixed-point pass from the last root (or from f = 0.02: x ≈ 7), then Newton
+            # on g(x) = x + 2 log10(a + C R), R = √(L/D + K x²). Its error after a step s is
+            # about |g''|/(2 g') s², and |g''|/(2 g') ≤ K/(ln 10 R²) (g' ≥ 1; R''s terms
+            # bounded by K/R²): taken at 0.9 x, the next step would be below round-off once
+            # that bound times s² is below 1e-16 x.
+            x = self.x if self.x > 0 else 7.0
+            x = -2.0 * _log10(a + c0 * _sqrt(ld + ke * x * x))
+            kc = TWO_LN10 * c0 * ke
+            curve = ke / (LN10 * (ld + 0.81 * ke * x * x))
+            for it in range(1, 40):  # noqa: B007 (the count is reported)
+                root = _sqrt(ld + ke * x * x)
+                arg = a + c0 * root
+                step = (x + TWO_LN10 * _log(arg)) / (1.0 + kc * x / (arg * root))
+                x -= step
+                if curve * step * step <= 1e-16 * x:
+                    break
+        f = 1.0 / (x * x)
+        vel_head = head / (ld * f + ke)  # V²/2g
+        speed = _sqrt(2 * self.g * vel_head)
+        re = speed * d / self.nu
+        if not (re >= RE_TURBULENT and x > 0):
+            return 0
+        self.x = x
+        q = speed * area
+        c = 2.51 / re  # d ln f / d ln Re at the root, as friction.colebrook_slopes
+        t = TWO_LN10 * c / (a + c * x)
+        fs = -2.0 * t / (1.0 + t)
+        major = f * ld * vel_head
+        minor = minor_k * vel_head
+        valve = valve_r * q * q
+        h = major + minor + valve
+        if not abs(h - head) <= HEAD_RTOL * head:  # |ln h − ln H| ≤ HEAD_RTOL, to first order
             return 0
         self.re[0], self.f[0], self.fs[0], self.major[0], self.minor[0] = re, f, fs, major, minor
-        self.q, self.h, self.s = q, h, s
+        self.q, self.h = q, h
+        self.s = (major * (2 + fs) + 2 * minor + 2 * valve) / h
         return it
 
     def colebrook_series_flow(self, head: float) -> int:

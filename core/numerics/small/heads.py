@@ -28,8 +28,8 @@ _last: tuple[weakref.ref[Network], Kept, list[Kept]] | None = None
 """The last network met (a weak reference: it is not kept alive), its pipes as first made, and
 those pipes again while no solve holds them: a network is frozen, so their constants serve
 every later solve of the same object (a script solving it in several directions, say) without
-being worked out again. One network's are kept, no more; a network met anew (the app builds one
-for each edit) pays for its pipes."""
+being worked out again. One network's are kept, no more; a network met anew pays for its pipes
+(the flows at a given Δp under Colebrook need none: :mod:`.at_head`)."""
 
 
 def _kept(network: Network) -> tuple[Kept, list[Kept], bool]:

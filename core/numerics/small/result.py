@@ -1,4 +1,5 @@
-"""The :class:`Result` of a small network from its branches' last states, in plain floats.
+"""The :class:`Result` of a small network in plain floats: its columns filled a branch at a time
+(from a branch object's last state, or straight from a branch's answer, :mod:`.at_head`).
 
 The same numbers as :func:`..solve._result` computes from the arrays (the sign of each
 branch's flow put back on its velocities and losses), the same last check — a branch beyond
