@@ -32,7 +32,6 @@ try:
     from textual.screen import ModalScreen, Screen  # noqa: E402
 
     from branchwise.core.errors import inert  # noqa: E402
-    from branchwise.core.messages import is_marked  # noqa: E402
     from branchwise.core.site.spec import Site  # noqa: E402
     from branchwise.core.storage.settings import Settings  # noqa: E402
     from branchwise.core.units import Units  # noqa: E402
@@ -42,6 +41,7 @@ try:
     from .key_rules import KeyRules  # noqa: E402
     from .keygate import KeyGate, Release  # noqa: E402
     from .keys import APP_KEYS, key_sections, system_commands  # noqa: E402
+    from .reader_words import ReaderWords  # noqa: E402
     from .screens.registry import FIRST, SCREENS  # noqa: E402
     from .solving import Solved, SolveRunner  # noqa: E402
     from .state.session import Session, inert_note  # noqa: E402
@@ -63,7 +63,7 @@ NOTICE_GONE = 0.3
 """Seconds after a notice's time is up by which it has been taken away (it slides out)."""
 
 
-class BranchwiseApp(App[None]):
+class BranchwiseApp(ReaderWords, App[None]):
     """Parallel-branch pipe hydraulics for a walkdown, on the keyboard.
 
     site_path: the site file to open; None opens the last site, or the bundled demo the first
@@ -170,49 +170,6 @@ class BranchwiseApp(App[None]):
     def units(self) -> Units:
         """How this person reads quantities: the unit system and the units chosen per kind."""
         return Units(self.unit_system, self.settings.display_units)
-
-    def unit(self, kind: str) -> str:
-        """The unit a ``kind`` of quantity is shown in, and a bare number is read in."""
-        return self.units.unit(kind)
-
-    def unit_text(self, kind: str) -> str:
-        return self.units.label(kind)
-
-    def say(self, item: object) -> str:
-        """A warning's, an error's or a note's text, its quantities in the units the person
-        reads."""
-        if isinstance(item, str):  # a note: its quantities may be marked
-            return self.units.say(item) if is_marked(item) else item
-        if not getattr(item, "marked", ""):  # nothing to restate: the units stay unloaded
-            return str(getattr(item, "message", "") or item)
-        return self.units.say(item)
-
-    def error_words(self, error: BaseException) -> str:
-        """An error as the person reads it: the field in words, the reason, in these units."""
-        from branchwise.core.site.fields import error_text
-
-        from .state.givens import needs_value
-
-        retyping = needs_value(error, self.site)
-        if retyping is not None:
-            return retyping
-        return error_text(error, self.units, [b.name for b in self.site.branches])
-
-    def reason_words(self, error: BaseException | None) -> str:
-        """An error without its field, for beside the field, in these units."""
-        from branchwise.core.site.fields import reason_text
-
-        return "" if error is None else reason_text(error, self.units)
-
-    def fluid_name(self, fluid: object) -> str:
-        """The liquid's name, its temperature in the temperature display unit."""
-        return self.units.fluid_name(fluid)
-
-    def fmt(self, value_si: float, kind: str, digits: int = 4, unit: bool = True) -> str:
-        """``value_si`` in the display unit of ``kind`` (needs the units module warmed up)."""
-        if not unit:
-            return self.units.number(value_si, kind, digits)
-        return self.units.quantity(value_si, kind, digits)
 
     # ---- start ----------------------------------------------------------------------------------
 
