@@ -35,7 +35,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from ..errors import BranchwiseError
-from ..givens import GIVENS, make_given
+from ..givens import GIVENS, make_given, reading_words
 from ..model import Find, FindFlows, FindUnknown, Given, Network, PressureDrop, TotalFlow
 from ..numerics.copies import CopiesSolution, solve_copies
 from ..numerics.draws import chunk_rows, chunks
@@ -294,8 +294,10 @@ def visit_indicators(site: Site) -> VisitIndicators:
         find = FindUnknown("roughness", br.name, own.value, 0)
         rough_ok = len(br.segments) == 1 and net.friction not in ("hazen-williams", "laminar")
         resistance = roughness = None
+        against = False  # the clamp-on reads against the way the other reading drives
         if isinstance(given, TotalFlow):  # the others carry what this branch does not
-            ev = spread(given, find, ("find", b))
+            against = given.value * own.value < 0
+            ev = spread(given, find, ("find", b)) if not against else None
             if ev is not None:
                 resistance = ev.indicator(_resistance(ev.sol.head, ev.sol.flows[:, b]), True)
         else:
@@ -303,15 +305,20 @@ def visit_indicators(site: Site) -> VisitIndicators:
             if ev is not None:
                 resistance = ev.indicator(_resistance(ev.sol.head, own.value), True,
                                           (replace(meter, relative=-2 * u_meter),))
-                if float(ev.sol.head[0]) * own.value < 0:
-                    notes.append(f"{br.name}: the clamp-on reads a flow against the head the "
-                                 f"{GIVENS[r.kind].words} gives: a meter mounted or set the "
-                                 "other way round? Its R is given with that sign "
-                                 "(R = h/(Q·|Q|))")
-        if resistance is None:
+                against = float(ev.sol.head[0]) * own.value < 0
+        if against:
+            which = reading_words(r.kind, r.name)
+            either = ("either clamp-on mounted or set the other way round?"
+                      if r.kind == "measured_flow" else
+                      "a meter mounted or set the other way round?")
+            notes.append(f"{br.name}: its clamp-on reads a flow against the way the {which} "
+                         f"drives the header: {either}"
+                         + (" Its R is given with that sign (R = h/(Q·|Q|))"
+                            if resistance is not None else ""))
+        elif resistance is None:
             notes.append(f"{br.name}: no resistance from the clamp-on at the head of the "
                          f"{GIVENS[r.kind].words} (the readings admit no state of the line)")
-        if rough_ok:
+        if rough_ok and not against:
             roughness = _roughness(net, given, find, br.name, notes, spread, b)
         elif len(br.segments) > 1:
             notes.append(f"{br.name}: several pipes in series, so no one effective roughness")

@@ -45,7 +45,8 @@ CAUSES = {
 """What a flagged change may mean, by indicator and direction (common practice)."""
 SOLVED_CAUSE = "solved from the header's reading, so the head across the header changed"
 REVERSED = {"flow": "the flow reversed",
-            "resistance": "the resistance changed sign with the flow (R = h/(Q·|Q|))",
+            "resistance": "the resistance changed sign (R = h/(Q·|Q|): the flow or the head "
+                          "across the header reversed)",
             "effective_roughness": "the flow reversed"}
 REVERSED_CAUSE = ("check the clamp-on's direction (mounted or set the other way) and the "
                   "header's valves and pumps before reading anything into the line itself")

@@ -212,6 +212,12 @@ def _head_for_unknown(
             raise NoSolutionError(
                 f"branch '{name}' is the only branch, so the total flow is its flow and nothing "
                 "fixes the head: give the pressure drop instead", "conditions.total_flow")
+        if math.copysign(1, given.value) != math.copysign(1, find.target_flow):
+            raise NoSolutionError(
+                f"the target {flow_text(find.target_flow)} for branch '{name}' runs against "
+                f"the total flow {flow_text(given.value)}: no head drives a branch one way "
+                "and the header the other (a meter set the other way round?)",
+                "solve.target_flow")
         if rest == 0 or math.copysign(1, rest) != math.copysign(1, find.target_flow):
             raise NoSolutionError(
                 f"the total flow {flow_text(given.value)} is not more than the target "

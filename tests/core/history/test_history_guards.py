@@ -181,11 +181,38 @@ def test_a_flow_that_reverses_is_said_in_words_not_as_a_percentage():
                if t["branch"] == "AHU-1 coil" and t["indicator"] == "flow")
     assert doc["reversed"]["since_first"] and doc["change"]["since_first"] is None
     _numbers_are_sane(history)
-    # the visit itself says why its R is negative (a passive line cannot flow against the head)
+    # the visit itself says why its R is negative (common practice: a line with no pump of its
+    # own cannot flow against the head across the header)
     first, second = (v.solved.notes for v in history.visits[:2])
-    assert any(n.startswith("AHU-1 coil: the clamp-on reads a flow against the head the "
-                            "pressure drop gives") for n in first), first
-    assert not any("against the head" in n for n in second), second
+    assert any(n.startswith("AHU-1 coil: its clamp-on reads a flow against the way the "
+                            "pressure drop drives the header: a meter mounted or set the other "
+                            "way round? Its R is given with that sign") for n in first), first
+    assert not any("against the way" in n for n in first if not n.startswith("AHU-1")), first
+    assert not any("against the way" in n for n in second), second
+
+
+def test_a_clamp_on_against_the_total_flow_is_said_and_not_worked_out():
+    # The head from the plant's meter (+628 gpm) and AHU-1's clamp-on at -335 gpm: no state of
+    # the line fits (common practice: a meter set the other way round), said once, plainly.
+    visit = (VISIT_1, 'total_flow = "628 gpm"\ngiven = "total_flow"')
+    text = demo_with(visit, (FIRST_CLAMP_ONS, FIRST_CLAMP_ONS.replace('"335 gpm"', '"-335 gpm"')))
+    notes = history_of(parse_site(text)).visits[0].solved.notes
+    ahu1 = [n for n in notes if n.startswith("AHU-1 coil")]
+    assert ahu1 == ["AHU-1 coil: its clamp-on reads a flow against the way the total flow "
+                    "drives the header: a meter mounted or set the other way round?"], notes
+
+
+def test_two_clamp_ons_that_disagree_in_direction_each_name_the_other():
+    # No gauge, no plant meter: each clamp-on's head comes from the other one, so either
+    # meter may be the one set the other way round.
+    visit = (VISIT_1, 'given = "AHU-3 coil"')
+    text = demo_with(visit, (FIRST_CLAMP_ONS, FIRST_CLAMP_ONS.replace('"335 gpm"', '"-335 gpm"')))
+    notes = history_of(parse_site(text)).visits[0].solved.notes
+    for name, other in (("AHU-1 coil", "AHU-3 coil"), ("AHU-3 coil", "AHU-1 coil")):
+        assert any(n.startswith(f"{name}: its clamp-on reads a flow against the way the "
+                                f"measured flow in '{other}' drives the header: either "
+                                "clamp-on mounted or set the other way round?")
+                   for n in notes), notes
 
 
 # ---- 4. a visit after today ---------------------------------------------------------------

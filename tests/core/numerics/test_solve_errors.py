@@ -85,6 +85,16 @@ def test_total_flow_not_above_target_is_refused():
         solve(two(), TotalFlow(0.010), FindUnknown("diameter", "A", 0.012))
 
 
+def test_a_target_against_the_total_flow_is_said_so():
+    # A target that runs one way while the header's total runs the other: no head does that
+    # (the message is no longer "not more than the target", which reads as a size).
+    with pytest.raises(NoSolutionError) as caught:
+        solve(two(), TotalFlow(0.03), FindUnknown("diameter", "A", -0.01))
+    assert "runs against the total flow" in str(caught.value)
+    assert "not more than" not in str(caught.value)
+    assert caught.value.field == "solve.target_flow"
+
+
 def test_roughness_below_zero_is_refused():
     net = two()
     q = solve(net, PressureDrop(5e4)).flows[0]
