@@ -58,17 +58,20 @@ NOUNS = {"flow": "flow", "resistance": "resistance", "effective_roughness": "eff
 @dataclass(frozen=True)
 class Point:
     """An indicator at one visit: the visit's place in the history, its date as shown, and
-    that date in words (``said``: with the visit's place among that day's visits when a day
-    holds several; else the date)."""
+    its place among that day's visits (``nth`` of ``of``; 1 of 1 on a day of one visit)."""
 
     visit: int
     date: str
     indicator: Indicator
-    said: str = ""
+    nth: int = 1
+    of: int = 1
 
     @property
     def words(self) -> str:
-        return self.said or self.date
+        """The visit in words: its date, and which visit of that day when it had several."""
+        if self.of == 1:
+            return self.date
+        return f"{self.date} (visit {self.nth} of {self.of} that day)"
 
 
 @dataclass(frozen=True)
@@ -125,19 +128,25 @@ class Trend:
     def flagged(self) -> bool:
         return self.since_first.flagged or self.since_previous.flagged
 
+    @property
+    def has_previous(self) -> bool:
+        """Whether the previous visit is one of its own (with two visits it is the first)."""
+        return len(self.points) > 2
+
     def messages(self) -> list[str]:
         """The flagged changes in words: ``AHU-3 coil: resistance +38 % since 2025-03-12
         (band ± 12 %): fouling, a valve moved, or a strainer filling``."""
         out = []
         changes = [(self.since_first, self.first)]
-        if len(self.points) > 2:
+        if self.has_previous:
             changes.append((self.since_previous, self.previous))
         for c, earlier in changes:
             if not c.flagged:
                 continue
-            same_day = earlier.date == self.last.date  # two visits of one date
-            between = (f"between two visits on {earlier.date}" if same_day else
-                       f"between {c.since} and {self.last.words}")
+            same_day = earlier.date == self.last.date  # visits of one date
+            between = (f"between two visits on {earlier.date}" if same_day and earlier.of == 2
+                       else f"between visits {earlier.nth} and {self.last.nth} of {earlier.date}"
+                       if same_day else f"between {c.since} and {self.last.words}")
             span = (between if same_day else f"since {c.since}" if self.latest else
                     f"from {c.since} to {self.last.words}")
             if c.reversed:
@@ -185,7 +194,7 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
     """The trends of every branch and indicator. ``dates``: each visit's date as shown, in
     order; ``branches``: per visit, per branch, (name, {indicator: value or None}), with
     ``solved_flow`` beside ``flow`` (the solve's, for a trend of solved flows)."""
-    said = _said(dates)
+    places = _places(dates)
     names: list[str] = []
     for visit in branches:
         names += [n for n, _ in visit if n not in names]
@@ -193,7 +202,7 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
     for name in names:
         for indicator in INDICATORS:
             def points_of(key: str, name: str = name) -> list[Point]:
-                return [Point(k, dates[k], ind, said[k]) for k, visit in enumerate(branches)
+                return [Point(k, dates[k], ind, *places[k]) for k, visit in enumerate(branches)
                         for n, values in visit if n == name
                         if (ind := values.get(key)) is not None]
 
@@ -211,13 +220,12 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
     return out
 
 
-def _said(dates: Sequence[str]) -> list[str]:
-    """Each visit's date in words: a day of several visits says which of them (in the order
-    taken), so that two changes from that day are not both "from 2024-09-18"."""
+def _places(dates: Sequence[str]) -> list[tuple[int, int]]:
+    """Each visit's place among the visits of its date, in the order taken: (nth, of)."""
     counts = Counter(dates)
     seen: Counter[str] = Counter()
     out = []
     for d in dates:
         seen[d] += 1
-        out.append(d if counts[d] == 1 else f"{d} (visit {seen[d]} of {counts[d]} that day)")
+        out.append((seen[d], counts[d]))
     return out

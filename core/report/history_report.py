@@ -113,7 +113,7 @@ AS_FIRST = "as first"
 def trend_cells(t: Trend, u: Units) -> list[str]:
     """Branch, indicator (unit), first, previous, last, since first ± band, since previous
     (:data:`AS_FIRST` for a trend of two visits)."""
-    two = len(t.points) == 2
+    two = not t.has_previous
     return [t.branch, f"{NOUNS[t.indicator]} ({unit_of(t.indicator, u)})"
             + (" solved" if t.basis == "solved" else ""),
             number(t.indicator, t.first.indicator.value, u),

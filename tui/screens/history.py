@@ -214,7 +214,7 @@ class HistoryScreen(WorkScreen):
             rows.append([name, number(self.indicator, t.first.indicator.value, u),
                          number(self.indicator, t.last.indicator.value, u),
                          change(t.since_first),
-                         change(t.since_previous) if len(t.points) > 2 else Text(
+                         change(t.since_previous) if t.has_previous else Text(
                              AS_FIRST, style="dim"),
                          Text.assemble(line, solved)])
         table.show([("Branch", False), ("First", True), ("Last", True), ("Since first", True),

@@ -327,3 +327,19 @@ def test_what_the_bands_leave_out_is_said_at_each_visit():
     for v in history.visits:
         assert sum(said in n for n in v.solved.notes) == 1, v.solved.notes
     assert " ".join(to_text(history, "si").split()).count(f"Note: {said}") == 3
+
+
+def test_three_visits_of_one_date_say_which_two_a_change_is_between():
+    # Every clamp-on visit on 2024-09-18 (the demo's second moved there, and a third with the
+    # AHU-3 coil at 70 gpm): the changes since the first and since the previous are both of
+    # that day, and each says between which of its visits.
+    from branchwise.core.site.read import DEMO_PATH
+
+    text = Path(DEMO_PATH).read_text(encoding="utf-8").replace("2025-01-15", "2024-09-18")
+    third = ('\n[[visits]]\ndate = "2024-09-18"\npressure_drop = "10.2 psid"\n'
+             'given = "pressure_drop"\nmeasured = { "AHU-3 coil" = "70 gpm" }\n')
+    history = history_of(parse_site(text + third))
+    coil = [m for m in history.messages() if m.startswith("AHU-3 coil: resistance")]
+    assert any("between visits 1 and 3 of 2024-09-18" in m for m in coil), coil
+    assert any("between visits 2 and 3 of 2024-09-18" in m for m in coil), coil
+    assert not any("between two visits on" in m for m in coil), coil
