@@ -41,7 +41,7 @@ from ..numerics.copies import CopiesSolution, solve_copies
 from ..numerics.draws import chunk_rows, chunks
 from ..numerics.hydraulics import Array, Layout
 from ..numerics.reconcile_result import p_said
-from ..numerics.sampling import SQRT3, STEP, InputTolerance, build_plan
+from ..numerics.sampling import CONDITION_NOT_DRAWN, SQRT3, STEP, InputTolerance, build_plan
 from ..numerics.tolerances import Thermal, Tolerances
 from ..site.readings import readings
 from ..site.reconcile import solves_from_all
@@ -258,7 +258,8 @@ def visit_indicators(site: Site) -> VisitIndicators:
             try:
                 spreads[key] = made = _spread(net, given, find, tol, thermal,
                                               weighed if key == ("base", None) else None)
-                notes.extend(f"bands: {n}" for n in made.notes if f"bands: {n}" not in notes)
+                notes.extend(f"bands: {n}" for n in made.notes
+                             if f"bands: {n}" not in notes and n != CONDITION_NOT_DRAWN)
             except BranchwiseError as exc:
                 notes.append("no band for the visit's indicators: "
                              f"{getattr(exc, 'marked', '') or exc}")

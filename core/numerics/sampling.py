@@ -73,6 +73,13 @@ class InputTolerance:
         return self.half_width / SQRT3
 
 
+CONDITION_NOT_DRAWN = ("the pipes' condition is not drawn: under Hazen–Williams it is each "
+                       "line's C, which has no tolerance here (the roughness tolerance does not "
+                       "apply), so the bands leave out how far the lines have aged")
+"""A band's note under Hazen–Williams. Not for a history: there C is the line's record, the
+same at every visit, and an aging line is what its trends are for."""
+
+
 @dataclass(frozen=True)
 class SamplingPlan:
     """The inputs to draw for one solve, and the map from standard draws to solved outputs.
@@ -204,9 +211,7 @@ def build_plan(
     sought = int(np.flatnonzero(base.seg_branch == x)[want.segment]) if want is not None else -1
     rough_model = network.friction not in ("hazen-williams", "laminar")
     if network.friction == "hazen-williams":
-        notes.append("the pipes' condition is not drawn: under Hazen–Williams it is each "
-                     "line's C, which has no tolerance here (the roughness tolerance does not "
-                     "apply), so the bands leave out how far the lines have aged")
+        notes.append(CONDITION_NOT_DRAWN)
     for b, br in enumerate(network.branches):
         segs = [int(s) for s in np.flatnonzero(base.seg_branch == b)]
 
@@ -251,16 +256,17 @@ def build_plan(
     return SamplingPlan(network, given, find, kept, thermal, tuple(notes))
 
 
-def target_note(network: Network, find: Find, tol: Tolerances) -> str | None:
-    """What a band of a found unknown says of its target flow when it is drawn as a meter's
-    reading (the default), for a reader who sizes a line to a design figure."""
-    if not isinstance(find, FindUnknown) or not tol.target_flow_measured:
+def target_note(plan: SamplingPlan, tol: Tolerances) -> str | None:
+    """What a band of a found unknown says of its target flow when the plan draws it as a
+    meter's reading (the default), for a reader who sizes a line to a design figure."""
+    target = next((i for i in plan.inputs if i.kind == "target"), None)
+    if target is None or not isinstance(plan.find, FindUnknown):
         return None
-    name = network.branches[network.index_of(find.branch)].name
+    name = plan.network.branches[plan.network.index_of(plan.find.branch)].name
     return (f"the target flow of '{name}' is drawn as a meter's reading "
-            f"(± {tol.flow_meter_percent:g} %); for a design figure set [tolerances] "
-            "target_flow_measured = false")
+            f"(± {tol.flow_meter_percent:g} %); for a design figure set "
+            "target_flow_measured = false in the site file's [tolerances]")
 
 
-__all__ = ["PRESSURE_DROP", "SQRT3", "STEP", "TOTAL_FLOW", "InputTolerance", "SamplingPlan",
-           "branch_flow", "build_plan"]
+__all__ = ["CONDITION_NOT_DRAWN", "PRESSURE_DROP", "SQRT3", "STEP", "TOTAL_FLOW",
+           "InputTolerance", "SamplingPlan", "branch_flow", "build_plan", "target_note"]

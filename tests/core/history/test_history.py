@@ -327,6 +327,26 @@ def test_what_the_bands_leave_out_is_said_at_each_visit():
     for v in history.visits:
         assert sum(said in n for n in v.solved.notes) == 1, v.solved.notes
     assert " ".join(to_text(history, "si").split()).count(f"Note: {said}") == 3
+    # today's band alone speaks of its target flow (the history holds a clamp-on as its
+    # target: a reading, as it is drawn)
+    assert not any("target flow" in n for v in history.visits for n in v.solved.notes)
+
+
+def test_the_history_does_not_call_its_changes_blind_to_aging_under_hazen_williams():
+    # Under Hazen–Williams today's band leaves the lines' C undrawn and says so; in a
+    # history C is the line's record, the same at every visit, and aging is what a trend
+    # flags: that note is not repeated at its visits.
+    from branchwise.core.numerics.sampling import CONDITION_NOT_DRAWN
+    from branchwise.core.site.read import DEMO_PATH
+
+    text = Path(DEMO_PATH).read_text(encoding="utf-8")
+    assert text.count('friction = "colebrook"') == 1
+    assert text.count('roughness = "0.0018 in"') == 1  # the AHU-3 coil: no material, no C
+    text = text.replace('friction = "colebrook"', 'friction = "hazen-williams"').replace(
+        'roughness = "0.0018 in"', 'roughness = "0.0018 in"\nhw_c = 120')
+    history = history_of(parse_site(text))
+    assert history.trends
+    assert not any(CONDITION_NOT_DRAWN in n for v in history.visits for n in v.solved.notes)
 
 
 def test_three_visits_of_one_date_say_which_two_a_change_is_between():
