@@ -70,6 +70,7 @@ def segment_rows(
     """(branch, segment index, cells by column key) for every segment; the branch's own cells
     (name, tag, flow, band, share, valve loss) only on its first segment's row."""
     q = units_for(reader).number
+    valves = [b.valve_kv is not None for b in sr.result.network.branches]  # blank without one
 
     for i, b in enumerate(sr.result.branches):
         for j, s in enumerate(b.segments):
@@ -87,7 +88,7 @@ def segment_rows(
                     "branch": b.name, "tag": _tag(sr.site, i), "flow": q(b.flow, "flow"),
                     "band": band.flow_band_cell(sr, b.name, reader),
                     "share": format_number(b.share * 100, 3) if math.isfinite(b.share) else "",
-                    "valve": q(b.valve_loss, "head") if b.valve_loss else "",
+                    "valve": q(b.valve_loss, "head") if valves[i] else "",
                 })
             yield b, j, cells
 

@@ -73,8 +73,8 @@ class CsvColumn:
 
 def _valve_loss(sr: SiteResult) -> Callable[[int, BranchResult, int, SegmentResult],
                                             float | None]:
-    """A branch's valve loss, blank for a branch with no valve (as the other reports: a 0 would
-    read as a valve that loses nothing)."""
+    """A branch's valve loss, blank for a branch with no valve (as the other reports and the
+    app: a 0 would read as a valve that loses nothing)."""
     branches = sr.result.network.branches
 
     def get(i: int, b: BranchResult, j: int, s: SegmentResult) -> float | None:

@@ -219,7 +219,8 @@ class ResultViews(Vertical):
         rows: list[list[str | Text]] = []
         number = app.units.number  # (the reader's units, looked up once for every cell)
         bar = (colour(self.app, "text-primary"), f"bold {colour(self.app, 'text-error')}")
-        for br in result.branches:
+        valves = [b.valve_kv is not None for b in result.network.branches]
+        for br, valve in zip(result.branches, valves, strict=True):
             for j, seg in enumerate(br.segments):
                 first = j == 0
                 rows.append([
@@ -232,8 +233,7 @@ class ResultViews(Vertical):
                     REGIMES.get(seg.regime, seg.regime),
                     number(seg.major_loss, "head", 3),
                     number(seg.minor_loss, "head", 3),
-                    number(br.valve_loss, "head", 3)
-                    if first and br.valve_loss else "",
+                    number(br.valve_loss, "head", 3) if first and valve else "",
                 ])
         table.show(columns, rows)
         fluid = result.network.fluid
