@@ -22,7 +22,7 @@ from ..site.spec import Site
 from ..site.visits import naming_visit, today_has_reading, visit_date, visit_site
 from .guard import Row, trendable
 from .indicators import INDICATORS, VisitIndicators, visit_indicators
-from .trends import Trend, trends_of
+from .trends import Trend, places_of, trends_of
 
 RESISTANCE_UNIT = "m/(m³/s)²"
 """R = h/Q² in SI: metres of the liquid's head per (m³/s)² (= s²/m⁵)."""
@@ -43,10 +43,20 @@ class Visit:
     solved: VisitIndicators
     own_temperature: bool = False
     """The visit gave the liquid's temperature of that day (its values are at it)."""
+    place: tuple[int, int] = (1, 1)
+    """Its place among the visits of its date, in the order taken (nth, of)."""
 
     @property
     def today(self) -> bool:
         return self.field == "conditions"
+
+    @property
+    def heading(self) -> str:
+        """Its date as a heading: with its place when the day held several visits (the flags
+        of changes name a visit so), and "(today)" for today's."""
+        nth, of = self.place
+        place = f" (visit {nth} of {of} that day)" if of > 1 else ""
+        return f"{self.label}{place}{' (today)' if self.today and self.label != TODAY else ''}"
 
 
 @dataclass(frozen=True)
@@ -113,6 +123,7 @@ def history_of(site: Site) -> History:
         visits.append(replace(visit, solved=solved))
         rows.append(row)
     dates = [v.label for v in visits]
+    visits = [replace(v, place=p) for v, p in zip(visits, places_of(dates), strict=True)]
     return History(site.title, tuple(visits), tuple(trends_of(dates, rows)))
 
 

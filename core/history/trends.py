@@ -194,7 +194,7 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
     """The trends of every branch and indicator. ``dates``: each visit's date as shown, in
     order; ``branches``: per visit, per branch, (name, {indicator: value or None}), with
     ``solved_flow`` beside ``flow`` (the solve's, for a trend of solved flows)."""
-    places = _places(dates)
+    places = places_of(dates)
     names: list[str] = []
     for visit in branches:
         names += [n for n, _ in visit if n not in names]
@@ -220,7 +220,7 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
     return out
 
 
-def _places(dates: Sequence[str]) -> list[tuple[int, int]]:
+def places_of(dates: Sequence[str]) -> list[tuple[int, int]]:
     """Each visit's place among the visits of its date, in the order taken: (nth, of)."""
     counts = Counter(dates)
     seen: Counter[str] = Counter()

@@ -85,8 +85,7 @@ def visit_lines(v: Visit, u: Units) -> list[str]:
     given = ("every reading weighed (reconciled pressure drop "
              f"{u.quantity(sr.result.pressure_drop, 'pressure')})" if every
              else given_text(sr, u))
-    head = f"{v.label}{' (today)' if v.today and v.label != 'today' else ''}"
-    out = [f"{head}{' · ' + v.technician if v.technician else ''} · solved from {given}"]
+    out = [f"{v.heading}{' · ' + v.technician if v.technician else ''} · solved from {given}"]
     read = [f"{reading_words(r.kind, r.name)} {u.quantity(r.value, _qkind(r.kind))}"
             for r in v.solved.readings]
     out.append("Read: " + "; ".join(read))

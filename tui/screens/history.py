@@ -144,8 +144,7 @@ class HistoryScreen(WorkScreen):
         if h is None:
             put(visits, "Visits: … working them out")
             return
-        put(visits, "Visits: " + " · ".join(
-            f"{v.label}{' (today)' if v.today and v.label != 'today' else ''}" for v in h.visits))
+        put(visits, "Visits: " + " · ".join(v.heading for v in h.visits))
         if self.by_visit:
             self._by_visit(h, u, table, what)
         else:
@@ -227,7 +226,7 @@ class HistoryScreen(WorkScreen):
         names = [b.name for b in h.visits[-1].solved.branches]
         rows: list[list[Cell]] = []
         for v in h.visits:
-            cells: list[Cell] = [v.label]
+            cells: list[Cell] = [v.heading]
             for name in names:
                 b = next((x for x in v.solved.branches if x.name == name), None)
                 ind = b.get(self.indicator) if b is not None else None

@@ -363,3 +363,18 @@ def test_three_visits_of_one_date_say_which_two_a_change_is_between():
     assert any("between visits 1 and 3 of 2024-09-18" in m for m in coil), coil
     assert any("between visits 2 and 3 of 2024-09-18" in m for m in coil), coil
     assert not any("between two visits on" in m for m in coil), coil
+
+
+def test_a_visit_of_a_day_of_several_is_headed_with_its_place():
+    # The flags name "2024-09-18 (visit 2 of 2 that day)": the visit's own lines say the same.
+    from branchwise.core.report.history_report import visit_lines
+    from branchwise.core.site.read import DEMO_PATH
+    from branchwise.core.units import units_for
+
+    text = Path(DEMO_PATH).read_text(encoding="utf-8").replace("2025-01-15", "2024-09-18")
+    history = history_of(parse_site(text))
+    heads = [visit_lines(v, units_for("si"))[0] for v in history.visits]
+    assert heads[0].startswith("2024-09-18 (visit 1 of 2 that day) · ")
+    assert heads[1].startswith("2024-09-18 (visit 2 of 2 that day) · ")
+    assert heads[2].startswith("2025-03-12 (today) · ")
+    assert [v.date for v in history.visits][:2] == ["2024-09-18"] * 2  # the JSON's dates
