@@ -55,7 +55,15 @@ class Visit:
         """Its date as a heading: with its place when the day held several visits (the flags
         of changes name a visit so), and "(today)" for today's."""
         nth, of = self.place
-        place = f" (visit {nth} of {of} that day)" if of > 1 else ""
+        return self._dated(f" (visit {nth} of {of} that day)" if of > 1 else "")
+
+    @property
+    def short(self) -> str:
+        """The heading in few words, for a list of the visits: "2024-09-18 (2 of 2)"."""
+        nth, of = self.place
+        return self._dated(f" ({nth} of {of})" if of > 1 else "")
+
+    def _dated(self, place: str) -> str:
         return f"{self.label}{place}{' (today)' if self.today and self.label != TODAY else ''}"
 
 

@@ -144,7 +144,7 @@ class HistoryScreen(WorkScreen):
         if h is None:
             put(visits, "Visits: … working them out")
             return
-        put(visits, "Visits: " + " · ".join(v.heading for v in h.visits))
+        put(visits, "Visits: " + " · ".join(v.short for v in h.visits))
         if self.by_visit:
             self._by_visit(h, u, table, what)
         else:

@@ -378,3 +378,6 @@ def test_a_visit_of_a_day_of_several_is_headed_with_its_place():
     assert heads[1].startswith("2024-09-18 (visit 2 of 2 that day) · ")
     assert heads[2].startswith("2025-03-12 (today) · ")
     assert [v.date for v in history.visits][:2] == ["2024-09-18"] * 2  # the JSON's dates
+    # the History screen's list of visits, in few words (it fits 80 columns)
+    assert [v.short for v in history.visits] == [
+        "2024-09-18 (1 of 2)", "2024-09-18 (2 of 2)", "2025-03-12 (today)"]
