@@ -264,8 +264,8 @@ def target_note(plan: SamplingPlan, tol: Tolerances) -> str | None:
         return None
     name = plan.network.branches[plan.network.index_of(plan.find.branch)].name
     return (f"the target flow of '{name}' is drawn as a meter's reading "
-            f"(± {tol.flow_meter_percent:g} %); for a design figure set "
-            "target_flow_measured = false in the site file's [tolerances]")
+            f"(± {tol.flow_meter_percent:g} %); for a design figure, say so in the "
+            "tolerances (target_flow_measured = false)")
 
 
 __all__ = ["CONDITION_NOT_DRAWN", "PRESSURE_DROP", "SQRT3", "STEP", "TOTAL_FLOW",

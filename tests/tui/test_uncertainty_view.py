@@ -227,7 +227,7 @@ def test_curve_and_tolerances(ui, tmp_path):
             await pilot.press("tab", "tab")
             assert app.focused is meter.input
             await ui.type(pilot, "5")
-            # Enter goes field by field (a form); the last, the valve's Kv/Cv, keeps it.
+            # Enter goes field by field (a form); the last, the target flow's kind, keeps it.
             await pilot.press("enter")
             assert isinstance(app.screen, TolerancesScreen)
             # The header's own meter: as the flow meter unless typed (a magmeter's 0.5 %).
@@ -240,11 +240,25 @@ def test_curve_and_tolerances(ui, tmp_path):
             assert "10 % · common practice" in valve.input.placeholder  # core's default
             await pilot.press(*["enter"] * 6)
             assert app.focused is valve.input
+            # A found unknown's target flow: a meter's reading unless called a design figure
+            # (then not drawn in its band).
+            await pilot.press("enter")
+            target = dialog.query_one("#tol-target_flow_measured", Field)
+            assert app.focused is target.input and target.text == ""
+            assert target.input.placeholder == "a reading: drawn as the meter"
+            await ui.type(pilot, "maybe")
+            await pilot.press("enter")
+            await ui.settle(pilot)
+            assert target.has_class("-error") and app.focused is target.input
+            assert "type reading (a meter's" in " ".join(ui.text(app).split())
+            await pilot.press(*["backspace"] * 5)
+            await ui.type(pilot, "design")
             await pilot.press("enter")
             await ui.settle(pilot)
             assert not isinstance(app.screen, TolerancesScreen)
             assert app.site.tolerances.flow_meter_accuracy == "5 %"
             assert app.site.tolerances.total_flow_meter_accuracy == "0.5 %"
+            assert app.site.tolerances.target_flow_measured is False
             assert app.session.undo_stack[-1].label == "Tolerances"
 
             # Nonsense is refused beside its field, and the site keeps its values.
@@ -274,6 +288,7 @@ def test_curve_and_tolerances(ui, tmp_path):
             await ui.settle(pilot)
             saved = site_file.read_text(encoding="utf-8")
             assert 'flow_meter_accuracy = "5 %"' in saved
+            assert "target_flow_measured = false" in saved
             assert "# of full scale: a class 1 differential gauge" in saved
             assert load_site(site_file).tolerances.flow_meter_accuracy == "5 %"
             await pilot.press("ctrl+z")

@@ -45,10 +45,15 @@ ROWS = (
     ("temperature", "Temperature ±", "K"),
     ("fitting_k", "Fitting K ±", "%"),
     ("valve_kv", "Valve Kv/Cv ±", "%"),
+    ("target_flow_measured", "Target flow is", "reading/design"),
 )
-NO_FIGURE = frozenset({"gauge_full_scale", "total_flow_meter_accuracy"})
-"""Rows whose default is no common-practice figure: none at all (the gauge's full scale), or
-another row's value (the total-flow meter's): their hint says only that, and fits at 80×24."""
+NO_FIGURE = frozenset({"gauge_full_scale", "total_flow_meter_accuracy", "target_flow_measured"})
+"""Rows whose default is no common-practice figure: none at all (the gauge's full scale),
+another row's value (the total-flow meter's), or a choice (a found unknown's target flow, a
+reading or a design figure): their hint says only that, and fits at 80×24."""
+TARGET_WORDS = {True: "reading", False: "design"}
+"""How the form writes ``target_flow_measured``: a reading (drawn with the flow meter's
+tolerance in the band of a found unknown) or a design figure (not drawn)."""
 INTRO = ("± limits on the readings and the records: they set the band (b) and weigh the "
          "readings against each other. Grey values are common practice, not a standard: type "
          "the site's own to replace them.")
@@ -71,6 +76,7 @@ def defaults() -> dict[str, str]:
         "temperature": f"{d.temperature_k:g} K",
         "fitting_k": f"{d.fitting_k_percent:g} %",
         "valve_kv": f"{d.valve_kv_percent:g} %",
+        "target_flow_measured": f"a {TARGET_WORDS[d.target_flow_measured]}: drawn as the meter",
     }
 
 
@@ -114,6 +120,9 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
         pair = spec.roughness_factor or [None, None]
         typed = {key: text_of(getattr(spec, key, None)) for key, _, _ in ROWS}
         typed["roughness_low"], typed["roughness_high"] = (text_of(v) for v in (pair + [None])[:2])
+        measured = spec.target_flow_measured
+        typed["target_flow_measured"] = (TARGET_WORDS[measured] if isinstance(measured, bool)
+                                         else text_of(measured))
         base = defaults()
         with Vertical():
             yield Label("Tolerances", classes="tol-title")
@@ -170,6 +179,7 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
         if bool(low) != bool(high):
             empty = "roughness_low" if not low else "roughness_high"
             raise InputError(f"tolerances.{empty}", "", "give both ends of the factor, or neither")
+        spec.target_flow_measured = _target(self._text("target_flow_measured"))
         spec.roughness_factor = None
         if low:
             factor: list[Value] = [_tidy(number(text, f"tolerances.roughness_{end}"))
@@ -250,6 +260,20 @@ class TolerancesScreen(Dialog[TolerancesSpec | None]):
 
     def action_cancel(self) -> None:
         self.dismiss(None)
+
+
+def _target(text: str) -> bool | None:
+    """The target-flow row: 'reading' or 'design' (as the file's true or false), '' for the
+    default; anything else refused, naming the field."""
+    word = text.strip().casefold()
+    if not word:
+        return None
+    for measured, name in TARGET_WORDS.items():
+        if name.startswith(word) or word == str(measured).casefold():
+            return measured
+    raise InputError("tolerances.target_flow_measured", text,
+                     "type reading (a meter's, drawn with its tolerance) or design (a figure "
+                     "to size to, not drawn)")
 
 
 def _tidy(number: float) -> float | int:
