@@ -195,7 +195,9 @@ def build_plan(
     x = network.index_of(want.branch) if want is not None else -1
     if want is not None and tol.target_flow_measured:
         name = network.branches[x].name
-        inputs.append(InputTolerance(f"flow meter on branch '{name}' (target)", "target", meter))
+        # named target first: a ranking cut to its column keeps what it is
+        inputs.append(InputTolerance(f"target flow of branch '{name}' (a meter's reading)",
+                                     "target", meter))
     if tol.temperature_k > 0 and thermal is None:
         notes.append("temperature tolerance not applied: no model of ν and ρ against "
                      "temperature was given")

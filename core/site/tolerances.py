@@ -128,8 +128,10 @@ def build_tolerances(spec: TolerancesSpec, network: Network, given: Given,
         kw["gauge_full_scale"] = full
     if (value := spec.target_flow_measured) is not None:
         if not isinstance(value, bool):
+            quoted = isinstance(value, str) and value.strip().casefold() in ("true", "false")
             raise InputError(f"{path}.target_flow_measured", describe(value),
-                             "must be true or false")
+                             "must be true or false without quotes (a TOML true or false, "
+                             "not text)" if quoted else "must be true or false")
         kw["target_flow_measured"] = value
     if spec.roughness_factor is not None:
         kw["roughness_factor"] = _pair_numbers(spec.roughness_factor,

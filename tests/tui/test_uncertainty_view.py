@@ -402,3 +402,13 @@ def test_a_band_cut_at_freezing_says_so_in_full_at_80_columns(ui, tmp_path):
             assert "temperature drawn over 0 °C – 2.5 °C only" in flat and "freezes at 0 °C" in flat
 
     ui.run(scenario)
+
+
+def test_a_spread_below_what_is_shown_is_no_minus_zero():
+    """A flow every draw gives alike (a design target) read "−0.0 % … −0.0 %": a round-off
+    below a twentieth of a percent is "+0.0 %", and no spread at all is said so."""
+    from branchwise.tui.widgets.bandview import HELD, _signed_percent
+
+    assert _signed_percent(-1.7e-16) == _signed_percent(-0.04) == "+0.0 %"
+    assert _signed_percent(-2.74) == "−2.7 %" and _signed_percent(2.74) == "+2.7 %"
+    assert HELD == "held: no spread"

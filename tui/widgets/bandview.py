@@ -69,7 +69,13 @@ def short_name(name: str) -> str:
 
 
 def _signed_percent(value: float) -> str:
-    return f"{value:+.1f} %".replace("-", "−")
+    shown = round(value, 1) + 0.0  # no "−0.0 %" for a spread below a twentieth of a percent
+    return f"{shown:+.1f} %".replace("-", "−")
+
+
+HELD = "held: no spread"
+"""The P5 … P95 cell of a value every draw gives alike (a design target, a reading drawn
+with no tolerance)."""
 
 
 def band_body(app: Workspace, sr: SiteResult, wide: bool) -> Text:
@@ -92,8 +98,9 @@ def band_body(app: Workspace, sr: SiteResult, wide: bool) -> Text:
         cells = [app.fmt(v, kind, unit=False) for v in (b.nominal, b.p5, b.p50, b.p95)]
         spread = ""
         if b.nominal != 0 and all(v == v for v in (b.p5, b.p95)):  # NaN: no draw answered
-            spread = (f"{_signed_percent((b.p5 / b.nominal - 1) * 100)} … "
-                      f"{_signed_percent((b.p95 / b.nominal - 1) * 100)}")
+            low, high = (b.p5 / b.nominal - 1) * 100, (b.p95 / b.nominal - 1) * 100
+            spread = (HELD if max(abs(low), abs(high)) < 1e-9 else
+                      f"{_signed_percent(low)} … {_signed_percent(high)}")
         rows.append([label, *cells, app.unit_text(kind), spread])
     out = _table(["", "Value", "P5", "P50", "P95", "", "P5 … P95"],
                  [False, True, True, True, True, False, False], rows)

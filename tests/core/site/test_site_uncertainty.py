@@ -153,6 +153,7 @@ BAD = [
     ('gauge_full_scale = "0 kPa"', "tolerances.gauge_full_scale", "positive"),
     ('gauge_full_scale = "250 m"', "tolerances.gauge_full_scale", "is not a pressure"),
     ("target_flow_measured = 1", "tolerances.target_flow_measured", "true or false"),
+    ('target_flow_measured = "false"', "tolerances.target_flow_measured", "without quotes"),
     ("roughness_factor = [2, 1]", "tolerances.roughness_factor", "0 < low ≤ high"),
     ("roughness_factor = [3]", "tolerances.roughness_factor", "pair"),
     ('roughness_factor = "3"', "tolerances.roughness_factor", "pair"),
