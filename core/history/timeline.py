@@ -22,7 +22,7 @@ from ..site.spec import Site
 from ..site.visits import naming_visit, today_has_reading, visit_date, visit_site
 from .guard import Row, trendable
 from .indicators import INDICATORS, VisitIndicators, visit_indicators
-from .trends import Trend, places_of, trends_of
+from .trends import Trend, place_words, places_of, trends_of
 
 RESISTANCE_UNIT = "m/(m³/s)²"
 """R = h/Q² in SI: metres of the liquid's head per (m³/s)² (= s²/m⁵)."""
@@ -54,8 +54,7 @@ class Visit:
     def heading(self) -> str:
         """Its date as a heading: with its place when the day held several visits (the flags
         of changes name a visit so), and "(today)" for today's."""
-        nth, of = self.place
-        return self._dated(f" (visit {nth} of {of} that day)" if of > 1 else "")
+        return self._dated(place_words(*self.place))
 
     @property
     def short(self) -> str:

@@ -69,9 +69,7 @@ class Point:
     @property
     def words(self) -> str:
         """The visit in words: its date, and which visit of that day when it had several."""
-        if self.of == 1:
-            return self.date
-        return f"{self.date} (visit {self.nth} of {self.of} that day)"
+        return self.date + place_words(self.nth, self.of)
 
 
 @dataclass(frozen=True)
@@ -218,6 +216,12 @@ def trends_of(dates: Sequence[str], branches: Sequence[Sequence[tuple[str, dict[
                 change(previous.indicator, last.indicator, previous.words),
                 last.visit == len(dates) - 1))
     return out
+
+
+def place_words(nth: int, of: int) -> str:
+    """A visit's place among the visits of its date, to follow the date: " (visit 2 of 2 that
+    day)"; nothing on a day of one visit."""
+    return f" (visit {nth} of {of} that day)" if of > 1 else ""
 
 
 def places_of(dates: Sequence[str]) -> list[tuple[int, int]]:

@@ -258,7 +258,7 @@ def build_plan(
     return SamplingPlan(network, given, find, kept, thermal, tuple(notes))
 
 
-def target_note(plan: SamplingPlan, tol: Tolerances) -> str | None:
+def target_note(plan: SamplingPlan) -> str | None:
     """What a band of a found unknown says of its target flow when the plan draws it as a
     meter's reading (the default), for a reader who sizes a line to a design figure."""
     target = next((i for i in plan.inputs if i.kind == "target"), None)
@@ -266,7 +266,7 @@ def target_note(plan: SamplingPlan, tol: Tolerances) -> str | None:
         return None
     name = plan.network.branches[plan.network.index_of(plan.find.branch)].name
     return (f"the target flow of '{name}' is drawn as a meter's reading "
-            f"(± {tol.flow_meter_percent:g} %); for a design figure, say so in the "
+            f"(± {target.half_width * 100:g} %); for a design figure, say so in the "
             "tolerances (target_flow_measured = false)")
 
 

@@ -125,7 +125,7 @@ def monte_carlo(
     nominal = solve(network, given, find)
     plan = build_plan(network, given, find, tol, thermal, given_sigma)
     notes, n_in = list(plan.notes), len(plan.inputs)
-    if (target := target_note(plan, tol)) is not None:
+    if (target := target_note(plan)) is not None:
         notes.append(target)
     size = chunk_rows(len(Layout.from_network(network).diameter), n_in)
     total_rows = samples + 2 * n_in

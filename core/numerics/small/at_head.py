@@ -54,7 +54,7 @@ heads, say): a network is frozen, and its rows are never written to."""
 
 
 def _row(br: Branch, nu: float, g: float) -> Row:
-    kv = br.valve_kv
+    kv = br.valve_kv  # (most branches have no valve: the call is spared them)
     valve_r = 0.0 if kv is None else valve_resistance(kv, g)
     segs = br.segments
     if len(segs) == 1:

@@ -140,8 +140,6 @@ def build_result(
     flows: list[float], solved: Solved | None, conv: Convergence,
 ) -> Result:
     """The Result from each branch's pipe in its last state, carrying ``flows`` (signed)."""
-    if not _isfinite(head):
-        raise Fallback("head")
     columns = Columns()
     for p, q in zip(pipes, flows, strict=True):
         columns.add_pipe(p, q)
